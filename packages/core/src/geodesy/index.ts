@@ -1,0 +1,3 @@
+export * from './ellipsoid.js';
+export * from './geodetic.js';
+export * from './enu.js';
