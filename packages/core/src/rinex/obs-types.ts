@@ -55,6 +55,13 @@ export interface ObsHeader {
   readonly comments: readonly string[];
   /** Number of header lines (the first epoch record starts on line headerLines + 1). */
   readonly headerLines: number;
+  /** REC # / TYPE / VERS: firmware version (third field). Optional: added by the obs reader. */
+  readonly receiverVersion?: string;
+  /**
+   * Header lines (80 columns, label included) of records the model does not interpret (PGM / RUN BY / DATE,
+   * OBSERVER / AGENCY, MARKER TYPE, SIGNAL STRENGTH UNIT...), in file order, for writing back. Optional.
+   */
+  readonly otherRecords?: readonly string[];
 }
 
 /** Loss of lock indicator bits, decoded (RINEX 2.11 5.1 / RINEX 3.05 5.3 table). */
@@ -92,6 +99,11 @@ export interface ObsEpoch {
   readonly tagGpsS: number;
   /** Epoch flag 0-6. */
   readonly flag: number;
+  /**
+   * True when the file left the epoch fields blank (allowed for event flags 2-5, RINEX 2.11 / 3.05 epoch
+   * record): `tagGpsS` then repeats the previous epoch's tag (NaN before the first). Optional.
+   */
+  readonly tagWasBlank?: boolean;
   /** Receiver clock offset (s) when the file gives it. */
   readonly receiverClockOffsetS: number | null;
   /** 1-based line of the epoch record. */

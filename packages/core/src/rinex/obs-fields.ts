@@ -1,0 +1,91 @@
+/**
+ * Fixed-column number parsing on charCodeAt, without substring + parseFloat (the reader's hot path).
+ * A field is blank (-> NaN), a decimal number (Fortran F/I edit descriptors, RINEX 3.05 section 3),
+ * or, rarely, has an exponent (E or D, Fortran): then parseFloat on the slice is used.
+ * A field that is none of these sets `fieldState.bad` (the caller reports the line).
+ */
+
+/** Set to true by a parse of a garbled field; the caller clears it before a record and checks after. */
+export const fieldState = { bad: false };
+
+const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16];
+
+/**
+ * Number in columns [start, end) (0-based, end exclusive, clipped to the line). Blank -> NaN.
+ * The mantissa is accumulated as an integer and divided once by a power of ten, which gives the
+ * correctly rounded double (both exact when below 2^53), the same as parseFloat.
+ */
+export function parseFixed(line: string, start: number, end: number): number {
+  const n = line.length < end ? line.length : end;
+  let i = start;
+  while (i < n && line.charCodeAt(i) === 32) i++;
+  if (i >= n) return NaN;
+  let neg = false;
+  let c = line.charCodeAt(i);
+  if (c === 45) { neg = true; i++; } else if (c === 43) i++;
+  let mant = 0;
+  let digits = 0;
+  let frac = 0;
+  let seenDot = false;
+  for (; i < n; i++) {
+    c = line.charCodeAt(i);
+    if (c >= 48 && c <= 57) {
+      mant = mant * 10 + (c - 48);
+      digits++;
+      if (seenDot) frac++;
+    } else if (c === 46 && !seenDot) {
+      seenDot = true;
+    } else break;
+  }
+  if (i < n) {
+    if (c === 69 || c === 101 || c === 68 || c === 100) return parseSlow(line, start, n);
+    // trailing blanks are allowed, anything else is garbage
+    for (; i < n; i++) {
+      if (line.charCodeAt(i) !== 32) { fieldState.bad = true; return NaN; }
+    }
+  }
+  if (digits === 0) { fieldState.bad = true; return NaN; }
+  if (digits > 15) return parseSlow(line, start, n);
+  const v = frac === 0 ? mant : mant / POW10[frac]!;
+  return neg ? -v : v;
+}
+
+function parseSlow(line: string, start: number, end: number): number {
+  const s = line.slice(start, end).trim().replace(/[dD]/, 'E');
+  if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) { fieldState.bad = true; return NaN; }
+  return parseFloat(s);
+}
+
+/** Integer in columns [start, end); blank -> NaN; garbage sets fieldState.bad. */
+export function parseIntField(line: string, start: number, end: number): number {
+  const n = line.length < end ? line.length : end;
+  let i = start;
+  while (i < n && line.charCodeAt(i) === 32) i++;
+  if (i >= n) return NaN;
+  let neg = false;
+  let c = line.charCodeAt(i);
+  if (c === 45) { neg = true; i++; } else if (c === 43) i++;
+  let v = 0;
+  let digits = 0;
+  for (; i < n; i++) {
+    c = line.charCodeAt(i);
+    if (c >= 48 && c <= 57) { v = v * 10 + (c - 48); digits++; } else break;
+  }
+  for (; i < n; i++) if (line.charCodeAt(i) !== 32) { fieldState.bad = true; return NaN; }
+  if (digits === 0) { fieldState.bad = true; return NaN; }
+  return neg ? -v : v;
+}
+
+/** A single digit at column `col` (LLI, SSI, flag): 0 for blank or absent; -1 for a non-digit. */
+export function digitAt(line: string, col: number): number {
+  if (col >= line.length) return 0;
+  const c = line.charCodeAt(col);
+  if (c === 32) return 0;
+  if (c >= 48 && c <= 57) return c - 48;
+  return -1;
+}
+
+/** Columns [start, end) trimmed (header text fields). */
+export function textField(line: string, start: number, end: number): string {
+  return line.slice(start, end).trim();
+}

@@ -1,0 +1,422 @@
+/**
+ * RINEX observation reader: versions 2.10/2.11 (RINEX 2.11, IGS/RTCM 2012, section 5 and table A2),
+ * 3.02-3.05 (RINEX 3.05, IGS/RTCM 2020, section 5.3 and table A3) and 4.00 (RINEX 4.00, IGS/RTCM 2021,
+ * table A3: the observation record layout is that of 3.05).
+ *
+ * Reads the header fully, then hands out epochs one at a time (memory bounded by one chunk + one epoch).
+ * Garbled or truncated epochs are reported as warnings naming the file and line and skipped; reading
+ * resumes at the next recognisable epoch record.
+ */
+import type { GnssSystem, SatId } from '../types.js';
+import { isGnssSystem } from '../types.js';
+import { FormatError, InputError, RefdeltaError } from '../errors.js';
+import type { Warning, WarningSink } from '../errors.js';
+import { daysFromCivil, toGpsS } from '../time/index.js';
+import type { TimeSystem } from '../time/index.js';
+import type { AntennaOffset, HeaderEvent, ObsEpoch, ObsHeader, ObsStream, SatObservations } from './obs-types.js';
+import { LineCursor } from './text-lines.js';
+import { digitAt, fieldState, parseFixed, parseIntField } from './obs-fields.js';
+import { ObsHeaderBuilder, headerLabel, parseVersionLine } from './obs-header.js';
+
+export interface ReadObsOptions {
+  readonly onWarning?: WarningSink;
+}
+
+/** Days from 1970-01-01 to the GPS epoch 1980-01-06. */
+const GPS_EPOCH_UNIX_DAYS = 3657;
+const EVENT_KINDS: Readonly<Record<number, HeaderEvent['kind']>> = {
+  1: 'power-failure', 2: 'start-moving', 3: 'new-occupation', 4: 'header-info', 5: 'external-event',
+};
+
+/** Reads the header of a RINEX observation text and returns it with a lazy epoch iterable. */
+export async function readObsStream(file: string, text: AsyncIterable<string>, opts?: ReadObsOptions): Promise<ObsStream> {
+  const warn: WarningSink = opts?.onWarning ?? (() => {});
+  const cur = new LineCursor(text);
+  let first = await cur.next();
+  if (first === null) throw new FormatError(file, 0, `${file} is empty, not a RINEX observation file`);
+  if (first.charCodeAt(0) === 0xfeff) first = first.slice(1);
+  const v = parseVersionLine(file, first);
+  const hb = new ObsHeaderBuilder(file, v.version, v.systemField, warn);
+  for (;;) {
+    let line = cur.take();
+    if (line === undefined) line = await cur.next();
+    if (line === null) throw new InputError(file, cur.lineNumber, "the file ends inside the header: expected the record 'END OF HEADER'");
+    const label = headerLabel(line);
+    if (label === 'END OF HEADER') break;
+    if (label === '' && (v.version >= 3 ? line.charCodeAt(0) === 62 : looksLikeR2Epoch(line))) {
+      warn({ file, line: cur.lineNumber, code: 'missing-header-record', message: "the header has no 'END OF HEADER' record: data assumed to start here" });
+      cur.unread(line);
+      break;
+    }
+    hb.line(line, cur.lineNumber);
+  }
+  const header = hb.build(cur.lineNumber);
+  const parser = new EpochParser(file, header, cur, warn);
+  return { file, header, epochs: parser.epochs() };
+}
+
+/** All epochs of a stream in an array (tests and small files; large files should iterate). */
+export async function collectEpochs(stream: ObsStream): Promise<ObsEpoch[]> {
+  const out: ObsEpoch[] = [];
+  for await (const e of stream.epochs) out.push(e);
+  return out;
+}
+
+/**
+ * A RINEX 2 epoch line: seconds F11.7 with the point in column 19, flag digit in column 29, blank
+ * columns 27-28 (RINEX 2.11 table A2); or, for event flags 2-5, blank epoch fields. Observation lines
+ * (F14.3 fields of 16 columns) have no point in column 19.
+ */
+export function looksLikeR2Epoch(line: string): boolean {
+  if (line.length < 29) return false;
+  const f = line.charCodeAt(28);
+  if (f < 48 || f > 54 || line.charCodeAt(26) !== 32 || line.charCodeAt(27) !== 32) return false;
+  if (line.charCodeAt(18) === 46) return line.charCodeAt(0) === 32;
+  return f >= 50 && f <= 53 && line.slice(0, 26).trim() === '';
+}
+
+class EpochParser {
+  private readonly r3: boolean;
+  private readonly codes: Partial<Record<GnssSystem, readonly string[]>>;
+  private readonly divisors: Partial<Record<GnssSystem, Float64Array | null>> = {};
+  private readonly ts: TimeSystem;
+  private prevTagGpsS = NaN;
+  private dayKey = -1;
+  private dayBaseS = 0;
+  private readonly warnedSystems = new Set<string>();
+
+  constructor(
+    private readonly file: string,
+    private readonly header: ObsHeader,
+    private readonly cur: LineCursor,
+    private readonly warnSink: WarningSink,
+  ) {
+    this.r3 = header.version >= 3;
+    this.codes = { ...header.obsCodes };
+    this.ts = header.timeSystem;
+    for (const [s, list] of Object.entries(this.codes) as [GnssSystem, readonly string[]][]) this.setDivisors(s, list);
+  }
+
+  private setDivisors(s: GnssSystem, list: readonly string[]): void {
+    const t = this.header.scaleFactors[s];
+    if (t === undefined) { this.divisors[s] = null; return; }
+    const d = new Float64Array(list.length).fill(1);
+    let any = false;
+    list.forEach((c, i) => { const f = t[c]; if (f !== undefined && f !== 1) { d[i] = f; any = true; } });
+    this.divisors[s] = any ? d : null;
+  }
+
+  private warn(line: number, code: string, message: string): void {
+    const w: Warning = { file: this.file, line, code, message };
+    this.warnSink(w);
+  }
+
+  /** Next line, awaiting only at chunk boundaries. */
+  private async line(): Promise<string | null> {
+    const l = this.cur.take();
+    return l !== undefined ? l : this.cur.next();
+  }
+
+  async *epochs(): AsyncGenerator<ObsEpoch> {
+    try {
+      for (;;) {
+        let l = this.cur.take();
+        if (l === undefined) l = await this.cur.next();
+        if (l === null) return;
+        const lineNo = this.cur.lineNumber;
+        const isEpoch = this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l);
+        if (!isEpoch) {
+          if (l.trim() === '') continue; // blank lines between epochs: tolerated
+          await this.resync(lineNo, `expected an epoch record${this.r3 ? " starting with '>'" : ' (RINEX 2 epoch line)'}`);
+          continue;
+        }
+        const e = this.r3 ? await this.epoch3(l, lineNo) : await this.epoch2(l, lineNo);
+        if (e !== null) yield e;
+      }
+    } catch (err) {
+      if (err instanceof RefdeltaError) throw err;
+      throw new InputError(this.file, this.cur.lineNumber, `could not read the observation data (${err instanceof Error ? err.message : String(err)})`);
+    }
+  }
+
+  /** Skips lines up to the next recognisable epoch record, with one warning for the block skipped. */
+  private async resync(fromLine: number, reason: string): Promise<void> {
+    let last = fromLine;
+    for (;;) {
+      const l = await this.line();
+      if (l === null) break;
+      if (this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l)) { this.cur.unread(l); break; }
+      last = this.cur.lineNumber;
+    }
+    const span = last > fromLine ? `lines ${fromLine}-${last}` : `line ${fromLine}`;
+    this.warn(fromLine, 'bad-epoch-skipped', `${reason}; ${span} skipped up to the next epoch record`);
+  }
+
+  private tag(y: number, mo: number, d: number, h: number, mi: number, s: number): number {
+    const key = (y * 16 + mo) * 32 + d;
+    if (key !== this.dayKey) {
+      this.dayKey = key;
+      this.dayBaseS = (daysFromCivil(y, mo, d) - GPS_EPOCH_UNIX_DAYS) * 86_400;
+    }
+    return toGpsS(this.dayBaseS + h * 3600 + mi * 60 + s, this.ts);
+  }
+
+  private validDate(y: number, mo: number, d: number, h: number, mi: number, s: number): boolean {
+    return !fieldState.bad && mo >= 1 && mo <= 12 && d >= 1 && d <= 31 && h >= 0 && h <= 24 && mi >= 0 && mi <= 60 && s >= 0 && s < 61 && y > 1900;
+  }
+
+  /** RINEX 3/4 epoch record: '>', 1X, I4, 4(1X, I2.2), F11.7, 2X, I1, I3, 6X, F15.12 (RINEX 3.05 table A3). */
+  private async epoch3(l: string, lineNo: number): Promise<ObsEpoch | null> {
+    fieldState.bad = false;
+    const flag = digitAt(l, 31);
+    const n = parseIntField(l, 32, 35);
+    if (flag < 0 || flag > 6 || fieldState.bad || !(n >= 0)) {
+      await this.resync(lineNo, `garbled epoch record: expected flag 0-6 in column 32 and a satellite count (I3) in columns 33-35`);
+      return null;
+    }
+    const blank = l.slice(1, 29).trim() === '';
+    let tagGpsS = this.prevTagGpsS;
+    if (!blank || flag < 2 || flag > 5) {
+      const y = parseIntField(l, 2, 6), mo = parseIntField(l, 7, 9), d = parseIntField(l, 10, 12);
+      const h = parseIntField(l, 13, 15), mi = parseIntField(l, 16, 18), s = parseFixed(l, 18, 29);
+      if (!this.validDate(y, mo, d, h, mi, s)) {
+        await this.resync(lineNo, 'garbled epoch record: expected year, month, day, hour, minute (I4, 4 I2) and seconds (F11.7) in columns 3-29');
+        return null;
+      }
+      tagGpsS = this.tag(y, mo, d, h, mi, s);
+    }
+    const clk = parseFixed(l, 35, 80);
+    if (fieldState.bad) {
+      await this.resync(lineNo, 'garbled epoch record: expected the receiver clock offset (F15.12) in columns 42-56');
+      return null;
+    }
+    return this.body(l, lineNo, flag, n, tagGpsS, blank && flag >= 2 && flag <= 5, Number.isFinite(clk) ? clk : null, null);
+  }
+
+  /** RINEX 2 epoch line: 1X, I2.2, 4(1X, I2), F11.7, 2X, I1, I3, 12(A1, I2), F12.9 (RINEX 2.11 table A2). */
+  private async epoch2(l: string, lineNo: number): Promise<ObsEpoch | null> {
+    fieldState.bad = false;
+    const flag = digitAt(l, 28);
+    const n = parseIntField(l, 29, 32);
+    if (flag < 0 || flag > 6 || fieldState.bad || !(n >= 0)) {
+      await this.resync(lineNo, 'garbled epoch line: expected flag 0-6 in column 29 and a satellite count (I3) in columns 30-32');
+      return null;
+    }
+    const blank = l.slice(0, 26).trim() === '';
+    let tagGpsS = this.prevTagGpsS;
+    if (!blank || flag < 2 || flag > 5) {
+      const yy = parseIntField(l, 1, 3), mo = parseIntField(l, 4, 6), d = parseIntField(l, 7, 9);
+      const h = parseIntField(l, 10, 12), mi = parseIntField(l, 13, 15), s = parseFixed(l, 15, 26);
+      // RINEX 2.11 section 6.5: two-digit years 80-99 are 1980-1999, 00-79 are 2000-2079
+      const y = yy >= 80 ? 1900 + yy : 2000 + yy;
+      if (!(yy >= 0 && yy <= 99) || !this.validDate(y, mo, d, h, mi, s)) {
+        await this.resync(lineNo, 'garbled epoch line: expected year, month, day, hour, minute (5 I3) and seconds (F11.7) in columns 2-26');
+        return null;
+      }
+      tagGpsS = this.tag(y, mo, d, h, mi, s);
+    }
+    const clk = parseFixed(l, 68, 80);
+    if (fieldState.bad) {
+      await this.resync(lineNo, 'garbled epoch line: expected the receiver clock offset (F12.9) in columns 69-80');
+      return null;
+    }
+    let sats: SatId[] | null = null;
+    if (flag < 2 || flag > 5) {
+      sats = [];
+      let cl = l;
+      for (let i = 0; i < n; i++) {
+        const k = i % 12;
+        if (i > 0 && k === 0) {
+          const next = await this.line();
+          // continuation lines: 32X, 12(A1, I2) (RINEX 2.11 table A2)
+          if (next === null || looksLikeR2Epoch(next) || next.slice(0, 32).trim() !== '') {
+            if (next !== null) this.cur.unread(next);
+            this.warn(lineNo, 'bad-epoch-skipped', `epoch announces ${n} satellites but its satellite list continuation line is missing; epoch skipped`);
+            return null;
+          }
+          cl = next;
+        }
+        const sat = satId2(cl, 32 + 3 * k);
+        if (sat === null) {
+          await this.resync(lineNo, `garbled satellite list: expected ${n} satellites (A1, I2 each) from column 33`);
+          return null;
+        }
+        sats.push(sat);
+      }
+    }
+    return this.body(l, lineNo, flag, n, tagGpsS, blank && flag >= 2 && flag <= 5, Number.isFinite(clk) ? clk : null, sats);
+  }
+
+  private async body(
+    _l: string, lineNo: number, flag: number, n: number, tagGpsS: number, tagWasBlank: boolean,
+    clockS: number | null, sats2: SatId[] | null,
+  ): Promise<ObsEpoch | null> {
+    if (flag >= 2 && flag <= 5) {
+      const event = await this.eventRecords(lineNo, flag, n);
+      if (event === null) return null;
+      if (!tagWasBlank) this.prevTagGpsS = tagGpsS;
+      const e: ObsEpoch = { tagGpsS, flag, receiverClockOffsetS: clockS, line: lineNo, sats: [], event };
+      return tagWasBlank ? { ...e, tagWasBlank: true } : e;
+    }
+    const sats: SatObservations[] = [];
+    const ok = this.r3 ? await this.sats3(lineNo, n, sats) : await this.sats2(lineNo, sats2!, sats);
+    if (!ok) return null;
+    this.prevTagGpsS = tagGpsS;
+    const event: HeaderEvent | null = flag === 1 ? { kind: 'power-failure', comments: [] } : null;
+    return { tagGpsS, flag, receiverClockOffsetS: clockS, line: lineNo, sats, event };
+  }
+
+  /**
+   * The n RINEX 3 observation records of an epoch: A1, I2.2, m(F14.3, I1, I1) (RINEX 3.05 table A3).
+   * Lines are taken synchronously; await only at chunk boundaries. false = epoch skipped (warned).
+   */
+  private async sats3(epochLine: number, n: number, sats: SatObservations[]): Promise<boolean> {
+    const cur = this.cur;
+    for (let i = 0; i < n; i++) {
+      let l = cur.take();
+      if (l === undefined) l = await cur.next();
+      if (l === null || l.charCodeAt(0) === 62) {
+        if (l !== null) cur.unread(l);
+        this.warn(epochLine, 'bad-epoch-skipped', `epoch announces ${n} satellites but ${i} observation records follow${l === null ? ' (file ends)' : ''}; epoch skipped`);
+        return false;
+      }
+      const s = l.charAt(0);
+      const sat = isGnssSystem(s) ? satId3(l) : null;
+      if (sat === null) {
+        await this.resync(cur.lineNumber, 'garbled observation record: expected a satellite id (A1, I2) in columns 1-3');
+        return false;
+      }
+      const codes = this.codes[s as GnssSystem];
+      if (codes === undefined) {
+        this.noTypes(s, sat);
+        continue;
+      }
+      const r = this.values(l, 3, codes, s as GnssSystem, sat, 0, codes.length, null);
+      if (r === null) {
+        await this.resync(cur.lineNumber, `garbled observation record of ${sat}: expected F14.3 values with LLI and SSI digits`);
+        return false;
+      }
+      sats.push(r);
+    }
+    return true;
+  }
+
+  private noTypes(s: string, sat: SatId): void {
+    if (this.warnedSystems.has(s)) return;
+    this.warnedSystems.add(s);
+    this.warn(this.cur.lineNumber, 'no-obs-types', `satellite ${sat}: the header gives no observation types for system ${s}; its records are skipped`);
+  }
+
+  /** RINEX 2 observations of each listed satellite: 5 (F14.3, I1, I1) per line (RINEX 2.11 table A2). */
+  private async sats2(epochLine: number, list: readonly SatId[], sats: SatObservations[]): Promise<boolean> {
+    const cur = this.cur;
+    for (const sat of list) {
+      const s = sat.charAt(0) as GnssSystem;
+      const codes = this.codes[s];
+      const nCodes = codes?.length ?? 0;
+      const nLines = nCodes === 0 ? 1 : Math.ceil(nCodes / 5);
+      let out: SatObservations | null = null;
+      for (let j = 0; j < nLines; j++) {
+        let l = cur.take();
+        if (l === undefined) l = await cur.next();
+        if (l === null || looksLikeR2Epoch(l)) {
+          if (l !== null) cur.unread(l);
+          this.warn(epochLine, 'bad-epoch-skipped', `epoch's observation records end early at ${sat}${l === null ? ' (file ends)' : ''}; epoch skipped`);
+          return false;
+        }
+        if (codes === undefined) { this.noTypes(s, sat); break; }
+        const from = j * 5;
+        out = this.values(l, 0, codes, s, sat, from, Math.min(nCodes, from + 5), out);
+        if (out === null) {
+          await this.resync(cur.lineNumber, `garbled observation line of ${sat}: expected 5 fields of F14.3 + LLI + SSI`);
+          return false;
+        }
+      }
+      if (out !== null) sats.push(out);
+    }
+    return true;
+  }
+
+  /** Parses fields [from, to) of a satellite's list from `l` starting at column `col0`. null = garbled. */
+  private values(
+    l: string, col0: number, codes: readonly string[], s: GnssSystem, sat: SatId, from: number, to: number, into: SatObservations | null,
+  ): SatObservations | null {
+    const n = codes.length;
+    const r = into ?? { sat, codes, values: new Float64Array(n).fill(NaN), lli: new Uint8Array(n), ssi: new Uint8Array(n) };
+    const values = r.values as Float64Array, lli = r.lli as Uint8Array, ssi = r.ssi as Uint8Array;
+    const div = this.divisors[s];
+    fieldState.bad = false;
+    const len = l.length;
+    for (let k = from; k < to; k++) {
+      const c = col0 + 16 * (k - from);
+      if (c >= len) break;
+      const v = parseFixed(l, c, c + 14);
+      const a = digitAt(l, c + 14), b = digitAt(l, c + 15);
+      if (fieldState.bad || a < 0 || b < 0) return null;
+      values[k] = div != null ? v / div[k]! : v;
+      lli[k] = a;
+      ssi[k] = b;
+    }
+    return r;
+  }
+
+  /** The N header records that follow an event epoch (flags 2-5; RINEX 3.05 5.3.3 / RINEX 2.11 5.3). */
+  private async eventRecords(lineNo: number, flag: number, n: number): Promise<HeaderEvent | null> {
+    const hb = new ObsHeaderBuilder(this.file, this.header.version, this.header.systemField, this.warnSink);
+    for (let i = 0; i < n; i++) {
+      const l = await this.line();
+      if (l === null || (this.r3 && l.charCodeAt(0) === 62) || (!this.r3 && looksLikeR2Epoch(l) && headerLabel(l) === '')) {
+        if (l !== null) this.cur.unread(l);
+        this.warn(lineNo, 'bad-epoch-skipped', `event (flag ${flag}) announces ${n} header records but only ${i} follow; event skipped`);
+        return null;
+      }
+      hb.line(l, this.cur.lineNumber);
+    }
+    // A header-info event may redefine the observation types (RINEX 3.05 5.3.3): applied from here on.
+    if (hb.seen.has('SYS / # / OBS TYPES') || hb.seen.has('# / TYPES OF OBSERV')) {
+      for (const [s, list] of Object.entries(hb.obsCodes()) as [GnssSystem, string[]][]) {
+        this.codes[s] = list;
+        this.setDivisors(s, list);
+      }
+    }
+    const antennaOffset: AntennaOffset | null = hb.antennaOffset;
+    return {
+      kind: EVENT_KINDS[flag]!,
+      ...(hb.seen.has('MARKER NAME') ? { markerName: hb.markerName } : {}),
+      ...(hb.seen.has('MARKER NUMBER') ? { markerNumber: hb.markerNumber } : {}),
+      ...(antennaOffset !== null ? { antennaOffset } : {}),
+      ...(hb.approxPosition !== null ? { approxPosition: hb.approxPosition } : {}),
+      comments: hb.comments,
+    };
+  }
+}
+
+const SAT_CACHE = new Map<string, SatId>();
+
+/** RINEX 3 satellite id in columns 1-3 (A1, I2.2); null when not a system letter + two digits. */
+function satId3(l: string): SatId | null {
+  const key = l.slice(0, 3);
+  const hit = SAT_CACHE.get(key);
+  if (hit !== undefined) return hit;
+  return normaliseSat(key);
+}
+
+/** RINEX 2 satellite at column `col` (A1, I2; blank system = GPS, RINEX 2.11 5.1). */
+function satId2(l: string, col: number): SatId | null {
+  const key = l.slice(col, col + 3);
+  const hit = SAT_CACHE.get(key);
+  if (hit !== undefined) return hit;
+  return normaliseSat(key);
+}
+
+function normaliseSat(key: string): SatId | null {
+  if (key.length < 3) return null;
+  const s = key.charAt(0) === ' ' ? 'G' : key.charAt(0);
+  if (!isGnssSystem(s)) return null;
+  const d1 = key.charCodeAt(1), d2 = key.charCodeAt(2);
+  const t = d1 === 32 ? 48 : d1;
+  if (t < 48 || t > 57 || d2 < 48 || d2 > 57) return null;
+  const id = s + String.fromCharCode(t, d2);
+  if (SAT_CACHE.size < 4096) SAT_CACHE.set(key, id);
+  return id;
+}

@@ -1,0 +1,107 @@
+/**
+ * A line cursor over text that arrives as chunks with arbitrary boundaries.
+ *
+ * Chunks are pulled asynchronously, but lines already in the buffer are handed out synchronously:
+ * `take()` returns a line, `undefined` when the buffer holds no complete line yet (call `fill()`),
+ * or `null` at the end of the text. An `await` per line would cost a microtask per line; this way a
+ * reader awaits only at chunk boundaries. CRLF and CR-less final lines are handled; line numbers are
+ * 1-based (the number of the line last returned).
+ */
+export class LineCursor {
+  private buf = '';
+  private pos = 0;
+  private ended = false;
+  private readonly it: AsyncIterator<string>;
+  /** 1-based number of the line most recently returned by take() (0 before the first). */
+  lineNumber = 0;
+  /** A line put back with unread(): returned again by the next take(). */
+  private pending: string | null = null;
+
+  constructor(source: AsyncIterable<string>) {
+    this.it = source[Symbol.asyncIterator]();
+  }
+
+  /** Next line without its end-of-line; undefined = need fill(); null = end of text. */
+  take(): string | null | undefined {
+    if (this.pending !== null) {
+      const p = this.pending;
+      this.pending = null;
+      this.lineNumber++;
+      return p;
+    }
+    const buf = this.buf;
+    const nl = buf.indexOf('\n', this.pos);
+    if (nl < 0) {
+      if (!this.ended) return undefined;
+      if (this.pos >= buf.length) return null;
+      let line = buf.slice(this.pos);
+      this.pos = buf.length;
+      if (line.charCodeAt(line.length - 1) === 13) line = line.slice(0, -1);
+      this.lineNumber++;
+      return line;
+    }
+    const end = nl > this.pos && buf.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
+    const line = buf.slice(this.pos, end);
+    this.pos = nl + 1;
+    this.lineNumber++;
+    return line;
+  }
+
+  /** Puts the line just taken back, so the next take() returns it again (one line deep). */
+  unread(line: string): void {
+    this.pending = line;
+    this.lineNumber--;
+  }
+
+  /** Pulls one more chunk into the buffer. Returns false when the source is exhausted. */
+  async fill(): Promise<boolean> {
+    if (this.ended) return false;
+    const r = await this.it.next();
+    if (r.done) {
+      this.ended = true;
+      return false;
+    }
+    const chunk = typeof r.value === 'string' ? r.value : String(r.value);
+    this.buf = this.pos < this.buf.length ? this.buf.slice(this.pos) + chunk : chunk;
+    this.pos = 0;
+    return true;
+  }
+
+  /** Next line, awaiting more chunks as needed; null at the end. */
+  async next(): Promise<string | null> {
+    for (;;) {
+      const l = this.take();
+      if (l !== undefined) return l;
+      await this.fill();
+    }
+  }
+
+  /** Stops the source early (e.g. the consumer broke out of a loop). */
+  async close(): Promise<void> {
+    this.ended = true;
+    this.buf = '';
+    this.pos = 0;
+    if (this.it.return) await this.it.return();
+  }
+}
+
+/** Async iterable over the lines of the text (convenience; the readers use LineCursor directly). */
+export async function* textLines(source: AsyncIterable<string>): AsyncIterable<string> {
+  const c = new LineCursor(source);
+  for (;;) {
+    const l = await c.next();
+    if (l === null) return;
+    yield l;
+  }
+}
+
+/** Decodes byte chunks as UTF-8 text chunks (multi-byte characters split across chunks are kept whole). */
+export async function* decodeUtf8Chunks(bytes: AsyncIterable<Uint8Array>): AsyncIterable<string> {
+  const dec = new TextDecoder('utf-8');
+  for await (const b of bytes) {
+    const s = dec.decode(b, { stream: true });
+    if (s.length > 0) yield s;
+  }
+  const tail = dec.decode();
+  if (tail.length > 0) yield tail;
+}
