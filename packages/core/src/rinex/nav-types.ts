@@ -101,6 +101,8 @@ export interface SbasEphemeris {
   readonly health: number;
   readonly accuracyM: number;
   readonly iodn: number;
+  /** Transmission time of message (GPS s; RINEX 3.05 table A10 'Transmission time of message (start of the message) in GPS seconds of the week'), NaN when absent. Optional: added by the nav readers. */
+  readonly transmitGpsS?: number;
   readonly file: string;
   readonly line: number;
 }
@@ -132,4 +134,54 @@ export interface NavData {
   readonly ionosphere: IonosphereCoefficients;
   /** GPS - UTC leap seconds when the header gives them. */
   readonly leapSeconds: number | null;
+  /** Time-system offsets: RINEX 3 header TIME SYSTEM CORR, RINEX 2 DELTA-UTC / CORR TO SYSTEM TIME, RINEX 4 STO records. Optional: added by the nav readers. */
+  readonly systemTimeOffsets?: readonly SystemTimeOffset[];
+  /** Earth orientation parameters of RINEX 4 EOP records. Optional: added by the nav readers. */
+  readonly earthOrientation?: readonly EarthOrientation[];
+}
+
+/**
+ * A broadcast time-offset polynomial: offset(t) = a0 + a1 (t - ref) + a2 (t - ref)^2 (RINEX 3.04 section
+ * 5.4 'TIME SYSTEM CORR'; RINEX 4.00 STO record). The sign convention is the file's: code 'GPUT' gives
+ * GPS - UTC, 'GAGP' gives GAL - GPS, 'GLUT' gives -TauC (GLONASS to UTC), etc.
+ */
+export interface SystemTimeOffset {
+  /** 'GPUT', 'GAUT', 'GAGP', 'GPGA', 'GLUT', 'GLGP', 'BDUT', 'QZUT', 'QZGP', 'IRUT', 'IRGP', 'SBUT', ... as in the file. */
+  readonly code: string;
+  readonly a0S: number;
+  readonly a1SS: number;
+  readonly a2SS2: number;
+  /** Reference epoch of the polynomial (GPS s); NaN when the file gives none (e.g. GLUT with week 0). */
+  readonly refGpsS: number;
+  /** Transmission time (GPS s) for RINEX 4 STO records; NaN otherwise. */
+  readonly transmitGpsS: number;
+  /** Broadcasting satellite ('' for header records) and message type ('' for header records). */
+  readonly sat: SatId;
+  readonly message: string;
+  /** SBAS provider / UTC identifier as written ('' when absent). */
+  readonly sbasId: string;
+  readonly utcId: string;
+  readonly file: string;
+  readonly line: number;
+}
+
+/** Broadcast Earth orientation parameters (RINEX 4.00 EOP record: polar motion and UT1-UTC polynomials). */
+export interface EarthOrientation {
+  readonly sat: SatId;
+  readonly message: string;
+  /** Reference epoch (GPS s). */
+  readonly refGpsS: number;
+  /** Transmission time (GPS s), NaN when absent. */
+  readonly transmitGpsS: number;
+  readonly xpArcsec: number;
+  readonly xpRateArcsecPerDay: number;
+  readonly xpAccelArcsecPerDay2: number;
+  readonly ypArcsec: number;
+  readonly ypRateArcsecPerDay: number;
+  readonly ypAccelArcsecPerDay2: number;
+  readonly dut1S: number;
+  readonly dut1RateSPerDay: number;
+  readonly dut1AccelSPerDay2: number;
+  readonly file: string;
+  readonly line: number;
 }
