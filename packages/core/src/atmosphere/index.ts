@@ -1,0 +1,2 @@
+export * from './klobuchar.js';
+export * from './troposphere.js';

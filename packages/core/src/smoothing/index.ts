@@ -1,0 +1,2 @@
+export * from './hatch.js';
+export * from './clock-jump.js';
