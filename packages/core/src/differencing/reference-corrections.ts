@@ -1,0 +1,234 @@
+/**
+ * Reference-station corrections, kept over a sliding window of reference epochs.
+ *
+ * At each reference epoch k and satellite s with code type c, with the reference antenna at its known
+ * position X_ref (known coordinate + antenna offset):
+ *   C_k^s = P_ref^s - rho_ref^s + c dt^s - T_ref - I_ref - c dt_ref,k
+ * where rho_ref is the geometric range to the broadcast satellite position at transmission (with Earth
+ * rotation), dt^s the broadcast satellite clock, T and I the a-priori troposphere and ionosphere models at
+ * the reference, and dt_ref,k the reference receiver clock of that epoch (robust median over satellites).
+ * Removing the receiver clock first makes C smooth in time even when the receiver clock jumps by
+ * milliseconds, so C can be interpolated linearly to the rover's epoch. At the rover,
+ *   y^s = P_rov^s - rho_rov^s + c dt^s - T_rov - I_rov - C^s(t_rov)
+ * is the between-receiver single difference P_rov - P_ref reduced by the modelled geometry: the satellite
+ * clock, and the orbit, ionosphere and troposphere errors common to both receivers, cancel (e.g. Misra &
+ * Enge 2011, 7.1, eqs. 7.3-7.6; RTCM 10402.3 pseudorange correction definition). The same broadcast issue
+ * is used on both sides: corrections are computed per issue on demand and cached, so a change of issue is
+ * never interpolated across.
+ */
+import type { EcefM, GeodeticRad, GnssSystem, SatId } from '../types.js';
+import { satSystem } from '../types.js';
+import type { ObsEpoch } from '../rinex/obs-types.js';
+import type { Ephemeris, IonosphereCoefficients } from '../rinex/nav-types.js';
+import { carrierFrequencyHz } from '../rinex/obs-codes.js';
+import { EphemerisStore, issueKey, satelliteAtTransmission, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
+import { clockSignal } from '../positioning/signals.js';
+import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
+import { primaryCodes, pseudorangeOf } from './code-selection.js';
+
+export interface ReferenceSatellite {
+  /** Pseudorange (m) per code type of the primary band (smoothed when smoothing is on). */
+  readonly codes: Map<string, number>;
+  readonly cn0DbHz: number;
+}
+
+export interface ReferenceEpoch {
+  readonly tagGpsS: number;
+  /** Estimated GPS time of the epoch (tag minus the receiver clock). */
+  readonly timeGpsS: number;
+  /** Reference receiver clock (m) removed from every correction of this epoch. */
+  readonly clockM: number;
+  readonly sats: ReadonlyMap<SatId, ReferenceSatellite>;
+  readonly arpM: EcefM;
+  readonly geodetic: GeodeticRad;
+  readonly cache: Map<string, CorrectionValue>;
+}
+
+export interface CorrectionValue {
+  readonly correctionM: number;
+  readonly elevationRad: number;
+}
+
+export interface InterpolatedCorrection {
+  readonly ok: true;
+  readonly correctionM: number;
+  /** Largest distance in time to a reference epoch used (s). */
+  readonly ageS: number;
+  readonly elevationRefRad: number;
+  readonly cn0RefDbHz: number;
+}
+
+export interface CorrectionFailure {
+  readonly ok: false;
+  readonly reason: string;
+}
+
+export interface ReferenceContext {
+  readonly store: EphemerisStore;
+  readonly iono: IonosphereCoefficients;
+  readonly systems: readonly GnssSystem[];
+  readonly glonassChannels: ReadonlyMap<number, number>;
+}
+
+function strengthOf(s: ObsEpoch['sats'][number], code: string): number {
+  const i = s.codes.indexOf('S' + code.slice(1));
+  if (i >= 0 && Number.isFinite(s.values[i]) && s.values[i] > 0) return s.values[i];
+  return NaN;
+}
+
+function median(v: number[]): number {
+  if (v.length === 0) return NaN;
+  const s = [...v].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+export class ReferenceCorrections {
+  private readonly epochs: ReferenceEpoch[] = [];
+  /** Epochs dropped because no clock could be estimated (no satellite with an ephemeris). */
+  unusableEpochs = 0;
+
+  constructor(private readonly ctx: ReferenceContext) {}
+
+  get size(): number {
+    return this.epochs.length;
+  }
+
+  get latestTimeGpsS(): number {
+    return this.epochs.length ? this.epochs[this.epochs.length - 1].timeGpsS : -Infinity;
+  }
+
+  /**
+   * Adds one reference epoch. `codesOverride` gives smoothed pseudoranges (sat -> code -> m) when
+   * carrier smoothing is on. Returns false when no receiver clock could be estimated.
+   */
+  addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>, cn0Override?: ReadonlyMap<SatId, number>): boolean {
+    const geodetic = ecefToGeodetic(arpM);
+    const sats = new Map<SatId, ReferenceSatellite>();
+    const clockSamples: number[] = [];
+    const doy = dayOfYear(epoch.tagGpsS);
+    for (const s of epoch.sats) {
+      const system = satSystem(s.sat);
+      if (!this.ctx.systems.includes(system)) continue;
+      const codes = new Map<string, number>();
+      const over = codesOverride?.get(s.sat);
+      for (const c of primaryCodes(system, s)) {
+        const v = over?.get(c) ?? pseudorangeOf(s, c);
+        if (Number.isFinite(v)) codes.set(c, v);
+      }
+      if (codes.size === 0) continue;
+      const first = codes.keys().next().value as string;
+      sats.set(s.sat, { codes, cn0DbHz: cn0Override?.get(s.sat) ?? strengthOf(s, first) });
+      const sel = this.ctx.store.select(s.sat, epoch.tagGpsS);
+      if (sel.eph === null) continue;
+      const m = this.model(sel.eph, s.sat, system, first, codes.get(first)!, epoch.tagGpsS, arpM, geodetic, doy);
+      if (m !== null && m.elevationRad > 0.1) clockSamples.push(m.residualM);
+    }
+    const clockM = median(clockSamples);
+    if (!Number.isFinite(clockM)) {
+      this.unusableEpochs++;
+      return false;
+    }
+    this.epochs.push({
+      tagGpsS: epoch.tagGpsS,
+      timeGpsS: epoch.tagGpsS - clockM / SPEED_OF_LIGHT_MS,
+      clockM, sats, arpM, geodetic, cache: new Map(),
+    });
+    return true;
+  }
+
+  /** P - rho + c dt_sv - T - I at the reference (m), receiver clock not removed; null if not computable. */
+  private model(eph: Ephemeris, sat: SatId, system: GnssSystem, code: string, pseudorangeM: number, tagGpsS: number, arpM: EcefM, geodetic: GeodeticRad, doy: number): { residualM: number; elevationRad: number } | null {
+    const at = satelliteAtTransmission(eph, tagGpsS, pseudorangeM, arpM, clockSignal(system, code[1]));
+    const ae = azimuthElevation(arpM, at.posM, geodetic.latRad, geodetic.lonRad);
+    if (ae.elevationRad < 0) return null;
+    const k = system === 'R' ? this.ctx.glonassChannels.get(Number(sat.slice(1))) : undefined;
+    const f = carrierFrequencyHz(system, code, k);
+    const iono = Number.isFinite(f) ? ionosphereDelayM(this.ctx.iono, system, geodetic, ae.elevationRad, ae.azimuthRad, tagGpsS, f) : 0;
+    const tropo = troposphereDelayM(geodetic, ae.elevationRad, doy);
+    const residualM = pseudorangeM - (at.rangeM ?? NaN) + SPEED_OF_LIGHT_MS * at.clock.offsetS - tropo - iono;
+    return Number.isFinite(residualM) ? { residualM, elevationRad: ae.elevationRad } : null;
+  }
+
+  private correctionOf(e: ReferenceEpoch, sat: SatId, code: string, eph: Ephemeris): CorrectionValue | null {
+    const key = `${sat}|${code}|${issueKey(eph)}`;
+    const hit = e.cache.get(key);
+    if (hit) return hit;
+    const rs = e.sats.get(sat);
+    const p = rs?.codes.get(code);
+    if (p === undefined) return null;
+    const system = satSystem(sat);
+    const m = this.model(eph, sat, system, code, p, e.tagGpsS, e.arpM, e.geodetic, dayOfYear(e.tagGpsS));
+    if (m === null) return null;
+    const v = { correctionM: m.residualM - e.clockM, elevationRad: m.elevationRad };
+    e.cache.set(key, v);
+    return v;
+  }
+
+  /** Codes the reference has for a satellite near a time (from the nearest epoch holding it). */
+  codesNear(sat: SatId, tGpsS: number, maxAgeS: number): Set<string> {
+    const out = new Set<string>();
+    for (const e of this.epochs) {
+      if (Math.abs(e.timeGpsS - tGpsS) > maxAgeS) continue;
+      const rs = e.sats.get(sat);
+      if (rs) for (const c of rs.codes.keys()) out.add(c);
+    }
+    return out;
+  }
+
+  /**
+   * The correction for (sat, code, issue) at GPS time t: linear interpolation between the nearest reference
+   * epochs before and after t that hold the satellite, or the nearer one alone when only one side exists;
+   * no epoch farther than maxAgeS is used.
+   */
+  correctionAt(sat: SatId, code: string, eph: Ephemeris, tGpsS: number, maxAgeS: number): InterpolatedCorrection | CorrectionFailure {
+    let before: ReferenceEpoch | null = null;
+    let after: ReferenceEpoch | null = null;
+    let seen = false;
+    for (let i = this.epochs.length - 1; i >= 0; i--) {
+      const e = this.epochs[i];
+      if (e.timeGpsS > tGpsS + 1e-3) continue;
+      if (tGpsS - e.timeGpsS > maxAgeS) break;
+      const rs = e.sats.get(sat);
+      if (rs) seen = true;
+      if (rs?.codes.has(code)) { before = e; break; }
+    }
+    for (let i = 0; i < this.epochs.length; i++) {
+      const e = this.epochs[i];
+      if (e.timeGpsS <= tGpsS + 1e-3) continue;
+      if (e.timeGpsS - tGpsS > maxAgeS) break;
+      const rs = e.sats.get(sat);
+      if (rs) seen = true;
+      if (rs?.codes.has(code)) { after = e; break; }
+    }
+    if (before === null && after === null) {
+      return { ok: false, reason: seen ? `reference has no ${code} for this satellite` : 'not tracked by the reference within the correction age limit' };
+    }
+    const cb = before ? this.correctionOf(before, sat, code, eph) : null;
+    const ca = after ? this.correctionOf(after, sat, code, eph) : null;
+    const cn0 = (before ?? after)!.sats.get(sat)!.cn0DbHz;
+    if (cb && ca && before && after) {
+      const span = after.timeGpsS - before.timeGpsS;
+      const w = span > 0 ? (tGpsS - before.timeGpsS) / span : 0;
+      return {
+        ok: true,
+        correctionM: cb.correctionM + w * (ca.correctionM - cb.correctionM),
+        ageS: Math.max(tGpsS - before.timeGpsS, after.timeGpsS - tGpsS),
+        elevationRefRad: cb.elevationRad,
+        cn0RefDbHz: cn0,
+      };
+    }
+    const one = cb ?? ca;
+    const e = cb ? before! : after!;
+    if (!one) return { ok: false, reason: 'satellite below the reference horizon' };
+    return { ok: true, correctionM: one.correctionM, ageS: Math.abs(tGpsS - e.timeGpsS), elevationRefRad: one.elevationRad, cn0RefDbHz: cn0 };
+  }
+
+  /** Drops reference epochs that can no longer serve a rover epoch at or after t. Keeps one before the window. */
+  prune(tGpsS: number, maxAgeS: number): void {
+    let drop = 0;
+    while (drop + 1 < this.epochs.length && this.epochs[drop + 1].timeGpsS < tGpsS - maxAgeS) drop++;
+    if (drop > 0) this.epochs.splice(0, drop);
+  }
+}

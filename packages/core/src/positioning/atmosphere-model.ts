@@ -1,0 +1,34 @@
+/**
+ * The a-priori atmosphere applied to every modelled range: Klobuchar ionosphere (GPS coefficients; the
+ * BeiDou variant for BeiDou satellites when its coefficients are present) scaled to the signal's
+ * frequency, and the Saastamoinen troposphere with a standard atmosphere at the receiver height and the
+ * Niell mapping function (see atmosphere/).
+ */
+import type { GeodeticRad, GnssSystem } from '../types.js';
+import type { IonosphereCoefficients } from '../rinex/nav-types.js';
+import { beidouKlobucharDelayM, klobucharDelayM, scaleIonosphereDelayM, slantTroposphereM } from '../atmosphere/index.js';
+import { calendarFromSeconds, gpsToUtcS, daysFromCivil } from '../time/index.js';
+
+export function dayOfYear(gpsS: number): number {
+  const c = calendarFromSeconds(gpsToUtcS(gpsS));
+  return daysFromCivil(c.year, c.month, c.day) - daysFromCivil(c.year, 1, 1) + 1 + c.hour / 24;
+}
+
+/** L1-band (or the given frequency's) slant ionospheric group delay (m); 0 when no coefficients. */
+export function ionosphereDelayM(
+  iono: IonosphereCoefficients, system: GnssSystem, rx: GeodeticRad, elevationRad: number, azimuthRad: number,
+  gpsS: number, frequencyHz: number,
+): number {
+  if (system === 'C' && iono.beidou) {
+    return scaleIonosphereDelayM(beidouKlobucharDelayM(iono.beidou, rx.latRad, rx.lonRad, elevationRad, azimuthRad, gpsS), frequencyHz, 1561.098e6);
+  }
+  const k = iono.gps ?? iono.qzss ?? iono.beidou;
+  if (!k) return 0;
+  return scaleIonosphereDelayM(klobucharDelayM(k, rx.latRad, rx.lonRad, elevationRad, azimuthRad, gpsS), frequencyHz);
+}
+
+export function troposphereDelayM(rx: GeodeticRad, elevationRad: number, doy: number): number {
+  // Below the ellipsoid by more than a few hundred metres is not a real receiver: clamp the model's input.
+  const h = Math.min(Math.max(rx.heightM, -500), 9000);
+  return slantTroposphereM(rx.latRad, h, Math.max(elevationRad, 0.02), doy);
+}

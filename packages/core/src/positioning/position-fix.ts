@@ -1,0 +1,227 @@
+/**
+ * One epoch's position fix by iterated (Gauss-Newton) weighted least squares on linearised ranges,
+ * shared by the standalone and the differential solutions:
+ *   y_i = -e_i . dx + c_k(i) + v_i,  e_i the receiver-to-satellite unit vector, c_k the clock of the
+ *   satellite's constellation (one unknown per constellation),
+ * iterated from x0 until the update is below a millimetre, then tested (global chi-square test) and
+ * cleaned by data snooping (Baarda w-test), re-iterating after each removal.
+ * Sources: linearised pseudorange model, Misra & Enge (2011) 6.1.1; testing, Teunissen (2000) 4.4
+ * (see solve/tests.ts).
+ */
+import type { EcefM, EnuM, GnssSystem, SatId } from '../types.js';
+import { ecefToGeodetic } from '../geodesy/index.js';
+import {
+  dataSnooping, dilutionOfPrecision, globalTest, solveWeightedLeastSquaresSmall,
+  type Dop, type GlobalTestResult, type WlsSolution,
+} from '../solve/index.js';
+
+/** One linearised observation at the current estimate. */
+export interface LinearRow {
+  readonly sat: SatId;
+  readonly system: GnssSystem;
+  /** Receiver-to-satellite unit vector (ECEF). */
+  readonly losX: number;
+  readonly losY: number;
+  readonly losZ: number;
+  /** Observed minus computed at the current estimate, clock excluded (m). */
+  readonly misclosureM: number;
+  /** A-priori variance (m^2). */
+  readonly varianceM2: number;
+}
+
+/** Builds the linearised rows at a position (called once per iteration). */
+export type RowBuilder = (positionM: EcefM, excluded: ReadonlySet<SatId>) => LinearRow[];
+
+export interface FixOptions {
+  readonly maxIterations: number;
+  /** Iteration stops when the position update is below this (m). */
+  readonly convergenceM: number;
+  readonly alphaGlobal: number;
+  readonly alphaLocal: number;
+  /** Minimum satellites kept (never removes below this). */
+  readonly minSatellites: number;
+  readonly maxRejections: number;
+}
+
+export const DEFAULT_FIX_OPTIONS: FixOptions = {
+  maxIterations: 12,
+  convergenceM: 1e-3,
+  alphaGlobal: 0.001,
+  alphaLocal: 0.001,
+  minSatellites: 5,
+  maxRejections: 3,
+};
+
+export interface RowOutcome {
+  readonly row: LinearRow;
+  /** Post-fit residual (m). */
+  readonly residualM: number;
+  readonly wTest: number;
+}
+
+export interface Rejection {
+  readonly sat: SatId;
+  readonly reason: string;
+  readonly wTest: number;
+}
+
+export interface PositionFix {
+  readonly ok: true;
+  readonly positionM: EcefM;
+  /** Clock per constellation (m), in the order of `systems`. */
+  readonly clocksM: ReadonlyMap<GnssSystem, number>;
+  readonly systems: readonly GnssSystem[];
+  readonly used: readonly RowOutcome[];
+  readonly rejected: readonly Rejection[];
+  /** Covariance of the position (3x3, ECEF, row-major, a-priori scale). */
+  readonly positionCovM2: Float64Array;
+  readonly sigmaEnuM: EnuM;
+  readonly dops: Dop | null;
+  readonly test: GlobalTestResult;
+  readonly varianceFactor: number;
+  readonly iterations: number;
+}
+
+export interface FixFailure {
+  readonly ok: false;
+  readonly reason: string;
+  readonly rejected: readonly Rejection[];
+}
+
+interface Assembled {
+  readonly rows: LinearRow[];
+  readonly systems: GnssSystem[];
+  readonly solution: WlsSolution;
+  readonly variances: Float64Array;
+}
+
+function assembleAndSolve(rows: LinearRow[]): Assembled | string {
+  const systems: GnssSystem[] = [];
+  for (const r of rows) if (!systems.includes(r.system)) systems.push(r.system);
+  const n = 3 + systems.length;
+  const m = rows.length;
+  if (m < n) return `${m} satellites for ${n} unknowns`;
+  const design = new Float64Array(m * n);
+  const y = new Float64Array(m);
+  const variances = new Float64Array(m);
+  for (let i = 0; i < m; i++) {
+    const r = rows[i];
+    design[i * n] = -r.losX;
+    design[i * n + 1] = -r.losY;
+    design[i * n + 2] = -r.losZ;
+    design[i * n + 3 + systems.indexOf(r.system)] = 1;
+    y[i] = r.misclosureM;
+    variances[i] = r.varianceM2;
+  }
+  const s = solveWeightedLeastSquaresSmall(design, m, n, y, variances);
+  if (!s.ok) return `geometry does not determine the position (${s.detail})`;
+  return { rows, systems, solution: s, variances };
+}
+
+/** Drops constellations with a single satellite: its clock absorbs it entirely (no position information). */
+function pruneLoneSystems(rows: LinearRow[], rejected: Rejection[]): LinearRow[] {
+  const count = new Map<GnssSystem, number>();
+  for (const r of rows) count.set(r.system, (count.get(r.system) ?? 0) + 1);
+  const out: LinearRow[] = [];
+  for (const r of rows) {
+    if ((count.get(r.system) ?? 0) < 2) rejected.push({ sat: r.sat, reason: 'only satellite of its constellation (its clock absorbs it)', wTest: NaN });
+    else out.push(r);
+  }
+  return out;
+}
+
+function enuSigma(cov: Float64Array, at: EcefM): EnuM {
+  const g = ecefToGeodetic(at);
+  const sl = Math.sin(g.latRad), cl = Math.cos(g.latRad), so = Math.sin(g.lonRad), co = Math.cos(g.lonRad);
+  const R = [-so, co, 0, -sl * co, -sl * so, cl, cl * co, cl * so, sl];
+  const out = [0, 0, 0];
+  for (let a = 0; a < 3; a++) {
+    let v = 0;
+    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) v += R[a * 3 + j] * cov[j * 3 + k] * R[a * 3 + k];
+    out[a] = Math.sqrt(Math.max(0, v));
+  }
+  return { e: out[0], n: out[1], u: out[2] };
+}
+
+/**
+ * Iterates to convergence from x0, then tests and snoops. `build` is called at each new estimate with the
+ * set of satellites removed so far.
+ */
+export function solvePositionFix(build: RowBuilder, x0: EcefM, opts: FixOptions = DEFAULT_FIX_OPTIONS): PositionFix | FixFailure {
+  const excluded = new Set<SatId>();
+  const rejected: Rejection[] = [];
+  let x = x0;
+  let iterations = 0;
+  for (let round = 0; round <= opts.maxRejections; round++) {
+    let last: Assembled | null = null;
+    for (let it = 0; it < opts.maxIterations; it++) {
+      iterations++;
+      const roundRejected: Rejection[] = [];
+      const rows = pruneLoneSystems(build(x, excluded), roundRejected);
+      const a = assembleAndSolve(rows);
+      if (typeof a === 'string') return { ok: false, reason: a, rejected: [...rejected, ...roundRejected] };
+      const dx = a.solution.x;
+      x = { x: x.x + dx[0], y: x.y + dx[1], z: x.z + dx[2] };
+      last = a;
+      if (Math.hypot(dx[0], dx[1], dx[2]) < opts.convergenceM) {
+        rejected.push(...roundRejected.filter((r) => !rejected.some((q) => q.sat === r.sat)));
+        break;
+      }
+      if (it === opts.maxIterations - 1) return { ok: false, reason: 'iteration did not converge', rejected };
+    }
+    if (last === null) return { ok: false, reason: 'no iteration', rejected };
+    const s = last.solution;
+    const test = globalTest(s.vtpv, s.dof, opts.alphaGlobal);
+    const canRemove = !test.passed && s.dof >= 2 && last.rows.length - 1 >= opts.minSatellites && round < opts.maxRejections;
+    if (canRemove) {
+      const snoop = dataSnooping(s, last.variances, opts.alphaLocal);
+      if (snoop.rejected && snoop.index >= 0) {
+        const sat = last.rows[snoop.index].sat;
+        excluded.add(sat);
+        rejected.push({ sat, reason: `rejected by data snooping (w = ${snoop.w.toFixed(1)}, critical ${snoop.critical.toFixed(2)})`, wTest: snoop.w });
+        continue;
+      }
+    }
+    return finish(last, x, test, iterations, rejected);
+  }
+  return { ok: false, reason: 'quality control did not settle', rejected };
+}
+
+function finish(a: Assembled, x: EcefM, test: GlobalTestResult, iterations: number, rejected: Rejection[]): PositionFix {
+  const s = a.solution;
+  const n = s.n;
+  const snoopAll = dataSnoopingValues(s, a.variances);
+  const used: RowOutcome[] = a.rows.map((row, i) => ({ row, residualM: s.residuals[i], wTest: snoopAll[i] }));
+  const cov = new Float64Array(9);
+  for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) cov[j * 3 + k] = s.qxx[j * n + k];
+  const clocksM = new Map<GnssSystem, number>();
+  a.systems.forEach((sys, k) => clocksM.set(sys, s.x[3 + k]));
+  // The update of the last iteration is below a millimetre; clocks are those of that solve.
+  const los = new Float64Array(a.rows.length * 3);
+  const clockIndex = new Int32Array(a.rows.length);
+  a.rows.forEach((r, i) => { los[3 * i] = r.losX; los[3 * i + 1] = r.losY; los[3 * i + 2] = r.losZ; clockIndex[i] = a.systems.indexOf(r.system); });
+  const dops = dilutionOfPrecision({ lineOfSight: los, frame: 'ecef', receiver: x, clockIndex });
+  return {
+    ok: true,
+    positionM: x,
+    clocksM,
+    systems: a.systems,
+    used,
+    rejected,
+    positionCovM2: cov,
+    sigmaEnuM: enuSigma(cov, x),
+    dops,
+    test,
+    varianceFactor: s.sigma0Sq,
+    iterations,
+  };
+}
+
+function dataSnoopingValues(s: WlsSolution, variances: Float64Array): Float64Array {
+  const w = new Float64Array(s.m);
+  for (let i = 0; i < s.m; i++) {
+    const q = s.qvvDiag[i];
+    w[i] = q > 1e-10 * variances[i] ? s.residuals[i] / Math.sqrt(q) : NaN;
+  }
+  return w;
+}

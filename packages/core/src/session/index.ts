@@ -1,0 +1,4 @@
+export * from './solution-types.js';
+export * from './options.js';
+export * from './solve-session.js';
+export * from './join-references.js';

@@ -1,0 +1,90 @@
+/**
+ * Processing options for a differential session, with documented defaults.
+ */
+import type { AntennaOffset } from '../rinex/obs-types.js';
+import type { FramedEcef, GnssSystem } from '../types.js';
+
+export type GlonassPolicy =
+  /** Use GLONASS only when both receivers report the same, known receiver type (inter-frequency code biases then cancel). */
+  | 'auto'
+  /** Never use GLONASS. */
+  | 'exclude'
+  /** Always use GLONASS with one relative clock, trusting the biases to cancel. */
+  | 'include';
+
+export interface WeightingOptions {
+  /** sigma^2 = a^2 + b^2 / sin^2(elevation) per receiver (common practice). */
+  readonly aM: number;
+  readonly bM: number;
+  /** Also scale by signal strength (C/N0) when both sides report it. */
+  readonly useStrength: boolean;
+}
+
+export interface SmoothingOptions {
+  readonly enabled: boolean;
+  /** Hatch filter time constant (s). */
+  readonly timeConstantS: number;
+}
+
+export interface QualityOptions {
+  /** Significance level of the global chi-square test. */
+  readonly alphaGlobal: number;
+  /** Significance level of each w-test in data snooping. */
+  readonly alphaLocal: number;
+  /** Minimum satellites in a solution (4 + extra clocks). */
+  readonly minSatellites: number;
+  /** Epochs with a larger PDOP are reported and given kind 'none'. */
+  readonly maxPdop: number;
+  /** Largest number of satellites data snooping may remove from one epoch. */
+  readonly maxRejections: number;
+}
+
+export interface ReferenceSpec {
+  /** Known coordinate of the reference antenna's ground mark (or ARP when `isArp`), with frame and epoch. Null: use the file header's (a warning is raised). */
+  readonly position: FramedEcef | null;
+  /** Antenna offset override (else the header's ANTENNA: DELTA H/E/N and in-file events). */
+  readonly antenna?: AntennaOffset;
+}
+
+export interface SessionOptions {
+  readonly reference: ReferenceSpec;
+  /** Rover antenna offset override (else header and in-file events). */
+  readonly roverAntenna?: AntennaOffset;
+  readonly elevationMaskDeg: number;
+  readonly systems: readonly GnssSystem[];
+  readonly glonass: GlonassPolicy;
+  readonly weighting: WeightingOptions;
+  readonly smoothing: SmoothingOptions;
+  readonly quality: QualityOptions;
+  /** Largest allowed distance in time between a rover epoch and the reference epochs used (s). */
+  readonly maxCorrectionAgeS: number;
+  /** When no differential solution is possible, give a standalone one (kind 'standalone'). */
+  readonly standaloneFallback: boolean;
+  /** Report the rover position at the ground mark (ARP minus antenna height) instead of at the ARP. */
+  readonly reduceToMark: boolean;
+}
+
+export const DEFAULT_OPTIONS: SessionOptions = {
+  reference: { position: null },
+  // 10 deg keeps enough satellites for low-cost receivers; 15 deg is the mapping-grade custom (check-values.md).
+  elevationMaskDeg: 10,
+  systems: ['G', 'R', 'E', 'C', 'J'],
+  glonass: 'auto',
+  weighting: { aM: 0.3, bM: 0.3, useStrength: false },
+  smoothing: { enabled: false, timeConstantS: 100 },
+  quality: { alphaGlobal: 0.001, alphaLocal: 0.001, minSatellites: 5, maxPdop: 8, maxRejections: 3 },
+  // 30 s CORS data: an epoch half-way between two is 15 s away; allow one missed reference epoch.
+  maxCorrectionAgeS: 65,
+  standaloneFallback: false,
+  reduceToMark: true,
+};
+
+export function withDefaults(partial: Partial<SessionOptions>): SessionOptions {
+  return {
+    ...DEFAULT_OPTIONS,
+    ...partial,
+    weighting: { ...DEFAULT_OPTIONS.weighting, ...(partial.weighting ?? {}) },
+    smoothing: { ...DEFAULT_OPTIONS.smoothing, ...(partial.smoothing ?? {}) },
+    quality: { ...DEFAULT_OPTIONS.quality, ...(partial.quality ?? {}) },
+  };
+}

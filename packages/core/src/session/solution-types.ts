@@ -1,0 +1,100 @@
+/**
+ * What the engine hands out: one typed solution per rover epoch, and a summary per session.
+ * Every coordinate carries its frame and epoch (FramedEcef); every rejected satellite or epoch carries
+ * its reason as words.
+ */
+import type { EcefM, EnuM, FrameEpoch, FramedEcef, GeodeticRad, GnssSystem, SatId } from '../types.js';
+
+/** The solution kind, as a word. */
+export type SolutionKind = 'differential' | 'smoothed' | 'standalone' | 'none';
+
+/** Which physical point a coordinate refers to. */
+export type PointReference = 'antenna-reference-point' | 'ground-mark';
+
+export interface Dops {
+  readonly gdop: number;
+  readonly pdop: number;
+  readonly hdop: number;
+  readonly vdop: number;
+  readonly tdop: number;
+}
+
+/** One satellite's part in an epoch solution. */
+export interface SatelliteResidual {
+  readonly sat: SatId;
+  /** Observation code used (e.g. 'C1C'); for a difference, the rover's code (the reference used the same unless `bias` says otherwise). */
+  readonly signal: string;
+  readonly elevationDeg: number;
+  readonly azimuthDeg: number;
+  /** Post-fit residual (m); NaN when the satellite was not in the final solution. */
+  readonly residualM: number;
+  /** Weight (1/m^2) used; 0 when not used. */
+  readonly weight: number;
+  /** Normalised residual (w-test statistic); NaN when not computed. */
+  readonly wTest: number;
+  readonly used: boolean;
+  /** Why it was not used, in words ('below elevation mask', 'no ephemeris', 'not seen by reference', 'rejected by data snooping (w = 5.2)'...). Empty when used. */
+  readonly reason: string;
+}
+
+export interface QualityTest {
+  /** A-posteriori variance factor v'Pv / dof (NaN when dof = 0). */
+  readonly varianceFactor: number;
+  /** v'Pv. */
+  readonly chiSquare: number;
+  readonly dof: number;
+  /** Critical value of the global test at the configured level. */
+  readonly critical: number;
+  /** true: passed; false: failed even after data snooping; null: no redundancy to test. */
+  readonly passed: boolean | null;
+}
+
+export interface EpochSolution {
+  /** Epoch tag as recorded (receiver time), GPS seconds. */
+  readonly tagGpsS: number;
+  /** Estimated GPS time of the epoch (tag minus the estimated receiver clock offset). */
+  readonly timeGpsS: number;
+  readonly kind: SolutionKind;
+  /** Why there is no (differential) solution, in words; empty otherwise. */
+  readonly reason: string;
+  /** Name of the point (occupation) the epoch belongs to, from events or windows; empty when unknown. */
+  readonly pointName: string;
+  /** Rover position (frame and epoch of the reference coordinate); null when kind = 'none'. */
+  readonly position: FramedEcef | null;
+  readonly geodetic: GeodeticRad | null;
+  /** Which point `position` refers to. */
+  readonly pointReference: PointReference;
+  /** Rover minus reference (m), ECEF and ENU at the reference. Null for standalone/none. */
+  readonly baselineEcef: EcefM | null;
+  readonly baselineEnu: EnuM | null;
+  /** Relative receiver clock (rover minus reference, m) per constellation used. */
+  readonly relativeClockM: Readonly<Partial<Record<GnssSystem, number>>>;
+  readonly satellitesUsed: number;
+  readonly dops: Dops | null;
+  /** Formal precision from the covariance (scaled by the a-priori variance, not the a-posteriori factor). */
+  readonly sigmaEnuM: EnuM | null;
+  readonly quality: QualityTest | null;
+  /** Age of the reference corrections used (s): the larger distance to a reference epoch used. */
+  readonly correctionAgeS: number;
+  readonly satellites: readonly SatelliteResidual[];
+}
+
+export interface RejectionCount {
+  readonly reason: string;
+  readonly count: number;
+}
+
+export interface SessionSummary {
+  readonly frame: FrameEpoch;
+  readonly referencePosition: FramedEcef;
+  readonly referencePositionSource: string;
+  readonly epochsRover: number;
+  readonly epochsByKind: Readonly<Record<SolutionKind, number>>;
+  readonly epochsWithoutCorrections: number;
+  readonly satelliteRejections: readonly RejectionCount[];
+  readonly epochRejections: readonly RejectionCount[];
+  readonly systemsUsed: readonly GnssSystem[];
+  readonly notes: readonly string[];
+  readonly firstGpsS: number;
+  readonly lastGpsS: number;
+}

@@ -1,0 +1,429 @@
+/**
+ * A differential session: the rover's epochs solved against one or more reference files, in one pass,
+ * with bounded memory (reference epochs are kept only while a rover epoch can still use them).
+ *
+ * Data flow per rover epoch: read -> time-align (rover clock estimated from its own code, reference
+ * epochs on their estimated GPS time) -> model (orbits, clocks, atmosphere) -> difference (reference
+ * corrections, differencing/reference-corrections.ts) -> solve (positioning/position-fix.ts: WLS for the
+ * baseline and one relative clock per constellation, global test, data snooping) -> report (EpochSolution).
+ */
+import type { EcefM, FrameEpoch, FramedEcef, GnssSystem, SatId } from '../types.js';
+import { satSystem, SYSTEM_NAMES } from '../types.js';
+import type { AntennaOffset, ObsEpoch, ObsHeader, ObsStream } from '../rinex/obs-types.js';
+import type { Ephemeris, NavData } from '../rinex/nav-types.js';
+import { carrierFrequencyHz } from '../rinex/obs-codes.js';
+import { ProcessingError, type WarningSink } from '../errors.js';
+import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
+import { decimalYearFromGpsS } from '../time/index.js';
+import { elevationVarianceM2, type ElevationWeightParams } from '../solve/index.js';
+import { solvePositionFix, type LinearRow } from '../positioning/position-fix.js';
+import { clockSignal } from '../positioning/signals.js';
+import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
+import { ReferenceCorrections } from '../differencing/reference-corrections.js';
+import { matchCode, primaryCodes, pseudorangeOf } from '../differencing/code-selection.js';
+import { solveStandaloneEpoch, type StandaloneContext } from '../standalone/index.js';
+import { joinReferenceStreams } from './join-references.js';
+import { ReceiverSmoother } from './smoothing-stage.js';
+import type { SessionOptions } from './options.js';
+import type { EpochSolution, RejectionCount, SatelliteResidual, SessionSummary, SolutionKind } from './solution-types.js';
+
+export interface SessionInputs {
+  readonly rover: ObsStream;
+  readonly references: readonly ObsStream[];
+  readonly nav: NavData;
+  readonly onWarning?: WarningSink;
+}
+
+export interface SessionRun {
+  readonly epochs: AsyncIterable<EpochSolution>;
+  /** Valid once `epochs` has been consumed. */
+  summary(): SessionSummary;
+}
+
+const DEG = Math.PI / 180;
+
+function isKnownReceiver(t: string): boolean {
+  const s = t.trim().toLowerCase();
+  return s !== '' && s !== 'unknown' && s !== 'unk';
+}
+
+/** Position of the antenna reference point from a ground mark and ANTENNA: DELTA H/E/N. */
+export function markToArp(mark: EcefM, offset: AntennaOffset): EcefM {
+  const g = ecefToGeodetic(mark);
+  const d = enuToEcefDelta({ e: offset.eastM, n: offset.northM, u: offset.heightM }, g.latRad, g.lonRad);
+  return { x: mark.x + d.x, y: mark.y + d.y, z: mark.z + d.z };
+}
+
+export function arpToMark(arp: EcefM, offset: AntennaOffset): EcefM {
+  const g = ecefToGeodetic(arp);
+  const d = enuToEcefDelta({ e: offset.eastM, n: offset.northM, u: offset.heightM }, g.latRad, g.lonRad);
+  return { x: arp.x - d.x, y: arp.y - d.y, z: arp.z - d.z };
+}
+
+/** Reason text without its numbers, for counting ('below elevation mask (7.1 deg)' -> 'below elevation mask'). */
+export function reasonKey(reason: string): string {
+  return reason.replace(/\s*\(.*\)\s*$/, '').trim();
+}
+
+class Counter {
+  private readonly m = new Map<string, number>();
+  add(reason: string): void {
+    const k = reasonKey(reason);
+    this.m.set(k, (this.m.get(k) ?? 0) + 1);
+  }
+  list(): RejectionCount[] {
+    return [...this.m].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count);
+  }
+}
+
+function median(v: number[]): number {
+  if (v.length === 0) return NaN;
+  const s = [...v].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+function strengthOf(s: ObsEpoch['sats'][number], code: string): number {
+  const i = s.codes.indexOf('S' + code.slice(1));
+  return i >= 0 && Number.isFinite(s.values[i]) && s.values[i] > 0 ? s.values[i] : NaN;
+}
+
+export async function solveSession(inputs: SessionInputs, options: SessionOptions): Promise<SessionRun> {
+  const warn: WarningSink = inputs.onWarning ?? (() => undefined);
+  if (inputs.references.length === 0) throw new ProcessingError('no reference observation file was given');
+  const store = new EphemerisStore(inputs.nav);
+  if (store.satellites().length === 0) throw new ProcessingError('the navigation files hold no usable ephemeris');
+  const rover = inputs.rover;
+  const refHeader = inputs.references[0].header;
+  const notes: string[] = [];
+
+  // Which constellations: the user's choice, limited by the navigation data and the GLONASS policy.
+  const navSystems = store.systemsWithEphemeris();
+  let systems = options.systems.filter((s) => navSystems.has(s));
+  const sameReceiver = isKnownReceiver(rover.header.receiverType) &&
+    inputs.references.every((r) => r.header.receiverType.trim() === rover.header.receiverType.trim());
+  if (systems.includes('R')) {
+    if (options.glonass === 'exclude' || (options.glonass === 'auto' && !sameReceiver)) {
+      systems = systems.filter((s) => s !== 'R');
+      notes.push(options.glonass === 'exclude'
+        ? 'GLONASS excluded by option'
+        : `GLONASS excluded: the receivers are not known to match (rover '${rover.header.receiverType.trim() || 'unknown'}', reference '${refHeader.receiverType.trim() || 'unknown'}'), so GLONASS inter-frequency code biases would not cancel (use --glonass include to force)`);
+    } else {
+      notes.push(sameReceiver ? `GLONASS used: both receivers report type '${rover.header.receiverType.trim()}'` : 'GLONASS used by option (inter-frequency biases are assumed to cancel)');
+    }
+  }
+  for (const s of options.systems) if (!navSystems.has(s) && s !== 'R') notes.push(`${SYSTEM_NAMES[s]} not used: no ephemeris in the navigation files`);
+  if (systems.length === 0) throw new ProcessingError(`no navigation data for the constellations asked for (${options.systems.map((s) => SYSTEM_NAMES[s]).join(', ')})`);
+
+  // Reference coordinate and frame.
+  let refMark: EcefM;
+  let frame: FrameEpoch;
+  let refSource: string;
+  if (options.reference.position) {
+    refMark = options.reference.position.ecef;
+    frame = options.reference.position.frame;
+    refSource = 'given by the user';
+  } else {
+    if (!refHeader.approxPosition) throw new ProcessingError(`${inputs.references[0].file}: no reference coordinate given and the file header has no APPROX POSITION XYZ`);
+    refMark = refHeader.approxPosition;
+    const firstS = rover.header.firstObsGpsS ?? refHeader.firstObsGpsS;
+    frame = { name: 'unstated', epochYear: firstS !== null ? Math.round(decimalYearFromGpsS(firstS) * 100) / 100 : NaN };
+    refSource = `APPROX POSITION XYZ of ${inputs.references[0].file}`;
+    const msg = `reference coordinate taken from the header of ${inputs.references[0].file}: header coordinates can be approximate, and its frame is not stated`;
+    notes.push(msg);
+    warn({ file: inputs.references[0].file, code: 'header-reference-coordinate', message: msg });
+  }
+  let refAntenna: AntennaOffset = options.reference.antenna ?? refHeader.antennaOffset;
+  let refArp = markToArp(refMark, refAntenna);
+  let roverAntenna: AntennaOffset = options.roverAntenna ?? rover.header.antennaOffset;
+  let pointName = rover.header.markerName.trim();
+
+  // Frequency channels: rover header, reference header, then the GLONASS navigation records.
+  const glonassChannels = new Map<number, number>(store.glonassChannels());
+  for (const h of [refHeader, rover.header]) for (const [slot, k] of h.glonassChannels) glonassChannels.set(slot, k);
+
+  const weighting: ElevationWeightParams = {
+    aM: options.weighting.aM,
+    bM: options.weighting.bM,
+    minElevationRad: 5 * DEG,
+    ...(options.weighting.useStrength ? { referenceCn0DbHz: 45 } : {}),
+  };
+  const maskRad = options.elevationMaskDeg * DEG;
+  const maxAgeS = options.maxCorrectionAgeS;
+  const corrections = new ReferenceCorrections({ store, iono: inputs.nav.ionosphere, systems, glonassChannels });
+  const smoothOn = options.smoothing.enabled;
+  const roverSmoother = smoothOn ? new ReceiverSmoother(rover.header.intervalS ?? 1, options.smoothing.timeConstantS, systems, glonassChannels) : null;
+  const refSmoother = smoothOn ? new ReceiverSmoother(refHeader.intervalS ?? 1, options.smoothing.timeConstantS, systems, glonassChannels) : null;
+  const standaloneCtx: StandaloneContext = {
+    store, iono: inputs.nav.ionosphere, systems: options.systems.filter((s) => navSystems.has(s)), elevationMaskRad: maskRad,
+    weighting, frequencyMode: 'auto', glonassChannels,
+  };
+  const fixOptions = {
+    maxIterations: 12, convergenceM: 1e-4,
+    alphaGlobal: options.quality.alphaGlobal, alphaLocal: options.quality.alphaLocal,
+    minSatellites: options.quality.minSatellites, maxRejections: options.quality.maxRejections,
+  };
+
+  const satRejections = new Counter();
+  const epochRejections = new Counter();
+  const byKind: Record<SolutionKind, number> = { differential: 0, smoothed: 0, standalone: 0, none: 0 };
+  let roverEpochs = 0;
+  let withoutCorrections = 0;
+  let firstGpsS = NaN, lastGpsS = NaN;
+  let refFirst = NaN, refLast = NaN;
+  const systemsUsed = new Set<GnssSystem>();
+
+  const refIter = joinReferenceStreams(inputs.references)[Symbol.asyncIterator]();
+  let refDone = false;
+  const lookaheadS = Math.min(maxAgeS, 35);
+  async function pullReference(untilGpsS: number): Promise<void> {
+    while (!refDone && corrections.latestTimeGpsS <= untilGpsS) {
+      const r = await refIter.next();
+      if (r.done) { refDone = true; break; }
+      const e = r.value.epoch;
+      if (e.event) {
+        if (e.event.antennaOffset && !options.reference.antenna) {
+          refAntenna = e.event.antennaOffset;
+          refArp = markToArp(refMark, refAntenna);
+          notes.push(`reference antenna height changed to ${refAntenna.heightM} m at ${e.tagGpsS}`);
+        }
+        if (e.flag === 1) refSmoother?.reset();
+        if (e.sats.length === 0) continue;
+      }
+      if (e.flag > 1 && e.flag !== 6) continue;
+      if (e.flag === 6) continue;
+      if (Number.isNaN(refFirst)) refFirst = e.tagGpsS;
+      refLast = e.tagGpsS;
+      const smoothed = refSmoother?.update(e);
+      corrections.addEpoch(e, refArp, smoothed);
+    }
+  }
+
+  let lastPosition: EcefM | null = null;
+  let lastClockM = NaN;
+
+  const frameOfResult: FrameEpoch = frame;
+  const broadcastFrame = (t: number): FrameEpoch => ({ name: 'WGS84 (broadcast orbits)', epochYear: Math.round(decimalYearFromGpsS(t) * 100) / 100 });
+
+  function none(e: ObsEpoch, reason: string, satellites: SatelliteResidual[], ageS = NaN): EpochSolution {
+    return {
+      tagGpsS: e.tagGpsS, timeGpsS: e.tagGpsS - (Number.isFinite(lastClockM) ? lastClockM / SPEED_OF_LIGHT_MS : 0),
+      kind: 'none', reason, pointName, position: null, geodetic: null,
+      pointReference: options.reduceToMark ? 'ground-mark' : 'antenna-reference-point',
+      baselineEcef: null, baselineEnu: null, relativeClockM: {}, satellitesUsed: 0, dops: null, sigmaEnuM: null,
+      quality: null, correctionAgeS: ageS, satellites,
+    };
+  }
+
+  function standaloneOr(e: ObsEpoch, reason: string, satellites: SatelliteResidual[], ageS: number): EpochSolution {
+    if (!options.standaloneFallback) return none(e, reason, satellites, ageS);
+    const r = solveStandaloneEpoch(e, rover.header, standaloneCtx, lastPosition);
+    if (!r.fix.ok) return none(e, `${reason}; standalone failed too: ${r.fix.reason}`, [...r.satellites], ageS);
+    const arp = r.fix.positionM;
+    const pos = options.reduceToMark ? arpToMark(arp, roverAntenna) : arp;
+    const g = ecefToGeodetic(pos);
+    const clocks: Partial<Record<GnssSystem, number>> = {};
+    for (const [s, c] of r.fix.clocksM) clocks[s] = c;
+    return {
+      tagGpsS: e.tagGpsS, timeGpsS: e.tagGpsS - (r.fix.clocksM.values().next().value ?? 0) / SPEED_OF_LIGHT_MS,
+      kind: 'standalone', reason, pointName,
+      position: { ecef: pos, frame: broadcastFrame(e.tagGpsS) }, geodetic: g,
+      pointReference: options.reduceToMark ? 'ground-mark' : 'antenna-reference-point',
+      baselineEcef: null, baselineEnu: null, relativeClockM: clocks, satellitesUsed: r.fix.used.length,
+      dops: r.fix.dops, sigmaEnuM: r.fix.sigmaEnuM,
+      quality: { varianceFactor: r.fix.varianceFactor, chiSquare: r.fix.test.statistic, dof: r.fix.test.dof, critical: r.fix.test.critical, passed: r.fix.test.dof > 0 ? r.fix.test.passed : null },
+      correctionAgeS: ageS, satellites: r.satellites,
+    };
+  }
+
+  interface Prepared {
+    readonly sat: SatId;
+    readonly system: GnssSystem;
+    readonly code: string;
+    readonly codeM: number;
+    readonly eph: Ephemeris;
+    readonly satPos: EcefM;
+    readonly satClockM: number;
+    readonly frequencyHz: number;
+    readonly cn0DbHz: number;
+    correctionM: number;
+    ageS: number;
+    elevationRefRad: number;
+    cn0RefDbHz: number;
+  }
+
+  function solveEpoch(e: ObsEpoch, smoothed: Map<SatId, Map<string, number>> | undefined): EpochSolution {
+    const reasons = new Map<SatId, { signal: string; reason: string }>();
+    const prepared: Prepared[] = [];
+    for (const s of e.sats) {
+      const system = satSystem(s.sat);
+      if (!systems.includes(system)) {
+        reasons.set(s.sat, { signal: '', reason: options.systems.includes(system) ? (system === 'R' ? 'GLONASS excluded (receivers not known to match)' : 'no ephemeris for this constellation') : 'constellation not selected' });
+        continue;
+      }
+      const roverCodes = primaryCodes(system, s);
+      if (roverCodes.length === 0) { reasons.set(s.sat, { signal: '', reason: 'no pseudorange on the primary band' }); continue; }
+      const sel = store.select(s.sat, e.tagGpsS);
+      if (sel.eph === null) {
+        reasons.set(s.sat, { signal: roverCodes[0], reason: sel.reason === 'too-old' ? `ephemeris too old (${Math.round((sel.ageS ?? 0) / 60)} min)` : sel.reason === 'unhealthy' ? 'unhealthy ephemeris' : 'no ephemeris' });
+        continue;
+      }
+      const refCodes = corrections.codesNear(s.sat, e.tagGpsS, maxAgeS + 1);
+      if (refCodes.size === 0) { reasons.set(s.sat, { signal: roverCodes[0], reason: 'not tracked by the reference' }); continue; }
+      const match = matchCode(roverCodes, refCodes);
+      if (match.code === null) { reasons.set(s.sat, { signal: roverCodes[0], reason: match.reason }); continue; }
+      const code = match.code;
+      const codeM = smoothed?.get(s.sat)?.get(code) ?? pseudorangeOf(s, code);
+      if (!Number.isFinite(codeM)) { reasons.set(s.sat, { signal: code, reason: 'smoothing filter not ready' }); continue; }
+      const at = satelliteAtTransmission(sel.eph, e.tagGpsS, codeM, null, clockSignal(system, code[1]));
+      const k = system === 'R' ? glonassChannels.get(Number(s.sat.slice(1))) : undefined;
+      prepared.push({
+        sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
+        frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: strengthOf(s, code),
+        correctionM: NaN, ageS: NaN, elevationRefRad: NaN, cn0RefDbHz: NaN,
+      });
+    }
+    // Time alignment: the rover clock from its own code at the last position, so corrections are taken at
+    // the epoch's estimated GPS time rather than at its receiver-time tag.
+    const x0 = lastPosition ?? rover.header.approxPosition ?? refArp;
+    const clockSamples = prepared.map((p) => p.codeM - Math.hypot(p.satPos.x - x0.x, p.satPos.y - x0.y, p.satPos.z - x0.z) + p.satClockM);
+    const clockM = median(clockSamples);
+    const timeGpsS = e.tagGpsS - (Number.isFinite(clockM) ? clockM / SPEED_OF_LIGHT_MS : 0);
+    const usable: Prepared[] = [];
+    let maxAge = 0;
+    for (const p of prepared) {
+      const c = corrections.correctionAt(p.sat, p.code, p.eph, timeGpsS, maxAgeS);
+      if (!c.ok) { reasons.set(p.sat, { signal: p.code, reason: c.reason }); continue; }
+      p.correctionM = c.correctionM; p.ageS = c.ageS; p.elevationRefRad = c.elevationRefRad; p.cn0RefDbHz = c.cn0RefDbHz;
+      maxAge = Math.max(maxAge, c.ageS);
+      usable.push(p);
+    }
+    const doy = dayOfYear(e.tagGpsS);
+    const geometry = new Map<SatId, { el: number; az: number }>();
+    const maskReasons = new Map<SatId, string>();
+    const build = (x: EcefM, excluded: ReadonlySet<SatId>): LinearRow[] => {
+      const g = ecefToGeodetic(x);
+      const rows: LinearRow[] = [];
+      maskReasons.clear();
+      for (const p of usable) {
+        if (excluded.has(p.sat)) continue;
+        const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;
+        const range = Math.sqrt(dx * dx + dy * dy + dz * dz);
+        const ae = azimuthElevation(x, p.satPos, g.latRad, g.lonRad);
+        geometry.set(p.sat, { el: ae.elevationRad, az: ae.azimuthRad });
+        if (ae.elevationRad < maskRad) { maskReasons.set(p.sat, `below elevation mask (${(ae.elevationRad / DEG).toFixed(1)} deg)`); continue; }
+        const tropo = troposphereDelayM(g, ae.elevationRad, doy);
+        const iono = Number.isFinite(p.frequencyHz) ? ionosphereDelayM(inputs.nav.ionosphere, p.system, g, ae.elevationRad, ae.azimuthRad, e.tagGpsS, p.frequencyHz) : 0;
+        const variance = elevationVarianceM2(ae.elevationRad, weighting, p.cn0DbHz) +
+          elevationVarianceM2(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : ae.elevationRad, weighting, p.cn0RefDbHz);
+        rows.push({
+          sat: p.sat, system: p.system, losX: dx / range, losY: dy / range, losZ: dz / range,
+          misclosureM: p.codeM - range + p.satClockM - tropo - iono - p.correctionM,
+          varianceM2: variance,
+        });
+      }
+      return rows;
+    };
+    const fix = usable.length > 0 ? solvePositionFix(build, x0, fixOptions) : null;
+    const usedBySat = new Map(fix && fix.ok ? fix.used.map((u) => [u.row.sat, u] as const) : []);
+    const rejBySat = new Map(fix ? fix.rejected.map((r) => [r.sat, r] as const) : []);
+    const satellites: SatelliteResidual[] = [];
+    for (const s of e.sats) {
+      const pre = reasons.get(s.sat);
+      const p = prepared.find((q) => q.sat === s.sat);
+      const geo = geometry.get(s.sat);
+      const u = usedBySat.get(s.sat);
+      const rej = rejBySat.get(s.sat);
+      const reason = pre?.reason ?? maskReasons.get(s.sat) ?? rej?.reason ?? (u ? '' : fix && !fix.ok ? `no solution: ${fix.reason}` : 'not used');
+      if (!u) satRejections.add(reason);
+      satellites.push({
+        sat: s.sat, signal: p?.code ?? pre?.signal ?? '',
+        elevationDeg: geo ? geo.el / DEG : NaN, azimuthDeg: geo ? geo.az / DEG : NaN,
+        residualM: u ? u.residualM : NaN, weight: u ? 1 / u.row.varianceM2 : 0,
+        wTest: u ? u.wTest : rej ? rej.wTest : NaN, used: u !== undefined, reason,
+      });
+    }
+    if (usable.length === 0) {
+      withoutCorrections++;
+      return standaloneOr(e, prepared.length === 0 ? 'no usable satellites' : 'no reference corrections within the age limit', satellites, NaN);
+    }
+    if (!fix || !fix.ok) return standaloneOr(e, `no differential solution: ${fix ? fix.reason : 'no satellites'}`, satellites, maxAge);
+    if (fix.dops && fix.dops.pdop > options.quality.maxPdop) {
+      return standaloneOr(e, `PDOP ${fix.dops.pdop.toFixed(1)} above the limit ${options.quality.maxPdop}`, satellites, maxAge);
+    }
+    lastPosition = fix.positionM;
+    const firstClock = fix.clocksM.values().next().value ?? clockM;
+    lastClockM = firstClock;
+    const arp = fix.positionM;
+    const pos = options.reduceToMark ? arpToMark(arp, roverAntenna) : arp;
+    const g = ecefToGeodetic(pos);
+    const baselineEcef = { x: pos.x - refMark.x, y: pos.y - refMark.y, z: pos.z - refMark.z };
+    const gRef = ecefToGeodetic(refMark);
+    const baselineEnu = ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad);
+    const clocks: Partial<Record<GnssSystem, number>> = {};
+    for (const [s, c] of fix.clocksM) { clocks[s] = c; systemsUsed.add(s); }
+    const position: FramedEcef = { ecef: pos, frame: frameOfResult };
+    return {
+      tagGpsS: e.tagGpsS, timeGpsS: e.tagGpsS - firstClock / SPEED_OF_LIGHT_MS,
+      kind: smoothOn ? 'smoothed' : 'differential', reason: '', pointName,
+      position, geodetic: g, pointReference: options.reduceToMark ? 'ground-mark' : 'antenna-reference-point',
+      baselineEcef, baselineEnu, relativeClockM: clocks, satellitesUsed: fix.used.length,
+      dops: fix.dops, sigmaEnuM: fix.sigmaEnuM,
+      quality: { varianceFactor: fix.varianceFactor, chiSquare: fix.test.statistic, dof: fix.test.dof, critical: fix.test.critical, passed: fix.test.dof > 0 ? fix.test.passed : null },
+      correctionAgeS: maxAge, satellites,
+    };
+  }
+
+  async function* run(): AsyncIterable<EpochSolution> {
+    for await (const e of rover.epochs) {
+      if (e.event) {
+        const ev = e.event;
+        if (ev.kind === 'new-occupation') { pointName = (ev.markerName ?? '').trim() || pointName; }
+        if (ev.kind === 'start-moving') pointName = '';
+        if (ev.antennaOffset && !options.roverAntenna) roverAntenna = ev.antennaOffset;
+        if (e.flag === 1) roverSmoother?.reset();
+      }
+      if (e.flag !== 0 && e.flag !== 1) continue;
+      if (e.sats.length === 0) continue;
+      roverEpochs++;
+      if (Number.isNaN(firstGpsS)) firstGpsS = e.tagGpsS;
+      lastGpsS = e.tagGpsS;
+      await pullReference(e.tagGpsS + lookaheadS);
+      corrections.prune(e.tagGpsS, maxAgeS + 2);
+      const smoothed = roverSmoother?.update(e);
+      let sol: EpochSolution;
+      try {
+        sol = solveEpoch(e, smoothed);
+      } catch (err) {
+        const msg = err instanceof Error ? err.message : String(err);
+        warn({ file: rover.file, line: e.line, code: 'epoch-failed', message: `epoch at line ${e.line} could not be solved: ${msg}` });
+        sol = none(e, `could not be solved: ${msg}`, []);
+      }
+      byKind[sol.kind]++;
+      if (sol.kind !== 'differential' && sol.kind !== 'smoothed') epochRejections.add(sol.reason || sol.kind);
+      yield sol;
+    }
+    if (roverEpochs > 0 && byKind.differential + byKind.smoothed === 0 && withoutCorrections === roverEpochs) {
+      const span = (a: number, b: number) => (Number.isNaN(a) ? 'no epochs' : `${(a / 3600 % 24).toFixed(2)} h to ${(b / 3600 % 24).toFixed(2)} h GPS`);
+      throw new ProcessingError(`the rover and reference observations do not overlap in time (rover ${span(firstGpsS, lastGpsS)}, reference ${span(refFirst, refLast)})`);
+    }
+  }
+
+  return {
+    epochs: run(),
+    summary: (): SessionSummary => ({
+      frame,
+      referencePosition: { ecef: refMark, frame },
+      referencePositionSource: refSource,
+      epochsRover: roverEpochs,
+      epochsByKind: { ...byKind },
+      epochsWithoutCorrections: withoutCorrections,
+      satelliteRejections: satRejections.list(),
+      epochRejections: epochRejections.list(),
+      systemsUsed: [...systemsUsed],
+      notes: [...notes, ...(corrections.unusableEpochs > 0 ? [`${corrections.unusableEpochs} reference epochs had no satellite with an ephemeris and were not used`] : [])],
+      firstGpsS, lastGpsS,
+    }),
+  };
+}

@@ -1,0 +1,195 @@
+/**
+ * Standalone (single-receiver) positioning of one epoch: the comparison point for the differential
+ * solution. Per satellite: the broadcast orbit and clock at the transmission time (with Earth rotation),
+ * the relativistic and group-delay terms, Saastamoinen/Niell troposphere, and either the ionosphere-free
+ * code combination (two bands present) or the L1-band code with the Klobuchar model. One receiver clock
+ * per constellation. Model: P = rho + c dt_r - c dt_sv + T + I + e (Misra & Enge 2011, eq. 5.8).
+ * Ionosphere-free combination: P_IF = (f1^2 P1 - f2^2 P2) / (f1^2 - f2^2) (IS-GPS-200 20.3.3.3.3.3).
+ */
+import type { EcefM, GnssSystem, SatId } from '../types.js';
+import { satSystem } from '../types.js';
+import type { ObsEpoch, ObsHeader, SatObservations } from '../rinex/obs-types.js';
+import type { IonosphereCoefficients } from '../rinex/nav-types.js';
+import { chooseCode, carrierFrequencyHz } from '../rinex/obs-codes.js';
+import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS, type SignalKind } from '../orbit/index.js';
+import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
+import { elevationVarianceM2, strengthToDbHz, type ElevationWeightParams } from '../solve/index.js';
+import { solvePositionFix, DEFAULT_FIX_OPTIONS, type FixOptions, type LinearRow, type PositionFix, type FixFailure } from '../positioning/position-fix.js';
+import { PRIMARY_BAND, SECONDARY_BANDS, clockSignal } from '../positioning/signals.js';
+import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
+import type { SatelliteResidual } from '../session/solution-types.js';
+
+export type StandaloneMode = 'ionosphere-free' | 'single-frequency';
+
+export interface StandaloneContext {
+  readonly store: EphemerisStore;
+  readonly iono: IonosphereCoefficients;
+  readonly systems: readonly GnssSystem[];
+  readonly elevationMaskRad: number;
+  readonly weighting: ElevationWeightParams;
+  /** 'auto': ionosphere-free where a satellite has two bands, else single-frequency with Klobuchar. */
+  readonly frequencyMode: 'auto' | 'single';
+  /** GLONASS slot -> frequency channel (header GLONASS SLOT / FRQ #, else from the navigation data). */
+  readonly glonassChannels: ReadonlyMap<number, number>;
+  readonly fix?: FixOptions;
+}
+
+export interface StandaloneEpochResult {
+  readonly fix: PositionFix | FixFailure;
+  readonly modeBySystem: ReadonlyMap<GnssSystem, StandaloneMode>;
+  readonly satellites: readonly SatelliteResidual[];
+}
+
+interface PreparedSat {
+  readonly sat: SatId;
+  readonly system: GnssSystem;
+  readonly signal: string;
+  readonly mode: StandaloneMode;
+  readonly codeM: number;
+  readonly satPos: EcefM;
+  /** c * satellite clock (m), group delay and relativistic term included. */
+  readonly satClockM: number;
+  /** Frequency of the signal the ionosphere model is scaled to (NaN for ionosphere-free). */
+  readonly frequencyHz: number;
+  readonly cn0DbHz: number;
+  /** Variance inflation of the combination relative to one code. */
+  readonly noiseFactor: number;
+}
+
+function valueOf(s: SatObservations, code: string): number {
+  const i = s.codes.indexOf(code);
+  return i < 0 ? NaN : s.values[i];
+}
+
+function strengthDbHz(s: SatObservations, codeM: string, version: number): number {
+  const sCode = 'S' + codeM.slice(1);
+  const v = valueOf(s, sCode);
+  if (Number.isFinite(v)) return strengthToDbHz(v, 'dbhz');
+  const i = s.codes.indexOf(codeM);
+  return i >= 0 && s.ssi[i] > 0 ? strengthToDbHz(s.ssi[i], 'rinex2-digit') : NaN;
+}
+
+function glonassChannel(sat: SatId, ctx: StandaloneContext): number | undefined {
+  return ctx.glonassChannels.get(Number(sat.slice(1)));
+}
+
+function availablePseudoranges(s: SatObservations): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < s.codes.length; i++) if (s.codes[i][0] === 'C' && Number.isFinite(s.values[i]) && s.values[i] > 1e6) out.push(s.codes[i]);
+  return out;
+}
+
+/** Solves one epoch standalone. `x0`: a starting position (previous fix or header), else the Earth's centre. */
+export function solveStandaloneEpoch(epoch: ObsEpoch, header: ObsHeader, ctx: StandaloneContext, x0: EcefM | null): StandaloneEpochResult {
+  const reasons = new Map<SatId, { signal: string; reason: string }>();
+  const prepared: PreparedSat[] = [];
+  const modeBySystem = new Map<GnssSystem, StandaloneMode>();
+  for (const s of epoch.sats) {
+    const system = satSystem(s.sat);
+    if (!ctx.systems.includes(system)) { reasons.set(s.sat, { signal: '', reason: 'constellation not selected' }); continue; }
+    const avail = availablePseudoranges(s);
+    const c1 = chooseCode(system, avail, PRIMARY_BAND[system]);
+    if (c1 === null) { reasons.set(s.sat, { signal: '', reason: 'no pseudorange on the primary band' }); continue; }
+    const sel = ctx.store.select(s.sat, epoch.tagGpsS);
+    if (sel.eph === null) {
+      reasons.set(s.sat, { signal: c1, reason: sel.reason === 'too-old' ? `ephemeris too old (${Math.round((sel.ageS ?? 0) / 60)} min)` : sel.reason === 'unhealthy' ? 'unhealthy ephemeris' : 'no ephemeris' });
+      continue;
+    }
+    const eph = sel.eph;
+    const k = system === 'R' ? glonassChannel(s.sat, ctx) : undefined;
+    const p1 = valueOf(s, c1);
+    let c2: string | null = null;
+    if (ctx.frequencyMode === 'auto') {
+      for (const band of SECONDARY_BANDS[system]) { c2 = chooseCode(system, avail, band); if (c2) break; }
+    }
+    const f1 = carrierFrequencyHz(system, c1, k);
+    let mode: StandaloneMode = 'single-frequency';
+    let codeM = p1;
+    let signalKind: SignalKind | undefined = clockSignal(system, c1[1]);
+    let extraBiasM = 0;
+    let noiseFactor = 1;
+    let signal = c1;
+    if (c2 !== null) {
+      const f2 = carrierFrequencyHz(system, c2, k);
+      const p2 = valueOf(s, c2);
+      if (Number.isFinite(f1) && Number.isFinite(f2) && Number.isFinite(p2)) {
+        const g1 = f1 * f1, g2 = f2 * f2;
+        codeM = (g1 * p1 - g2 * p2) / (g1 - g2);
+        noiseFactor = (g1 * g1 + g2 * g2) / ((g1 - g2) * (g1 - g2));
+        mode = 'ionosphere-free';
+        signal = `${c1}+${c2}`;
+        if (system === 'G' || system === 'J') signalKind = c1 === 'C1C' || c1 === 'C1W' ? 'L1L2-IF' : signalKind;
+        if (system === 'E') signalKind = c2[1] === '5' ? 'E1E5a-IF' : 'E1E5b-IF';
+        if (system === 'C' && eph.kind === 'kepler') {
+          // BeiDou clocks refer to B3I (BeiDou ICD 5.2.4.10): the B1I/B3I combination keeps g1/(g1-g2) * c * TGD1.
+          signalKind = 'B3I';
+          if (c2[1] === '6') extraBiasM = (g1 / (g1 - g2)) * SPEED_OF_LIGHT_MS * eph.tgdS;
+          else signalKind = 'B2I';
+        }
+        if (system === 'R') signalKind = 'G1';
+      }
+    }
+    const at = satelliteAtTransmission(eph, epoch.tagGpsS, codeM, null, signalKind);
+    prepared.push({
+      sat: s.sat, system, signal, mode, codeM: codeM - extraBiasM,
+      satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
+      frequencyHz: mode === 'single-frequency' ? f1 : NaN,
+      cn0DbHz: strengthDbHz(s, c1, header.version), noiseFactor,
+    });
+    if (!modeBySystem.has(system) || mode === 'single-frequency') modeBySystem.set(system, mode);
+  }
+  const doy = dayOfYear(epoch.tagGpsS);
+  const geometry = new Map<SatId, { el: number; az: number; variance: number }>();
+  const maskReasons = new Map<SatId, string>();
+  const build = (x: EcefM, excluded: ReadonlySet<SatId>): LinearRow[] => {
+    const rows: LinearRow[] = [];
+    const nearSurface = Math.hypot(x.x, x.y, x.z) > 6.0e6;
+    const g = ecefToGeodetic(x);
+    maskReasons.clear();
+    for (const p of prepared) {
+      if (excluded.has(p.sat)) continue;
+      const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;
+      const range = Math.sqrt(dx * dx + dy * dy + dz * dz);
+      let el = Math.PI / 2, az = 0, tropo = 0, iono = 0;
+      if (nearSurface) {
+        const ae = azimuthElevation(x, p.satPos, g.latRad, g.lonRad);
+        el = ae.elevationRad; az = ae.azimuthRad;
+        if (el < ctx.elevationMaskRad) { maskReasons.set(p.sat, `below elevation mask (${(el * 180 / Math.PI).toFixed(1)} deg)`); geometry.set(p.sat, { el, az, variance: NaN }); continue; }
+        tropo = troposphereDelayM(g, el, doy);
+        if (p.mode === 'single-frequency') iono = ionosphereDelayM(ctx.iono, p.system, g, el, az, epoch.tagGpsS, p.frequencyHz);
+      }
+      const variance = elevationVarianceM2(el, ctx.weighting, p.cn0DbHz) * p.noiseFactor;
+      geometry.set(p.sat, { el, az, variance });
+      rows.push({
+        sat: p.sat, system: p.system, losX: dx / range, losY: dy / range, losZ: dz / range,
+        misclosureM: p.codeM - (range - p.satClockM + tropo + iono), varianceM2: variance,
+      });
+    }
+    return rows;
+  };
+  const start = x0 ?? { x: 0, y: 0, z: 0 };
+  const fix = solvePositionFix(build, start, ctx.fix ?? DEFAULT_FIX_OPTIONS);
+  const satellites: SatelliteResidual[] = [];
+  const usedBySat = new Map(fix.ok ? fix.used.map((u) => [u.row.sat, u] as const) : []);
+  const rejBySat = new Map(fix.rejected.map((r) => [r.sat, r] as const));
+  for (const s of epoch.sats) {
+    const pre = reasons.get(s.sat);
+    const p = prepared.find((q) => q.sat === s.sat);
+    const geo = geometry.get(s.sat);
+    const u = usedBySat.get(s.sat);
+    const rej = rejBySat.get(s.sat);
+    const reason = pre?.reason ?? maskReasons.get(s.sat) ?? rej?.reason ?? (u ? '' : fix.ok ? 'not used' : `no solution: ${fix.reason}`);
+    satellites.push({
+      sat: s.sat,
+      signal: p?.signal ?? pre?.signal ?? '',
+      elevationDeg: geo ? (geo.el * 180) / Math.PI : NaN,
+      azimuthDeg: geo ? (geo.az * 180) / Math.PI : NaN,
+      residualM: u ? u.residualM : NaN,
+      weight: u ? 1 / u.row.varianceM2 : 0,
+      wTest: u ? u.wTest : rej ? rej.wTest : NaN,
+      used: u !== undefined,
+      reason,
+    });
+  }
+  return { fix, modeBySystem, satellites };
+}
