@@ -1,0 +1,439 @@
+/**
+ * Compact RINEX ("Hatanaka") 1.0 and 3.0 decoder: compact text lines in, plain RINEX text lines out.
+ *
+ * Source: Y. Hatanaka, "A Compression Format and Tools for GNSS Observation Data", Bulletin of the
+ * Geographical Survey Institute 55 (2008), and the "Compact RINEX format" descriptions, version 1.0
+ * (for RINEX 2) and 3.0 (for RINEX 3/4). Layout of one epoch in the compact file:
+ *   1. epoch line: the RINEX epoch line with the whole satellite list on one line (CRX 1.0: from
+ *      column 33, RINEX 2 layout; CRX 3.0: from column 42, RINEX 3 layout) and without the clock offset.
+ *      It starts with '&' (CRX 1.0) or '>' (CRX 3.0) when written in full (initialisation; every
+ *      difference state is reset), otherwise it is a text difference against the previous epoch line
+ *      (see text-diff.ts).
+ *   2. receiver clock offset line: empty, or the offset as an integer (digits without the point),
+ *      differenced like an observable.
+ *   3. one line per satellite, in epoch-line order: for each observation type, a field followed by one
+ *      space: empty (no observation; the arc ends), 'M&v' (arc initialisation, difference order M,
+ *      value v), or 'v' (the order-min(k, M) difference at the k-th epoch of the arc); then the LLI/SSI
+ *      flag text difference (two characters per type). Missing trailing fields are blank, a missing
+ *      flag text means flags unchanged. A missing observation is written blank, flags included (its
+ *      flag state is kept: later differences refer to it; checked on the hatanaka-pairs files).
+ *   Event records (epoch flag 2-5) are written in full and followed by their header lines as they are.
+ * A satellite not in the previous epoch starts with fresh state (blank flags, arcs to initialise).
+ *
+ * Output (plain RINEX): observations F14.3 + LLI + SSI; RINEX 2.11 (section 5.1, table A2): 5 per line,
+ * epoch line with 12 satellites per line and continuation lines from column 33, clock F12.9 in columns
+ * 69-80; RINEX 3.05 (table A3): one line per satellite, clock F15.12 in columns 42-56. Trailing blanks
+ * are not written (common practice).
+ */
+import { FormatError } from '../errors.js';
+import { formatFixed, formatObs, parseSignedInt, spaces } from './fixed-point.js';
+import { ALL_SYSTEMS_KEY, headerLabel, newObsTypeCounts, readHeaderLine } from './obs-type-counts.js';
+import type { ObsTypeCounts } from './obs-type-counts.js';
+import { applyFlagDiff, applyTextDiff } from './text-diff.js';
+
+export type CompactRinexVersion = 1 | 3;
+
+/** Called for a damaged or truncated record; may throw to stop decoding (strict mode). */
+export type CrxProblemSink = (line: number, code: string, message: string) => void;
+
+/** One observable's difference state (an "arc"): d[0] value, d[i] i-th difference at the last epoch. */
+interface Arc {
+  readonly order: number;
+  count: number;
+  readonly d: number[];
+}
+
+interface SatState {
+  readonly arcs: (Arc | null)[];
+  readonly flags: Uint8Array;
+}
+
+type Phase = 'crx-header' | 'header' | 'epoch' | 'clock' | 'sats' | 'event' | 'resync';
+
+/** Longest epoch line accepted (999 satellites of 3 characters after column 41). */
+const MAX_EPOCH_LINE = 41 + 3 * 999;
+
+/** A missing observation: value and flags blank (the flag state is kept for the next epochs). */
+const BLANK_FIELD = '                ';
+const CH: string[] = [];
+for (let i = 0; i < 256; i++) CH.push(String.fromCharCode(i));
+
+// RINEX 2.11 table A2 epoch line (columns 2-32) / RINEX 3.05 table A3 epoch line (columns 1-35).
+const DATA_EPOCH_CRX1 = /^[ &][ \d]\d( [ \d]\d){4}[ \d]{2}\d\.\d{7}  [016][ \d]{2}\d/;
+const DATA_EPOCH_CRX3 = /^> \d{4}( [ \d]\d){4}[ \d]{2}\d\.\d{7}  [016][ \d]{2}\d/;
+const EVENT_EPOCH_CRX1 = /^[ &].{27}[2-5][ \d]{2}\d/;
+const EVENT_EPOCH_CRX3 = /^>.{30}[2-5][ \d]{2}\d/;
+
+export class CompactRinexDecoder {
+  private phase: Phase = 'crx-header';
+  private lineNo = 0;
+  private readonly types: ObsTypeCounts = newObsTypeCounts();
+  private out: string[] = [];
+  private outChars = 0;
+  private epochOut: string[] = [];
+  private prevEpoch: string | null = null;
+  private prevSats = new Map<string, SatState>();
+  private curSats = new Map<string, SatState>();
+  private clockArc: Arc | null = null;
+  private epochSats: string[] = [];
+  private epochText = '';
+  private epochLineNo = 0;
+  private satIndex = 0;
+  private remaining = 0;
+  private damagedAt = 0;
+  private skipped = 0;
+  private readonly initChar: string;
+  private readonly satListColumn: number;
+
+  constructor(
+    readonly file: string,
+    readonly version: CompactRinexVersion,
+    private readonly problem: CrxProblemSink,
+  ) {
+    this.initChar = version === 1 ? '&' : '>';
+    this.satListColumn = version === 1 ? 32 : 41;
+  }
+
+  /** Lines of the compact text read so far (the 1-based number of the last one). */
+  get lineNumber(): number {
+    return this.lineNo;
+  }
+
+  /** Characters of plain text waiting in take(). */
+  get pendingChars(): number {
+    return this.outChars;
+  }
+
+  /** The plain lines produced so far (each without its line end), emptied. */
+  take(): string[] {
+    const o = this.out;
+    this.out = [];
+    this.outChars = 0;
+    return o;
+  }
+
+  /** One line of the compact file, without its line end. */
+  pushLine(raw: string): void {
+    this.lineNo++;
+    const line = raw.length > 0 && raw.charCodeAt(raw.length - 1) === 13 ? raw.slice(0, -1) : raw;
+    switch (this.phase) {
+      case 'crx-header':
+        return this.crxHeaderLine(line);
+      case 'header':
+        return this.headerLine(line);
+      case 'epoch':
+        return this.epochLine(line);
+      case 'clock':
+        return this.clockLine(line);
+      case 'sats':
+        return this.satLine(line);
+      case 'event':
+        return this.eventLine(line);
+      case 'resync':
+        return this.resyncLine(line);
+    }
+  }
+
+  /** End of the compact text: reports an incomplete header or epoch. */
+  finish(): void {
+    switch (this.phase) {
+      case 'crx-header':
+      case 'header':
+        this.problem(this.lineNo, 'crx-truncated', 'file ends inside the header (END OF HEADER not found)');
+        break;
+      case 'clock':
+      case 'sats':
+        this.problem(
+          this.epochLineNo,
+          'crx-truncated',
+          `file ends inside the epoch starting here (${this.epochSats.length - this.satIndex} satellite line(s) missing); that epoch is dropped`,
+        );
+        break;
+      case 'event':
+        this.flushEpoch();
+        this.problem(this.epochLineNo, 'crx-truncated', `file ends inside the event record starting here (${this.remaining} header line(s) missing)`);
+        break;
+      case 'resync':
+        this.problem(this.damagedAt, 'crx-unrecovered', `no initialisation epoch after the damage at this line: the last ${this.skipped} line(s) were not decoded`);
+        break;
+      default:
+        break;
+    }
+  }
+
+  private emit(line: string): void {
+    this.out.push(line);
+    this.outChars += line.length + 1;
+  }
+
+  private flushEpoch(): void {
+    for (const l of this.epochOut) this.emit(l);
+    this.epochOut = [];
+  }
+
+  private crxHeaderLine(line: string): void {
+    const label = headerLabel(line);
+    if (this.lineNo === 1) {
+      if (!label.startsWith('CRINEX VERS') && !line.includes('COMPACT RINEX FORMAT')) {
+        throw new FormatError(this.file, 1, "not a compact RINEX file: 'CRINEX VERS   / TYPE' expected in columns 61-80 of the first line");
+      }
+      return;
+    }
+    if (label.startsWith('CRINEX')) return;
+    this.phase = 'header';
+    this.headerLine(line);
+  }
+
+  private headerLine(line: string): void {
+    const label = readHeaderLine(line, this.types);
+    this.emit(line);
+    if (this.lineNo === 3 || (this.lineNo <= 3 && label === 'RINEX VERSION / TYPE')) {
+      // RINEX 2.11 / 3.05 section 5.1: 'RINEX VERSION / TYPE' is the first header record.
+      if (label !== 'RINEX VERSION / TYPE') {
+        throw new FormatError(this.file, this.lineNo, "not a compact RINEX observation file: 'RINEX VERSION / TYPE' expected after the CRINEX lines");
+      }
+      const v = this.types.version;
+      const ok = this.version === 1 ? v >= 1 && v < 3 : v >= 3 && v < 5;
+      if (!ok) {
+        throw new FormatError(this.file, this.lineNo, `compact RINEX ${this.version}.0 cannot hold RINEX version ${line.slice(0, 9).trim()} (${this.version === 1 ? '2.x' : '3.x or 4.x'} expected)`);
+      }
+    }
+    if (label === 'END OF HEADER') {
+      if (this.types.counts.size === 0) {
+        throw new FormatError(this.file, this.lineNo, `no observation types in the header (${this.version === 1 ? "'# / TYPES OF OBSERV'" : "'SYS / # / OBS TYPES'"} expected)`);
+      }
+      this.phase = 'epoch';
+    }
+  }
+
+  private resetState(): void {
+    this.prevEpoch = null;
+    this.prevSats = new Map();
+    this.clockArc = null;
+  }
+
+  /** A damaged record: report it, drop the epoch being decoded, skip to the next initialisation epoch. */
+  private damage(line: number, reason: string): void {
+    this.epochOut = [];
+    this.resetState();
+    this.phase = 'resync';
+    this.damagedAt = line;
+    this.skipped = 0;
+    this.problem(line, 'crx-damaged', `${reason}; this epoch is dropped and lines are skipped up to the next initialisation epoch ('${this.initChar}' in column 1)`);
+  }
+
+  private resyncLine(line: string): void {
+    if (line.startsWith(this.initChar) && this.isEpochText(line)) {
+      this.problem(this.lineNo, 'crx-resumed', `decoding resumed at this initialisation epoch after ${this.skipped} line(s) skipped from line ${this.damagedAt}`);
+      this.phase = 'epoch';
+      this.epochLine(line);
+      return;
+    }
+    this.skipped++;
+  }
+
+  private isEpochText(line: string): boolean {
+    return this.version === 1
+      ? DATA_EPOCH_CRX1.test(line) || EVENT_EPOCH_CRX1.test(line)
+      : DATA_EPOCH_CRX3.test(line) || EVENT_EPOCH_CRX3.test(line);
+  }
+
+  private epochLine(line: string): void {
+    this.epochLineNo = this.lineNo;
+    if (line.length > MAX_EPOCH_LINE) return this.damage(this.lineNo, `epoch line of ${line.length} characters (at most ${MAX_EPOCH_LINE} expected)`);
+    let text: string;
+    if (line.startsWith(this.initChar)) {
+      this.resetState();
+      text = line;
+    } else {
+      if (this.prevEpoch === null) return this.damage(this.lineNo, `epoch line difference without a preceding full epoch line ('${this.initChar}' in column 1 expected)`);
+      text = applyTextDiff(this.prevEpoch, line);
+    }
+    const v1 = this.version === 1;
+    const flagCol = v1 ? 28 : 31;
+    const flag = text.charCodeAt(flagCol) - 48;
+    const count = Number(text.slice(flagCol + 1, flagCol + 4));
+    if (flag >= 2 && flag <= 5 && (v1 ? EVENT_EPOCH_CRX1 : EVENT_EPOCH_CRX3).test(text)) {
+      // Event record: written in full, its header lines follow as they are; not a reference for differences.
+      this.epochOut.push(v1 ? (' ' + text.slice(1)).trimEnd() : text.trimEnd());
+      this.remaining = count;
+      if (count === 0) this.flushEpoch();
+      else this.phase = 'event';
+      return;
+    }
+    if (!(v1 ? DATA_EPOCH_CRX1 : DATA_EPOCH_CRX3).test(text)) {
+      return this.damage(this.lineNo, `epoch line expected (${v1 ? 'RINEX 2 layout " yy mm dd hh mm ss.sssssss  f nnn"' : 'RINEX 3 layout "> yyyy mm dd hh mm ss.sssssss  f nnn"'}), found "${text.slice(0, 40).trimEnd()}"`);
+    }
+    const col = this.satListColumn;
+    if (text.length < col + 3 * count - 2 && count > 0) {
+      return this.damage(this.lineNo, `epoch line lists fewer satellites than its count ${count}`);
+    }
+    const sats: string[] = new Array(count);
+    for (let i = 0; i < count; i++) {
+      const s = text.substr(col + 3 * i, 3);
+      sats[i] = s.length === 3 ? s : (s + '   ').slice(0, 3);
+    }
+    this.prevEpoch = text.trimEnd();
+    this.epochSats = sats;
+    this.epochText = text;
+    this.satIndex = 0;
+    this.curSats = new Map();
+    this.phase = 'clock';
+  }
+
+  private clockLine(line: string): void {
+    let clock: number | null = null;
+    if (line.length === 0) {
+      this.clockArc = null;
+    } else {
+      const amp = line.indexOf('&');
+      if (amp >= 0) {
+        const order = parseSignedInt(line, 0, amp);
+        const v = parseSignedInt(line, amp + 1, line.length);
+        if (!(order >= 0 && order <= 9) || Number.isNaN(v)) return this.damage(this.lineNo, `receiver clock offset line "${line.slice(0, 30)}" is not 'M&value'`);
+        this.clockArc = newArc(order, v);
+        clock = v;
+      } else {
+        const u = parseSignedInt(line, 0, line.length);
+        if (Number.isNaN(u)) return this.damage(this.lineNo, `receiver clock offset line "${line.slice(0, 30)}" is not an integer`);
+        if (this.clockArc === null) return this.damage(this.lineNo, 'receiver clock offset difference without an initialisation (M&value)');
+        clock = stepArc(this.clockArc, u);
+      }
+    }
+    this.writeEpochLines(clock);
+    if (this.epochSats.length === 0) this.endDataEpoch();
+    else this.phase = 'sats';
+  }
+
+  private writeEpochLines(clock: number | null): void {
+    const text = this.epochText;
+    const sats = this.epochSats;
+    if (this.version === 1) {
+      let head = ' ' + text.slice(1, 32);
+      if (head.length < 32) head += spaces(32 - head.length);
+      let first = head + sats.slice(0, 12).join('');
+      if (clock !== null) first = first + spaces(68 - first.length) + formatFixed(clock, 9, 12);
+      this.epochOut.push(first.trimEnd());
+      for (let k = 12; k < sats.length; k += 12) this.epochOut.push(spaces(32) + sats.slice(k, k + 12).join(''));
+    } else {
+      let head = text.slice(0, 41).trimEnd();
+      if (clock !== null) head = head + spaces(41 - head.length) + formatFixed(clock, 12, 15);
+      this.epochOut.push(head);
+    }
+  }
+
+  private satLine(line: string): void {
+    const sat = this.epochSats[this.satIndex];
+    const nTypes = this.types.counts.get(this.version === 1 ? ALL_SYSTEMS_KEY : sat.charAt(0));
+    if (nTypes === undefined) return this.damage(this.lineNo, `satellite ${sat}: no observation types for system '${sat.charAt(0)}' in the header`);
+    let st = this.prevSats.get(sat);
+    if (st === undefined || st.arcs.length !== nTypes) {
+      st = { arcs: new Array<Arc | null>(nTypes).fill(null), flags: new Uint8Array(2 * nTypes).fill(32) };
+    }
+    const arcs = st.arcs;
+    const values = new Array<number>(nTypes);
+    let pos = 0;
+    const len = line.length;
+    for (let j = 0; j < nTypes; j++) {
+      if (pos >= len) {
+        arcs[j] = null;
+        values[j] = NaN;
+        pos = len + 1;
+        continue;
+      }
+      let end = line.indexOf(' ', pos);
+      if (end < 0) end = len;
+      if (end === pos) {
+        arcs[j] = null;
+        values[j] = NaN;
+      } else {
+        const amp = line.indexOf('&', pos);
+        if (amp >= 0 && amp < end) {
+          const order = parseSignedInt(line, pos, amp);
+          const v = parseSignedInt(line, amp + 1, end);
+          if (!(order >= 0 && order <= 9) || Number.isNaN(v)) {
+            return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: "${line.slice(pos, Math.min(end, pos + 24))}" is not 'M&value'`);
+          }
+          const arc = newArc(order, v);
+          arcs[j] = arc;
+          values[j] = v;
+        } else {
+          const u = parseSignedInt(line, pos, end);
+          if (Number.isNaN(u)) return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: "${line.slice(pos, Math.min(end, pos + 24))}" is not an integer difference`);
+          const arc = arcs[j];
+          if (arc === null) return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: difference without an initialisation (M&value expected)`);
+          values[j] = stepArc(arc, u);
+        }
+      }
+      pos = end + 1;
+    }
+    if (pos < len && !applyFlagDiff(st.flags, line.slice(pos))) {
+      return this.damage(this.lineNo, `satellite ${sat}: LLI/SSI flag text "${line.slice(pos, pos + 40)}" is not digits, blanks and '&' of at most ${2 * nTypes} characters`);
+    }
+    this.curSats.set(sat, st);
+    this.writeSatLines(sat, values, st.flags);
+    this.satIndex++;
+    if (this.satIndex === this.epochSats.length) this.endDataEpoch();
+  }
+
+  private writeSatLines(sat: string, values: number[], flags: Uint8Array): void {
+    const n = values.length;
+    if (this.version === 3) {
+      let s = sat;
+      for (let j = 0; j < n; j++) {
+        const v = values[j];
+        s += v === v ? formatObs(v) + CH[flags[2 * j]] + CH[flags[2 * j + 1]] : BLANK_FIELD;
+      }
+      this.epochOut.push(s.trimEnd());
+      return;
+    }
+    // RINEX 2.11 table A2: 5 observations per 80-column line.
+    for (let j0 = 0; j0 < n || j0 === 0; j0 += 5) {
+      let s = '';
+      const j1 = Math.min(n, j0 + 5);
+      for (let j = j0; j < j1; j++) {
+        const v = values[j];
+        s += v === v ? formatObs(v) + CH[flags[2 * j]] + CH[flags[2 * j + 1]] : BLANK_FIELD;
+      }
+      this.epochOut.push(s.trimEnd());
+      if (n === 0) break;
+    }
+  }
+
+  private endDataEpoch(): void {
+    this.flushEpoch();
+    this.prevSats = this.curSats;
+    this.curSats = new Map();
+    this.phase = 'epoch';
+  }
+
+  private eventLine(line: string): void {
+    readHeaderLine(line, this.types);
+    this.epochOut.push(line);
+    this.remaining--;
+    if (this.remaining <= 0) {
+      this.flushEpoch();
+      this.phase = 'epoch';
+    }
+  }
+}
+
+function newArc(order: number, value: number): Arc {
+  const d = new Array<number>(order + 1).fill(0);
+  d[0] = value;
+  return { order, count: 0, d };
+}
+
+/**
+ * Adds the next difference to an arc and returns the new value. At the k-th epoch after the
+ * initialisation the field holds the difference of order min(k, M) (Hatanaka 2008, section 3.2):
+ * d_k = u, then d_i += d_(i+1) for i = k-1 .. 0.
+ */
+function stepArc(arc: Arc, u: number): number {
+  const k = arc.count < arc.order ? arc.count + 1 : arc.order;
+  const d = arc.d;
+  d[k] = u;
+  for (let i = k - 1; i >= 0; i--) d[i] += d[i + 1];
+  arc.count = k;
+  return d[0];
+}

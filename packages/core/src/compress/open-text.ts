@@ -1,0 +1,158 @@
+/**
+ * openText: peels compression layers off a byte stream (gzip, Unix compress, compact RINEX), in the
+ * order the content shows, and yields the plain text in chunks of about 64 KiB whose lines are
+ * separated by '\n' (CR LF turned into LF).
+ *
+ * Problems inside a layer (truncated gzip/.Z stream, damaged compact RINEX record) go to
+ * `opts.onWarning` when given, and decoding goes on with what is left (what was decoded before is
+ * always delivered first). Without a warning sink they are thrown as InputError after the text
+ * decoded before them. Input that is no text at all is a FormatError.
+ */
+import { FormatError, InputError, RefdeltaError } from '../errors.js';
+import type { WarningSink } from '../errors.js';
+import { PeekableBytes } from './byte-source.js';
+import { CompactRinexDecoder } from './compact-rinex.js';
+import type { CompactRinexVersion } from './compact-rinex.js';
+import { encodingsFromName, sniffBinaryLayer, sniffCompactRinex, sniffUnsupported } from './encoding.js';
+import type { Encoding } from './encoding.js';
+import { gunzip } from './gzip.js';
+import { decompressUnix } from './unix-compress.js';
+
+export interface OpenTextOptions {
+  readonly onWarning?: WarningSink;
+}
+
+export interface OpenedText {
+  /** Layers found, outermost first; ['plain'] when the input was plain text. */
+  readonly layers: Encoding[];
+  readonly text: AsyncIterable<string>;
+}
+
+/** Text chunks handed out hold about this many characters. */
+export const TEXT_CHUNK_CHARS = 1 << 16;
+/** Nested binary layers peeled at most (a .gz inside a .gz...). */
+const MAX_BINARY_LAYERS = 4;
+/** Bytes looked at for the first line. */
+const FIRST_LINE_BYTES = 1024;
+
+export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, opts: OpenTextOptions = {}): Promise<OpenedText> {
+  const onWarning = opts.onWarning;
+  const layers: Encoding[] = [];
+  const damage = (code: string, message: string, line = 0): void => {
+    if (onWarning) onWarning({ file, line, code, message });
+    else throw new InputError(file, line, message);
+  };
+  let src = new PeekableBytes(bytes);
+  for (let depth = 0; depth < MAX_BINARY_LAYERS; depth++) {
+    const head = await src.peek(8);
+    const layer = sniffBinaryLayer(head);
+    if (layer === null) {
+      const other = sniffUnsupported(head);
+      if (other !== null) throw new FormatError(file, 0, `the file is compressed with ${other}, which is not read here: decompress it first (gzip, Unix compress and compact RINEX are read)`);
+      break;
+    }
+    layers.push(layer);
+    const inner =
+      layer === 'gzip'
+        ? gunzip(src.chunks(), (reason) => damage('gzip-damaged', `${reason}; the text decoded before it is kept`))
+        : decompressUnix(src.chunks(), (reason, at) => damage('unix-compress-damaged', `Unix compress (.Z) stream damaged or truncated near byte ${at}: ${reason}; the text decoded before it is kept`));
+    src = new PeekableBytes(inner);
+  }
+  const head = await src.peek(FIRST_LINE_BYTES);
+  if (head.includes(0)) {
+    throw new FormatError(file, 1, `not a text file (binary bytes${layers.length > 0 ? ` after ${layers.join(' + ')}` : ''}): RINEX text expected`);
+  }
+  const firstLine = latin1Line(head);
+  const crx = sniffCompactRinex(firstLine);
+  if (crx === 'unsupported') {
+    throw new FormatError(file, 1, `compact RINEX version '${firstLine.slice(0, 9).trim()}' is not read here (1.0 and 3.0 are)`);
+  }
+  if (crx !== null) layers.push(crx === 1 ? 'compact-rinex-1' : 'compact-rinex-3');
+  const hinted = encodingsFromName(file);
+  if (hinted.length > 0 && hinted.join('+') !== layers.join('+')) {
+    onWarning?.({
+      file,
+      line: 0,
+      code: 'encoding-name-mismatch',
+      message: `the name suggests ${hinted.join(' + ')} but the content is ${layers.length > 0 ? layers.join(' + ') : 'plain text'}; read by content`,
+    });
+  }
+  const chars = decodeLatin1(src.chunks());
+  const text = crx === null ? normaliseLineEnds(chars) : decodeCompact(file, crx, chars, onWarning);
+  return { layers: layers.length > 0 ? layers : ['plain'], text };
+}
+
+function latin1Line(head: Uint8Array): string {
+  let end = head.indexOf(10);
+  if (end < 0) end = head.length;
+  return new TextDecoder('latin1').decode(head.subarray(0, end)).replace(/\r$/, '');
+}
+
+/**
+ * Bytes to characters one for one (WHATWG 'latin1' = windows-1252): RINEX is ASCII, and a stray
+ * non-ASCII byte in a comment keeps the columns of the line where they are.
+ */
+async function* decodeLatin1(bytes: AsyncIterable<Uint8Array>): AsyncIterable<string> {
+  const dec = new TextDecoder('latin1');
+  for await (const b of bytes) {
+    const s = dec.decode(b, { stream: true });
+    if (s.length > 0) yield s;
+  }
+  const tail = dec.decode();
+  if (tail.length > 0) yield tail;
+}
+
+async function* normaliseLineEnds(chunks: AsyncIterable<string>): AsyncIterable<string> {
+  let carry = '';
+  for await (const c of chunks) {
+    let s = carry + c;
+    carry = '';
+    if (s.endsWith('\r')) {
+      carry = '\r';
+      s = s.slice(0, -1);
+    }
+    if (s.length > 0) yield s.includes('\r\n') ? s.replace(/\r\n/g, '\n') : s;
+  }
+  if (carry) yield carry;
+}
+
+async function* decodeCompact(
+  file: string,
+  version: CompactRinexVersion,
+  chunks: AsyncIterable<string>,
+  onWarning: WarningSink | undefined,
+): AsyncIterable<string> {
+  const dec = new CompactRinexDecoder(file, version, (line, code, message) => {
+    if (onWarning) onWarning({ file, line, code, message });
+    else if (code !== 'crx-resumed') throw new InputError(file, line, message);
+  });
+  const flush = (): string => {
+    const lines = dec.take();
+    return lines.length > 0 ? lines.join('\n') + '\n' : '';
+  };
+  let rest = '';
+  try {
+    for await (const c of chunks) {
+      const s = rest.length > 0 ? rest + c : c;
+      let start = 0;
+      for (;;) {
+        const nl = s.indexOf('\n', start);
+        if (nl < 0) break;
+        dec.pushLine(s.slice(start, nl));
+        start = nl + 1;
+        if (dec.pendingChars >= TEXT_CHUNK_CHARS) yield flush();
+      }
+      rest = start === 0 ? s : s.slice(start);
+    }
+    if (rest.length > 0) dec.pushLine(rest);
+    dec.finish();
+  } catch (e) {
+    const t = flush();
+    if (t.length > 0) yield t;
+    if (e instanceof RefdeltaError) throw e;
+    // Defensive: no untyped error leaves the decoder.
+    throw new InputError(file, dec.lineNumber, `compact RINEX record could not be decoded (${e instanceof Error ? e.message : String(e)})`);
+  }
+  const t = flush();
+  if (t.length > 0) yield t;
+}
