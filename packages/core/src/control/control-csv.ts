@@ -1,0 +1,147 @@
+/**
+ * Control marks from a CSV file (our format). A header row names the columns (any order, case-insensitive):
+ *
+ *   name                                       required
+ *   lat_deg, lon_deg, h_m                      geodetic (h_m ellipsoidal height), or
+ *   x_m, y_m, z_m                              ECEF, or
+ *   easting_m, northing_m, h_m, projection     grid coordinates: projection is an EPSG code or a PROJ
+ *                                              string (see projection/), h_m ellipsoidal height
+ *   frame                                      optional; blank or absent -> 'unstated'
+ *   epoch                                      decimal year; optional (blank -> epoch unknown: NaN,
+ *                                              no epoch check can be made, a warning says so)
+ *   accuracy_h_m, accuracy_v_m                 optional, the mark's own accuracy (1 sigma or as published)
+ *
+ * A row may use any one coordinate form for which it has all values (so one file can mix forms).
+ * Geodetic and grid coordinates are converted to ECEF on GRS80, or on WGS 84 when the frame is WGS84
+ * (the two differ by 0.1 mm in height). Fields may be quoted with "..." (a PROJ string may hold spaces).
+ * Lines starting with '#' and empty lines are skipped. A bad row is an InputError naming the file, line,
+ * column and what was expected.
+ */
+import type { FramedEcef } from '../types.js';
+import { InputError, type WarningSink } from '../errors.js';
+import { degToRad, geodeticToEcef, GRS80, WGS84, type Ellipsoid } from '../geodesy/index.js';
+import { normaliseFrameName } from '../frames/index.js';
+import { makeProjection, type Projection } from '../projection/index.js';
+
+export interface ControlMark {
+  readonly name: string;
+  readonly position: FramedEcef;
+  readonly accuracyHorizontalM?: number;
+  readonly accuracyVerticalM?: number;
+  /** Where it was read from. */
+  readonly file: string;
+  readonly line: number;
+}
+
+/** Splits one CSV line; double-quoted fields may contain commas ("" is a literal quote). */
+export function splitCsvLine(line: string): string[] {
+  const out: string[] = [];
+  let cur = '';
+  let quoted = false;
+  for (let i = 0; i < line.length; i++) {
+    const c = line[i]!;
+    if (quoted) {
+      if (c === '"' && line[i + 1] === '"') { cur += '"'; i++; }
+      else if (c === '"') quoted = false;
+      else cur += c;
+    } else if (c === '"') quoted = true;
+    else if (c === ',') { out.push(cur.trim()); cur = ''; }
+    else cur += c;
+  }
+  out.push(cur.trim());
+  return out;
+}
+
+export function ellipsoidForFrame(frameName: string): Ellipsoid {
+  return normaliseFrameName(frameName) === 'WGS84' ? WGS84 : GRS80;
+}
+
+const KNOWN = ['name', 'lat_deg', 'lon_deg', 'h_m', 'x_m', 'y_m', 'z_m', 'easting_m', 'northing_m', 'projection', 'frame', 'epoch', 'accuracy_h_m', 'accuracy_v_m'];
+
+export function parseControlCsv(file: string, text: string, onWarning?: WarningSink): ControlMark[] {
+  const lines = text.split(/\r?\n/);
+  let header: string[] | undefined;
+  let headerLine = 0;
+  const marks: ControlMark[] = [];
+  const projections = new Map<string, Projection>();
+  for (let i = 0; i < lines.length; i++) {
+    const raw = lines[i]!.trim();
+    const lineNo = i + 1;
+    if (raw === '' || raw.startsWith('#')) continue;
+    const f = splitCsvLine(raw);
+    if (!header) {
+      header = f.map((h) => h.toLowerCase());
+      headerLine = lineNo;
+      const unknown = header.filter((h) => !KNOWN.includes(h));
+      if (!header.includes('name')) throw new InputError(file, lineNo, `expected a header row with a 'name' column (columns: ${KNOWN.join(', ')})`);
+      if (unknown.length > 0) throw new InputError(file, lineNo, `unknown column(s) ${unknown.join(', ')}: expected some of ${KNOWN.join(', ')}`);
+      const has = (...c: string[]) => c.every((x) => header!.includes(x));
+      if (!has('lat_deg', 'lon_deg', 'h_m') && !has('x_m', 'y_m', 'z_m') && !has('easting_m', 'northing_m', 'h_m', 'projection')) {
+        throw new InputError(file, lineNo, 'expected coordinate columns: lat_deg,lon_deg,h_m or x_m,y_m,z_m or easting_m,northing_m,h_m,projection');
+      }
+      continue;
+    }
+    if (f.length !== header.length) throw new InputError(file, lineNo, `expected ${header.length} columns as in the header (line ${headerLine}), found ${f.length}`);
+    const get = (c: string): string => {
+      const k = header!.indexOf(c);
+      return k < 0 ? '' : f[k]!;
+    };
+    const num = (c: string, what: string, lo = -Infinity, hi = Infinity): number => {
+      const s = get(c);
+      const v = Number(s);
+      if (s === '' || !Number.isFinite(v) || v < lo || v > hi) throw new InputError(file, lineNo, `column ${c}: expected ${what}, found '${s}'`);
+      return v;
+    };
+    const optNum = (c: string, what: string, lo: number, hi: number): number | undefined => (get(c) === '' ? undefined : num(c, what, lo, hi));
+    const name = get('name');
+    if (name === '') throw new InputError(file, lineNo, 'column name: expected a mark name');
+    const frameName = normaliseFrameName(get('frame'));
+    const epochText = get('epoch');
+    let epochYear = NaN;
+    if (epochText !== '') epochYear = num('epoch', 'a decimal year between 1980 and 2100', 1980, 2100);
+    else onWarning?.({ file, line: lineNo, code: 'control-epoch-missing', message: `mark ${name}: no epoch given; epoch differences cannot be checked` });
+    const ell = ellipsoidForFrame(frameName);
+    const filled = (...c: string[]) => c.every((x) => get(x) !== '');
+    let ecef;
+    if (filled('x_m', 'y_m', 'z_m')) {
+      ecef = { x: num('x_m', 'an ECEF X in metres'), y: num('y_m', 'an ECEF Y in metres'), z: num('z_m', 'an ECEF Z in metres') };
+      const r = Math.hypot(ecef.x, ecef.y, ecef.z);
+      if (r < 6.2e6 || r > 6.5e6) throw new InputError(file, lineNo, `columns x_m,y_m,z_m: expected a point near the Earth's surface (|X| = ${r.toFixed(0)} m)`);
+    } else if (filled('lat_deg', 'lon_deg', 'h_m')) {
+      const lat = num('lat_deg', 'a latitude in degrees (-90..90)', -90, 90);
+      const lon = num('lon_deg', 'a longitude in degrees (-180..360)', -180, 360);
+      const h = num('h_m', 'an ellipsoidal height in metres (-1000..10000)', -1000, 10000);
+      ecef = geodeticToEcef({ latRad: degToRad(lat), lonRad: degToRad(lon), heightM: h }, ell);
+    } else if (filled('easting_m', 'northing_m', 'h_m', 'projection')) {
+      const spec = get('projection');
+      let proj = projections.get(spec);
+      if (!proj) {
+        try {
+          proj = makeProjection(spec);
+        } catch (e) {
+          throw new InputError(file, lineNo, `column projection: ${e instanceof Error ? e.message : String(e)}`);
+        }
+        if (proj.units !== 'm') throw new InputError(file, lineNo, `column projection: expected a projection in metres, '${spec}' is geographic`);
+        projections.set(spec, proj);
+      }
+      const ll = proj.inverse(num('easting_m', 'an easting in metres'), num('northing_m', 'a northing in metres'));
+      const h = num('h_m', 'an ellipsoidal height in metres (-1000..10000)', -1000, 10000);
+      if (!Number.isFinite(ll.latDeg) || !Number.isFinite(ll.lonDeg)) throw new InputError(file, lineNo, `columns easting_m,northing_m: expected a point inside the projection ${proj.name}`);
+      ecef = geodeticToEcef({ latRad: degToRad(ll.latDeg), lonRad: degToRad(ll.lonDeg), heightM: h }, ell);
+    } else {
+      throw new InputError(file, lineNo, 'expected a complete coordinate: lat_deg,lon_deg,h_m or x_m,y_m,z_m or easting_m,northing_m,h_m,projection');
+    }
+    const ah = optNum('accuracy_h_m', 'a non-negative accuracy in metres', 0, 1000);
+    const av = optNum('accuracy_v_m', 'a non-negative accuracy in metres', 0, 1000);
+    marks.push({
+      name,
+      position: { ecef, frame: { name: frameName, epochYear } },
+      ...(ah !== undefined ? { accuracyHorizontalM: ah } : {}),
+      ...(av !== undefined ? { accuracyVerticalM: av } : {}),
+      file,
+      line: lineNo,
+    });
+  }
+  if (!header) throw new InputError(file, 0, 'expected a header row and at least one control mark: the file is empty');
+  return marks;
+}

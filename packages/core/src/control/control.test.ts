@@ -1,0 +1,99 @@
+import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import proj4 from 'proj4';
+import { describe, expect, it } from 'vitest';
+import { InputError, ProcessingError, type Warning } from '../errors.js';
+import { distanceM, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
+import { DEFAULT_HELMERT_SETS } from '../frames/index.js';
+import { compareToMark, matchPointsToMarks, parseControlCsv } from './index.js';
+
+const FIXTURE = resolve(__dirname, '../../../../fixtures/geo/control-marks.csv');
+const text = readFileSync(FIXTURE, 'utf8');
+
+describe('parseControlCsv', () => {
+  const warnings: Warning[] = [];
+  const marks = parseControlCsv('control-marks.csv', text, (w) => warnings.push(w));
+  it('reads the three coordinate forms', () => {
+    expect(marks.map((m) => m.name)).toEqual(['Ferry Stone', 'Willow Bend', 'Willow Bend grid', 'Lantern Hill']);
+    expect(marks[0]!.position.ecef).toEqual({ x: 3774089.212, y: -601661.6157, z: 5089321.2474 });
+    expect(marks[0]!.position.frame).toEqual({ name: 'WGS84', epochYear: 2018.76 });
+    expect(marks[0]!.accuracyHorizontalM).toBe(0.02);
+    expect(marks[0]!.line).toBe(4);
+    // lat/lon on GRS80 (ETRF2000) against proj4's geocentric conversion (reference library)
+    const ref = proj4('+proj=longlat +ellps=GRS80 +no_defs', '+proj=geocent +ellps=GRS80 +units=m +no_defs').forward([-9.0612, 53.2801, 55]) as number[];
+    const wb = marks[1]!.position.ecef;
+    expect(Math.hypot(wb.x - ref[0]!, wb.y - ref[1]!, wb.z - ref[2]!)).toBeLessThan(1e-6);
+    // the grid row is the same place in EPSG:25829 (values written with 0.1 mm rounding): self-consistency
+    expect(distanceM(marks[2]!.position.ecef, wb)).toBeLessThan(1e-3);
+    expect(marks[2]!.position.frame.name).toBe('ETRF2000');
+    expect(marks[3]!.position.frame.name).toBe('unstated');
+    expect(Number.isNaN(marks[3]!.position.frame.epochYear)).toBe(true);
+    expect(warnings.map((w) => [w.code, w.line])).toEqual([['control-epoch-missing', 7]]);
+  });
+  it('names file, line and column for bad rows', () => {
+    const hdr = 'name,lat_deg,lon_deg,h_m,frame,epoch\n';
+    expect(() => parseControlCsv('c.csv', hdr + 'A,95,10,5,ITRF2014,2020.0\n')).toThrow(InputError);
+    expect(() => parseControlCsv('c.csv', hdr + 'A,95,10,5,ITRF2014,2020.0\n')).toThrow(/^c\.csv:2: column lat_deg: expected a latitude/);
+    expect(() => parseControlCsv('c.csv', hdr + 'A,50,10,5,ITRF2014\n')).toThrow(/^c\.csv:2: expected 6 columns/);
+    expect(() => parseControlCsv('c.csv', hdr + 'A,50,,5,ITRF2014,2020.0\n')).toThrow(/^c\.csv:2: expected a complete coordinate/);
+    expect(() => parseControlCsv('c.csv', hdr + 'A,50,10,5,ITRF2014,20x0\n')).toThrow(/^c\.csv:2: column epoch: expected a decimal year/);
+    expect(() => parseControlCsv('c.csv', 'name,easting_m,northing_m,h_m,projection\nB,500000,5900000,3,EPSG:9999\n')).toThrow(/^c\.csv:2: column projection: .*PROJ string/);
+    expect(() => parseControlCsv('c.csv', 'name,height\nB,3\n')).toThrow(/^c\.csv:1: unknown column/);
+    expect(() => parseControlCsv('c.csv', 'name,x_m,y_m,z_m\nB,1,2,3\n')).toThrow(/^c\.csv:2: columns x_m,y_m,z_m: expected a point near the Earth/);
+    expect(() => parseControlCsv('c.csv', '')).toThrow(/empty/);
+  });
+});
+
+describe('matching and comparison', () => {
+  const marks = parseControlCsv('control-marks.csv', text);
+  const ferry = marks[0]!;
+  const g = ecefToGeodetic(ferry.position.ecef);
+  const offset = (p: typeof ferry.position.ecef, e: number, n: number, u: number, lat = g.latRad, lon = g.lonRad) => {
+    const d = enuToEcefDelta({ e, n, u }, lat, lon);
+    return { x: p.x + d.x, y: p.y + d.y, z: p.z + d.z };
+  };
+  it('by name (case-insensitive, trimmed), then by proximity within 5 m', () => {
+    const lantern = marks[3]!;
+    const lg = ecefToGeodetic(lantern.position.ecef);
+    const frame = { name: 'WGS84', epochYear: 2018.76 };
+    const points = [
+      { name: ' FERRY stone', position: { ecef: offset(ferry.position.ecef, 3, 0, 0), frame } },
+      { name: 'P7', position: { ecef: offset(lantern.position.ecef, 1.2, -1.6, 0.5, lg.latRad, lg.lonRad), frame } },
+      { name: 'P8', position: { ecef: offset(lantern.position.ecef, 6, 0, 0, lg.latRad, lg.lonRad), frame } },
+    ];
+    const m = matchPointsToMarks(points, marks);
+    expect(m.map((x) => [x.point.name, x.mark.name, x.by])).toEqual([[' FERRY stone', 'Ferry Stone', 'name'], ['P7', 'Lantern Hill', 'proximity']]);
+    expect(m[1]!.horizontalDistanceM).toBeCloseTo(2.0, 6);
+    expect(m[0]!.horizontalDistanceM).toBeCloseTo(3.0, 6);
+    expect(matchPointsToMarks(points.slice(2), marks, 10).map((x) => x.mark.name)).toEqual(['Lantern Hill']);
+  });
+  it('compareToMark in ENU at the mark, with the tolerance', () => {
+    const p = { ecef: offset(ferry.position.ecef, 0.3, -0.4, 1.2), frame: { name: 'WGS-84(G1762)', epochYear: 2018.76 } };
+    const c = compareToMark(p, ferry);
+    expect(c.dE).toBeCloseTo(0.3, 6);
+    expect(c.dN).toBeCloseTo(-0.4, 6);
+    expect(c.dU).toBeCloseTo(1.2, 6);
+    expect(c.horizontalM).toBeCloseTo(0.5, 6);
+    expect(c.threeDM).toBeCloseTo(1.3, 6);
+    expect(c.pass).toBe(true);
+    expect(compareToMark(p, ferry, { toleranceHorizontalM: 0.4 }).pass).toBe(false);
+    expect(compareToMark(p, ferry, { toleranceVerticalM: 1.0 }).pass).toBe(false);
+  });
+  it('the frame rule: refused across frames unless a transformation is configured', () => {
+    const willow = marks[1]!;
+    const p = { ecef: willow.position.ecef, frame: { name: 'ITRF2014', epochYear: 2018.76 } };
+    expect(() => compareToMark(p, willow)).toThrow(ProcessingError);
+    expect(() => compareToMark(p, willow)).toThrow(/Willow Bend.*ITRF2014.*ETRF2000/);
+    const c = compareToMark(p, willow, { transformations: DEFAULT_HELMERT_SETS });
+    expect(c.frame).toBe('ETRF2000');
+    // same place in two frames: the ITRF2014 -> ETRF2000 shift of 2018.76, ~0.7 m (README, from memory)
+    expect(c.horizontalM).toBeGreaterThan(0.6);
+    expect(c.horizontalM).toBeLessThan(0.8);
+  });
+  it('warns for an unstated frame and a mark not 3x more accurate than the tolerance (NSSDA 3.2.1)', () => {
+    const w: Warning[] = [];
+    const lantern = marks[3]!;
+    compareToMark({ ecef: lantern.position.ecef, frame: { name: 'WGS84', epochYear: 2018.76 } }, lantern, { onWarning: (x) => w.push(x) });
+    expect(w.map((x) => x.code).sort()).toEqual(['control-not-accurate-enough', 'frame-unstated']);
+  });
+});

@@ -1,0 +1,4 @@
+/** Control marks: CSV reading, matching logged points to marks, and comparison under the frame rule. */
+export * from './control-csv.js';
+export * from './match-marks.js';
+export * from './compare-to-mark.js';
