@@ -5,12 +5,14 @@ import type { AntennaOffset } from '../rinex/obs-types.js';
 import type { FramedEcef, GnssSystem } from '../types.js';
 
 export type GlonassPolicy =
-  /** Use GLONASS only when both receivers report the same, known receiver type (inter-frequency code biases then cancel). */
+  /** GLONASS with one relative clock when both receivers report the same known type (biases cancel); otherwise 'estimate'. */
   | 'auto'
   /** Never use GLONASS. */
   | 'exclude'
   /** Always use GLONASS with one relative clock, trusting the biases to cancel. */
-  | 'include';
+  | 'include'
+  /** Use GLONASS and estimate a code offset per frequency channel from the data (differencing/glonass-channel-offsets.ts). */
+  | 'estimate';
 
 export interface WeightingOptions {
   /** sigma^2 = a^2 + b^2 / sin^2(elevation) per receiver (common practice). */
@@ -24,6 +26,12 @@ export interface SmoothingOptions {
   readonly enabled: boolean;
   /** Hatch filter time constant (s). */
   readonly timeConstantS: number;
+  /**
+   * Longest gap in the logged epochs (s) over which a filter is kept. Receivers keep tracking while
+   * they skip logging epochs, so a gap alone is no slip; lost lock (LLI) and the code-carrier jump test
+   * still restart the filter.
+   */
+  readonly maxGapS: number;
 }
 
 export interface QualityOptions {
@@ -70,8 +78,11 @@ export const DEFAULT_OPTIONS: SessionOptions = {
   elevationMaskDeg: 10,
   systems: ['G', 'R', 'E', 'C', 'J'],
   glonass: 'auto',
-  weighting: { aM: 0.3, bM: 0.3, useStrength: false },
-  smoothing: { enabled: false, timeConstantS: 100 },
+  // Per receiver: sigma^2 = a^2 + b^2/sin^2(el), times max(1, 10^((45 - C/N0)/10)) (solve/weights.ts).
+  // a = 0.25 m, b = 0.5 m put the a-posteriori variance factor of low-cost L1 receivers near 1 (measured on
+  // the shared static run: median 0.84); geodetic receivers come out below 1 (pessimistic, safe for testing).
+  weighting: { aM: 0.25, bM: 0.5, useStrength: true },
+  smoothing: { enabled: false, timeConstantS: 100, maxGapS: 30 },
   quality: { alphaGlobal: 0.001, alphaLocal: 0.001, minSatellites: 5, maxPdop: 8, maxRejections: 3 },
   // 30 s CORS data: an epoch half-way between two is 15 s away; allow one missed reference epoch.
   maxCorrectionAgeS: 65,

@@ -18,6 +18,7 @@ export class ReceiverSmoother {
     private readonly timeConstantS: number,
     private readonly systems: readonly GnssSystem[],
     private readonly glonassChannels: ReadonlyMap<number, number>,
+    private readonly maxGapS: number,
   ) {}
 
   /** Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value). */
@@ -41,7 +42,7 @@ export class ReceiverSmoother {
     const out = new Map<SatId, Map<string, number>>();
     for (const [code, list] of inputs) {
       let f = this.filters.get(code);
-      if (!f) { f = new CarrierSmoother({ intervalS: this.intervalS, timeConstantS: this.timeConstantS }); this.filters.set(code, f); }
+      if (!f) { f = new CarrierSmoother({ intervalS: this.intervalS, timeConstantS: this.timeConstantS, gapThresholdS: Math.max(this.maxGapS, 2 * this.intervalS + 1e-3) }); this.filters.set(code, f); }
       for (const r of f.update(epoch.tagGpsS, list)) {
         if (r.restarted && r.n <= 1) this.restarts++;
         if (!Number.isFinite(r.smoothedM)) continue;

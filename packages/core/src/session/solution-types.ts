@@ -77,6 +77,12 @@ export interface EpochSolution {
   /** Age of the reference corrections used (s): the larger distance to a reference epoch used. */
   readonly correctionAgeS: number;
   readonly satellites: readonly SatelliteResidual[];
+  /** Rover speed over ground (m/s) from a Doppler velocity solution; NaN when not available. */
+  readonly speedMS: number;
+  /** The occupation event met just before this epoch in the rover file (flag 3 / flag 2), if any. */
+  readonly occupationEvent: 'new-occupation' | 'start-moving' | null;
+  /** Rover antenna height (ANTENNA: DELTA H) in force at this epoch (m). */
+  readonly antennaHeightM: number;
 }
 
 export interface RejectionCount {

@@ -21,6 +21,7 @@ import { solvePositionFix, type LinearRow } from '../positioning/position-fix.js
 import { clockSignal } from '../positioning/signals.js';
 import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
 import { ReferenceCorrections } from '../differencing/reference-corrections.js';
+import { GlonassChannelOffsets } from '../differencing/glonass-channel-offsets.js';
 import { matchCode, primaryCodes, pseudorangeOf } from '../differencing/code-selection.js';
 import { solveStandaloneEpoch, type StandaloneContext } from '../standalone/index.js';
 import { joinReferenceStreams } from './join-references.js';
@@ -101,16 +102,18 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   // Which constellations: the user's choice, limited by the navigation data and the GLONASS policy.
   const navSystems = store.systemsWithEphemeris();
   let systems = options.systems.filter((s) => navSystems.has(s));
+  let channelOffsets: GlonassChannelOffsets | null = null;
   const sameReceiver = isKnownReceiver(rover.header.receiverType) &&
     inputs.references.every((r) => r.header.receiverType.trim() === rover.header.receiverType.trim());
   if (systems.includes('R')) {
-    if (options.glonass === 'exclude' || (options.glonass === 'auto' && !sameReceiver)) {
+    if (options.glonass === 'exclude') {
       systems = systems.filter((s) => s !== 'R');
-      notes.push(options.glonass === 'exclude'
-        ? 'GLONASS excluded by option'
-        : `GLONASS excluded: the receivers are not known to match (rover '${rover.header.receiverType.trim() || 'unknown'}', reference '${refHeader.receiverType.trim() || 'unknown'}'), so GLONASS inter-frequency code biases would not cancel (use --glonass include to force)`);
+      notes.push('GLONASS excluded by option');
+    } else if (options.glonass === 'estimate' || (options.glonass === 'auto' && !sameReceiver)) {
+      channelOffsets = new GlonassChannelOffsets();
+      notes.push(`GLONASS used with per-channel code offsets estimated from the data: the receivers are not known to match (rover '${rover.header.receiverType.trim() || 'unknown'}', reference '${refHeader.receiverType.trim() || 'unknown'}'), so inter-frequency code biases do not cancel`);
     } else {
-      notes.push(sameReceiver ? `GLONASS used: both receivers report type '${rover.header.receiverType.trim()}'` : 'GLONASS used by option (inter-frequency biases are assumed to cancel)');
+      notes.push(sameReceiver ? `GLONASS used: both receivers report type '${rover.header.receiverType.trim()}', so inter-frequency code biases cancel` : 'GLONASS used by option (inter-frequency biases are assumed to cancel)');
     }
   }
   for (const s of options.systems) if (!navSystems.has(s) && s !== 'R') notes.push(`${SYSTEM_NAMES[s]} not used: no ephemeris in the navigation files`);
@@ -138,6 +141,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   let refArp = markToArp(refMark, refAntenna);
   let roverAntenna: AntennaOffset = options.roverAntenna ?? rover.header.antennaOffset;
   let pointName = rover.header.markerName.trim();
+  let pendingEvent: 'new-occupation' | 'start-moving' | null = null;
 
   // Frequency channels: rover header, reference header, then the GLONASS navigation records.
   const glonassChannels = new Map<number, number>(store.glonassChannels());
@@ -150,11 +154,13 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     ...(options.weighting.useStrength ? { referenceCn0DbHz: 45 } : {}),
   };
   const maskRad = options.elevationMaskDeg * DEG;
+  /** One receiver's code variance: elevation model, times the signal-strength factor when enabled (solve/weights.ts). */
+  const codeVarianceM2 = (elRad: number, cn0: number): number => elevationVarianceM2(elRad, weighting, cn0);
   const maxAgeS = options.maxCorrectionAgeS;
   const corrections = new ReferenceCorrections({ store, iono: inputs.nav.ionosphere, systems, glonassChannels });
   const smoothOn = options.smoothing.enabled;
-  const roverSmoother = smoothOn ? new ReceiverSmoother(rover.header.intervalS ?? 1, options.smoothing.timeConstantS, systems, glonassChannels) : null;
-  const refSmoother = smoothOn ? new ReceiverSmoother(refHeader.intervalS ?? 1, options.smoothing.timeConstantS, systems, glonassChannels) : null;
+  const roverSmoother = smoothOn ? new ReceiverSmoother(rover.header.intervalS ?? 1, options.smoothing.timeConstantS, systems, glonassChannels, options.smoothing.maxGapS) : null;
+  const refSmoother = smoothOn ? new ReceiverSmoother(refHeader.intervalS ?? 1, options.smoothing.timeConstantS, systems, glonassChannels, options.smoothing.maxGapS) : null;
   const standaloneCtx: StandaloneContext = {
     store, iono: inputs.nav.ionosphere, systems: options.systems.filter((s) => navSystems.has(s)), elevationMaskRad: maskRad,
     weighting, frequencyMode: 'auto', glonassChannels,
@@ -213,6 +219,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       pointReference: options.reduceToMark ? 'ground-mark' : 'antenna-reference-point',
       baselineEcef: null, baselineEnu: null, relativeClockM: {}, satellitesUsed: 0, dops: null, sigmaEnuM: null,
       quality: null, correctionAgeS: ageS, satellites,
+      speedMS: NaN, occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
     };
   }
 
@@ -234,6 +241,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       dops: r.fix.dops, sigmaEnuM: r.fix.sigmaEnuM,
       quality: { varianceFactor: r.fix.varianceFactor, chiSquare: r.fix.test.statistic, dof: r.fix.test.dof, critical: r.fix.test.critical, passed: r.fix.test.dof > 0 ? r.fix.test.passed : null },
       correctionAgeS: ageS, satellites: r.satellites,
+      speedMS: NaN, occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
     };
   }
 
@@ -247,6 +255,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     readonly satClockM: number;
     readonly frequencyHz: number;
     readonly cn0DbHz: number;
+    readonly channel: number | undefined;
     correctionM: number;
     ageS: number;
     elevationRefRad: number;
@@ -280,7 +289,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       const k = system === 'R' ? glonassChannels.get(Number(s.sat.slice(1))) : undefined;
       prepared.push({
         sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
-        frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: strengthOf(s, code),
+        frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: strengthOf(s, code), channel: k,
         correctionM: NaN, ageS: NaN, elevationRefRad: NaN, cn0RefDbHz: NaN,
       });
     }
@@ -315,12 +324,17 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
         if (ae.elevationRad < maskRad) { maskReasons.set(p.sat, `below elevation mask (${(ae.elevationRad / DEG).toFixed(1)} deg)`); continue; }
         const tropo = troposphereDelayM(g, ae.elevationRad, doy);
         const iono = Number.isFinite(p.frequencyHz) ? ionosphereDelayM(inputs.nav.ionosphere, p.system, g, ae.elevationRad, ae.azimuthRad, e.tagGpsS, p.frequencyHz) : 0;
-        const variance = elevationVarianceM2(ae.elevationRad, weighting, p.cn0DbHz) +
-          elevationVarianceM2(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : ae.elevationRad, weighting, p.cn0RefDbHz);
+        const variance = codeVarianceM2(ae.elevationRad, p.cn0DbHz) +
+          codeVarianceM2(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : ae.elevationRad, p.cn0RefDbHz);
+        let channelOffset = 0, inflation = 1;
+        if (channelOffsets && p.system === 'R' && p.channel !== undefined) {
+          channelOffset = channelOffsets.offset(p.channel);
+          inflation = channelOffsets.varianceFactor(p.channel);
+        }
         rows.push({
           sat: p.sat, system: p.system, losX: dx / range, losY: dy / range, losZ: dz / range,
-          misclosureM: p.codeM - range + p.satClockM - tropo - iono - p.correctionM,
-          varianceM2: variance,
+          misclosureM: p.codeM - range + p.satClockM - tropo - iono - p.correctionM - channelOffset,
+          varianceM2: variance * inflation,
         });
       }
       return rows;
@@ -353,6 +367,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       return standaloneOr(e, `PDOP ${fix.dops.pdop.toFixed(1)} above the limit ${options.quality.maxPdop}`, satellites, maxAge);
     }
     lastPosition = fix.positionM;
+    if (channelOffsets) learnChannelOffsets(channelOffsets, build, fix.positionM, new Set(fix.rejected.map((r) => r.sat)), usable);
     const firstClock = fix.clocksM.values().next().value ?? clockM;
     lastClockM = firstClock;
     const arp = fix.positionM;
@@ -372,15 +387,40 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       dops: fix.dops, sigmaEnuM: fix.sigmaEnuM,
       quality: { varianceFactor: fix.varianceFactor, chiSquare: fix.test.statistic, dof: fix.test.dof, critical: fix.test.critical, passed: fix.test.dof > 0 ? fix.test.passed : null },
       correctionAgeS: maxAge, satellites,
+      speedMS: NaN, occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
     };
+  }
+
+  /**
+   * Channel offsets are learnt against the solution without GLONASS, so that while they are learnt GLONASS
+   * cannot pull the position towards its own biases: each GLONASS misclosure at that position, less their
+   * mean (the GLONASS relative clock), is one sample of its channel's offset.
+   */
+  function learnChannelOffsets(offsets: GlonassChannelOffsets, build: (x: EcefM, ex: ReadonlySet<SatId>) => LinearRow[], at: EcefM, rejected: ReadonlySet<SatId>, usable: readonly { sat: SatId; system: GnssSystem; channel: number | undefined }[]): void {
+    const glonass = new Set(usable.filter((p) => p.system === 'R').map((p) => p.sat));
+    const buildWithoutGlonass = (x: EcefM, ex: ReadonlySet<SatId>) => build(x, new Set([...ex, ...glonass, ...rejected]));
+    const withoutGlonass = solvePositionFix(buildWithoutGlonass, at, { ...fixOptions, maxRejections: 0, minSatellites: 4 });
+    if (!withoutGlonass.ok) return;
+    // Rows at the GLONASS-free position; exclude the non-GLONASS ones and the rejected satellites.
+    const excluded = new Set<SatId>([...rejected]);
+    for (const p of usable) if (p.system !== 'R') excluded.add(p.sat);
+    const rows = build(withoutGlonass.positionM, excluded);
+    if (rows.length < 2) return;
+    let sw = 0, swy = 0;
+    for (const r of rows) { sw += 1 / r.varianceM2; swy += r.misclosureM / r.varianceM2; }
+    const clock = swy / sw;
+    for (const r of rows) {
+      const p = usable.find((q) => q.sat === r.sat);
+      if (p?.channel !== undefined) offsets.update(p.channel, r.misclosureM - clock);
+    }
   }
 
   async function* run(): AsyncIterable<EpochSolution> {
     for await (const e of rover.epochs) {
       if (e.event) {
         const ev = e.event;
-        if (ev.kind === 'new-occupation') { pointName = (ev.markerName ?? '').trim() || pointName; }
-        if (ev.kind === 'start-moving') pointName = '';
+        if (ev.kind === 'new-occupation') { pointName = (ev.markerName ?? '').trim() || pointName; pendingEvent = 'new-occupation'; }
+        if (ev.kind === 'start-moving') { pointName = ''; pendingEvent = 'start-moving'; }
         if (ev.antennaOffset && !options.roverAntenna) roverAntenna = ev.antennaOffset;
         if (e.flag === 1) roverSmoother?.reset();
       }
@@ -400,6 +440,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
         warn({ file: rover.file, line: e.line, code: 'epoch-failed', message: `epoch at line ${e.line} could not be solved: ${msg}` });
         sol = none(e, `could not be solved: ${msg}`, []);
       }
+      pendingEvent = null;
       byKind[sol.kind]++;
       if (sol.kind !== 'differential' && sol.kind !== 'smoothed') epochRejections.add(sol.reason || sol.kind);
       yield sol;
@@ -422,7 +463,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       satelliteRejections: satRejections.list(),
       epochRejections: epochRejections.list(),
       systemsUsed: [...systemsUsed],
-      notes: [...notes, ...(corrections.unusableEpochs > 0 ? [`${corrections.unusableEpochs} reference epochs had no satellite with an ephemeris and were not used`] : [])],
+      notes: [...notes, ...(channelOffsets ? [`GLONASS per-channel code offsets at the end (channel: m): ${JSON.stringify(channelOffsets.snapshot())}`] : []), ...(corrections.unusableEpochs > 0 ? [`${corrections.unusableEpochs} reference epochs had no satellite with an ephemeris and were not used`] : [])],
       firstGpsS, lastGpsS,
     }),
   };

@@ -1,0 +1,90 @@
+/**
+ * Acceptance of the differential engine on real data: the static run of cors-and-rover-2018-277
+ * (../shared/data, README there). Truth: the rover's own carrier-phase fixed solution (quality 4),
+ * centimetre-level relative to the base's header coordinate. Bounds from the engine's acceptance
+ * criteria; the figures are printed so they can be quoted.
+ */
+import { beforeAll, expect, it } from 'vitest';
+import { ecefToEnu } from '../packages/core/src/geodesy/index.js';
+import { solveSession, withDefaults, type EpochSolution, type SessionOptions } from '../packages/core/src/session/index.js';
+import type { NavData } from '../packages/core/src/rinex/nav-types.js';
+import { describeShared } from './support/shared.js';
+import { corsNav, errorStats, fmt, openObs, roverTruth } from './support/static-run.js';
+
+async function solve(rover: string, references: string[], nav: NavData, opts: Partial<SessionOptions>): Promise<{ solutions: EpochSolution[]; notes: readonly string[] }> {
+  const run = await solveSession({ rover: await openObs(rover), references: await Promise.all(references.map(openObs)), nav }, withDefaults(opts));
+  const solutions: EpochSolution[] = [];
+  for await (const s of run.epochs) solutions.push(s);
+  return { solutions, notes: run.summary().notes };
+}
+
+const BASE = 'static-run/base.obs';
+const ROVER = 'static-run/rover.obs';
+const CORS = ['reference/glw1277m.18o', 'reference/glw1277n.18o'];
+const smooth = { smoothing: { enabled: true, timeConstantS: 100, maxGapS: 30 } };
+
+describeShared('differential engine on the real static run (cors-and-rover-2018-277)', () => {
+  let nav: NavData;
+  const truth = roverTruth();
+  const truthAt = (s: EpochSolution) => truth.get(Math.round(s.timeGpsS));
+  beforeAll(async () => { nav = await corsNav(); });
+
+  it('rover against base, code only: median <= 1.2 m, 95 % <= 2.5 m, vertical 95 % <= 4.0 m, >= 95 % solved', async () => {
+    const { solutions } = await solve(ROVER, [BASE], nav, {});
+    const st = errorStats(solutions, truthAt);
+    console.log(`rover vs base, code: ${fmt(st)}`);
+    expect(st.compared).toBeGreaterThan(1000);
+    expect(st.solved / st.epochs).toBeGreaterThanOrEqual(0.95);
+    expect(st.h50).toBeLessThanOrEqual(1.2);
+    expect(st.h95).toBeLessThanOrEqual(2.5);
+    expect(st.v95).toBeLessThanOrEqual(4.0);
+  });
+
+  it('rover against base, carrier-smoothed: horizontal 95 % <= 2.0 m', async () => {
+    const { solutions } = await solve(ROVER, [BASE], nav, smooth);
+    const st = errorStats(solutions, truthAt);
+    console.log(`rover vs base, smoothed: ${fmt(st)}`);
+    expect(solutions.every((s) => s.kind === 'smoothed' || s.kind === 'none')).toBe(true);
+    expect(st.h95).toBeLessThanOrEqual(2.0);
+  });
+
+  it('rover against the CORS (196 m), mean offset removed: 95 % <= 2.0 m code, <= 1.3 m smoothed; closure within 0.5 m', async () => {
+    const code = await solve(ROVER, CORS, nav, {});
+    const sm = await solve(ROVER, CORS, nav, smooth);
+    const stCode = errorStats(code.solutions, truthAt);
+    const stSmooth = errorStats(sm.solutions, truthAt);
+    console.log(`rover vs CORS, code: ${fmt(stCode)}`);
+    console.log(`rover vs CORS, smoothed: ${fmt(stSmooth)}`);
+    console.log(`notes: ${code.notes.join(' | ')}`);
+    expect(stCode.solved / stCode.epochs).toBeGreaterThanOrEqual(0.95);
+    expect(stCode.h95Demeaned).toBeLessThanOrEqual(2.0);
+    expect(stSmooth.h95Demeaned).toBeLessThanOrEqual(1.3);
+    // Closure: mean(rover vs CORS) - mean(rover vs base) must equal mean(base vs CORS), the base
+    // coordinate's own error, so constant biases cannot hide behind the mean removal.
+    const rb = errorStats((await solve(ROVER, [BASE], nav, {})).solutions, truthAt);
+    const baseCors = await solve(BASE, CORS, nav, {});
+    const baseHeader = (await openObs(BASE)).header.approxPosition!;
+    const bc = errorStats(baseCors.solutions, () => baseHeader);
+    const dE = stCode.meanEnu[0] - rb.meanEnu[0] - bc.meanEnu[0];
+    const dN = stCode.meanEnu[1] - rb.meanEnu[1] - bc.meanEnu[1];
+    console.log(`base vs CORS: mean offset E/N/U ${bc.meanEnu.map((x) => x.toFixed(2)).join('/')} m (the base header coordinate's own error); closure ${Math.hypot(dE, dN).toFixed(2)} m horizontal`);
+    expect(Math.hypot(dE, dN)).toBeLessThanOrEqual(0.5);
+    // The base coordinate is good to a few metres only (README): the offset found must be metres, not tens.
+    expect(Math.hypot(bc.meanEnu[0], bc.meanEnu[1])).toBeLessThan(5);
+  });
+
+  it('every rover epoch is reported: solved or with a reason', async () => {
+    const { solutions } = await solve(ROVER, [BASE], nav, {});
+    const rover = await openObs(ROVER);
+    let n = 0;
+    for await (const e of rover.epochs) if ((e.flag === 0 || e.flag === 1) && e.sats.length > 0) n++;
+    expect(solutions.length).toBe(n);
+    for (const s of solutions) if (s.kind === 'none') expect(s.reason).not.toBe('');
+    for (const s of solutions) for (const sat of s.satellites) if (!sat.used) expect(sat.reason).not.toBe('');
+    // ENU baseline is consistent with the ECEF one (geodesy check at the reference).
+    const s = solutions.find((x) => x.baselineEcef)!;
+    const ref = (await openObs(BASE)).header.approxPosition!;
+    const enu = ecefToEnu({ x: ref.x + s.baselineEcef!.x, y: ref.y + s.baselineEcef!.y, z: ref.z + s.baselineEcef!.z }, ref);
+    expect(enu.e).toBeCloseTo(s.baselineEnu!.e, 6);
+  });
+});
