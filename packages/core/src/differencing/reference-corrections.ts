@@ -21,7 +21,8 @@ import { satSystem } from '../types.js';
 import type { ObsEpoch } from '../rinex/obs-types.js';
 import type { Ephemeris, IonosphereCoefficients } from '../rinex/nav-types.js';
 import { carrierFrequencyHz } from '../rinex/obs-codes.js';
-import { EphemerisStore, issueKey, satelliteAtTransmission, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { EphemerisStore, issueKey, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { satelliteForTag } from '../positioning/satellite-for-tag.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
 import { clockSignal } from '../positioning/signals.js';
 import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
@@ -122,7 +123,7 @@ export class ReferenceCorrections {
       sats.set(s.sat, { codes, cn0DbHz: cn0Override?.get(s.sat) ?? strengthOf(s, first) });
       const sel = this.ctx.store.select(s.sat, epoch.tagGpsS);
       if (sel.eph === null) continue;
-      const m = this.model(sel.eph, s.sat, system, first, codes.get(first)!, epoch.tagGpsS, arpM, geodetic, doy);
+      const m = this.model(sel.eph, s.sat, system, first, codes.get(first)!, epoch.tagGpsS, 0, arpM, geodetic, doy);
       if (m !== null && m.elevationRad > 0.1) clockSamples.push(m.residualM);
     }
     const clockM = median(clockSamples);
@@ -139,8 +140,8 @@ export class ReferenceCorrections {
   }
 
   /** P - rho + c dt_sv - T - I at the reference (m), receiver clock not removed; null if not computable. */
-  private model(eph: Ephemeris, sat: SatId, system: GnssSystem, code: string, pseudorangeM: number, tagGpsS: number, arpM: EcefM, geodetic: GeodeticRad, doy: number): { residualM: number; elevationRad: number } | null {
-    const at = satelliteAtTransmission(eph, tagGpsS, pseudorangeM, arpM, clockSignal(system, code[1]));
+  private model(eph: Ephemeris, sat: SatId, system: GnssSystem, code: string, pseudorangeM: number, tagGpsS: number, clockM: number, arpM: EcefM, geodetic: GeodeticRad, doy: number): { residualM: number; elevationRad: number } | null {
+    const at = satelliteForTag(eph, tagGpsS, pseudorangeM, clockM, arpM, clockSignal(system, code[1]));
     const ae = azimuthElevation(arpM, at.posM, geodetic.latRad, geodetic.lonRad);
     if (ae.elevationRad < 0) return null;
     const k = system === 'R' ? this.ctx.glonassChannels.get(Number(sat.slice(1))) : undefined;
@@ -159,7 +160,7 @@ export class ReferenceCorrections {
     const p = rs?.codes.get(code);
     if (p === undefined) return null;
     const system = satSystem(sat);
-    const m = this.model(eph, sat, system, code, p, e.tagGpsS, e.arpM, e.geodetic, dayOfYear(e.tagGpsS));
+    const m = this.model(eph, sat, system, code, p, e.tagGpsS, e.clockM, e.arpM, e.geodetic, dayOfYear(e.tagGpsS));
     if (m === null) return null;
     const v = { correctionM: m.residualM - e.clockM, elevationRad: m.elevationRad };
     e.cache.set(key, v);

@@ -13,7 +13,8 @@ import type { AntennaOffset, ObsEpoch, ObsHeader, ObsStream } from '../rinex/obs
 import type { Ephemeris, NavData } from '../rinex/nav-types.js';
 import { carrierFrequencyHz } from '../rinex/obs-codes.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
-import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { EphemerisStore, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { satelliteForTag } from '../positioning/satellite-for-tag.js';
 import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import { decimalYearFromGpsS } from '../time/index.js';
 import { elevationVarianceM2, type ElevationWeightParams } from '../solve/index.js';
@@ -251,8 +252,8 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     readonly code: string;
     readonly codeM: number;
     readonly eph: Ephemeris;
-    readonly satPos: EcefM;
-    readonly satClockM: number;
+    satPos: EcefM;
+    satClockM: number;
     readonly frequencyHz: number;
     readonly cn0DbHz: number;
     readonly channel: number | undefined;
@@ -285,7 +286,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       const code = match.code;
       const codeM = smoothed?.get(s.sat)?.get(code) ?? pseudorangeOf(s, code);
       if (!Number.isFinite(codeM)) { reasons.set(s.sat, { signal: code, reason: 'smoothing filter not ready' }); continue; }
-      const at = satelliteAtTransmission(sel.eph, e.tagGpsS, codeM, null, clockSignal(system, code[1]));
+      const at = satelliteForTag(sel.eph, e.tagGpsS, codeM, Number.isFinite(lastClockM) ? lastClockM : 0, null, clockSignal(system, code[1]));
       const k = system === 'R' ? glonassChannels.get(Number(s.sat.slice(1))) : undefined;
       prepared.push({
         sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
@@ -299,6 +300,15 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const clockSamples = prepared.map((p) => p.codeM - Math.hypot(p.satPos.x - x0.x, p.satPos.y - x0.y, p.satPos.z - x0.z) + p.satClockM);
     const clockM = median(clockSamples);
     const timeGpsS = e.tagGpsS - (Number.isFinite(clockM) ? clockM / SPEED_OF_LIGHT_MS : 0);
+    const assumedClockM = Number.isFinite(lastClockM) ? lastClockM : 0;
+    if (Number.isFinite(clockM) && Math.abs(clockM - assumedClockM) > 30) {
+      // The clock moved (first epoch, or a millisecond step): redo the Earth rotation with the new estimate.
+      for (const p of prepared) {
+        const at = satelliteForTag(p.eph, e.tagGpsS, p.codeM, clockM, null, clockSignal(p.system, p.code[1]));
+        p.satPos = at.posM;
+        p.satClockM = SPEED_OF_LIGHT_MS * at.clock.offsetS;
+      }
+    }
     const usable: Prepared[] = [];
     let maxAge = 0;
     for (const p of prepared) {
