@@ -1,0 +1,71 @@
+/** Checks made before processing: time overlap of the files, navigation data for the systems observed. */
+import {
+  ProcessingError, SYSTEM_NAMES, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds,
+  type GnssSystem, type NavData, type ObsHeader, type WarningSink,
+} from '@refdelta/core';
+import { openObs } from './node-io.js';
+
+export interface TimeSpan {
+  readonly firstGpsS: number;
+  readonly lastGpsS: number;
+}
+
+/** The span of an observation file: from its header when both TIME OF FIRST/LAST OBS are there, else by reading its epochs. */
+export async function obsTimeSpan(path: string, header: ObsHeader): Promise<TimeSpan | null> {
+  if (header.firstObsGpsS !== null && header.lastObsGpsS !== null) return { firstGpsS: header.firstObsGpsS, lastGpsS: header.lastObsGpsS };
+  const s = await openObs(path, () => {});
+  let first = NaN;
+  let last = NaN;
+  for await (const ep of s.epochs) {
+    if (ep.flag > 1 || !Number.isFinite(ep.tagGpsS)) continue;
+    if (!Number.isFinite(first)) first = ep.tagGpsS;
+    last = ep.tagGpsS;
+  }
+  return Number.isFinite(first) ? { firstGpsS: first, lastGpsS: last } : null;
+}
+
+function when(gpsS: number): string {
+  return `${isoFromSeconds(gpsToUtcS(gpsS), '').replace('T', ' ').slice(0, 19)} UTC`;
+}
+
+/**
+ * The reference files together must overlap the rover's span (spans in continuous GPS seconds, so a
+ * session across midnight is fine).
+ */
+export function requireOverlap(rover: { path: string; span: TimeSpan }, references: readonly { path: string; span: TimeSpan }[]): void {
+  const r = rover.span;
+  const overlapping = references.filter((x) => x.span.firstGpsS <= r.lastGpsS && x.span.lastGpsS >= r.firstGpsS);
+  if (overlapping.length === 0) {
+    const refs = references.map((x) => `${x.path} (${when(x.span.firstGpsS)} to ${when(x.span.lastGpsS)})`).join(', ');
+    throw new ProcessingError(`the files do not overlap in time: rover ${rover.path} runs ${when(r.firstGpsS)} to ${when(r.lastGpsS)}, reference ${refs}`);
+  }
+}
+
+/** Broadcast records are used up to a few hours from their reference time (GPS: fit interval 4 h, IS-GPS-200 20.3.4.4). */
+const NAV_WINDOW_S = 4 * 3600;
+
+/**
+ * There must be ephemerides, near the rover's span, for at least one of the systems the rover observed
+ * and the user allowed. Systems without any are reported as warnings.
+ */
+export function requireNavigation(nav: NavData, navPaths: readonly string[], roverHeader: ObsHeader, systems: readonly GnssSystem[], span: TimeSpan | null, warn: WarningSink): GnssSystem[] {
+  const observed = (Object.keys(roverHeader.obsCodes) as GnssSystem[]).filter((s) => systems.includes(s) && (roverHeader.obsCodes[s]?.length ?? 0) > 0);
+  const covered = new Set<GnssSystem>();
+  for (const e of nav.ephemerides) {
+    const t = ephemerisTimeGpsS(e);
+    if (span && (t < span.firstGpsS - NAV_WINDOW_S || t > span.lastGpsS + NAV_WINDOW_S)) continue;
+    covered.add(e.system);
+  }
+  const usable = observed.filter((s) => covered.has(s));
+  if (usable.length === 0) {
+    const obsNames = observed.map((s) => SYSTEM_NAMES[s]).join(', ') || 'no allowed system';
+    const spanText = span ? ` between ${when(span.firstGpsS - NAV_WINDOW_S)} and ${when(span.lastGpsS + NAV_WINDOW_S)}` : '';
+    throw new ProcessingError(`no navigation data for the satellites observed: the rover observed ${obsNames}, but ${navPaths.join(', ')} ${navPaths.length > 1 ? 'hold' : 'holds'} no ephemeris for ${observed.length > 1 ? 'these systems' : 'it'}${spanText}`);
+  }
+  for (const s of observed) {
+    if (!covered.has(s)) {
+      warn({ code: 'no-navigation-for-system', message: `no ${SYSTEM_NAMES[s]} ephemeris in the navigation files for the rover's time span: ${SYSTEM_NAMES[s]} satellites are not used` });
+    }
+  }
+  return usable;
+}

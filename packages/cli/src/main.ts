@@ -1,0 +1,194 @@
+#!/usr/bin/env node
+/**
+ * refdelta: differential GNSS pseudorange post-processing from RINEX files.
+ * Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line (see USAGE.md).
+ */
+import yargs from 'yargs';
+import { hideBin } from 'yargs/helpers';
+import { runSolve, type SolveArgs } from './commands/solve.js';
+import { runInspect } from './commands/inspect.js';
+import { runPoints, type PointsArgs } from './commands/points.js';
+import { runCheck, type CheckArgs } from './commands/check.js';
+import { defineSolveOptions, solveArgsFrom } from './solve-option-definitions.js';
+import { describeFailure } from './failure-sentence.js';
+import { EXIT_OK, EXIT_USAGE } from './exit-codes.js';
+import { Reporter } from './reporter.js';
+import { UsageError } from './usage-error.js';
+import { SOFTWARE } from './software.js';
+
+const SOLVE_EXAMPLES: readonly [string, string][] = [
+  [
+    'refdelta solve --rover rover.obs --reference base.obs --nav brdc.18n --ref-xyz 3774089.212,-601661.616,5089321.247 --ref-frame WGS84 --ref-epoch 2018.76 --out out/run1',
+    'known reference coordinate (ECEF metres) with its frame and epoch',
+  ],
+  [
+    'refdelta solve --rover rover.obs --reference cors.18o --nav cors.18n cors.18g --ref-llh 53.32,-9.08,70.2 --ref-frame ETRF2000 --ref-epoch 2018.76 --elevation-mask 15 --smooth 100 --out out/run2',
+    'geodetic reference coordinate, 15 deg mask, 100 s carrier smoothing',
+  ],
+  [
+    'refdelta solve --rover rover.obs --reference base.obs --nav brdc.18n --ref-from-header --rover-antenna-height 1.50 --out out/run3',
+    "the reference file's header coordinate (approximate; frame 'unstated')",
+  ],
+];
+
+/** Options whose values may start with a minus sign (coordinates): joined as --opt=value so they are not read as flags. */
+const SIGNED_VALUE_OPTIONS = new Set(['--ref-xyz', '--ref-llh', '--ref-epoch', '--ref-antenna-height', '--rover-antenna-height']);
+
+export function joinSignedValues(argv: readonly string[]): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < argv.length; i++) {
+    const a = argv[i];
+    const next = argv[i + 1];
+    if (SIGNED_VALUE_OPTIONS.has(a) && next !== undefined && /^-[\d.]/.test(next)) {
+      out.push(`${a}=${next}`);
+      i++;
+    } else {
+      out.push(a);
+    }
+  }
+  return out;
+}
+
+export async function main(rawArgv: readonly string[]): Promise<number> {
+  const argv = joinSignedValues(rawArgv);
+  const debug = argv.includes('--debug');
+  const jsonLines = argv.includes('--json-lines');
+  const quiet = argv.includes('--quiet');
+  let rep = new Reporter({ quiet, jsonLines });
+  let exitCode = EXIT_OK;
+
+  const y = yargs([...argv])
+    .scriptName('refdelta')
+    .usage('$0 <command> [options]\n\nDifferential GNSS pseudorange positioning from RINEX files against a reference receiver at a known point.')
+    .option('quiet', { type: 'boolean', default: false, describe: 'print nothing but the failure sentence' })
+    .option('json-lines', { type: 'boolean', default: false, describe: 'machine-readable progress, warnings and events: one JSON object per line on stdout' })
+    .option('debug', { type: 'boolean', default: false, describe: 'print stack traces on failure' })
+    .command(
+      'solve',
+      'position the rover epoch by epoch against the reference receiver(s)',
+      (c) => {
+        c.option('rover', { type: 'string', demandOption: true, describe: 'rover observation file (RINEX 2/3/4, compact RINEX, .gz/.Z)', group: 'Files:' })
+          .option('reference', { type: 'string', array: true, demandOption: true, describe: 'reference observation file(s), one station, consecutive in time', group: 'Files:' })
+          .option('nav', { type: 'string', array: true, demandOption: true, describe: 'broadcast navigation file(s)', group: 'Files:' })
+          .option('out', { type: 'string', demandOption: true, describe: 'output folder (created; files replaced atomically)', group: 'Files:' })
+          .option('outputs', { type: 'string', default: 'epochs,residuals,geojson,summary', describe: 'which outputs to write', group: 'Files:' })
+          .option('ref-xyz', { type: 'string', describe: 'reference mark ECEF X,Y,Z (m)', group: 'Reference coordinate:' })
+          .option('ref-llh', { type: 'string', describe: 'reference mark LAT,LON (deg), H (m, ellipsoidal)', group: 'Reference coordinate:' })
+          .option('ref-from-header', { type: 'boolean', describe: "use the reference file's APPROX POSITION XYZ (approximate; warns)", group: 'Reference coordinate:' })
+          .option('ref-mark', { type: 'string', describe: 'named mark from a control list (with --marks)', group: 'Reference coordinate:' })
+          .option('marks', { type: 'string', describe: 'control list CSV holding --ref-mark', group: 'Reference coordinate:' })
+          .option('ref-frame', { type: 'string', describe: "frame of the coordinate, e.g. ITRF2014, ETRF2000, WGS84 (required with --ref-xyz/--ref-llh; header: 'unstated')", group: 'Reference coordinate:' })
+          .option('ref-epoch', { type: 'string', describe: 'epoch of the coordinate, decimal year, e.g. 2018.76 (required with --ref-xyz/--ref-llh; header: observation epoch)', group: 'Reference coordinate:' })
+          .option('rover-antenna-height', { type: 'string', describe: 'rover antenna height above the mark (m); default: the file header', group: 'Antennas:' })
+          .option('ref-antenna-height', { type: 'string', describe: 'reference antenna height above the mark (m); default: the file header', group: 'Antennas:' })
+          .option('height-kind', { type: 'string', default: 'vertical', describe: 'vertical | slant (measured heights)', group: 'Antennas:' })
+          .option('antenna-radius', { type: 'string', describe: 'antenna radius to the slant measuring point (m), for --height-kind slant', group: 'Antennas:' })
+          .option('at-antenna', { type: 'boolean', default: false, describe: 'report the antenna reference point instead of the ground mark', group: 'Antennas:' })
+          .option('elevation-mask', { type: 'string', describe: 'elevation mask (deg), default 10', group: 'Processing:' })
+          .option('weights', { type: 'string', default: 'elevation', describe: 'elevation | elevation+strength', group: 'Processing:' })
+          .option('sigma-a', { type: 'string', describe: 'weighting constant a (m) in sigma^2 = a^2 + b^2/sin^2(el), default 0.3', group: 'Processing:' })
+          .option('sigma-b', { type: 'string', describe: 'weighting constant b (m), default 0.3', group: 'Processing:' })
+          .option('smooth', { type: 'string', default: '0', describe: 'carrier smoothing time constant (s); 0 = off', group: 'Processing:' })
+          .option('systems', { type: 'string', default: 'G,R,E,C,J', describe: 'systems to use (letters)', group: 'Processing:' })
+          .option('glonass', { type: 'string', default: 'auto', describe: 'auto | exclude | include | estimate', group: 'Processing:' })
+          .option('max-age', { type: 'string', describe: 'largest correction age (s), default 65', group: 'Processing:' })
+          .option('fallback-standalone', { type: 'boolean', default: false, describe: 'give a standalone position when no differential one is possible', group: 'Processing:' });
+        for (const [cmd, what] of SOLVE_EXAMPLES) c.example(cmd, what);
+        return c;
+      },
+      async (args) => {
+        const a = args as unknown as Record<string, unknown>;
+        const solveArgs: SolveArgs = {
+          rover: String(a.rover), reference: (a.reference as string[]) ?? [], nav: (a.nav as string[]) ?? [], out: String(a.out),
+          outputs: a.outputs, refXyz: a.refXyz, refLlh: a.refLlh, refFromHeader: a.refFromHeader, refMark: a.refMark, marks: a.marks,
+          refFrame: a.refFrame, refEpoch: a.refEpoch, roverAntennaHeight: a.roverAntennaHeight, refAntennaHeight: a.refAntennaHeight,
+          heightKind: a.heightKind, antennaRadius: a.antennaRadius, atAntenna: a.atAntenna, elevationMask: a.elevationMask,
+          weights: a.weights, sigmaA: a.sigmaA, sigmaB: a.sigmaB, smooth: a.smooth, systems: a.systems, glonass: a.glonass,
+          maxAge: a.maxAge, fallbackStandalone: a.fallbackStandalone, quiet: a.quiet === true, jsonLines: a.jsonLines === true,
+        };
+        rep = new Reporter({ quiet: solveArgs.quiet ?? false, jsonLines: solveArgs.jsonLines ?? false });
+        exitCode = (await runSolve(solveArgs, rep)).exitCode;
+      },
+    )
+    .command(
+      'inspect <files..>',
+      'describe what observation or navigation files hold (JSON; --text for a readable view)',
+      (c) =>
+        c.positional('files', { type: 'string', array: true, describe: 'files to inspect (any RINEX encoding)' })
+          .option('text', { type: 'boolean', default: false, describe: 'readable text instead of JSON' })
+          .example('refdelta inspect rover.obs', 'JSON description of one file')
+          .example('refdelta inspect --text base.obs brdc.18n', 'readable view of two files'),
+      async (args) => {
+        const files = ((args as unknown as { files?: string[] }).files ?? []).map(String);
+        exitCode = await runInspect(files, (args as unknown as { text?: boolean }).text === true, rep);
+      },
+    )
+    .command(
+      'points',
+      'per-point coordinates: a solve run, then one averaged coordinate per occupation (windows, event flags or Doppler static detection)',
+      (c) =>
+        defineSolveOptions(c)
+          .option('windows', { type: 'string', describe: 'occupation CSV: name,start,end[,antenna_height_m,height_kind] (takes precedence over event flags and Doppler)', group: 'Points:' })
+          .option('tolerance-h', { type: 'string', describe: 'flag points whose horizontal scatter exceeds this (m), default 1.0', group: 'Points:' })
+          .option('tolerance-v', { type: 'string', describe: 'flag points whose vertical scatter exceeds this (m), default 2.0', group: 'Points:' })
+          .option('projection', { type: 'string', describe: "grid coordinates: EPSG:xxxx, a '+proj=...' string, or utm (zone of the first point)", group: 'Points:' })
+          .option('geoid', { type: 'string', describe: 'orthometric heights: egm96 or a geoid grid FILE (refdelta-geoid-grid 1)', group: 'Points:' })
+          .example('refdelta points --rover rover.obs --reference base.obs --nav brdc.18n --ref-xyz 3774089.212,-601661.616,5089321.247 --ref-frame WGS84 --ref-epoch 2018.76 --projection utm --geoid egm96 --out out/pts', 'points with UTM grid coordinates and EGM96 heights'),
+      async (args) => {
+        const a = args as unknown as Record<string, unknown>;
+        const pa: PointsArgs = { ...solveArgsFrom(a), windows: a.windows, toleranceH: a.toleranceH, toleranceV: a.toleranceV, projection: a.projection, geoid: a.geoid };
+        rep = new Reporter({ quiet: pa.quiet ?? false, jsonLines: pa.jsonLines ?? false });
+        exitCode = await runPoints(pa, rep);
+      },
+    )
+    .command(
+      'check',
+      'compare points (points.csv) with published control marks: differences, pass/fail, NSSDA accuracy (exit code 3 when a mark fails)',
+      (c) =>
+        c.option('points', { type: 'string', demandOption: true, describe: 'points.csv written by refdelta points' })
+          .option('marks', { type: 'string', demandOption: true, describe: 'control marks CSV (name, coordinates, frame, epoch[, accuracy_h_m, accuracy_v_m])' })
+          .option('out', { type: 'string', demandOption: true, describe: 'output folder (control-check.csv, control-check.json)' })
+          .option('radius', { type: 'string', describe: 'match by proximity within this horizontal distance (m) when names differ, default 5' })
+          .option('tolerance-h', { type: 'string', describe: 'horizontal tolerance (m), default 1.0' })
+          .option('tolerance-v', { type: 'string', describe: 'vertical tolerance (m), default 2.0' })
+          .option('transform', { type: 'string', describe: 'Helmert parameter JSON allowing a comparison across frames' })
+          .example('refdelta check --points out/pts/points.csv --marks control.csv --tolerance-h 0.5 --out out/check', 'check against control marks'),
+      async (args) => {
+        const a = args as unknown as Record<string, unknown>;
+        const ca: CheckArgs = { points: a.points, marks: a.marks, out: a.out, radius: a.radius, toleranceH: a.toleranceH, toleranceV: a.toleranceV, transform: a.transform };
+        exitCode = await runCheck(ca, rep);
+      },
+    )
+    .demandCommand(1, 'give a command: solve, points, check or inspect')
+    .strict()
+    .version(SOFTWARE.version)
+    .help()
+    .alias('h', 'help')
+    .epilog('Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line. See packages/cli/USAGE.md.')
+    .wrap(Math.min(110, process.stdout.columns || 100))
+    .fail((msg, err) => {
+      if (err) throw err;
+      throw new UsageError(msg ?? 'wrong command line');
+    });
+
+  try {
+    await y.parseAsync();
+    return exitCode;
+  } catch (e) {
+    const f = describeFailure(e);
+    rep.failure(
+      f.exitCode === EXIT_USAGE ? `${f.sentence} (see refdelta --help)` : f.sentence,
+      f.exitCode,
+      debug && e instanceof Error ? e.stack : undefined,
+    );
+    return f.exitCode;
+  }
+}
+
+main(hideBin(process.argv)).then(
+  (code) => { process.exitCode = code; },
+  (e: unknown) => {
+    process.stderr.write(`refdelta: internal error: ${e instanceof Error ? e.message : String(e)}\n`);
+    process.exitCode = 1;
+  },
+);

@@ -1,0 +1,187 @@
+/**
+ * The thin Node adapter: file bytes as chunks, opening observation and navigation files through the
+ * core readers, SHA-256 of inputs, and atomic writes (temporary file in the same folder, fsync, rename).
+ */
+import { createReadStream } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { mkdir, open, rename, rm, stat, type FileHandle } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import {
+  InputError, mergeNav, openText, readNav, readObsStream,
+  type NavData, type ObsStream, type WarningSink,
+} from '@refdelta/core';
+
+/** The file's bytes as chunks (what the core readers take). */
+export async function* fileChunks(path: string, chunkBytes = 1 << 16): AsyncIterable<Uint8Array> {
+  for await (const c of createReadStream(path, { highWaterMark: chunkBytes })) yield c as Uint8Array;
+}
+
+/** Throws one clear InputError when `path` is not a readable regular file. */
+export async function requireFile(path: string): Promise<number> {
+  let st;
+  try {
+    st = await stat(path);
+  } catch {
+    throw new InputError(path, 0, `file not found: ${path}`);
+  }
+  if (!st.isFile()) throw new InputError(path, 0, `not a regular file: ${path}`);
+  return st.size;
+}
+
+function layerNames(layers: unknown): string[] {
+  if (!Array.isArray(layers)) return [];
+  return layers.map((l) => (typeof l === 'string' ? l : typeof l === 'object' && l && 'name' in l ? String((l as { name: unknown }).name) : String(l)));
+}
+
+export interface OpenedText {
+  readonly layers: readonly string[];
+  readonly text: AsyncIterable<string>;
+}
+
+/** Opens a file through the decompression stage (gzip, Unix compress, compact RINEX detected by content). */
+export async function openTextFile(path: string, onWarning: WarningSink): Promise<OpenedText> {
+  await requireFile(path);
+  const opened = await openText(path, fileChunks(path), { onWarning });
+  return { layers: layerNames(opened.layers), text: opened.text };
+}
+
+export type OpenedObs = ObsStream & { readonly layers: readonly string[] };
+
+/** Opens an observation file (any encoding): header read, epochs streamed on iteration. */
+export async function openObs(path: string, onWarning: WarningSink): Promise<OpenedObs> {
+  const t = await openTextFile(path, onWarning);
+  const stream = await readObsStream(path, t.text, { onWarning });
+  return { file: stream.file, header: stream.header, epochs: stream.epochs, layers: t.layers };
+}
+
+export interface OpenedNav {
+  readonly nav: NavData;
+  readonly layers: ReadonlyMap<string, readonly string[]>;
+}
+
+/** Reads and merges navigation files. */
+export async function openNav(paths: readonly string[], onWarning: WarningSink): Promise<OpenedNav> {
+  const parts: NavData[] = [];
+  const layers = new Map<string, readonly string[]>();
+  for (const p of paths) {
+    const t = await openTextFile(p, onWarning);
+    parts.push(await readNav(p, t.text, { onWarning }));
+    layers.set(p, t.layers);
+  }
+  return { nav: parts.length === 1 ? parts[0] : mergeNav(parts), layers };
+}
+
+/** Hex SHA-256 of a file's bytes as stored (FIPS 180-4). */
+export async function sha256File(path: string): Promise<string> {
+  const h = createHash('sha256');
+  for await (const c of createReadStream(path)) h.update(c as Uint8Array);
+  return h.digest('hex');
+}
+
+export interface WrittenFile {
+  readonly path: string;
+  readonly bytes: number;
+  readonly sha256: string;
+}
+
+/** Removes a file, ignoring "not there". */
+async function removeQuietly(path: string): Promise<void> {
+  await rm(path, { force: true }).catch(() => {});
+}
+
+/**
+ * A file written under a temporary name in its final folder and renamed into place on commit()
+ * (rename(2) within one file system replaces the name atomically, POSIX.1-2017). Until commit() an
+ * existing file of the final name is untouched; abort() removes the temporary file.
+ */
+export class AtomicFile {
+  private pending: Buffer[] = [];
+  private pendingBytes = 0;
+  private bytes = 0;
+  private readonly hash = createHash('sha256');
+  private done = false;
+
+  private constructor(readonly path: string, private readonly tmp: string, private readonly fh: FileHandle) {}
+
+  static async create(path: string): Promise<AtomicFile> {
+    const dir = dirname(path);
+    await mkdir(dir, { recursive: true });
+    const tmp = join(dir, `.${basename(path)}.${process.pid}.${Date.now().toString(36)}${Math.random().toString(36).slice(2, 8)}.tmp`);
+    const fh = await open(tmp, 'wx');
+    return new AtomicFile(path, tmp, fh);
+  }
+
+  /** Buffers text or bytes; flushed to the temporary file every 256 KiB. */
+  async write(chunk: string | Uint8Array): Promise<void> {
+    const buf = typeof chunk === 'string' ? Buffer.from(chunk, 'utf8') : Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength);
+    if (buf.length === 0) return;
+    this.pending.push(buf);
+    this.pendingBytes += buf.length;
+    if (this.pendingBytes >= 1 << 18) await this.flush();
+  }
+
+  private async flush(): Promise<void> {
+    if (this.pendingBytes === 0) return;
+    const buf = Buffer.concat(this.pending, this.pendingBytes);
+    this.pending = [];
+    this.pendingBytes = 0;
+    this.hash.update(buf);
+    let off = 0;
+    while (off < buf.length) {
+      const { bytesWritten } = await this.fh.write(buf, off, buf.length - off);
+      off += bytesWritten;
+    }
+    this.bytes += buf.length;
+  }
+
+  /** Flushes, fsyncs and renames into place. On failure the temporary file is removed and the error rethrown. */
+  async commit(): Promise<WrittenFile> {
+    if (this.done) throw new Error(`${this.path}: already committed or aborted`);
+    this.done = true;
+    try {
+      await this.flush();
+      await this.fh.sync();
+      await this.fh.close();
+      await rename(this.tmp, this.path);
+    } catch (e) {
+      await this.fh.close().catch(() => {});
+      await removeQuietly(this.tmp);
+      throw e;
+    }
+    await syncFolder(dirname(this.path));
+    return { path: this.path, bytes: this.bytes, sha256: this.hash.digest('hex') };
+  }
+
+  /** Drops the temporary file; the final name is left as it was. */
+  async abort(): Promise<void> {
+    if (this.done) return;
+    this.done = true;
+    await this.fh.close().catch(() => {});
+    await removeQuietly(this.tmp);
+  }
+}
+
+/** fsync of the folder so a rename survives a crash (common practice on POSIX file systems). */
+async function syncFolder(dir: string): Promise<void> {
+  try {
+    const d = await open(dir, 'r');
+    try { await d.sync(); } finally { await d.close(); }
+  } catch {
+    // Some platforms cannot open a folder for fsync; the data file itself is already synced.
+  }
+}
+
+/** Writes `chunks` to `path` atomically (see AtomicFile). Nothing half-written is ever left under `path`. */
+export async function writeFileAtomic(
+  path: string,
+  chunks: Iterable<string | Uint8Array> | AsyncIterable<string | Uint8Array>,
+): Promise<WrittenFile> {
+  const f = await AtomicFile.create(path);
+  try {
+    for await (const c of chunks as AsyncIterable<string | Uint8Array>) await f.write(c);
+  } catch (e) {
+    await f.abort();
+    throw e;
+  }
+  return f.commit();
+}

@@ -1,0 +1,6 @@
+/** A wrong command line: bad or missing option values. Exit code 2. */
+import { RefdeltaError } from '@refdelta/core';
+
+export class UsageError extends RefdeltaError {
+  override readonly name: string = 'UsageError';
+}

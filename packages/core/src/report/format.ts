@@ -1,0 +1,22 @@
+/** Cell formatting shared by the report builders: fixed decimals, empty cell for "no value". */
+
+/** Fixed-decimal text of a number; '' for null, undefined, NaN or infinities (an empty CSV cell means "no value"). */
+export function fixed(x: number | null | undefined, decimals: number): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '';
+  const t = x.toFixed(decimals);
+  // '-0.000' reads as a sign where there is none.
+  return /^-0\.?0*$/.test(t) ? t.slice(1) : t;
+}
+
+/** A number kept for JSON output: null for NaN/infinities (JSON has no NaN), rounded to `decimals`. */
+export function jsonNumber(x: number | null | undefined, decimals: number): number | null {
+  if (x === null || x === undefined || !Number.isFinite(x)) return null;
+  const k = 10 ** decimals;
+  const r = Math.round(x * k) / k;
+  return Object.is(r, -0) ? 0 : r;
+}
+
+/** A frame epoch as decimal year text with two decimals (about 3.7 days), e.g. 2018.76. */
+export function frameEpochText(epochYear: number): string {
+  return Number.isFinite(epochYear) ? epochYear.toFixed(2) : 'unstated';
+}

@@ -1,0 +1,24 @@
+/** Report stage: pure builders of CSV rows, GeoJSON, the run summary and file inspections (strings/objects out). */
+export { fixed, jsonNumber, frameEpochText } from './format.js';
+export { pointReferenceWords, frameWords } from './point-reference.js';
+export {
+  epochColumns, epochRow, epochRows, csvPreamble, relativeClockColumn, systemsWithClocks,
+  type CsvTable, type CsvPreambleInput,
+} from './epoch-rows.js';
+export { RESIDUAL_COLUMNS, residualRows, residualRowsOf } from './residual-rows.js';
+export { geojson, epochFeature, geojsonNote, isWgs84Label, type GeoJsonOptions, type PointFeature, type RefdeltaFeatureCollection } from './geojson.js';
+export {
+  summaryJson, CAUTIONS,
+  type InputKind, type InputFileRecord, type OutputFileRecord, type LabelledScatter, type SummaryExtras,
+} from './summary-json.js';
+export {
+  percentile, mean, rms, horizontalVerticalStats, enuDifferences, meanEcef, positionScatter,
+  type HorizontalVerticalStats, type ScatterStats,
+} from './statistics.js';
+export {
+  inspectObs, timeStamp, modalIntervalS, EPOCH_FLAG_WORDS,
+  type ObsInspection, type InspectOptions, type TimeStamp, type GapRecord, type EventRecord,
+} from './inspect-obs.js';
+export { inspectNav, ephemerisTimeGpsS, type NavInspection } from './inspect-nav.js';
+export { obsInspectionText, navInspectionText } from './inspect-text.js';
+export { errorsAgainstTruth, truthStatistics, type TruthPoint } from './truth-compare.js';

@@ -1,0 +1,52 @@
+/**
+ * Reads back a points.csv written by points-table.ts (for `refdelta check`): name, ecef_x_m, ecef_y_m,
+ * ecef_z_m, frame, frame_epoch are required; other columns are ignored. '#' lines are skipped.
+ * A bad row is an InputError naming the file, the 1-based line and the column.
+ */
+import type { FramedEcef } from '../types.js';
+import { InputError } from '../errors.js';
+import { splitCsvLine } from '../control/index.js';
+
+export interface LoggedPoint {
+  readonly name: string;
+  readonly position: FramedEcef;
+  readonly line: number;
+}
+
+const REQUIRED = ['name', 'ecef_x_m', 'ecef_y_m', 'ecef_z_m', 'frame', 'frame_epoch'];
+
+export function parsePointsCsv(file: string, text: string): LoggedPoint[] {
+  const lines = text.split(/\r?\n/);
+  let header: string[] | undefined;
+  const out: LoggedPoint[] = [];
+  for (let i = 0; i < lines.length; i++) {
+    const raw = lines[i]!.trim();
+    const lineNo = i + 1;
+    if (raw === '' || raw.startsWith('#')) continue;
+    const f = splitCsvLine(raw);
+    if (!header) {
+      header = f.map((h) => h.toLowerCase());
+      const missing = REQUIRED.filter((c) => !header!.includes(c));
+      if (missing.length) throw new InputError(file, lineNo, `expected a points table header (as written by refdelta points) with columns ${REQUIRED.join(', ')}; missing ${missing.join(', ')}`);
+      continue;
+    }
+    if (f.length !== header.length) throw new InputError(file, lineNo, `expected ${header.length} columns as in the header, found ${f.length}`);
+    const get = (c: string) => f[header!.indexOf(c)]!;
+    const num = (c: string): number => {
+      const v = Number(get(c));
+      if (get(c) === '' || !Number.isFinite(v)) throw new InputError(file, lineNo, `column ${c}: expected a number in metres, found '${get(c)}'`);
+      return v;
+    };
+    const name = get('name');
+    if (name === '') throw new InputError(file, lineNo, 'column name: expected a point name');
+    const ecef = { x: num('ecef_x_m'), y: num('ecef_y_m'), z: num('ecef_z_m') };
+    const r = Math.hypot(ecef.x, ecef.y, ecef.z);
+    if (r < 6.2e6 || r > 6.5e6) throw new InputError(file, lineNo, `columns ecef_x_m,ecef_y_m,ecef_z_m: expected a point near the Earth's surface (|X| = ${r.toFixed(0)} m)`);
+    const epochText = get('frame_epoch');
+    const epochYear = epochText === '' || epochText === 'unstated' ? NaN : Number(epochText);
+    if (Number.isNaN(epochYear) && epochText !== '' && epochText !== 'unstated') throw new InputError(file, lineNo, `column frame_epoch: expected a decimal year or 'unstated', found '${epochText}'`);
+    out.push({ name, position: { ecef, frame: { name: get('frame') || 'unstated', epochYear } }, line: lineNo });
+  }
+  if (!header) throw new InputError(file, 0, 'expected a points table (as written by refdelta points): the file is empty');
+  return out;
+}

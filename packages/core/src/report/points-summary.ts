@@ -1,0 +1,129 @@
+/**
+ * Per-point results of a session: the epochs of each occupation (points/occupations.ts) summarised by
+ * points/summarise-point.ts (Huber robust mean, scatter, effective number of epochs, precision of the
+ * mean with time correlation), with the occupation's own antenna height applied when one was given.
+ *
+ * Epoch choice: the differential and smoothed epochs of the occupation; only when it has none, its
+ * standalone epochs (never a mix: standalone positions are metres off and in the broadcast frame).
+ * An epoch belongs to an occupation when its tag is within [start - 0.01 s, end + 0.01 s] (receiver tags
+ * are a few ms off GPS time: data README; our tolerance).
+ *
+ * Antenna height of an occupation (windows CSV antenna_height_m, vertical or slant): the session's
+ * position is taken back to the antenna reference point with the height it used (EpochSolution
+ * antennaHeightM, along the ellipsoidal normal) and then down to the mark with the occupation's height
+ * (points/antenna-height.ts: verticalHeightToArpM, reduceToMark).
+ *
+ * Tolerance flag (our choice, documented in the outputs): 'too-few-epochs' below minEpochs (10);
+ * 'exceeds-horizontal' when the horizontal per-epoch scatter sqrt(sd_e^2 + sd_n^2) is above the
+ * horizontal tolerance (default 1.0 m), 'exceeds-vertical' when sd_u is above the vertical tolerance
+ * (default 2.0 m), 'exceeds-horizontal-and-vertical' for both; else 'ok'. Defaults as control/compare-to-mark.ts.
+ */
+import type { EcefM, FrameEpoch } from '../types.js';
+import type { PointReference, SolutionKind } from '../session/solution-types.js';
+import { ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
+import {
+  reduceToMark, summarisePoint, verticalHeightToArpM,
+  type AntennaGeometry, type HeightKind, type Occupation, type PointSummary,
+} from '../points/index.js';
+
+/** What the points stage keeps of one epoch solution. */
+export interface PointEpoch {
+  /** Epoch tag (receiver time), GPS seconds. */
+  readonly tagGpsS: number;
+  /** Position as the session reported it (see pointReference). */
+  readonly ecef: EcefM;
+  readonly kind: SolutionKind;
+  readonly pdop: number;
+  /** Antenna height the session used for this epoch (m). */
+  readonly antennaHeightM: number;
+}
+
+export type PointToleranceFlag = 'ok' | 'too-few-epochs' | 'exceeds-horizontal' | 'exceeds-vertical' | 'exceeds-horizontal-and-vertical';
+
+export interface PointsOptions {
+  /** What the session's positions refer to. */
+  readonly pointReference: PointReference;
+  readonly frame: FrameEpoch;
+  readonly horizontalToleranceM?: number;
+  readonly verticalToleranceM?: number;
+  readonly minEpochs?: number;
+  /** Needed for slant heights. */
+  readonly antenna?: AntennaGeometry;
+}
+
+export interface PointResult {
+  readonly name: string;
+  readonly source: Occupation['source'];
+  readonly startGpsS: number;
+  readonly endGpsS: number;
+  readonly summary: PointSummary;
+  /** Epochs used, by solution kind. */
+  readonly kinds: Readonly<Partial<Record<SolutionKind, number>>>;
+  /** Vertical antenna height mark -> ARP applied by the points stage (m); NaN when the session's was kept. */
+  readonly antennaHeightM: number;
+  readonly measuredHeightM?: number;
+  readonly heightKind?: HeightKind;
+  readonly pointReference: PointReference;
+  readonly frame: FrameEpoch;
+  readonly tolerance: PointToleranceFlag;
+}
+
+export interface PointsOutcome {
+  readonly points: readonly PointResult[];
+  /** Occupations without a usable epoch. */
+  readonly empty: readonly Occupation[];
+}
+
+export const DEFAULT_POINT_TOLERANCE_H_M = 1.0;
+export const DEFAULT_POINT_TOLERANCE_V_M = 2.0;
+const TAG_TOLERANCE_S = 0.01;
+
+/** The ARP above a ground-mark position, given the vertical height used. */
+function markToArpAlongNormal(mark: EcefM, heightM: number): EcefM {
+  const g = ecefToGeodetic(mark);
+  const d = enuToEcefDelta({ e: 0, n: 0, u: heightM }, g.latRad, g.lonRad);
+  return { x: mark.x + d.x, y: mark.y + d.y, z: mark.z + d.z };
+}
+
+export function toleranceFlagOf(s: PointSummary, tolHM: number, tolVM: number, minEpochs: number): PointToleranceFlag {
+  if (s.epochs < minEpochs) return 'too-few-epochs';
+  const h = Math.hypot(s.sdEastM, s.sdNorthM) > tolHM;
+  const v = s.sdUpM > tolVM;
+  return h && v ? 'exceeds-horizontal-and-vertical' : h ? 'exceeds-horizontal' : v ? 'exceeds-vertical' : 'ok';
+}
+
+export function summariseOccupations(epochs: readonly PointEpoch[], occupations: readonly Occupation[], opts: PointsOptions): PointsOutcome {
+  const tolH = opts.horizontalToleranceM ?? DEFAULT_POINT_TOLERANCE_H_M;
+  const tolV = opts.verticalToleranceM ?? DEFAULT_POINT_TOLERANCE_V_M;
+  const minEpochs = opts.minEpochs ?? 10;
+  const points: PointResult[] = [];
+  const empty: Occupation[] = [];
+  for (const occ of occupations) {
+    const inside = epochs.filter((e) => e.tagGpsS >= occ.startGpsS - TAG_TOLERANCE_S && e.tagGpsS <= occ.endGpsS + TAG_TOLERANCE_S);
+    const diff = inside.filter((e) => e.kind === 'differential' || e.kind === 'smoothed');
+    const chosen = diff.length > 0 ? diff : inside.filter((e) => e.kind === 'standalone');
+    if (chosen.length === 0) { empty.push(occ); continue; }
+    let heightM = NaN;
+    if (occ.antennaHeightM !== undefined) heightM = verticalHeightToArpM(occ.antennaHeightM, occ.heightKind ?? 'vertical', opts.antenna);
+    const samples = chosen.map((e) => {
+      let ecef = e.ecef;
+      if (Number.isFinite(heightM)) {
+        const arp = opts.pointReference === 'ground-mark' ? markToArpAlongNormal(e.ecef, e.antennaHeightM) : e.ecef;
+        ecef = reduceToMark(arp, heightM);
+      }
+      return { ecef, tGpsS: e.tagGpsS, pdop: e.pdop };
+    });
+    const summary = summarisePoint(samples, { minEpochs, horizontalToleranceM: tolH });
+    const kinds: Partial<Record<SolutionKind, number>> = {};
+    for (const e of chosen) kinds[e.kind] = (kinds[e.kind] ?? 0) + 1;
+    points.push({
+      name: occ.name, source: occ.source, startGpsS: occ.startGpsS, endGpsS: occ.endGpsS, summary, kinds,
+      antennaHeightM: heightM,
+      ...(occ.antennaHeightM !== undefined ? { measuredHeightM: occ.antennaHeightM, heightKind: occ.heightKind ?? 'vertical' } : {}),
+      pointReference: Number.isFinite(heightM) ? 'ground-mark' : opts.pointReference,
+      frame: opts.frame,
+      tolerance: toleranceFlagOf(summary, tolH, tolV, minEpochs),
+    });
+  }
+  return { points, empty };
+}

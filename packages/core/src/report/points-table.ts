@@ -1,0 +1,143 @@
+/**
+ * points.csv and points.geojson: one row / feature per occupation, with the frame, epoch, projection
+ * and height reference stated in the file (CSV '#' lines as epochs.csv, report/epoch-rows.ts; GeoJSON
+ * top-level foreign member "refdelta", RFC 7946 section 6.1).
+ *
+ * Projection: applied to latitude/longitude in the points' own frame (projection/projection.ts never
+ * shifts datums): easting/northing are in that frame too. Orthometric heights: H = h - N with the
+ * chosen geoid (geoid/geoid-model.ts); EGM96 is a global model, not a national vertical datum.
+ */
+import type { FrameEpoch } from '../types.js';
+import { gpsToUtcS, isoFromSeconds, weekTowFromGpsS } from '../time/index.js';
+import { radToDeg } from '../geodesy/index.js';
+import type { Projection } from '../projection/index.js';
+import { orthometricHeightM, type GeoidModel } from '../geoid/index.js';
+import { fixed, frameEpochText, jsonNumber } from './format.js';
+import { frameWords, pointReferenceWords } from './point-reference.js';
+import { geojsonNote } from './geojson.js';
+import type { PointResult } from './points-summary.js';
+
+export interface PointsTableOptions {
+  readonly frame: FrameEpoch;
+  readonly projection?: Projection;
+  readonly geoid?: GeoidModel;
+  readonly horizontalToleranceM: number;
+  readonly verticalToleranceM: number;
+  /** Further free-text lines. */
+  readonly notes?: readonly string[];
+}
+
+export const EGM96_NOT_A_DATUM_NOTE = 'EGM96 is a global geoid model, not a national vertical datum: national levelling heights can differ by decimetres to a metre or more';
+
+export function pointsColumns(o: Pick<PointsTableOptions, 'projection' | 'geoid'>): string[] {
+  return [
+    'name', 'source', 'start_utc', 'end_utc', 'start_gps_week', 'start_gps_tow_s', 'end_gps_week', 'end_gps_tow_s',
+    'epochs', 'duration_s', 'latitude_deg', 'longitude_deg', 'height_m',
+    ...(o.projection ? ['easting_m', 'northing_m'] : []),
+    ...(o.geoid ? ['orthometric_height_m'] : []),
+    'ecef_x_m', 'ecef_y_m', 'ecef_z_m', 'frame', 'frame_epoch', 'point_reference',
+    'sd_east_m', 'sd_north_m', 'sd_up_m', 'n_eff', 'sigma_mean_east_m', 'sigma_mean_north_m', 'sigma_mean_up_m',
+    'mean_pdop', 'antenna_height_m', 'solution_kinds', 'tolerance',
+  ];
+}
+
+function isIsoUtc(gpsS: number): string {
+  return isoFromSeconds(gpsToUtcS(gpsS), 'Z');
+}
+
+function kindsText(p: PointResult): string {
+  return Object.entries(p.kinds).map(([k, n]) => `${k}:${n}`).join(';');
+}
+
+interface Derived {
+  readonly latDeg: number;
+  readonly lonDeg: number;
+  readonly hM: number;
+  readonly eastingM: number;
+  readonly northingM: number;
+  readonly orthometricM: number;
+}
+
+function derive(p: PointResult, o: Pick<PointsTableOptions, 'projection' | 'geoid'>): Derived {
+  const g = p.summary.meanGeodetic;
+  const latDeg = radToDeg(g.latRad), lonDeg = radToDeg(g.lonRad);
+  const en = o.projection ? o.projection.forward(latDeg, lonDeg) : { eastingM: NaN, northingM: NaN };
+  const orthometricM = o.geoid ? orthometricHeightM(o.geoid, latDeg, lonDeg, g.heightM) : NaN;
+  return { latDeg, lonDeg, hM: g.heightM, eastingM: en.eastingM, northingM: en.northingM, orthometricM };
+}
+
+export function pointRow(p: PointResult, o: Pick<PointsTableOptions, 'projection' | 'geoid'>): string[] {
+  const d = derive(p, o);
+  const s = p.summary;
+  const ws = weekTowFromGpsS(p.startGpsS), we = weekTowFromGpsS(p.endGpsS);
+  return [
+    p.name, p.source, isIsoUtc(p.startGpsS), isIsoUtc(p.endGpsS), String(ws.week), fixed(ws.towS, 3), String(we.week), fixed(we.towS, 3),
+    String(s.epochs), fixed(s.durationS, 1), fixed(d.latDeg, 9), fixed(d.lonDeg, 9), fixed(d.hM, 4),
+    ...(o.projection ? [fixed(d.eastingM, 4), fixed(d.northingM, 4)] : []),
+    ...(o.geoid ? [fixed(d.orthometricM, 4)] : []),
+    fixed(s.meanEcef.x, 4), fixed(s.meanEcef.y, 4), fixed(s.meanEcef.z, 4), p.frame.name, Number.isFinite(p.frame.epochYear) ? String(jsonNumber(p.frame.epochYear, 4)) : 'unstated',
+    pointReferenceWords(p.pointReference),
+    fixed(s.sdEastM, 4), fixed(s.sdNorthM, 4), fixed(s.sdUpM, 4), fixed(s.nEff, 1),
+    fixed(s.sigmaMeanEastM, 4), fixed(s.sigmaMeanNorthM, 4), fixed(s.sigmaMeanUpM, 4),
+    fixed(s.meanPdop, 2), fixed(p.antennaHeightM, 4), kindsText(p), p.tolerance,
+  ];
+}
+
+/** Header lines explaining every file-level fact a reader needs. */
+export function pointsPreamble(o: PointsTableOptions): string[] {
+  const lines = [
+    '# refdelta points: one row per occupation',
+    `# frame: ${frameWords(o.frame)} (ecef_*, latitude/longitude/height and projected coordinates are all in this frame)`,
+    `# projection: ${o.projection ? `${o.projection.name} (${o.projection.projString}), applied to latitude/longitude in the frame above without any datum shift` : 'none'}`,
+    `# heights: height_m is ellipsoidal${o.geoid ? `; orthometric_height_m = height_m - N above ${o.geoid.heightReference} (${o.geoid.name})` : ''}`,
+    ...(o.geoid && /egm96/i.test(o.geoid.name + o.geoid.heightReference) ? [`# ${EGM96_NOT_A_DATUM_NOTE}`] : []),
+    '# position: Huber robust mean (k = 1.5, MAD scale) of the occupation\'s differential/smoothed epochs (standalone only when it has none); point_reference says which point it is',
+    '# sd_*: per-epoch scatter (1 sigma) in east/north/up; sigma_mean_* = sd / sqrt(n_eff) per component, where n_eff = n / tau and tau is the integrated autocorrelation time',
+    '#   (Geyer 1992 initial positive sequence), so time-correlated epochs are not counted as independent; n_eff column: the smallest of the three components',
+    `# tolerance: ok | too-few-epochs (< 10) | exceeds-horizontal (sqrt(sd_e^2+sd_n^2) > ${o.horizontalToleranceM} m) | exceeds-vertical (sd_u > ${o.verticalToleranceM} m) | exceeds-horizontal-and-vertical`,
+    '# times: start/end are the first/last epoch tags of the occupation (UTC ISO 8601; GPS week and time of week)',
+  ];
+  for (const n of o.notes ?? []) lines.push(`# ${n.replace(/[\r\n]+/g, ' ')}`);
+  return lines;
+}
+
+export interface PointsGeoJson {
+  readonly type: 'FeatureCollection';
+  readonly refdelta: Readonly<Record<string, string | number | null>>;
+  readonly features: readonly {
+    readonly type: 'Feature';
+    readonly geometry: { readonly type: 'Point'; readonly coordinates: readonly [number, number, number] };
+    readonly properties: Readonly<Record<string, string | number | null>>;
+  }[];
+}
+
+/** GeoJSON (RFC 7946) FeatureCollection of the points; properties as the CSV columns (numbers as numbers). */
+export function pointsGeoJson(points: readonly PointResult[], o: PointsTableOptions): PointsGeoJson {
+  const cols = pointsColumns(o);
+  const numeric = new Set(cols.filter((c) => /_(deg|m|s|week)$/.test(c) || c === 'epochs' || c === 'n_eff' || c === 'mean_pdop' || c === 'start_gps_tow_s' || c === 'end_gps_tow_s'));
+  return {
+    type: 'FeatureCollection',
+    refdelta: {
+      frame: o.frame.name,
+      epoch: jsonNumber(o.frame.epochYear, 2),
+      projection: o.projection ? `${o.projection.name} (${o.projection.projString})` : 'none',
+      height_reference: o.geoid ? `ellipsoidal (height_m); orthometric_height_m above ${o.geoid.heightReference} (${o.geoid.name})` : 'ellipsoidal',
+      ...(o.geoid && /egm96/i.test(o.geoid.name + o.geoid.heightReference) ? { vertical_datum_note: EGM96_NOT_A_DATUM_NOTE } : {}),
+      precision_note: 'sigma_mean_* = sd / sqrt(n_eff), n_eff from the autocorrelation of each component (Geyer 1992)',
+      note: geojsonNote(o.frame),
+    },
+    features: points.map((p) => {
+      const row = pointRow(p, o);
+      const d = derive(p, o);
+      const properties: Record<string, string | number | null> = {};
+      cols.forEach((c, i) => {
+        properties[c] = numeric.has(c) ? (row[i] === '' ? null : Number(row[i])) : row[i];
+      });
+      return {
+        type: 'Feature' as const,
+        geometry: { type: 'Point' as const, coordinates: [jsonNumber(d.lonDeg, 9) ?? 0, jsonNumber(d.latDeg, 9) ?? 0, jsonNumber(d.hM, 4) ?? 0] as const },
+        properties,
+      };
+    }),
+  };
+}
