@@ -1,1 +1,2 @@
 export * from './standalone-epoch.js';
+export { GLONASS_CODE_BIAS_SIGMA_M, glonassCodeBiasVarianceM2 } from './fdma-code-bias.js';

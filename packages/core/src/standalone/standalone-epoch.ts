@@ -5,19 +5,22 @@
  * code combination (two bands present) or the L1-band code with the Klobuchar model. One receiver clock
  * per constellation. Model: P = rho + c dt_r - c dt_sv + T + I + e (Misra & Enge 2011, eq. 5.8).
  * Ionosphere-free combination: P_IF = (f1^2 P1 - f2^2 P2) / (f1^2 - f2^2) (IS-GPS-200 20.3.3.3.3.3).
+ * Galileo pairs E1 with E5b for an I/NAV clock and with E5a for an F/NAV clock (OS SIS ICD 5.1.5).
+ * GLONASS rows carry an extra variance for the receiver's FDMA code inter-frequency biases (fdma-code-bias.ts).
  */
 import type { EcefM, GnssSystem, SatId } from '../types.js';
 import { satSystem } from '../types.js';
 import type { ObsEpoch, ObsHeader, SatObservations } from '../rinex/obs-types.js';
-import type { IonosphereCoefficients } from '../rinex/nav-types.js';
+import type { Ephemeris, IonosphereCoefficients, KeplerEphemeris } from '../rinex/nav-types.js';
 import { chooseCode, carrierFrequencyHz } from '../rinex/obs-codes.js';
-import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS, type SignalKind } from '../orbit/index.js';
+import { EphemerisStore, isGalileoFnav, satelliteAtTransmission, SPEED_OF_LIGHT_MS, type SignalKind } from '../orbit/index.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
 import { elevationVarianceM2, strengthToDbHz, type ElevationWeightParams } from '../solve/index.js';
 import { solvePositionFix, DEFAULT_FIX_OPTIONS, type FixOptions, type LinearRow, type PositionFix, type FixFailure } from '../positioning/position-fix.js';
 import { PRIMARY_BAND, SECONDARY_BANDS, clockSignal } from '../positioning/signals.js';
 import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
 import type { SatelliteResidual } from '../session/solution-types.js';
+import { GLONASS_CODE_BIAS_SIGMA_M, glonassCodeBiasVarianceM2 } from './fdma-code-bias.js';
 
 export type StandaloneMode = 'ionosphere-free' | 'single-frequency';
 
@@ -32,6 +35,12 @@ export interface StandaloneContext {
   /** GLONASS slot -> frequency channel (header GLONASS SLOT / FRQ #, else from the navigation data). */
   readonly glonassChannels: ReadonlyMap<number, number>;
   readonly fix?: FixOptions;
+  /**
+   * Standard deviation (m) of the receiver's GLONASS code inter-frequency bias per band, added to the
+   * variance of each GLONASS row (propagated through the ionosphere-free combination). Default
+   * GLONASS_CODE_BIAS_SIGMA_M; 0 turns it off.
+   */
+  readonly glonassCodeBiasSigmaM?: number;
 }
 
 export interface StandaloneEpochResult {
@@ -54,6 +63,8 @@ interface PreparedSat {
   readonly cn0DbHz: number;
   /** Variance inflation of the combination relative to one code. */
   readonly noiseFactor: number;
+  /** Variance of receiver biases that do not cancel in the constellation clock (GLONASS FDMA), m^2. */
+  readonly biasVarianceM2: number;
 }
 
 function valueOf(s: SatObservations, code: string): number {
@@ -79,65 +90,120 @@ function availablePseudoranges(s: SatObservations): string[] {
   return out;
 }
 
+/**
+ * Galileo second band for the ionosphere-free pair with a record's clock: E5b goes with the I/NAV clock
+ * (E1/E5b reference) and E5a with the F/NAV clock (E1/E5a reference), Galileo OS SIS ICD 5.1.5. `clock`:
+ * the message whose record is needed, null when neither band was tracked.
+ */
+function galileoPair(eph: KeplerEphemeris, avail: readonly string[]): { clock: 'INAV' | 'FNAV' | null } {
+  const has5 = chooseCode('E', avail, '5') !== null, has7 = chooseCode('E', avail, '7') !== null;
+  if (isGalileoFnav(eph)) return { clock: has5 ? 'FNAV' : has7 ? 'INAV' : null };
+  return { clock: has7 ? 'INAV' : has5 ? 'FNAV' : null };
+}
+
+/**
+ * Code observable, satellite position and clock of one satellite: the single-band code c1 (c2 null) or
+ * the ionosphere-free combination of c1 and c2 (mode 'single-frequency' when c2's frequency or value is missing).
+ */
+function prepareSat(
+  s: SatObservations, system: GnssSystem, c1: string, c2: string | null, eph: Ephemeris, k: number | undefined,
+  tagGpsS: number, header: ObsHeader, ctx: StandaloneContext,
+): PreparedSat {
+  const p1 = valueOf(s, c1);
+  const f1 = carrierFrequencyHz(system, c1, k);
+  let mode: StandaloneMode = 'single-frequency';
+  let codeM = p1;
+  let signalKind: SignalKind | undefined = clockSignal(system, c1[1]);
+  let extraBiasM = 0;
+  let noiseFactor = 1;
+  let signal = c1;
+  if (c2 !== null) {
+    const f2 = carrierFrequencyHz(system, c2, k);
+    const p2 = valueOf(s, c2);
+    if (Number.isFinite(f1) && Number.isFinite(f2) && Number.isFinite(p2)) {
+      const g1 = f1 * f1, g2 = f2 * f2;
+      codeM = (g1 * p1 - g2 * p2) / (g1 - g2);
+      noiseFactor = (g1 * g1 + g2 * g2) / ((g1 - g2) * (g1 - g2));
+      mode = 'ionosphere-free';
+      signal = `${c1}+${c2}`;
+      if (system === 'G' || system === 'J') signalKind = c1 === 'C1C' || c1 === 'C1W' ? 'L1L2-IF' : signalKind;
+      if (system === 'E') signalKind = c2[1] === '5' ? 'E1E5a-IF' : 'E1E5b-IF';
+      if (system === 'C' && eph.kind === 'kepler') {
+        // BeiDou clocks refer to B3I; B1I is late by TGD1, B2I by TGD2 (BeiDou ICD B1I 5.2.4.10), so the
+        // combination a P1 - b P2 (a = g1/(g1-g2), b = g2/(g1-g2)) is late by c (a TGD1 - b TGD2); B3I: TGD 0.
+        signalKind = 'B3I';
+        const tgd2S = c2[1] === '7' && Number.isFinite(eph.tgd2S) ? eph.tgd2S : 0;
+        extraBiasM = SPEED_OF_LIGHT_MS * ((g1 / (g1 - g2)) * eph.tgdS - (g2 / (g1 - g2)) * tgd2S);
+      }
+      if (system === 'R') signalKind = 'G1';
+    }
+  }
+  const at = satelliteAtTransmission(eph, tagGpsS, codeM, null, signalKind);
+  return {
+    sat: s.sat, system, signal, mode, codeM: codeM - extraBiasM,
+    satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
+    frequencyHz: mode === 'single-frequency' ? f1 : NaN,
+    cn0DbHz: strengthDbHz(s, c1, header.version), noiseFactor,
+    // Independent per-band biases propagate like the noise (a^2 + b^2 for the combination, 1 for one band).
+    biasVarianceM2: system === 'R' ? glonassCodeBiasVarianceM2(ctx.glonassCodeBiasSigmaM ?? GLONASS_CODE_BIAS_SIGMA_M, noiseFactor) : 0,
+  };
+}
+
 /** Solves one epoch standalone. `x0`: a starting position (previous fix or header), else the Earth's centre. */
 export function solveStandaloneEpoch(epoch: ObsEpoch, header: ObsHeader, ctx: StandaloneContext, x0: EcefM | null): StandaloneEpochResult {
   const reasons = new Map<SatId, { signal: string; reason: string }>();
   const prepared: PreparedSat[] = [];
+  const candidates: { dual: PreparedSat | null; single: () => PreparedSat }[] = [];
   const modeBySystem = new Map<GnssSystem, StandaloneMode>();
   for (const s of epoch.sats) {
     const system = satSystem(s.sat);
     if (!ctx.systems.includes(system)) { reasons.set(s.sat, { signal: '', reason: 'constellation not selected' }); continue; }
     const avail = availablePseudoranges(s);
     const c1 = chooseCode(system, avail, PRIMARY_BAND[system]);
-    if (c1 === null) { reasons.set(s.sat, { signal: '', reason: 'no pseudorange on the primary band' }); continue; }
-    const sel = ctx.store.select(s.sat, epoch.tagGpsS);
+    let sel = ctx.store.select(s.sat, epoch.tagGpsS);
     if (sel.eph === null) {
-      reasons.set(s.sat, { signal: c1, reason: sel.reason === 'too-old' ? `ephemeris too old (${Math.round((sel.ageS ?? 0) / 60)} min)` : sel.reason === 'unhealthy' ? 'unhealthy ephemeris' : 'no ephemeris' });
+      reasons.set(s.sat, { signal: c1 ?? '', reason: sel.reason === 'too-old' ? `ephemeris too old (${Math.round((sel.ageS ?? 0) / 60)} min)` : sel.reason === 'unhealthy' ? 'unhealthy ephemeris' : 'no ephemeris' });
       continue;
     }
-    const eph = sel.eph;
-    const k = system === 'R' ? glonassChannel(s.sat, ctx) : undefined;
-    const p1 = valueOf(s, c1);
+    if (c1 === null) { reasons.set(s.sat, { signal: '', reason: 'no pseudorange on the primary band' }); continue; }
     let c2: string | null = null;
     if (ctx.frequencyMode === 'auto') {
       for (const band of SECONDARY_BANDS[system]) { c2 = chooseCode(system, avail, band); if (c2) break; }
     }
-    const f1 = carrierFrequencyHz(system, c1, k);
-    let mode: StandaloneMode = 'single-frequency';
-    let codeM = p1;
-    let signalKind: SignalKind | undefined = clockSignal(system, c1[1]);
-    let extraBiasM = 0;
-    let noiseFactor = 1;
-    let signal = c1;
-    if (c2 !== null) {
-      const f2 = carrierFrequencyHz(system, c2, k);
-      const p2 = valueOf(s, c2);
-      if (Number.isFinite(f1) && Number.isFinite(f2) && Number.isFinite(p2)) {
-        const g1 = f1 * f1, g2 = f2 * f2;
-        codeM = (g1 * p1 - g2 * p2) / (g1 - g2);
-        noiseFactor = (g1 * g1 + g2 * g2) / ((g1 - g2) * (g1 - g2));
-        mode = 'ionosphere-free';
-        signal = `${c1}+${c2}`;
-        if (system === 'G' || system === 'J') signalKind = c1 === 'C1C' || c1 === 'C1W' ? 'L1L2-IF' : signalKind;
-        if (system === 'E') signalKind = c2[1] === '5' ? 'E1E5a-IF' : 'E1E5b-IF';
-        if (system === 'C' && eph.kind === 'kepler') {
-          // BeiDou clocks refer to B3I (BeiDou ICD 5.2.4.10): the B1I/B3I combination keeps g1/(g1-g2) * c * TGD1.
-          signalKind = 'B3I';
-          if (c2[1] === '6') extraBiasM = (g1 / (g1 - g2)) * SPEED_OF_LIGHT_MS * eph.tgdS;
-          else signalKind = 'B2I';
-        }
-        if (system === 'R') signalKind = 'G1';
+    if (system === 'E' && c2 !== null && sel.eph !== null && sel.eph.kind === 'kepler') {
+      // The Galileo clock is referred to E1/E5b (I/NAV) or E1/E5a (F/NAV) (OS SIS ICD 5.1.5): pair the
+      // second band with the record's message, taking the other message's record when only its band was tracked.
+      const want = galileoPair(sel.eph, avail);
+      if (want.clock !== null && (want.clock === 'FNAV') !== isGalileoFnav(sel.eph)) {
+        const other = ctx.store.select(s.sat, epoch.tagGpsS, { galileoClock: want.clock });
+        if (other.eph !== null && other.eph.kind === 'kepler' && (want.clock === 'FNAV') === isGalileoFnav(other.eph)) sel = other;
       }
+      c2 = sel.eph !== null && sel.eph.kind === 'kepler' ? chooseCode('E', avail, isGalileoFnav(sel.eph) ? '5' : '7') : null;
     }
-    const at = satelliteAtTransmission(eph, epoch.tagGpsS, codeM, null, signalKind);
-    prepared.push({
-      sat: s.sat, system, signal, mode, codeM: codeM - extraBiasM,
-      satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
-      frequencyHz: mode === 'single-frequency' ? f1 : NaN,
-      cn0DbHz: strengthDbHz(s, c1, header.version), noiseFactor,
-    });
-    if (!modeBySystem.has(system) || mode === 'single-frequency') modeBySystem.set(system, mode);
+    if (sel.eph === null) { reasons.set(s.sat, { signal: c1, reason: 'no ephemeris' }); continue; }
+    const eph = sel.eph;
+    const k = system === 'R' ? glonassChannel(s.sat, ctx) : undefined;
+    const single = (): PreparedSat => prepareSat(s, system, c1, null, eph, k, epoch.tagGpsS, header, ctx);
+    const dual = c2 !== null ? prepareSat(s, system, c1, c2, eph, k, epoch.tagGpsS, header, ctx) : null;
+    candidates.push({ dual: dual !== null && dual.mode === 'ionosphere-free' ? dual : null, single });
   }
+  // One mode per constellation and epoch: ionosphere-free when at least two of its satellites have both
+  // bands (a constellation clock then stays determined), the satellites lacking the second band being
+  // left out; else every satellite single-frequency. Mixing both in one clock would merge the receiver's
+  // ionosphere-free and single-band code biases, and a single-band row with the ionosphere model's
+  // error would outweigh the noisier combination (common practice: one observable per clock).
+  const dualCount = new Map<GnssSystem, number>();
+  for (const c of candidates) if (c.dual) dualCount.set(c.dual.system, (dualCount.get(c.dual.system) ?? 0) + 1);
+  for (const c of candidates) {
+    if (c.dual !== null && (dualCount.get(c.dual.system) ?? 0) >= 2) { prepared.push(c.dual); continue; }
+    const sf = c.single();
+    if ((dualCount.get(sf.system) ?? 0) >= 2) {
+      reasons.set(sf.sat, { signal: sf.signal, reason: 'no second-band pseudorange (its constellation is solved ionosphere-free)' });
+      continue;
+    }
+    prepared.push(sf);
+  }
+  for (const p of prepared) if (!modeBySystem.has(p.system) || p.mode === 'single-frequency') modeBySystem.set(p.system, p.mode);
   const doy = dayOfYear(epoch.tagGpsS);
   const geometry = new Map<SatId, { el: number; az: number; variance: number }>();
   const maskReasons = new Map<SatId, string>();
@@ -158,7 +224,7 @@ export function solveStandaloneEpoch(epoch: ObsEpoch, header: ObsHeader, ctx: St
         tropo = troposphereDelayM(g, el, doy);
         if (p.mode === 'single-frequency') iono = ionosphereDelayM(ctx.iono, p.system, g, el, az, epoch.tagGpsS, p.frequencyHz);
       }
-      const variance = elevationVarianceM2(el, ctx.weighting, p.cn0DbHz) * p.noiseFactor;
+      const variance = elevationVarianceM2(el, ctx.weighting, p.cn0DbHz) * p.noiseFactor + p.biasVarianceM2;
       geometry.set(p.sat, { el, az, variance });
       rows.push({
         sat: p.sat, system: p.system, losX: dx / range, losY: dy / range, losZ: dz / range,
