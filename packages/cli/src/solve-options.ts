@@ -71,7 +71,7 @@ export function withHeight(header: AntennaOffset, heightM: number | undefined): 
 /** Options without the reference coordinate and antenna overrides (those need the files' headers). */
 export function parseSessionOptions(a: SolveOptionArgs): Omit<SessionOptions, 'reference' | 'roverAntenna'> {
   const d = DEFAULT_OPTIONS;
-  const weights = parseChoice('weights', a.weights ?? 'elevation', ['elevation', 'elevation+strength'] as const);
+  const weights = parseChoice('weights', a.weights ?? (d.weighting.useStrength ? 'elevation+strength' : 'elevation'), ['elevation', 'elevation+strength'] as const);
   const smoothS = a.smooth === undefined ? 0 : parseNumber('smooth', a.smooth, 0, 3600);
   const systems = a.systems === undefined ? [...d.systems] : parseSystems(a.systems);
   const glonass = parseChoice<GlonassPolicy>('glonass', a.glonass ?? d.glonass, ['auto', 'exclude', 'include', 'estimate']);

@@ -17,3 +17,20 @@ export * from './compress/index.js';
 export * from './session/index.js';
 export * from './control/index.js';
 export * from './sim/index.js';
+// points/: the sim stage exports its own 'Occupation' type, so the points one is renamed here.
+export * from './points/robust-mean.js';
+export * from './points/time-correlation.js';
+export * from './points/antenna-height.js';
+export * from './points/occupation-csv.js';
+export * from './points/summarise-point.js';
+export {
+  splitOccupations, DEFAULT_STATIC_DETECTION,
+  type EpochMark, type SplitInput, type StaticDetection, type Occupation as PointOccupation,
+} from './points/occupations.js';
+export * from './accuracy/index.js';
+export * from './velocity/index.js';
+export * from './report/points-summary.js';
+export * from './report/points-table.js';
+export * from './report/points-csv.js';
+export * from './report/control-check.js';
+export * from './report/control-report.js';

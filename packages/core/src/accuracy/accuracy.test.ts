@@ -15,15 +15,17 @@ describe('NSSDA (FGDC-STD-007.3-1998 Part 3)', () => {
     // east:  0.01 + 0.04 + 0.09 + 0 + 0.01 = 0.15; / 5 = 0.03;  sqrt = 0.173205
     // north: 0.04 + 0.01 + 0.01 + 0.04 + 0.01 = 0.11; / 5 = 0.022; sqrt = 0.148324
     // RMSE_r = sqrt(0.03 + 0.022) = sqrt(0.052) = 0.228035
-    // ratio 0.148324 / 0.173205 = 0.8563 -> between 0.6 and 1.0, unequal: section 3.2.2 case 2,
-    // Accuracy_r = 2.4477 * 0.5 * (0.173205 + 0.148324) = 2.4477 * 0.160765 = 0.393503
+    // ratio 0.148324 / 0.173205 = 0.8563 -> between 0.6 and 1.0: section 3.2.2,
+    // Accuracy_r = 1.7308 * RMSE_r = 1.7308 * 0.228035 = 0.394683
+    // (appendix 3-A alternative, reported only: 2.4477 * 0.5 * (0.173205 + 0.148324) = 2.4477 * 0.160765 = 0.393503)
     // up: 0.09 + 0.09 + 0.04 + 0.01 + 0.16 = 0.39; / 5 = 0.078; sqrt = 0.279285; x 1.9600 = 0.547398
     expect(r.n).toBe(5);
     expect(r.rmseEastM).toBeCloseTo(0.173205, 6);
     expect(r.rmseNorthM).toBeCloseTo(0.148324, 6);
     expect(r.rmseHorizontalM).toBeCloseTo(0.228035, 6);
-    expect(r.method).toBe('approximation-2.4477');
-    expect(r.horizontal95M).toBeCloseTo(0.393503, 6);
+    expect(r.method).toBe('circular-1.7308');
+    expect(r.horizontal95M).toBeCloseTo(0.394683, 6);
+    expect(r.approximation2_4477M).toBeCloseTo(0.393503, 6);
     expect(r.rmseVerticalM).toBeCloseTo(0.279285, 6);
     expect(r.vertical95M).toBeCloseTo(0.547398, 6);
     // section 3.2.1: at least 20 check points
@@ -39,10 +41,12 @@ describe('NSSDA (FGDC-STD-007.3-1998 Part 3)', () => {
     expect(eq.horizontal95M).toBeCloseTo(1.7308 * Math.hypot(0.5, 0.5), 9);
     expect(eq.warnings).toEqual([]);
     expect(Number.isNaN(eq.vertical95M)).toBe(true);
-    // ratio exactly 0.6: still case 2
+    // ratio exactly 0.6: still inside the 0.6-1.0 range of the circular formula (section 3.2.2)
     const r06 = nssdaAccuracy(make(1.0, 0.6, 20));
-    expect(r06.method).toBe('approximation-2.4477');
-    expect(r06.horizontal95M).toBeCloseTo(2.4477 * 0.8, 9);
+    expect(r06.method).toBe('circular-1.7308');
+    expect(r06.horizontal95M).toBeCloseTo(1.7308 * Math.hypot(1.0, 0.6), 9);
+    expect(r06.approximation2_4477M).toBeCloseTo(2.4477 * 0.8, 9);
+    expect(r06.warnings).toEqual([]);
     // ratio 0.5: outside the approximation; exact radius, with a warning
     const r05 = nssdaAccuracy(make(1.0, 0.5, 20));
     expect(r05.method).toBe('bivariate-normal-exact');

@@ -3,14 +3,12 @@
  * Accuracy: FGDC-STD-007.3-1998, Part 3, section 3.2.2 and appendix 3-A.
  *
  * - RMSE_x (east), RMSE_y (north): sqrt(sum d^2 / n) (appendix 3-A); RMSE_r = sqrt(RMSE_x^2 + RMSE_y^2).
- * - Horizontal accuracy at 95 %:
- *   case 1, RMSE_x = RMSE_y: Accuracy_r = 2.4477 RMSE_x = 1.7308 RMSE_r (method 'circular-1.7308');
- *   case 2, RMSE_x != RMSE_y with RMSE_min / RMSE_max between 0.6 and 1.0: the circular standard error
- *   is approximated by 0.5 (RMSE_x + RMSE_y) (Greenwalt & Schultz 1968) and
- *   Accuracy_r ~ 2.4477 * 0.5 (RMSE_x + RMSE_y) (method 'approximation-2.4477').
- *   Below 0.6 the standard's approximation does not hold; we then compute the 95 % radius of the
- *   bivariate normal exactly (circular-error.ts; method 'bivariate-normal-exact', our choice) and warn.
- *   "Equal" means a ratio above 0.999 here (our choice: the two formulas then agree to < 0.01 %).
+ * - Horizontal accuracy at 95 % (section 3.2.2 and appendix 3-A):
+ *   when RMSE_min / RMSE_max is between 0.6 and 1.0: Accuracy_r = 1.7308 RMSE_r (method 'circular-1.7308');
+ *   otherwise the standard's circular approximation does not hold: we compute the exact 95 % radius of
+ *   the bivariate normal error (circular-error.ts; method 'bivariate-normal-exact', our choice) and warn.
+ *   The appendix's alternative for unequal components, 2.4477 * 0.5 (RMSE_x + RMSE_y) (Greenwalt &
+ *   Schultz 1968), is reported as an extra field (approximation2_4477M), not used for the result.
  * - Vertical: Accuracy_z = 1.9600 RMSE_z.
  * - The standard asks for at least 20 check points (section 3.2.1): fewer gives a warning.
  * Differences are (tested data - check point) in metres, east/north/up.
@@ -25,6 +23,7 @@ export interface CheckDifference {
   readonly dUpM?: number;
 }
 
+/** 'approximation-2.4477' is no longer returned (kept in the type for readers of older results). */
 export type HorizontalMethod = 'circular-1.7308' | 'approximation-2.4477' | 'bivariate-normal-exact';
 
 export interface NssdaResult {
@@ -35,6 +34,8 @@ export interface NssdaResult {
   /** NaN when no vertical differences were given. */
   readonly rmseVerticalM: number;
   readonly horizontal95M: number;
+  /** 2.4477 * 0.5 (RMSE_x + RMSE_y): appendix 3-A's approximation for unequal components, for information. */
+  readonly approximation2_4477M: number;
   readonly vertical95M: number;
   readonly method: HorizontalMethod;
   /** RMSE_min / RMSE_max. */
@@ -66,18 +67,15 @@ export function nssdaAccuracy(diffs: readonly CheckDifference[]): NssdaResult {
   const ratio = Math.max(rmseE, rmseN) > 0 ? Math.min(rmseE, rmseN) / Math.max(rmseE, rmseN) : 1;
   let method: HorizontalMethod;
   let h95: number;
-  if (ratio > 0.999) {
+  if (ratio >= 0.6) {
     method = 'circular-1.7308';
-    h95 = 1.7308 * rmseR; // section 3.2.2 case 1
-  } else if (ratio >= 0.6) {
-    method = 'approximation-2.4477';
-    h95 = 2.4477 * 0.5 * (rmseE + rmseN); // section 3.2.2 case 2 / appendix 3-A
+    h95 = 1.7308 * rmseR; // FGDC-STD-007.3-1998 section 3.2.2: Accuracy_r = 1.7308 RMSE_r
   } else {
     method = 'bivariate-normal-exact';
     h95 = circularErrorRadiusM(0.95, rmseE, rmseN);
     warnings.push({
       code: 'nssda-elongated-errors',
-      message: `RMSE_min/RMSE_max = ${ratio.toFixed(2)} is below 0.6: the NSSDA approximation does not apply; the 95 % radius is computed exactly for a bivariate normal error`,
+      message: `RMSE_min/RMSE_max = ${ratio.toFixed(2)} is below 0.6: the NSSDA circular formula (1.7308 RMSE_r) does not apply; the 95 % radius is computed exactly for a bivariate normal error (circular-error approach)`,
     });
   }
   if (n < NSSDA_MIN_CHECK_POINTS) {
@@ -93,6 +91,7 @@ export function nssdaAccuracy(diffs: readonly CheckDifference[]): NssdaResult {
     rmseHorizontalM: rmseR,
     rmseVerticalM: rmseZ,
     horizontal95M: h95,
+    approximation2_4477M: 2.4477 * 0.5 * (rmseE + rmseN), // appendix 3-A, Greenwalt & Schultz 1968
     vertical95M: 1.96 * rmseZ, // section 3.2.2: Accuracy_z = 1.9600 RMSE_z
     method,
     ratio,

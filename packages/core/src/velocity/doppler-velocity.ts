@@ -1,0 +1,184 @@
+/**
+ * Receiver velocity and clock drift from Doppler measurements by weighted least squares.
+ *
+ * Observation (RINEX 3.05 section 5.7 / RINEX 2.11 section 4: Doppler is positive for approaching
+ * satellites), so the observed pseudorange rate is  rhoDot_obs = -lambda D  (m/s).
+ * Model (Misra & Enge, "Global Positioning System", 2nd ed. 2011, section 6.2, eq. 6.20-6.22;
+ * Kaplan & Hegarty, "Understanding GPS/GNSS", 3rd ed. 2017, section 11.2.2 on velocity estimation):
+ *
+ *   rhoDot = e . (v_sat - v_rx) + c (dtDot_rx - dtDot_sat)
+ *
+ * with e the unit vector receiver -> satellite and v_sat the broadcast-orbit velocity at transmission in
+ * the ECEF frame of the receive time (orbit/transmit.ts). Linear in the unknowns: design row
+ * [-e_x, -e_y, -e_z, 1 (this satellite's system)], misclosure  y = -lambda D - e . v_sat + c dtDot_sat.
+ * One receiver clock drift (c dtDot_rx, m/s) per constellation: the receiver's inter-system biases drift
+ * too (common practice; costs one satellite per extra system).
+ *
+ * Weights: sigma^2 = a^2 + b^2 / sin^2(elevation) with a = b = 0.05 m/s (common practice form as for
+ * code, see check-values.md "Weighting"; the size of the range-rate noise, a few cm/s for a low-cost
+ * receiver, is from memory). Only relative weights change the estimate; the reported sigma uses the
+ * a-posteriori variance factor.
+ * Outliers: the satellite with the largest normalised residual |v_i| / (sigma0 sqrt(qvv_i)) above 4 is
+ * removed and the solution repeated, at most 3 times, while redundancy remains (data snooping in the
+ * spirit of Baarda 1968, with the a-posteriori factor: our simplification).
+ */
+import type { EcefM, EnuM, GnssSystem, SatId } from '../types.js';
+import { satSystem } from '../types.js';
+import type { ObsEpoch, SatObservations } from '../rinex/obs-types.js';
+import { carrierWavelengthM } from '../rinex/obs-codes.js';
+import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic } from '../geodesy/index.js';
+import { solveWeightedLeastSquaresSmall } from '../solve/index.js';
+import { primaryCodes } from '../differencing/code-selection.js';
+import { PRIMARY_BAND, clockSignal } from '../positioning/signals.js';
+
+export interface DopplerVelocityOptions {
+  readonly systems: readonly GnssSystem[];
+  readonly elevationMaskRad: number;
+  /** GLONASS slot -> frequency channel k (for the FDMA wavelength). */
+  readonly glonassChannels: ReadonlyMap<number, number>;
+}
+
+export interface DopplerVelocity {
+  /** Receiver velocity, east/north/up at the given position (m/s). */
+  readonly velocityEnuMS: EnuM;
+  readonly velocityEcefMS: EcefM;
+  /** Horizontal speed over ground sqrt(vE^2 + vN^2) (m/s). */
+  readonly speedMS: number;
+  /** Formal 1-sigma of the velocity components (a-posteriori variance factor applied; NaN without redundancy). */
+  readonly sigmaEnuMS: EnuM;
+  /** A-posteriori standard deviation of unit weight (dimensionless; NaN without redundancy). */
+  readonly sigma0: number;
+  /** Receiver clock drift times c (m/s) per constellation used. */
+  readonly clockDriftMS: Readonly<Partial<Record<GnssSystem, number>>>;
+  readonly satellitesUsed: number;
+  /** Satellites removed as outliers. */
+  readonly rejected: readonly SatId[];
+}
+
+const A_MS = 0.05;
+const B_MS = 0.05;
+const MIN_ELEVATION_FOR_WEIGHT_RAD = (5 * Math.PI) / 180;
+const OUTLIER_LIMIT = 4;
+const MAX_REJECTIONS = 3;
+
+interface Row {
+  readonly sat: SatId;
+  readonly system: GnssSystem;
+  readonly e: EcefM;
+  readonly yMS: number;
+  readonly varianceM2S2: number;
+}
+
+/** The Doppler (Hz) on the primary band: the one paired with the preferred pseudorange code, else any. */
+function primaryDoppler(system: GnssSystem, s: SatObservations): { code: string; hz: number } | null {
+  const tryCode = (d: string) => {
+    const i = s.codes.indexOf(d);
+    return i >= 0 && Number.isFinite(s.values[i]) ? { code: d, hz: s.values[i] } : null;
+  };
+  for (const c of primaryCodes(system, s)) {
+    const r = tryCode('D' + c.slice(1));
+    if (r) return r;
+  }
+  const band = PRIMARY_BAND[system];
+  for (const c of s.codes) if (c[0] === 'D' && c[1] === band) {
+    const r = tryCode(c);
+    if (r) return r;
+  }
+  return null;
+}
+
+function pseudorangeFor(s: SatObservations, dopplerCode: string): number | null {
+  const i = s.codes.indexOf('C' + dopplerCode.slice(1));
+  const v = i >= 0 ? s.values[i] : NaN;
+  return v > 1e6 && v < 1e9 ? v : null;
+}
+
+export function dopplerVelocity(epoch: ObsEpoch, positionM: EcefM, store: EphemerisStore, opts: DopplerVelocityOptions): DopplerVelocity | null {
+  const g = ecefToGeodetic(positionM);
+  const rows: Row[] = [];
+  for (const s of epoch.sats) {
+    const system = satSystem(s.sat);
+    if (!opts.systems.includes(system)) continue;
+    const d = primaryDoppler(system, s);
+    if (!d || d.hz === 0) continue;
+    const k = system === 'R' ? opts.glonassChannels.get(Number(s.sat.slice(1))) : undefined;
+    const lambdaM = carrierWavelengthM(system, d.code, k);
+    if (!Number.isFinite(lambdaM)) continue;
+    const sel = store.select(s.sat, epoch.tagGpsS);
+    if (sel.eph === null) continue;
+    const at = satelliteAtTransmission(sel.eph, epoch.tagGpsS, pseudorangeFor(s, d.code), positionM, clockSignal(system, d.code[1]));
+    const ae = azimuthElevation(positionM, at.posM, g.latRad, g.lonRad);
+    if (ae.elevationRad < opts.elevationMaskRad) continue;
+    const dx = at.posM.x - positionM.x, dy = at.posM.y - positionM.y, dz = at.posM.z - positionM.z;
+    const r = Math.sqrt(dx * dx + dy * dy + dz * dz);
+    const e = { x: dx / r, y: dy / r, z: dz / r };
+    // y = -lambda D - e . v_sat + c dtDot_sat (Misra & Enge 2011, eq. 6.21 rearranged)
+    const yMS = -lambdaM * d.hz - (e.x * at.velMS.x + e.y * at.velMS.y + e.z * at.velMS.z) + SPEED_OF_LIGHT_MS * at.clock.driftSS;
+    if (!Number.isFinite(yMS)) continue;
+    const sinEl = Math.sin(Math.max(ae.elevationRad, MIN_ELEVATION_FOR_WEIGHT_RAD));
+    rows.push({ sat: s.sat, system, e, yMS, varianceM2S2: A_MS * A_MS + (B_MS * B_MS) / (sinEl * sinEl) });
+  }
+  const rejected: SatId[] = [];
+  let active = rows;
+  for (;;) {
+    const systems = [...new Set(active.map((r) => r.system))];
+    const n = 3 + systems.length;
+    const m = active.length;
+    if (m < n) return null;
+    const design = new Float64Array(m * n);
+    const y = new Float64Array(m);
+    const variances = new Float64Array(m);
+    active.forEach((row, i) => {
+      design[i * n] = -row.e.x;
+      design[i * n + 1] = -row.e.y;
+      design[i * n + 2] = -row.e.z;
+      design[i * n + 3 + systems.indexOf(row.system)] = 1;
+      y[i] = row.yMS;
+      variances[i] = row.varianceM2S2;
+    });
+    const sol = solveWeightedLeastSquaresSmall(design, m, n, y, variances);
+    if (!sol.ok) return null;
+    const sigma0 = sol.dof > 0 ? Math.sqrt(sol.sigma0Sq) : NaN;
+    if (sol.dof > 1 && rejected.length < MAX_REJECTIONS) {
+      let worst = -1, worstW = OUTLIER_LIMIT;
+      for (let i = 0; i < m; i++) {
+        const w = Math.abs(sol.residuals[i]) / (sigma0 * Math.sqrt(Math.max(sol.qvvDiag[i], 1e-30)));
+        if (w > worstW) { worstW = w; worst = i; }
+      }
+      if (worst >= 0 && m - 1 >= n) {
+        rejected.push(active[worst].sat);
+        active = active.filter((_, i) => i !== worst);
+        continue;
+      }
+    }
+    const v: EcefM = { x: sol.x[0], y: sol.x[1], z: sol.x[2] };
+    const enu = ecefDeltaToEnu(v, g.latRad, g.lonRad);
+    // Covariance rotated to ENU: C_enu = R C_xyz R^T, R the ECEF->ENU rotation (any geodesy text, e.g.
+    // Misra & Enge 2011, eq. 6.29); variance factor sigma0^2 applied.
+    const q = sol.qxx;
+    const f = Number.isFinite(sigma0) ? sigma0 * sigma0 : NaN;
+    const rot = [
+      ecefDeltaToEnu({ x: 1, y: 0, z: 0 }, g.latRad, g.lonRad),
+      ecefDeltaToEnu({ x: 0, y: 1, z: 0 }, g.latRad, g.lonRad),
+      ecefDeltaToEnu({ x: 0, y: 0, z: 1 }, g.latRad, g.lonRad),
+    ];
+    const comp = (pick: (u: EnuM) => number): number => {
+      let s = 0;
+      for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) s += pick(rot[a]) * q[a * n + b] * pick(rot[b]);
+      return Math.sqrt(Math.max(s, 0) * f);
+    };
+    const clockDriftMS: Partial<Record<GnssSystem, number>> = {};
+    systems.forEach((s, i) => { clockDriftMS[s] = sol.x[3 + i]; });
+    return {
+      velocityEnuMS: enu,
+      velocityEcefMS: v,
+      speedMS: Math.hypot(enu.e, enu.n),
+      sigmaEnuMS: { e: comp((u) => u.e), n: comp((u) => u.n), u: comp((u) => u.u) },
+      sigma0,
+      clockDriftMS,
+      satellitesUsed: m,
+      rejected,
+    };
+  }
+}

@@ -1,0 +1,2 @@
+/** Velocity stage: receiver velocity and clock drift from Doppler measurements. */
+export * from './doppler-velocity.js';

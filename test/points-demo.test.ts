@@ -1,0 +1,91 @@
+/**
+ * `refdelta points` on the simulated demo scenario (fixtures/demo, README): the rover file marks each
+ * walk with an event flag 2 and each point with a flag 3 carrying MARKER NAME and the pole height, so the
+ * occupations come from the events; with --windows they come from the windows file. Checked against the
+ * simulator's truth (points.csv: true marks; occupations.csv: true occupation times). Simulated data:
+ * this checks self-consistency of the simulator and the engine, not the real world.
+ */
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { fixturePath } from './support/shared.js';
+import { enuAt, parseCsv, requireBuiltCli, runCli, tempDir, type CliRun } from './cli-support.js';
+
+const DEMO = (f: string) => fixturePath(`demo/${f}`);
+const HAVE = existsSync(DEMO('rover-1s.obs'));
+if (!HAVE) console.warn('[skip] points on the demo: fixtures/demo/ not generated yet (node scripts/make-demo.mjs)');
+const RUN = ['--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'), '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--outputs', 'summary'];
+const NAMES = ['MILLSTONE', 'FERRYPOST', 'ELMCORNER', 'WELLHEAD'];
+
+function truthMarks(): Map<string, { x: number; y: number; z: number; h: number }> {
+  const rows = parseCsv(readFileSync(DEMO('points.csv'), 'utf8')).rows.filter((r) => r.role === 'rover');
+  return new Map(rows.map((r) => [r.name, { x: Number(r.x_m), y: Number(r.y_m), z: Number(r.z_m), h: Number(r.antenna_height_m) }]));
+}
+
+/** Truth occupation windows: GPS time (README: "times GPS (GPST)"). */
+function truthWindows(): { name: string; startText: string; endText: string; h: string }[] {
+  return parseCsv(readFileSync(DEMO('occupations.csv'), 'utf8')).rows.map((r) => ({ name: r.name, startText: r.start, endText: r.end, h: r.antenna_height_m }));
+}
+
+function gpsTowOf(iso: string): number {
+  // 2024-05-14 is a Tuesday: day 2 of GPS week 2314 (README: session in GPS week 2314)
+  const [, hh, mm, ss] = /T(\d\d):(\d\d):(\d\d(?:\.\d+)?)/.exec(iso)!.map(Number);
+  return 2 * 86400 + hh * 3600 + mm * 60 + ss;
+}
+
+function horizontalErrors(pointsCsv: string): Map<string, { h: number; u: number }> {
+  const truth = truthMarks();
+  const out = new Map<string, { h: number; u: number }>();
+  for (const p of parseCsv(pointsCsv).rows) {
+    const t = truth.get(p.name)!;
+    const lat = (Number(p.latitude_deg) * Math.PI) / 180, lon = (Number(p.longitude_deg) * Math.PI) / 180;
+    const [e, n, u] = enuAt([Number(p.ecef_x_m) - t.x, Number(p.ecef_y_m) - t.y, Number(p.ecef_z_m) - t.z], lat, lon);
+    out.set(p.name, { h: Math.hypot(e, n), u });
+  }
+  return out;
+}
+
+describe.skipIf(!HAVE)('refdelta points on the demo scenario', () => {
+  let out = '';
+  let run: CliRun;
+  beforeAll(() => {
+    requireBuiltCli();
+    out = tempDir('rd-points-demo-');
+    run = runCli(['points', ...RUN, '--out', out]);
+  });
+
+  it('splits the occupations on the event flags (3 new point with MARKER NAME, 2 start moving)', () => {
+    expect(run.status, run.stderr).toBe(0);
+    const rows = parseCsv(readFileSync(join(out, 'points.csv'), 'utf8')).rows;
+    expect(rows.map((r) => [r.name, r.source])).toEqual(NAMES.map((n) => [n, 'events']));
+    const truth = truthWindows();
+    for (const [i, r] of rows.entries()) {
+      // the event epochs bracket the simulator's true occupation (within 2 s: 1 s epochs, tags a few ms off)
+      expect(Math.abs(Number(r.start_gps_tow_s) - gpsTowOf(truth[i].startText))).toBeLessThan(2);
+      expect(Math.abs(Number(r.end_gps_tow_s) - gpsTowOf(truth[i].endText))).toBeLessThan(2);
+    }
+  });
+
+  it('each point within 1 m horizontally and 1.5 m vertically of its true mark (antenna heights from the events)', () => {
+    const errs = horizontalErrors(readFileSync(join(out, 'points.csv'), 'utf8'));
+    // eslint-disable-next-line no-console
+    console.log('demo points (events) vs truth:', [...errs].map(([n, e]) => `${n} h ${e.h.toFixed(3)} u ${e.u.toFixed(3)}`).join('; '));
+    expect(errs.size).toBe(4);
+    // check-values.md "Accuracy facts": code differential about 1 m (1 sigma), averaged over minutes
+    for (const e of errs.values()) { expect(e.h).toBeLessThan(1.0); expect(Math.abs(e.u)).toBeLessThan(1.5); }
+  });
+
+  it('--windows takes precedence; the windows file\'s antenna heights reduce to the same marks', () => {
+    const o2 = tempDir('rd-points-demo-win-');
+    const win = join(o2, 'windows.csv');
+    // occupations.csv times are GPS time (its header says so): marked GPST for our windows format
+    writeFileSync(win, 'name,start,end,antenna_height_m\n' + truthWindows().map((w) => `${w.name},${w.startText} GPST,${w.endText} GPST,${w.h}`).join('\n') + '\n');
+    const r = runCli(['points', ...RUN, '--windows', win, '--out', o2]);
+    expect(r.status, r.stderr).toBe(0);
+    const text = readFileSync(join(o2, 'points.csv'), 'utf8');
+    const rows = parseCsv(text).rows;
+    expect(rows.map((x) => [x.name, x.source])).toEqual(NAMES.map((n) => [n, 'windows']));
+    for (const [i, x] of rows.entries()) expect(x.antenna_height_m).toBe(Number(truthWindows()[i].h).toFixed(4));
+    for (const e of horizontalErrors(text).values()) { expect(e.h).toBeLessThan(1.0); expect(Math.abs(e.u)).toBeLessThan(1.5); }
+  });
+});
