@@ -5,7 +5,7 @@
  * simulator's truth (points.csv: true marks; occupations.csv: true occupation times). Simulated data:
  * this checks self-consistency of the simulator and the engine, not the real world.
  */
-import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { fixturePath } from './support/shared.js';
@@ -77,10 +77,8 @@ describe.skipIf(!HAVE)('refdelta points on the demo scenario', () => {
 
   it('--windows takes precedence; the windows file\'s antenna heights reduce to the same marks', () => {
     const o2 = tempDir('rd-points-demo-win-');
-    const win = join(o2, 'windows.csv');
-    // occupations.csv times are GPS time (its header says so): marked GPST for our windows format
-    writeFileSync(win, 'name,start,end,antenna_height_m\n' + truthWindows().map((w) => `${w.name},${w.startText} GPST,${w.endText} GPST,${w.h}`).join('\n') + '\n');
-    const r = runCli(['points', ...RUN, '--windows', win, '--out', o2]);
+    // The bundled occupations.csv is in our windows format (GPS times marked GPST).
+    const r = runCli(['points', ...RUN, '--windows', DEMO('occupations.csv'), '--out', o2]);
     expect(r.status, r.stderr).toBe(0);
     const text = readFileSync(join(o2, 'points.csv'), 'utf8');
     const rows = parseCsv(text).rows;

@@ -67,45 +67,13 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
       'solve',
       'position the rover epoch by epoch against the reference receiver(s)',
       (c) => {
-        c.option('rover', { type: 'string', demandOption: true, describe: 'rover observation file (RINEX 2/3/4, compact RINEX, .gz/.Z)', group: 'Files:' })
-          .option('reference', { type: 'string', array: true, demandOption: true, describe: 'reference observation file(s), one station, consecutive in time', group: 'Files:' })
-          .option('nav', { type: 'string', array: true, demandOption: true, describe: 'broadcast navigation file(s)', group: 'Files:' })
-          .option('out', { type: 'string', demandOption: true, describe: 'output folder (created; files replaced atomically)', group: 'Files:' })
-          .option('outputs', { type: 'string', default: 'epochs,residuals,geojson,summary', describe: 'which outputs to write', group: 'Files:' })
-          .option('ref-xyz', { type: 'string', describe: 'reference mark ECEF X,Y,Z (m)', group: 'Reference coordinate:' })
-          .option('ref-llh', { type: 'string', describe: 'reference mark LAT,LON (deg), H (m, ellipsoidal)', group: 'Reference coordinate:' })
-          .option('ref-from-header', { type: 'boolean', describe: "use the reference file's APPROX POSITION XYZ (approximate; warns)", group: 'Reference coordinate:' })
-          .option('ref-mark', { type: 'string', describe: 'named mark from a control list (with --marks)', group: 'Reference coordinate:' })
-          .option('marks', { type: 'string', describe: 'control list CSV holding --ref-mark', group: 'Reference coordinate:' })
-          .option('ref-frame', { type: 'string', describe: "frame of the coordinate, e.g. ITRF2014, ETRF2000, WGS84 (required with --ref-xyz/--ref-llh; header: 'unstated')", group: 'Reference coordinate:' })
-          .option('ref-epoch', { type: 'string', describe: 'epoch of the coordinate, decimal year, e.g. 2018.76 (required with --ref-xyz/--ref-llh; header: observation epoch)', group: 'Reference coordinate:' })
-          .option('rover-antenna-height', { type: 'string', describe: 'rover antenna height above the mark (m); default: the file header', group: 'Antennas:' })
-          .option('ref-antenna-height', { type: 'string', describe: 'reference antenna height above the mark (m); default: the file header', group: 'Antennas:' })
-          .option('height-kind', { type: 'string', default: 'vertical', describe: 'vertical | slant (measured heights)', group: 'Antennas:' })
-          .option('antenna-radius', { type: 'string', describe: 'antenna radius to the slant measuring point (m), for --height-kind slant', group: 'Antennas:' })
-          .option('at-antenna', { type: 'boolean', default: false, describe: 'report the antenna reference point instead of the ground mark', group: 'Antennas:' })
-          .option('elevation-mask', { type: 'string', describe: 'elevation mask (deg), default 10', group: 'Processing:' })
-          .option('weights', { type: 'string', describe: 'elevation | elevation+strength (default: elevation+strength)', group: 'Processing:' })
-          .option('sigma-a', { type: 'string', describe: 'weighting constant a (m) in sigma^2 = a^2 + b^2/sin^2(el), default 0.25', group: 'Processing:' })
-          .option('sigma-b', { type: 'string', describe: 'weighting constant b (m), default 0.5', group: 'Processing:' })
-          .option('smooth', { type: 'string', default: '0', describe: 'carrier smoothing time constant (s); 0 = off', group: 'Processing:' })
-          .option('systems', { type: 'string', default: 'G,R,E,C,J', describe: 'systems to use (letters)', group: 'Processing:' })
-          .option('glonass', { type: 'string', default: 'auto', describe: 'auto | exclude | include | estimate', group: 'Processing:' })
-          .option('max-age', { type: 'string', describe: 'largest correction age (s), default 65', group: 'Processing:' })
-          .option('fallback-standalone', { type: 'boolean', default: false, describe: 'give a standalone position when no differential one is possible', group: 'Processing:' });
+        defineSolveOptions(c);
         for (const [cmd, what] of SOLVE_EXAMPLES) c.example(cmd, what);
         return c;
       },
       async (args) => {
         const a = args as unknown as Record<string, unknown>;
-        const solveArgs: SolveArgs = {
-          rover: String(a.rover), reference: (a.reference as string[]) ?? [], nav: (a.nav as string[]) ?? [], out: String(a.out),
-          outputs: a.outputs, refXyz: a.refXyz, refLlh: a.refLlh, refFromHeader: a.refFromHeader, refMark: a.refMark, marks: a.marks,
-          refFrame: a.refFrame, refEpoch: a.refEpoch, roverAntennaHeight: a.roverAntennaHeight, refAntennaHeight: a.refAntennaHeight,
-          heightKind: a.heightKind, antennaRadius: a.antennaRadius, atAntenna: a.atAntenna, elevationMask: a.elevationMask,
-          weights: a.weights, sigmaA: a.sigmaA, sigmaB: a.sigmaB, smooth: a.smooth, systems: a.systems, glonass: a.glonass,
-          maxAge: a.maxAge, fallbackStandalone: a.fallbackStandalone, quiet: a.quiet === true, jsonLines: a.jsonLines === true,
-        };
+        const solveArgs: SolveArgs = solveArgsFrom(a);
         rep = new Reporter({ quiet: solveArgs.quiet ?? false, jsonLines: solveArgs.jsonLines ?? false });
         exitCode = (await runSolve(solveArgs, rep)).exitCode;
       },

@@ -1,8 +1,7 @@
 /**
  * The command-line options of a differential run (files, reference coordinate, antennas, processing),
  * shared by `solve` and `points` so both take the same inputs, and the mapping of yargs' parsed values to
- * SolveArgs. Copied from the solve builder in main.ts; main.ts's solve block can call defineSolveOptions(c)
- * and solveArgsFrom(a) instead of its inline copy (kept in sync until then).
+ * SolveArgs.
  */
 import type { Argv } from 'yargs';
 import type { SolveArgs } from './commands/solve.js';
@@ -26,9 +25,9 @@ export function defineSolveOptions<T>(c: Argv<T>): Argv<T> {
     .option('antenna-radius', { type: 'string', describe: 'antenna radius to the slant measuring point (m), for --height-kind slant', group: 'Antennas:' })
     .option('at-antenna', { type: 'boolean', default: false, describe: 'report the antenna reference point instead of the ground mark', group: 'Antennas:' })
     .option('elevation-mask', { type: 'string', describe: 'elevation mask (deg), default 10', group: 'Processing:' })
-    .option('weights', { type: 'string', default: 'elevation', describe: 'elevation | elevation+strength', group: 'Processing:' })
-    .option('sigma-a', { type: 'string', describe: 'weighting constant a (m) in sigma^2 = a^2 + b^2/sin^2(el), default 0.3', group: 'Processing:' })
-    .option('sigma-b', { type: 'string', describe: 'weighting constant b (m), default 0.3', group: 'Processing:' })
+    .option('weights', { type: 'string', describe: 'elevation | elevation+strength (default: elevation+strength)', group: 'Processing:' })
+    .option('sigma-a', { type: 'string', describe: 'weighting constant a (m) in sigma^2 = a^2 + b^2/sin^2(el), default 0.25', group: 'Processing:' })
+    .option('sigma-b', { type: 'string', describe: 'weighting constant b (m), default 0.5', group: 'Processing:' })
     .option('smooth', { type: 'string', default: '0', describe: 'carrier smoothing time constant (s); 0 = off', group: 'Processing:' })
     .option('systems', { type: 'string', default: 'G,R,E,C,J', describe: 'systems to use (letters)', group: 'Processing:' })
     .option('glonass', { type: 'string', default: 'auto', describe: 'auto | exclude | include | estimate', group: 'Processing:' })

@@ -9,15 +9,14 @@ import { readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
 import {
-  DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE, EphemerisStore,
-  dopplerVelocity, loadEgm96, makeProjection, parseGeoidGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
+  DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE,
+  loadEgm96, makeProjection, parseGeoidGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
   pointsPreamble, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EcefM, type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type PointEpoch,
   type PointReference, type Projection,
 } from '@refdelta/core';
-import { openNav, openObs, requireFile, writeFileAtomic } from '../node-io.js';
+import { openObs, requireFile, writeFileAtomic } from '../node-io.js';
 import { parseNumber } from '../parse-values.js';
-import { parseSessionOptions } from '../solve-options.js';
 import { Reporter } from '../reporter.js';
 import { EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
 import { UsageError } from '../usage-error.js';
@@ -37,7 +36,6 @@ interface Collected {
   readonly epochs: PointEpoch[];
   readonly marks: EpochMark[];
   /** tag -> position of epochs with a position (for the Doppler pass). */
-  readonly positions: Map<number, EcefM>;
   frame: FrameEpoch | null;
   pointReference: PointReference;
 }
@@ -45,7 +43,6 @@ interface Collected {
 function collect(c: Collected, s: EpochSolution): void {
   if (s.position && s.kind !== 'none') {
     c.epochs.push({ tagGpsS: s.tagGpsS, ecef: s.position.ecef, kind: s.kind, pdop: s.dops?.pdop ?? NaN, antennaHeightM: s.antennaHeightM });
-    c.positions.set(s.tagGpsS, s.position.ecef);
     if (!c.frame && s.kind !== 'standalone') c.frame = s.position.frame;
   }
   c.pointReference = s.pointReference;
@@ -54,29 +51,6 @@ function collect(c: Collected, s: EpochSolution): void {
     ...(s.occupationEvent ? { event: { kind: s.occupationEvent, ...(s.occupationEvent === 'new-occupation' ? { markerName: s.pointName } : {}) } } : {}),
     speedMS: s.speedMS,
   });
-}
-
-/**
- * Doppler speeds from the rover file when the session gave none (EpochSolution.speedMS NaN): each epoch
- * with a solved position gets velocity/doppler-velocity.ts at that position.
- */
-async function dopplerSpeeds(a: SolveArgs, c: Collected, rep: Reporter): Promise<Map<number, number>> {
-  const base = parseSessionOptions(a);
-  const { nav } = await openNav(a.nav, () => {});
-  const store = new EphemerisStore(nav);
-  const rover = await openObs(a.rover, () => {});
-  const channels = new Map<number, number>([...store.glonassChannels(), ...rover.header.glonassChannels]);
-  const out = new Map<number, number>();
-  const opts = { systems: base.systems, elevationMaskRad: (base.elevationMaskDeg * Math.PI) / 180, glonassChannels: channels };
-  for await (const e of rover.epochs) {
-    if (e.flag > 1 || e.sats.length === 0) continue;
-    const p = c.positions.get(e.tagGpsS);
-    if (!p) continue;
-    const v = dopplerVelocity(e, p, store, opts);
-    if (v) out.set(e.tagGpsS, v.speedMS);
-  }
-  rep.info(`Doppler speed computed for ${out.size} of ${c.positions.size} solved epochs (static detection: below ${DEFAULT_STATIC_DETECTION.enterBelowMS} m/s starts, above ${DEFAULT_STATIC_DETECTION.leaveAboveMS} m/s ends a point)`);
-  return out;
 }
 
 async function loadGeoid(spec: string): Promise<GeoidModel> {
@@ -106,17 +80,17 @@ export async function runPoints(a: PointsArgs, rep: Reporter): Promise<number> {
   }
 
   // 2. The solve run, with its per-epoch outputs.
-  const c: Collected = { epochs: [], marks: [], positions: new Map(), frame: null, pointReference: a.atAntenna === true ? 'antenna-reference-point' : 'ground-mark' };
+  const c: Collected = { epochs: [], marks: [], frame: null, pointReference: a.atAntenna === true ? 'antenna-reference-point' : 'ground-mark' };
   const solved = await runSolve(a, rep, { command: 'points', onEpoch: (s) => collect(c, s) });
   if (solved.exitCode !== EXIT_OK) return solved.exitCode;
 
   // 3. Occupations.
   const roverHeader = (await openObs(a.rover, () => {})).header;
-  let marks = c.marks;
+  const marks = c.marks;
   const hasEvents = marks.some((m) => m.event);
-  if (!windows && !hasEvents && !marks.some((m) => Number.isFinite(m.speedMS))) {
-    const speeds = await dopplerSpeeds(a, c, rep);
-    marks = marks.map((m) => ({ ...m, speedMS: speeds.get(m.tGpsS) ?? NaN }));
+  if (!windows && !hasEvents) {
+    const withSpeed = marks.filter((m) => Number.isFinite(m.speedMS)).length;
+    rep.info(`static detection on the Doppler speed of ${withSpeed} of ${marks.length} epochs (a point starts below ${DEFAULT_STATIC_DETECTION.enterBelowMS} m/s and ends above ${DEFAULT_STATIC_DETECTION.leaveAboveMS} m/s)`);
   }
   const occupations = splitOccupations({ epochs: marks, ...(windows ? { windows } : {}), initialMarkerName: roverHeader.markerName }, { onWarning: rep.warn });
   if (occupations.length === 0) {

@@ -25,6 +25,7 @@ import { EphemerisStore, issueKey, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
 import { satelliteForTag } from '../positioning/satellite-for-tag.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
 import { clockSignal } from '../positioning/signals.js';
+import { signalStrengthDbHz } from '../positioning/signal-strength.js';
 import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
 import { primaryCodes, pseudorangeOf } from './code-selection.js';
 
@@ -72,11 +73,6 @@ export interface ReferenceContext {
   readonly glonassChannels: ReadonlyMap<number, number>;
 }
 
-function strengthOf(s: ObsEpoch['sats'][number], code: string): number {
-  const i = s.codes.indexOf('S' + code.slice(1));
-  if (i >= 0 && Number.isFinite(s.values[i]) && s.values[i] > 0) return s.values[i];
-  return NaN;
-}
 
 function median(v: number[]): number {
   if (v.length === 0) return NaN;
@@ -120,7 +116,7 @@ export class ReferenceCorrections {
       }
       if (codes.size === 0) continue;
       const first = codes.keys().next().value as string;
-      sats.set(s.sat, { codes, cn0DbHz: cn0Override?.get(s.sat) ?? strengthOf(s, first) });
+      sats.set(s.sat, { codes, cn0DbHz: cn0Override?.get(s.sat) ?? signalStrengthDbHz(s, first) });
       const sel = this.ctx.store.select(s.sat, epoch.tagGpsS);
       if (sel.eph === null) continue;
       const m = this.model(sel.eph, s.sat, system, first, codes.get(first)!, epoch.tagGpsS, 0, arpM, geodetic, doy);

@@ -50,6 +50,32 @@ export function parseFixed(line: string, start: number, end: number): number {
   return neg ? -v : v;
 }
 
+/**
+ * An observation field F14.3 at columns [c, c+14) (RINEX 3.05 table A3, RINEX 2.11 table A2): the
+ * usual layout, digits right-aligned with the point in the 11th column, is read here in one pass;
+ * anything else (blank, other layout, short line) goes to parseFixed, which gives the same value.
+ * mant / 1000 with both exact is the correctly rounded value of the decimal text, as parseFloat gives.
+ */
+export function parseF14p3(line: string, c: number): number {
+  const point = c + 10;
+  if (line.length < c + 14 || line.charCodeAt(point) !== 46) return parseFixed(line, c, c + 14);
+  let i = c;
+  let ch = line.charCodeAt(i);
+  while (ch === 32 && i < point) ch = line.charCodeAt(++i);
+  let neg = false;
+  if (ch === 45) { neg = true; ch = line.charCodeAt(++i); }
+  let mant = 0;
+  for (; i < point; ch = line.charCodeAt(++i)) {
+    const d = ch - 48;
+    if (d < 0 || d > 9) return parseFixed(line, c, c + 14);
+    mant = mant * 10 + d;
+  }
+  const d1 = line.charCodeAt(point + 1) - 48, d2 = line.charCodeAt(point + 2) - 48, d3 = line.charCodeAt(point + 3) - 48;
+  if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || d3 < 0 || d3 > 9) return parseFixed(line, c, c + 14);
+  const v = (mant * 1000 + (d1 * 100 + d2 * 10 + d3)) / 1000;
+  return neg ? -v : v;
+}
+
 function parseSlow(line: string, start: number, end: number): number {
   const s = line.slice(start, end).trim().replace(/[dD]/, 'E');
   if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) { fieldState.bad = true; return NaN; }

@@ -20,11 +20,13 @@ import { decimalYearFromGpsS } from '../time/index.js';
 import { elevationVarianceM2, type ElevationWeightParams } from '../solve/index.js';
 import { solvePositionFix, type LinearRow } from '../positioning/position-fix.js';
 import { clockSignal } from '../positioning/signals.js';
+import { signalStrengthDbHz } from '../positioning/signal-strength.js';
 import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
 import { ReferenceCorrections } from '../differencing/reference-corrections.js';
 import { GlonassChannelOffsets } from '../differencing/glonass-channel-offsets.js';
 import { matchCode, primaryCodes, pseudorangeOf } from '../differencing/code-selection.js';
 import { solveStandaloneEpoch, type StandaloneContext } from '../standalone/index.js';
+import { dopplerVelocity } from '../velocity/index.js';
 import { joinReferenceStreams } from './join-references.js';
 import { ReceiverSmoother } from './smoothing-stage.js';
 import type { SessionOptions } from './options.js';
@@ -86,10 +88,6 @@ function median(v: number[]): number {
   return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
 }
 
-function strengthOf(s: ObsEpoch['sats'][number], code: string): number {
-  const i = s.codes.indexOf('S' + code.slice(1));
-  return i >= 0 && Number.isFinite(s.values[i]) && s.values[i] > 0 ? s.values[i] : NaN;
-}
 
 export async function solveSession(inputs: SessionInputs, options: SessionOptions): Promise<SessionRun> {
   const warn: WarningSink = inputs.onWarning ?? (() => undefined);
@@ -213,6 +211,12 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   const frameOfResult: FrameEpoch = frame;
   const broadcastFrame = (t: number): FrameEpoch => ({ name: 'WGS84 (broadcast orbits)', epochYear: Math.round(decimalYearFromGpsS(t) * 100) / 100 });
 
+  /** Horizontal speed from the epoch's Doppler observations at the solved position (NaN without Doppler). */
+  function speedAt(e: ObsEpoch, at: EcefM): number {
+    const v = dopplerVelocity(e, at, store, { systems, elevationMaskRad: maskRad, glonassChannels });
+    return v ? v.speedMS : NaN;
+  }
+
   function none(e: ObsEpoch, reason: string, satellites: SatelliteResidual[], ageS = NaN): EpochSolution {
     return {
       tagGpsS: e.tagGpsS, timeGpsS: e.tagGpsS - (Number.isFinite(lastClockM) ? lastClockM / SPEED_OF_LIGHT_MS : 0),
@@ -242,7 +246,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       dops: r.fix.dops, sigmaEnuM: r.fix.sigmaEnuM,
       quality: { varianceFactor: r.fix.varianceFactor, chiSquare: r.fix.test.statistic, dof: r.fix.test.dof, critical: r.fix.test.critical, passed: r.fix.test.dof > 0 ? r.fix.test.passed : null },
       correctionAgeS: ageS, satellites: r.satellites,
-      speedMS: NaN, occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
+      speedMS: speedAt(e, arp), occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
     };
   }
 
@@ -290,7 +294,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       const k = system === 'R' ? glonassChannels.get(Number(s.sat.slice(1))) : undefined;
       prepared.push({
         sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
-        frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: strengthOf(s, code), channel: k,
+        frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: signalStrengthDbHz(s, code), channel: k,
         correctionM: NaN, ageS: NaN, elevationRefRad: NaN, cn0RefDbHz: NaN,
       });
     }
@@ -397,7 +401,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       dops: fix.dops, sigmaEnuM: fix.sigmaEnuM,
       quality: { varianceFactor: fix.varianceFactor, chiSquare: fix.test.statistic, dof: fix.test.dof, critical: fix.test.critical, passed: fix.test.dof > 0 ? fix.test.passed : null },
       correctionAgeS: maxAge, satellites,
-      speedMS: NaN, occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
+      speedMS: speedAt(e, arp), occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
     };
   }
 

@@ -148,7 +148,7 @@ export function renderDemoFiles(sim: SimulatedScenario = simulateScenario(demoSc
       chunks: () => lines([
         ...head('Rover static occupations (GPS time, ISO 8601) and antenna heights.'),
         'name,start,end,antenna_height_m',
-        ...t.points.map((o) => `${o.name},${isoFromSeconds(o.startGpsS)},${isoFromSeconds(o.endGpsS)},${f4(o.antennaHeightM)}`),
+        ...t.points.map((o) => `${o.name},${isoFromSeconds(o.startGpsS, ' GPST')},${isoFromSeconds(o.endGpsS, ' GPST')},${f4(o.antennaHeightM)}`),
       ]),
     },
   ];

@@ -13,7 +13,8 @@ import { satSystem } from '../types.js';
 import type { ObsEpoch, ObsHeader, SatObservations } from '../rinex/obs-types.js';
 import type { Ephemeris, IonosphereCoefficients, KeplerEphemeris } from '../rinex/nav-types.js';
 import { chooseCode, carrierFrequencyHz } from '../rinex/obs-codes.js';
-import { EphemerisStore, isGalileoFnav, satelliteAtTransmission, SPEED_OF_LIGHT_MS, type SignalKind } from '../orbit/index.js';
+import { EphemerisStore, isGalileoFnav, SPEED_OF_LIGHT_MS, type SignalKind } from '../orbit/index.js';
+import { satelliteForTag } from '../positioning/satellite-for-tag.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
 import { elevationVarianceM2, strengthToDbHz, type ElevationWeightParams } from '../solve/index.js';
 import { solvePositionFix, DEFAULT_FIX_OPTIONS, type FixOptions, type LinearRow, type PositionFix, type FixFailure } from '../positioning/position-fix.js';
@@ -107,7 +108,7 @@ function galileoPair(eph: KeplerEphemeris, avail: readonly string[]): { clock: '
  */
 function prepareSat(
   s: SatObservations, system: GnssSystem, c1: string, c2: string | null, eph: Ephemeris, k: number | undefined,
-  tagGpsS: number, header: ObsHeader, ctx: StandaloneContext,
+  tagGpsS: number, header: ObsHeader, ctx: StandaloneContext, receiverClockM: number,
 ): PreparedSat {
   const p1 = valueOf(s, c1);
   const f1 = carrierFrequencyHz(system, c1, k);
@@ -138,7 +139,7 @@ function prepareSat(
       if (system === 'R') signalKind = 'G1';
     }
   }
-  const at = satelliteAtTransmission(eph, tagGpsS, codeM, null, signalKind);
+  const at = satelliteForTag(eph, tagGpsS, codeM, receiverClockM, null, signalKind);
   return {
     sat: s.sat, system, signal, mode, codeM: codeM - extraBiasM,
     satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
@@ -149,8 +150,21 @@ function prepareSat(
   };
 }
 
-/** Solves one epoch standalone. `x0`: a starting position (previous fix or header), else the Earth's centre. */
-export function solveStandaloneEpoch(epoch: ObsEpoch, header: ObsHeader, ctx: StandaloneContext, x0: EcefM | null): StandaloneEpochResult {
+/**
+ * Solves one epoch standalone. `x0`: a starting position (previous fix or header), else the Earth's centre.
+ * Satellite positions need the receiver clock for the Earth rotation during the flight
+ * (positioning/satellite-for-tag.ts): a first solve assumes `clockHintM` (default 0); when the clock found
+ * differs by more than 30 m (0.1 us), the epoch is solved again with it.
+ */
+export function solveStandaloneEpoch(epoch: ObsEpoch, header: ObsHeader, ctx: StandaloneContext, x0: EcefM | null, clockHintM = 0): StandaloneEpochResult {
+  const first = solveWithClock(epoch, header, ctx, x0, clockHintM);
+  if (!first.fix.ok) return first;
+  const clockM = first.fix.clocksM.values().next().value ?? clockHintM;
+  if (Math.abs(clockM - clockHintM) <= 30) return first;
+  return solveWithClock(epoch, header, ctx, first.fix.positionM, clockM);
+}
+
+function solveWithClock(epoch: ObsEpoch, header: ObsHeader, ctx: StandaloneContext, x0: EcefM | null, receiverClockM: number): StandaloneEpochResult {
   const reasons = new Map<SatId, { signal: string; reason: string }>();
   const prepared: PreparedSat[] = [];
   const candidates: { dual: PreparedSat | null; single: () => PreparedSat }[] = [];
@@ -183,8 +197,8 @@ export function solveStandaloneEpoch(epoch: ObsEpoch, header: ObsHeader, ctx: St
     if (sel.eph === null) { reasons.set(s.sat, { signal: c1, reason: 'no ephemeris' }); continue; }
     const eph = sel.eph;
     const k = system === 'R' ? glonassChannel(s.sat, ctx) : undefined;
-    const single = (): PreparedSat => prepareSat(s, system, c1, null, eph, k, epoch.tagGpsS, header, ctx);
-    const dual = c2 !== null ? prepareSat(s, system, c1, c2, eph, k, epoch.tagGpsS, header, ctx) : null;
+    const single = (): PreparedSat => prepareSat(s, system, c1, null, eph, k, epoch.tagGpsS, header, ctx, receiverClockM);
+    const dual = c2 !== null ? prepareSat(s, system, c1, c2, eph, k, epoch.tagGpsS, header, ctx, receiverClockM) : null;
     candidates.push({ dual: dual !== null && dual.mode === 'ionosphere-free' ? dual : null, single });
   }
   // One mode per constellation and epoch: ionosphere-free when at least two of its satellites have both
