@@ -1,5 +1,5 @@
 /**
- * Every failure of `refdelta` ends with a documented exit code (1 processing, 2 usage; USAGE.md) and ONE
+ * Every failure of `refdelta` ends with a documented exit code (1 processing, 2 usage; README.md) and ONE
  * sentence on stderr, no stack trace unless --debug. Inputs are real files from ../shared.
  */
 import { beforeAll, describe, expect, it } from 'vitest';

@@ -26,7 +26,7 @@ const FILES = {
   marks: join(DEMO, 'control-marks.csv'),
 };
 
-/** The arguments the demo runs with (also shown in USAGE.md). */
+/** The arguments the demo runs with (also shown in README.md). */
 export function demoArgs(outDir: string) {
   return {
     rover: FILES.rover, reference: [FILES.reference], nav: [FILES.nav], out: outDir,

@@ -1,5 +1,5 @@
 /**
- * Exit codes of the refdelta command (documented in USAGE.md). Later commands may add codes from 3 up
+ * Exit codes of the refdelta command (documented in README.md). Later commands may add codes from 3 up
  * (e.g. a control check that fails).
  */
 export const EXIT_OK = 0;

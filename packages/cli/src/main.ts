@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 /**
  * refdelta: differential GNSS pseudorange post-processing from RINEX files.
- * Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line (see USAGE.md).
+ * Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line (see README.md).
  */
 import yargs from 'yargs';
 import { hideBin } from 'yargs/helpers';
@@ -132,7 +132,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
     .version(SOFTWARE.version)
     .help()
     .alias('h', 'help')
-    .epilog('Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line. See packages/cli/USAGE.md.')
+    .epilog('Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line. Exit code 3: a control mark failed (check). See README.md.')
     .wrap(Math.min(110, process.stdout.columns || 100))
     .fail((msg, err) => {
       if (err) throw err;

@@ -10,6 +10,8 @@
 export class LineCursor {
   private buf = '';
   private pos = 0;
+  /** Start of a line that the previous chunks did not finish. */
+  private carry = '';
   private ended = false;
   private readonly it: AsyncIterator<string>;
   /** 1-based number of the line most recently returned by take() (0 before the first). */
@@ -33,18 +35,23 @@ export class LineCursor {
     const nl = buf.indexOf('\n', this.pos);
     if (nl < 0) {
       if (!this.ended) return undefined;
-      if (this.pos >= buf.length) return null;
-      let line = buf.slice(this.pos);
+      if (this.pos >= buf.length && this.carry === '') return null;
+      const line = this.carry + buf.slice(this.pos);
+      this.carry = '';
       this.pos = buf.length;
-      if (line.charCodeAt(line.length - 1) === 13) line = line.slice(0, -1);
       this.lineNumber++;
-      return line;
+      return line.charCodeAt(line.length - 1) === 13 ? line.slice(0, -1) : line;
     }
-    const end = nl > this.pos && buf.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
-    const line = buf.slice(this.pos, end);
+    const pos = this.pos;
     this.pos = nl + 1;
     this.lineNumber++;
-    return line;
+    if (this.carry !== '') {
+      // a line split across chunks (rare): joined once
+      const line = this.carry + buf.slice(pos, nl);
+      this.carry = '';
+      return line.charCodeAt(line.length - 1) === 13 ? line.slice(0, -1) : line;
+    }
+    return buf.slice(pos, nl > pos && buf.charCodeAt(nl - 1) === 13 ? nl - 1 : nl);
   }
 
   /** Puts the line just taken back, so the next take() returns it again (one line deep). */
@@ -62,7 +69,17 @@ export class LineCursor {
       return false;
     }
     const chunk = typeof r.value === 'string' ? r.value : String(r.value);
-    this.buf = this.pos < this.buf.length ? this.buf.slice(this.pos) + chunk : chunk;
+    // The unfinished line is kept aside rather than prepended: a concatenated buffer would be a
+    // cons string, slower to search and slice than the chunk itself (common practice for V8).
+    const rest = this.pos < this.buf.length ? this.buf.slice(this.pos) : '';
+    if (rest.indexOf('\n') >= 0) {
+      // fill() called while whole lines were still buffered: keep them in order
+      this.buf = this.carry + rest + chunk;
+      this.carry = '';
+    } else {
+      this.carry += rest;
+      this.buf = chunk;
+    }
     this.pos = 0;
     return true;
   }
@@ -80,6 +97,7 @@ export class LineCursor {
   async close(): Promise<void> {
     this.ended = true;
     this.buf = '';
+    this.carry = '';
     this.pos = 0;
     if (this.it.return) await this.it.return();
   }
