@@ -36,15 +36,33 @@ export function autocorrelation(x: ArrayLike<number>, maxLag: number): Float64Ar
   return rho;
 }
 
-/** Integrated autocorrelation time tau and n_eff = n / tau (Geyer 1992 initial positive sequence). */
+/**
+ * Integrated autocorrelation time tau and n_eff = n / tau (Geyer 1992 initial positive sequence). The
+ * autocorrelation is computed lag by lag only until the sequence stops, so the cost is n times the
+ * correlation length, not n^2 (a day of 1 s epochs stays cheap).
+ */
 export function effectiveSampleSize(x: ArrayLike<number>): { nEff: number; tau: number } {
   const n = x.length;
   if (n < 4) return { nEff: n, tau: 1 };
-  const rho = autocorrelation(x, n - 1);
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += x[i]!;
+  mean /= n;
+  const d = new Float64Array(n);
+  let c0 = 0;
+  for (let i = 0; i < n; i++) {
+    d[i] = x[i]! - mean;
+    c0 += d[i]! * d[i]!;
+  }
+  if (c0 === 0) return { nEff: n, tau: 1 };
+  const rhoAt = (k: number): number => {
+    let c = 0;
+    for (let i = 0; i + k < n; i++) c += d[i]! * d[i + k]!;
+    return c / c0;
+  };
   // Geyer (1992) 3.3: tau = -1 + 2 sum_m Gamma_m, Gamma_m = rho_2m + rho_2m+1 while Gamma_m > 0.
   let sum = 0;
-  for (let m = 0; 2 * m + 1 < rho.length; m++) {
-    const g = rho[2 * m]! + rho[2 * m + 1]!;
+  for (let m = 0; 2 * m + 1 <= n - 1; m++) {
+    const g = (m === 0 ? 1 : rhoAt(2 * m)) + rhoAt(2 * m + 1);
     if (!(g > 0)) break;
     sum += g;
   }
