@@ -13,7 +13,8 @@
  *   sd(batch means) / sqrt(b); e.g. Geyer 1992 section 3.2).
  * The series is taken as equally spaced (epoch gaps are ignored: documented simplification).
  */
-export function autocorrelation(x: ArrayLike<number>, maxLag: number): Float64Array {
+/** Deviations from the mean and their sum of squares (n c_0). */
+function centred(x: ArrayLike<number>): { d: Float64Array; c0: number } {
   const n = x.length;
   let mean = 0;
   for (let i = 0; i < n; i++) mean += x[i]!;
@@ -24,6 +25,12 @@ export function autocorrelation(x: ArrayLike<number>, maxLag: number): Float64Ar
     d[i] = x[i]! - mean;
     c0 += d[i]! * d[i]!;
   }
+  return { d, c0 };
+}
+
+export function autocorrelation(x: ArrayLike<number>, maxLag: number): Float64Array {
+  const n = x.length;
+  const { d, c0 } = centred(x);
   const L = Math.min(maxLag, n - 1);
   const rho = new Float64Array(L + 1);
   rho[0] = 1;
@@ -44,15 +51,7 @@ export function autocorrelation(x: ArrayLike<number>, maxLag: number): Float64Ar
 export function effectiveSampleSize(x: ArrayLike<number>): { nEff: number; tau: number } {
   const n = x.length;
   if (n < 4) return { nEff: n, tau: 1 };
-  let mean = 0;
-  for (let i = 0; i < n; i++) mean += x[i]!;
-  mean /= n;
-  const d = new Float64Array(n);
-  let c0 = 0;
-  for (let i = 0; i < n; i++) {
-    d[i] = x[i]! - mean;
-    c0 += d[i]! * d[i]!;
-  }
+  const { d, c0 } = centred(x);
   if (c0 === 0) return { nEff: n, tau: 1 };
   const rhoAt = (k: number): number => {
     let c = 0;
