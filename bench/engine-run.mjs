@@ -1,0 +1,75 @@
+// Part 2 worker, run in a fresh child process by bench/run.mjs (child_process.fork), one job per process:
+//   node bench/engine-run.mjs throughput <hours>   text generated in memory first, then read + solve timed
+//   node bench/engine-run.mjs memory <hours>       generation streamed into read + solve; peak memory sampled
+// The result is sent to the parent (process.send) or printed as one JSON line when run by hand.
+import v8 from 'node:v8';
+import { loadCore } from './load-core.mjs';
+import { asAsync, benchScenarioSpec, memoryChunks, scenarioTexts, SESSION_SYSTEMS } from './scenario.mjs';
+import { captureProblem, benchSolveStep } from './solve-step.mjs';
+import { median } from './stats.mjs';
+
+const [mode = 'throughput', hoursArg = '1'] = process.argv.slice(2);
+const hours = Number(hoursArg);
+const core = await loadCore();
+const sim = core.simulateScenario(benchScenarioSpec(core, Math.round(hours * 3600)));
+const texts = scenarioTexts(core, sim);
+const options = core.withDefaults({ systems: SESSION_SYSTEMS });
+
+/** read (nav, reference, rover) + solveSession over the whole stream; `onEpoch` sees each solution. */
+async function session(rover, reference, nav, onEpoch) {
+  const navData = await core.readNav('bench.nav', nav);
+  const roverStream = await core.readObsStream('bench-rover.obs', rover);
+  const refStream = await core.readObsStream('bench-reference.obs', reference);
+  const run = await core.solveSession({ rover: roverStream, references: [refStream], nav: navData }, options);
+  let epochs = 0;
+  const kinds = {};
+  for await (const e of run.epochs) {
+    epochs++;
+    kinds[e.kind] = (kinds[e.kind] ?? 0) + 1;
+    onEpoch?.(e, epochs);
+  }
+  return { epochs, kinds };
+}
+
+async function throughput() {
+  const t0 = performance.now();
+  const text = { rover: [...texts.rover()].join(''), reference: [...texts.reference()].join(''), nav: [...texts.nav()].join('') };
+  const generateMs = performance.now() - t0;
+  const fromMemory = (onEpoch) => session(memoryChunks(text.rover), memoryChunks(text.reference), memoryChunks(text.nav), onEpoch);
+  const problems = [];
+  const first = await fromMemory((e) => { const p = captureProblem(core, e); if (p) problems.push(p); }); // warm-up + capture
+  const runsMs = [];
+  for (let i = 0; i < 3; i++) {
+    globalThis.gc?.();
+    const t = performance.now();
+    await fromMemory();
+    runsMs.push(performance.now() - t);
+  }
+  const solve = await benchSolveStep(core, problems);
+  return {
+    mode, hours, generateMs, textMB: (text.rover.length + text.reference.length + text.nav.length) / 1e6,
+    epochs: first.epochs, kinds: first.kinds, runsMs, epochsPerS: first.epochs / median(runsMs) * 1000, solve,
+  };
+}
+
+async function memory() {
+  let peakRss = 0, peakHeap = 0, samples = 0;
+  const sample = () => {
+    samples++;
+    const rss = process.memoryUsage.rss();
+    const heap = v8.getHeapStatistics().used_heap_size;
+    if (rss > peakRss) peakRss = rss;
+    if (heap > peakHeap) peakHeap = heap;
+  };
+  sample();
+  const t = performance.now();
+  const r = await session(asAsync(texts.rover()), asAsync(texts.reference()), asAsync(texts.nav()), (_, n) => { if (n % 100 === 0) sample(); });
+  const wallMs = performance.now() - t;
+  sample();
+  // resourceUsage().maxRSS is the kernel's high-water mark (KiB): catches peaks between samples.
+  return { mode, hours, epochs: r.epochs, kinds: r.kinds, wallMs, samples, peakRssMB: peakRss / 2 ** 20, kernelMaxRssMB: process.resourceUsage().maxRSS / 1024, peakHeapMB: peakHeap / 2 ** 20 };
+}
+
+const result = mode === 'memory' ? await memory() : await throughput();
+if (process.send) process.send(result);
+else console.log(JSON.stringify(result));

@@ -1,0 +1,88 @@
+// Part 1: observation-reader throughput on real day files held in memory as plain RINEX text,
+// against a bare line scan of the same text, plus the compact-RINEX decode throughput.
+import { readFileSync, existsSync } from 'node:fs';
+import { gunzipSync } from 'node:zlib';
+import { resolve } from 'node:path';
+import { memoryChunks } from './scenario.mjs';
+import { repeat } from './stats.mjs';
+
+/** Bare scan A: String.prototype.split into lines, count them. */
+function splitScan(text) {
+  return text.split('\n').length;
+}
+
+/** Lines handed out by scan B land here, so the engine cannot skip making them. */
+let lastLine = '';
+
+/**
+ * Bare scan B: indexOf loop handing out each line as a string (what a line reader must at least do).
+ * Each line is stored where the caller can see it and its first character is read: with only
+ * slice(...).length, V8 folds the slice away and the loop measures indexOf alone.
+ */
+function indexOfScan(text) {
+  let pos = 0, n = 0, first = 0;
+  for (;;) {
+    const nl = text.indexOf('\n', pos);
+    if (nl < 0) break;
+    lastLine = text.slice(pos, nl);
+    first += lastLine.charCodeAt(0) | 0;
+    n++;
+    pos = nl + 1;
+  }
+  return n + (first & 1);
+}
+
+async function parseAll(core, text) {
+  const st = await core.readObsStream('bench', memoryChunks(text));
+  let sats = 0, values = 0;
+  for await (const e of st.epochs) {
+    sats += e.sats.length;
+    for (const s of e.sats) values += s.values.length;
+  }
+  return { sats, values };
+}
+
+async function parseCase(core, name, text, decode) {
+  const mb = text.length / 1e6; // RINEX is ASCII: one character = one byte
+  const counts = await parseAll(core, text);
+  const parse = await repeat(() => parseAll(core, text), { minRuns: 5, minTotalMs: 3000 });
+  const split = await repeat(() => splitScan(text), { minRuns: 10, minTotalMs: 1000 });
+  const scan = await repeat(() => indexOfScan(text), { minRuns: 10, minTotalMs: 1000 });
+  const splitMBs = mb / split.medianMs * 1000, scanMBs = mb / scan.medianMs * 1000;
+  const bare = splitMBs >= scanMBs ? { how: "text.split('\\n').length", mbs: splitMBs } : { how: 'indexOf loop + slice per line', mbs: scanMBs };
+  const parserMBs = mb / parse.medianMs * 1000;
+  return {
+    name, mb, lines: splitScan(text), sats: counts.sats, values: counts.values,
+    parserMBs, parserBestMBs: mb / Math.min(...parse.times) * 1000, parseRuns: parse.times.length, splitMBs, scanMBs, bare, ratio: parserMBs / bare.mbs,
+    ...(decode ? { decode } : {}),
+  };
+}
+
+async function decodeCrx(core, file, bytes) {
+  let text = '';
+  const run = async () => {
+    const parts = [];
+    const opened = await core.openText(file, (async function* () { yield bytes; })());
+    for await (const c of opened.text) parts.push(c);
+    text = parts.join('');
+  };
+  const r = await repeat(run, { minRuns: 3, minTotalMs: 0, maxRuns: 3 });
+  return { text, decodeMBs: text.length / 1e6 / r.medianMs * 1000, decodeRuns: r.times.length };
+}
+
+/** Returns one result per day file found (a file that is absent is reported as skipped). */
+export async function benchParse(core, dataDir) {
+  const out = [];
+  const dgar = resolve(dataDir, 'single-station/dgar0100.24o.gz');
+  if (existsSync(dgar)) {
+    const text = new TextDecoder('latin1').decode(gunzipSync(readFileSync(dgar)));
+    out.push(await parseCase(core, 'DGAR dgar0100.24o (RINEX 2.11)', text, null));
+  } else out.push({ name: 'DGAR', skipped: `${dgar} not found` });
+  const bele = resolve(dataDir, 'single-station/BELE00BRA_R_20240100000_01D_30S_MO.crx.gz');
+  if (existsSync(bele)) {
+    const crx = new Uint8Array(gunzipSync(readFileSync(bele)));
+    const d = await decodeCrx(core, 'BELE00BRA_R_20240100000_01D_30S_MO.crx', crx);
+    out.push(await parseCase(core, 'BELE ...01D_30S_MO.crx (RINEX 3.05, after CRX decode)', d.text, { crxMB: crx.length / 1e6, decodeMBs: d.decodeMBs, runs: d.decodeRuns }));
+  } else out.push({ name: 'BELE', skipped: `${bele} not found` });
+  return out;
+}

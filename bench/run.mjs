@@ -1,0 +1,88 @@
+// `npm run bench`: throughput and memory figures of the built engine (packages/core/dist), with targets.
+//   Part 1: observation-reader MB/s on real day files (DGAR RINEX 2.11, BELE RINEX 3.05 after compact-RINEX
+//           decode) against a bare line scan of the same text, and the compact-RINEX decode MB/s.
+//   Part 2: engine on a simulated session (rover 1 Hz, reference 30 s, GPS + Galileo): end-to-end epochs/s,
+//           the solve step alone, the two WLS implementations, and peak memory for 1 h and 24 h, each job
+//           in a fresh child process (bench/engine-run.mjs).
+// A script, not a test. Options: --part1 / --part2 (only one part), --hours-long N (default 24).
+import { fork } from 'node:child_process';
+import { resolve } from 'node:path';
+import os from 'node:os';
+import { loadCore, ROOT } from './load-core.mjs';
+import { benchParse } from './parse-throughput.mjs';
+import { fmt, printTable } from './stats.mjs';
+
+const args = process.argv.slice(2);
+const only = args.includes('--part1') ? 1 : args.includes('--part2') ? 2 : 0;
+const longIdx = args.indexOf('--hours-long');
+const longHours = longIdx >= 0 ? Number(args[longIdx + 1]) : 24;
+const dataDir = resolve(ROOT, '..', 'shared', 'data');
+const verdicts = [];
+const verdict = (what, value, target, pass) => verdicts.push([what, value, target, pass === null ? 'n/a' : pass ? 'PASS' : 'FAIL']);
+const t0 = performance.now();
+
+console.log(`refdelta bench: node ${process.version}, ${os.cpus().length} cores (${os.cpus()[0]?.model ?? '?'}), load average ${os.loadavg().map((l) => l.toFixed(1)).join(' ')}`);
+console.log('Figures are medians of repeated runs after one warm-up; other processes on the machine slow them down.\n');
+
+if (only !== 2) {
+  console.log('== Part 1: observation reader throughput (plain RINEX text held in memory, 64 KiB string chunks) ==');
+  const core = await loadCore();
+  const results = await benchParse(core, dataDir);
+  const rows = [['file', 'MB', 'lines', 'parser MB/s', 'best run MB/s', 'split MB/s', 'indexOf MB/s', 'bare scan used', 'parser/bare']];
+  for (const r of results) {
+    if (r.skipped) { console.log(`${r.name}: skipped (${r.skipped})`); continue; }
+    rows.push([r.name, fmt(r.mb, 1), fmt(r.lines), fmt(r.parserMBs, 1), fmt(r.parserBestMBs, 1), fmt(r.splitMBs), fmt(r.scanMBs), r.bare.how, `${fmt(100 * r.ratio, 1)} %`]);
+    verdict(`parser / bare scan, ${r.name.split(' ')[0]}`, `${fmt(100 * r.ratio, 1)} %`, '>= 25 %', r.ratio >= 0.25);
+  }
+  printTable(rows, [0, 7]);
+  for (const r of results) {
+    if (r.decode) console.log(`compact RINEX decode (openText on the gunzipped .crx, ${fmt(r.decode.crxMB, 1)} MB in -> ${fmt(r.mb, 1)} MB out): ${fmt(r.decode.decodeMBs, 1)} MB/s of plain output (median of ${r.decode.runs})`);
+  }
+  console.log('bare scan: the faster of split and an indexOf loop that makes every line a string (each is measured).\n');
+}
+
+/** Runs one engine job in a fresh process and returns what it sends back. */
+function job(mode, hours) {
+  return new Promise((resolveJob, reject) => {
+    const child = fork(resolve(ROOT, 'bench/engine-run.mjs'), [mode, String(hours)], { execArgv: ['--expose-gc'], stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
+    let result = null;
+    child.on('message', (m) => { result = m; });
+    child.on('error', reject);
+    child.on('exit', (code) => (result !== null ? resolveJob(result) : reject(new Error(`engine-run ${mode} ${hours} h exited with code ${code} and no result`))));
+  });
+}
+
+if (only !== 1) {
+  console.log('== Part 2: engine on a simulated session (rover 1 Hz, reference 30 s, GPS + Galileo, all error sources on) ==');
+  const tp = await job('throughput', 1);
+  const s = tp.solve;
+  printTable([
+    ['measure', 'rate', 'how'],
+    ['end to end', `${fmt(tp.epochsPerS)} epochs/s`, `read nav + reference + rover text from memory, solveSession, ${fmt(tp.epochs)} rover epochs (1 h), median of ${tp.runsMs.length}`],
+    ['solve step (iterated WLS + QC)', `${fmt(s.fixEpochsPerS)} epochs/s`, `solvePositionFix on ${fmt(s.epochs)} captured epochs (${fmt(s.meanSats, 1)} sats, ${fmt(s.meanIterations, 1)} iterations avg)`],
+    ['QC loop, hand-written WLS', `${fmt(s.qcSmallEpochsPerS)} epochs/s`, 'qualityControlLoop, one linear problem per captured epoch'],
+    ['QC loop, ml-matrix WLS', `${fmt(s.qcMlEpochsPerS)} epochs/s`, 'same problems, solver = solveWeightedLeastSquares'],
+    ['WLS hand-written (solve/wls.ts)', `${fmt(s.wlsSmallPerS)} solves/s`, `${fmt(s.randomProblems)} random problems, m 6-20 (median ${s.randomMeanM}), n 4-5`],
+    ['WLS ml-matrix', `${fmt(s.wlsMlPerS)} solves/s`, `same problems; largest difference in x ${s.wlsMaxDiffM.toExponential(1)} m`],
+  ], [0, 2]);
+  console.log(`replay check: ${fmt(100 * s.replayAgreement, 1)} % of captured epochs give the engine's satellites and position (largest difference ${s.replayMaxDiffM.toExponential(1)} m); ${s.snoopedEpochs} epochs had a satellite rejected by data snooping`);
+  console.log(`solutions: ${JSON.stringify(tp.kinds)}; simulation + writing of the ${fmt(tp.textMB, 1)} MB of text took ${fmt(tp.generateMs / 1000, 1)} s (not timed)`);
+  console.log(`hand-written WLS is ${fmt(s.wlsSmallPerS / s.wlsMlPerS, 1)}x the ml-matrix rate on the same problems\n`);
+  verdict('end to end', `${fmt(tp.epochsPerS)} epochs/s`, '>= 5,000 epochs/s', tp.epochsPerS >= 5000);
+  verdict('solve step', `${fmt(s.fixEpochsPerS)} epochs/s`, '>= 50,000 epochs/s', s.fixEpochsPerS >= 50000);
+
+  const short = await job('memory', 1);
+  const long = await job('memory', longHours);
+  printTable([
+    ['session (streamed: simulate -> write -> read -> solve)', 'epochs', 'wall s', 'peak RSS MB', 'kernel max RSS MB', 'peak heap MB'],
+    ...[short, long].map((m) => [`${m.hours} h`, fmt(m.epochs), fmt(m.wallMs / 1000, 1), fmt(m.peakRssMB, 1), fmt(m.kernelMaxRssMB, 1), fmt(m.peakHeapMB, 1)]),
+  ]);
+  console.log('heap = V8 used heap, sampled every 100 epochs; RSS sampled likewise and the kernel high-water mark (resourceUsage().maxRSS).\n');
+  const rssRatio = long.kernelMaxRssMB / short.kernelMaxRssMB, heapRatio = long.peakHeapMB / short.peakHeapMB;
+  verdict(`peak RSS ${longHours} h / 1 h`, `${fmt(rssRatio, 2)}x`, '<= 1.5x', rssRatio <= 1.5);
+  verdict(`peak heap ${longHours} h / 1 h`, `${fmt(heapRatio, 2)}x`, '<= 1.5x', heapRatio <= 1.5);
+}
+
+console.log('== Targets ==');
+printTable([['measure', 'value', 'target', 'result'], ...verdicts]);
+console.log(`\nbench took ${fmt((performance.now() - t0) / 1000, 0)} s`);
