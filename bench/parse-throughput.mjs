@@ -42,6 +42,22 @@ async function parseAll(core, text) {
   return { sats, values };
 }
 
+/** Bare scan from bytes: decode the plain RINEX bytes (latin1) and split into lines, count them. */
+function bytesScan(bytes) {
+  return new TextDecoder('latin1').decode(bytes).split('\n').length;
+}
+
+/** The reader as the command line uses it on a plain file: bytes -> openText (64 KiB text chunks) -> readObsStream. */
+async function parseBytes(core, bytes) {
+  const opened = await core.openText('bench.obs', (async function* () {
+    for (let i = 0; i < bytes.length; i += 1 << 16) yield bytes.subarray(i, Math.min(bytes.length, i + (1 << 16)));
+  })());
+  const st = await core.readObsStream('bench.obs', opened.text);
+  let sats = 0;
+  for await (const e of st.epochs) sats += e.sats.length;
+  return sats;
+}
+
 async function parseCase(core, name, text, decode) {
   const mb = text.length / 1e6; // RINEX is ASCII: one character = one byte
   const counts = await parseAll(core, text);
@@ -51,7 +67,14 @@ async function parseCase(core, name, text, decode) {
   const splitMBs = mb / split.medianMs * 1000, scanMBs = mb / scan.medianMs * 1000;
   const bare = splitMBs >= scanMBs ? { how: "text.split('\\n').length", mbs: splitMBs } : { how: 'indexOf loop + slice per line', mbs: scanMBs };
   const parserMBs = mb / parse.medianMs * 1000;
+  // The same comparison starting from the file's bytes (what a bare scan of 'the same bytes' does):
+  // both sides then pay the byte -> string decoding.
+  const bytes = new Uint8Array(Buffer.from(text, 'latin1'));
+  const pb = await repeat(() => parseBytes(core, bytes), { minRuns: 5, minTotalMs: 3000 });
+  const sb = await repeat(() => bytesScan(bytes), { minRuns: 10, minTotalMs: 1000 });
+  const fromBytes = { parserMBs: mb / pb.medianMs * 1000, bareMBs: mb / sb.medianMs * 1000 };
   return {
+    fromBytes: { ...fromBytes, ratio: fromBytes.parserMBs / fromBytes.bareMBs },
     name, mb, lines: splitScan(text), sats: counts.sats, values: counts.values,
     parserMBs, parserBestMBs: mb / Math.min(...parse.times) * 1000, parseRuns: parse.times.length, splitMBs, scanMBs, bare, ratio: parserMBs / bare.mbs,
     ...(decode ? { decode } : {}),
