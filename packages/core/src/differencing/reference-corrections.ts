@@ -85,6 +85,7 @@ export class ReferenceCorrections {
   private readonly epochs: ReferenceEpoch[] = [];
   /** Epochs dropped because no clock could be estimated (no satellite with an ephemeris). */
   unusableEpochs = 0;
+  private lastClockM = NaN;
 
   constructor(private readonly ctx: ReferenceContext) {}
 
@@ -103,8 +104,12 @@ export class ReferenceCorrections {
   addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>, cn0Override?: ReadonlyMap<SatId, number>): boolean {
     const geodetic = ecefToGeodetic(arpM);
     const sats = new Map<SatId, ReferenceSatellite>();
-    const clockSamples: number[] = [];
     const doy = dayOfYear(epoch.tagGpsS);
+    // The receiver clock enters the Earth-rotation term (positioning/satellite-for-tag.ts): model with the
+    // previous epoch's clock, and again with the new one when it moved by more than 30 m (a step).
+    const guessM = Number.isFinite(this.lastClockM) ? this.lastClockM : 0;
+    const modelled: Array<{ sat: SatId; code: string; eph: Ephemeris; m: { residualM: number; elevationRad: number } }> = [];
+    const firsts: Array<{ sat: SatId; system: GnssSystem; code: string; p: number; eph: Ephemeris }> = [];
     for (const s of epoch.sats) {
       const system = satSystem(s.sat);
       if (!this.ctx.systems.includes(system)) continue;
@@ -119,18 +124,33 @@ export class ReferenceCorrections {
       sats.set(s.sat, { codes, cn0DbHz: cn0Override?.get(s.sat) ?? signalStrengthDbHz(s, first) });
       const sel = this.ctx.store.select(s.sat, epoch.tagGpsS);
       if (sel.eph === null) continue;
-      const m = this.model(sel.eph, s.sat, system, first, codes.get(first)!, epoch.tagGpsS, 0, arpM, geodetic, doy);
-      if (m !== null && m.elevationRad > 0.1) clockSamples.push(m.residualM);
+      firsts.push({ sat: s.sat, system, code: first, p: codes.get(first)!, eph: sel.eph });
     }
-    const clockM = median(clockSamples);
+    const run = (clockGuessM: number): number => {
+      modelled.length = 0;
+      const samples: number[] = [];
+      for (const f of firsts) {
+        const m = this.model(f.eph, f.sat, f.system, f.code, f.p, epoch.tagGpsS, clockGuessM, arpM, geodetic, doy);
+        if (m === null) continue;
+        modelled.push({ sat: f.sat, code: f.code, eph: f.eph, m });
+        if (m.elevationRad > 0.1) samples.push(m.residualM);
+      }
+      return median(samples);
+    };
+    let clockM = run(guessM);
+    if (Number.isFinite(clockM) && Math.abs(clockM - guessM) > 30) clockM = run(clockM);
     if (!Number.isFinite(clockM)) {
       this.unusableEpochs++;
       return false;
     }
+    this.lastClockM = clockM;
+    // The corrections of the issue in use now are already computed: keep them.
+    const cache = new Map<string, CorrectionValue>();
+    for (const x of modelled) cache.set(`${x.sat}|${x.code}|${issueKey(x.eph)}`, { correctionM: x.m.residualM - clockM, elevationRad: x.m.elevationRad });
     this.epochs.push({
       tagGpsS: epoch.tagGpsS,
       timeGpsS: epoch.tagGpsS - clockM / SPEED_OF_LIGHT_MS,
-      clockM, sats, arpM, geodetic, cache: new Map(),
+      clockM, sats, arpM, geodetic, cache,
     });
     return true;
   }

@@ -67,11 +67,10 @@ export function satelliteAtTransmission(
   let clock: SatelliteClock;
   if (pseudorangeM !== null) {
     tauS = pseudorangeM / SPEED_OF_LIGHT_MS;
+    // One fixed-point step suffices: dt_sv changes by drift * dt_sv ~ 1e-11 * 1e-3 s between passes.
     clock = satelliteClock(eph, rxTimeGpsS - tauS, signal);
-    for (let k = 0; k < 3; k++) {
-      tauS = pseudorangeM / SPEED_OF_LIGHT_MS + clock.offsetS;
-      clock = satelliteClock(eph, rxTimeGpsS - tauS, signal);
-    }
+    tauS = pseudorangeM / SPEED_OF_LIGHT_MS + clock.offsetS;
+    clock = satelliteClock(eph, rxTimeGpsS - tauS, signal);
     satelliteStateInto(eph, rxTimeGpsS - tauS, buf);
     rotateZ(we * tauS, buf);
   } else {

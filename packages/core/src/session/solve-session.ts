@@ -13,7 +13,7 @@ import type { AntennaOffset, ObsEpoch, ObsHeader, ObsStream } from '../rinex/obs
 import type { Ephemeris, NavData } from '../rinex/nav-types.js';
 import { carrierFrequencyHz } from '../rinex/obs-codes.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
-import { EphemerisStore, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { EphemerisStore, SPEED_OF_LIGHT_MS, type SatelliteAtTransmission } from '../orbit/index.js';
 import { satelliteForTag } from '../positioning/satellite-for-tag.js';
 import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import { decimalYearFromGpsS } from '../time/index.js';
@@ -212,8 +212,8 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   const broadcastFrame = (t: number): FrameEpoch => ({ name: 'WGS84 (broadcast orbits)', epochYear: Math.round(decimalYearFromGpsS(t) * 100) / 100 });
 
   /** Horizontal speed from the epoch's Doppler observations at the solved position (NaN without Doppler). */
-  function speedAt(e: ObsEpoch, at: EcefM): number {
-    const v = dopplerVelocity(e, at, store, { systems, elevationMaskRad: maskRad, glonassChannels });
+  function speedAt(e: ObsEpoch, at: EcefM, satellites?: ReadonlyMap<SatId, SatelliteAtTransmission>): number {
+    const v = dopplerVelocity(e, at, store, { systems, elevationMaskRad: maskRad, glonassChannels, ...(satellites ? { satellites } : {}) });
     return v ? v.speedMS : NaN;
   }
 
@@ -257,6 +257,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     readonly codeM: number;
     readonly eph: Ephemeris;
     satPos: EcefM;
+    at: SatelliteAtTransmission;
     satClockM: number;
     readonly frequencyHz: number;
     readonly cn0DbHz: number;
@@ -293,7 +294,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       const at = satelliteForTag(sel.eph, e.tagGpsS, codeM, Number.isFinite(lastClockM) ? lastClockM : 0, null, clockSignal(system, code[1]));
       const k = system === 'R' ? glonassChannels.get(Number(s.sat.slice(1))) : undefined;
       prepared.push({
-        sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
+        sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, at, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
         frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: signalStrengthDbHz(s, code), channel: k,
         correctionM: NaN, ageS: NaN, elevationRefRad: NaN, cn0RefDbHz: NaN,
       });
@@ -310,6 +311,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       for (const p of prepared) {
         const at = satelliteForTag(p.eph, e.tagGpsS, p.codeM, clockM, null, clockSignal(p.system, p.code[1]));
         p.satPos = at.posM;
+        p.at = at;
         p.satClockM = SPEED_OF_LIGHT_MS * at.clock.offsetS;
       }
     }
@@ -325,21 +327,42 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const doy = dayOfYear(e.tagGpsS);
     const geometry = new Map<SatId, { el: number; az: number }>();
     const maskReasons = new Map<SatId, string>();
+    // Elevation, atmosphere and weights depend on the position only through metres-scale changes of the
+    // look angles: they are computed at the first estimate and again only when the estimate has moved
+    // by more than 100 m (iterations from a far start).
+    interface Look { el: number; az: number; tropoM: number; ionoM: number; varianceM2: number }
+    let lookAt: EcefM | null = null;
+    const looks = new Map<SatId, Look>();
+    const lookOf = (p: Prepared, x: EcefM, g: ReturnType<typeof ecefToGeodetic>): Look => {
+      let l = looks.get(p.sat);
+      if (l) return l;
+      const ae = azimuthElevation(x, p.satPos, g.latRad, g.lonRad);
+      const el = ae.elevationRad;
+      const above = el >= maskRad;
+      l = {
+        el, az: ae.azimuthRad,
+        tropoM: above ? troposphereDelayM(g, el, doy) : NaN,
+        ionoM: above && Number.isFinite(p.frequencyHz) ? ionosphereDelayM(inputs.nav.ionosphere, p.system, g, el, ae.azimuthRad, e.tagGpsS, p.frequencyHz) : 0,
+        varianceM2: above ? codeVarianceM2(el, p.cn0DbHz) + codeVarianceM2(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) : NaN,
+      };
+      looks.set(p.sat, l);
+      return l;
+    };
     const build = (x: EcefM, excluded: ReadonlySet<SatId>): LinearRow[] => {
-      const g = ecefToGeodetic(x);
+      if (lookAt === null || Math.hypot(x.x - lookAt.x, x.y - lookAt.y, x.z - lookAt.z) > 100) { looks.clear(); lookAt = x; }
+      const g = ecefToGeodetic(lookAt);
       const rows: LinearRow[] = [];
       maskReasons.clear();
       for (const p of usable) {
         if (excluded.has(p.sat)) continue;
         const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;
         const range = Math.sqrt(dx * dx + dy * dy + dz * dz);
-        const ae = azimuthElevation(x, p.satPos, g.latRad, g.lonRad);
-        geometry.set(p.sat, { el: ae.elevationRad, az: ae.azimuthRad });
-        if (ae.elevationRad < maskRad) { maskReasons.set(p.sat, `below elevation mask (${(ae.elevationRad / DEG).toFixed(1)} deg)`); continue; }
-        const tropo = troposphereDelayM(g, ae.elevationRad, doy);
-        const iono = Number.isFinite(p.frequencyHz) ? ionosphereDelayM(inputs.nav.ionosphere, p.system, g, ae.elevationRad, ae.azimuthRad, e.tagGpsS, p.frequencyHz) : 0;
-        const variance = codeVarianceM2(ae.elevationRad, p.cn0DbHz) +
-          codeVarianceM2(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : ae.elevationRad, p.cn0RefDbHz);
+        const look = lookOf(p, lookAt, g);
+        geometry.set(p.sat, { el: look.el, az: look.az });
+        if (look.el < maskRad) { maskReasons.set(p.sat, `below elevation mask (${(look.el / DEG).toFixed(1)} deg)`); continue; }
+        const tropo = look.tropoM;
+        const iono = look.ionoM;
+        const variance = look.varianceM2;
         let channelOffset = 0, inflation = 1;
         if (channelOffsets && p.system === 'R' && p.channel !== undefined) {
           channelOffset = channelOffsets.offset(p.channel);
@@ -401,7 +424,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       dops: fix.dops, sigmaEnuM: fix.sigmaEnuM,
       quality: { varianceFactor: fix.varianceFactor, chiSquare: fix.test.statistic, dof: fix.test.dof, critical: fix.test.critical, passed: fix.test.dof > 0 ? fix.test.passed : null },
       correctionAgeS: maxAge, satellites,
-      speedMS: speedAt(e, arp), occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
+      speedMS: speedAt(e, arp, new Map(prepared.map((p) => [p.sat, p.at] as const))), occupationEvent: pendingEvent, antennaHeightM: roverAntenna.heightM,
     };
   }
 

@@ -20,10 +20,27 @@ export interface GlobalTestResult {
 }
 
 /** Overall model test (Teunissen 2000, 3.2): reject H0 when v'Pv / sigma0^2 > chi2_{1-alpha}(dof). */
+/** Quantiles are needed once per (level, dof) but asked for every epoch: remembered. */
+const chiSquareCritical = new Map<string, number>();
+const normalCritical = new Map<number, number>();
+
+function chiSquareCriticalValue(alpha: number, dof: number): number {
+  const key = `${alpha}|${dof}`;
+  let v = chiSquareCritical.get(key);
+  if (v === undefined) { v = chiSquareQuantile(1 - alpha, dof); chiSquareCritical.set(key, v); }
+  return v;
+}
+
+function normalCriticalValue(alpha: number): number {
+  let v = normalCritical.get(alpha);
+  if (v === undefined) { v = normalQuantile(1 - alpha / 2); normalCritical.set(alpha, v); }
+  return v;
+}
+
 export function globalTest(vtpv: number, dof: number, alpha: number, sigma0Apriori = 1): GlobalTestResult {
   const statistic = vtpv / (sigma0Apriori * sigma0Apriori);
   if (dof <= 0) return { statistic, dof, critical: NaN, passed: true };
-  const critical = chiSquareQuantile(1 - alpha, dof);
+  const critical = chiSquareCriticalValue(alpha, dof);
   return { statistic, dof, critical, passed: statistic <= critical };
 }
 
@@ -52,7 +69,7 @@ export interface DataSnoopingResult {
 /** Baarda's w-test on every observation; returns the largest |w| and whether it exceeds k (Teunissen 2000, 4.2). */
 export function dataSnooping(s: WlsSolution, variances: Float64Array, alpha: number, sigma0Apriori = 1): DataSnoopingResult {
   const w = normalisedResiduals(s, variances, sigma0Apriori);
-  const critical = normalQuantile(1 - alpha / 2);
+  const critical = normalCriticalValue(alpha);
   let index = -1;
   let best = -1;
   for (let i = 0; i < w.length; i++) {

@@ -26,13 +26,15 @@ import type { EcefM, EnuM, GnssSystem, SatId } from '../types.js';
 import { satSystem } from '../types.js';
 import type { ObsEpoch, SatObservations } from '../rinex/obs-types.js';
 import { carrierWavelengthM } from '../rinex/obs-codes.js';
-import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS, type SatelliteAtTransmission } from '../orbit/index.js';
 import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic } from '../geodesy/index.js';
 import { solveWeightedLeastSquaresSmall } from '../solve/index.js';
 import { primaryCodes } from '../differencing/code-selection.js';
 import { PRIMARY_BAND, clockSignal } from '../positioning/signals.js';
 
 export interface DopplerVelocityOptions {
+  /** Satellites already computed for this epoch (position, velocity, clock at transmission), reused when present. */
+  readonly satellites?: ReadonlyMap<SatId, SatelliteAtTransmission>;
   readonly systems: readonly GnssSystem[];
   readonly elevationMaskRad: number;
   /** GLONASS slot -> frequency channel k (for the FDMA wavelength). */
@@ -105,9 +107,12 @@ export function dopplerVelocity(epoch: ObsEpoch, positionM: EcefM, store: Epheme
     const k = system === 'R' ? opts.glonassChannels.get(Number(s.sat.slice(1))) : undefined;
     const lambdaM = carrierWavelengthM(system, d.code, k);
     if (!Number.isFinite(lambdaM)) continue;
-    const sel = store.select(s.sat, epoch.tagGpsS);
-    if (sel.eph === null) continue;
-    const at = satelliteAtTransmission(sel.eph, epoch.tagGpsS, pseudorangeFor(s, d.code), positionM, clockSignal(system, d.code[1]));
+    let at = opts.satellites?.get(s.sat);
+    if (at === undefined) {
+      const sel = store.select(s.sat, epoch.tagGpsS);
+      if (sel.eph === null) continue;
+      at = satelliteAtTransmission(sel.eph, epoch.tagGpsS, pseudorangeFor(s, d.code), positionM, clockSignal(system, d.code[1]));
+    }
     const ae = azimuthElevation(positionM, at.posM, g.latRad, g.lonRad);
     if (ae.elevationRad < opts.elevationMaskRad) continue;
     const dx = at.posM.x - positionM.x, dy = at.posM.y - positionM.y, dz = at.posM.z - positionM.z;
