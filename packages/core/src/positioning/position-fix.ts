@@ -43,6 +43,9 @@ export interface FixOptions {
   readonly maxRejections: number;
 }
 
+/** No GNSS satellite used here is closer than this to a receiver on the Earth (MEO at zenith: ~20,000 km). */
+const MIN_SATELLITE_RANGE_M = 1.9e7;
+
 export const DEFAULT_FIX_OPTIONS: FixOptions = {
   maxIterations: 12,
   convergenceM: 1e-3,
@@ -163,7 +166,11 @@ export function solvePositionFix(build: RowBuilder, x0: EcefM, opts: FixOptions 
       const dx = a.solution.x;
       x = { x: x.x + dx[0], y: x.y + dx[1], z: x.z + dx[2] };
       last = a;
-      if (Math.hypot(dx[0], dx[1], dx[2]) < opts.convergenceM) {
+      // Converged when the step is small, or when the linearisation error of the step, |dx|^2 / (2 rho)
+      // with rho >= 19,000 km for GNSS satellites, is below the tolerance: the solve just made is then the
+      // exact one at the new position (its residuals and clocks hold there too).
+      const step = Math.hypot(dx[0], dx[1], dx[2]);
+      if (step < opts.convergenceM || (step * step) / (2 * MIN_SATELLITE_RANGE_M) < opts.convergenceM) {
         rejected.push(...roundRejected.filter((r) => !rejected.some((q) => q.sat === r.sat)));
         break;
       }

@@ -72,8 +72,13 @@ export function reasonKey(reason: string): string {
 
 class Counter {
   private readonly m = new Map<string, number>();
+  private readonly keys = new Map<string, string>();
   add(reason: string): void {
-    const k = reasonKey(reason);
+    let k = this.keys.get(reason);
+    if (k === undefined) {
+      k = reasonKey(reason);
+      if (this.keys.size < 10_000) this.keys.set(reason, k);
+    }
     this.m.set(k, (this.m.get(k) ?? 0) + 1);
   }
   list(): RejectionCount[] {
@@ -326,7 +331,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     }
     const doy = dayOfYear(e.tagGpsS);
     const geometry = new Map<SatId, { el: number; az: number }>();
-    const maskReasons = new Map<SatId, string>();
+    const belowMask = new Set<SatId>();
     // Elevation, atmosphere and weights depend on the position only through metres-scale changes of the
     // look angles: they are computed at the first estimate and again only when the estimate has moved
     // by more than 100 m (iterations from a far start).
@@ -352,14 +357,14 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       if (lookAt === null || Math.hypot(x.x - lookAt.x, x.y - lookAt.y, x.z - lookAt.z) > 100) { looks.clear(); lookAt = x; }
       const g = ecefToGeodetic(lookAt);
       const rows: LinearRow[] = [];
-      maskReasons.clear();
+      belowMask.clear();
       for (const p of usable) {
         if (excluded.has(p.sat)) continue;
         const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;
         const range = Math.sqrt(dx * dx + dy * dy + dz * dz);
         const look = lookOf(p, lookAt, g);
         geometry.set(p.sat, { el: look.el, az: look.az });
-        if (look.el < maskRad) { maskReasons.set(p.sat, `below elevation mask (${(look.el / DEG).toFixed(1)} deg)`); continue; }
+        if (look.el < maskRad) { belowMask.add(p.sat); continue; }
         const tropo = look.tropoM;
         const iono = look.ionoM;
         const variance = look.varianceM2;
@@ -380,13 +385,15 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const usedBySat = new Map(fix && fix.ok ? fix.used.map((u) => [u.row.sat, u] as const) : []);
     const rejBySat = new Map(fix ? fix.rejected.map((r) => [r.sat, r] as const) : []);
     const satellites: SatelliteResidual[] = [];
+    const preparedBySat = new Map(prepared.map((q) => [q.sat, q] as const));
     for (const s of e.sats) {
       const pre = reasons.get(s.sat);
-      const p = prepared.find((q) => q.sat === s.sat);
+      const p = preparedBySat.get(s.sat);
       const geo = geometry.get(s.sat);
       const u = usedBySat.get(s.sat);
       const rej = rejBySat.get(s.sat);
-      const reason = pre?.reason ?? maskReasons.get(s.sat) ?? rej?.reason ?? (u ? '' : fix && !fix.ok ? `no solution: ${fix.reason}` : 'not used');
+      const maskReason = belowMask.has(s.sat) && geo ? `below elevation mask (${(geo.el / DEG).toFixed(1)} deg)` : undefined;
+      const reason = pre?.reason ?? maskReason ?? rej?.reason ?? (u ? '' : fix && !fix.ok ? `no solution: ${fix.reason}` : 'not used');
       if (!u) satRejections.add(reason);
       satellites.push({
         sat: s.sat, signal: p?.code ?? pre?.signal ?? '',

@@ -62,20 +62,34 @@ function checkInput(design: Float64Array, m: number, n: number, misclosure: Floa
 }
 
 /** Residuals, v'Pv and diag(Qvv) shared by both solvers (Teunissen 2000, eq. for Qvv = Qyy - A Qxx A^T). */
-function finish(design: Float64Array, m: number, n: number, y: Float64Array, variances: Float64Array, x: Float64Array, qxx: Float64Array): WlsSolution {
+function finish(design: Float64Array, m: number, n: number, y: Float64Array, variances: Float64Array, x: Float64Array, qxx: Float64Array, cholesky?: Float64Array): WlsSolution {
   const residuals = new Float64Array(m);
   const qvvDiag = new Float64Array(m);
+  const z = cholesky ? new Float64Array(n) : null;
   let vtpv = 0;
   for (let i = 0; i < m; i++) {
     const row = i * n;
     let ax = 0;
     let aqa = 0;
-    for (let j = 0; j < n; j++) {
-      const aij = design[row + j];
-      ax += aij * x[j];
-      let qa = 0;
-      for (let k = 0; k < n; k++) qa += qxx[j * n + k] * design[row + k];
-      aqa += aij * qa;
+    if (z && cholesky) {
+      // a^T Qxx a = |L^-1 a|^2 with Qxx = (L L^T)^-1: one forward substitution per row (n^2 / 2).
+      for (let j = 0; j < n; j++) {
+        const aij = design[row + j];
+        ax += aij * x[j];
+        let t = aij;
+        for (let k = 0; k < j; k++) t -= cholesky[j * n + k] * z[k];
+        t /= cholesky[j * n + j];
+        z[j] = t;
+        aqa += t * t;
+      }
+    } else {
+      for (let j = 0; j < n; j++) {
+        const aij = design[row + j];
+        ax += aij * x[j];
+        let qa = 0;
+        for (let k = 0; k < n; k++) qa += qxx[j * n + k] * design[row + k];
+        aqa += aij * qa;
+      }
     }
     const v = y[i] - ax;
     residuals[i] = v;
@@ -171,5 +185,5 @@ export function solveWeightedLeastSquaresSmall(design: Float64Array, m: number, 
   const qxx = choleskyInverse(normal, n);
   const x = u;
   choleskySolveInPlace(normal, n, x);
-  return finish(design, m, n, misclosure, variances, x, qxx);
+  return finish(design, m, n, misclosure, variances, x, qxx, normal);
 }
