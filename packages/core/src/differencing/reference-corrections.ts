@@ -183,6 +183,13 @@ export class ReferenceCorrections {
     return v;
   }
 
+  /** Distance in time (s) from t to the nearest reference epoch held; Infinity when none. */
+  nearestEpochS(tGpsS: number): number {
+    let best = Infinity;
+    for (const e of this.epochs) best = Math.min(best, Math.abs(e.timeGpsS - tGpsS));
+    return best;
+  }
+
   /** Codes the reference has for a satellite near a time (from the nearest epoch holding it). */
   codesNear(sat: SatId, tGpsS: number, maxAgeS: number): Set<string> {
     const out = new Set<string>();

@@ -3,7 +3,7 @@
  * receive time (Earth rotation during the signal flight, "Sagnac" correction).
  *
  * Transmission time from a pseudorange (IS-GPS-200 20.3.3.3.3.1, 20.3.3.4.3.3.2):
- *   t_tx = t_rx - P / c - dt_sv(t_tx), iterated (dt_sv changes by < 1e-11 s per ms: 3 passes suffice).
+ *   t_tx = t_rx - P / c - dt_sv(t_tx), one fixed-point step (dt_sv changes by < 1e-11 s per ms).
  * Without a pseudorange (simulation), the light time is iterated geometrically:
  *   tau = |R_Z(omegaE tau) r_sat(t_rx - tau) - r_rx| / c.
  * Earth rotation (IS-GPS-200 20.3.3.4.3.3.2; Galileo/BeiDou/GLONASS with their own omegaE):

@@ -152,17 +152,23 @@ function enuSigma(cov: Float64Array, at: EcefM): EnuM {
  */
 export function solvePositionFix(build: RowBuilder, x0: EcefM, opts: FixOptions = DEFAULT_FIX_OPTIONS): PositionFix | FixFailure {
   const excluded = new Set<SatId>();
-  const rejected: Rejection[] = [];
+  // Data-snooping removals accumulate over rounds; lone-constellation drops are those of the last build.
+  const snooped: Rejection[] = [];
+  let lone: Rejection[] = [];
+  const rejectedNow = (): Rejection[] => [...snooped, ...lone];
   let x = x0;
   let iterations = 0;
   for (let round = 0; round <= opts.maxRejections; round++) {
     let last: Assembled | null = null;
     for (let it = 0; it < opts.maxIterations; it++) {
       iterations++;
-      const roundRejected: Rejection[] = [];
-      const rows = pruneLoneSystems(build(x, excluded), roundRejected);
+      lone = [];
+      const rows = pruneLoneSystems(build(x, excluded), lone);
+      if (rows.length < opts.minSatellites) {
+        return { ok: false, reason: `too few satellites (${rows.length}, minimum ${opts.minSatellites})`, rejected: rejectedNow() };
+      }
       const a = assembleAndSolve(rows);
-      if (typeof a === 'string') return { ok: false, reason: a, rejected: [...rejected, ...roundRejected] };
+      if (typeof a === 'string') return { ok: false, reason: a, rejected: rejectedNow() };
       const dx = a.solution.x;
       x = { x: x.x + dx[0], y: x.y + dx[1], z: x.z + dx[2] };
       last = a;
@@ -170,13 +176,10 @@ export function solvePositionFix(build: RowBuilder, x0: EcefM, opts: FixOptions 
       // with rho >= 19,000 km for GNSS satellites, is below the tolerance: the solve just made is then the
       // exact one at the new position (its residuals and clocks hold there too).
       const step = Math.hypot(dx[0], dx[1], dx[2]);
-      if (step < opts.convergenceM || (step * step) / (2 * MIN_SATELLITE_RANGE_M) < opts.convergenceM) {
-        rejected.push(...roundRejected.filter((r) => !rejected.some((q) => q.sat === r.sat)));
-        break;
-      }
-      if (it === opts.maxIterations - 1) return { ok: false, reason: 'iteration did not converge', rejected };
+      if (step < opts.convergenceM || (step * step) / (2 * MIN_SATELLITE_RANGE_M) < opts.convergenceM) break;
+      if (it === opts.maxIterations - 1) return { ok: false, reason: 'iteration did not converge', rejected: rejectedNow() };
     }
-    if (last === null) return { ok: false, reason: 'no iteration', rejected };
+    if (last === null) return { ok: false, reason: 'no iteration', rejected: rejectedNow() };
     const s = last.solution;
     const test = globalTest(s.vtpv, s.dof, opts.alphaGlobal);
     const canRemove = !test.passed && s.dof >= 2 && last.rows.length - 1 >= opts.minSatellites && round < opts.maxRejections;
@@ -185,13 +188,13 @@ export function solvePositionFix(build: RowBuilder, x0: EcefM, opts: FixOptions 
       if (snoop.rejected && snoop.index >= 0) {
         const sat = last.rows[snoop.index].sat;
         excluded.add(sat);
-        rejected.push({ sat, reason: `rejected by data snooping (w = ${snoop.w.toFixed(1)}, critical ${snoop.critical.toFixed(2)})`, wTest: snoop.w });
+        snooped.push({ sat, reason: `rejected by data snooping (w = ${snoop.w.toFixed(1)}, critical ${snoop.critical.toFixed(2)})`, wTest: snoop.w });
         continue;
       }
     }
-    return finish(last, x, test, iterations, rejected);
+    return finish(last, x, test, iterations, rejectedNow());
   }
-  return { ok: false, reason: 'quality control did not settle', rejected };
+  return { ok: false, reason: 'quality control did not settle', rejected: rejectedNow() };
 }
 
 function finish(a: Assembled, x: EcefM, test: GlobalTestResult, iterations: number, rejected: Rejection[]): PositionFix {

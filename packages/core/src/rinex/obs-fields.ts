@@ -16,19 +16,24 @@ const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12,
  * correctly rounded double (both exact when below 2^53), the same as parseFloat.
  */
 export function parseFixed(line: string, start: number, end: number): number {
-  const n = line.length < end ? line.length : end;
+  return parseFixedIn(line, start, line.length < end ? line.length : end);
+}
+
+/** parseFixed on columns [start, end) of `s` where `end` is already clipped to the end of the line. */
+export function parseFixedIn(s: string, start: number, end: number): number {
+  const n = end;
   let i = start;
-  while (i < n && line.charCodeAt(i) === 32) i++;
+  while (i < n && s.charCodeAt(i) === 32) i++;
   if (i >= n) return NaN;
   let neg = false;
-  let c = line.charCodeAt(i);
+  let c = s.charCodeAt(i);
   if (c === 45) { neg = true; i++; } else if (c === 43) i++;
   let mant = 0;
   let digits = 0;
   let frac = 0;
   let seenDot = false;
   for (; i < n; i++) {
-    c = line.charCodeAt(i);
+    c = s.charCodeAt(i);
     if (c >= 48 && c <= 57) {
       mant = mant * 10 + (c - 48);
       digits++;
@@ -38,14 +43,14 @@ export function parseFixed(line: string, start: number, end: number): number {
     } else break;
   }
   if (i < n) {
-    if (c === 69 || c === 101 || c === 68 || c === 100) return parseSlow(line, start, n);
+    if (c === 69 || c === 101 || c === 68 || c === 100) return parseSlow(s, start, n);
     // trailing blanks are allowed, anything else is garbage
     for (; i < n; i++) {
-      if (line.charCodeAt(i) !== 32) { fieldState.bad = true; return NaN; }
+      if (s.charCodeAt(i) !== 32) { fieldState.bad = true; return NaN; }
     }
   }
   if (digits === 0) { fieldState.bad = true; return NaN; }
-  if (digits > 15) return parseSlow(line, start, n);
+  if (digits > 15) return parseSlow(s, start, n);
   const v = frac === 0 ? mant : mant / POW10[frac]!;
   return neg ? -v : v;
 }
@@ -57,22 +62,38 @@ export function parseFixed(line: string, start: number, end: number): number {
  * mant / 1000 with both exact is the correctly rounded value of the decimal text, as parseFloat gives.
  */
 export function parseF14p3(line: string, c: number): number {
+  return parseF14p3In(line, c, line.length);
+}
+
+/** parseF14p3 on a line that ends at `end` (exclusive) inside `s` (a chunk holding many lines). */
+export function parseF14p3In(s: string, c: number, end: number): number {
   const point = c + 10;
-  if (line.length < c + 14 || line.charCodeAt(point) !== 46) return parseFixed(line, c, c + 14);
+  if (end < c + 14 || s.charCodeAt(point) !== 46) return parseFixedIn(s, c, end < c + 14 ? end : c + 14);
   let i = c;
-  let ch = line.charCodeAt(i);
-  while (ch === 32 && i < point) ch = line.charCodeAt(++i);
+  let ch = s.charCodeAt(i);
+  while (ch === 32 && i < point) ch = s.charCodeAt(++i);
   let neg = false;
-  if (ch === 45) { neg = true; ch = line.charCodeAt(++i); }
+  if (ch === 45) { neg = true; ch = s.charCodeAt(++i); }
+  // Integer part in 32-bit integer arithmetic: at most 9 digits fit (common practice: int32 adds are
+  // cheaper than double multiply-adds in V8); a 10th digit (>= 1e9 m or cycles) carries into `high`.
   let mant = 0;
-  for (; i < point; ch = line.charCodeAt(++i)) {
+  let high = 0;
+  if (point - i === 10) {
     const d = ch - 48;
-    if (d < 0 || d > 9) return parseFixed(line, c, c + 14);
-    mant = mant * 10 + d;
+    if (d < 0 || d > 9) return parseFixedIn(s, c, c + 14);
+    high = d;
+    ch = s.charCodeAt(++i);
   }
-  const d1 = line.charCodeAt(point + 1) - 48, d2 = line.charCodeAt(point + 2) - 48, d3 = line.charCodeAt(point + 3) - 48;
-  if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || d3 < 0 || d3 > 9) return parseFixed(line, c, c + 14);
-  const v = (mant * 1000 + (d1 * 100 + d2 * 10 + d3)) / 1000;
+  for (; i < point; ch = s.charCodeAt(++i)) {
+    const d = (ch - 48) | 0;
+    if (d < 0 || d > 9) return parseFixedIn(s, c, c + 14);
+    mant = (mant * 10 + d) | 0;
+  }
+  const d1 = s.charCodeAt(point + 1) - 48, d2 = s.charCodeAt(point + 2) - 48, d3 = s.charCodeAt(point + 3) - 48;
+  if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || d3 < 0 || d3 > 9) return parseFixedIn(s, c, c + 14);
+  // value * 1000 as an integer below 2^53 (exact in a double), divided once by 1000: the correctly
+  // rounded double of the decimal text, as parseFloat gives (ECMA-262 7.1.4.1.1, IEEE 754 division).
+  const v = (high * 1e12 + mant * 1000 + (d1 * 100 + d2 * 10 + d3)) / 1000;
   return neg ? -v : v;
 }
 
@@ -104,8 +125,13 @@ export function parseIntField(line: string, start: number, end: number): number 
 
 /** A single digit at column `col` (LLI, SSI, flag): 0 for blank or absent; -1 for a non-digit. */
 export function digitAt(line: string, col: number): number {
-  if (col >= line.length) return 0;
-  const c = line.charCodeAt(col);
+  return digitIn(line, col, line.length);
+}
+
+/** digitAt on a line that ends at `end` (exclusive) inside `s`. */
+export function digitIn(s: string, col: number, end: number): number {
+  if (col >= end) return 0;
+  const c = s.charCodeAt(col);
   if (c === 32) return 0;
   if (c >= 48 && c <= 57) return c - 48;
   return -1;

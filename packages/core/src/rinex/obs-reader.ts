@@ -14,8 +14,8 @@ import type { Warning, WarningSink } from '../errors.js';
 import { daysFromCivil, toGpsS } from '../time/index.js';
 import type { TimeSystem } from '../time/index.js';
 import type { AntennaOffset, HeaderEvent, ObsEpoch, ObsHeader, ObsStream, SatObservations } from './obs-types.js';
-import { LineCursor } from './text-lines.js';
-import { digitAt, fieldState, parseF14p3, parseFixed, parseIntField } from './obs-fields.js';
+import { LineCursor, SPAN_END, SPAN_FILL } from './text-lines.js';
+import { digitAt, digitIn, fieldState, parseF14p3In, parseFixed, parseIntField } from './obs-fields.js';
 import { ObsHeaderBuilder, headerLabel, parseVersionLine } from './obs-header.js';
 
 export interface ReadObsOptions {
@@ -68,17 +68,40 @@ export async function collectEpochs(stream: ObsStream): Promise<ObsEpoch[]> {
  * (F14.3 fields of 16 columns) have no point in column 19.
  */
 export function looksLikeR2Epoch(line: string): boolean {
-  if (line.length < 29) return false;
-  const f = line.charCodeAt(28);
-  if (f < 48 || f > 54 || line.charCodeAt(26) !== 32 || line.charCodeAt(27) !== 32) return false;
-  if (line.charCodeAt(18) === 46) return line.charCodeAt(0) === 32;
-  return f >= 50 && f <= 53 && line.slice(0, 26).trim() === '';
+  return looksLikeR2EpochIn(line, 0, line.length);
 }
+
+/** looksLikeR2Epoch on the line s[a, e) (a span of a chunk, see LineCursor.takeSpan). */
+function looksLikeR2EpochIn(s: string, a: number, e: number): boolean {
+  if (e - a < 29) return false;
+  const f = s.charCodeAt(a + 28);
+  if (f < 48 || f > 54 || s.charCodeAt(a + 26) !== 32 || s.charCodeAt(a + 27) !== 32) return false;
+  if (s.charCodeAt(a + 18) === 46) return s.charCodeAt(a) === 32;
+  return f >= 50 && f <= 53 && isBlank(s, a, a + 26);
+}
+
+/** s.slice(from, to).trim() === '' without making the slice (ECMA-262 WhiteSpace + LineTerminator). */
+function isBlank(s: string, from: number, to: number): boolean {
+  for (let i = from; i < to; i++) {
+    const c = s.charCodeAt(i);
+    if (c === 32) continue;
+    // only these code points below U+1680 are white space or line terminators for String.prototype.trim
+    if ((c > 13 && c !== 160 && c < 0x1680) || c < 9) return false;
+    return s.slice(from, to).trim() === '';
+  }
+  return true;
+}
+
+const ignoreWarning: WarningSink = () => {};
+/** The last parser that finished reading (see EpochParser.retire). */
+let lastRetired: EpochParser | null = null;
 
 class EpochParser {
   private readonly r3: boolean;
   private readonly codes: Partial<Record<GnssSystem, readonly string[]>>;
-  private readonly divisors: Partial<Record<GnssSystem, Float64Array | null>> = {};
+  /** codes and divisors indexed by the char code of the system letter (the hot loops avoid keyed lookups). */
+  private readonly codesBy: (readonly string[] | undefined)[] = new Array<readonly string[] | undefined>(128).fill(undefined);
+  private readonly divBy: (Float64Array | null)[] = new Array<Float64Array | null>(128).fill(null);
   private readonly ts: TimeSystem;
   private prevTagGpsS = NaN;
   private dayKey = -1;
@@ -90,21 +113,24 @@ class EpochParser {
     private readonly file: string,
     private readonly header: ObsHeader,
     private readonly cur: LineCursor,
-    private readonly warnSink: WarningSink,
+    private warnSink: WarningSink,
   ) {
     this.r3 = header.version >= 3;
     this.codes = { ...header.obsCodes };
     this.ts = header.timeSystem;
-    for (const [s, list] of Object.entries(this.codes) as [GnssSystem, readonly string[]][]) this.setDivisors(s, list);
+    for (const [s, list] of Object.entries(this.codes) as [GnssSystem, readonly string[]][]) this.setCodes(s, list);
   }
 
-  private setDivisors(s: GnssSystem, list: readonly string[]): void {
+  private setCodes(s: GnssSystem, list: readonly string[]): void {
+    this.codes[s] = list;
+    const at = s.charCodeAt(0);
+    this.codesBy[at] = list;
     const t = this.header.scaleFactors[s];
-    if (t === undefined) { this.divisors[s] = null; return; }
+    if (t === undefined) { this.divBy[at] = null; return; }
     const d = new Float64Array(list.length).fill(1);
     let any = false;
     list.forEach((c, i) => { const f = t[c]; if (f !== undefined && f !== 1) { d[i] = f; any = true; } });
-    this.divisors[s] = any ? d : null;
+    this.divBy[at] = any ? d : null;
   }
 
   private warn(line: number, code: string, message: string): void {
@@ -137,7 +163,25 @@ class EpochParser {
     } catch (err) {
       if (err instanceof RefdeltaError) throw err;
       throw new InputError(this.file, this.cur.lineNumber, `could not read the observation data (${err instanceof Error ? err.message : String(err)})`);
+    } finally {
+      this.retire();
     }
+  }
+
+  /**
+   * Reading is over (end, error or the consumer stopped): drops the text, the source and the warning
+   * sink, and keeps this parser as the module's `lastRetired`. V8 holds the hidden classes (maps) of
+   * objects whose fields were added after construction only weakly: once every reader of a run is
+   * garbage, a full GC frees those maps and throws away the optimised code of the whole read loop,
+   * and the next file is read by the interpreter until it is optimised again (measured with
+   * bench/run.mjs, which collects garbage between runs: about half the throughput). One retired
+   * parser, holding no text, keeps the maps alive.
+   */
+  private retire(): void {
+    this.cur.release();
+    this.slab.release();
+    this.warnSink = ignoreWarning;
+    lastRetired = this;
   }
 
   /** Skips lines up to the next recognisable epoch record, with one warning for the block skipped. */
@@ -237,7 +281,7 @@ class EpochParser {
           }
           cl = next;
         }
-        const sat = satId2(cl, 32 + 3 * k);
+        const sat = satIdIn(cl, 32 + 3 * k, cl.length, true);
         if (sat === null) {
           await this.resync(lineNo, `garbled satellite list: expected ${n} satellites (A1, I2 each) from column 33`);
           return null;
@@ -274,30 +318,31 @@ class EpochParser {
   private async sats3(epochLine: number, n: number, sats: SatObservations[]): Promise<boolean> {
     const cur = this.cur;
     for (let i = 0; i < n; i++) {
-      let l = cur.take();
-      if (l === undefined) l = await cur.next();
-      if (l === null || l.charCodeAt(0) === 62) {
-        if (l !== null) cur.unread(l);
-        this.warn(epochLine, 'bad-epoch-skipped', `epoch announces ${n} satellites but ${i} observation records follow${l === null ? ' (file ends)' : ''}; epoch skipped`);
+      let r = cur.takeSpan();
+      if (r === SPAN_FILL) r = await cur.nextSpan();
+      const src = cur.src, a = cur.lineStart, e = cur.lineEnd;
+      if (r === SPAN_END || (e > a && src.charCodeAt(a) === 62)) {
+        if (r !== SPAN_END) cur.unreadSpan();
+        this.warn(epochLine, 'bad-epoch-skipped', `epoch announces ${n} satellites but ${i} observation records follow${r === SPAN_END ? ' (file ends)' : ''}; epoch skipped`);
         return false;
       }
-      const s = l.charAt(0);
-      const sat = isGnssSystem(s) ? satId3(l) : null;
+      const sat = satIdIn(src, a, e, false);
       if (sat === null) {
         await this.resync(cur.lineNumber, 'garbled observation record: expected a satellite id (A1, I2) in columns 1-3');
         return false;
       }
-      const codes = this.codes[s as GnssSystem];
+      const sc = src.charCodeAt(a);
+      const codes = this.codesBy[sc];
       if (codes === undefined) {
-        this.noTypes(s, sat);
+        this.noTypes(sat.charAt(0), sat);
         continue;
       }
-      const r = this.values(l, 3, codes, s as GnssSystem, sat, 0, codes.length, null);
-      if (r === null) {
+      const out = this.values(src, a + 3, e, codes, this.divBy[sc]!, sat, 0, codes.length, null);
+      if (out === null) {
         await this.resync(cur.lineNumber, `garbled observation record of ${sat}: expected F14.3 values with LLI and SSI digits`);
         return false;
       }
-      sats.push(r);
+      sats.push(out);
     }
     return true;
   }
@@ -311,23 +356,26 @@ class EpochParser {
   /** RINEX 2 observations of each listed satellite: 5 (F14.3, I1, I1) per line (RINEX 2.11 table A2). */
   private async sats2(epochLine: number, list: readonly SatId[], sats: SatObservations[]): Promise<boolean> {
     const cur = this.cur;
-    for (const sat of list) {
-      const s = sat.charAt(0) as GnssSystem;
-      const codes = this.codes[s];
-      const nCodes = codes?.length ?? 0;
+    for (let si = 0; si < list.length; si++) {
+      const sat = list[si]!;
+      const sc = sat.charCodeAt(0);
+      const codes = this.codesBy[sc];
+      const div = this.divBy[sc]!;
+      const nCodes = codes === undefined ? 0 : codes.length;
       const nLines = nCodes === 0 ? 1 : Math.ceil(nCodes / 5);
       let out: SatObservations | null = null;
       for (let j = 0; j < nLines; j++) {
-        let l = cur.take();
-        if (l === undefined) l = await cur.next();
-        if (l === null || looksLikeR2Epoch(l)) {
-          if (l !== null) cur.unread(l);
-          this.warn(epochLine, 'bad-epoch-skipped', `epoch's observation records end early at ${sat}${l === null ? ' (file ends)' : ''}; epoch skipped`);
+        let r = cur.takeSpan();
+        if (r === SPAN_FILL) r = await cur.nextSpan();
+        const src = cur.src, a = cur.lineStart, e = cur.lineEnd;
+        if (r === SPAN_END || looksLikeR2EpochIn(src, a, e)) {
+          if (r !== SPAN_END) cur.unreadSpan();
+          this.warn(epochLine, 'bad-epoch-skipped', `epoch's observation records end early at ${sat}${r === SPAN_END ? ' (file ends)' : ''}; epoch skipped`);
           return false;
         }
-        if (codes === undefined) { this.noTypes(s, sat); break; }
+        if (codes === undefined) { this.noTypes(sat.charAt(0), sat); break; }
         const from = j * 5;
-        out = this.values(l, 0, codes, s, sat, from, Math.min(nCodes, from + 5), out);
+        out = this.values(src, a, e, codes, div, sat, from, from + 5 < nCodes ? from + 5 : nCodes, out);
         if (out === null) {
           await this.resync(cur.lineNumber, `garbled observation line of ${sat}: expected 5 fields of F14.3 + LLI + SSI`);
           return false;
@@ -338,22 +386,22 @@ class EpochParser {
     return true;
   }
 
-  /** Parses fields [from, to) of a satellite's list from `l` starting at column `col0`. null = garbled. */
+  /**
+   * Parses fields [from, to) of a satellite's list from the line src[c0, end) (a span of a chunk),
+   * 16 columns each: F14.3, LLI I1, SSI I1. null = garbled.
+   */
   private values(
-    l: string, col0: number, codes: readonly string[], s: GnssSystem, sat: SatId, from: number, to: number, into: SatObservations | null,
+    src: string, c0: number, end: number, codes: readonly string[], div: Float64Array | null, sat: SatId, from: number, to: number,
+    into: SatObservations | null,
   ): SatObservations | null {
     const r = into ?? this.slab.sat(sat, codes);
     const values = r.values, lli = r.lli, ssi = r.ssi;
-    const div = this.divisors[s];
     fieldState.bad = false;
-    const len = l.length;
-    for (let k = from; k < to; k++) {
-      const c = col0 + 16 * (k - from);
-      if (c >= len) break;
-      const v = parseF14p3(l, c);
-      const a = digitAt(l, c + 14), b = digitAt(l, c + 15);
+    for (let k = from, c = c0; k < to && c < end; k++, c += 16) {
+      const v = parseF14p3In(src, c, end);
+      const a = digitIn(src, c + 14, end), b = digitIn(src, c + 15, end);
       if (fieldState.bad || a < 0 || b < 0) return null;
-      values[k] = div != null ? v / div[k]! : v;
+      values[k] = div !== null ? v / div[k]! : v;
       lli[k] = a;
       ssi[k] = b;
     }
@@ -374,10 +422,7 @@ class EpochParser {
     }
     // A header-info event may redefine the observation types (RINEX 3.05 5.3.3): applied from here on.
     if (hb.seen.has('SYS / # / OBS TYPES') || hb.seen.has('# / TYPES OF OBSERV')) {
-      for (const [s, list] of Object.entries(hb.obsCodes()) as [GnssSystem, string[]][]) {
-        this.codes[s] = list;
-        this.setDivisors(s, list);
-      }
+      for (const [s, list] of Object.entries(hb.obsCodes()) as [GnssSystem, string[]][]) this.setCodes(s, list);
     }
     const antennaOffset: AntennaOffset | null = hb.antennaOffset;
     return {
@@ -405,6 +450,13 @@ class ObsSlab {
   private u8 = new Uint8Array(0);
   private next = 0;
 
+  /** Lets go of the current slab (the views handed out keep their own). */
+  release(): void {
+    this.f64 = new Float64Array(0);
+    this.u8 = new Uint8Array(0);
+    this.next = 0;
+  }
+
   sat(sat: SatId, codes: readonly string[]): SatObservations {
     const n = codes.length;
     if (this.next + n > this.f64.length) {
@@ -426,32 +478,26 @@ class ObsSlab {
   }
 }
 
-const SAT_CACHE = new Map<string, SatId>();
+/** Satellite ids by system letter char code, then number 0-99; null = not a system letter (filled on first use). */
+const SAT_IDS: (SatId[] | null | undefined)[] = new Array<SatId[] | null | undefined>(128).fill(undefined);
 
-/** RINEX 3 satellite id in columns 1-3 (A1, I2.2); null when not a system letter + two digits. */
-function satId3(l: string): SatId | null {
-  const key = l.slice(0, 3);
-  const hit = SAT_CACHE.get(key);
-  if (hit !== undefined) return hit;
-  return normaliseSat(key);
-}
-
-/** RINEX 2 satellite at column `col` (A1, I2; blank system = GPS, RINEX 2.11 5.1). */
-function satId2(l: string, col: number): SatId | null {
-  const key = l.slice(col, col + 3);
-  const hit = SAT_CACHE.get(key);
-  if (hit !== undefined) return hit;
-  return normaliseSat(key);
-}
-
-function normaliseSat(key: string): SatId | null {
-  if (key.length < 3) return null;
-  const s = key.charAt(0) === ' ' ? 'G' : key.charAt(0);
-  if (!isGnssSystem(s)) return null;
-  const d1 = key.charCodeAt(1), d2 = key.charCodeAt(2);
-  const t = d1 === 32 ? 48 : d1;
-  if (t < 48 || t > 57 || d2 < 48 || d2 > 57) return null;
-  const id = s + String.fromCharCode(t, d2);
-  if (SAT_CACHE.size < 4096) SAT_CACHE.set(key, id);
-  return id;
+/**
+ * Satellite id at s[i, i+3) of a line ending at `end` (A1, I2; RINEX 3.05 table A3 / 2.11 table A2):
+ * a blank tens digit reads as 0; a blank system letter is GPS in RINEX 2 (RINEX 2.11 5.1), an error in 3.
+ * null when not a system letter + two digits.
+ */
+function satIdIn(s: string, i: number, end: number, blankIsGps: boolean): SatId | null {
+  if (i + 3 > end) return null;
+  let c0 = s.charCodeAt(i);
+  if (c0 === 32 && blankIsGps) c0 = 71;
+  const t1 = s.charCodeAt(i + 1);
+  const d1 = t1 === 32 ? 0 : t1 - 48, d2 = s.charCodeAt(i + 2) - 48;
+  if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || c0 > 127) return null;
+  let ids = SAT_IDS[c0];
+  if (ids === undefined) {
+    const sys = String.fromCharCode(c0);
+    ids = isGnssSystem(sys) ? Array.from({ length: 100 }, (_, k) => `${sys}${String(k).padStart(2, '0')}`) : null;
+    SAT_IDS[c0] = ids;
+  }
+  return ids === null ? null : ids[10 * d1 + d2]!;
 }

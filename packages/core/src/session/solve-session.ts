@@ -16,7 +16,7 @@ import { ProcessingError, type WarningSink } from '../errors.js';
 import { EphemerisStore, SPEED_OF_LIGHT_MS, type SatelliteAtTransmission } from '../orbit/index.js';
 import { satelliteForTag } from '../positioning/satellite-for-tag.js';
 import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
-import { decimalYearFromGpsS } from '../time/index.js';
+import { decimalYearFromGpsS, isoFromSeconds } from '../time/index.js';
 import { elevationVarianceM2, type ElevationWeightParams } from '../solve/index.js';
 import { solvePositionFix, type LinearRow } from '../positioning/position-fix.js';
 import { clockSignal } from '../positioning/signals.js';
@@ -120,7 +120,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       notes.push(sameReceiver ? `GLONASS used: both receivers report type '${rover.header.receiverType.trim()}', so inter-frequency code biases cancel` : 'GLONASS used by option (inter-frequency biases are assumed to cancel)');
     }
   }
-  for (const s of options.systems) if (!navSystems.has(s) && s !== 'R') notes.push(`${SYSTEM_NAMES[s]} not used: no ephemeris in the navigation files`);
+  for (const s of options.systems) if (!navSystems.has(s)) notes.push(`${SYSTEM_NAMES[s]} not used: no ephemeris in the navigation files`);
   if (systems.length === 0) throw new ProcessingError(`no navigation data for the constellations asked for (${options.systems.map((s) => SYSTEM_NAMES[s]).join(', ')})`);
 
   // Reference coordinate and frame.
@@ -180,6 +180,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   const byKind: Record<SolutionKind, number> = { differential: 0, smoothed: 0, standalone: 0, none: 0 };
   let roverEpochs = 0;
   let withoutCorrections = 0;
+  let epochsInReach = 0;
   let firstGpsS = NaN, lastGpsS = NaN;
   let refFirst = NaN, refLast = NaN;
   const systemsUsed = new Set<GnssSystem>();
@@ -187,26 +188,45 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   const refIter = joinReferenceStreams(inputs.references)[Symbol.asyncIterator]();
   let refDone = false;
   const lookaheadS = Math.min(maxAgeS, 35);
+  let currentRefHeader: ObsHeader = refHeader;
   async function pullReference(untilGpsS: number): Promise<void> {
     while (!refDone && corrections.latestTimeGpsS <= untilGpsS) {
       const r = await refIter.next();
       if (r.done) { refDone = true; break; }
       const e = r.value.epoch;
+      if (r.value.header !== currentRefHeader) {
+        // The next reference file: its own antenna record applies from its first epoch.
+        const h = r.value.header;
+        if (h.markerName.trim() && refHeader.markerName.trim() && h.markerName.trim() !== refHeader.markerName.trim()) {
+          warn({ file: r.value.file, code: 'reference-station-changed', message: `reference file ${r.value.file} is of marker '${h.markerName.trim()}', the first of '${refHeader.markerName.trim()}': all reference files must be of one station` });
+        }
+        const a = h.antennaOffset, b = refAntenna;
+        if (!options.reference.antenna && (a.heightM !== b.heightM || a.eastM !== b.eastM || a.northM !== b.northM)) {
+          refAntenna = a;
+          refArp = markToArp(refMark, refAntenna);
+          notes.push(`reference antenna height ${refAntenna.heightM} m from ${r.value.file}`);
+        }
+        currentRefHeader = h;
+      }
       if (e.event) {
+        if (e.event.kind === 'new-occupation' || e.event.kind === 'start-moving') {
+          throw new ProcessingError(`${r.value.file}:${e.line}: the reference receiver ${e.event.kind === 'start-moving' ? 'starts moving' : 'moves to a new site'} (epoch flag ${e.flag}); a reference must stay on its known point`);
+        }
         if (e.event.antennaOffset && !options.reference.antenna) {
           refAntenna = e.event.antennaOffset;
           refArp = markToArp(refMark, refAntenna);
-          notes.push(`reference antenna height changed to ${refAntenna.heightM} m at ${e.tagGpsS}`);
+          notes.push(`reference antenna height changed to ${refAntenna.heightM} m at ${isoFromSeconds(e.tagGpsS, ' GPST')} (${r.value.file}:${e.line})`);
         }
         if (e.flag === 1) refSmoother?.reset();
         if (e.sats.length === 0) continue;
       }
-      if (e.flag > 1 && e.flag !== 6) continue;
-      if (e.flag === 6) continue;
+      if (e.flag > 1) continue;
       if (Number.isNaN(refFirst)) refFirst = e.tagGpsS;
       refLast = e.tagGpsS;
       const smoothed = refSmoother?.update(e);
       corrections.addEpoch(e, refArp, smoothed);
+      // Bounded memory: nothing older than the age limit before the rover's time is kept.
+      corrections.prune(untilGpsS - lookaheadS, maxAgeS + 2);
     }
   }
 
@@ -220,6 +240,10 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   function speedAt(e: ObsEpoch, at: EcefM, satellites?: ReadonlyMap<SatId, SatelliteAtTransmission>): number {
     const v = dopplerVelocity(e, at, store, { systems, elevationMaskRad: maskRad, glonassChannels, ...(satellites ? { satellites } : {}) });
     return v ? v.speedMS : NaN;
+  }
+
+  function noSolutionSatellite(sat: SatId, reason: string): SatelliteResidual {
+    return { sat, signal: '', elevationDeg: NaN, azimuthDeg: NaN, residualM: NaN, weight: 0, wTest: NaN, used: false, reason };
   }
 
   function none(e: ObsEpoch, reason: string, satellites: SatelliteResidual[], ageS = NaN): EpochSolution {
@@ -274,12 +298,23 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   }
 
   function solveEpoch(e: ObsEpoch, smoothed: Map<SatId, Map<string, number>> | undefined): EpochSolution {
+    const nearestS = corrections.nearestEpochS(e.tagGpsS);
+    if (nearestS > maxAgeS + 1) {
+      withoutCorrections++;
+      const why = Number.isFinite(nearestS)
+        ? `no reference epoch within the correction age limit (nearest ${Math.round(nearestS)} s, limit ${maxAgeS} s)`
+        : 'no reference epoch within the correction age limit (none read near this time)';
+      const sats = e.sats.map((x) => noSolutionSatellite(x.sat, why));
+      for (const x of sats) satRejections.add(x.reason);
+      return standaloneOr(e, why, sats, NaN);
+    }
+    epochsInReach++;
     const reasons = new Map<SatId, { signal: string; reason: string }>();
     const prepared: Prepared[] = [];
     for (const s of e.sats) {
       const system = satSystem(s.sat);
       if (!systems.includes(system)) {
-        reasons.set(s.sat, { signal: '', reason: options.systems.includes(system) ? (system === 'R' ? 'GLONASS excluded (receivers not known to match)' : 'no ephemeris for this constellation') : 'constellation not selected' });
+        reasons.set(s.sat, { signal: '', reason: !options.systems.includes(system) ? 'constellation not selected' : !navSystems.has(system) ? 'no ephemeris for this constellation' : 'GLONASS excluded by option' });
         continue;
       }
       const roverCodes = primaryCodes(system, s);
@@ -298,6 +333,10 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       if (!Number.isFinite(codeM)) { reasons.set(s.sat, { signal: code, reason: 'smoothing filter not ready' }); continue; }
       const at = satelliteForTag(sel.eph, e.tagGpsS, codeM, Number.isFinite(lastClockM) ? lastClockM : 0, null, clockSignal(system, code[1]));
       const k = system === 'R' ? glonassChannels.get(Number(s.sat.slice(1))) : undefined;
+      if (system === 'R' && k === undefined && channelOffsets) {
+        reasons.set(s.sat, { signal: code, reason: 'no GLONASS frequency channel (in neither header nor navigation file): its code offset cannot be estimated' });
+        continue;
+      }
       prepared.push({
         sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, at, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
         frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: signalStrengthDbHz(s, code), channel: k,
@@ -310,16 +349,19 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const clockSamples = prepared.map((p) => p.codeM - Math.hypot(p.satPos.x - x0.x, p.satPos.y - x0.y, p.satPos.z - x0.z) + p.satClockM);
     const clockM = median(clockSamples);
     const timeGpsS = e.tagGpsS - (Number.isFinite(clockM) ? clockM / SPEED_OF_LIGHT_MS : 0);
-    const assumedClockM = Number.isFinite(lastClockM) ? lastClockM : 0;
-    if (Number.isFinite(clockM) && Math.abs(clockM - assumedClockM) > 30) {
-      // The clock moved (first epoch, or a millisecond step): redo the Earth rotation with the new estimate.
+    let satellitesClockM = Number.isFinite(lastClockM) ? lastClockM : 0;
+    /** Redoes the satellites' Earth rotation for a receiver clock (positioning/satellite-for-tag.ts). */
+    const recomputeSatellites = (rxClockM: number): void => {
       for (const p of prepared) {
-        const at = satelliteForTag(p.eph, e.tagGpsS, p.codeM, clockM, null, clockSignal(p.system, p.code[1]));
+        const at = satelliteForTag(p.eph, e.tagGpsS, p.codeM, rxClockM, null, clockSignal(p.system, p.code[1]));
         p.satPos = at.posM;
         p.at = at;
         p.satClockM = SPEED_OF_LIGHT_MS * at.clock.offsetS;
       }
-    }
+      satellitesClockM = rxClockM;
+    };
+    // The clock moved (first epoch, or a millisecond step): redo the Earth rotation with the new estimate.
+    if (Number.isFinite(clockM) && Math.abs(clockM - satellitesClockM) > 30) recomputeSatellites(clockM);
     const usable: Prepared[] = [];
     let maxAge = 0;
     for (const p of prepared) {
@@ -332,6 +374,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const doy = dayOfYear(e.tagGpsS);
     const geometry = new Map<SatId, { el: number; az: number }>();
     const belowMask = new Set<SatId>();
+    const belowMaskRef = new Set<SatId>();
     // Elevation, atmosphere and weights depend on the position only through metres-scale changes of the
     // look angles: they are computed at the first estimate and again only when the estimate has moved
     // by more than 100 m (iterations from a far start).
@@ -358,6 +401,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       const g = ecefToGeodetic(lookAt);
       const rows: LinearRow[] = [];
       belowMask.clear();
+      belowMaskRef.clear();
       for (const p of usable) {
         if (excluded.has(p.sat)) continue;
         const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;
@@ -365,6 +409,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
         const look = lookOf(p, lookAt, g);
         geometry.set(p.sat, { el: look.el, az: look.az });
         if (look.el < maskRad) { belowMask.add(p.sat); continue; }
+        if (p.elevationRefRad < maskRad) { belowMaskRef.add(p.sat); continue; }
         const tropo = look.tropoM;
         const iono = look.ionoM;
         const variance = look.varianceM2;
@@ -381,7 +426,16 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       }
       return rows;
     };
-    const fix = usable.length > 0 ? solvePositionFix(build, x0, fixOptions) : null;
+    let fix = usable.length > 0 ? solvePositionFix(build, x0, fixOptions) : null;
+    if (fix && fix.ok) {
+      // The clock from the code at x0 can be off when x0 is far (first epoch of a long baseline): with the
+      // solved clock, redo the satellites once.
+      const solvedClockM = fix.clocksM.values().next().value ?? satellitesClockM;
+      if (Math.abs(solvedClockM - satellitesClockM) > 30) {
+        recomputeSatellites(solvedClockM);
+        fix = solvePositionFix(build, fix.positionM, fixOptions);
+      }
+    }
     const usedBySat = new Map(fix && fix.ok ? fix.used.map((u) => [u.row.sat, u] as const) : []);
     const rejBySat = new Map(fix ? fix.rejected.map((r) => [r.sat, r] as const) : []);
     const satellites: SatelliteResidual[] = [];
@@ -392,8 +446,9 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       const geo = geometry.get(s.sat);
       const u = usedBySat.get(s.sat);
       const rej = rejBySat.get(s.sat);
-      const maskReason = belowMask.has(s.sat) && geo ? `below elevation mask (${(geo.el / DEG).toFixed(1)} deg)` : undefined;
-      const reason = pre?.reason ?? maskReason ?? rej?.reason ?? (u ? '' : fix && !fix.ok ? `no solution: ${fix.reason}` : 'not used');
+      const maskReason = belowMask.has(s.sat) && geo ? `below elevation mask (${(geo.el / DEG).toFixed(1)} deg)`
+        : belowMaskRef.has(s.sat) && p ? `below elevation mask at the reference (${(p.elevationRefRad / DEG).toFixed(1)} deg)` : undefined;
+      const reason = pre?.reason ?? maskReason ?? rej?.reason ?? (u ? '' : fix && !fix.ok ? `no solution (${fix.reason})` : 'not used');
       if (!u) satRejections.add(reason);
       satellites.push({
         sat: s.sat, signal: p?.code ?? pre?.signal ?? '',
@@ -403,12 +458,14 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       });
     }
     if (usable.length === 0) {
-      withoutCorrections++;
-      return standaloneOr(e, prepared.length === 0 ? 'no usable satellites' : 'no reference corrections within the age limit', satellites, NaN);
+      return standaloneOr(e, prepared.length === 0 ? 'no usable satellite (see the satellite reasons)' : 'no satellite with a reference correction (see the satellite reasons)', satellites, NaN);
     }
-    if (!fix || !fix.ok) return standaloneOr(e, `no differential solution: ${fix ? fix.reason : 'no satellites'}`, satellites, maxAge);
+    if (!fix || !fix.ok) return standaloneOr(e, `no differential solution (${fix ? fix.reason : 'no satellites'})`, satellites, maxAge);
     if (fix.dops && fix.dops.pdop > options.quality.maxPdop) {
-      return standaloneOr(e, `PDOP ${fix.dops.pdop.toFixed(1)} above the limit ${options.quality.maxPdop}`, satellites, maxAge);
+      const why = `PDOP above the limit (${fix.dops.pdop.toFixed(1)} > ${options.quality.maxPdop})`;
+      const unused = satellites.map((x) => (x.used ? { ...x, used: false, weight: 0, reason: `epoch rejected: ${why}` } : x));
+      for (const x of satellites) if (x.used) satRejections.add(`epoch rejected: ${why}`);
+      return standaloneOr(e, why, unused, maxAge);
     }
     lastPosition = fix.positionM;
     if (channelOffsets) learnChannelOffsets(channelOffsets, build, fix.positionM, new Set(fix.rejected.map((r) => r.sat)), usable);
@@ -417,7 +474,9 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const arp = fix.positionM;
     const pos = options.reduceToMark ? arpToMark(arp, roverAntenna) : arp;
     const g = ecefToGeodetic(pos);
-    const baselineEcef = { x: pos.x - refMark.x, y: pos.y - refMark.y, z: pos.z - refMark.z };
+    // Baseline between like points: ground mark to ground mark, or antenna to antenna with --at-antenna.
+    const refPoint = options.reduceToMark ? refMark : refArp;
+    const baselineEcef = { x: pos.x - refPoint.x, y: pos.y - refPoint.y, z: pos.z - refPoint.z };
     const gRef = ecefToGeodetic(refMark);
     const baselineEnu = ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad);
     const clocks: Partial<Record<GnssSystem, number>> = {};
@@ -425,7 +484,9 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const position: FramedEcef = { ecef: pos, frame: frameOfResult };
     return {
       tagGpsS: e.tagGpsS, timeGpsS: e.tagGpsS - firstClock / SPEED_OF_LIGHT_MS,
-      kind: smoothOn ? 'smoothed' : 'differential', reason: '', pointName,
+      kind: smoothOn ? 'smoothed' : 'differential',
+      reason: fix.test.dof > 0 && !fix.test.passed ? `global test failed after data snooping (${fix.test.statistic.toFixed(1)} > ${fix.test.critical.toFixed(1)})` : '',
+      pointName,
       position, geodetic: g, pointReference: options.reduceToMark ? 'ground-mark' : 'antenna-reference-point',
       baselineEcef, baselineEnu, relativeClockM: clocks, satellitesUsed: fix.used.length,
       dops: fix.dops, sigmaEnuM: fix.sigmaEnuM,
@@ -444,7 +505,8 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const glonass = new Set(usable.filter((p) => p.system === 'R').map((p) => p.sat));
     const buildWithoutGlonass = (x: EcefM, ex: ReadonlySet<SatId>) => build(x, new Set([...ex, ...glonass, ...rejected]));
     const withoutGlonass = solvePositionFix(buildWithoutGlonass, at, { ...fixOptions, maxRejections: 0, minSatellites: 4 });
-    if (!withoutGlonass.ok) return;
+    // Only a fix with redundancy that passes its test may teach the offsets.
+    if (!withoutGlonass.ok || withoutGlonass.test.dof < 2 || !withoutGlonass.test.passed) return;
     // Rows at the GLONASS-free position; exclude the non-GLONASS ones and the rejected satellites.
     const excluded = new Set<SatId>([...rejected]);
     for (const p of usable) if (p.system !== 'R') excluded.add(p.sat);
@@ -469,7 +531,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
         if (e.flag === 1) roverSmoother?.reset();
       }
       if (e.flag !== 0 && e.flag !== 1) continue;
-      if (e.sats.length === 0) continue;
+      if (e.sats.length === 0 && e.event) continue;
       roverEpochs++;
       if (Number.isNaN(firstGpsS)) firstGpsS = e.tagGpsS;
       lastGpsS = e.tagGpsS;
@@ -478,7 +540,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       const smoothed = roverSmoother?.update(e);
       let sol: EpochSolution;
       try {
-        sol = solveEpoch(e, smoothed);
+        sol = e.sats.length === 0 ? none(e, 'no satellites in the epoch', []) : solveEpoch(e, smoothed);
       } catch (err) {
         const msg = err instanceof Error ? err.message : String(err);
         warn({ file: rover.file, line: e.line, code: 'epoch-failed', message: `epoch at line ${e.line} could not be solved: ${msg}` });
@@ -489,9 +551,9 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       if (sol.kind !== 'differential' && sol.kind !== 'smoothed') epochRejections.add(sol.reason || sol.kind);
       yield sol;
     }
-    if (roverEpochs > 0 && byKind.differential + byKind.smoothed === 0 && withoutCorrections === roverEpochs) {
-      const span = (a: number, b: number) => (Number.isNaN(a) ? 'no epochs' : `${(a / 3600 % 24).toFixed(2)} h to ${(b / 3600 % 24).toFixed(2)} h GPS`);
-      throw new ProcessingError(`the rover and reference observations do not overlap in time (rover ${span(firstGpsS, lastGpsS)}, reference ${span(refFirst, refLast)})`);
+    if (roverEpochs > 0 && epochsInReach === 0) {
+      const span = (a: number, b: number) => (Number.isNaN(a) ? 'no epochs' : `${isoFromSeconds(a, ' GPST')} to ${isoFromSeconds(b, ' GPST')}`);
+      throw new ProcessingError(`the rover and reference observations do not overlap in time (rover ${span(firstGpsS, lastGpsS)}, reference ${span(refFirst, refLast)}, correction age limit ${maxAgeS} s)`);
     }
   }
 

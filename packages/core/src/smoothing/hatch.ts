@@ -67,6 +67,7 @@ const LLI_LOST_LOCK_BIT = 1; // RINEX 2.11 5.1 / RINEX 3.05 5.3: bit 0 = lost lo
 
 export class CarrierSmoother {
   readonly maxN: number;
+  readonly timeConstantS: number;
   readonly gapThresholdS: number;
   readonly codeCarrierJumpM: number;
   readonly clockJumpToleranceM: number;
@@ -78,6 +79,7 @@ export class CarrierSmoother {
     const tau = opts.timeConstantS ?? 100;
     if (!(tau > 0)) throw new RangeError(`CarrierSmoother: timeConstantS ${tau} must be > 0`);
     this.maxN = Math.max(1, Math.round(tau / opts.intervalS));
+    this.timeConstantS = tau;
     // small slack so a nominal interval with jittered time tags is not a gap
     this.gapThresholdS = opts.gapThresholdS ?? 2 * opts.intervalS + 1e-3;
     this.codeCarrierJumpM = opts.codeCarrierJumpM ?? 10;
@@ -142,8 +144,11 @@ export class CarrierSmoother {
         if (Math.abs(innovation) > this.codeCarrierJumpM) {
           reason = `code-minus-carrier jump of ${innovation.toFixed(2)} m (cycle slip)`;
         } else {
+          // Weight of the new code: 1/n while the filter fills, then dt/tau, so the time constant is in
+          // seconds whatever the logging interval (irregular epochs included): R = w P + (1 - w) prediction.
           const n = Math.min(st.n + 1, this.maxN);
-          const smoothedM = o.codeM / n + ((n - 1) / n) * predicted;
+          const w = Math.min(1, Math.max(1 / n, (epochTimeS - st.timeS) / this.timeConstantS));
+          const smoothedM = w * o.codeM + (1 - w) * predicted;
           st.n = n; st.smoothedM = smoothedM; st.codeM = o.codeM; st.phaseM = phaseM; st.timeS = epochTimeS;
           out[i] = note ? { sat: o.sat, smoothedM, n, restarted: false, reason: note } : { sat: o.sat, smoothedM, n, restarted: false };
           continue;

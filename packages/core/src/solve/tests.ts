@@ -19,7 +19,6 @@ export interface GlobalTestResult {
   readonly passed: boolean;
 }
 
-/** Overall model test (Teunissen 2000, 3.2): reject H0 when v'Pv / sigma0^2 > chi2_{1-alpha}(dof). */
 /** Quantiles are needed once per (level, dof) but asked for every epoch: remembered. */
 const chiSquareCritical = new Map<string, number>();
 const normalCritical = new Map<number, number>();
@@ -37,6 +36,7 @@ function normalCriticalValue(alpha: number): number {
   return v;
 }
 
+/** Overall model test (Teunissen 2000, 3.2): reject H0 when v'Pv / sigma0^2 > chi2_{1-alpha}(dof). */
 export function globalTest(vtpv: number, dof: number, alpha: number, sigma0Apriori = 1): GlobalTestResult {
   const statistic = vtpv / (sigma0Apriori * sigma0Apriori);
   if (dof <= 0) return { statistic, dof, critical: NaN, passed: true };

@@ -20,7 +20,7 @@ import { elevationVarianceM2, strengthToDbHz, type ElevationWeightParams } from 
 import { solvePositionFix, DEFAULT_FIX_OPTIONS, type FixOptions, type LinearRow, type PositionFix, type FixFailure } from '../positioning/position-fix.js';
 import { PRIMARY_BAND, SECONDARY_BANDS, clockSignal } from '../positioning/signals.js';
 import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
-import type { SatelliteResidual } from '../session/solution-types.js';
+import type { SatelliteResidual } from '../positioning/satellite-residual.js';
 import { GLONASS_CODE_BIAS_SIGMA_M, glonassCodeBiasVarianceM2 } from './fdma-code-bias.js';
 
 export type StandaloneMode = 'ionosphere-free' | 'single-frequency';
