@@ -142,7 +142,8 @@ export function parseNavHeader(file: string, lines: readonly string[], onWarning
     } else if (label === 'LEAP SECONDS') {
       const n = Number(line.substring(0, 6).trim());
       if (line.substring(0, 6).trim() === '' || !Number.isInteger(n)) { bad(i, 'the number of leap seconds (I6)'); continue; }
-      leapSeconds ??= n;
+      // RINEX 3.04+: marked BDS (columns 25-27) it is BDT - UTC = GPS - UTC - 14 s.
+      leapSeconds ??= line.substring(24, 27).trim() === 'BDS' ? n + 14 : n;
     }
   }
   if (i >= lines.length) {

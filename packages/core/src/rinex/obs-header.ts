@@ -186,7 +186,12 @@ export class ObsHeaderBuilder {
       }
       case 'SYS / SCALE FACTOR': return this.scale(line, lineNo);
       case 'RCV CLOCK OFFS APPL': this.clockOffsetApplied = parseIntField(line, 0, 6) === 1; return;
-      case 'LEAP SECONDS': { const v = parseIntField(line, 0, 6); if (Number.isFinite(v)) this.leapSeconds = v; return; }
+      case 'LEAP SECONDS': {
+        // RINEX 3.04+: a record marked BDS (columns 25-27) gives BDT - UTC, i.e. GPS - UTC less 14 s (BDT = GPST - 14 s).
+        const v = parseIntField(line, 0, 6);
+        if (Number.isFinite(v)) this.leapSeconds = line.substring(24, 27).trim() === 'BDS' ? v + 14 : v;
+        return;
+      }
       case 'WAVELENGTH FACT L1/2': return; // RINEX 2 only: accepted, not needed for code processing
       case '# OF SATELLITES': case 'PRN / # OF OBS': return; // describe the original data; not kept (the writer omits them)
       default:
@@ -311,6 +316,17 @@ export class ObsHeaderBuilder {
     }
     const ts: TimeSystem = this.firstObs?.ts ?? defaultTimeSystem(this.systemField);
     const conv = (t: { calendarS: number; ts: TimeSystem | null } | null) => (t === null ? null : toGpsS(t.calendarS, t.ts ?? ts));
+    const firstGpsS = conv(this.firstObs);
+    const pgm = this.otherRecords.find((l) => l.slice(60).trim() === 'PGM / RUN BY / DATE');
+    const createdGpsS = pgm ? programDateSeconds(pgm.slice(40, 60)) : null;
+    if (firstGpsS !== null && createdGpsS !== null) {
+      // A receiver that lost track of the 10-bit GPS week (IS-GPS-200 20.3.3.3.1.1) dates its data
+      // exactly 1024 weeks (19.6 years) early.
+      const weeksEarly = (createdGpsS - firstGpsS) / 604800;
+      if (weeksEarly > 1020 && weeksEarly < 1030) {
+        this.warn({ file: this.file, line: 0, code: 'week-rollover', message: `the observations are dated ${Math.round(weeksEarly)} weeks before the file was made (${pgm!.slice(40, 60).trim()}): a receiver week-rollover fault? Times are used as written` });
+      }
+    }
     return {
       version: this.version,
       fileType: 'O',
@@ -341,4 +357,22 @@ export class ObsHeaderBuilder {
       otherRecords: this.otherRecords,
     };
   }
+}
+
+const MONTHS = ['JAN', 'FEB', 'MAR', 'APR', 'MAY', 'JUN', 'JUL', 'AUG', 'SEP', 'OCT', 'NOV', 'DEC'];
+
+/**
+ * The file-creation date of a PGM / RUN BY / DATE record (columns 41-60): 'yyyymmdd hhmmss zone'
+ * (RINEX 3) or 'dd-MMM-yy hh:mm' (RINEX 2), as seconds on the GPS-epoch calendar; null when unreadable.
+ */
+export function programDateSeconds(field: string): number | null {
+  const f = field.trim().toUpperCase();
+  let m = /^(\d{4})(\d{2})(\d{2})\s+(\d{2})(\d{2})(\d{2})/.exec(f);
+  if (m) return secondsFromCalendar({ year: +m[1], month: +m[2], day: +m[3], hour: +m[4], minute: +m[5], second: +m[6] });
+  m = /^(\d{1,2})-([A-Z]{3})-(\d{2,4})\s+(\d{1,2}):(\d{2})/.exec(f);
+  if (m && MONTHS.includes(m[2])) {
+    const y = +m[3] < 100 ? (+m[3] >= 80 ? 1900 + +m[3] : 2000 + +m[3]) : +m[3];
+    return secondsFromCalendar({ year: y, month: MONTHS.indexOf(m[2]) + 1, day: +m[1], hour: +m[4], minute: +m[5], second: 0 });
+  }
+  return null;
 }
