@@ -6,21 +6,22 @@
  * and geoid heights; points.csv and points.geojson written atomically into --out.
  */
 import { readFile } from 'node:fs/promises';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
 import {
   DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE,
   loadEgm96, makeProjection, parseGeoidGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
   pointsPreamble, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
-  type EcefM, type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type PointEpoch,
-  type PointReference, type Projection,
+  type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
+  type PointReference, type PointResult, type Projection,
 } from '@refdelta/core';
-import { openObs, requireFile, writeFileAtomic } from '../node-io.js';
+import { requireFile } from '../node-io.js';
 import { parseNumber } from '../parse-values.js';
 import { Reporter } from '../reporter.js';
 import { EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
 import { UsageError } from '../usage-error.js';
-import { runSolve, type SolveArgs } from './solve.js';
+import { parseSlantGeometry, type SlantGeometry } from '../solve-options.js';
+import { commitStagedSolve, outputNames, reportSolveCounts, stageSolve, type SolveArgs } from './solve.js';
 
 export interface PointsArgs extends SolveArgs {
   readonly windows?: unknown;
@@ -35,14 +36,13 @@ export const POINTS_FILE_NAMES = { csv: 'points.csv', geojson: 'points.geojson' 
 interface Collected {
   readonly epochs: PointEpoch[];
   readonly marks: EpochMark[];
-  /** tag -> position of epochs with a position (for the Doppler pass). */
   frame: FrameEpoch | null;
   pointReference: PointReference;
 }
 
 function collect(c: Collected, s: EpochSolution): void {
   if (s.position && s.kind !== 'none') {
-    c.epochs.push({ tagGpsS: s.tagGpsS, ecef: s.position.ecef, kind: s.kind, pdop: s.dops?.pdop ?? NaN, antennaHeightM: s.antennaHeightM });
+    c.epochs.push({ tagGpsS: s.tagGpsS, ecef: s.position.ecef, kind: s.kind, pdop: s.dops?.pdop ?? NaN, antennaHeightM: s.antennaHeightM, frame: s.position.frame });
     if (!c.frame && s.kind !== 'standalone') c.frame = s.position.frame;
   }
   c.pointReference = s.pointReference;
@@ -59,85 +59,148 @@ async function loadGeoid(spec: string): Promise<GeoidModel> {
   return parseGeoidGrid(spec, await readFile(spec, 'utf8'));
 }
 
-export async function runPoints(a: PointsArgs, rep: Reporter): Promise<number> {
-  // 1. Own options, checked before the run.
-  const tolH = a.toleranceH === undefined ? DEFAULT_POINT_TOLERANCE_H_M : parseNumber('tolerance-h', a.toleranceH, 0, 1000);
-  const tolV = a.toleranceV === undefined ? DEFAULT_POINT_TOLERANCE_V_M : parseNumber('tolerance-v', a.toleranceV, 0, 1000);
-  const projSpec = a.projection === undefined ? undefined : String(a.projection);
-  if (projSpec !== undefined) {
-    try { resolveProjectionSpec(projSpec, { latDeg: 0, lonDeg: 0 }); } catch (e) { throw new UsageError(`--projection ${projSpec}: ${e instanceof Error ? e.message : String(e)}`); }
+/** The options of `points` checked once before any run (a batch checks them once for all sessions). */
+export interface PointsConfig {
+  readonly toleranceHM: number;
+  readonly toleranceVM: number;
+  readonly projectionSpec?: string;
+  readonly geoidSpec?: string;
+  readonly slant?: SlantGeometry;
+  readonly windowsFile?: string;
+  readonly windows?: readonly OccupationWindow[];
+  /** The geoid model, loaded on first use and kept. */
+  readonly geoid: () => Promise<GeoidModel | undefined>;
+}
+
+export async function parsePointsConfig(a: PointsArgs): Promise<PointsConfig> {
+  const toleranceHM = a.toleranceH === undefined ? DEFAULT_POINT_TOLERANCE_H_M : parseNumber('tolerance-h', a.toleranceH, 0, 1000);
+  const toleranceVM = a.toleranceV === undefined ? DEFAULT_POINT_TOLERANCE_V_M : parseNumber('tolerance-v', a.toleranceV, 0, 1000);
+  const projectionSpec = a.projection === undefined ? undefined : String(a.projection);
+  if (projectionSpec !== undefined) {
+    try { resolveProjectionSpec(projectionSpec, { latDeg: 0, lonDeg: 0 }); } catch (e) { throw new UsageError(`--projection ${projectionSpec}: ${e instanceof Error ? e.message : String(e)}`); }
   }
   const geoidSpec = a.geoid === undefined ? undefined : String(a.geoid);
   if (geoidSpec !== undefined && geoidSpec.toLowerCase() !== 'egm96') await requireFile(geoidSpec);
-  const radiusM = a.antennaRadius === undefined ? undefined : parseNumber('antenna-radius', a.antennaRadius, 0, 1);
+  const slant = parseSlantGeometry(a);
   let windows: OccupationWindow[] | undefined;
+  let windowsFile: string | undefined;
   if (a.windows !== undefined) {
-    const wf = String(a.windows);
-    await requireFile(wf);
-    windows = parseOccupationCsv(wf, await readFile(wf, 'utf8'));
-    if (windows.length === 0) throw new UsageError(`--windows ${wf} holds no occupation window`);
-    if (windows.some((w) => w.heightKind === 'slant') && radiusM === undefined) throw new UsageError(`--windows ${wf} has slant heights: give --antenna-radius M`);
+    windowsFile = String(a.windows);
+    await requireFile(windowsFile);
+    windows = parseOccupationCsv(windowsFile, await readFile(windowsFile, 'utf8'));
+    if (windows.length === 0) throw new UsageError(`--windows ${windowsFile} holds no occupation window`);
+    if (windows.some((w) => w.heightKind === 'slant') && slant === undefined) throw new UsageError(`--windows ${windowsFile} has slant heights: give --antenna-radius M (and --slant-offset M when the ARP is not at the height of the measuring point)`);
   }
-
-  // 2. The solve run, with its per-epoch outputs.
-  const c: Collected = { epochs: [], marks: [], frame: null, pointReference: a.atAntenna === true ? 'antenna-reference-point' : 'ground-mark' };
-  const solved = await runSolve(a, rep, { command: 'points', onEpoch: (s) => collect(c, s) });
-  if (solved.exitCode !== EXIT_OK) return solved.exitCode;
-
-  // 3. Occupations.
-  const roverHeader = (await openObs(a.rover, () => {})).header;
-  const marks = c.marks;
-  const hasEvents = marks.some((m) => m.event);
-  if (!windows && !hasEvents) {
-    const withSpeed = marks.filter((m) => Number.isFinite(m.speedMS)).length;
-    rep.info(`static detection on the Doppler speed of ${withSpeed} of ${marks.length} epochs (a point starts below ${DEFAULT_STATIC_DETECTION.enterBelowMS} m/s and ends above ${DEFAULT_STATIC_DETECTION.leaveAboveMS} m/s)`);
-  }
-  const occupations = splitOccupations({ epochs: marks, ...(windows ? { windows } : {}), initialMarkerName: roverHeader.markerName }, { onWarning: rep.warn });
-  if (occupations.length === 0) {
-    const why = windows ? 'no window holds an epoch' : hasEvents ? 'the event flags mark no occupation' : 'no static span was found in the Doppler speed (or the rover file has no Doppler)';
-    rep.failure(`no point found: ${why}; give the occupation times with --windows FILE`, EXIT_PROCESSING);
-    return EXIT_PROCESSING;
-  }
-  const frame = c.frame ?? { name: 'WGS84 (broadcast orbits)', epochYear: NaN };
-  const outcome = summariseOccupations(c.epochs, occupations, {
-    pointReference: c.pointReference, frame, horizontalToleranceM: tolH, verticalToleranceM: tolV,
-    ...(radiusM !== undefined ? { antenna: { radiusM } } : {}),
-  });
-  for (const o of outcome.empty) rep.warn({ code: 'occupation-without-solution', message: `occupation ${o.name} (${o.source}) has no solved epoch: no point written` });
-  if (outcome.points.length === 0) {
-    rep.failure('no point could be computed: none of the occupations has a solved epoch', EXIT_PROCESSING);
-    return EXIT_PROCESSING;
-  }
-
-  // 4. Projection and geoid.
-  let projection: Projection | undefined;
-  if (projSpec !== undefined) {
-    const g = outcome.points[0].summary.meanGeodetic;
-    projection = makeProjection(projSpec, { latDeg: radToDeg(g.latRad), lonDeg: radToDeg(g.lonRad) });
-  }
-  const geoid = geoidSpec !== undefined ? await loadGeoid(geoidSpec) : undefined;
-
-  // 5. The files.
-  const table = {
-    frame, horizontalToleranceM: tolH, verticalToleranceM: tolV,
-    ...(projection ? { projection } : {}), ...(geoid ? { geoid } : {}),
-    notes: [`occupations from ${occupations[0].source === 'windows' ? `the windows file ${String(a.windows)}` : occupations[0].source === 'events' ? 'the RINEX event flags of the rover file' : 'static detection on the Doppler speed'}`],
+  let geoid: Promise<GeoidModel> | undefined;
+  return {
+    toleranceHM, toleranceVM, slant,
+    ...(projectionSpec !== undefined ? { projectionSpec } : {}), ...(geoidSpec !== undefined ? { geoidSpec } : {}),
+    ...(windows ? { windows, windowsFile } : {}),
+    geoid: () => (geoidSpec === undefined ? Promise.resolve(undefined) : (geoid ??= loadGeoid(geoidSpec))),
   };
-  const outDir = resolve(a.out);
-  const csvPath = join(outDir, POINTS_FILE_NAMES.csv);
-  const gjPath = join(outDir, POINTS_FILE_NAMES.geojson);
-  const rows = outcome.points.map((p) => pointRow(p, table));
-  const csv = pointsPreamble(table).join('\n') + '\n' + stringify([pointsColumns(table), ...rows], { record_delimiter: 'unix' });
-  const w1 = await writeFileAtomic(csvPath, [csv]);
-  const w2 = await writeFileAtomic(gjPath, [JSON.stringify(pointsGeoJson(outcome.points, table), null, 1) + '\n']);
-  for (const w of [w1, w2]) rep.event('output', { kind: w.path === csvPath ? 'points' : 'points-geojson', path: w.path, bytes: w.bytes, sha256: w.sha256 });
-  if (geoid && /egm96/i.test(geoid.name)) rep.info(`note: ${EGM96_NOT_A_DATUM_NOTE}`);
-  for (const p of outcome.points) {
-    const g = p.summary.meanGeodetic;
-    rep.info(`point ${p.name} (${p.source}): ${p.summary.epochs} epochs, ${radToDeg(g.latRad).toFixed(8)} ${radToDeg(g.lonRad).toFixed(8)} ${g.heightM.toFixed(3)} m, ` +
-      `sigma mean E/N/U ${p.summary.sigmaMeanEastM.toFixed(3)}/${p.summary.sigmaMeanNorthM.toFixed(3)}/${p.summary.sigmaMeanUpM.toFixed(3)} m, ${p.tolerance}`);
+}
+
+/** What one `points` run gave: the per-point rows (for a batch table) and the files committed. */
+export interface PointsSessionOutcome {
+  readonly outDir: string;
+  readonly roverEpochs: number;
+  readonly solvedEpochs: number;
+  /** The sentence of a run that wrote nothing (no epoch solved, no point found), else null. */
+  readonly failure: string | null;
+  readonly points: readonly PointResult[];
+  readonly columns: readonly string[];
+  readonly rows: readonly (readonly string[])[];
+  readonly outputs: readonly OutputFileRecord[];
+}
+
+/**
+ * One `points` run: the solve run staged, occupations, per-point means, then the solve outputs, points.csv,
+ * points.geojson and summary.json committed as one set. A run without a solved epoch or without a
+ * point commits nothing (earlier outputs stay) and returns its sentence in `failure`; input problems
+ * are thrown (InputError, ProcessingError) as by solve.
+ */
+export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Reporter, command = 'points'): Promise<PointsSessionOutcome> {
+  const c: Collected = { epochs: [], marks: [], frame: null, pointReference: a.atAntenna === true ? 'antenna-reference-point' : 'ground-mark' };
+  const st = await stageSolve(a, rep, { command, onEpoch: (s) => collect(c, s) });
+  const failed = (failure: string): PointsSessionOutcome => ({
+    outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure, points: [], columns: [], rows: [], outputs: [],
+  });
+  try {
+    reportSolveCounts(st, rep);
+    if (st.failure) {
+      await st.set.abort();
+      return failed(st.failure);
+    }
+
+    // Occupations.
+    const marks = c.marks;
+    const hasEvents = marks.some((m) => m.event);
+    if (!cfg.windows && !hasEvents) {
+      const withSpeed = marks.filter((m) => Number.isFinite(m.speedMS)).length;
+      rep.info(`static detection on the Doppler speed of ${withSpeed} of ${marks.length} epochs (a point starts below ${DEFAULT_STATIC_DETECTION.enterBelowMS} m/s and ends above ${DEFAULT_STATIC_DETECTION.leaveAboveMS} m/s)`);
+    }
+    const occupations = splitOccupations({ epochs: marks, ...(cfg.windows ? { windows: cfg.windows } : {}), initialMarkerName: st.roverHeader.markerName }, { onWarning: rep.warn });
+    if (occupations.length === 0) {
+      const why = cfg.windows ? 'no window holds an epoch' : hasEvents ? 'the event flags mark no occupation' : 'no static span was found in the Doppler speed (or the rover file has no Doppler)';
+      await st.set.abort();
+      return failed(`no point found in ${a.rover}: ${why}; give the occupation times with --windows FILE`);
+    }
+    const frame = c.frame ?? { name: 'WGS84 (broadcast orbits)', epochYear: NaN };
+    const outcome = summariseOccupations(c.epochs, occupations, {
+      pointReference: c.pointReference, frame, horizontalToleranceM: cfg.toleranceHM, verticalToleranceM: cfg.toleranceVM,
+      // core AntennaGeometry: the slant point's height above the ARP is minus --slant-offset.
+      ...(cfg.slant ? { antenna: { radiusM: cfg.slant.radiusM, slantPointAboveArpM: -cfg.slant.arpAboveSlantPointM } } : {}),
+    });
+    for (const o of outcome.empty) rep.warn({ code: 'occupation-without-solution', message: `occupation ${o.name} (${o.source}) has no solved epoch: no point written` });
+    if (outcome.points.length === 0) {
+      await st.set.abort();
+      return failed(`no point could be computed from ${a.rover}: none of the occupations has a solved epoch`);
+    }
+
+    // Projection and geoid.
+    let projection: Projection | undefined;
+    if (cfg.projectionSpec !== undefined) {
+      const g = outcome.points[0].summary.meanGeodetic;
+      projection = makeProjection(cfg.projectionSpec, { latDeg: radToDeg(g.latRad), lonDeg: radToDeg(g.lonRad) });
+    }
+    const geoid = await cfg.geoid();
+
+    // The files, added to the solve run's set and committed with it (summary.json last).
+    const table = {
+      frame, horizontalToleranceM: cfg.toleranceHM, verticalToleranceM: cfg.toleranceVM,
+      ...(projection ? { projection } : {}), ...(geoid ? { geoid } : {}),
+      notes: [`occupations from ${occupations[0].source === 'windows' ? `the windows file ${cfg.windowsFile}` : occupations[0].source === 'events' ? 'the RINEX event flags of the rover file' : 'static detection on the Doppler speed'}`],
+    };
+    const columns = pointsColumns(table);
+    const rows = outcome.points.map((p) => pointRow(p, table));
+    const csv = pointsPreamble(table).join('\n') + '\n' + stringify([columns, ...rows], { record_delimiter: 'unix' });
+    await st.set.add('points', join(st.outDir, POINTS_FILE_NAMES.csv), [csv]);
+    await st.set.add('points-geojson', join(st.outDir, POINTS_FILE_NAMES.geojson), [JSON.stringify(pointsGeoJson(outcome.points, table), null, 1) + '\n']);
+    const outputs = await commitStagedSolve(st, rep);
+
+    if (geoid && /egm96/i.test(geoid.name)) rep.info(`note: ${EGM96_NOT_A_DATUM_NOTE}`);
+    for (const p of outcome.points) {
+      const g = p.summary.meanGeodetic;
+      rep.info(`point ${p.name} (${p.source}): ${p.summary.epochs} epochs, ${radToDeg(g.latRad).toFixed(8)} ${radToDeg(g.lonRad).toFixed(8)} ${g.heightM.toFixed(3)} m, ` +
+        `sigma mean E/N/U ${p.summary.sigmaMeanEastM.toFixed(3)}/${p.summary.sigmaMeanNorthM.toFixed(3)}/${p.summary.sigmaMeanUpM.toFixed(3)} m, ${p.tolerance}`);
+    }
+    rep.info(`${outcome.points.length} point(s); outputs in ${st.outDir}: ${outputNames(outputs)}`);
+    return { outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure: null, points: outcome.points, columns, rows, outputs };
+  } catch (e) {
+    await st.set.abort();
+    throw e;
   }
-  rep.info(`${outcome.points.length} point(s) written to ${csvPath} and ${gjPath}`);
-  rep.event('done', { exit_code: EXIT_OK, points: outcome.points.length });
+}
+
+/** `refdelta points`: one run; exit 1 with one sentence when it wrote nothing. */
+export async function runPoints(a: PointsArgs, rep: Reporter): Promise<number> {
+  const cfg = await parsePointsConfig(a);
+  const r = await runPointsSession(a, cfg, rep);
+  if (r.failure) {
+    rep.failure(`${r.failure}; nothing was written to ${r.outDir}`, EXIT_PROCESSING);
+    rep.event('done', { exit_code: EXIT_PROCESSING });
+    return EXIT_PROCESSING;
+  }
+  rep.event('done', { exit_code: EXIT_OK, points: r.points.length });
   return EXIT_OK;
 }

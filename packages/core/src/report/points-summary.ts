@@ -33,6 +33,8 @@ export interface PointEpoch {
   /** Position as the session reported it (see pointReference). */
   readonly ecef: EcefM;
   readonly kind: SolutionKind;
+  /** Frame of this epoch's position (standalone epochs are in the broadcast-orbit frame). */
+  readonly frame?: FrameEpoch;
   readonly pdop: number;
   /** Antenna height the session used for this epoch (m). */
   readonly antennaHeightM: number;
@@ -121,7 +123,7 @@ export function summariseOccupations(epochs: readonly PointEpoch[], occupations:
       antennaHeightM: heightM,
       ...(occ.antennaHeightM !== undefined ? { measuredHeightM: occ.antennaHeightM, heightKind: occ.heightKind ?? 'vertical' } : {}),
       pointReference: Number.isFinite(heightM) ? 'ground-mark' : opts.pointReference,
-      frame: opts.frame,
+      frame: chosen[0].frame ?? opts.frame,
       tolerance: toleranceFlagOf(summary, tolH, tolV, minEpochs),
     });
   }
