@@ -11,7 +11,7 @@ import { expectOneSentence, parseCsv, requireBuiltCli, runCli, tempDir } from '.
 
 const DEMO = (f: string) => fixturePath(`demo/${f}`);
 const HAVE = existsSync(DEMO('rover-1s.obs'));
-if (!HAVE) console.warn('[skip] check on the demo: fixtures/demo/ not generated yet (node scripts/make-demo.mjs)');
+if (!HAVE) console.warn('[skip] check on the demo: fixtures/demo/ not generated yet (node fixtures/demo/make-demo.mjs)');
 
 describe.skipIf(!HAVE)('refdelta check on the demo scenario', () => {
   let pts = '';

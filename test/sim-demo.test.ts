@@ -1,6 +1,6 @@
 /**
  * The committed demo (fixtures/demo/) is exactly what the seed produces: SELF-CONSISTENCY test (the
- * generator is ours). Regenerate with `npm run build && node scripts/make-demo.mjs` after a deliberate change.
+ * generator is ours). Regenerate with `npm run build && node fixtures/demo/make-demo.mjs` after a deliberate change.
  */
 import { createHash } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
@@ -24,7 +24,7 @@ describe('demo data (self-consistency): regeneration from the seed is byte-for-b
   it('each committed file has the SHA-256 of an in-memory generation', () => {
     for (const f of files) {
       const path = fixturePath(`demo/${f.name}`);
-      expect(existsSync(path), `${path} missing: run node scripts/make-demo.mjs`).toBe(true);
+      expect(existsSync(path), `${path} missing: run node fixtures/demo/make-demo.mjs`).toBe(true);
       const committed = createHash('sha256').update(readFileSync(path)).digest('hex');
       expect(sha256(f.chunks()), `${f.name} differs from its regeneration`).toBe(committed);
     }

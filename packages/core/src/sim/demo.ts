@@ -5,7 +5,7 @@
  * 1 s, walking between them. Every error switch is on. The coordinates were picked arbitrarily: no real
  * mark, place or person is meant.
  *
- * renderDemoFiles() gives every file's text as chunks; scripts/make-demo.mjs writes them atomically and
+ * renderDemoFiles() gives every file's text as chunks; fixtures/demo/make-demo.mjs writes them atomically and
  * the demo test hashes them, so the committed files are exactly what the seed produces.
  */
 import type { EcefM } from '../types.js';
