@@ -92,6 +92,15 @@ function isBlank(s: string, from: number, to: number): boolean {
   return true;
 }
 
+/** Results of the synchronous epoch parsing steps (an epoch itself is returned as an object). */
+const OK = 0;
+const SKIPPED = 1;
+const RESYNC = 2;
+const EVENT = 3;
+const NEED_MORE = 4;
+/** Text kept buffered ahead of an epoch record so that most epochs parse without waiting (common practice: a few epochs). */
+const LOOKAHEAD_CHARS = 1 << 14;
+
 const ignoreWarning: WarningSink = () => {};
 /** The last parser that finished reading (see EpochParser.retire). */
 let lastRetired: EpochParser | null = null;
@@ -108,6 +117,16 @@ class EpochParser {
   private dayBaseS = 0;
   private readonly warnedSystems = new Set<string>();
   private readonly slab = new ObsSlab();
+  /** Fields of the epoch record last parsed by head2/head3. */
+  private headFlag = 0;
+  private headCount = 0;
+  private headTagGpsS = NaN;
+  private headTagWasBlank = false;
+  private headClockS: number | null = null;
+  private headSats: SatId[] | null = null;
+  /** Where and why the epoch loop resynchronises after a RESYNC result. */
+  private resyncFrom = 0;
+  private resyncReason = '';
 
   constructor(
     private readonly file: string,
@@ -144,25 +163,45 @@ class EpochParser {
     return l !== undefined ? l : this.cur.next();
   }
 
+  /**
+   * The epoch loop. Each epoch is parsed synchronously from the buffered text (epochSync); the loop
+   * awaits only to pull more text: before an epoch when less than LOOKAHEAD_CHARS are buffered, and
+   * when an epoch turns out longer than what is buffered (NEED_MORE: the cursor is put back to the
+   * epoch's second line and the epoch parsed again with more text). Resynchronisation and the header
+   * records of event epochs, both rare, read line by line asynchronously.
+   */
   async *epochs(): AsyncGenerator<ObsEpoch> {
+    const cur = this.cur;
     try {
       for (;;) {
-        let l = this.cur.take();
-        if (l === undefined) l = await this.cur.next();
+        if (!cur.hasAhead(LOOKAHEAD_CHARS)) await cur.ensureAhead(LOOKAHEAD_CHARS);
+        let l = cur.take();
+        if (l === undefined) l = await cur.next();
         if (l === null) return;
-        const lineNo = this.cur.lineNumber;
+        const lineNo = cur.lineNumber;
         const isEpoch = this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l);
         if (!isEpoch) {
           if (l.trim() === '') continue; // blank lines between epochs: tolerated
           await this.resync(lineNo, `expected an epoch record${this.r3 ? " starting with '>'" : ' (RINEX 2 epoch line)'}`);
           continue;
         }
-        const e = this.r3 ? await this.epoch3(l, lineNo) : await this.epoch2(l, lineNo);
-        if (e !== null) yield e;
+        let markPos = cur.markPos();
+        let r = this.epochSync(l, lineNo);
+        while (r === NEED_MORE) {
+          cur.rewind(markPos, lineNo);
+          await cur.ensureAhead(2 * cur.ahead() + LOOKAHEAD_CHARS);
+          markPos = cur.markPos(); // ensureAhead moved the text: the epoch's second line now starts here
+          r = this.epochSync(l, lineNo);
+        }
+        if (r === RESYNC) await this.resync(this.resyncFrom, this.resyncReason);
+        else if (r === EVENT) {
+          const e = await this.eventEpoch(lineNo);
+          if (e !== null) yield e;
+        } else if (r !== SKIPPED) yield r as ObsEpoch;
       }
     } catch (err) {
       if (err instanceof RefdeltaError) throw err;
-      throw new InputError(this.file, this.cur.lineNumber, `could not read the observation data (${err instanceof Error ? err.message : String(err)})`);
+      throw new InputError(this.file, cur.lineNumber, `could not read the observation data (${err instanceof Error ? err.message : String(err)})`);
     } finally {
       this.retire();
     }
@@ -210,14 +249,40 @@ class EpochParser {
     return !fieldState.bad && mo >= 1 && mo <= 12 && d >= 1 && d <= 31 && h >= 0 && h <= 24 && mi >= 0 && mi <= 60 && s >= 0 && s < 61 && y > 1900;
   }
 
+  /** Asks the epoch loop to resynchronise (see resync) and returns RESYNC. */
+  private requestResync(fromLine: number, reason: string): number {
+    this.resyncFrom = fromLine;
+    this.resyncReason = reason;
+    return RESYNC;
+  }
+
+  /**
+   * One epoch from its record line `l` (already taken) and the lines after it, synchronously:
+   * the epoch, or SKIPPED (warned), RESYNC (see requestResync), EVENT (flags 2-5: the epoch fields are
+   * in this.head*, eventEpoch reads its header records) or NEED_MORE (the buffered text ends inside
+   * the epoch; nothing was reported).
+   */
+  private epochSync(l: string, lineNo: number): ObsEpoch | number {
+    const r = this.r3 ? this.head3(l, lineNo) : this.head2(l, lineNo);
+    if (r !== OK) return r;
+    const flag = this.headFlag;
+    if (flag >= 2 && flag <= 5) return EVENT;
+    const sats: SatObservations[] = [];
+    const ok = this.r3 ? this.sats3(lineNo, this.headCount, sats) : this.sats2(lineNo, this.headSats!, sats);
+    if (ok !== OK) return ok;
+    const tagGpsS = this.headTagGpsS;
+    this.prevTagGpsS = tagGpsS;
+    const event: HeaderEvent | null = flag === 1 ? { kind: 'power-failure', comments: [] } : null;
+    return { tagGpsS, flag, receiverClockOffsetS: this.headClockS, line: lineNo, sats, event };
+  }
+
   /** RINEX 3/4 epoch record: '>', 1X, I4, 4(1X, I2.2), F11.7, 2X, I1, I3, 6X, F15.12 (RINEX 3.05 table A3). */
-  private async epoch3(l: string, lineNo: number): Promise<ObsEpoch | null> {
+  private head3(l: string, lineNo: number): number {
     fieldState.bad = false;
     const flag = digitAt(l, 31);
     const n = parseIntField(l, 32, 35);
     if (flag < 0 || flag > 6 || fieldState.bad || !(n >= 0)) {
-      await this.resync(lineNo, `garbled epoch record: expected flag 0-6 in column 32 and a satellite count (I3) in columns 33-35`);
-      return null;
+      return this.requestResync(lineNo, `garbled epoch record: expected flag 0-6 in column 32 and a satellite count (I3) in columns 33-35`);
     }
     const blank = l.slice(1, 29).trim() === '';
     let tagGpsS = this.prevTagGpsS;
@@ -225,27 +290,25 @@ class EpochParser {
       const y = parseIntField(l, 2, 6), mo = parseIntField(l, 7, 9), d = parseIntField(l, 10, 12);
       const h = parseIntField(l, 13, 15), mi = parseIntField(l, 16, 18), s = parseFixed(l, 18, 29);
       if (!this.validDate(y, mo, d, h, mi, s)) {
-        await this.resync(lineNo, 'garbled epoch record: expected year, month, day, hour, minute (I4, 4 I2) and seconds (F11.7) in columns 3-29');
-        return null;
+        return this.requestResync(lineNo, 'garbled epoch record: expected year, month, day, hour, minute (I4, 4 I2) and seconds (F11.7) in columns 3-29');
       }
       tagGpsS = this.tag(y, mo, d, h, mi, s);
     }
     const clk = parseFixed(l, 35, 80);
     if (fieldState.bad) {
-      await this.resync(lineNo, 'garbled epoch record: expected the receiver clock offset (F15.12) in columns 42-56');
-      return null;
+      return this.requestResync(lineNo, 'garbled epoch record: expected the receiver clock offset (F15.12) in columns 42-56');
     }
-    return this.body(l, lineNo, flag, n, tagGpsS, blank && flag >= 2 && flag <= 5, Number.isFinite(clk) ? clk : null, null);
+    this.setHead(flag, n, tagGpsS, blank && flag >= 2 && flag <= 5, Number.isFinite(clk) ? clk : null, null);
+    return OK;
   }
 
   /** RINEX 2 epoch line: 1X, I2.2, 4(1X, I2), F11.7, 2X, I1, I3, 12(A1, I2), F12.9 (RINEX 2.11 table A2). */
-  private async epoch2(l: string, lineNo: number): Promise<ObsEpoch | null> {
+  private head2(l: string, lineNo: number): number {
     fieldState.bad = false;
     const flag = digitAt(l, 28);
     const n = parseIntField(l, 29, 32);
     if (flag < 0 || flag > 6 || fieldState.bad || !(n >= 0)) {
-      await this.resync(lineNo, 'garbled epoch line: expected flag 0-6 in column 29 and a satellite count (I3) in columns 30-32');
-      return null;
+      return this.requestResync(lineNo, 'garbled epoch line: expected flag 0-6 in column 29 and a satellite count (I3) in columns 30-32');
     }
     const blank = l.slice(0, 26).trim() === '';
     let tagGpsS = this.prevTagGpsS;
@@ -255,15 +318,13 @@ class EpochParser {
       // RINEX 2.11 section 6.5: two-digit years 80-99 are 1980-1999, 00-79 are 2000-2079
       const y = yy >= 80 ? 1900 + yy : 2000 + yy;
       if (!(yy >= 0 && yy <= 99) || !this.validDate(y, mo, d, h, mi, s)) {
-        await this.resync(lineNo, 'garbled epoch line: expected year, month, day, hour, minute (5 I3) and seconds (F11.7) in columns 2-26');
-        return null;
+        return this.requestResync(lineNo, 'garbled epoch line: expected year, month, day, hour, minute (5 I3) and seconds (F11.7) in columns 2-26');
       }
       tagGpsS = this.tag(y, mo, d, h, mi, s);
     }
     const clk = parseFixed(l, 68, 80);
     if (fieldState.bad) {
-      await this.resync(lineNo, 'garbled epoch line: expected the receiver clock offset (F12.9) in columns 69-80');
-      return null;
+      return this.requestResync(lineNo, 'garbled epoch line: expected the receiver clock offset (F12.9) in columns 69-80');
     }
     let sats: SatId[] | null = null;
     if (flag < 2 || flag > 5) {
@@ -272,65 +333,63 @@ class EpochParser {
       for (let i = 0; i < n; i++) {
         const k = i % 12;
         if (i > 0 && k === 0) {
-          const next = await this.line();
+          const next = this.cur.take();
+          if (next === undefined) return NEED_MORE;
           // continuation lines: 32X, 12(A1, I2) (RINEX 2.11 table A2)
           if (next === null || looksLikeR2Epoch(next) || next.slice(0, 32).trim() !== '') {
             if (next !== null) this.cur.unread(next);
             this.warn(lineNo, 'bad-epoch-skipped', `epoch announces ${n} satellites but its satellite list continuation line is missing; epoch skipped`);
-            return null;
+            return SKIPPED;
           }
           cl = next;
         }
         const sat = satIdIn(cl, 32 + 3 * k, cl.length, true);
         if (sat === null) {
-          await this.resync(lineNo, `garbled satellite list: expected ${n} satellites (A1, I2 each) from column 33`);
-          return null;
+          return this.requestResync(lineNo, `garbled satellite list: expected ${n} satellites (A1, I2 each) from column 33`);
         }
         sats.push(sat);
       }
     }
-    return this.body(l, lineNo, flag, n, tagGpsS, blank && flag >= 2 && flag <= 5, Number.isFinite(clk) ? clk : null, sats);
+    this.setHead(flag, n, tagGpsS, blank && flag >= 2 && flag <= 5, Number.isFinite(clk) ? clk : null, sats);
+    return OK;
   }
 
-  private async body(
-    _l: string, lineNo: number, flag: number, n: number, tagGpsS: number, tagWasBlank: boolean,
-    clockS: number | null, sats2: SatId[] | null,
-  ): Promise<ObsEpoch | null> {
-    if (flag >= 2 && flag <= 5) {
-      const event = await this.eventRecords(lineNo, flag, n);
-      if (event === null) return null;
-      if (!tagWasBlank) this.prevTagGpsS = tagGpsS;
-      const e: ObsEpoch = { tagGpsS, flag, receiverClockOffsetS: clockS, line: lineNo, sats: [], event };
-      return tagWasBlank ? { ...e, tagWasBlank: true } : e;
-    }
-    const sats: SatObservations[] = [];
-    const ok = this.r3 ? await this.sats3(lineNo, n, sats) : await this.sats2(lineNo, sats2!, sats);
-    if (!ok) return null;
-    this.prevTagGpsS = tagGpsS;
-    const event: HeaderEvent | null = flag === 1 ? { kind: 'power-failure', comments: [] } : null;
-    return { tagGpsS, flag, receiverClockOffsetS: clockS, line: lineNo, sats, event };
+  private setHead(flag: number, n: number, tagGpsS: number, tagWasBlank: boolean, clockS: number | null, sats: SatId[] | null): void {
+    this.headFlag = flag;
+    this.headCount = n;
+    this.headTagGpsS = tagGpsS;
+    this.headTagWasBlank = tagWasBlank;
+    this.headClockS = clockS;
+    this.headSats = sats;
+  }
+
+  /** An event epoch (flags 2-5) whose record was parsed by head2/head3: its header records follow. */
+  private async eventEpoch(lineNo: number): Promise<ObsEpoch | null> {
+    const flag = this.headFlag, tagGpsS = this.headTagGpsS, tagWasBlank = this.headTagWasBlank, clockS = this.headClockS;
+    const event = await this.eventRecords(lineNo, flag, this.headCount);
+    if (event === null) return null;
+    if (!tagWasBlank) this.prevTagGpsS = tagGpsS;
+    const e: ObsEpoch = { tagGpsS, flag, receiverClockOffsetS: clockS, line: lineNo, sats: [], event };
+    return tagWasBlank ? { ...e, tagWasBlank: true } : e;
   }
 
   /**
    * The n RINEX 3 observation records of an epoch: A1, I2.2, m(F14.3, I1, I1) (RINEX 3.05 table A3).
-   * Lines are taken synchronously; await only at chunk boundaries. false = epoch skipped (warned).
+   * OK, SKIPPED (warned), RESYNC or NEED_MORE.
    */
-  private async sats3(epochLine: number, n: number, sats: SatObservations[]): Promise<boolean> {
+  private sats3(epochLine: number, n: number, sats: SatObservations[]): number {
     const cur = this.cur;
     for (let i = 0; i < n; i++) {
-      let r = cur.takeSpan();
-      if (r === SPAN_FILL) r = await cur.nextSpan();
+      const r = cur.takeSpan();
+      if (r === SPAN_FILL) return NEED_MORE;
       const src = cur.src, a = cur.lineStart, e = cur.lineEnd;
       if (r === SPAN_END || (e > a && src.charCodeAt(a) === 62)) {
         if (r !== SPAN_END) cur.unreadSpan();
         this.warn(epochLine, 'bad-epoch-skipped', `epoch announces ${n} satellites but ${i} observation records follow${r === SPAN_END ? ' (file ends)' : ''}; epoch skipped`);
-        return false;
+        return SKIPPED;
       }
       const sat = satIdIn(src, a, e, false);
-      if (sat === null) {
-        await this.resync(cur.lineNumber, 'garbled observation record: expected a satellite id (A1, I2) in columns 1-3');
-        return false;
-      }
+      if (sat === null) return this.requestResync(cur.lineNumber, 'garbled observation record: expected a satellite id (A1, I2) in columns 1-3');
       const sc = src.charCodeAt(a);
       const codes = this.codesBy[sc];
       if (codes === undefined) {
@@ -338,13 +397,10 @@ class EpochParser {
         continue;
       }
       const out = this.values(src, a + 3, e, codes, this.divBy[sc]!, sat, 0, codes.length, null);
-      if (out === null) {
-        await this.resync(cur.lineNumber, `garbled observation record of ${sat}: expected F14.3 values with LLI and SSI digits`);
-        return false;
-      }
+      if (out === null) return this.requestResync(cur.lineNumber, `garbled observation record of ${sat}: expected F14.3 values with LLI and SSI digits`);
       sats.push(out);
     }
-    return true;
+    return OK;
   }
 
   private noTypes(s: string, sat: SatId): void {
@@ -353,8 +409,11 @@ class EpochParser {
     this.warn(this.cur.lineNumber, 'no-obs-types', `satellite ${sat}: the header gives no observation types for system ${s}; its records are skipped`);
   }
 
-  /** RINEX 2 observations of each listed satellite: 5 (F14.3, I1, I1) per line (RINEX 2.11 table A2). */
-  private async sats2(epochLine: number, list: readonly SatId[], sats: SatObservations[]): Promise<boolean> {
+  /**
+   * RINEX 2 observations of each listed satellite: 5 (F14.3, I1, I1) per line (RINEX 2.11 table A2).
+   * OK, SKIPPED (warned), RESYNC or NEED_MORE.
+   */
+  private sats2(epochLine: number, list: readonly SatId[], sats: SatObservations[]): number {
     const cur = this.cur;
     for (let si = 0; si < list.length; si++) {
       const sat = list[si]!;
@@ -365,25 +424,22 @@ class EpochParser {
       const nLines = nCodes === 0 ? 1 : Math.ceil(nCodes / 5);
       let out: SatObservations | null = null;
       for (let j = 0; j < nLines; j++) {
-        let r = cur.takeSpan();
-        if (r === SPAN_FILL) r = await cur.nextSpan();
+        const r = cur.takeSpan();
+        if (r === SPAN_FILL) return NEED_MORE;
         const src = cur.src, a = cur.lineStart, e = cur.lineEnd;
         if (r === SPAN_END || looksLikeR2EpochIn(src, a, e)) {
           if (r !== SPAN_END) cur.unreadSpan();
           this.warn(epochLine, 'bad-epoch-skipped', `epoch's observation records end early at ${sat}${r === SPAN_END ? ' (file ends)' : ''}; epoch skipped`);
-          return false;
+          return SKIPPED;
         }
         if (codes === undefined) { this.noTypes(sat.charAt(0), sat); break; }
         const from = j * 5;
         out = this.values(src, a, e, codes, div, sat, from, from + 5 < nCodes ? from + 5 : nCodes, out);
-        if (out === null) {
-          await this.resync(cur.lineNumber, `garbled observation line of ${sat}: expected 5 fields of F14.3 + LLI + SSI`);
-          return false;
-        }
+        if (out === null) return this.requestResync(cur.lineNumber, `garbled observation line of ${sat}: expected 5 fields of F14.3 + LLI + SSI`);
       }
       if (out !== null) sats.push(out);
     }
-    return true;
+    return OK;
   }
 
   /**
@@ -397,15 +453,17 @@ class EpochParser {
     const r = into ?? this.slab.sat(sat, codes);
     const values = r.values, lli = r.lli, ssi = r.ssi;
     fieldState.bad = false;
+    // a non-digit LLI/SSI is -1: OR-ed into `digits`, checked once for the line with fieldState.bad
+    let digits = 0;
     for (let k = from, c = c0; k < to && c < end; k++, c += 16) {
       const v = parseF14p3In(src, c, end);
       const a = digitIn(src, c + 14, end), b = digitIn(src, c + 15, end);
-      if (fieldState.bad || a < 0 || b < 0) return null;
+      digits |= a | b;
       values[k] = div !== null ? v / div[k]! : v;
       lli[k] = a;
       ssi[k] = b;
     }
-    return r;
+    return fieldState.bad || digits < 0 ? null : r;
   }
 
   /** The N header records that follow an event epoch (flags 2-5; RINEX 3.05 5.3.3 / RINEX 2.11 5.3). */
@@ -448,12 +506,16 @@ const SLAB_VALUES = 8192;
 class ObsSlab {
   private f64 = new Float64Array(0);
   private u8 = new Uint8Array(0);
+  private f64Buffer: ArrayBufferLike = this.f64.buffer;
+  private u8Buffer: ArrayBufferLike = this.u8.buffer;
   private next = 0;
 
   /** Lets go of the current slab (the views handed out keep their own). */
   release(): void {
     this.f64 = new Float64Array(0);
     this.u8 = new Uint8Array(0);
+    this.f64Buffer = this.f64.buffer;
+    this.u8Buffer = this.u8.buffer;
     this.next = 0;
   }
 
@@ -463,15 +525,17 @@ class ObsSlab {
       const size = n > SLAB_VALUES ? n : SLAB_VALUES;
       this.f64 = new Float64Array(size).fill(NaN);
       this.u8 = new Uint8Array(2 * size);
+      this.f64Buffer = this.f64.buffer;
+      this.u8Buffer = this.u8.buffer;
       this.next = 0;
     }
     const at = this.next;
     this.next = at + n;
-    const u8 = this.u8.buffer;
+    const u8 = this.u8Buffer;
     return {
       sat,
       codes,
-      values: new Float64Array(this.f64.buffer, 8 * at, n),
+      values: new Float64Array(this.f64Buffer, 8 * at, n),
       lli: new Uint8Array(u8, 2 * at, n),
       ssi: new Uint8Array(u8, 2 * at + n, n),
     };
