@@ -1,9 +1,10 @@
 /** The Node adapter: atomic writes, hashes, overlap rule. */
-import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { sha256File, writeFileAtomic } from '../packages/cli/src/node-io.js';
+import { OutputSet, sha256File, writeFileAtomic } from '../packages/cli/src/node-io.js';
 import { requireOverlap } from '../packages/cli/src/input-checks.js';
 import { secondsFromCalendar } from '../packages/core/src/time/index.js';
 
@@ -37,6 +38,56 @@ describe('writeFileAtomic', () => {
     const d = dir();
     await writeFileAtomic(join(d, 'x', 'y', 'z.json'), ['{}']);
     expect(existsSync(join(d, 'x', 'y', 'z.json'))).toBe(true);
+  });
+});
+
+const sha256 = (t: string) => createHash('sha256').update(t).digest('hex');
+
+describe('OutputSet: the outputs of a run committed together', () => {
+  it('renames every member into place, the last one (the index) last, with sizes and SHA-256 (FIPS 180-4 via node:crypto)', async () => {
+    const d = dir();
+    const set = new OutputSet();
+    await set.add('epochs', join(d, 'epochs.csv'), ['a,b\n', '1,2\n']);
+    await set.add('points', join(d, 'points.csv'), ['p\n']);
+    // nothing is visible under the final names before commit
+    expect(readdirSync(d).filter((n) => !n.startsWith('.'))).toEqual([]);
+    const sealed = await set.seal();
+    expect(sealed.map((s) => s.written.sha256)).toEqual([sha256('a,b\n1,2\n'), sha256('p\n')]);
+    await set.add('summary', join(d, 'summary.json'), ['{}\n']);
+    const done = await set.commit();
+    expect(done.map((x) => x.kind)).toEqual(['epochs', 'points', 'summary']);
+    expect(readdirSync(d).sort()).toEqual(['epochs.csv', 'points.csv', 'summary.json']);
+    expect(done[2].written.bytes).toBe(3);
+  });
+
+  it('a rename that fails in the middle leaves no temporary file and removes the stale index (review finding 27)', async () => {
+    const d = dir();
+    writeFileSync(join(d, 'a.csv'), 'old a\n');
+    mkdirSync(join(d, 'b.csv')); // renaming a file onto a folder fails (rename(2): EISDIR)
+    writeFileSync(join(d, 'summary.json'), 'old summary listing old hashes\n');
+    const set = new OutputSet();
+    await set.add('a', join(d, 'a.csv'), ['new a\n']);
+    await set.add('b', join(d, 'b.csv'), ['new b\n']);
+    await set.add('c', join(d, 'c.csv'), ['new c\n']);
+    await set.add('summary', join(d, 'summary.json'), ['new summary\n']);
+    await expect(set.commit()).rejects.toThrow();
+    const left = readdirSync(d).sort();
+    expect(left.filter((n) => n.endsWith('.tmp'))).toEqual([]);
+    // the index is gone rather than describing a set that is not there
+    expect(left).toEqual(['a.csv', 'b.csv']);
+  });
+
+  it('abort() removes every temporary file and leaves the earlier outputs as they were (review finding 28)', async () => {
+    const d = dir();
+    writeFileSync(join(d, 'epochs.csv'), 'complete earlier output\n');
+    const set = new OutputSet();
+    await set.add('epochs', join(d, 'epochs.csv'), ['half of a new run']);
+    await set.add('summary', join(d, 'summary.json'), ['{}']);
+    await set.seal();
+    await set.abort();
+    expect(readdirSync(d)).toEqual(['epochs.csv']);
+    expect(readFileSync(join(d, 'epochs.csv'), 'utf8')).toBe('complete earlier output\n');
+    await expect(set.create('x', join(d, 'x'))).rejects.toThrow(/already committed or aborted/);
   });
 });
 

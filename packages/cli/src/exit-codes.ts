@@ -9,3 +9,5 @@ export const EXIT_PROCESSING = 1;
 export const EXIT_USAGE = 2;
 /** `refdelta check`: at least one control mark failed its tolerance (outputs are still written). */
 export const EXIT_CHECK_FAILED = 3;
+/** `refdelta batch`: some sessions failed (each named with its reason); the others' outputs are written. */
+export const EXIT_BATCH_PARTIAL = 4;

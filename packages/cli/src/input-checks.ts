@@ -42,7 +42,7 @@ export function requireOverlap(rover: { path: string; span: TimeSpan }, referenc
 }
 
 /** Broadcast records are used up to a few hours from their reference time (GPS: fit interval 4 h, IS-GPS-200 20.3.4.4). */
-const NAV_WINDOW_S = 4 * 3600;
+export const NAV_WINDOW_S = 4 * 3600;
 
 /**
  * There must be ephemerides, near the rover's span, for at least one of the systems the rover observed

@@ -1,7 +1,8 @@
 #!/usr/bin/env node
 /**
  * refdelta: differential GNSS pseudorange post-processing from RINEX files.
- * Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line (see README.md).
+ * Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line, 3 a control mark failed
+ * (check), 4 some sessions of a batch failed (see exit-codes.ts, README.md).
  */
 import yargs from 'yargs';
 import { hideBin } from 'yargs/helpers';
@@ -9,7 +10,8 @@ import { runSolve, type SolveArgs } from './commands/solve.js';
 import { runInspect } from './commands/inspect.js';
 import { runPoints, type PointsArgs } from './commands/points.js';
 import { runCheck, type CheckArgs } from './commands/check.js';
-import { defineSolveOptions, solveArgsFrom } from './solve-option-definitions.js';
+import { runBatch, type BatchArgs } from './commands/batch.js';
+import { defineProcessingOptions, definePointsOptions, defineSolveOptions, pointsArgsFrom, solveArgsFrom } from './solve-option-definitions.js';
 import { describeFailure } from './failure-sentence.js';
 import { EXIT_OK, EXIT_USAGE } from './exit-codes.js';
 import { Reporter } from './reporter.js';
@@ -32,7 +34,7 @@ const SOLVE_EXAMPLES: readonly [string, string][] = [
 ];
 
 /** Options whose values may start with a minus sign (coordinates): joined as --opt=value so they are not read as flags. */
-const SIGNED_VALUE_OPTIONS = new Set(['--ref-xyz', '--ref-llh', '--ref-epoch', '--ref-antenna-height', '--rover-antenna-height']);
+const SIGNED_VALUE_OPTIONS = new Set(['--ref-xyz', '--ref-llh', '--ref-epoch', '--ref-antenna-height', '--rover-antenna-height', '--slant-offset']);
 
 export function joinSignedValues(argv: readonly string[]): string[] {
   const out: string[] = [];
@@ -95,18 +97,37 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
       'points',
       'per-point coordinates: a solve run, then one averaged coordinate per occupation (windows, event flags or Doppler static detection)',
       (c) =>
-        defineSolveOptions(c)
-          .option('windows', { type: 'string', describe: 'occupation CSV: name,start,end[,antenna_height_m,height_kind] (takes precedence over event flags and Doppler)', group: 'Points:' })
-          .option('tolerance-h', { type: 'string', describe: 'flag points whose horizontal scatter exceeds this (m), default 1.0', group: 'Points:' })
-          .option('tolerance-v', { type: 'string', describe: 'flag points whose vertical scatter exceeds this (m), default 2.0', group: 'Points:' })
-          .option('projection', { type: 'string', describe: "grid coordinates: EPSG:xxxx, a '+proj=...' string, or utm (zone of the first point)", group: 'Points:' })
-          .option('geoid', { type: 'string', describe: 'orthometric heights: egm96 or a geoid grid FILE (refdelta-geoid-grid 1)', group: 'Points:' })
+        definePointsOptions(defineSolveOptions(c))
           .example('refdelta points --rover rover.obs --reference base.obs --nav brdc.18n --ref-xyz 3774089.212,-601661.616,5089321.247 --ref-frame WGS84 --ref-epoch 2018.76 --projection utm --geoid egm96 --out out/pts', 'points with UTM grid coordinates and EGM96 heights'),
       async (args) => {
         const a = args as unknown as Record<string, unknown>;
-        const pa: PointsArgs = { ...solveArgsFrom(a), windows: a.windows, toleranceH: a.toleranceH, toleranceV: a.toleranceV, projection: a.projection, geoid: a.geoid };
+        const pa: PointsArgs = pointsArgsFrom(a);
         rep = new Reporter({ quiet: pa.quiet ?? false, jsonLines: pa.jsonLines ?? false });
         exitCode = await runPoints(pa, rep);
+      },
+    )
+    .command(
+      'batch',
+      'a folder of rover sessions: a points run for each observation file (outputs in OUT/<session>/), batch-points.csv and batch-summary.json (exit code 4 when some sessions failed)',
+      (c) =>
+        definePointsOptions(defineProcessingOptions(
+          c.option('sessions', { type: 'string', demandOption: true, describe: 'folder of rover observation files, one session each (any RINEX encoding; other files are skipped with a note)', group: 'Files:' })
+            .option('reference', { type: 'string', array: true, describe: 'reference observation file(s) for every session', group: 'Files:' })
+            .option('reference-dir', { type: 'string', describe: 'folder of reference observation files: each session uses those overlapping its time span', group: 'Files:' })
+            .option('nav', { type: 'string', array: true, describe: 'navigation file(s) for every session', group: 'Files:' })
+            .option('nav-dir', { type: 'string', describe: 'folder of navigation files: each session uses those with ephemerides for its time span', group: 'Files:' })
+            .option('out', { type: 'string', demandOption: true, describe: 'output folder: OUT/<session>/ per session, batch-points.csv, batch-summary.json', group: 'Files:' }),
+        ))
+          .example('refdelta batch --sessions field/ --reference-dir cors/ --nav-dir cors/ --ref-from-header --out out/batch', 'every session of field/ against the CORS hours that overlap it'),
+      async (args) => {
+        const a = args as unknown as Record<string, unknown>;
+        const p = pointsArgsFrom({ ...a, rover: '' });
+        const ba: BatchArgs = {
+          ...p, sessions: a.sessions, reference: (a.reference as string[] | undefined) ?? [], nav: (a.nav as string[] | undefined) ?? [],
+          referenceDir: a.referenceDir, navDir: a.navDir,
+        };
+        rep = new Reporter({ quiet: ba.quiet ?? false, jsonLines: ba.jsonLines ?? false });
+        exitCode = await runBatch(ba, rep);
       },
     )
     .command(
@@ -127,12 +148,12 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
         exitCode = await runCheck(ca, rep);
       },
     )
-    .demandCommand(1, 'give a command: solve, points, check or inspect')
+    .demandCommand(1, 'give a command: solve, points, batch, check or inspect')
     .strict()
     .version(SOFTWARE.version)
     .help()
     .alias('h', 'help')
-    .epilog('Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line. Exit code 3: a control mark failed (check). See README.md.')
+    .epilog('Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line, 3 a control mark failed (check), 4 some sessions failed (batch). See README.md.')
     .wrap(Math.min(110, process.stdout.columns || 100))
     .fail((msg, err) => {
       if (err) throw err;

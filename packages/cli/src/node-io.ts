@@ -100,6 +100,7 @@ export class AtomicFile {
   private bytes = 0;
   private readonly hash = createHash('sha256');
   private done = false;
+  private sealed: WrittenFile | null = null;
 
   private constructor(readonly path: string, private readonly tmp: string, private readonly fh: FileHandle) {}
 
@@ -134,30 +135,138 @@ export class AtomicFile {
     this.bytes += buf.length;
   }
 
-  /** Flushes, fsyncs and renames into place. On failure the temporary file is removed and the error rethrown. */
-  async commit(): Promise<WrittenFile> {
+  /**
+   * Phase 1 of a commit: flushes, fsyncs and closes the temporary file; the final name is not touched
+   * yet. Returns what the file will hold (path under its final name, bytes, SHA-256). On failure the
+   * temporary file is removed and the error rethrown.
+   */
+  async seal(): Promise<WrittenFile> {
+    if (this.sealed) return this.sealed;
     if (this.done) throw new Error(`${this.path}: already committed or aborted`);
-    this.done = true;
     try {
       await this.flush();
       await this.fh.sync();
       await this.fh.close();
-      await rename(this.tmp, this.path);
     } catch (e) {
-      await this.fh.close().catch(() => {});
-      await removeQuietly(this.tmp);
+      await this.abort();
       throw e;
     }
-    await syncFolder(dirname(this.path));
-    return { path: this.path, bytes: this.bytes, sha256: this.hash.digest('hex') };
+    this.sealed = { path: this.path, bytes: this.bytes, sha256: this.hash.digest('hex') };
+    return this.sealed;
   }
 
-  /** Drops the temporary file; the final name is left as it was. */
+  /** Phase 2: renames the sealed temporary file into place (the folder is not fsynced here). */
+  async publish(): Promise<WrittenFile> {
+    const w = await this.seal();
+    if (this.done) throw new Error(`${this.path}: already committed or aborted`);
+    try {
+      await rename(this.tmp, this.path);
+    } catch (e) {
+      await this.abort();
+      throw e;
+    }
+    this.done = true;
+    return w;
+  }
+
+  /** Seals and renames into place, then fsyncs the folder. On failure the temporary file is removed and the error rethrown. */
+  async commit(): Promise<WrittenFile> {
+    const w = await this.publish();
+    await syncFolder(dirname(this.path));
+    return w;
+  }
+
+  /** Drops the temporary file (open or sealed); the final name is left as it was. No-op once published. */
   async abort(): Promise<void> {
     if (this.done) return;
     this.done = true;
-    await this.fh.close().catch(() => {});
+    if (!this.sealed) await this.fh.close().catch(() => {});
     await removeQuietly(this.tmp);
+  }
+
+  /** The temporary file's path (tests). */
+  get temporaryPath(): string {
+    return this.tmp;
+  }
+}
+
+/**
+ * A set of output files committed together: every file is written under a temporary name; commit()
+ * first seals them all (flush, fsync, close: phase 1, where nearly every failure happens: full disk,
+ * I/O errors), then renames them all into place (phase 2), the `last` file (the set's index, e.g.
+ * summary.json) after the others. Before the renames begin, the old version of the last file is
+ * removed, so a set that could not be renamed completely is never described by a stale index.
+ * On any failure every temporary file not yet renamed is closed and removed. abort() drops the
+ * whole set and leaves earlier outputs as they were.
+ */
+export class OutputSet {
+  private readonly files: { readonly kind: string; readonly file: AtomicFile }[] = [];
+  private closed = false;
+
+  /** Opens a member; `kind` is the name given in summaries and events ('epochs', 'points'...). */
+  async create(kind: string, path: string): Promise<AtomicFile> {
+    if (this.closed) throw new Error(`output set already committed or aborted (adding ${path})`);
+    try {
+      const f = await AtomicFile.create(path);
+      this.files.push({ kind, file: f });
+      return f;
+    } catch (e) {
+      await this.abort();
+      throw e;
+    }
+  }
+
+  /** A member written in one go. */
+  async add(kind: string, path: string, chunks: Iterable<string | Uint8Array>): Promise<AtomicFile> {
+    const f = await this.create(kind, path);
+    try {
+      for (const c of chunks) await f.write(c);
+    } catch (e) {
+      await this.abort();
+      throw e;
+    }
+    return f;
+  }
+
+  get kinds(): readonly string[] {
+    return this.files.map((f) => f.kind);
+  }
+
+  /** Phase 1 for every member so far: their final contents, sizes and hashes. Aborts the set on failure. */
+  async seal(): Promise<{ readonly kind: string; readonly written: WrittenFile }[]> {
+    const out: { kind: string; written: WrittenFile }[] = [];
+    try {
+      for (const { kind, file } of this.files) out.push({ kind, written: await file.seal() });
+    } catch (e) {
+      await this.abort();
+      throw e;
+    }
+    return out;
+  }
+
+  /**
+   * Seals every member, then renames them in the order they were created (so the member created last,
+   * the index, is renamed last), then fsyncs the folders. Aborts what is left on failure.
+   */
+  async commit(): Promise<{ readonly kind: string; readonly written: WrittenFile }[]> {
+    const sealed = await this.seal();
+    this.closed = true;
+    try {
+      const last = this.files[this.files.length - 1];
+      if (last && this.files.length > 1) await removeQuietly(last.file.path);
+      for (const { file } of this.files) await file.publish();
+    } catch (e) {
+      for (const { file } of this.files) await file.abort();
+      throw e;
+    }
+    for (const dir of new Set(this.files.map((f) => dirname(f.file.path)))) await syncFolder(dir);
+    return sealed;
+  }
+
+  /** Closes and removes every temporary file not yet renamed. */
+  async abort(): Promise<void> {
+    this.closed = true;
+    for (const { file } of this.files) await file.abort();
   }
 }
 

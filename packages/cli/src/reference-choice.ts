@@ -3,7 +3,7 @@
  * reference ground mark.
  */
 import {
-  GRS80, WGS84, decimalYearFromGpsS, degToRad, geodeticToEcef,
+  GRS80, InputError, WGS84, decimalYearFromGpsS, degToRad, geodeticToEcef,
   type EcefM, type FrameEpoch, type FramedEcef, type ObsHeader, type Warning,
 } from '@refdelta/core';
 import { parseNumber, parseNumberList } from './parse-values.js';
@@ -93,7 +93,8 @@ export function referenceFromHeader(
   warn: (w: Warning) => void,
 ): ResolvedReference {
   if (!header.approxPosition) {
-    throw new UsageError(`--ref-from-header: ${file} has no APPROX POSITION XYZ in its header; give the coordinate with --ref-xyz or --ref-llh`);
+    // A data problem (exit 1), not a wrong command line.
+    throw new InputError(file, 0, `${file} has no APPROX POSITION XYZ header record, so --ref-from-header cannot take the reference coordinate from it; give it with --ref-xyz or --ref-llh`);
   }
   const epochGpsS = roverFirstGpsS ?? header.firstObsGpsS;
   const epochYear = choice.epochYear ?? (epochGpsS !== null ? Math.round(decimalYearFromGpsS(epochGpsS) * 100) / 100 : NaN);

@@ -11,10 +11,29 @@ export interface ReporterOptions {
   readonly jsonLines: boolean;
   /** Warnings printed in full before they are only counted (human mode). */
   readonly maxPrintedWarnings?: number;
+  /** Warnings kept in memory for summary.json; the rest are only counted (default KEPT_WARNINGS). */
+  readonly maxKeptWarnings?: number;
+  /** Fields added to every JSON event (e.g. { session: 'rover' } in a batch). */
+  readonly context?: Readonly<Record<string, unknown>>;
+  /** Put before every human line (e.g. '[rover] '). */
+  readonly prefix?: string;
+}
+
+/** How many warnings a run keeps for its summary (our choice: enough to diagnose, bounded memory). */
+export const KEPT_WARNINGS = 1000;
+
+/** The warnings of a run as summary.json states them: all counted, the first ones kept. */
+export interface WarningTally {
+  readonly total: number;
+  readonly kept: number;
+  readonly byCode: Readonly<Record<string, number>>;
 }
 
 export class Reporter {
+  /** The first maxKeptWarnings warnings (default KEPT_WARNINGS); warningCount counts them all. */
   readonly warnings: Warning[] = [];
+  private total = 0;
+  private readonly byCode = new Map<string, number>();
   private printed = 0;
   private barShown = false;
   private lastDrawMs = 0;
@@ -30,19 +49,44 @@ export class Reporter {
     return this.opts.jsonLines;
   }
 
+  get quietMode(): boolean {
+    return this.opts.quiet;
+  }
+
+  /** A reporter for one part of a run (a batch session): same modes, its own warnings, extra event fields and a line prefix. */
+  child(context: Readonly<Record<string, unknown>>, prefix: string): Reporter {
+    return new Reporter({ ...this.opts, context: { ...this.opts.context, ...context }, prefix: (this.opts.prefix ?? '') + prefix });
+  }
+
+  /** All warnings counted, how many are kept in `warnings`, counts by code. */
+  get warningTally(): WarningTally {
+    return { total: this.total, kept: this.warnings.length, byCode: Object.fromEntries([...this.byCode].sort((a, b) => b[1] - a[1])) };
+  }
+
   /** One JSON line on stdout (json-lines mode only). */
   event(kind: string, fields: Record<string, unknown> = {}): void {
-    if (this.opts.jsonLines) process.stdout.write(JSON.stringify({ event: kind, ...fields }) + '\n');
+    if (this.opts.jsonLines) process.stdout.write(JSON.stringify({ event: kind, ...this.opts.context, ...fields }) + '\n');
   }
 
   info(text: string): void {
     if (this.opts.jsonLines || this.opts.quiet) return;
     this.clearBar();
-    process.stderr.write(text.endsWith('\n') ? text : text + '\n');
+    const p = this.opts.prefix ?? '';
+    const body = text.endsWith('\n') ? text.slice(0, -1) : text;
+    process.stderr.write(body.split('\n').map((l) => p + l).join('\n') + '\n');
+  }
+
+  /** Text on stdout (a command's result table); nothing in --quiet or --json-lines mode. */
+  result(text: string): void {
+    if (this.opts.jsonLines || this.opts.quiet) return;
+    this.clearBar();
+    process.stdout.write(text.endsWith('\n') ? text : text + '\n');
   }
 
   readonly warn = (w: Warning): void => {
-    this.warnings.push(w);
+    this.total++;
+    this.byCode.set(w.code, (this.byCode.get(w.code) ?? 0) + 1);
+    if (this.warnings.length < (this.opts.maxKeptWarnings ?? KEPT_WARNINGS)) this.warnings.push(w);
     if (this.opts.jsonLines) {
       this.event('warning', { file: w.file ?? null, line: w.line ?? null, code: w.code, message: w.message });
       return;
@@ -51,7 +95,7 @@ export class Reporter {
     const max = this.opts.maxPrintedWarnings ?? 20;
     if (this.printed < max) {
       this.clearBar();
-      process.stderr.write(`warning: ${formatWarning(w)}\n`);
+      process.stderr.write(`${this.opts.prefix ?? ''}warning: ${formatWarning(w)}\n`);
     }
     this.printed++;
   };
@@ -87,6 +131,12 @@ export class Reporter {
       process.stderr.write('\r\x1b[2K');
       this.barShown = false;
     }
+  }
+
+  /** A failure of one part of a run that goes on (a batch session): 'refdelta: ...' on stderr in every mode. */
+  problem(sentence: string): void {
+    this.clearBar();
+    process.stderr.write(`refdelta: ${sentence}\n`);
   }
 
   /** The one sentence of a failure: always printed (also with --quiet), as JSON with --json-lines. */

@@ -5,13 +5,21 @@
  */
 import type { Argv } from 'yargs';
 import type { SolveArgs } from './commands/solve.js';
+import type { PointsArgs } from './commands/points.js';
 
+/** The files of one session (solve, points) and every processing option. */
 export function defineSolveOptions<T>(c: Argv<T>): Argv<T> {
-  return c.option('rover', { type: 'string', demandOption: true, describe: 'rover observation file (RINEX 2/3/4, compact RINEX, .gz/.Z)', group: 'Files:' })
-    .option('reference', { type: 'string', array: true, demandOption: true, describe: 'reference observation file(s), one station, consecutive in time', group: 'Files:' })
-    .option('nav', { type: 'string', array: true, demandOption: true, describe: 'broadcast navigation file(s)', group: 'Files:' })
-    .option('out', { type: 'string', demandOption: true, describe: 'output folder (created; files replaced atomically)', group: 'Files:' })
-    .option('outputs', { type: 'string', default: 'epochs,residuals,geojson,summary', describe: 'which outputs to write', group: 'Files:' })
+  return defineProcessingOptions(
+    c.option('rover', { type: 'string', demandOption: true, describe: 'rover observation file (RINEX 2/3/4, compact RINEX, .gz/.Z)', group: 'Files:' })
+      .option('reference', { type: 'string', array: true, demandOption: true, describe: 'reference observation file(s), one station, consecutive in time', group: 'Files:' })
+      .option('nav', { type: 'string', array: true, demandOption: true, describe: 'broadcast navigation file(s)', group: 'Files:' })
+      .option('out', { type: 'string', demandOption: true, describe: 'output folder (created; files replaced atomically)', group: 'Files:' }),
+  );
+}
+
+/** Everything but the input files and --out: outputs, reference coordinate, antennas, processing. */
+export function defineProcessingOptions<T>(c: Argv<T>): Argv<T> {
+  return c.option('outputs', { type: 'string', default: 'epochs,residuals,geojson,summary', describe: 'which outputs to write', group: 'Files:' })
     .option('ref-xyz', { type: 'string', describe: 'reference mark ECEF X,Y,Z (m)', group: 'Reference coordinate:' })
     .option('ref-llh', { type: 'string', describe: 'reference mark LAT,LON (deg), H (m, ellipsoidal)', group: 'Reference coordinate:' })
     .option('ref-from-header', { type: 'boolean', describe: "use the reference file's APPROX POSITION XYZ (approximate; warns)", group: 'Reference coordinate:' })
@@ -23,6 +31,7 @@ export function defineSolveOptions<T>(c: Argv<T>): Argv<T> {
     .option('ref-antenna-height', { type: 'string', describe: 'reference antenna height above the mark (m); default: the file header', group: 'Antennas:' })
     .option('height-kind', { type: 'string', default: 'vertical', describe: 'vertical | slant (measured heights)', group: 'Antennas:' })
     .option('antenna-radius', { type: 'string', describe: 'antenna radius to the slant measuring point (m), for --height-kind slant', group: 'Antennas:' })
+    .option('slant-offset', { type: 'string', describe: 'vertical offset from the slant measuring point to the antenna reference point (m; negative when the ARP is below it), default 0', group: 'Antennas:' })
     .option('at-antenna', { type: 'boolean', default: false, describe: 'report the antenna reference point instead of the ground mark', group: 'Antennas:' })
     .option('elevation-mask', { type: 'string', describe: 'elevation mask (deg), default 10', group: 'Processing:' })
     .option('weights', { type: 'string', describe: 'elevation | elevation+strength (default: elevation+strength)', group: 'Processing:' })
@@ -41,8 +50,22 @@ export function solveArgsFrom(a: Record<string, unknown>): SolveArgs {
     rover: String(a.rover), reference: (a.reference as string[]) ?? [], nav: (a.nav as string[]) ?? [], out: String(a.out),
     outputs: a.outputs, refXyz: a.refXyz, refLlh: a.refLlh, refFromHeader: a.refFromHeader, refMark: a.refMark, marks: a.marks,
     refFrame: a.refFrame, refEpoch: a.refEpoch, roverAntennaHeight: a.roverAntennaHeight, refAntennaHeight: a.refAntennaHeight,
-    heightKind: a.heightKind, antennaRadius: a.antennaRadius, atAntenna: a.atAntenna, elevationMask: a.elevationMask,
+    heightKind: a.heightKind, antennaRadius: a.antennaRadius, slantOffset: a.slantOffset, atAntenna: a.atAntenna, elevationMask: a.elevationMask,
     weights: a.weights, sigmaA: a.sigmaA, sigmaB: a.sigmaB, smooth: a.smooth, systems: a.systems, glonass: a.glonass,
     maxAge: a.maxAge, fallbackStandalone: a.fallbackStandalone, quiet: a.quiet === true, jsonLines: a.jsonLines === true,
   };
+}
+
+/** The options `points` adds to a solve run (also taken by `batch`). */
+export function definePointsOptions<T>(c: Argv<T>): Argv<T> {
+  return c.option('windows', { type: 'string', describe: 'occupation CSV: name,start,end[,antenna_height_m,height_kind] (takes precedence over event flags and Doppler)', group: 'Points:' })
+    .option('tolerance-h', { type: 'string', describe: 'flag points whose horizontal scatter exceeds this (m), default 1.0', group: 'Points:' })
+    .option('tolerance-v', { type: 'string', describe: 'flag points whose vertical scatter exceeds this (m), default 2.0', group: 'Points:' })
+    .option('projection', { type: 'string', describe: "grid coordinates: EPSG:xxxx, a '+proj=...' string, or utm (zone of the first point)", group: 'Points:' })
+    .option('geoid', { type: 'string', describe: 'orthometric heights: egm96 or a geoid grid FILE (refdelta-geoid-grid 1)', group: 'Points:' }) as Argv<T>;
+}
+
+/** PointsArgs from yargs' parsed values. */
+export function pointsArgsFrom(a: Record<string, unknown>): PointsArgs {
+  return { ...solveArgsFrom(a), windows: a.windows, toleranceH: a.toleranceH, toleranceV: a.toleranceV, projection: a.projection, geoid: a.geoid };
 }

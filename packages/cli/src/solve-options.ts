@@ -19,6 +19,7 @@ export interface SolveOptionArgs {
   readonly refAntennaHeight?: unknown;
   readonly heightKind?: unknown;
   readonly antennaRadius?: unknown;
+  readonly slantOffset?: unknown;
   readonly elevationMask?: unknown;
   readonly weights?: unknown;
   readonly sigmaA?: unknown;
@@ -32,17 +33,44 @@ export interface SolveOptionArgs {
   readonly outputs?: unknown;
 }
 
+/** Where a slant height was measured: the antenna's slant measuring point (manufacturer's sheet). */
+export interface SlantGeometry {
+  /** Horizontal distance from the antenna axis to the slant measuring point (m). */
+  readonly radiusM: number;
+  /**
+   * --slant-offset: vertical offset from the slant measuring point to the antenna reference point (m),
+   * i.e. the ARP's height above the measuring point; negative when the ARP is below it (the usual case:
+   * the ARP is the bottom of the mount, the measuring point the edge of the ground plane).
+   */
+  readonly arpAboveSlantPointM: number;
+}
+
 /**
- * Vertical antenna height from a measured one. Slant: measured from the mark to the antenna's edge at
- * radius r from the vertical axis, so h = sqrt(s^2 - r^2) (right triangle; common practice). The
- * measuring point is assumed at the height of the antenna reference point: when it is not, add the
- * manufacturer's vertical offset to the result yourself.
+ * Vertical height mark -> antenna reference point (ARP) from a measured one. Slant: measured from the
+ * mark to the slant measuring point at radius r from the vertical axis; that point is sqrt(s^2 - r^2)
+ * above the mark (Pythagoras in the vertical plane through the axis; common practice, receiver
+ * manuals) and the ARP d = --slant-offset above the point: h_ARP = sqrt(s^2 - r^2) + d (the rule of
+ * core points/antenna-height.ts verticalHeightToArpM with its o = -d).
  */
-export function verticalHeightM(measuredM: number, kind: 'vertical' | 'slant', radiusM: number | undefined, option: string): number {
+export function verticalHeightM(measuredM: number, kind: 'vertical' | 'slant', slant: SlantGeometry | undefined, option: string): number {
   if (kind === 'vertical') return measuredM;
-  if (radiusM === undefined) throw new UsageError(`--height-kind slant needs --antenna-radius M (the horizontal distance from the antenna axis to where ${option} was measured)`);
-  if (!(measuredM > radiusM)) throw new UsageError(`--${option} ${measuredM} m is a slant height not longer than --antenna-radius ${radiusM} m`);
-  return Math.sqrt(measuredM * measuredM - radiusM * radiusM);
+  if (slant === undefined) throw new UsageError(`--height-kind slant needs --antenna-radius M (the horizontal distance from the antenna axis to where ${option} was measured)`);
+  if (!(measuredM > slant.radiusM)) throw new UsageError(`--${option} ${measuredM} m is a slant height not longer than --antenna-radius ${slant.radiusM} m`);
+  const h = Math.sqrt(measuredM * measuredM - slant.radiusM * slant.radiusM) + slant.arpAboveSlantPointM;
+  if (!(h >= 0)) throw new UsageError(`--${option} ${measuredM} m with --slant-offset ${slant.arpAboveSlantPointM} m puts the antenna reference point below the mark`);
+  return h;
+}
+
+/** --antenna-radius and --slant-offset, when a radius is given. */
+export function parseSlantGeometry(a: SolveOptionArgs): SlantGeometry | undefined {
+  const radiusM = a.antennaRadius === undefined ? undefined : parseNumber('antenna-radius', a.antennaRadius, 0, 1);
+  // Slant measuring points sit within a few decimetres of the ARP on survey antennas (common practice).
+  const offsetM = a.slantOffset === undefined ? 0 : parseNumber('slant-offset', a.slantOffset, -1, 1);
+  if (radiusM === undefined) {
+    if (a.slantOffset !== undefined) throw new UsageError('--slant-offset needs --antenna-radius M (both describe the slant measuring point)');
+    return undefined;
+  }
+  return { radiusM, arpAboveSlantPointM: offsetM };
 }
 
 export interface AntennaHeights {
@@ -53,13 +81,13 @@ export interface AntennaHeights {
 
 export function parseAntennaHeights(a: SolveOptionArgs): AntennaHeights {
   const kind = parseChoice('height-kind', a.heightKind ?? 'vertical', ['vertical', 'slant'] as const);
-  const radius = a.antennaRadius === undefined ? undefined : parseNumber('antenna-radius', a.antennaRadius, 0, 1);
+  const slant = parseSlantGeometry(a);
   const rover = a.roverAntennaHeight === undefined ? undefined : parseNumber('rover-antenna-height', a.roverAntennaHeight, 0, 100);
   const ref = a.refAntennaHeight === undefined ? undefined : parseNumber('ref-antenna-height', a.refAntennaHeight, 0, 100);
   if (kind === 'slant' && rover === undefined && ref === undefined) throw new UsageError('--height-kind slant given without --rover-antenna-height or --ref-antenna-height');
   return {
-    roverHeightM: rover === undefined ? undefined : verticalHeightM(rover, kind, radius, 'rover-antenna-height'),
-    referenceHeightM: ref === undefined ? undefined : verticalHeightM(ref, kind, radius, 'ref-antenna-height'),
+    roverHeightM: rover === undefined ? undefined : verticalHeightM(rover, kind, slant, 'rover-antenna-height'),
+    referenceHeightM: ref === undefined ? undefined : verticalHeightM(ref, kind, slant, 'ref-antenna-height'),
   };
 }
 

@@ -10,7 +10,7 @@ import {
   CONTROL_CHECK_COLUMNS, checkAgainstControl, controlCheckJson, controlCheckPreamble, controlCheckRows, fixed,
   parseControlCsv, parseHelmertJson, parsePointsCsv, type HelmertParams,
 } from '@refdelta/core';
-import { requireFile, writeFileAtomic } from '../node-io.js';
+import { OutputSet, requireFile } from '../node-io.js';
 import { parseNumber } from '../parse-values.js';
 import { Reporter } from '../reporter.js';
 import { EXIT_CHECK_FAILED, EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
@@ -54,10 +54,12 @@ export async function runCheck(a: CheckArgs, rep: Reporter): Promise<number> {
   const outDir = resolve(String(a.out));
   const csvPath = join(outDir, CHECK_FILE_NAMES.csv), jsonPath = join(outDir, CHECK_FILE_NAMES.json);
   const csv = controlCheckPreamble(r).join('\n') + '\n' + stringify([[...CONTROL_CHECK_COLUMNS], ...controlCheckRows(r)], { record_delimiter: 'unix' });
-  await writeFileAtomic(csvPath, [csv]);
   const doc = controlCheckJson(r, { pointsFile: resolve(pointsFile), marksFile: resolve(marksFile), createdUtc: new Date().toISOString(), warnings: rep.warnings });
-  await writeFileAtomic(jsonPath, [JSON.stringify(doc, null, 2) + '\n']);
-  for (const p of [csvPath, jsonPath]) rep.event('output', { path: p });
+  // The pair is one set: both sealed (flushed, fsynced) before either is renamed, the JSON last.
+  const set = new OutputSet();
+  await set.add('control-check', csvPath, [csv]);
+  await set.add('control-check-json', jsonPath, [JSON.stringify(doc, null, 2) + '\n']);
+  for (const { kind, written } of await set.commit()) rep.event('output', { kind, path: written.path, bytes: written.bytes, sha256: written.sha256 });
 
   for (const p of r.pairs) {
     rep.info(`${p.pointName} vs ${p.markName} (${p.by}): dE ${fixed(p.comparison.dE, 3)} dN ${fixed(p.comparison.dN, 3)} dU ${fixed(p.comparison.dU, 3)} m, ` +

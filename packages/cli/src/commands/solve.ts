@@ -1,13 +1,13 @@
 /** `refdelta solve`: a differential session from files to an output folder. */
-import { join, resolve } from 'node:path';
+import { basename, join, resolve } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
 import {
-  GNSS_SYSTEMS, csvPreamble, epochColumns, epochRow, epochFeature, geojsonNote, jsonNumber, pointReferenceWords,
+  GNSS_SYSTEMS, InputError, csvPreamble, epochFeature, geojsonNote, jsonNumber, pointReferenceWords,
   positionScatter, residualRowsOf, RESIDUAL_COLUMNS, solveSession, summaryJson,
-  type EcefM, type EpochSolution, type FrameEpoch, type GnssSystem, type InputFileRecord, type OutputFileRecord, type PointReference,
-  type SessionOptions,
+  type EcefM, type EpochSolution, type FrameEpoch, type GnssSystem, type InputFileRecord, type ObsHeader, type OutputFileRecord,
+  type PointReference, type SessionOptions, type SessionSummary,
 } from '@refdelta/core';
-import { AtomicFile, openNav, openObs, requireFile, sha256File, writeFileAtomic, type OpenedObs } from '../node-io.js';
+import { AtomicFile, OutputSet, openNav, openObs, requireFile, sha256File, type OpenedObs } from '../node-io.js';
 import { obsTimeSpan, requireNavigation, requireOverlap, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
 import { referenceFromMark } from '../reference-mark.js';
@@ -19,6 +19,8 @@ import { Reporter } from '../reporter.js';
 import { EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
 import { UsageError } from '../usage-error.js';
 import { SOFTWARE } from '../software.js';
+import { epochTableColumns, epochTableRow, standaloneFrameNote } from '../epoch-table.js';
+import { warningsSummary } from '../warnings-summary.js';
 
 export interface SolveArgs extends ReferenceArgs, SolveOptionArgs {
   readonly rover: string;
@@ -39,23 +41,24 @@ function csvText(rows: readonly (readonly string[])[]): string {
   return rows.length ? stringify(rows as string[][], { record_delimiter: 'unix' }) : '';
 }
 
-/** Writers of the streamed outputs; each is an AtomicFile committed at the end. */
+/** Writers of the streamed outputs: members of the run's OutputSet, committed with the rest at the end. */
 class StreamedOutputs {
   private readonly files = new Map<OutputKind, AtomicFile>();
   private geoFeatures = 0;
   private epochBatch: string[][] = [];
   private residualBatch: string[][] = [];
 
-  constructor(readonly dir: string, readonly kinds: readonly OutputKind[]) {}
+  constructor(readonly dir: string, readonly kinds: readonly OutputKind[], private readonly set: OutputSet) {}
 
   path(kind: OutputKind): string {
     return join(this.dir, OUTPUT_FILE_NAMES[kind]);
   }
 
+  /** Opens the streamed members; on failure the set is aborted (OutputSet.create). */
   async open(frame: FrameEpoch, pointReference: PointReference, systems: readonly GnssSystem[], notes: readonly string[]): Promise<void> {
-    for (const k of this.kinds) if (k !== 'summary') this.files.set(k, await AtomicFile.create(this.path(k)));
+    for (const k of this.kinds) if (k !== 'summary') this.files.set(k, await this.set.create(k, this.path(k)));
     const ep = this.files.get('epochs');
-    if (ep) await ep.write(csvPreamble({ frame, pointReference, notes }).join('\n') + '\n' + csvText([epochColumns(systems)]));
+    if (ep) await ep.write(csvPreamble({ frame, pointReference, notes }).join('\n') + '\n' + csvText([epochTableColumns(systems)]));
     const rs = this.files.get('residuals');
     if (rs) await rs.write(csvText([[...RESIDUAL_COLUMNS]]));
     const gj = this.files.get('geojson');
@@ -69,9 +72,9 @@ class StreamedOutputs {
     }
   }
 
-  async add(s: Parameters<typeof epochRow>[0], systems: readonly GnssSystem[]): Promise<void> {
+  async add(s: EpochSolution, systems: readonly GnssSystem[]): Promise<void> {
     if (this.files.has('epochs')) {
-      this.epochBatch.push(epochRow(s, systems));
+      this.epochBatch.push(epochTableRow(s, systems));
       if (this.epochBatch.length >= 500) await this.flushEpochs();
     }
     if (this.files.has('residuals')) {
@@ -80,6 +83,7 @@ class StreamedOutputs {
     }
     const gj = this.files.get('geojson');
     if (gj) {
+      // Each feature carries its own row's frame (standalone rows: the broadcast orbits' frame).
       const f = epochFeature(s, s.position?.frame ?? { name: 'unstated', epochYear: NaN });
       if (f) await gj.write((this.geoFeatures++ ? ',\n' : '') + JSON.stringify(f));
     }
@@ -97,23 +101,12 @@ class StreamedOutputs {
     this.residualBatch = [];
   }
 
-  async commit(): Promise<OutputFileRecord[]> {
+  /** Writes what is buffered and closes the GeoJSON array; the files stay uncommitted members of the set. */
+  async finish(): Promise<void> {
     await this.flushEpochs();
     await this.flushResiduals();
     const gj = this.files.get('geojson');
     if (gj) await gj.write('\n]}\n');
-    const out: OutputFileRecord[] = [];
-    for (const [kind, f] of this.files) {
-      const w = await f.commit();
-      out.push({ kind, path: w.path, bytes: w.bytes, sha256: w.sha256 });
-    }
-    this.files.clear();
-    return out;
-  }
-
-  async abort(): Promise<void> {
-    for (const f of this.files.values()) await f.abort();
-    this.files.clear();
   }
 }
 
@@ -124,7 +117,28 @@ export interface SolveHooks {
   readonly onEpoch?: (s: EpochSolution) => void;
 }
 
-export async function runSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = {}): Promise<SolveResult> {
+/**
+ * A solve run whose outputs are written but not committed: the caller decides success, may add its
+ * own files to `set`, then commits everything with commitStagedSolve() or drops it with `set.abort()`.
+ */
+export interface StagedSolve {
+  readonly outDir: string;
+  readonly set: OutputSet;
+  readonly kinds: readonly OutputKind[];
+  readonly summary: SessionSummary;
+  readonly frame: FrameEpoch;
+  readonly pointReference: PointReference;
+  readonly roverHeader: ObsHeader;
+  /** Epochs with a position (differential, smoothed or standalone). */
+  readonly solvedEpochs: number;
+  /** The sentence of a run that solved no epoch, else null. */
+  readonly failure: string | null;
+  /** summary.json's document for the given list of outputs. */
+  readonly summaryDoc: (outputs: readonly OutputFileRecord[]) => Record<string, unknown>;
+}
+
+/** Steps 1-4 of a solve run: checks, reference coordinate, the run, the per-epoch outputs staged in an OutputSet. */
+export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = {}): Promise<StagedSolve> {
   // 1. The command line, before any file is touched.
   const choice = parseReferenceChoice(a);
   const base = parseSessionOptions(a);
@@ -142,13 +156,16 @@ export async function runSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = 
   const refProbes: OpenedObs[] = [];
   for (const p of a.reference) refProbes.push(await openObs(p, () => {}));
   const roverSpan = await obsTimeSpan(a.rover, roverProbe.header);
-  if (!roverSpan) throw new UsageError(`${a.rover} holds no observation epochs`);
+  // A data problem, not a usage one: exit 1 with one sentence.
+  if (!roverSpan) throw new InputError(a.rover, 0, `${a.rover} holds no observation epochs`);
   const refSpans: { path: string; span: TimeSpan }[] = [];
   for (let i = 0; i < a.reference.length; i++) {
     const sp = await obsTimeSpan(a.reference[i], refProbes[i].header);
     if (sp) refSpans.push({ path: a.reference[i], span: sp });
   }
-  if (!refSpans.length) throw new UsageError(`the reference files hold no observation epochs`);
+  if (!refSpans.length) {
+    throw new InputError(a.reference[0], 0, `the reference file${a.reference.length > 1 ? 's' : ''} ${a.reference.join(', ')} hold${a.reference.length > 1 ? '' : 's'} no observation epochs`);
+  }
   requireOverlap({ path: a.rover, span: roverSpan }, refSpans);
 
   rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: a.reference, nav: a.nav, out: outDir });
@@ -186,14 +203,15 @@ export async function runSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = 
   const pointReference: PointReference = options.reduceToMark ? 'ground-mark' : 'antenna-reference-point';
   const roverSystems = Object.keys(rover.header.obsCodes) as GnssSystem[];
   const clockSystems = GNSS_SYSTEMS.filter((s) => options.systems.includes(s) && roverSystems.includes(s));
-  const outputs = new StreamedOutputs(outDir, kinds);
-  const notes = [ref.note];
-  await outputs.open(frame, pointReference, clockSystems, notes);
+  const set = new OutputSet();
+  const outputs = new StreamedOutputs(outDir, kinds, set);
+  const notes = [ref.note, ...(options.standaloneFallback ? [standaloneFrameNote()] : [])];
   const positions: EcefM[] = [];
   const standalone: EcefM[] = [];
   let n = 0;
   const spanS = Math.max(roverSpan.lastGpsS - roverSpan.firstGpsS, 1e-9);
   try {
+    await outputs.open(frame, pointReference, clockSystems, notes);
     for await (const s of run.epochs) {
       n++;
       await outputs.add(s, clockSystems);
@@ -202,51 +220,96 @@ export async function runSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = 
       else if (s.position && s.kind === 'standalone') standalone.push(s.position.ecef);
       rep.progress(n, (s.tagGpsS - roverSpan.firstGpsS) / spanS);
     }
+    await outputs.finish();
   } catch (e) {
-    await outputs.abort();
+    await set.abort();
     throw e;
   }
   rep.clearBar();
-  const written = await outputs.commit();
 
-  // 5. The summary, written last: it lists the other outputs with their hashes.
+  // 5. What the summary needs, computed once (input hashes) and assembled when the outputs are known.
   const summary = run.summary();
-  const inputs: InputFileRecord[] = [];
-  const kindOf = (p: string): InputFileRecord['kind'] => (p === a.rover ? 'rover' : a.reference.includes(p) ? 'reference' : 'navigation');
-  const layersOf = (p: string): readonly string[] | undefined =>
-    p === a.rover ? rover.layers : navLayers.get(p) ?? references[a.reference.indexOf(p)]?.layers;
-  for (const p of allPaths) inputs.push({ path: resolve(p), sha256: await sha256File(p), kind: kindOf(p), bytes: sizes.get(p), layers: layersOf(p) });
-  if (choice.mode === 'mark') inputs.push({ path: resolve(choice.marksFile), sha256: await sha256File(choice.marksFile), kind: 'control' });
-  const scatter = positions.length
-    ? { over: 'differential and smoothed epochs', stats: positionScatter(positions) }
-    : standalone.length ? { over: 'standalone epochs (no differential epoch)', stats: positionScatter(standalone) } : undefined;
-  const summaryPath = join(outDir, OUTPUT_FILE_NAMES.summary);
-  const allOutputs: OutputFileRecord[] = [...written];
-  if (kinds.includes('summary')) allOutputs.push({ kind: 'summary', path: summaryPath });
-  const doc = summaryJson(summary, inputs, options, allOutputs, {
-    scatter, software: SOFTWARE, createdUtc: new Date().toISOString(), warnings: rep.warnings, referenceNote: ref.note, referenceSource: ref.source,
-  });
-  if (kinds.includes('summary')) {
-    const w = await writeFileAtomic(summaryPath, [JSON.stringify(doc, null, 2) + '\n']);
-    // The file cannot list its own hash; the caller (and --json-lines) gets it.
-    allOutputs[allOutputs.length - 1] = { kind: 'summary', path: w.path, bytes: w.bytes, sha256: w.sha256 };
-  }
-  for (const o of allOutputs) rep.event('output', { kind: o.kind, path: o.path, bytes: o.bytes ?? null, sha256: o.sha256 ?? null });
-
-  const solved = summary.epochsByKind.differential + summary.epochsByKind.smoothed + summary.epochsByKind.standalone;
-  rep.warningTail(kinds.includes('summary') ? summaryPath : 'the warnings above');
-  rep.info(
-    `${summary.epochsRover} rover epochs: ${summary.epochsByKind.differential} differential, ${summary.epochsByKind.smoothed} smoothed, ` +
-    `${summary.epochsByKind.standalone} standalone, ${summary.epochsByKind.none} without a solution`,
-  );
-  rep.info(`frame: ${frame.name} epoch ${Number.isFinite(frame.epochYear) ? frame.epochYear.toFixed(2) : 'unstated'}; positions refer to the ${pointReferenceWords(pointReference)}`);
-  rep.info(`outputs in ${outDir}: ${allOutputs.map((o) => OUTPUT_FILE_NAMES[o.kind as OutputKind] ?? o.path).join(', ')}`);
-  if (solved === 0) {
+  try {
+    const inputs: InputFileRecord[] = [];
+    const kindOf = (p: string): InputFileRecord['kind'] => (p === a.rover ? 'rover' : a.reference.includes(p) ? 'reference' : 'navigation');
+    const layersOf = (p: string): readonly string[] | undefined =>
+      p === a.rover ? rover.layers : navLayers.get(p) ?? references[a.reference.indexOf(p)]?.layers;
+    for (const p of allPaths) inputs.push({ path: resolve(p), sha256: await sha256File(p), kind: kindOf(p), bytes: sizes.get(p), layers: layersOf(p) });
+    if (choice.mode === 'mark') inputs.push({ path: resolve(choice.marksFile), sha256: await sha256File(choice.marksFile), kind: 'control' });
+    const scatter = positions.length
+      ? { over: 'differential and smoothed epochs', stats: positionScatter(positions) }
+      : standalone.length ? { over: 'standalone epochs (no differential epoch)', stats: positionScatter(standalone) } : undefined;
+    const solvedEpochs = summary.epochsByKind.differential + summary.epochsByKind.smoothed + summary.epochsByKind.standalone;
     const top = summary.epochRejections[0]?.reason;
-    rep.failure(`no rover epoch could be solved${top ? `: most epochs were rejected because of "${top}"` : ''}`, EXIT_PROCESSING);
-    rep.event('done', { exit_code: EXIT_PROCESSING, summary: kinds.includes('summary') ? summaryPath : null });
-    return { exitCode: EXIT_PROCESSING, outputs: allOutputs, summaryPath: kinds.includes('summary') ? summaryPath : null };
+    const failure = solvedEpochs === 0 ? `no rover epoch of ${a.rover} could be solved${top ? `: most epochs were rejected because of "${top}"` : ''}` : null;
+    const summaryDoc = (outs: readonly OutputFileRecord[]): Record<string, unknown> => {
+      const doc = summaryJson(summary, inputs, options, outs, {
+        scatter, software: SOFTWARE, createdUtc: new Date().toISOString(), warnings: rep.warnings, referenceNote: ref.note, referenceSource: ref.source,
+      });
+      return { ...doc, warnings: warningsSummary(rep) };
+    };
+    return { outDir, set, kinds, summary, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc };
+  } catch (e) {
+    await set.abort();
+    throw e;
   }
-  rep.event('done', { exit_code: EXIT_OK, summary: kinds.includes('summary') ? summaryPath : null, epochs: summary.epochsRover });
-  return { exitCode: EXIT_OK, outputs: allOutputs, summaryPath: kinds.includes('summary') ? summaryPath : null };
+}
+
+/**
+ * Commits a staged run with every file the caller added to its set: phase 1 seals them all (their
+ * hashes are then known), summary.json (when asked for) is written listing them and added last, then
+ * all are renamed into place, summary.json last (OutputSet.commit). 'output' events follow.
+ */
+export async function commitStagedSolve(st: StagedSolve, rep: Reporter): Promise<OutputFileRecord[]> {
+  let done;
+  try {
+    const sealed = await st.set.seal();
+    const records: OutputFileRecord[] = sealed.map(({ kind, written }) => ({ kind, path: written.path, bytes: written.bytes, sha256: written.sha256 }));
+    if (st.kinds.includes('summary')) {
+      const summaryPath = join(st.outDir, OUTPUT_FILE_NAMES.summary);
+      // The file cannot list its own hash; the caller (and --json-lines) gets it.
+      const doc = st.summaryDoc([...records, { kind: 'summary', path: summaryPath }]);
+      await st.set.add('summary', summaryPath, [JSON.stringify(doc, null, 2) + '\n']);
+    }
+    done = await st.set.commit();
+  } catch (e) {
+    await st.set.abort();
+    throw e;
+  }
+  const out = done.map(({ kind, written }) => ({ kind, path: written.path, bytes: written.bytes, sha256: written.sha256 }));
+  for (const o of out) rep.event('output', { kind: o.kind, path: o.path, bytes: o.bytes, sha256: o.sha256 });
+  return out;
+}
+
+/** The counts and frame lines printed after a run. */
+export function reportSolveCounts(st: StagedSolve, rep: Reporter): void {
+  const k = st.summary.epochsByKind;
+  rep.warningTail(st.kinds.includes('summary') ? join(st.outDir, OUTPUT_FILE_NAMES.summary) : 'the warnings above');
+  rep.info(`${st.summary.epochsRover} rover epochs: ${k.differential} differential, ${k.smoothed} smoothed, ${k.standalone} standalone, ${k.none} without a solution`);
+  rep.info(`frame: ${st.frame.name} epoch ${Number.isFinite(st.frame.epochYear) ? st.frame.epochYear.toFixed(2) : 'unstated'}; positions refer to the ${pointReferenceWords(st.pointReference)}`);
+}
+
+/** Words for the output list line. */
+export function outputNames(outs: readonly OutputFileRecord[]): string {
+  return outs.map((o) => basename(o.path)).join(', ');
+}
+
+/**
+ * `refdelta solve`. Success is decided before anything is committed: a run that solves no epoch
+ * writes nothing (an earlier complete output set in --out stays as it was) and exits 1.
+ */
+export async function runSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = {}): Promise<SolveResult> {
+  const st = await stageSolve(a, rep, hooks);
+  reportSolveCounts(st, rep);
+  if (st.failure) {
+    await st.set.abort();
+    rep.failure(`${st.failure}; nothing was written to ${st.outDir}`, EXIT_PROCESSING);
+    rep.event('done', { exit_code: EXIT_PROCESSING, summary: null });
+    return { exitCode: EXIT_PROCESSING, outputs: [], summaryPath: null };
+  }
+  const outs = await commitStagedSolve(st, rep);
+  rep.info(`outputs in ${st.outDir}: ${outputNames(outs)}`);
+  const summaryPath = st.kinds.includes('summary') ? join(st.outDir, OUTPUT_FILE_NAMES.summary) : null;
+  rep.event('done', { exit_code: EXIT_OK, summary: summaryPath, epochs: st.summary.epochsRover });
+  return { exitCode: EXIT_OK, outputs: outs, summaryPath };
 }

@@ -1,0 +1,287 @@
+/**
+ * `refdelta batch`: every rover observation file of a folder processed as one `points` session
+ * (solve outputs + points files in OUT/<session>/, one atomic set each) against the same reference and
+ * navigation files, or against those of --reference-dir / --nav-dir whose time spans overlap the
+ * session. A session that fails is reported with one sentence naming its file and skipped; the others
+ * go on. At the end OUT/batch-points.csv (every point of every session) and OUT/batch-summary.json are
+ * committed as one set (the summary last), and a table is printed on stdout.
+ * Exit: 0 all sessions ok, 4 some failed (EXIT_BATCH_PARTIAL), 1 none could be processed, 2 usage.
+ */
+import { readdir, stat } from 'node:fs/promises';
+import { basename, join, resolve } from 'node:path';
+import { stringify } from 'csv-stringify/sync';
+import { InputError, ProcessingError, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds } from '@refdelta/core';
+import { OutputSet, openNav, openObs } from '../node-io.js';
+import { NAV_WINDOW_S, obsTimeSpan, type TimeSpan } from '../input-checks.js';
+import { looksLikeObservationName, rinexKindOfFile, type RinexKind } from '../rinex-kind.js';
+import { parseReferenceChoice } from '../reference-choice.js';
+import { parseAntennaHeights, parseOutputs, parseSessionOptions } from '../solve-options.js';
+import { describeFailure } from '../failure-sentence.js';
+import { Reporter } from '../reporter.js';
+import { EXIT_BATCH_PARTIAL, EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
+import { UsageError } from '../usage-error.js';
+import { SOFTWARE } from '../software.js';
+import { parsePointsConfig, runPointsSession, type PointsArgs, type PointsConfig } from './points.js';
+
+export interface BatchArgs extends Omit<PointsArgs, 'rover' | 'reference' | 'nav'> {
+  readonly sessions: unknown;
+  readonly reference?: readonly string[];
+  readonly referenceDir?: unknown;
+  readonly nav?: readonly string[];
+  readonly navDir?: unknown;
+}
+
+export const BATCH_FILE_NAMES = { summary: 'batch-summary.json', points: 'batch-points.csv' } as const;
+
+/** One session's line in the table and the summary. */
+export interface SessionRecord {
+  readonly name: string;
+  readonly file: string;
+  readonly status: 'ok' | 'failed';
+  readonly reason: string | null;
+  readonly roverEpochs: number | null;
+  readonly solvedEpochs: number | null;
+  readonly points: number;
+  readonly out: string | null;
+  readonly referenceFiles: readonly string[];
+  readonly navFiles: readonly string[];
+}
+
+interface Candidate { readonly path: string; readonly kind: RinexKind }
+
+/** Regular files of a folder, by name, with their kind by content. */
+async function folderFiles(dir: string, option: string): Promise<Candidate[]> {
+  let names: string[];
+  try {
+    const st = await stat(dir);
+    if (!st.isDirectory()) throw new InputError(dir, 0, `${option} ${dir} is not a folder`);
+    names = await readdir(dir);
+  } catch (e) {
+    if (e instanceof InputError) throw e;
+    throw new InputError(dir, 0, `${option} ${dir}: no such folder`);
+  }
+  const out: Candidate[] = [];
+  for (const n of names.sort()) {
+    if (n.startsWith('.')) continue; // hidden files, our own temporary files among them
+    const p = join(dir, n);
+    const st = await stat(p).catch(() => null);
+    if (!st?.isFile()) continue;
+    out.push({ path: p, kind: await rinexKindOfFile(p) });
+  }
+  return out;
+}
+
+/** Folder names for the sessions: the file name without compression and observation extensions; the whole file name where two would clash. */
+export function sessionNames(paths: readonly string[]): string[] {
+  const clean = (s: string) => s.replace(/[^A-Za-z0-9._-]/g, '_');
+  const short = paths.map((p) => clean(basename(p).replace(/\.(gz|z)$/i, '').replace(/\.(obs|rnx|crx|\d\d[od])$/i, '')));
+  return short.map((s, i) => (short.filter((x) => x === s).length > 1 ? clean(basename(paths[i])) : s));
+}
+
+function when(gpsS: number): string {
+  return `${isoFromSeconds(gpsToUtcS(gpsS), '').replace('T', ' ').slice(0, 19)} UTC`;
+}
+
+/** Reference observation files of a folder with their spans and station names (read once). */
+interface ReferenceCandidate { readonly path: string; readonly span: TimeSpan; readonly marker: string }
+/** Navigation files of a folder with the span of their ephemeris reference times. */
+interface NavCandidate { readonly path: string; readonly span: TimeSpan }
+
+async function referenceCandidates(files: readonly Candidate[]): Promise<ReferenceCandidate[]> {
+  const out: ReferenceCandidate[] = [];
+  for (const f of files) {
+    if (f.kind !== 'observation') continue;
+    try {
+      const o = await openObs(f.path, () => {});
+      const span = await obsTimeSpan(f.path, o.header);
+      if (span) out.push({ path: f.path, span, marker: o.header.markerName.trim() });
+    } catch {
+      // an unreadable reference candidate is not picked; the session that needed it says so
+    }
+  }
+  return out;
+}
+
+async function navCandidates(files: readonly Candidate[]): Promise<NavCandidate[]> {
+  const out: NavCandidate[] = [];
+  for (const f of files) {
+    if (f.kind !== 'navigation') continue;
+    try {
+      const { nav } = await openNav([f.path], () => {});
+      let first = Infinity, last = -Infinity;
+      for (const e of nav.ephemerides) {
+        const t = ephemerisTimeGpsS(e);
+        if (!Number.isFinite(t)) continue;
+        first = Math.min(first, t);
+        last = Math.max(last, t);
+      }
+      if (Number.isFinite(first)) out.push({ path: f.path, span: { firstGpsS: first, lastGpsS: last } });
+    } catch {
+      // unreadable navigation candidates are not picked
+    }
+  }
+  return out;
+}
+
+const overlaps = (a: TimeSpan, b: TimeSpan, marginS: number) => a.firstGpsS <= b.lastGpsS + marginS && a.lastGpsS >= b.firstGpsS - marginS;
+
+/** The reference files of --reference-dir for one session: overlapping its span (widened by the correction age limit), of one station. */
+function pickReferences(all: readonly ReferenceCandidate[], span: TimeSpan, maxAgeS: number, dir: string): string[] {
+  const hit = all.filter((r) => overlaps(r.span, span, maxAgeS)).sort((x, y) => x.span.firstGpsS - y.span.firstGpsS);
+  if (hit.length === 0) throw new ProcessingError(`no reference observation file in ${dir} overlaps the session's time span ${when(span.firstGpsS)} to ${when(span.lastGpsS)}`);
+  const stations = [...new Set(hit.map((r) => r.marker))];
+  if (stations.length > 1) throw new ProcessingError(`reference files of several stations (${stations.join(', ')}) in ${dir} overlap the session: keep one station per --reference-dir`);
+  return hit.map((r) => r.path);
+}
+
+/** The navigation files of --nav-dir whose ephemerides are within the usable window of the session (input-checks.ts NAV_WINDOW_S). */
+function pickNav(all: readonly NavCandidate[], span: TimeSpan, dir: string): string[] {
+  const hit = all.filter((n) => overlaps(n.span, span, NAV_WINDOW_S));
+  if (hit.length === 0) throw new ProcessingError(`no navigation file in ${dir} has ephemerides for the session's time span ${when(span.firstGpsS)} to ${when(span.lastGpsS)}`);
+  return hit.map((n) => n.path);
+}
+
+function pad(s: string, n: number): string {
+  return s.length >= n ? s : s + ' '.repeat(n - s.length);
+}
+
+/** The printed table: session, epochs, solved %, points, status (reason). */
+export function batchTable(records: readonly SessionRecord[]): string {
+  const rows = records.map((r) => [
+    r.name, r.roverEpochs === null ? '-' : String(r.roverEpochs),
+    r.roverEpochs ? ((100 * (r.solvedEpochs ?? 0)) / r.roverEpochs).toFixed(1) : '-',
+    String(r.points), r.status === 'ok' ? 'ok' : `failed: ${r.reason}`,
+  ]);
+  const head = ['session', 'epochs', 'solved %', 'points', 'status'];
+  const w = head.map((h, i) => Math.max(h.length, ...rows.map((r) => (i < 4 ? r[i].length : 0))));
+  return [head, ...rows].map((r) => r.map((c, i) => (i < 4 ? pad(c, w[i]) : c)).join('  ')).join('\n') + '\n';
+}
+
+/** Option values echoed into the summary (what was given, as given). */
+const ECHOED_OPTIONS = [
+  'outputs', 'refXyz', 'refLlh', 'refFromHeader', 'refMark', 'marks', 'refFrame', 'refEpoch', 'roverAntennaHeight', 'refAntennaHeight',
+  'heightKind', 'antennaRadius', 'slantOffset', 'atAntenna', 'elevationMask', 'weights', 'sigmaA', 'sigmaB', 'smooth', 'systems', 'glonass',
+  'maxAge', 'fallbackStandalone', 'windows', 'toleranceH', 'toleranceV', 'projection', 'geoid',
+] as const;
+
+export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
+  // 1. The command line, checked once for all sessions.
+  if (a.sessions === undefined || String(a.sessions).trim() === '') throw new UsageError('give the folder of rover sessions with --sessions DIR');
+  const refFiles = a.reference ?? [];
+  const navFiles = a.nav ?? [];
+  if (refFiles.length && a.referenceDir !== undefined) throw new UsageError('give the reference files one way only: --reference FILE... or --reference-dir DIR');
+  if (!refFiles.length && a.referenceDir === undefined) throw new UsageError('give the reference observation files with --reference FILE... or --reference-dir DIR');
+  if (navFiles.length && a.navDir !== undefined) throw new UsageError('give the navigation files one way only: --nav FILE... or --nav-dir DIR');
+  if (!navFiles.length && a.navDir === undefined) throw new UsageError('give the navigation files with --nav FILE... or --nav-dir DIR');
+  parseReferenceChoice(a);
+  const base = parseSessionOptions(a);
+  parseAntennaHeights(a);
+  parseOutputs(a.outputs);
+  const cfg: PointsConfig = await parsePointsConfig({ ...a, rover: '', reference: [], nav: [] });
+  const sessionsDir = resolve(String(a.sessions));
+  const outDir = resolve(a.out);
+
+  // 2. The sessions, recognised by content; other files are skipped with a note.
+  const files = await folderFiles(sessionsDir, '--sessions');
+  const skipped: { file: string; reason: string }[] = [];
+  const sessionFiles: string[] = [];
+  for (const f of files) {
+    if (f.kind === 'observation' || (f.kind === 'other' && looksLikeObservationName(basename(f.path)))) sessionFiles.push(f.path);
+    else skipped.push({ file: f.path, reason: f.kind === 'navigation' ? 'a navigation file, not a rover observation file' : 'not a RINEX observation file' });
+  }
+  for (const s of skipped) rep.info(`note: skipping ${s.file}: ${s.reason}`);
+  if (sessionFiles.length === 0) throw new ProcessingError(`no observation file in ${sessionsDir}: nothing to process`);
+  rep.event('start', { command: 'batch', sessions: sessionsDir, count: sessionFiles.length, out: outDir });
+  const refDir = a.referenceDir === undefined ? null : resolve(String(a.referenceDir));
+  const navDir = a.navDir === undefined ? null : resolve(String(a.navDir));
+  const refCandidates = refDir ? await referenceCandidates(await folderFiles(refDir, '--reference-dir')) : [];
+  const navCands = navDir ? await navCandidates(await folderFiles(navDir, '--nav-dir')) : [];
+
+  // 3. One points run per session; a failure is reported and the next session goes on.
+  const names = sessionNames(sessionFiles);
+  const records: SessionRecord[] = [];
+  const batchRows: { session: string; cells: Record<string, string> }[] = [];
+  let columns: string[] | null = null;
+  for (const [i, file] of sessionFiles.entries()) {
+    const name = names[i];
+    const srep = rep.child({ session: name }, `[${name}] `);
+    let references: readonly string[] = refFiles;
+    let navs: readonly string[] = navFiles;
+    try {
+      if (refDir || navDir) {
+        const probe = await openObs(file, () => {});
+        const span = await obsTimeSpan(file, probe.header);
+        if (!span) throw new InputError(file, 0, `${file} holds no observation epochs`);
+        if (refDir) references = pickReferences(refCandidates, span, base.maxCorrectionAgeS, refDir);
+        if (navDir) navs = pickNav(navCands, span, navDir);
+      }
+      srep.info(`session ${name}: ${file} against ${references.map((p) => basename(p)).join(', ')}`);
+      const r = await runPointsSession({ ...a, rover: file, reference: references, nav: navs, out: join(outDir, name) }, cfg, srep, 'batch-session');
+      if (r.failure) throw new ProcessingError(r.failure);
+      records.push({ name, file, status: 'ok', reason: null, roverEpochs: r.roverEpochs, solvedEpochs: r.solvedEpochs, points: r.points.length, out: r.outDir, referenceFiles: references, navFiles: navs });
+      columns ??= [...r.columns];
+      for (const row of r.rows) batchRows.push({ session: name, cells: Object.fromEntries(r.columns.map((c, k) => [c, row[k] ?? ''])) });
+      srep.event('session', { status: 'ok', file, epochs: r.roverEpochs, solved_epochs: r.solvedEpochs, points: r.points.length, out: r.outDir });
+    } catch (e) {
+      // The same wrong command line would fail every session: stop with exit 2.
+      if (e instanceof UsageError) throw e;
+      const sentence = describeFailure(e).sentence;
+      const reason = sentence.includes(file) || sentence.includes(basename(file)) ? sentence : `${file}: ${sentence}`;
+      records.push({ name, file, status: 'failed', reason, roverEpochs: null, solvedEpochs: null, points: 0, out: null, referenceFiles: references, navFiles: navs });
+      srep.event('session', { status: 'failed', file, reason });
+      rep.problem(`session ${name} failed and was skipped: ${reason}`);
+    }
+  }
+
+  // 4. The table; the batch files as one set (summary last), unless no session could be processed.
+  const ok = records.filter((r) => r.status === 'ok');
+  const failed = records.filter((r) => r.status === 'failed');
+  rep.result(batchTable(records));
+  if (ok.length === 0) {
+    rep.failure(`none of the ${records.length} session(s) in ${sessionsDir} could be processed; nothing was written to ${outDir}`, EXIT_PROCESSING);
+    rep.event('done', { exit_code: EXIT_PROCESSING });
+    return EXIT_PROCESSING;
+  }
+  const cols = ['session', ...(columns ?? [])];
+  const pointsCsv = [
+    '# refdelta batch points: every point of every session of the batch, one row each',
+    `# sessions from ${sessionsDir}; frame and frame_epoch are given per row (each session's own reference frame)`,
+    "# easting/northing and orthometric heights, when present, follow each session's own projection and geoid: see OUT/<session>/points.csv",
+  ].join('\n') + '\n' + stringify([cols, ...batchRows.map((r) => [r.session, ...cols.slice(1).map((c) => r.cells[c] ?? '')])], { record_delimiter: 'unix' });
+  const set = new OutputSet();
+  const pointsPath = join(outDir, BATCH_FILE_NAMES.points);
+  const pointsFile = await set.add('batch-points', pointsPath, [pointsCsv]);
+  const summaryPath = join(outDir, BATCH_FILE_NAMES.summary);
+  try {
+    const p = await pointsFile.seal();
+    const given = Object.fromEntries(ECHOED_OPTIONS.filter((k) => (a as unknown as Record<string, unknown>)[k] !== undefined).map((k) => [k, (a as unknown as Record<string, unknown>)[k]]));
+    const doc = {
+      software: { ...SOFTWARE }, created_utc: new Date().toISOString(),
+      sessions_folder: sessionsDir,
+      reference: refDir ? { folder: refDir, picked: 'per session: the observation files whose time span overlaps it (widened by --max-age)' } : { files: refFiles.map((f) => resolve(f)) },
+      navigation: navDir ? { folder: navDir, picked: 'per session: the navigation files with ephemerides within 4 h of its span' } : { files: navFiles.map((f) => resolve(f)) },
+      options: given,
+      counts: { sessions: records.length, ok: ok.length, failed: failed.length, skipped_files: skipped.length, points: batchRows.length },
+      sessions: records.map((r) => ({
+        name: r.name, file: r.file, status: r.status, reason: r.reason, rover_epochs: r.roverEpochs, solved_epochs: r.solvedEpochs,
+        solved_percent: r.roverEpochs ? Math.round((1000 * (r.solvedEpochs ?? 0)) / r.roverEpochs) / 10 : null, points: r.points,
+        out: r.out, summary: r.out ? join(r.out, 'summary.json') : null, reference_files: r.referenceFiles.map((f) => resolve(f)), nav_files: r.navFiles.map((f) => resolve(f)),
+      })),
+      skipped_files: skipped,
+      outputs: [{ kind: 'batch-points', path: p.path, bytes: p.bytes, sha256: p.sha256 }, { kind: 'batch-summary', path: summaryPath, bytes: null, sha256: null }],
+    };
+    await set.add('batch-summary', summaryPath, [JSON.stringify(doc, null, 2) + '\n']);
+    for (const { kind, written } of await set.commit()) rep.event('output', { kind, path: written.path, bytes: written.bytes, sha256: written.sha256 });
+  } catch (e) {
+    await set.abort();
+    throw e;
+  }
+  rep.info(`${ok.length} of ${records.length} session(s) processed; ${batchRows.length} point(s) in ${pointsPath}; summary in ${summaryPath}`);
+  if (failed.length) {
+    rep.failure(`${failed.length} of ${records.length} session(s) failed: ${failed.map((r) => r.name).join(', ')} (reasons above and in ${summaryPath})`, EXIT_BATCH_PARTIAL);
+    rep.event('done', { exit_code: EXIT_BATCH_PARTIAL, summary: summaryPath });
+    return EXIT_BATCH_PARTIAL;
+  }
+  rep.event('done', { exit_code: EXIT_OK, summary: summaryPath });
+  return EXIT_OK;
+}
