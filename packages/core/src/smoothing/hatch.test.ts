@@ -7,22 +7,10 @@ import { describe, expect, it } from 'vitest';
 import { CarrierSmoother } from './hatch.js';
 import type { SmootherInput } from './hatch.js';
 import { MILLISECOND_RANGE_M, detectMillisecondClockJump } from './clock-jump.js';
+import { rng, gauss } from '../../../../test/support/random.js';
 
 const LAMBDA_L1 = 299792458 / 1575.42e6;
 
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-function gauss(r: () => number): number {
-  return Math.sqrt(-2 * Math.log(1 - r())) * Math.cos(2 * Math.PI * r());
-}
 
 /** One satellite whose range grows linearly; code noisy, carrier exact (integer ambiguity 1e6 cycles). */
 function obs(sat: string, t: number, opts: { noise?: number; r?: () => number; codeOffset?: number; phaseOffsetM?: number; lli?: number; ionoM?: number } = {}): SmootherInput {

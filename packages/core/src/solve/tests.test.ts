@@ -2,21 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { dataSnooping, globalTest, qualityControlLoop } from './tests.js';
 import { solveWeightedLeastSquares, solveWeightedLeastSquaresSmall } from './wls.js';
 import type { WlsSolution } from './wls.js';
+import { rng, gauss } from '../../../../test/support/random.js';
 
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-function gauss(r: () => number): number {
-  // Box–Muller (common practice)
-  return Math.sqrt(-2 * Math.log(1 - r())) * Math.cos(2 * Math.PI * r());
-}
 
 /** Line fit y = 2 + 0.5 t with sigma 0.1 noise, one blunder of `blunder` on row `bad`. */
 function regression(blunder: number, bad: number, seed = 7) {

@@ -3,18 +3,9 @@ import fc from 'fast-check';
 import { SingularValueDecomposition, Matrix } from 'ml-matrix';
 import { solveWeightedLeastSquares, solveWeightedLeastSquaresSmall } from './wls.js';
 import type { WlsSolution, WlsSolver } from './wls.js';
+import { rng } from '../../../../test/support/random.js';
 
 /** Deterministic generator (mulberry32, common practice) so a fast-check seed reproduces a whole problem. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const solvers: Array<[string, WlsSolver]> = [
   ['ml-matrix', solveWeightedLeastSquares],
