@@ -1,8 +1,8 @@
 /**
  * Acceptance of the differential engine on real data: the static run of cors-and-rover-2018-277
  * (../shared/data, README there). Truth: the rover's own carrier-phase fixed solution (quality 4),
- * centimetre-level relative to the base's header coordinate. Bounds from the engine's acceptance
- * criteria; the figures are printed so they can be quoted.
+ * centimetre-level relative to the base's header coordinate. Bounds are the engine's
+ * accuracy targets; the figures are printed so they can be quoted.
  */
 import { beforeAll, expect, it } from 'vitest';
 import { ecefToEnu } from '../packages/core/src/geodesy/index.js';

@@ -73,6 +73,15 @@ describe.skipIf(!HAVE)('refdelta points on the demo scenario', () => {
     expect(errs.size).toBe(4);
     // check-values.md "Accuracy facts": code differential about 1 m (1 sigma), averaged over minutes
     for (const e of errs.values()) { expect(e.h).toBeLessThan(1.0); expect(Math.abs(e.u)).toBeLessThan(1.5); }
+    // Self-consistency (simulated truth): the stated horizontal precision of each mean covers its error
+    // (3 sigma of the larger horizontal component), and the antenna heights of the event records are reported.
+    const rows = parseCsv(readFileSync(join(out, 'points.csv'), 'utf8')).rows;
+    const truth = truthMarks();
+    for (const p of rows) {
+      const sigmaH = Math.max(Number(p.sigma_mean_east_m), Number(p.sigma_mean_north_m));
+      expect(errs.get(p.name)!.h).toBeLessThan(3 * Math.SQRT2 * sigmaH);
+      expect(Number(p.antenna_height_m)).toBeCloseTo(truth.get(p.name)!.h, 4);
+    }
   });
 
   it('--windows takes precedence; the windows file\'s antenna heights reduce to the same marks', () => {

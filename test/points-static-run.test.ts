@@ -58,6 +58,13 @@ describeShared('refdelta points on the real static run', () => {
     // check-values.md "Accuracy facts": code differential about 1 m (1 sigma); an average of 20 min does better
     expect(Math.hypot(e, n)).toBeLessThan(1.0);
     expect(Math.abs(u)).toBeLessThan(2.0);
+    // The stated precision of the mean must cover the true error (within 3 sigma per component), i.e. it
+    // accounts for errors that stay correlated over the occupation.
+    expect(Math.abs(e)).toBeLessThan(3 * Number(p.sigma_mean_east_m));
+    expect(Math.abs(n)).toBeLessThan(3 * Number(p.sigma_mean_north_m));
+    expect(Math.abs(u)).toBeLessThan(3 * Number(p.sigma_mean_up_m));
+    // The antenna height in force (header: 0 m) is reported.
+    expect(Number(p.antenna_height_m)).toBe(0);
     // the file states frame, epoch, projection and height reference
     const head = t.comments.join('\n');
     expect(head).toContain('# frame: WGS84 epoch 2018.76');

@@ -69,7 +69,7 @@ export function bringToFrameOf(point: FramedEcef, reference: FramedEcef, opts: F
       code: 'frame-epoch-differs',
       message:
         `${ctx}epochs differ by ${dtYear.toFixed(2)} years (${point.frame.epochYear.toFixed(2)} vs ${reference.frame.epochYear.toFixed(2)}) in ${b}: ` +
-        `stations move, up to about ${motionCm.toFixed(1)} cm over that time in this frame; give velocities to account for it`,
+        `stations move, up to about ${motionCm.toFixed(1)} cm over that time in this frame; the coordinates are compared as given (no station velocities are applied)`,
     });
   }
   return out;

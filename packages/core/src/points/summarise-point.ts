@@ -9,7 +9,7 @@
  * horizontalToleranceM (default 1.0 m, about the code-differential level of check-values.md
  * "Accuracy facts"); otherwise 'ok'.
  */
-import type { EcefM, GeodeticRad } from '../types.js';
+import type { EcefM, EnuM, GeodeticRad } from '../types.js';
 import { ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { median, robustMean } from './robust-mean.js';
 import { batchMeansStandardError, effectiveSampleSize, standardDeviation } from './time-correlation.js';
@@ -18,6 +18,10 @@ export interface PointSample {
   readonly ecef: EcefM;
   readonly tGpsS?: number;
   readonly pdop?: number;
+  /** Formal precision of this epoch's position (sigma E/N/U from the solution's covariance), if known. */
+  readonly sigmaEnuM?: EnuM;
+  /** That epoch's a-posteriori variance factor, scaling its formal sigma to the observed residuals. */
+  readonly varianceFactor?: number;
 }
 
 export interface SummariseOptions {
@@ -26,6 +30,12 @@ export interface SummariseOptions {
   readonly horizontalToleranceM?: number;
   /** Huber k (default 1.5). */
   readonly huberK?: number;
+  /**
+   * Time over which the errors of a static antenna stay correlated (s): code multipath on a still antenna
+   * changes over minutes (satellite geometry; common practice: periods of 1-10 min), which no short series
+   * can reveal. Default 300 s.
+   */
+  readonly correlationTimeS?: number;
 }
 
 export type ToleranceFlag = 'ok' | 'too-few-epochs' | 'scatter-exceeds-tolerance';
@@ -85,6 +95,14 @@ export function summarisePoint(samples: readonly PointSample[], opts: SummariseO
   const durationS = times.length > 0 ? Math.max(...times) - Math.min(...times) : NaN;
   const pdops = samples.map((s) => s.pdop).filter((p): p is number => p !== undefined && Number.isFinite(p));
   const meanPdop = pdops.length > 0 ? pdops.reduce((a, b) => a + b, 0) / pdops.length : NaN;
+  const sig = samples.map((s) => s.sigmaEnuM).filter((x): x is EnuM => x !== undefined && Number.isFinite(x.e));
+  // The a-priori sigmas rescaled by the median a-posteriori variance factor (the residuals' own scale).
+  const vf = samples.map((s) => s.varianceFactor).filter((x): x is number => x !== undefined && Number.isFinite(x) && x > 0);
+  const scale = vf.length > 0 ? Math.sqrt(median(vf)) : 1;
+  const formal = sig.length > 0
+    ? { e: scale * median(sig.map((x) => x.e)), n: scale * median(sig.map((x) => x.n)), u: scale * median(sig.map((x) => x.u)) }
+    : { e: 0, n: 0, u: 0 };
+  const nCorrelation = Math.max(1, (Number.isFinite(durationS) ? durationS : 0) / (opts.correlationTimeS ?? 300));
   const minEpochs = opts.minEpochs ?? 10;
   const tol = opts.horizontalToleranceM ?? 1.0;
   const toleranceFlag: ToleranceFlag = n < minEpochs ? 'too-few-epochs' : Math.hypot(sdE, sdN) > tol ? 'scatter-exceeds-tolerance' : 'ok';
@@ -100,10 +118,12 @@ export function summarisePoint(samples: readonly PointSample[], opts: SummariseO
     nEffEast: fe.nEff,
     nEffNorth: fn.nEff,
     nEffUp: fu.nEff,
-    // sigma of the mean = sd / sqrt(n_eff) (time-correlation.ts)
-    sigmaMeanEastM: sdE / Math.sqrt(fe.nEff),
-    sigmaMeanNorthM: sdN / Math.sqrt(fn.nEff),
-    sigmaMeanUpM: sdU / Math.sqrt(fu.nEff),
+    // sigma of the mean: the larger of the scatter's sd / sqrt(n_eff) (time-correlation.ts) and the epochs'
+    // formal sigma over the number of correlation times the occupation lasted: a constant multipath or
+    // reference error makes the scatter small but is still in the epochs' own error budget.
+    sigmaMeanEastM: Math.max(sdE / Math.sqrt(fe.nEff), formal.e / Math.sqrt(nCorrelation)),
+    sigmaMeanNorthM: Math.max(sdN / Math.sqrt(fn.nEff), formal.n / Math.sqrt(nCorrelation)),
+    sigmaMeanUpM: Math.max(sdU / Math.sqrt(fu.nEff), formal.u / Math.sqrt(nCorrelation)),
     batchSigmaMeanEastM: batchMeansStandardError(e),
     batchSigmaMeanNorthM: batchMeansStandardError(nn),
     batchSigmaMeanUpM: batchMeansStandardError(u),

@@ -16,7 +16,7 @@ export function jsonNumber(x: number | null | undefined, decimals: number): numb
   return Object.is(r, -0) ? 0 : r;
 }
 
-/** A frame epoch as decimal year text with two decimals (about 3.7 days), e.g. 2018.76. */
+/** A frame epoch as decimal-year text, as given (up to 4 decimals, about an hour), e.g. 2018.76 or 2024.3672. */
 export function frameEpochText(epochYear: number): string {
-  return Number.isFinite(epochYear) ? epochYear.toFixed(2) : 'unstated';
+  return Number.isFinite(epochYear) ? String(Math.round(epochYear * 1e4) / 1e4) : 'unstated';
 }

@@ -18,7 +18,7 @@
  * horizontal tolerance (default 1.0 m), 'exceeds-vertical' when sd_u is above the vertical tolerance
  * (default 2.0 m), 'exceeds-horizontal-and-vertical' for both; else 'ok'. Defaults as control/compare-to-mark.ts.
  */
-import type { EcefM, FrameEpoch } from '../types.js';
+import type { EcefM, EnuM, FrameEpoch } from '../types.js';
 import type { PointReference, SolutionKind } from '../session/solution-types.js';
 import { ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import {
@@ -35,6 +35,9 @@ export interface PointEpoch {
   readonly kind: SolutionKind;
   /** Frame of this epoch's position (standalone epochs are in the broadcast-orbit frame). */
   readonly frame?: FrameEpoch;
+  /** Formal precision of the epoch (sigma E/N/U), when the solution gave it. */
+  readonly sigmaEnuM?: EnuM;
+  readonly varianceFactor?: number;
   readonly pdop: number;
   /** Antenna height the session used for this epoch (m). */
   readonly antennaHeightM: number;
@@ -113,14 +116,15 @@ export function summariseOccupations(epochs: readonly PointEpoch[], occupations:
         const arp = opts.pointReference === 'ground-mark' ? markToArpAlongNormal(e.ecef, e.antennaHeightM) : e.ecef;
         ecef = reduceToMark(arp, heightM);
       }
-      return { ecef, tGpsS: e.tagGpsS, pdop: e.pdop };
+      return { ecef, tGpsS: e.tagGpsS, pdop: e.pdop, ...(e.sigmaEnuM ? { sigmaEnuM: e.sigmaEnuM } : {}), ...(e.varianceFactor !== undefined ? { varianceFactor: e.varianceFactor } : {}) };
     });
     const summary = summarisePoint(samples, { minEpochs, horizontalToleranceM: tolH });
     const kinds: Partial<Record<SolutionKind, number>> = {};
     for (const e of chosen) kinds[e.kind] = (kinds[e.kind] ?? 0) + 1;
     points.push({
       name: occ.name, source: occ.source, startGpsS: occ.startGpsS, endGpsS: occ.endGpsS, summary, kinds,
-      antennaHeightM: heightM,
+      // Without a height of its own the occupation has the session's (header or event record) heights.
+      antennaHeightM: Number.isFinite(heightM) ? heightM : medianHeight(chosen),
       ...(occ.antennaHeightM !== undefined ? { measuredHeightM: occ.antennaHeightM, heightKind: occ.heightKind ?? 'vertical' } : {}),
       pointReference: Number.isFinite(heightM) ? 'ground-mark' : opts.pointReference,
       frame: chosen[0].frame ?? opts.frame,
@@ -128,4 +132,11 @@ export function summariseOccupations(epochs: readonly PointEpoch[], occupations:
     });
   }
   return { points, empty };
+}
+
+function medianHeight(epochs: readonly PointEpoch[]): number {
+  const h = epochs.map((e) => e.antennaHeightM).filter(Number.isFinite).sort((a, b) => a - b);
+  if (h.length === 0) return NaN;
+  const m = h.length >> 1;
+  return h.length % 2 ? h[m]! : 0.5 * (h[m - 1]! + h[m]!);
 }

@@ -93,7 +93,8 @@ export function pointsPreamble(o: PointsTableOptions): string[] {
     ...(o.geoid && /egm96/i.test(o.geoid.name + o.geoid.heightReference) ? [`# ${EGM96_NOT_A_DATUM_NOTE}`] : []),
     '# position: Huber robust mean (k = 1.5, MAD scale) of the occupation\'s differential/smoothed epochs (standalone only when it has none); point_reference says which point it is',
     '# sd_*: per-epoch scatter (1 sigma) in east/north/up; sigma_mean_* = sd / sqrt(n_eff) per component, where n_eff = n / tau and tau is the integrated autocorrelation time',
-    '#   (Geyer 1992 initial positive sequence), so time-correlated epochs are not counted as independent; n_eff column: the smallest of the three components',
+    '#   (initial positive sequence estimator), so time-correlated epochs are not counted as independent; n_eff column: the smallest of the three components;',
+    '#   sigma_mean_* is never below the epochs\' median formal sigma (scaled by the median variance factor) / sqrt(duration / 300 s): errors that stay constant for minutes (multipath, reference) do not show in the scatter',
     `# tolerance: ok | too-few-epochs (< 10) | exceeds-horizontal (sqrt(sd_e^2+sd_n^2) > ${o.horizontalToleranceM} m) | exceeds-vertical (sd_u > ${o.verticalToleranceM} m) | exceeds-horizontal-and-vertical`,
     '# times: start/end are the first/last epoch tags of the occupation (UTC ISO 8601; GPS week and time of week)',
   ];
@@ -123,7 +124,7 @@ export function pointsGeoJson(points: readonly PointResult[], o: PointsTableOpti
       projection: o.projection ? `${o.projection.name} (${o.projection.projString})` : 'none',
       height_reference: o.geoid ? `ellipsoidal (height_m); orthometric_height_m above ${o.geoid.heightReference} (${o.geoid.name})` : 'ellipsoidal',
       ...(o.geoid && /egm96/i.test(o.geoid.name + o.geoid.heightReference) ? { vertical_datum_note: EGM96_NOT_A_DATUM_NOTE } : {}),
-      precision_note: 'sigma_mean_* = sd / sqrt(n_eff), n_eff from the autocorrelation of each component (Geyer 1992)',
+      precision_note: 'sigma_mean_* = max(sd / sqrt(n_eff), median formal epoch sigma x sqrt(median variance factor) / sqrt(max(1, duration / 300 s))); n_eff from the autocorrelation of each component (initial positive sequence estimator)',
       note: geojsonNote(o.frame),
     },
     features: points.map((p) => {

@@ -77,7 +77,7 @@ function scatterJson(s: LabelledScatter): Record<string, unknown> {
     rms_east_m: jsonNumber(t.rmsEastM, 4),
     rms_north_m: jsonNumber(t.rmsNorthM, 4),
     rms_up_m: jsonNumber(t.rmsUpM, 4),
-    percentile_method: 'linear between closest ranks (Hyndman & Fan 1996, definition 7)',
+    percentile_method: 'linear interpolation between closest ranks (sample quantile definition 7)',
   };
 }
 

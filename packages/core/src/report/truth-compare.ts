@@ -1,4 +1,4 @@
-/** Errors of solutions against a truth trajectory matched by time (for the demo and acceptance checks). */
+/** Errors of solutions against a truth trajectory matched by time (for the demo and the real-data tests). */
 import type { EcefM, EnuM } from '../types.js';
 import type { EpochSolution } from '../session/solution-types.js';
 import { ecefToGeodetic, ecefDeltaToEnu } from '../geodesy/index.js';

@@ -51,7 +51,7 @@ function checkFirstLine(file: string, first: string | undefined): { version: num
     throw new FormatError(file, 1, 'not a RINEX navigation file: the file is empty (expected a first line ending in "RINEX VERSION / TYPE")');
   }
   if (first.includes('CRINEX')) {
-    throw new FormatError(file, 1, 'this is a compact RINEX (Hatanaka) observation file, not a navigation file');
+    throw new FormatError(file, 1, 'this is a compact RINEX observation file, not a navigation file');
   }
   if (!first.includes('RINEX VERSION / TYPE')) {
     throw new FormatError(file, 1, 'not a RINEX file: the first line does not end with "RINEX VERSION / TYPE"');

@@ -42,7 +42,7 @@ const OTHER_FILE_TYPES: Readonly<Record<string, string>> = {
  */
 export function parseVersionLine(file: string, line: string): { version: number; fileType: string; systemField: string } {
   if (line.startsWith('CRINEX') || headerLabel(line) === 'CRINEX VERS   / TYPE') {
-    throw new FormatError(file, 1, `${file} is a compact RINEX (Hatanaka) file: decompress it to plain RINEX before reading observations`);
+    throw new FormatError(file, 1, `${file} is a compact RINEX file: decompress it to plain RINEX before reading observations`);
   }
   if (headerLabel(line) !== 'RINEX VERSION / TYPE') {
     throw new FormatError(file, 1, `${file} is not a RINEX file: its first line does not end with the label 'RINEX VERSION / TYPE' in columns 61-80`);

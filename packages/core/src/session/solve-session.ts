@@ -234,7 +234,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   let lastClockM = NaN;
 
   const frameOfResult: FrameEpoch = frame;
-  const broadcastFrame = (t: number): FrameEpoch => ({ name: 'WGS84 (broadcast orbits)', epochYear: Math.round(decimalYearFromGpsS(t) * 100) / 100 });
+  const broadcastFrame = (t: number): FrameEpoch => ({ name: 'WGS84 (broadcast orbits)', epochYear: Math.round(decimalYearFromGpsS(t) * 1e4) / 1e4 });
 
   /** Horizontal speed from the epoch's Doppler observations at the solved position (NaN without Doppler). */
   function speedAt(e: ObsEpoch, at: EcefM, satellites?: ReadonlyMap<SatId, SatelliteAtTransmission>): number {

@@ -33,7 +33,7 @@ import { sumOfSinusoids, type SlowProcess } from './slow-process.js';
 import { poissonWindows, windowAt, type Window } from './event-plan.js';
 import { CARRIER_HZ, clockSignal, codeInfo, type Band } from './signals.js';
 
-/** Elevation mask (rad): 5 deg (the brief; common practice for recording). */
+/** Elevation mask (rad): 5 deg (common practice for recording). */
 export const RECORDING_MASK_RAD = (5 * Math.PI) / 180;
 
 export interface ReceiverSetup {
