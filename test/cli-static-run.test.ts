@@ -50,9 +50,9 @@ describeShared('refdelta solve on the real static run', () => {
       h.push(Math.hypot(e, n));
     }
     expect(h.length).toBeGreaterThan(500);
-    // check-values.md "Code differential: about 1 m (1 sigma)"; the lead sets the final bound.
-    expect(median(h)).toBeLessThan(1.5);
-    expect(nearestRank(h, 0.95)).toBeLessThan(5);
+    // The engine's accuracy targets for rover against base, code only (also test/differential-static.test.ts).
+    expect(median(h)).toBeLessThanOrEqual(1.2);
+    expect(nearestRank(h, 0.95)).toBeLessThanOrEqual(2.5);
   });
 
   it('summary lists the inputs with their SHA-256 and the outputs', () => {

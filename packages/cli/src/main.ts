@@ -148,6 +148,11 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
         exitCode = await runCheck(ca, rep);
       },
     )
+    .example('refdelta solve --rover rover.obs --reference base.obs --nav brdc.18n --ref-from-header --out out/run', 'per-epoch positions against a base whose header coordinate is used')
+    .example('refdelta points --rover rover.obs --reference cors.18o --nav cors.18n --ref-xyz X,Y,Z --ref-frame ITRF2014 --ref-epoch 2018.76 --projection utm --out out/pts', 'one coordinate per logged point, in UTM')
+    .example('refdelta check --points out/pts/points.csv --marks control.csv --out out/check', 'compare the points with published control marks')
+    .example('refdelta batch --sessions field/ --reference-dir cors/ --nav-dir cors/ --ref-from-header --out out/batch', 'every session of a folder')
+    .example('refdelta inspect --text rover.obs', 'what a RINEX file holds')
     .demandCommand(1, 'give a command: solve, points, batch, check or inspect')
     .strict()
     .version(SOFTWARE.version)

@@ -53,8 +53,12 @@ export async function runCheck(a: CheckArgs, rep: Reporter): Promise<number> {
 
   const outDir = resolve(String(a.out));
   const csvPath = join(outDir, CHECK_FILE_NAMES.csv), jsonPath = join(outDir, CHECK_FILE_NAMES.json);
-  const csv = controlCheckPreamble(r).join('\n') + '\n' + stringify([[...CONTROL_CHECK_COLUMNS], ...controlCheckRows(r)], { record_delimiter: 'unix' });
-  const doc = controlCheckJson(r, { pointsFile: resolve(pointsFile), marksFile: resolve(marksFile), createdUtc: new Date().toISOString(), warnings: rep.warnings });
+  // A transformation between frames is never silent: the sets given are named in both outputs.
+  const transformLines = (transformations ?? []).map((h) => `${h.from} -> ${h.to} at epoch ${h.epochYear} (source: ${h.source})`);
+  const preamble = [...controlCheckPreamble(r), ...transformLines.map((t) => `# transformation available (--transform ${String(a.transform)}): ${t}`)];
+  const csv = preamble.join('\n') + '\n' + stringify([[...CONTROL_CHECK_COLUMNS], ...controlCheckRows(r)], { record_delimiter: 'unix' });
+  const doc = { ...controlCheckJson(r, { pointsFile: resolve(pointsFile), marksFile: resolve(marksFile), createdUtc: new Date().toISOString(), warnings: rep.warnings }),
+    transformations: transformLines };
   // The pair is one set: both sealed (flushed, fsynced) before either is renamed, the JSON last.
   const set = new OutputSet();
   await set.add('control-check', csvPath, [csv]);

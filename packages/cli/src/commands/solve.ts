@@ -2,6 +2,7 @@
 import { basename, join, resolve } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
 import {
+  frameEpochText,
   GNSS_SYSTEMS, InputError, csvPreamble, epochFeature, geojsonNote, jsonNumber, pointReferenceWords,
   positionScatter, residualRowsOf, RESIDUAL_COLUMNS, solveSession, summaryJson,
   type EcefM, type EpochSolution, type FrameEpoch, type GnssSystem, type InputFileRecord, type ObsHeader, type OutputFileRecord,
@@ -60,12 +61,18 @@ class StreamedOutputs {
     const ep = this.files.get('epochs');
     if (ep) await ep.write(csvPreamble({ frame, pointReference, notes }).join('\n') + '\n' + csvText([epochTableColumns(systems)]));
     const rs = this.files.get('residuals');
-    if (rs) await rs.write(csvText([[...RESIDUAL_COLUMNS]]));
+    if (rs) {
+      await rs.write([
+        '# refdelta per-satellite residuals, one row per satellite per rover epoch (long form)',
+        `# positions of these epochs: ${frame.name} epoch ${frameEpochText(frame.epochYear)}, referring to the ${pointReferenceWords(pointReference)} (see epochs.csv)`,
+        '# residual_m: post-fit residual of the single difference (rover minus reference) or, for standalone rows, of the code; status used | rejected with the reason in words',
+      ].join('\n') + '\n' + csvText([[...RESIDUAL_COLUMNS]]));
+    }
     const gj = this.files.get('geojson');
     if (gj) {
       const head = {
         type: 'FeatureCollection',
-        refdelta: { frame: frame.name, epoch: jsonNumber(frame.epochYear, 2), point_reference: pointReferenceWords(pointReference), note: geojsonNote(frame) },
+        refdelta: { frame: frame.name, epoch: jsonNumber(frame.epochYear, 4), point_reference: pointReferenceWords(pointReference), note: geojsonNote(frame) },
       };
       // The features array is streamed: the collection is written as its members, then the array.
       await gj.write(JSON.stringify(head).slice(0, -1) + ',"features":[\n');
@@ -195,7 +202,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   for (const p of a.reference) references.push(await openObs(p, rep.warn));
   const options: SessionOptions = {
     ...base,
-    reference: { position: ref.position, antenna: withHeight(references[0].header.antennaOffset, heights.referenceHeightM) },
+    reference: { position: ref.position, source: ref.source, antenna: withHeight(references[0].header.antennaOffset, heights.referenceHeightM) },
     roverAntenna: withHeight(rover.header.antennaOffset, heights.roverHeightM),
   };
   const run = await solveSession({ rover, references, nav, onWarning: rep.warn }, options);

@@ -50,6 +50,8 @@ export interface QualityOptions {
 export interface ReferenceSpec {
   /** Known coordinate of the reference antenna's ground mark (or ARP when `isArp`), with frame and epoch. Null: use the file header's (a warning is raised). */
   readonly position: FramedEcef | null;
+  /** Where the coordinate came from, in words, for the summary (default 'given by the user'). */
+  readonly source?: string;
   /** Antenna offset override (else the header's ANTENNA: DELTA H/E/N and in-file events). */
   readonly antenna?: AntennaOffset;
 }

@@ -130,7 +130,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   if (options.reference.position) {
     refMark = options.reference.position.ecef;
     frame = options.reference.position.frame;
-    refSource = 'given by the user';
+    refSource = options.reference.source ?? 'given by the user';
   } else {
     if (!refHeader.approxPosition) throw new ProcessingError(`${inputs.references[0].file}: no reference coordinate given and the file header has no APPROX POSITION XYZ`);
     refMark = refHeader.approxPosition;
