@@ -11,7 +11,7 @@
 import type { EcefM, EnuM, GnssSystem, SatId } from '../types.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import {
-  dataSnooping, dilutionOfPrecision, globalTest, solveWeightedLeastSquaresSmall,
+  choleskyInPlace, choleskyInverse, dataSnooping, globalTest, solveWeightedLeastSquaresSmall,
   type Dop, type GlobalTestResult, type WlsSolution,
 } from '../solve/index.js';
 
@@ -123,27 +123,66 @@ function assembleAndSolve(rows: LinearRow[]): Assembled | string {
 
 /** Drops constellations with a single satellite: its clock absorbs it entirely (no position information). */
 function pruneLoneSystems(rows: LinearRow[], rejected: Rejection[]): LinearRow[] {
-  const count = new Map<GnssSystem, number>();
-  for (const r of rows) count.set(r.system, (count.get(r.system) ?? 0) + 1);
+  // Counting by system letter (at most seven): no allocation when nothing is dropped.
+  let lone = '';
+  for (let i = 0; i < rows.length; i++) {
+    const sys = rows[i].system;
+    let c = 0;
+    for (let j = 0; j < rows.length && c < 2; j++) if (rows[j].system === sys) c++;
+    if (c < 2 && !lone.includes(sys)) lone += sys;
+  }
+  if (lone === '') return rows;
   const out: LinearRow[] = [];
   for (const r of rows) {
-    if ((count.get(r.system) ?? 0) < 2) rejected.push({ sat: r.sat, reason: 'only satellite of its constellation (its clock absorbs it)', wTest: NaN });
+    if (lone.includes(r.system)) rejected.push({ sat: r.sat, reason: 'only satellite of its constellation (its clock absorbs it)', wTest: NaN });
     else out.push(r);
   }
   return out;
 }
 
-function enuSigma(cov: Float64Array, at: EcefM): EnuM {
-  const g = ecefToGeodetic(at);
-  const sl = Math.sin(g.latRad), cl = Math.cos(g.latRad), so = Math.sin(g.lonRad), co = Math.cos(g.lonRad);
-  const R = [-so, co, 0, -sl * co, -sl * so, cl, cl * co, cl * so, sl];
+/** ECEF -> ENU rotation at (lat, lon), row-major 3x3 (e.g. Misra & Enge 2011, eq. 2.16). */
+function enuRotation(latRad: number, lonRad: number): number[] {
+  const sl = Math.sin(latRad), cl = Math.cos(latRad), so = Math.sin(lonRad), co = Math.cos(lonRad);
+  return [-so, co, 0, -sl * co, -sl * so, cl, cl * co, cl * so, sl];
+}
+
+/** sqrt of the diagonal of R C R^T for a 3x3 ECEF covariance C. */
+function enuSigma(cov: ArrayLike<number>, R: readonly number[], stride = 3): EnuM {
   const out = [0, 0, 0];
   for (let a = 0; a < 3; a++) {
     let v = 0;
-    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) v += R[a * 3 + j] * cov[j * 3 + k] * R[a * 3 + k];
+    for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) v += R[a * 3 + j] * cov[j * stride + k] * R[a * 3 + k];
     out[a] = Math.sqrt(Math.max(0, v));
   }
   return { e: out[0], n: out[1], u: out[2] };
+}
+
+/**
+ * DOPs of the final geometry with unit weights, from the same design as the solve: Q = (G^T G)^-1 in
+ * ECEF, its position block rotated to ENU (the same quantities as solve/dop.ts, which a test compares).
+ */
+function unitWeightDops(a: Assembled, n: number, R: readonly number[]): Dop | null {
+  const m = a.rows.length;
+  const normal = new Float64Array(n * n);
+  for (let i = 0; i < m; i++) {
+    const r = a.rows[i];
+    const g0 = -r.losX, g1 = -r.losY, g2 = -r.losZ, c = 3 + a.systems.indexOf(r.system);
+    normal[0] += g0 * g0; normal[n] += g1 * g0; normal[n + 1] += g1 * g1;
+    normal[2 * n] += g2 * g0; normal[2 * n + 1] += g2 * g1; normal[2 * n + 2] += g2 * g2;
+    normal[c * n] += g0; normal[c * n + 1] += g1; normal[c * n + 2] += g2; normal[c * n + c] += 1;
+  }
+  if (!choleskyInPlace(normal, n)) return null;
+  const q = choleskyInverse(normal, n);
+  let trace = 0;
+  for (let j = 0; j < n; j++) trace += q[j * n + j];
+  const enu = enuSigma(q, R, n);
+  return {
+    gdop: Math.sqrt(trace),
+    pdop: Math.sqrt(enu.e * enu.e + enu.n * enu.n + enu.u * enu.u),
+    hdop: Math.hypot(enu.e, enu.n),
+    vdop: enu.u,
+    tdop: Math.sqrt(q[3 * n + 3]),
+  };
 }
 
 /**
@@ -206,11 +245,9 @@ function finish(a: Assembled, x: EcefM, test: GlobalTestResult, iterations: numb
   for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) cov[j * 3 + k] = s.qxx[j * n + k];
   const clocksM = new Map<GnssSystem, number>();
   a.systems.forEach((sys, k) => clocksM.set(sys, s.x[3 + k]));
-  // The update of the last iteration is below a millimetre; clocks are those of that solve.
-  const los = new Float64Array(a.rows.length * 3);
-  const clockIndex = new Int32Array(a.rows.length);
-  a.rows.forEach((r, i) => { los[3 * i] = r.losX; los[3 * i + 1] = r.losY; los[3 * i + 2] = r.losZ; clockIndex[i] = a.systems.indexOf(r.system); });
-  const dops = dilutionOfPrecision({ lineOfSight: los, frame: 'ecef', receiver: x, clockIndex });
+  const g = ecefToGeodetic(x);
+  const R = enuRotation(g.latRad, g.lonRad);
+  const dops = unitWeightDops(a, n, R);
   return {
     ok: true,
     positionM: x,
@@ -219,7 +256,7 @@ function finish(a: Assembled, x: EcefM, test: GlobalTestResult, iterations: numb
     used,
     rejected,
     positionCovM2: cov,
-    sigmaEnuM: enuSigma(cov, x),
+    sigmaEnuM: enuSigma(cov, R),
     dops,
     test,
     varianceFactor: s.sigma0Sq,
