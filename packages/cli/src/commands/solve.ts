@@ -293,7 +293,7 @@ export function reportSolveCounts(st: StagedSolve, rep: Reporter): void {
   const k = st.summary.epochsByKind;
   rep.warningTail(st.kinds.includes('summary') ? join(st.outDir, OUTPUT_FILE_NAMES.summary) : 'the warnings above');
   rep.info(`${st.summary.epochsRover} rover epochs: ${k.differential} differential, ${k.smoothed} smoothed, ${k.standalone} standalone, ${k.none} without a solution`);
-  rep.info(`frame: ${st.frame.name} epoch ${Number.isFinite(st.frame.epochYear) ? st.frame.epochYear.toFixed(2) : 'unstated'}; positions refer to the ${pointReferenceWords(st.pointReference)}`);
+  rep.info(`frame: ${st.frame.name} epoch ${frameEpochText(st.frame.epochYear)}; positions refer to the ${pointReferenceWords(st.pointReference)}`);
 }
 
 /** Words for the output list line. */

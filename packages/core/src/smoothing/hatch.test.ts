@@ -48,6 +48,24 @@ describe('Hatch carrier smoother', () => {
     expect(ratio).toBeLessThan(0.1); // ~1/sqrt(N)
   });
 
+  it('the time constant is in seconds whatever the nominal interval says (self-consistency)', () => {
+    // Header claims 30 s, data come every second: the filter must still average over ~100 s.
+    const s = new CarrierSmoother({ intervalS: 30, timeConstantS: 100, gapThresholdS: 60 });
+    const r = rng(7);
+    let sum2raw = 0, sum2sm = 0, count = 0;
+    for (let t = 0; t < 6000; t++) {
+      const o = obs('G07', t, { noise: 1, r });
+      const [res] = s.update(t, [o]);
+      if (t >= 300) {
+        sum2raw += (o.codeM - trueRange('G07', t)) ** 2;
+        sum2sm += (res.smoothedM - trueRange('G07', t)) ** 2;
+        count++;
+      }
+    }
+    const ratio = Math.sqrt(sum2sm / count) / Math.sqrt(sum2raw / count);
+    expect(ratio).toBeLessThan(0.1);
+  });
+
   it('restarts on loss of lock (LLI bit 0) but not on the half-cycle bit alone', () => {
     const s = new CarrierSmoother({ intervalS: 1, timeConstantS: 100 });
     expect(s.update(0, [obs('G01', 0), obs('G02', 0)]).map((x) => x.reason)).toEqual(['start', 'start']);

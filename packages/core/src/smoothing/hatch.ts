@@ -146,11 +146,15 @@ export class CarrierSmoother {
         } else {
           // Weight of the new code: 1/n while the filter fills, then dt/tau, so the time constant is in
           // seconds whatever the logging interval (irregular epochs included): R = w P + (1 - w) prediction.
-          const n = Math.min(st.n + 1, this.maxN);
+          // n counts the epochs since the (re)start; it is not capped by a nominal interval, so a header
+          // INTERVAL that is missing or wrong does not change the time constant.
+          const n = st.n + 1;
           const w = Math.min(1, Math.max(1 / n, (epochTimeS - st.timeS) / this.timeConstantS));
           const smoothedM = w * o.codeM + (1 - w) * predicted;
           st.n = n; st.smoothedM = smoothedM; st.codeM = o.codeM; st.phaseM = phaseM; st.timeS = epochTimeS;
-          out[i] = note ? { sat: o.sat, smoothedM, n, restarted: false, reason: note } : { sat: o.sat, smoothedM, n, restarted: false };
+          // Reported filter length: the effective number of epochs averaged, 1 / w.
+          const length = Math.round(1 / w);
+          out[i] = note ? { sat: o.sat, smoothedM, n: length, restarted: false, reason: note } : { sat: o.sat, smoothedM, n: length, restarted: false };
           continue;
         }
       }
