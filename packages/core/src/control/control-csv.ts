@@ -22,6 +22,7 @@ import { InputError, type WarningSink } from '../errors.js';
 import { degToRad, geodeticToEcef, GRS80, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { normaliseFrameName } from '../frames/index.js';
 import { makeProjection, type Projection } from '../projection/index.js';
+import { csvRecords } from '../csv/index.js';
 
 export interface ControlMark {
   readonly name: string;
@@ -33,24 +34,7 @@ export interface ControlMark {
   readonly line: number;
 }
 
-/** Splits one CSV line; double-quoted fields may contain commas ("" is a literal quote). */
-export function splitCsvLine(line: string): string[] {
-  const out: string[] = [];
-  let cur = '';
-  let quoted = false;
-  for (let i = 0; i < line.length; i++) {
-    const c = line[i]!;
-    if (quoted) {
-      if (c === '"' && line[i + 1] === '"') { cur += '"'; i++; }
-      else if (c === '"') quoted = false;
-      else cur += c;
-    } else if (c === '"') quoted = true;
-    else if (c === ',') { out.push(cur.trim()); cur = ''; }
-    else cur += c;
-  }
-  out.push(cur.trim());
-  return out;
-}
+export { splitCsvLine } from '../csv/index.js';
 
 export function ellipsoidForFrame(frameName: string): Ellipsoid {
   return normaliseFrameName(frameName) === 'WGS84' ? WGS84 : GRS80;
@@ -59,16 +43,11 @@ export function ellipsoidForFrame(frameName: string): Ellipsoid {
 const KNOWN = ['name', 'lat_deg', 'lon_deg', 'h_m', 'x_m', 'y_m', 'z_m', 'easting_m', 'northing_m', 'projection', 'frame', 'epoch', 'accuracy_h_m', 'accuracy_v_m'];
 
 export function parseControlCsv(file: string, text: string, onWarning?: WarningSink): ControlMark[] {
-  const lines = text.split(/\r?\n/);
   let header: string[] | undefined;
   let headerLine = 0;
   const marks: ControlMark[] = [];
   const projections = new Map<string, Projection>();
-  for (let i = 0; i < lines.length; i++) {
-    const raw = lines[i]!.trim();
-    const lineNo = i + 1;
-    if (raw === '' || raw.startsWith('#')) continue;
-    const f = splitCsvLine(raw);
+  for (const { lineNo, fields: f } of csvRecords(text)) {
     if (!header) {
       header = f.map((h) => h.toLowerCase());
       headerLine = lineNo;

@@ -14,6 +14,7 @@
 import { InputError } from '../errors.js';
 import { secondsFromCalendar, utcToGpsS } from '../time/index.js';
 import type { HeightKind } from './antenna-height.js';
+import { csvRecords } from '../csv/index.js';
 
 export interface OccupationWindow {
   readonly name: string;
@@ -45,13 +46,8 @@ export function parseIsoTimeGpsS(text: string): number | undefined {
 
 export function parseOccupationCsv(file: string, text: string): OccupationWindow[] {
   const out: OccupationWindow[] = [];
-  const lines = text.split(/\r?\n/);
   let sawData = false;
-  for (let i = 0; i < lines.length; i++) {
-    const raw = lines[i]!.trim();
-    const lineNo = i + 1;
-    if (raw === '' || raw.startsWith('#')) continue;
-    const f = raw.split(',').map((x) => x.trim());
+  for (const { lineNo, fields: f } of csvRecords(text)) {
     if (!sawData && f[0]!.toLowerCase() === 'name') {
       sawData = true;
       continue;

@@ -5,7 +5,7 @@
  */
 import type { FramedEcef } from '../types.js';
 import { InputError } from '../errors.js';
-import { splitCsvLine } from '../control/index.js';
+import { csvRecords } from '../csv/index.js';
 
 export interface LoggedPoint {
   readonly name: string;
@@ -16,14 +16,9 @@ export interface LoggedPoint {
 const REQUIRED = ['name', 'ecef_x_m', 'ecef_y_m', 'ecef_z_m', 'frame', 'frame_epoch'];
 
 export function parsePointsCsv(file: string, text: string): LoggedPoint[] {
-  const lines = text.split(/\r?\n/);
   let header: string[] | undefined;
   const out: LoggedPoint[] = [];
-  for (let i = 0; i < lines.length; i++) {
-    const raw = lines[i]!.trim();
-    const lineNo = i + 1;
-    if (raw === '' || raw.startsWith('#')) continue;
-    const f = splitCsvLine(raw);
+  for (const { lineNo, fields: f } of csvRecords(text)) {
     if (!header) {
       header = f.map((h) => h.toLowerCase());
       const missing = REQUIRED.filter((c) => !header!.includes(c));
