@@ -7,7 +7,7 @@
 import { beforeAll, expect, it } from 'vitest';
 import { ecefToEnu } from '../packages/core/src/geodesy/index.js';
 import { solveSession, withDefaults, type EpochSolution, type SessionOptions } from '../packages/core/src/session/index.js';
-import type { NavData } from '../packages/core/src/rinex/nav-types.js';
+import type { NavData } from '../packages/core/src/gnss/nav-types.js';
 import { describeShared } from './support/shared.js';
 import { corsNav, errorStats, fmt, openObs, roverTruth } from './support/static-run.js';
 

@@ -7,7 +7,7 @@
 import { expect, it } from 'vitest';
 import { openText } from '../packages/core/src/compress/index.js';
 import { readObsStream } from '../packages/core/src/rinex/obs-reader.js';
-import type { ObsEpoch } from '../packages/core/src/rinex/obs-types.js';
+import type { ObsEpoch } from '../packages/core/src/gnss/obs-types.js';
 import type { Warning } from '../packages/core/src/errors.js';
 import { dataPath, describeShared, fileChunks } from './support/shared.js';
 

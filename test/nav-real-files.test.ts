@@ -11,7 +11,7 @@ import { beforeAll, expect, it } from 'vitest';
 import { dataPath, describeShared, fileBytes } from './support/shared.js';
 import type { Warning } from '../packages/core/src/errors.js';
 import { mergeNav, readNav } from '../packages/core/src/rinex/nav-reader.js';
-import type { Ephemeris, GlonassEphemeris, KeplerEphemeris, NavData, SbasEphemeris } from '../packages/core/src/rinex/nav-types.js';
+import type { Ephemeris, GlonassEphemeris, KeplerEphemeris, NavData, SbasEphemeris } from '../packages/core/src/gnss/nav-types.js';
 
 const WEEK = 604800;
 

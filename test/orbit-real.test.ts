@@ -7,7 +7,7 @@ import { readFileSync } from 'node:fs';
 import { gunzipSync } from 'node:zlib';
 import { beforeAll, expect, it } from 'vitest';
 import { readNav } from '../packages/core/src/rinex/nav-reader.js';
-import type { Ephemeris, KeplerEphemeris, NavData } from '../packages/core/src/rinex/nav-types.js';
+import type { Ephemeris, KeplerEphemeris, NavData } from '../packages/core/src/gnss/nav-types.js';
 import {
   EphemerisStore, satelliteAtTransmission, satelliteClock, satelliteState, referenceTimeGpsS, validityS, isGalileoFnav,
   SPEED_OF_LIGHT_MS,

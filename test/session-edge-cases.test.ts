@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { simulateScenario, exampleScenarioSpec, type SimulatedScenario } from '../packages/core/src/sim/index.js';
 import { solveSession, withDefaults, type EpochSolution } from '../packages/core/src/session/index.js';
-import type { ObsEpoch, ObsHeader, ObsStream } from '../packages/core/src/rinex/obs-types.js';
+import type { ObsEpoch, ObsHeader, ObsStream } from '../packages/core/src/gnss/obs-types.js';
 import { ProcessingError } from '../packages/core/src/errors.js';
 
 function stream(file: string, header: ObsHeader, epochs: Iterable<ObsEpoch>): ObsStream {

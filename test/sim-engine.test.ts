@@ -9,7 +9,7 @@ import { solveSession, withDefaults, type EpochSolution, type SessionOptions } f
 import { solveStandaloneEpoch } from '../packages/core/src/standalone/index.js';
 import { EphemerisStore } from '../packages/core/src/orbit/index.js';
 import { ecefToEnu } from '../packages/core/src/geodesy/index.js';
-import type { ObsEpoch, ObsHeader, ObsStream } from '../packages/core/src/rinex/obs-types.js';
+import type { ObsEpoch, ObsHeader, ObsStream } from '../packages/core/src/gnss/obs-types.js';
 import { percentile } from './support/static-run.js';
 
 function stream(file: string, header: ObsHeader, epochs: () => Iterable<ObsEpoch>): ObsStream {

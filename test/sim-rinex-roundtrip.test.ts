@@ -8,7 +8,7 @@ import { ALL_ERRORS_ON, exampleScenarioSpec, simulateScenario } from '../package
 import { readObsStream, collectEpochs, writeObsRinex3, type ObsEpoch } from '../packages/core/src/rinex/index.js';
 import { readNav } from '../packages/core/src/rinex/nav-reader.js';
 import { writeNavRinex3 } from '../packages/core/src/rinex/nav-writer.js';
-import type { KeplerEphemeris } from '../packages/core/src/rinex/nav-types.js';
+import type { KeplerEphemeris } from '../packages/core/src/gnss/nav-types.js';
 
 async function* asAsync(chunks: Iterable<string>): AsyncIterable<string> {
   for (const c of chunks) yield c;

@@ -17,8 +17,8 @@ import { readObsStream, readNav, mergeNav, carrierFrequencyHz, type ObsEpoch, ty
 import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS } from '../packages/core/src/orbit/index.js';
 import { solveStandaloneEpoch, type StandaloneContext, type StandaloneMode } from '../packages/core/src/standalone/index.js';
 import { azimuthElevation, ecefToEnu, ecefToGeodetic } from '../packages/core/src/geodesy/index.js';
-import { troposphereDelayM } from '../packages/core/src/positioning/atmosphere-model.js';
-import type { GnssSystem } from '../packages/core/src/types.js';
+import { troposphereDelayM } from '../packages/core/src/observables/atmosphere-model.js';
+import type { GnssSystem } from '../packages/core/src/gnss/types.js';
 import { dataPath, describeShared, fileChunks } from './support/shared.js';
 
 const DEG = Math.PI / 180;

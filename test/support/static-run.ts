@@ -6,7 +6,7 @@ import { readFileSync } from 'node:fs';
 import { ecefToEnu } from '../../packages/core/src/geodesy/index.js';
 import { mergeNav, readNav } from '../../packages/core/src/rinex/nav-reader.js';
 import { readObsStream } from '../../packages/core/src/rinex/obs-reader.js';
-import type { EcefM } from '../../packages/core/src/types.js';
+import type { EcefM } from '../../packages/core/src/gnss/types.js';
 import type { EpochSolution } from '../../packages/core/src/session/index.js';
 import { dataPath } from './shared.js';
 

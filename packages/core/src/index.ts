@@ -1,5 +1,5 @@
 /** Public face of the engine: every stage's index. Others append lines here; keep it append-only. */
-export * from './types.js';
+export * from './gnss/index.js';
 export * from './errors.js';
 export * from './time/index.js';
 export * from './geodesy/index.js';
@@ -10,7 +10,7 @@ export * from './report/index.js';
 export * from './rinex/index.js';
 export * from './atmosphere/index.js';
 export * from './geoid/index.js';
-export * from './positioning/index.js';
+export * from './observables/index.js';
 export * from './projection/index.js';
 export * from './standalone/index.js';
 export * from './compress/index.js';

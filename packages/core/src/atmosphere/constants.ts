@@ -1,7 +1,7 @@
 /** Constants of the atmosphere models, each with its source. */
 
-/** Speed of light (m/s), SI definition. */
-export const SPEED_OF_LIGHT_MS = 299_792_458;
+import { SPEED_OF_LIGHT_MS } from '../gnss/constants.js';
+export { SPEED_OF_LIGHT_MS };
 /** pi as fixed for the GPS user algorithms (IS-GPS-200, 20.3.3.4.3; check-values.md constants). */
 export const GPS_PI = 3.1415926535898;
 /** GPS L1 carrier (Hz), IS-GPS-200 3.3.1.1. */

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { beidouKlobucharDelayM, klobucharDelayM, scaleIonosphereDelayM } from './klobuchar.js';
-import type { KlobucharCoefficients } from '../rinex/nav-types.js';
+import type { KlobucharCoefficients } from '../gnss/nav-types.js';
 
 const DEG = Math.PI / 180;
 // check-values.md #1 coefficients

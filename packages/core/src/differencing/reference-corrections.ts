@@ -16,18 +16,18 @@
  * is used on both sides: corrections are computed per issue on demand and cached, so a change of issue is
  * never interpolated across.
  */
-import type { EcefM, GeodeticRad, GnssSystem, SatId } from '../types.js';
-import { satSystem } from '../types.js';
-import type { ObsEpoch } from '../rinex/obs-types.js';
-import type { Ephemeris, IonosphereCoefficients } from '../rinex/nav-types.js';
-import { carrierFrequencyHz } from '../rinex/obs-codes.js';
+import type { EcefM, GeodeticRad, GnssSystem, SatId } from '../gnss/types.js';
+import { satSystem } from '../gnss/types.js';
+import type { ObsEpoch } from '../gnss/obs-types.js';
+import type { Ephemeris, IonosphereCoefficients } from '../gnss/nav-types.js';
+import { carrierFrequencyHz } from '../gnss/obs-codes.js';
 import { EphemerisStore, issueKey, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
-import { satelliteForTag } from '../positioning/satellite-for-tag.js';
+import { satelliteForTag } from '../observables/satellite-for-tag.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
-import { clockSignal } from '../positioning/signals.js';
-import { signalStrengthDbHz } from '../positioning/signal-strength.js';
-import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
-import { primaryCodes, pseudorangeOf } from './code-selection.js';
+import { clockSignal } from '../observables/signals.js';
+import { signalStrengthDbHz } from '../observables/signal-strength.js';
+import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../observables/atmosphere-model.js';
+import { primaryCodes, pseudorangeOf } from '../observables/code-selection.js';
 
 export interface ReferenceSatellite {
   /** Pseudorange (m) per code type of the primary band (smoothed when smoothing is on). */

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import type { GlonassEphemeris, KeplerEphemeris } from '../rinex/nav-types.js';
+import type { GlonassEphemeris, KeplerEphemeris } from '../gnss/nav-types.js';
 import { GAMMA_L1_L2, isGalileoFnav, satelliteClock } from './clock.js';
 import { FREQ_L1_HZ, FREQ_L2_HZ } from './constants.js';
 import { eccentricAnomaly } from './kepler.js';

@@ -14,10 +14,10 @@
  *    omegaE 7.2921151467e-5; ICD 5.1 prints omegaE as 7.292115e-5 (from memory): the 1.5e-14 rad/s
  *    difference moves a 15-minute integration by far less than a millimetre.
  */
-import type { GnssSystem } from '../types.js';
+import type { GnssSystem } from '../gnss/types.js';
 
-/** Speed of light in vacuum (m/s), SI definition. */
-export const SPEED_OF_LIGHT_MS = 299_792_458;
+import { SPEED_OF_LIGHT_MS } from '../gnss/constants.js';
+export { SPEED_OF_LIGHT_MS };
 
 /** The value of pi the GPS control segment uses in curve fits (IS-GPS-200 20.3.3.4.3). */
 export const GPS_PI = 3.1415926535898;

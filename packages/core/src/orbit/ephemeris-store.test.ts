@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import type { Ephemeris, GlonassEphemeris, KeplerEphemeris, NavData } from '../rinex/nav-types.js';
+import type { Ephemeris, GlonassEphemeris, KeplerEphemeris, NavData } from '../gnss/nav-types.js';
 import { EphemerisStore, issueKey } from './ephemeris-store.js';
 
 // Records transcribed from glw1277m.18n / glw1277m.18g and BRDC00IGS_R_20240100000_01D_MN.rnx.gz.

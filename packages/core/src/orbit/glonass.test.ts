@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import type { GlonassEphemeris } from '../rinex/nav-types.js';
+import type { GlonassEphemeris } from '../gnss/nav-types.js';
 import { glonassStateInto } from './glonass.js';
 import { satelliteState } from './state.js';
 

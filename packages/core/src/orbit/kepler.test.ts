@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import type { KeplerEphemeris } from '../rinex/nav-types.js';
+import type { KeplerEphemeris } from '../gnss/nav-types.js';
 import {
   BEIDOU_CONSTANTS, GALILEO_CONSTANTS, GPS_CONSTANTS, SPEED_OF_LIGHT_MS,
 } from './constants.js';

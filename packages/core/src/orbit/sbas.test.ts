@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { SbasEphemeris } from '../rinex/nav-types.js';
+import type { SbasEphemeris } from '../gnss/nav-types.js';
 import { gpsSFromWeekTow } from '../time/index.js';
 import { satelliteClock } from './clock.js';
 import { satelliteState } from './state.js';

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import type { Ephemeris, KeplerEphemeris } from '../rinex/nav-types.js';
+import type { Ephemeris, KeplerEphemeris } from '../gnss/nav-types.js';
 import { GPS_CONSTANTS, SPEED_OF_LIGHT_MS } from './constants.js';
 import { satelliteState } from './state.js';
 import { earthRotationCorrection, satelliteAtTransmission } from './transmit.js';

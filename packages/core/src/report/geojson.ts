@@ -5,7 +5,7 @@
  * WGS 84: the actual frame is stated in a foreign member "refdelta" (RFC 7946 section 6.1) and in every
  * feature's properties, with a note, never silently.
  */
-import type { FrameEpoch } from '../types.js';
+import type { FrameEpoch } from '../gnss/types.js';
 import { gpsToUtcS, isoFromSeconds } from '../time/index.js';
 import { radToDeg } from '../geodesy/index.js';
 import type { EpochSolution, PointReference } from '../session/solution-types.js';

@@ -3,7 +3,7 @@
  * reasons, scatter statistics, outputs and the cautions.
  */
 import type { Warning } from '../errors.js';
-import type { EcefM } from '../types.js';
+import type { EcefM } from '../gnss/types.js';
 import { gpsToUtcS, isoFromSeconds } from '../time/index.js';
 import type { SessionSummary } from '../session/solution-types.js';
 import type { SessionOptions } from '../session/options.js';

@@ -1,12 +1,5 @@
 /** RINEX readers and writers: public face of the rinex stage. */
-export * from './obs-types.js';
-export * from './nav-types.js';
 export { LineCursor, textLines, decodeUtf8Chunks } from './text-lines.js';
-export {
-  rinex2ToRinex3Code, rinex2CodeList, normaliseBeidouCode, PSEUDORANGE_PRIORITY, pseudorangePriority, chooseCode, companionCodes,
-  carrierFrequencyHz, carrierWavelengthM, glonassG1FrequencyHz, glonassG2FrequencyHz,
-} from './obs-codes.js';
-export type { CompanionCodes } from './obs-codes.js';
 export { readObsStream, collectEpochs, looksLikeR2Epoch } from './obs-reader.js';
 export type { ReadObsOptions } from './obs-reader.js';
 export { defaultTimeSystem, parseVersionLine } from './obs-header.js';

@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fixturePath } from '../../../../test/support/shared.js';
 import { FormatError, InputError, type Warning } from '../errors.js';
-import type { GlonassEphemeris, KeplerEphemeris, NavData, SbasEphemeris } from './nav-types.js';
+import type { GlonassEphemeris, KeplerEphemeris, NavData, SbasEphemeris } from '../gnss/nav-types.js';
 import { mergeNav, parseNavLines, readNav } from './nav-reader.js';
 
 const WEEK = 604800;

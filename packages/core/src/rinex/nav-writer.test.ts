@@ -8,7 +8,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { fixturePath } from '../../../../test/support/shared.js';
 import type { Warning } from '../errors.js';
-import type { Ephemeris, KeplerEphemeris, NavData } from './nav-types.js';
+import type { Ephemeris, KeplerEphemeris, NavData } from '../gnss/nav-types.js';
 import { parseNavLines } from './nav-reader.js';
 import { writeNavRinex3 } from './nav-writer.js';
 

@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { resolve, dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { collectEpochs, readObsStream } from './obs-reader.js';
-import type { ObsEpoch } from './obs-types.js';
+import type { ObsEpoch } from '../gnss/obs-types.js';
 import { FormatError, InputError } from '../errors.js';
 import type { Warning } from '../errors.js';
 

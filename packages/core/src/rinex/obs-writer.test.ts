@@ -8,7 +8,7 @@ import { resolve, dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { collectEpochs, readObsStream } from './obs-reader.js';
 import { writeObsRinex3 } from './obs-writer.js';
-import type { ObsEpoch, ObsHeader } from './obs-types.js';
+import type { ObsEpoch, ObsHeader } from '../gnss/obs-types.js';
 import type { Warning } from '../errors.js';
 import { dataPath, describeShared } from '../../../../test/support/shared.js';
 

@@ -1,8 +1,8 @@
 /**
  * Processing options for a differential session, with documented defaults.
  */
-import type { AntennaOffset } from '../rinex/obs-types.js';
-import type { FramedEcef, GnssSystem } from '../types.js';
+import type { AntennaOffset } from '../gnss/obs-types.js';
+import type { FramedEcef, GnssSystem } from '../gnss/types.js';
 
 export type GlonassPolicy =
   /** GLONASS with one relative clock when both receivers report the same known type (biases cancel); otherwise 'estimate'. */

@@ -7,24 +7,24 @@
  * corrections, differencing/reference-corrections.ts) -> solve (positioning/position-fix.ts: WLS for the
  * baseline and one relative clock per constellation, global test, data snooping) -> report (EpochSolution).
  */
-import type { EcefM, FrameEpoch, FramedEcef, GnssSystem, SatId } from '../types.js';
-import { satSystem, SYSTEM_NAMES } from '../types.js';
-import type { AntennaOffset, ObsEpoch, ObsHeader, ObsStream } from '../rinex/obs-types.js';
-import type { Ephemeris, NavData } from '../rinex/nav-types.js';
-import { carrierFrequencyHz } from '../rinex/obs-codes.js';
+import type { EcefM, FrameEpoch, FramedEcef, GnssSystem, SatId } from '../gnss/types.js';
+import { satSystem, SYSTEM_NAMES } from '../gnss/types.js';
+import type { AntennaOffset, ObsEpoch, ObsHeader, ObsStream } from '../gnss/obs-types.js';
+import type { Ephemeris, NavData } from '../gnss/nav-types.js';
+import { carrierFrequencyHz } from '../gnss/obs-codes.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
 import { EphemerisStore, SPEED_OF_LIGHT_MS, type SatelliteAtTransmission } from '../orbit/index.js';
-import { satelliteForTag } from '../positioning/satellite-for-tag.js';
+import { satelliteForTag } from '../observables/satellite-for-tag.js';
 import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import { decimalYearFromGpsS, isoFromSeconds } from '../time/index.js';
 import { elevationVarianceM2, type ElevationWeightParams } from '../solve/index.js';
-import { solvePositionFix, type LinearRow } from '../positioning/position-fix.js';
-import { clockSignal } from '../positioning/signals.js';
-import { signalStrengthDbHz } from '../positioning/signal-strength.js';
-import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
+import { solvePositionFix, type LinearRow } from '../solve/position-fix.js';
+import { clockSignal } from '../observables/signals.js';
+import { signalStrengthDbHz } from '../observables/signal-strength.js';
+import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../observables/atmosphere-model.js';
 import { ReferenceCorrections } from '../differencing/reference-corrections.js';
 import { GlonassChannelOffsets } from '../differencing/glonass-channel-offsets.js';
-import { matchCode, primaryCodes, pseudorangeOf } from '../differencing/code-selection.js';
+import { matchCode, primaryCodes, pseudorangeOf } from '../observables/code-selection.js';
 import { solveStandaloneEpoch, type StandaloneContext } from '../standalone/index.js';
 import { dopplerVelocity } from '../velocity/index.js';
 import { joinReferenceStreams } from './join-references.js';

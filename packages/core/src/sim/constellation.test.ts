@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { simulateConstellation } from './constellation.js';
 import { satelliteState } from '../orbit/index.js';
-import type { KeplerEphemeris } from '../rinex/nav-types.js';
+import type { KeplerEphemeris } from '../gnss/nav-types.js';
 
 const START = 1_400_000_000;
 const nav = simulateConstellation({ seed: 3, startGpsS: START, endGpsS: START + 3600, systems: ['G', 'E'] });

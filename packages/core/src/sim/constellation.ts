@@ -17,8 +17,8 @@
  * data source, E5b/E1 clock): toe every hour (the real system refreshes every 10 min; one hour keeps files
  * small), IODnav incrementing (mod 1024), transmitted 9 min before toe.
  */
-import type { GnssSystem } from '../types.js';
-import type { KeplerEphemeris, KlobucharCoefficients, NavData } from '../rinex/nav-types.js';
+import type { GnssSystem } from '../gnss/types.js';
+import type { KeplerEphemeris, KlobucharCoefficients, NavData } from '../gnss/nav-types.js';
 import { GALILEO_CONSTANTS, GPS_CONSTANTS } from '../orbit/constants.js';
 import { SECONDS_PER_WEEK } from '../time/index.js';
 import { Rng } from './rng.js';

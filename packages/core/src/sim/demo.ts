@@ -8,7 +8,7 @@
  * renderDemoFiles() gives every file's text as chunks; fixtures/demo/make-demo.mjs writes them atomically and
  * the demo test hashes them, so the committed files are exactly what the seed produces.
  */
-import type { EcefM } from '../types.js';
+import type { EcefM } from '../gnss/types.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import { isoFromSeconds, secondsFromCalendar, weekTowFromGpsS } from '../time/index.js';
 import { writeObsRinex3 } from '../rinex/obs-writer.js';

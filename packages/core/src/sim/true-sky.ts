@@ -4,8 +4,8 @@
  * error of the error model, both common to every receiver. Also the light-time solution between a
  * receiver and a satellite.
  */
-import type { EcefM, SatId } from '../types.js';
-import type { KeplerEphemeris, NavData } from '../rinex/nav-types.js';
+import type { EcefM, SatId } from '../gnss/types.js';
+import type { KeplerEphemeris, NavData } from '../gnss/nav-types.js';
 import { keplerStateInto } from '../orbit/kepler.js';
 import { satelliteClock, type SignalKind } from '../orbit/clock.js';
 import { GPS_CONSTANTS } from '../orbit/constants.js';

@@ -12,7 +12,7 @@
  * the carrier change used here beyond half a wavelength (~10 cm), far below the code noise.
  * A millisecond receiver clock jump common to all satellites is repaired (detectMillisecondClockJump).
  */
-import type { SatId } from '../types.js';
+import type { SatId } from '../gnss/types.js';
 import { detectMillisecondClockJump } from './clock-jump.js';
 import type { ClockJump } from './clock-jump.js';
 

@@ -8,19 +8,19 @@
  * Galileo pairs E1 with E5b for an I/NAV clock and with E5a for an F/NAV clock (OS SIS ICD 5.1.5).
  * GLONASS rows carry an extra variance for the receiver's FDMA code inter-frequency biases (fdma-code-bias.ts).
  */
-import type { EcefM, GnssSystem, SatId } from '../types.js';
-import { satSystem } from '../types.js';
-import type { ObsEpoch, ObsHeader, SatObservations } from '../rinex/obs-types.js';
-import type { Ephemeris, IonosphereCoefficients, KeplerEphemeris } from '../rinex/nav-types.js';
-import { chooseCode, carrierFrequencyHz } from '../rinex/obs-codes.js';
+import type { EcefM, GnssSystem, SatId } from '../gnss/types.js';
+import { satSystem } from '../gnss/types.js';
+import type { ObsEpoch, ObsHeader, SatObservations } from '../gnss/obs-types.js';
+import type { Ephemeris, IonosphereCoefficients, KeplerEphemeris } from '../gnss/nav-types.js';
+import { chooseCode, carrierFrequencyHz } from '../gnss/obs-codes.js';
 import { EphemerisStore, isGalileoFnav, SPEED_OF_LIGHT_MS, type SignalKind } from '../orbit/index.js';
-import { satelliteForTag } from '../positioning/satellite-for-tag.js';
+import { satelliteForTag } from '../observables/satellite-for-tag.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
 import { elevationVarianceM2, strengthToDbHz, type ElevationWeightParams } from '../solve/index.js';
-import { solvePositionFix, DEFAULT_FIX_OPTIONS, type FixOptions, type LinearRow, type PositionFix, type FixFailure } from '../positioning/position-fix.js';
-import { PRIMARY_BAND, SECONDARY_BANDS, clockSignal } from '../positioning/signals.js';
-import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../positioning/atmosphere-model.js';
-import type { SatelliteResidual } from '../positioning/satellite-residual.js';
+import { solvePositionFix, DEFAULT_FIX_OPTIONS, type FixOptions, type LinearRow, type PositionFix, type FixFailure } from '../solve/position-fix.js';
+import { PRIMARY_BAND, SECONDARY_BANDS, clockSignal } from '../observables/signals.js';
+import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../observables/atmosphere-model.js';
+import type { SatelliteResidual } from '../solve/satellite-residual.js';
 import { GLONASS_CODE_BIAS_SIGMA_M, glonassCodeBiasVarianceM2 } from './fdma-code-bias.js';
 
 export type StandaloneMode = 'ionosphere-free' | 'single-frequency';

@@ -3,7 +3,7 @@
  * Observation codes are RINEX 3 three-character codes ('C1C', 'L1C', 'D1C', 'S1C', 'C1W', 'C2W', ...);
  * RINEX 2 two-character codes are mapped to them on reading (see obs-codes.ts).
  */
-import type { EcefM, GnssSystem, SatId } from '../types.js';
+import type { EcefM, GnssSystem, SatId } from './types.js';
 import type { TimeSystem } from '../time/index.js';
 
 export interface AntennaOffset {

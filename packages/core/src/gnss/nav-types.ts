@@ -2,7 +2,7 @@
  * Broadcast navigation data model shared by the nav readers/writer, the orbit code and the simulator.
  * Times are GPS seconds since the GPS epoch (see time/gps-time.ts); each record also keeps what the file said.
  */
-import type { GnssSystem, SatId } from '../types.js';
+import type { GnssSystem, SatId } from './types.js';
 
 /** Keplerian broadcast ephemeris: GPS/QZSS LNAV, Galileo I/NAV and F/NAV, BeiDou D1/D2, NavIC. */
 export interface KeplerEphemeris {

@@ -4,7 +4,7 @@
  * written in dB-Hz by practically all receivers: common practice), else the observation's signal-strength
  * digit 1-9 mapped to dB-Hz by the RINEX 3.05 table (solve/weights.ts strengthToDbHz).
  */
-import type { SatObservations } from '../rinex/obs-types.js';
+import type { SatObservations } from '../gnss/obs-types.js';
 import { strengthToDbHz } from '../solve/index.js';
 
 export function signalStrengthDbHz(s: SatObservations, code: string): number {

@@ -8,12 +8,12 @@
  * Sources: linearised pseudorange model, Misra & Enge (2011) 6.1.1; testing, Teunissen (2000) 4.4
  * (see solve/tests.ts).
  */
-import type { EcefM, EnuM, GnssSystem, SatId } from '../types.js';
+import type { EcefM, EnuM, GnssSystem, SatId } from '../gnss/types.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import {
   choleskyInPlace, choleskyInverse, dataSnooping, globalTest, solveWeightedLeastSquaresSmall,
   type Dop, type GlobalTestResult, type WlsSolution,
-} from '../solve/index.js';
+} from './index.js';
 
 /** One linearised observation at the current estimate. */
 export interface LinearRow {

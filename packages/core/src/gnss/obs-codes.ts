@@ -9,7 +9,8 @@
  * E5b, E5, E6); BeiDou ICD B1I 4.2 / B3I / B1C / B2a; GLONASS ICD 3.3.1.1 (FDMA L1/L2); QZSS IS-QZSS;
  * IRNSS SPS ICD (L5, S band).
  */
-import type { GnssSystem } from '../types.js';
+import type { GnssSystem } from './types.js';
+import { SPEED_OF_LIGHT_MS } from './constants.js';
 
 /**
  * RINEX 2 code -> RINEX 3 code, per system. The attribute (third character) is not in RINEX 2, so a
@@ -177,10 +178,8 @@ export function carrierFrequencyHz(system: GnssSystem, code: string, glonassChan
   return CDMA_FREQUENCY_HZ[system]?.[band] ?? NaN;
 }
 
-/** Speed of light in vacuum (m/s), SI definition; for wavelengths. */
-const SPEED_OF_LIGHT_M_S = 299_792_458;
 
 /** Carrier wavelength (m) = c / f; NaN when the frequency is unknown. */
 export function carrierWavelengthM(system: GnssSystem, code: string, glonassChannelK?: number): number {
-  return SPEED_OF_LIGHT_M_S / carrierFrequencyHz(system, code, glonassChannelK);
+  return SPEED_OF_LIGHT_MS / carrierFrequencyHz(system, code, glonassChannelK);
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { solvePositionFix, DEFAULT_FIX_OPTIONS, type LinearRow } from './position-fix.js';
-import { dilutionOfPrecision } from '../solve/index.js';
+import { dilutionOfPrecision } from './index.js';
 import { geodeticToEcef, enuToEcefDelta } from '../geodesy/index.js';
 import { rng } from '../../../../test/support/random.js';
 
