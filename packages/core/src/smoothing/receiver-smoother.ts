@@ -2,12 +2,10 @@
  * Carrier smoothing of one receiver's primary-band pseudoranges (Hatch filter, smoothing/hatch.ts), one
  * filter per code type, with the receiver's millisecond clock steps repaired inside the filter.
  */
-import type { GnssSystem, SatId } from '../gnss/types.js';
-import { satSystem } from '../gnss/types.js';
-import type { ObsEpoch } from '../gnss/obs-types.js';
-import { carrierWavelengthM, companionCodes } from '../gnss/obs-codes.js';
-import { CarrierSmoother } from '../smoothing/index.js';
-import { primaryCodes, pseudorangeOf } from '../observables/code-selection.js';
+import type { GnssSystem, ObsEpoch, SatId } from '../gnss/index.js';
+import { carrierWavelengthM, companionCodes, satSystem } from '../gnss/index.js';
+import { primaryCodes, pseudorangeOf } from '../observables/index.js';
+import { CarrierSmoother } from './hatch.js';
 
 export class ReceiverSmoother {
   private readonly filters = new Map<string, CarrierSmoother>();

@@ -1,0 +1,241 @@
+/**
+ * One rover epoch turned into between-receiver single differences of code, ready for an epoch solver.
+ *
+ * Per satellite: the rover's code (smoothed when smoothing is on) matched to a code the reference tracks,
+ * the satellite at transmission for the rover's epoch (observables/satellite-for-tag.ts), and the reference
+ * correction interpolated to the epoch's estimated GPS time (reference-corrections.ts). The linearised rows
+ *   y^s = P_rov^s - rho_rov^s + c dt^s - T_rov - I_rov - C^s(t) - b^s
+ * (b^s: a session-constant between-receiver code offset, code-offsets.ts) are built at any trial position
+ * by `rowsAt`, with the look angles, atmosphere and weights cached per satellite (they change with the
+ * position only through metres-scale changes of the look angles).
+ * Source of the model: Misra & Enge (2011) 7.1, eqs. 7.3-7.6 (see reference-corrections.ts).
+ */
+import type { EcefM, GeodeticRad, GnssSystem, SatId } from '../gnss/index.js';
+import { carrierFrequencyHz, satSystem, type Ephemeris, type IonosphereCoefficients, type ObsEpoch } from '../gnss/index.js';
+import { SPEED_OF_LIGHT_MS, type EphemerisStore, type SatelliteAtTransmission } from '../orbit/index.js';
+import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
+import {
+  clockSignal, dayOfYear, ionosphereDelayM, matchCode, primaryCodes, pseudorangeOf, satelliteForTag, signalStrengthDbHz, troposphereDelayM,
+} from '../observables/index.js';
+import type { ReferenceCorrections } from './reference-corrections.js';
+
+/** A session-constant code offset of one satellite's single difference, and how far to trust it. */
+export interface CodeOffsetSource {
+  /** Offset (m) removed from the satellite's single difference. */
+  offsetM(sat: SatId, system: GnssSystem, channel: number | undefined): number;
+  /** Variance (m^2) added to the row for the offset's own uncertainty. */
+  offsetVarianceM2(sat: SatId, system: GnssSystem, channel: number | undefined): number;
+  /** Multiplier of the row variance (1: none). */
+  varianceFactor(sat: SatId, system: GnssSystem, channel: number | undefined): number;
+  /** GLONASS satellites without a known frequency channel cannot be used. */
+  readonly needsGlonassChannel: boolean;
+}
+
+export interface DifferencingContext {
+  readonly store: EphemerisStore;
+  /** Constellations in use. */
+  readonly systems: readonly GnssSystem[];
+  /** Why a satellite of a constellation not in use is left out. */
+  readonly systemReason: (system: GnssSystem) => string;
+  readonly corrections: ReferenceCorrections;
+  readonly iono: IonosphereCoefficients;
+  readonly glonassChannels: ReadonlyMap<number, number>;
+  readonly maskRad: number;
+  readonly maxAgeS: number;
+  /** One receiver's code variance (m^2) at an elevation and signal strength (solve/weights.ts). */
+  readonly codeVarianceM2: (elevationRad: number, cn0DbHz: number) => number;
+  readonly offsets: CodeOffsetSource | null;
+}
+
+/** One satellite's single difference before linearisation. */
+export interface SingleDifference {
+  readonly sat: SatId;
+  readonly system: GnssSystem;
+  readonly code: string;
+  readonly codeM: number;
+  readonly eph: Ephemeris;
+  satPos: EcefM;
+  at: SatelliteAtTransmission;
+  satClockM: number;
+  readonly frequencyHz: number;
+  readonly cn0DbHz: number;
+  readonly channel: number | undefined;
+  correctionM: number;
+  ageS: number;
+  elevationRefRad: number;
+  cn0RefDbHz: number;
+}
+
+/** One linearised observation at the current estimate (solve/position-fix.ts LinearRow). */
+export interface DifferenceRow {
+  readonly sat: SatId;
+  readonly system: GnssSystem;
+  readonly losX: number;
+  readonly losY: number;
+  readonly losZ: number;
+  readonly misclosureM: number;
+  readonly varianceM2: number;
+}
+
+interface Look { el: number; az: number; tropoM: number; ionoM: number; varianceM2: number }
+
+function median(v: number[]): number {
+  if (v.length === 0) return NaN;
+  const s = [...v].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+export class SingleDifferenceEpoch {
+  /** Satellites with a code, an ephemeris and a reference tracking the same code. */
+  readonly prepared: SingleDifference[] = [];
+  /** Those of `prepared` with a reference correction at the epoch's time. */
+  readonly usable: SingleDifference[] = [];
+  /** Why a satellite of the epoch is not in `usable` (with the signal it was tried on). */
+  readonly reasons = new Map<SatId, { signal: string; reason: string }>();
+  /** Look angles of the last `rowsAt` call, and who fell below a mask there. */
+  readonly geometry = new Map<SatId, { el: number; az: number }>();
+  readonly belowMask = new Set<SatId>();
+  readonly belowMaskRef = new Set<SatId>();
+  /** Receiver clock (m) from the code at the start position, median over satellites. */
+  readonly codeClockM: number;
+  /** Estimated GPS time of the epoch (tag less that clock). */
+  readonly timeGpsS: number;
+  /** Largest age of the corrections used (s). */
+  readonly maxAgeS: number;
+  private satellitesClockM: number;
+  private lookAt: EcefM | null = null;
+  private lookGeodetic: GeodeticRad | null = null;
+  private readonly looks = new Map<SatId, Look>();
+  private readonly doy: number;
+
+  constructor(
+    readonly epoch: ObsEpoch,
+    private readonly ctx: DifferencingContext,
+    smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
+    startM: EcefM,
+    previousClockM: number,
+  ) {
+    this.doy = dayOfYear(epoch.tagGpsS);
+    this.satellitesClockM = Number.isFinite(previousClockM) ? previousClockM : 0;
+    for (const s of epoch.sats) this.prepare(s, smoothed);
+    // Time alignment: the rover clock from its own code at the start position, so corrections are taken
+    // at the epoch's estimated GPS time rather than at its receiver-time tag.
+    const x0 = startM;
+    this.codeClockM = median(this.prepared.map((p) => p.codeM - Math.hypot(p.satPos.x - x0.x, p.satPos.y - x0.y, p.satPos.z - x0.z) + p.satClockM));
+    this.timeGpsS = epoch.tagGpsS - (Number.isFinite(this.codeClockM) ? this.codeClockM / SPEED_OF_LIGHT_MS : 0);
+    // The clock moved (first epoch, or a millisecond step): redo the Earth rotation with the new estimate.
+    if (Number.isFinite(this.codeClockM) && Math.abs(this.codeClockM - this.satellitesClockM) > 30) this.recomputeSatellites(this.codeClockM);
+    let maxAge = 0;
+    for (const p of this.prepared) {
+      const c = ctx.corrections.correctionAt(p.sat, p.code, p.eph, this.timeGpsS, ctx.maxAgeS);
+      if (!c.ok) { this.reasons.set(p.sat, { signal: p.code, reason: c.reason }); continue; }
+      p.correctionM = c.correctionM; p.ageS = c.ageS; p.elevationRefRad = c.elevationRefRad; p.cn0RefDbHz = c.cn0RefDbHz;
+      maxAge = Math.max(maxAge, c.ageS);
+      this.usable.push(p);
+    }
+    this.maxAgeS = maxAge;
+  }
+
+  private prepare(s: ObsEpoch['sats'][number], smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined): void {
+    const ctx = this.ctx;
+    const system = satSystem(s.sat);
+    if (!ctx.systems.includes(system)) { this.reasons.set(s.sat, { signal: '', reason: ctx.systemReason(system) }); return; }
+    const roverCodes = primaryCodes(system, s);
+    if (roverCodes.length === 0) { this.reasons.set(s.sat, { signal: '', reason: 'no pseudorange on the primary band' }); return; }
+    const tag = this.epoch.tagGpsS;
+    const sel = ctx.store.select(s.sat, tag);
+    if (sel.eph === null) {
+      this.reasons.set(s.sat, { signal: roverCodes[0], reason: sel.reason === 'too-old' ? `ephemeris too old (${Math.round((sel.ageS ?? 0) / 60)} min)` : sel.reason === 'unhealthy' ? 'unhealthy ephemeris' : 'no ephemeris' });
+      return;
+    }
+    const refCodes = ctx.corrections.codesNear(s.sat, tag, ctx.maxAgeS + 1);
+    if (refCodes.size === 0) { this.reasons.set(s.sat, { signal: roverCodes[0], reason: 'not tracked by the reference' }); return; }
+    const match = matchCode(roverCodes, refCodes);
+    if (match.code === null) { this.reasons.set(s.sat, { signal: roverCodes[0], reason: match.reason }); return; }
+    const code = match.code;
+    const codeM = smoothed?.get(s.sat)?.get(code) ?? pseudorangeOf(s, code);
+    if (!Number.isFinite(codeM)) { this.reasons.set(s.sat, { signal: code, reason: 'smoothing filter not ready' }); return; }
+    const at = satelliteForTag(sel.eph, tag, codeM, this.satellitesClockM, null, clockSignal(system, code[1]));
+    const k = system === 'R' ? ctx.glonassChannels.get(Number(s.sat.slice(1))) : undefined;
+    if (system === 'R' && k === undefined && ctx.offsets?.needsGlonassChannel) {
+      this.reasons.set(s.sat, { signal: code, reason: 'no GLONASS frequency channel (in neither header nor navigation file): its code offset cannot be estimated' });
+      return;
+    }
+    this.prepared.push({
+      sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, at, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
+      frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: signalStrengthDbHz(s, code), channel: k,
+      correctionM: NaN, ageS: NaN, elevationRefRad: NaN, cn0RefDbHz: NaN,
+    });
+  }
+
+  /** Redoes the satellites' Earth rotation for a receiver clock (m). */
+  recomputeSatellites(rxClockM: number): void {
+    for (const p of this.prepared) {
+      const at = satelliteForTag(p.eph, this.epoch.tagGpsS, p.codeM, rxClockM, null, clockSignal(p.system, p.code[1]));
+      p.satPos = at.posM;
+      p.at = at;
+      p.satClockM = SPEED_OF_LIGHT_MS * at.clock.offsetS;
+    }
+    this.satellitesClockM = rxClockM;
+  }
+
+  /** The clock (m) the satellites' Earth rotation was last computed with. */
+  get clockUsedM(): number {
+    return this.satellitesClockM;
+  }
+
+  private lookOf(p: SingleDifference): Look {
+    let l = this.looks.get(p.sat);
+    if (l) return l;
+    const x = this.lookAt!, g = this.lookGeodetic!;
+    const ae = azimuthElevation(x, p.satPos, g.latRad, g.lonRad);
+    const el = ae.elevationRad;
+    const above = el >= this.ctx.maskRad;
+    const v = this.ctx.codeVarianceM2;
+    l = {
+      el, az: ae.azimuthRad,
+      tropoM: above ? troposphereDelayM(g, el, this.doy) : NaN,
+      ionoM: above && Number.isFinite(p.frequencyHz) ? ionosphereDelayM(this.ctx.iono, p.system, g, el, ae.azimuthRad, this.epoch.tagGpsS, p.frequencyHz) : 0,
+      varianceM2: above ? v(el, p.cn0DbHz) + v(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) : NaN,
+    };
+    this.looks.set(p.sat, l);
+    return l;
+  }
+
+  /** Linearised rows at a trial rover antenna position, leaving out `excluded` and satellites below a mask. */
+  rowsAt(x: EcefM, excluded: ReadonlySet<SatId>): DifferenceRow[] {
+    const lookAt = this.lookAt;
+    if (lookAt === null || Math.hypot(x.x - lookAt.x, x.y - lookAt.y, x.z - lookAt.z) > 100) {
+      this.looks.clear();
+      this.lookAt = x;
+      this.lookGeodetic = ecefToGeodetic(x);
+    }
+    const rows: DifferenceRow[] = [];
+    const maskRad = this.ctx.maskRad;
+    const offsets = this.ctx.offsets;
+    this.belowMask.clear();
+    this.belowMaskRef.clear();
+    for (const p of this.usable) {
+      if (excluded.has(p.sat)) continue;
+      const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;
+      const range = Math.sqrt(dx * dx + dy * dy + dz * dz);
+      const look = this.lookOf(p);
+      this.geometry.set(p.sat, { el: look.el, az: look.az });
+      if (look.el < maskRad) { this.belowMask.add(p.sat); continue; }
+      if (p.elevationRefRad < maskRad) { this.belowMaskRef.add(p.sat); continue; }
+      let offsetM = 0, extraM2 = 0, factor = 1;
+      if (offsets) {
+        offsetM = offsets.offsetM(p.sat, p.system, p.channel);
+        extraM2 = offsets.offsetVarianceM2(p.sat, p.system, p.channel);
+        factor = offsets.varianceFactor(p.sat, p.system, p.channel);
+      }
+      rows.push({
+        sat: p.sat, system: p.system, losX: dx / range, losY: dy / range, losZ: dz / range,
+        misclosureM: p.codeM - range + p.satClockM - look.tropoM - look.ionoM - p.correctionM - offsetM,
+        varianceM2: look.varianceM2 * factor + extraM2,
+      });
+    }
+    return rows;
+  }
+}
