@@ -12,7 +12,8 @@ import { describeShared } from './support/shared.js';
 import { corsNav, errorStats, fmt, openObs, roverTruth } from './support/static-run.js';
 
 async function solve(rover: string, references: string[], nav: NavData, opts: Partial<SessionOptions>): Promise<{ solutions: EpochSolution[]; notes: readonly string[] }> {
-  const run = await solveSession({ rover: await openObs(rover), references: await Promise.all(references.map(openObs)), nav }, withDefaults(opts));
+  const reopen = async () => ({ rover: await openObs(rover), references: await Promise.all(references.map(openObs)) });
+  const run = await solveSession({ rover: await openObs(rover), references: await Promise.all(references.map(openObs)), nav, reopen }, withDefaults(opts));
   const solutions: EpochSolution[] = [];
   for await (const s of run.epochs) solutions.push(s);
   return { solutions, notes: run.summary().notes };

@@ -19,7 +19,7 @@ export * from './control/index.js';
 export * from './sim/index.js';
 // points/: the sim stage exports its own 'Occupation' type, so the points one is renamed here.
 export * from './points/robust-mean.js';
-export * from './points/time-correlation.js';
+
 export * from './points/antenna-height.js';
 export * from './points/occupation-csv.js';
 export * from './points/summarise-point.js';

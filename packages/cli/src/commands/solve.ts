@@ -205,7 +205,14 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     reference: { position: ref.position, source: ref.source, antenna: withHeight(references[0].header.antennaOffset, heights.referenceHeightM) },
     roverAntenna: withHeight(rover.header.antennaOffset, heights.roverHeightM),
   };
-  const run = await solveSession({ rover, references, nav, onWarning: rep.warn }, options);
+  // The session reads the files twice (whole-session estimates first): the second opening is silent, the
+  // readers' warnings were given by the first.
+  const reopen = async () => {
+    const again: OpenedObs[] = [];
+    for (const p of a.reference) again.push(await openObs(p, () => {}));
+    return { rover: await openObs(a.rover, () => {}), references: again };
+  };
+  const run = await solveSession({ rover, references, nav, onWarning: rep.warn, reopen }, options);
 
   const pointReference: PointReference = options.reduceToMark ? 'ground-mark' : 'antenna-reference-point';
   const roverSystems = Object.keys(rover.header.obsCodes) as GnssSystem[];

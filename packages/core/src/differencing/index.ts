@@ -4,4 +4,3 @@
  */
 export * from './reference-corrections.js';
 export * from './single-difference-epoch.js';
-export * from './glonass-channel-offsets.js';

@@ -33,6 +33,8 @@ export interface ReferenceSatellite {
   /** Pseudorange (m) per code type of the primary band (smoothed when smoothing is on). */
   readonly codes: Map<string, number>;
   readonly cn0DbHz: number;
+  /** Variance of the code relative to one raw code (< 1 when smoothed). */
+  readonly varianceFactor: number;
 }
 
 export interface ReferenceEpoch {
@@ -59,11 +61,19 @@ export interface InterpolatedCorrection {
   readonly ageS: number;
   readonly elevationRefRad: number;
   readonly cn0RefDbHz: number;
+  /** Variance factor of the reference code used (smoothing). */
+  readonly varianceFactorRef: number;
 }
 
 export interface CorrectionFailure {
   readonly ok: false;
   readonly reason: string;
+}
+
+/** The reference epochs around a rover epoch (ReferenceCorrections.bracketAt). */
+export interface Bracket {
+  readonly before: ReferenceEpoch | null;
+  readonly after: ReferenceEpoch | null;
 }
 
 export interface ReferenceContext {
@@ -101,7 +111,7 @@ export class ReferenceCorrections {
    * Adds one reference epoch. `codesOverride` gives smoothed pseudoranges (sat -> code -> m) when
    * carrier smoothing is on. Returns false when no receiver clock could be estimated.
    */
-  addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>, cn0Override?: ReadonlyMap<SatId, number>): boolean {
+  addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>, cn0Override?: ReadonlyMap<SatId, number>, factorsOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>): boolean {
     const geodetic = ecefToGeodetic(arpM);
     const sats = new Map<SatId, ReferenceSatellite>();
     const doy = dayOfYear(epoch.tagGpsS);
@@ -121,7 +131,7 @@ export class ReferenceCorrections {
       }
       if (codes.size === 0) continue;
       const first = codes.keys().next().value as string;
-      sats.set(s.sat, { codes, cn0DbHz: cn0Override?.get(s.sat) ?? signalStrengthDbHz(s, first) });
+      sats.set(s.sat, { codes, cn0DbHz: cn0Override?.get(s.sat) ?? signalStrengthDbHz(s, first), varianceFactor: factorsOverride?.get(s.sat)?.get(first) ?? 1 });
       const sel = this.ctx.store.select(s.sat, epoch.tagGpsS);
       if (sel.eph === null) continue;
       firsts.push({ sat: s.sat, system, code: first, p: codes.get(first)!, eph: sel.eph });
@@ -190,9 +200,33 @@ export class ReferenceCorrections {
     return best;
   }
 
-  /** Codes the reference has for a satellite near a time (from the nearest epoch holding it). */
-  codesNear(sat: SatId, tGpsS: number, maxAgeS: number): Set<string> {
+  /**
+   * The reference epochs bracketing t: the latest at or before t and the earliest after it, each within
+   * maxAgeS (null where there is none). All satellites of a rover epoch are corrected from this one pair,
+   * so the reference clock error of each reference epoch enters every satellite with the same weight and
+   * goes into the relative clock instead of into the position.
+   */
+  bracketAt(tGpsS: number, maxAgeS: number): Bracket {
+    const ep = this.epochs;
+    let lo = 0, hi = ep.length;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (ep[mid].timeGpsS <= tGpsS + 1e-3) lo = mid + 1; else hi = mid;
+    }
+    const before = lo > 0 && tGpsS - ep[lo - 1].timeGpsS <= maxAgeS ? ep[lo - 1] : null;
+    const after = lo < ep.length && ep[lo].timeGpsS - tGpsS <= maxAgeS ? ep[lo] : null;
+    return { before, after };
+  }
+
+  /** Codes the reference has for a satellite near a time: from the bracketing epochs, else from the nearest epochs holding it. */
+  codesNear(sat: SatId, tGpsS: number, maxAgeS: number, bracket?: Bracket): Set<string> {
     const out = new Set<string>();
+    const b = bracket ?? this.bracketAt(tGpsS, maxAgeS);
+    for (const e of [b.before, b.after]) {
+      const rs = e?.sats.get(sat);
+      if (rs) for (const c of rs.codes.keys()) out.add(c);
+    }
+    if (out.size > 0) return out;
     for (const e of this.epochs) {
       if (Math.abs(e.timeGpsS - tGpsS) > maxAgeS) continue;
       const rs = e.sats.get(sat);
@@ -202,36 +236,43 @@ export class ReferenceCorrections {
   }
 
   /**
-   * The correction for (sat, code, issue) at GPS time t: linear interpolation between the nearest reference
-   * epochs before and after t that hold the satellite, or the nearer one alone when only one side exists;
-   * no epoch farther than maxAgeS is used.
+   * The correction for (sat, code, issue) at GPS time t: linear interpolation between the bracketing
+   * reference epochs (bracketAt) when both hold the satellite, the one that does when only one does, and
+   * otherwise between the nearest epochs before and after t that hold it; no epoch farther than maxAgeS.
    */
-  correctionAt(sat: SatId, code: string, eph: Ephemeris, tGpsS: number, maxAgeS: number): InterpolatedCorrection | CorrectionFailure {
+  correctionAt(sat: SatId, code: string, eph: Ephemeris, tGpsS: number, maxAgeS: number, bracket?: Bracket): InterpolatedCorrection | CorrectionFailure {
     let before: ReferenceEpoch | null = null;
     let after: ReferenceEpoch | null = null;
     let seen = false;
-    for (let i = this.epochs.length - 1; i >= 0; i--) {
-      const e = this.epochs[i];
-      if (e.timeGpsS > tGpsS + 1e-3) continue;
-      if (tGpsS - e.timeGpsS > maxAgeS) break;
-      const rs = e.sats.get(sat);
-      if (rs) seen = true;
-      if (rs?.codes.has(code)) { before = e; break; }
-    }
-    for (let i = 0; i < this.epochs.length; i++) {
-      const e = this.epochs[i];
-      if (e.timeGpsS <= tGpsS + 1e-3) continue;
-      if (e.timeGpsS - tGpsS > maxAgeS) break;
-      const rs = e.sats.get(sat);
-      if (rs) seen = true;
-      if (rs?.codes.has(code)) { after = e; break; }
+    const b = bracket ?? this.bracketAt(tGpsS, maxAgeS);
+    if (b.before?.sats.get(sat)?.codes.has(code)) before = b.before;
+    if (b.after?.sats.get(sat)?.codes.has(code)) after = b.after;
+    if (before === null && after === null) {
+      for (let i = this.epochs.length - 1; i >= 0; i--) {
+        const e = this.epochs[i];
+        if (e.timeGpsS > tGpsS + 1e-3) continue;
+        if (tGpsS - e.timeGpsS > maxAgeS) break;
+        const rs = e.sats.get(sat);
+        if (rs) seen = true;
+        if (rs?.codes.has(code)) { before = e; break; }
+      }
+      for (let i = 0; i < this.epochs.length; i++) {
+        const e = this.epochs[i];
+        if (e.timeGpsS <= tGpsS + 1e-3) continue;
+        if (e.timeGpsS - tGpsS > maxAgeS) break;
+        const rs = e.sats.get(sat);
+        if (rs) seen = true;
+        if (rs?.codes.has(code)) { after = e; break; }
+      }
     }
     if (before === null && after === null) {
       return { ok: false, reason: seen ? `reference has no ${code} for this satellite` : 'not tracked by the reference within the correction age limit' };
     }
     const cb = before ? this.correctionOf(before, sat, code, eph) : null;
     const ca = after ? this.correctionOf(after, sat, code, eph) : null;
-    const cn0 = (before ?? after)!.sats.get(sat)!.cn0DbHz;
+    const refSat = (before ?? after)!.sats.get(sat)!;
+    const cn0 = refSat.cn0DbHz;
+    const varianceFactorRef = refSat.varianceFactor;
     if (cb && ca && before && after) {
       const span = after.timeGpsS - before.timeGpsS;
       const w = span > 0 ? (tGpsS - before.timeGpsS) / span : 0;
@@ -241,12 +282,13 @@ export class ReferenceCorrections {
         ageS: Math.max(tGpsS - before.timeGpsS, after.timeGpsS - tGpsS),
         elevationRefRad: cb.elevationRad,
         cn0RefDbHz: cn0,
+        varianceFactorRef,
       };
     }
     const one = cb ?? ca;
     const e = cb ? before! : after!;
     if (!one) return { ok: false, reason: 'satellite below the reference horizon' };
-    return { ok: true, correctionM: one.correctionM, ageS: Math.abs(tGpsS - e.timeGpsS), elevationRefRad: one.elevationRad, cn0RefDbHz: cn0 };
+    return { ok: true, correctionM: one.correctionM, ageS: Math.abs(tGpsS - e.timeGpsS), elevationRefRad: one.elevationRad, cn0RefDbHz: cn0, varianceFactorRef };
   }
 
   /** Drops reference epochs that can no longer serve a rover epoch at or after t. Keeps one before the window. */

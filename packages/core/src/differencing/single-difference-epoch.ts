@@ -17,7 +17,7 @@ import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
 import {
   clockSignal, dayOfYear, ionosphereDelayM, matchCode, primaryCodes, pseudorangeOf, satelliteForTag, signalStrengthDbHz, troposphereDelayM,
 } from '../observables/index.js';
-import type { ReferenceCorrections } from './reference-corrections.js';
+import type { Bracket, ReferenceCorrections } from './reference-corrections.js';
 
 /** A session-constant code offset of one satellite's single difference, and how far to trust it. */
 export interface CodeOffsetSource {
@@ -64,6 +64,9 @@ export interface SingleDifference {
   ageS: number;
   elevationRefRad: number;
   cn0RefDbHz: number;
+  /** Variance factors of the rover's and the reference's code relative to one raw code (smoothing). */
+  readonly varianceFactorRover: number;
+  varianceFactorRef: number;
 }
 
 /** One linearised observation at the current estimate (solve/position-fix.ts LinearRow). */
@@ -113,12 +116,14 @@ export class SingleDifferenceEpoch {
     readonly epoch: ObsEpoch,
     private readonly ctx: DifferencingContext,
     smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
+    private readonly smoothedFactors: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
     startM: EcefM,
     previousClockM: number,
   ) {
     this.doy = dayOfYear(epoch.tagGpsS);
     this.satellitesClockM = Number.isFinite(previousClockM) ? previousClockM : 0;
-    for (const s of epoch.sats) this.prepare(s, smoothed);
+    const tagBracket = ctx.corrections.bracketAt(epoch.tagGpsS, ctx.maxAgeS + 1);
+    for (const s of epoch.sats) this.prepare(s, smoothed, tagBracket);
     // Time alignment: the rover clock from its own code at the start position, so corrections are taken
     // at the epoch's estimated GPS time rather than at its receiver-time tag.
     const x0 = startM;
@@ -127,17 +132,18 @@ export class SingleDifferenceEpoch {
     // The clock moved (first epoch, or a millisecond step): redo the Earth rotation with the new estimate.
     if (Number.isFinite(this.codeClockM) && Math.abs(this.codeClockM - this.satellitesClockM) > 30) this.recomputeSatellites(this.codeClockM);
     let maxAge = 0;
+    const bracket = ctx.corrections.bracketAt(this.timeGpsS, ctx.maxAgeS);
     for (const p of this.prepared) {
-      const c = ctx.corrections.correctionAt(p.sat, p.code, p.eph, this.timeGpsS, ctx.maxAgeS);
+      const c = ctx.corrections.correctionAt(p.sat, p.code, p.eph, this.timeGpsS, ctx.maxAgeS, bracket);
       if (!c.ok) { this.reasons.set(p.sat, { signal: p.code, reason: c.reason }); continue; }
-      p.correctionM = c.correctionM; p.ageS = c.ageS; p.elevationRefRad = c.elevationRefRad; p.cn0RefDbHz = c.cn0RefDbHz;
+      p.correctionM = c.correctionM; p.ageS = c.ageS; p.elevationRefRad = c.elevationRefRad; p.cn0RefDbHz = c.cn0RefDbHz; p.varianceFactorRef = c.varianceFactorRef;
       maxAge = Math.max(maxAge, c.ageS);
       this.usable.push(p);
     }
     this.maxAgeS = maxAge;
   }
 
-  private prepare(s: ObsEpoch['sats'][number], smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined): void {
+  private prepare(s: ObsEpoch['sats'][number], smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, bracket: Bracket): void {
     const ctx = this.ctx;
     const system = satSystem(s.sat);
     if (!ctx.systems.includes(system)) { this.reasons.set(s.sat, { signal: '', reason: ctx.systemReason(system) }); return; }
@@ -149,7 +155,7 @@ export class SingleDifferenceEpoch {
       this.reasons.set(s.sat, { signal: roverCodes[0], reason: sel.reason === 'too-old' ? `ephemeris too old (${Math.round((sel.ageS ?? 0) / 60)} min)` : sel.reason === 'unhealthy' ? 'unhealthy ephemeris' : 'no ephemeris' });
       return;
     }
-    const refCodes = ctx.corrections.codesNear(s.sat, tag, ctx.maxAgeS + 1);
+    const refCodes = ctx.corrections.codesNear(s.sat, tag, ctx.maxAgeS + 1, bracket);
     if (refCodes.size === 0) { this.reasons.set(s.sat, { signal: roverCodes[0], reason: 'not tracked by the reference' }); return; }
     const match = matchCode(roverCodes, refCodes);
     if (match.code === null) { this.reasons.set(s.sat, { signal: roverCodes[0], reason: match.reason }); return; }
@@ -166,6 +172,7 @@ export class SingleDifferenceEpoch {
       sat: s.sat, system, code, codeM, eph: sel.eph, satPos: at.posM, at, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
       frequencyHz: carrierFrequencyHz(system, code, k), cn0DbHz: signalStrengthDbHz(s, code), channel: k,
       correctionM: NaN, ageS: NaN, elevationRefRad: NaN, cn0RefDbHz: NaN,
+      varianceFactorRover: smoothed?.get(s.sat)?.has(code) ? this.smoothedFactors?.get(s.sat)?.get(code) ?? 1 : 1, varianceFactorRef: 1,
     });
   }
 
@@ -197,7 +204,7 @@ export class SingleDifferenceEpoch {
       el, az: ae.azimuthRad,
       tropoM: above ? troposphereDelayM(g, el, this.doy) : NaN,
       ionoM: above && Number.isFinite(p.frequencyHz) ? ionosphereDelayM(this.ctx.iono, p.system, g, el, ae.azimuthRad, this.epoch.tagGpsS, p.frequencyHz) : 0,
-      varianceM2: above ? v(el, p.cn0DbHz) + v(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) : NaN,
+      varianceM2: above ? v(el, p.cn0DbHz) * p.varianceFactorRover + v(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) * p.varianceFactorRef : NaN,
     };
     this.looks.set(p.sat, l);
     return l;

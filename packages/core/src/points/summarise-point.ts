@@ -12,7 +12,7 @@
 import type { EcefM, EnuM, GeodeticRad } from '../gnss/types.js';
 import { ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { median, robustMean } from './robust-mean.js';
-import { batchMeansStandardError, effectiveSampleSize, standardDeviation } from './time-correlation.js';
+import { batchMeansStandardError, effectiveSampleSize, standardDeviation } from '../solve/index.js';
 
 export interface PointSample {
   readonly ecef: EcefM;

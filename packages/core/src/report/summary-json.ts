@@ -104,7 +104,7 @@ function optionsJson(o: SessionOptions): Record<string, unknown> {
     weighting: { a_m: o.weighting.aM, b_m: o.weighting.bM, use_strength: o.weighting.useStrength },
     smoothing: { enabled: o.smoothing.enabled, time_constant_s: o.smoothing.timeConstantS },
     quality: {
-      alpha_global: o.quality.alphaGlobal, alpha_local: o.quality.alphaLocal, min_satellites: o.quality.minSatellites,
+      alpha_global: o.quality.testLevels === 'b-method' ? 'from alpha_local per epoch (B-method, power 0.80)' : o.quality.alphaGlobal, alpha_local: o.quality.alphaLocal, test_levels: o.quality.testLevels, min_satellites: o.quality.minSatellites,
       max_pdop: o.quality.maxPdop, max_rejections: o.quality.maxRejections,
     },
     max_correction_age_s: o.maxCorrectionAgeS,
@@ -152,6 +152,13 @@ export function summaryJson(
     rejected_satellites: summary.satelliteRejections.map((r) => ({ reason: r.reason, count: r.count })),
     rejected_epochs: summary.epochRejections.map((r) => ({ reason: r.reason, count: r.count })),
     statistics: extras.scatter ? scatterJson(extras.scatter) : null,
+    passes: summary.passes,
+    code_offsets: summary.codeOffsets.map((r) => ({
+      key: r.key, offset_m: jsonNumber(r.offsetM, 3), sigma_m: jsonNumber(r.sigmaM, 3),
+      ...(r.relativeToChannelMeanM !== undefined ? { relative_to_channel_mean_m: jsonNumber(r.relativeToChannelMeanM, 3) } : {}),
+      scatter_m: jsonNumber(r.scatterM, 3), samples: r.samples, effective_samples: jsonNumber(r.nEff, 1),
+      significant: r.significant, stable: r.stable, applied: r.applied,
+    })),
     notes: [...summary.notes],
     warnings: warningsJson(extras.warnings ?? []),
     outputs: outputs.map((o) => ({ kind: o.kind, path: o.path, bytes: o.bytes ?? null, sha256: o.sha256 ?? null })),

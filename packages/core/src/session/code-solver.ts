@@ -26,8 +26,6 @@ export interface CodeSolverContext {
   readonly standalone: StandaloneContext | null;
   /** Rover speed (m/s) from Doppler, reusing the satellites already computed. */
   readonly speedAt: (e: ObsEpoch, arpM: EcefM, sd: SingleDifferenceEpoch) => number;
-  /** Called with every accepted fix (learning of running offsets). */
-  readonly onFix?: (sd: SingleDifferenceEpoch, fix: PositionFix) => void;
 }
 
 /** A standalone fix when allowed, else no solution, with the reason the differential one failed. */
@@ -81,7 +79,10 @@ function satelliteList(ctx: CodeSolverContext, e: ObsEpoch, sd: SingleDifference
 }
 
 /** One rover epoch solved from its single differences. */
-export function solveCodeEpoch(ctx: CodeSolverContext, e: ObsEpoch, smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, refArp: EcefM): EpochSolution {
+export function solveCodeEpoch(
+  ctx: CodeSolverContext, e: ObsEpoch, smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
+  smoothedFactors: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, refArp: EcefM,
+): EpochSolution {
   const d = ctx.differencing;
   const nearestS = d.corrections.nearestEpochS(e.tagGpsS);
   if (nearestS > d.maxAgeS + 1) {
@@ -96,7 +97,7 @@ export function solveCodeEpoch(ctx: CodeSolverContext, e: ObsEpoch, smoothed: Re
   ctx.tally.epochsInReach++;
   const rover = ctx.records.rover;
   const start = rover.lastPosition ?? ctx.roverHeader.approxPosition ?? refArp;
-  const sd = new SingleDifferenceEpoch(e, d, smoothed, start, rover.lastClockM);
+  const sd = new SingleDifferenceEpoch(e, d, smoothed, smoothedFactors, start, rover.lastClockM);
   const fix = fixSingleDifferences(sd, start, ctx.fixOptions);
   const satellites = satelliteList(ctx, e, sd, fix);
   if (sd.usable.length === 0) {
@@ -110,7 +111,6 @@ export function solveCodeEpoch(ctx: CodeSolverContext, e: ObsEpoch, smoothed: Re
     return standaloneOr(ctx, e, why, unused, sd.maxAgeS);
   }
   rover.lastPosition = fix.positionM;
-  ctx.onFix?.(sd, fix);
   rover.lastClockM = fix.clocksM.values().next().value ?? sd.codeClockM;
   for (const s of fix.clocksM.keys()) ctx.tally.systemsUsed.add(s);
   return differentialRecord(ctx.records, e, fix, ctx.kind, refArp, satellites, sd.maxAgeS, ctx.speedAt(e, fix.positionM, sd));

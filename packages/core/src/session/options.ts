@@ -5,13 +5,17 @@ import type { AntennaOffset } from '../gnss/obs-types.js';
 import type { FramedEcef, GnssSystem } from '../gnss/types.js';
 
 export type GlonassPolicy =
-  /** GLONASS with one relative clock when both receivers report the same known type (biases cancel); otherwise 'estimate'. */
+  /**
+   * GLONASS with one relative clock plus a code offset per frequency channel estimated over the whole
+   * session (session/code-offsets.ts), whatever the receiver types say; one clock alone when the session
+   * can be read only once.
+   */
   | 'auto'
   /** Never use GLONASS. */
   | 'exclude'
   /** Always use GLONASS with one relative clock, trusting the biases to cancel. */
   | 'include'
-  /** Use GLONASS and estimate a code offset per frequency channel from the data (differencing/glonass-channel-offsets.ts). */
+  /** The same as 'auto' (kept for older command lines). */
   | 'estimate';
 
 export interface WeightingOptions {
@@ -35,8 +39,14 @@ export interface SmoothingOptions {
 }
 
 export interface QualityOptions {
-  /** Significance level of the global chi-square test. */
+  /** Significance level of the global chi-square test when `testLevels` is 'separate'. */
   readonly alphaGlobal: number;
+  /**
+   * 'b-method' (default): the global test's level follows from alphaLocal for each epoch's redundancy, so
+   * both tests detect the same error with the same power (Baarda's B-method, solve/b-method.ts);
+   * 'separate': alphaGlobal as given.
+   */
+  readonly testLevels: 'b-method' | 'separate';
   /** Significance level of each w-test in data snooping. */
   readonly alphaLocal: number;
   /** Minimum satellites in a solution (4 + extra clocks). */
@@ -85,7 +95,7 @@ export const DEFAULT_OPTIONS: SessionOptions = {
   // the shared static run: median 0.84); geodetic receivers come out below 1 (pessimistic, safe for testing).
   weighting: { aM: 0.25, bM: 0.5, useStrength: true },
   smoothing: { enabled: false, timeConstantS: 100, maxGapS: 30 },
-  quality: { alphaGlobal: 0.001, alphaLocal: 0.001, minSatellites: 5, maxPdop: 8, maxRejections: 3 },
+  quality: { alphaGlobal: 0.001, alphaLocal: 0.001, testLevels: 'b-method', minSatellites: 5, maxPdop: 8, maxRejections: 3 },
   // 30 s CORS data: an epoch half-way between two is 15 s away; allow one missed reference epoch.
   maxCorrectionAgeS: 65,
   standaloneFallback: false,

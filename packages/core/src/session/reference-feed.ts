@@ -14,6 +14,8 @@ import { markToArp } from '../geodesy/index.js';
 /** A per-receiver filter the reference epochs pass through (carrier smoothing), if any. */
 export interface ReferenceFilter {
   update(epoch: SourcedEpoch['epoch']): ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined;
+  /** Variance factors of the last update's values (sat -> code -> factor). */
+  readonly factors?: ReadonlyMap<SatId, ReadonlyMap<string, number>>;
   reset(): void;
 }
 
@@ -74,7 +76,7 @@ export class ReferenceFeed {
       if (Number.isNaN(this.firstGpsS)) this.firstGpsS = e.tagGpsS;
       this.lastGpsS = e.tagGpsS;
       const smoothed = this.filter?.update(e);
-      this.corrections.addEpoch(e, this.arpM, smoothed);
+      this.corrections.addEpoch(e, this.arpM, smoothed, undefined, this.filter?.factors);
       // Bounded memory: nothing older than the age limit before the rover's time is kept.
       this.corrections.prune(untilGpsS - this.lookaheadS, this.maxAgeS + 2);
     }

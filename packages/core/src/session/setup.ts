@@ -22,9 +22,7 @@ export type GlonassUse =
   /** One relative clock, biases trusted to cancel. */
   | 'one-clock'
   /** One relative clock plus a code offset per frequency channel estimated from the whole session. */
-  | 'channel-offsets'
-  /** One relative clock plus a running per-channel offset learnt forwards. */
-  | 'running-offsets';
+  | 'channel-offsets';
 
 export interface SessionSetup {
   readonly store: EphemerisStore;
@@ -73,12 +71,15 @@ export function prepareSession(rover: ObsStream, references: readonly ObsStream[
     if (options.glonass === 'exclude') {
       systems = systems.filter((s) => s !== 'R');
       notes.push('GLONASS excluded by option');
-    } else if (options.glonass === 'estimate' || (options.glonass === 'auto' && !sameReceiver)) {
-      glonassUse = 'running-offsets';
-      notes.push(`GLONASS used with per-channel code offsets estimated from the data: the receivers are not known to match (rover '${rover.header.receiverType.trim() || 'unknown'}', reference '${refHeader.receiverType.trim() || 'unknown'}'), so inter-frequency code biases do not cancel`);
-    } else {
+    } else if (options.glonass === 'include') {
       glonassUse = 'one-clock';
-      notes.push(sameReceiver ? `GLONASS used: both receivers report type '${rover.header.receiverType.trim()}', so inter-frequency code biases cancel` : 'GLONASS used by option (inter-frequency biases are assumed to cancel)');
+      notes.push('GLONASS used by option with one relative clock (inter-frequency code biases are assumed to cancel)');
+    } else if (!wholeSession) {
+      glonassUse = 'one-clock';
+      notes.push('GLONASS used with one relative clock: the session was read once, so no per-channel code offsets could be estimated');
+    } else {
+      glonassUse = 'channel-offsets';
+      notes.push(`GLONASS used with a code offset per frequency channel estimated over the whole session (rover '${rover.header.receiverType.trim() || 'unknown'}', reference '${refHeader.receiverType.trim() || 'unknown'}'): between-receiver inter-frequency code biases differ per channel, even between receivers of one model`);
     }
   }
   for (const s of options.systems) if (!navSystems.has(s)) notes.push(`${SYSTEM_NAMES[s]} not used: no ephemeris in the navigation files`);
@@ -105,7 +106,7 @@ export function prepareSession(rover: ObsStream, references: readonly ObsStream[
     glonassChannels, weighting, maskRad: options.elevationMaskDeg * DEG,
     fixOptions: {
       maxIterations: 12, convergenceM: 1e-4,
-      alphaGlobal: options.quality.alphaGlobal, alphaLocal: options.quality.alphaLocal,
+      alphaGlobal: options.quality.alphaGlobal, alphaLocal: options.quality.alphaLocal, bMethod: options.quality.testLevels === 'b-method',
       minSatellites: options.quality.minSatellites, maxRejections: options.quality.maxRejections,
     },
     notes,

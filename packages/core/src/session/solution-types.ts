@@ -75,6 +75,26 @@ export interface RejectionCount {
   readonly count: number;
 }
 
+/** A between-receiver code offset estimated over the whole session (session/code-offsets.ts). */
+export interface CodeOffsetReport {
+  /** 'R channel +1' for a GLONASS frequency channel, else the satellite ('G05'). */
+  readonly key: string;
+  readonly offsetM: number;
+  /** Standard deviation of the estimate (m), time correlation included. */
+  readonly sigmaM: number;
+  /** Robust scatter of the samples (m). */
+  readonly scatterM: number;
+  readonly samples: number;
+  readonly nEff: number;
+  readonly significant: boolean;
+  /** The session's two halves agree. */
+  readonly stable: boolean;
+  /** Removed from the satellite's single differences (GLONASS channels always; others when significant and stable). */
+  readonly applied: boolean;
+  /** GLONASS: the offset less the mean over channels (the mean is part of the GLONASS relative clock). */
+  relativeToChannelMeanM?: number;
+}
+
 export interface SessionSummary {
   readonly frame: FrameEpoch;
   readonly referencePosition: FramedEcef;
@@ -88,4 +108,8 @@ export interface SessionSummary {
   readonly notes: readonly string[];
   readonly firstGpsS: number;
   readonly lastGpsS: number;
+  /** Session-constant code offsets (empty when the session was read once). */
+  readonly codeOffsets: readonly CodeOffsetReport[];
+  /** How many passes over the inputs the session made (1, or 2 for whole-session estimates). */
+  readonly passes: number;
 }

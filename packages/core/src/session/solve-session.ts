@@ -6,12 +6,12 @@
  * estimated GPS time) -> model (observables/) -> difference (differencing/: reference corrections and the
  * single-difference epoch) -> solve (an epoch solver: code.ts here) -> report (EpochSolution).
  */
-import type { EcefM, ObsEpoch, ObsStream, NavData } from '../gnss/index.js';
+import type { EcefM, ObsEpoch, ObsHeader, ObsStream, NavData } from '../gnss/index.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
 import { isoFromSeconds } from '../time/index.js';
-import { ReferenceCorrections, GlonassChannelOffsets, type DifferencingContext, type SingleDifferenceEpoch } from '../differencing/index.js';
+import { ReferenceCorrections, type CodeOffsetSource, type SingleDifferenceEpoch } from '../differencing/index.js';
 import { dopplerVelocity } from '../velocity/index.js';
-import { ReceiverSmoother } from '../smoothing/index.js';
+import { ReceiverSmoother, type SmoothingArcs } from '../smoothing/index.js';
 import type { SessionOptions } from './options.js';
 import type { EpochSolution, SessionSummary } from './solution-types.js';
 import { codeVarianceOf, prepareSession, systemLeftOutReason, type SessionSetup } from './setup.js';
@@ -20,13 +20,20 @@ import { RoverState } from './rover-state.js';
 import { SessionTally } from './session-tally.js';
 import { noSolution, type RecordContext } from './epoch-records.js';
 import { solveCodeEpoch, type CodeSolverContext } from './code-solver.js';
-import { learnChannelOffsets, runningOffsetSource } from './running-offsets.js';
+import { surveySession, type SurveyResult } from './survey-pass.js';
 
 export interface SessionInputs {
   readonly rover: ObsStream;
   readonly references: readonly ObsStream[];
   readonly nav: NavData;
   readonly onWarning?: WarningSink;
+  /**
+   * Opens the rover and reference files afresh. Given, the session reads them twice: a first pass learns
+   * what is constant over the session (code offsets) or needs an epoch's future (carrier smoothing
+   * forwards and backwards) before the second pass solves any epoch (survey-pass.ts). Without it, one
+   * forward pass. The streams it returns should not repeat the readers' warnings.
+   */
+  readonly reopen?: () => Promise<{ readonly rover: ObsStream; readonly references: readonly ObsStream[] }>;
 }
 
 export interface SessionRun {
@@ -44,39 +51,50 @@ function speedFor(setup: SessionSetup) {
   };
 }
 
-export async function solveSession(inputs: SessionInputs, options: SessionOptions): Promise<SessionRun> {
-  const warn: WarningSink = inputs.onWarning ?? (() => undefined);
-  const setup = prepareSession(inputs.rover, inputs.references, inputs.nav, options, warn, false);
-  const rover = inputs.rover;
-  const refHeader = inputs.references[0].header;
-  const channelOffsets = setup.glonassUse === 'running-offsets' ? new GlonassChannelOffsets() : null;
-  const corrections = new ReferenceCorrections({ store: setup.store, iono: inputs.nav.ionosphere, systems: setup.systems, glonassChannels: setup.glonassChannels });
-  const sm = options.smoothing;
-  const smoother = (intervalS: number | null) => (sm.enabled ? new ReceiverSmoother(intervalS ?? 1, sm.timeConstantS, setup.systems, setup.glonassChannels, sm.maxGapS) : null);
-  const roverSmoother = smoother(rover.header.intervalS);
-  const feed = new ReferenceFeed(inputs.references, corrections, setup.refMark, setup.refAntenna, options.reference.antenna !== undefined,
-    smoother(refHeader.intervalS), options.maxCorrectionAgeS, setup.notes, warn);
-  const state = new RoverState(rover.header.markerName, setup.roverAntenna, options.roverAntenna !== undefined);
-  const tally = new SessionTally();
+/** The code epoch solver's context for the second (or only) pass. */
+function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: SessionOptions, corrections: ReferenceCorrections, records: RecordContext, tally: SessionTally, offsets: CodeOffsetSource | null, roverHeader: ObsHeader): CodeSolverContext {
   const speed = speedFor(setup);
-  const records: RecordContext = { rover: state, reduceToMark: options.reduceToMark, frame: setup.frame, refMark: setup.refMark, speedAt: (e, at) => speed(e, at) };
-  const differencing: DifferencingContext = {
-    store: setup.store, systems: setup.systems, systemReason: (s) => systemLeftOutReason(s, options, setup.navSystems), corrections,
-    iono: inputs.nav.ionosphere, glonassChannels: setup.glonassChannels, maskRad: setup.maskRad, maxAgeS: options.maxCorrectionAgeS,
-    codeVarianceM2: codeVarianceOf(setup), offsets: channelOffsets ? runningOffsetSource(channelOffsets) : null,
-  };
-  const solver: CodeSolverContext = {
-    differencing, records, tally, fixOptions: setup.fixOptions, maxPdop: options.quality.maxPdop,
-    kind: sm.enabled ? 'smoothed' : 'differential', roverHeader: rover.header,
+  return {
+    differencing: {
+      store: setup.store, systems: setup.systems, systemReason: (s) => systemLeftOutReason(s, options, setup.navSystems), corrections,
+      iono: inputs.nav.ionosphere, glonassChannels: setup.glonassChannels, maskRad: setup.maskRad, maxAgeS: options.maxCorrectionAgeS,
+      codeVarianceM2: codeVarianceOf(setup), offsets,
+    },
+    records, tally, fixOptions: setup.fixOptions, maxPdop: options.quality.maxPdop,
+    kind: options.smoothing.enabled ? 'smoothed' : 'differential', roverHeader,
     standalone: options.standaloneFallback ? {
       store: setup.store, iono: inputs.nav.ionosphere, systems: options.systems.filter((s) => setup.navSystems.has(s)), elevationMaskRad: setup.maskRad,
       weighting: setup.weighting, frequencyMode: 'auto', glonassChannels: setup.glonassChannels,
     } : null,
     speedAt: speed,
-    ...(channelOffsets ? { onFix: (sd, fix) => learnChannelOffsets(channelOffsets, sd, fix, setup.fixOptions) } : {}),
   };
+}
+
+export async function solveSession(inputs: SessionInputs, options: SessionOptions): Promise<SessionRun> {
+  const warn: WarningSink = inputs.onWarning ?? (() => undefined);
+  const setup = prepareSession(inputs.rover, inputs.references, inputs.nav, options, warn, inputs.reopen !== undefined);
+  const state = new RoverState(inputs.rover.header.markerName, setup.roverAntenna, options.roverAntenna !== undefined);
+  const tally = new SessionTally();
+  const speed = speedFor(setup);
+  const records: RecordContext = { rover: state, reduceToMark: options.reduceToMark, frame: setup.frame, refMark: setup.refMark, speedAt: (e, at) => speed(e, at) };
+  const corrections = new ReferenceCorrections({ store: setup.store, iono: inputs.nav.ionosphere, systems: setup.systems, glonassChannels: setup.glonassChannels });
+  let survey: SurveyResult | null = null;
+  let feed: ReferenceFeed | null = null;
 
   async function* run(): AsyncIterable<EpochSolution> {
+    let rover = inputs.rover, references = inputs.references;
+    if (inputs.reopen) {
+      survey = await surveySession(setup, rover, references, inputs.nav, options);
+      ({ rover, references } = await inputs.reopen());
+    }
+    const sm = options.smoothing;
+    const smoother = (intervalS: number | null, arcs: SmoothingArcs | null) => (sm.enabled
+      ? new ReceiverSmoother(intervalS ?? 1, sm.timeConstantS, setup.systems, setup.glonassChannels, sm.maxGapS, arcs ? 'combined' : 'forward', arcs)
+      : null);
+    const roverSmoother = smoother(rover.header.intervalS, survey?.roverArcs ?? null);
+    const f = feed = new ReferenceFeed(references, corrections, setup.refMark, setup.refAntenna, options.reference.antenna !== undefined,
+      smoother(references[0].header.intervalS, survey?.referenceArcs ?? null), options.maxCorrectionAgeS, setup.notes, warn);
+    const solver = codeSolverFor(setup, inputs, options, corrections, records, tally, survey?.offsets ?? null, rover.header);
     for await (const e of rover.epochs) {
       if (e.event) {
         state.applyEvent(e);
@@ -85,12 +103,12 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       if (e.flag !== 0 && e.flag !== 1) continue;
       if (e.sats.length === 0 && e.event) continue;
       tally.epochSeen(e.tagGpsS);
-      await feed.pullUntil(e.tagGpsS + feed.lookaheadS);
+      await f.pullUntil(e.tagGpsS + f.lookaheadS);
       corrections.prune(e.tagGpsS, options.maxCorrectionAgeS + 2);
       const smoothed = roverSmoother?.update(e);
       let sol: EpochSolution;
       try {
-        sol = e.sats.length === 0 ? noSolution(records, e, 'no satellites in the epoch', []) : solveCodeEpoch(solver, e, smoothed, feed.arpM);
+        sol = e.sats.length === 0 ? noSolution(records, e, 'no satellites in the epoch', []) : solveCodeEpoch(solver, e, smoothed, roverSmoother?.factors, f.arpM);
       } catch (err) {
         const msg = err instanceof Error ? err.message : String(err);
         warn({ file: rover.file, line: e.line, code: 'epoch-failed', message: `epoch at line ${e.line} could not be solved: ${msg}` });
@@ -102,25 +120,33 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     }
     if (tally.roverEpochs > 0 && tally.epochsInReach === 0) {
       const span = (a: number, b: number) => (Number.isNaN(a) ? 'no epochs' : `${isoFromSeconds(a, ' GPST')} to ${isoFromSeconds(b, ' GPST')}`);
-      throw new ProcessingError(`the rover and reference observations do not overlap in time (rover ${span(tally.firstGpsS, tally.lastGpsS)}, reference ${span(feed.firstGpsS, feed.lastGpsS)}, correction age limit ${options.maxCorrectionAgeS} s)`);
+      throw new ProcessingError(`the rover and reference observations do not overlap in time (rover ${span(tally.firstGpsS, tally.lastGpsS)}, reference ${span(f.firstGpsS, f.lastGpsS)}, correction age limit ${options.maxCorrectionAgeS} s)`);
     }
   }
 
   return {
     epochs: run(),
-    summary: (): SessionSummary => ({
-      frame: setup.frame,
-      referencePosition: { ecef: setup.refMark, frame: setup.frame },
-      referencePositionSource: setup.refSource,
-      epochsRover: tally.roverEpochs,
-      epochsByKind: { ...tally.byKind },
-      epochsWithoutCorrections: tally.withoutCorrections,
-      satelliteRejections: tally.satRejections.list(),
-      epochRejections: tally.epochRejections.list(),
-      systemsUsed: [...tally.systemsUsed],
-      notes: [...setup.notes, ...(channelOffsets ? [`GLONASS per-channel code offsets at the end (channel: m): ${JSON.stringify(channelOffsets.snapshot())}`] : []), ...(corrections.unusableEpochs > 0 ? [`${corrections.unusableEpochs} reference epochs had no satellite with an ephemeris and were not used`] : [])],
-      firstGpsS: tally.firstGpsS, lastGpsS: tally.lastGpsS,
-    }),
+    summary: (): SessionSummary => {
+      const offsets = (survey as SurveyResult | null)?.offsets.reports ?? [];
+      const channelNote = offsets.some((r) => r.key.startsWith('R channel'))
+        ? [`GLONASS per-channel code offsets about their mean (channel: m): ${offsets.filter((r) => r.key.startsWith('R channel')).map((r) => `${r.key.slice(10)}: ${(r.relativeToChannelMeanM ?? 0).toFixed(2)} +- ${r.sigmaM.toFixed(2)}`).join(', ')}`]
+        : [];
+      const satNote = offsets.filter((r) => !r.key.startsWith('R channel') && r.applied).map((r) => `code offset of ${r.key} removed: ${r.offsetM.toFixed(2)} +- ${r.sigmaM.toFixed(2)} m (significant and stable over the session)`);
+      return {
+        frame: setup.frame,
+        referencePosition: { ecef: setup.refMark, frame: setup.frame },
+        referencePositionSource: setup.refSource,
+        epochsRover: tally.roverEpochs,
+        epochsByKind: { ...tally.byKind },
+        epochsWithoutCorrections: tally.withoutCorrections,
+        satelliteRejections: tally.satRejections.list(),
+        epochRejections: tally.epochRejections.list(),
+        systemsUsed: [...tally.systemsUsed],
+        notes: [...setup.notes, ...channelNote, ...satNote, ...(corrections.unusableEpochs > 0 ? [`${corrections.unusableEpochs} reference epochs had no satellite with an ephemeris and were not used`] : [])],
+        firstGpsS: tally.firstGpsS, lastGpsS: tally.lastGpsS,
+        codeOffsets: offsets,
+        passes: inputs.reopen ? 2 : 1,
+      };
+    },
   };
 }
-

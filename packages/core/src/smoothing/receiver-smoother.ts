@@ -1,14 +1,39 @@
 /**
- * Carrier smoothing of one receiver's primary-band pseudoranges (Hatch filter, smoothing/hatch.ts), one
- * filter per code type, with the receiver's millisecond clock steps repaired inside the filter.
+ * Carrier smoothing of one receiver's primary-band pseudoranges, one Hatch filter per code type (hatch.ts),
+ * with the receiver's millisecond clock steps repaired inside the filter. Three modes:
+ * - 'forward': the Hatch filter's own output (one pass);
+ * - 'record': the forward filters run (their restarts define the arcs) and every arc's code minus carrier
+ *   is summarised (two-sided-arcs.ts), output as in 'forward';
+ * - 'combined': the same forward filters run again (same restarts, same arcs) and the output is the
+ *   carrier plus the arc's two-sided code-minus-carrier average: forwards and backwards combined.
+ * Each output carries the variance factor of the smoothed code relative to one raw code.
  */
 import type { GnssSystem, ObsEpoch, SatId } from '../gnss/index.js';
 import { carrierWavelengthM, companionCodes, satSystem } from '../gnss/index.js';
 import { primaryCodes, pseudorangeOf } from '../observables/index.js';
 import { CarrierSmoother } from './hatch.js';
+import { CODE_ERROR_CORRELATION_S, SmoothingArc } from './two-sided-arcs.js';
+
+export type SmoothingMode = 'forward' | 'record' | 'combined';
+
+/** The arcs of one receiver, recorded in a first pass and played back in the second. */
+export class SmoothingArcs {
+  readonly byStart = new Map<string, SmoothingArc>();
+  constructor(readonly timeConstantS: number) {}
+  finish(): void {
+    for (const a of this.byStart.values()) a.finish();
+  }
+}
+
+interface SmootherInputRow { sat: SatId; codeM: number; phaseCycles: number; wavelengthM: number; lli: number }
 
 export class ReceiverSmoother {
   private readonly filters = new Map<string, CarrierSmoother>();
+  /** Receiver clock jumps repaired so far per code filter (m): removed from code minus carrier in the arcs. */
+  private readonly jumpsM = new Map<string, number>();
+  private readonly current = new Map<string, SmoothingArc | undefined>();
+  /** Variance factor of the last update's outputs: sat -> code -> factor. */
+  readonly factors = new Map<SatId, Map<string, number>>();
   restarts = 0;
 
   constructor(
@@ -17,11 +42,14 @@ export class ReceiverSmoother {
     private readonly systems: readonly GnssSystem[],
     private readonly glonassChannels: ReadonlyMap<number, number>,
     private readonly maxGapS: number,
-  ) {}
+    private readonly mode: SmoothingMode = 'forward',
+    private readonly arcs: SmoothingArcs | null = null,
+  ) {
+    if (mode !== 'forward' && !arcs) throw new RangeError(`ReceiverSmoother: mode '${mode}' needs the arcs`);
+  }
 
-  /** Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value). */
-  update(epoch: ObsEpoch): Map<SatId, Map<string, number>> {
-    const inputs = new Map<string, Array<{ sat: SatId; codeM: number; phaseCycles: number; wavelengthM: number; lli: number }>>();
+  private inputsOf(epoch: ObsEpoch): Map<string, SmootherInputRow[]> {
+    const inputs = new Map<string, SmootherInputRow[]>();
     for (const s of epoch.sats) {
       const system = satSystem(s.sat);
       if (!this.systems.includes(system)) continue;
@@ -37,19 +65,58 @@ export class ReceiverSmoother {
         list.push({ sat: s.sat, codeM: pseudorangeOf(s, code), phaseCycles: Number.isFinite(wl) ? phase : NaN, wavelengthM: wl, lli });
       }
     }
+    return inputs;
+  }
+
+  /** Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value). */
+  update(epoch: ObsEpoch): Map<SatId, Map<string, number>> {
     const out = new Map<SatId, Map<string, number>>();
-    for (const [code, list] of inputs) {
+    this.factors.clear();
+    const t = epoch.tagGpsS;
+    for (const [code, list] of this.inputsOf(epoch)) {
       let f = this.filters.get(code);
       if (!f) { f = new CarrierSmoother({ intervalS: this.intervalS, timeConstantS: this.timeConstantS, gapThresholdS: Math.max(this.maxGapS, 2 * this.intervalS + 1e-3) }); this.filters.set(code, f); }
-      for (const r of f.update(epoch.tagGpsS, list)) {
+      const results = f.update(t, list);
+      const jumpM = (this.jumpsM.get(code) ?? 0) + (f.clockJump?.jumpM ?? 0);
+      this.jumpsM.set(code, jumpM);
+      for (let i = 0; i < results.length; i++) {
+        const r = results[i], row = list[i];
         if (r.restarted && r.n <= 1) this.restarts++;
-        if (!Number.isFinite(r.smoothedM)) continue;
+        const value = this.arcValue(code, t, row, r.restarted, jumpM, r.smoothedM, r.n);
+        if (!Number.isFinite(value.m)) continue;
         let m = out.get(r.sat);
         if (!m) { m = new Map(); out.set(r.sat, m); }
-        m.set(code, r.smoothedM);
+        m.set(code, value.m);
+        let fm = this.factors.get(r.sat);
+        if (!fm) { fm = new Map(); this.factors.set(r.sat, fm); }
+        fm.set(code, value.factor);
       }
     }
     return out;
+  }
+
+  /** The smoothed value of one satellite and code in the current mode, and its variance factor. */
+  private arcValue(code: string, t: number, row: SmootherInputRow, restarted: boolean, jumpM: number, forwardM: number, n: number): { m: number; factor: number } {
+    const key = `${row.sat}|${code}`;
+    const phaseM = row.phaseCycles * row.wavelengthM;
+    if (this.mode !== 'forward') {
+      if (restarted) {
+        const id = `${key}|${t}`;
+        let arc = this.arcs!.byStart.get(id);
+        if (!arc && this.mode === 'record') { arc = new SmoothingArc(t, this.timeConstantS / 10, this.timeConstantS); this.arcs!.byStart.set(id, arc); }
+        this.current.set(key, arc);
+      }
+      const arc = this.current.get(key);
+      if (this.mode === 'record') arc?.add(t, row.codeM - phaseM - jumpM);
+      else {
+        const v = Number.isFinite(phaseM) ? arc?.at(t) : null;
+        if (v && Number.isFinite(v.cmcM)) return { m: phaseM + jumpM + v.cmcM, factor: v.varianceFactor };
+        return { m: row.codeM, factor: 1 };
+      }
+    }
+    // The forward filter: n is its effective length 1/w (hatch.ts).
+    const windowS = n * this.intervalS;
+    return { m: forwardM, factor: Math.min(1, Math.max(1 / Math.max(n, 1), CODE_ERROR_CORRELATION_S / windowS)) };
   }
 
   reset(): void {

@@ -6,3 +6,6 @@ export * from './tests.js';
 export { choleskyInPlace, choleskySolveInPlace, choleskyInverse, CHOLESKY_RELATIVE_PIVOT_TOLERANCE } from './dense-cholesky.js';
 export * from './position-fix.js';
 export type { SatelliteResidual } from './satellite-residual.js';
+export * from './time-correlation.js';
+export * from './constant-offsets.js';
+export * from './b-method.js';

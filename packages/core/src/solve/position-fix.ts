@@ -11,7 +11,7 @@
 import type { EcefM, EnuM, GnssSystem, SatId } from '../gnss/types.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import {
-  choleskyInPlace, choleskyInverse, dataSnooping, globalTest, solveWeightedLeastSquaresSmall,
+  bMethodGlobalAlpha, choleskyInPlace, choleskyInverse, dataSnooping, globalTest, solveWeightedLeastSquaresSmall,
   type Dop, type GlobalTestResult, type WlsSolution,
 } from './index.js';
 
@@ -36,8 +36,12 @@ export interface FixOptions {
   readonly maxIterations: number;
   /** Iteration stops when the position update is below this (m). */
   readonly convergenceM: number;
+  /** Level of the global test; ignored when `bMethod` is set. */
   readonly alphaGlobal: number;
+  /** Level of each w-test. */
   readonly alphaLocal: number;
+  /** Baarda's B-method: the global test's level follows from alphaLocal and each epoch's dof (b-method.ts). */
+  readonly bMethod?: boolean;
   /** Minimum satellites kept (never removes below this). */
   readonly minSatellites: number;
   readonly maxRejections: number;
@@ -220,7 +224,7 @@ export function solvePositionFix(build: RowBuilder, x0: EcefM, opts: FixOptions 
     }
     if (last === null) return { ok: false, reason: 'no iteration', rejected: rejectedNow() };
     const s = last.solution;
-    const test = globalTest(s.vtpv, s.dof, opts.alphaGlobal);
+    const test = globalTest(s.vtpv, s.dof, opts.bMethod ? bMethodGlobalAlpha(opts.alphaLocal, s.dof) : opts.alphaGlobal);
     const canRemove = !test.passed && s.dof >= 2 && last.rows.length - 1 >= opts.minSatellites && round < opts.maxRejections;
     if (canRemove) {
       const snoop = dataSnooping(s, last.variances, opts.alphaLocal);
