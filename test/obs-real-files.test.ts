@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { gunzipSync } from 'node:zlib';
 import { dataPath, describeShared, sharedPath } from './support/shared.js';
 import { collectEpochs, readObsStream } from '../packages/core/src/rinex/index.js';
-import type { ObsEpoch, ObsStream } from '../packages/core/src/rinex/index.js';
+import type { ObsEpoch, ObsStream } from '../packages/core/src/gnss/index.js';
 import type { Warning } from '../packages/core/src/errors.js';
 
 /** GPS seconds of a GPS-calendar date, from Date.UTC (independent of the project's time code). */

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { exampleScenarioSpec, simulateScenario, type ErrorSpec } from '../packages/core/src/sim/index.js';
-import type { ObsEpoch, NavData } from '../packages/core/src/rinex/index.js';
+import type { ObsEpoch, NavData } from '../packages/core/src/gnss/index.js';
 import { EphemerisStore, satelliteAtTransmission } from '../packages/core/src/orbit/index.js';
 import { ecefToGeodetic, azimuthElevation } from '../packages/core/src/geodesy/index.js';
 

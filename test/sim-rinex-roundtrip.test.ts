@@ -5,7 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { ALL_ERRORS_ON, exampleScenarioSpec, simulateScenario } from '../packages/core/src/sim/index.js';
-import { readObsStream, collectEpochs, writeObsRinex3, type ObsEpoch } from '../packages/core/src/rinex/index.js';
+import { readObsStream, collectEpochs, writeObsRinex3 } from '../packages/core/src/rinex/index.js';
+import type { ObsEpoch } from '../packages/core/src/gnss/index.js';
 import { readNav } from '../packages/core/src/rinex/nav-reader.js';
 import { writeNavRinex3 } from '../packages/core/src/rinex/nav-writer.js';
 import type { KeplerEphemeris } from '../packages/core/src/gnss/nav-types.js';

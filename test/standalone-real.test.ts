@@ -13,7 +13,8 @@
  */
 import { beforeAll, expect, it } from 'vitest';
 import { openText } from '../packages/core/src/compress/index.js';
-import { readObsStream, readNav, mergeNav, carrierFrequencyHz, type ObsEpoch, type ObsHeader, type NavData } from '../packages/core/src/rinex/index.js';
+import { readObsStream, readNav, mergeNav } from '../packages/core/src/rinex/index.js';
+import { carrierFrequencyHz, type ObsEpoch, type ObsHeader, type NavData } from '../packages/core/src/gnss/index.js';
 import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS } from '../packages/core/src/orbit/index.js';
 import { solveStandaloneEpoch, type StandaloneContext, type StandaloneMode } from '../packages/core/src/standalone/index.js';
 import { azimuthElevation, ecefToEnu, ecefToGeodetic } from '../packages/core/src/geodesy/index.js';

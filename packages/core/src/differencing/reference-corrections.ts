@@ -218,6 +218,16 @@ export class ReferenceCorrections {
     return { before, after };
   }
 
+  /** The reference receiver clock (m) at GPS time t, interpolated between the bracketing epochs (NaN without). */
+  clockAt(tGpsS: number, bracket: Bracket): number {
+    const { before, after } = bracket;
+    if (before && after && after.timeGpsS > before.timeGpsS) {
+      const w = (tGpsS - before.timeGpsS) / (after.timeGpsS - before.timeGpsS);
+      return before.clockM + w * (after.clockM - before.clockM);
+    }
+    return (before ?? after)?.clockM ?? NaN;
+  }
+
   /** Codes the reference has for a satellite near a time: from the bracketing epochs, else from the nearest epochs holding it. */
   codesNear(sat: SatId, tGpsS: number, maxAgeS: number, bracket?: Bracket): Set<string> {
     const out = new Set<string>();

@@ -106,6 +106,8 @@ export class SingleDifferenceEpoch {
   readonly timeGpsS: number;
   /** Largest age of the corrections used (s). */
   readonly maxAgeS: number;
+  /** The reference receiver's clock (m) at the epoch's time, from the bracketing reference epochs. */
+  readonly referenceClockM: number;
   private satellitesClockM: number;
   private lookAt: EcefM | null = null;
   private lookGeodetic: GeodeticRad | null = null;
@@ -133,6 +135,7 @@ export class SingleDifferenceEpoch {
     if (Number.isFinite(this.codeClockM) && Math.abs(this.codeClockM - this.satellitesClockM) > 30) this.recomputeSatellites(this.codeClockM);
     let maxAge = 0;
     const bracket = ctx.corrections.bracketAt(this.timeGpsS, ctx.maxAgeS);
+    this.referenceClockM = ctx.corrections.clockAt(this.timeGpsS, bracket);
     for (const p of this.prepared) {
       const c = ctx.corrections.correctionAt(p.sat, p.code, p.eph, this.timeGpsS, ctx.maxAgeS, bracket);
       if (!c.ok) { this.reasons.set(p.sat, { signal: p.code, reason: c.reason }); continue; }

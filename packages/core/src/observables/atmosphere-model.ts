@@ -22,7 +22,8 @@ export function ionosphereDelayM(
   if (system === 'C' && iono.beidou) {
     return scaleIonosphereDelayM(beidouKlobucharDelayM(iono.beidou, rx.latRad, rx.lonRad, elevationRad, azimuthRad, gpsS), frequencyHz, 1561.098e6);
   }
-  const k = iono.gps ?? iono.qzss ?? iono.beidou;
+  // BeiDou's coefficients belong to BeiDou's own variant of the model (BDS ICD B1I 5.2.4.7): never fed to the GPS one.
+  const k = iono.gps ?? iono.qzss;
   if (!k) return 0;
   return scaleIonosphereDelayM(klobucharDelayM(k, rx.latRad, rx.lonRad, elevationRad, azimuthRad, gpsS), frequencyHz);
 }

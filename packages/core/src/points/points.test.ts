@@ -2,14 +2,12 @@ import { describe, expect, it } from 'vitest';
 import { InputError } from '../errors.js';
 import { degToRad, ecefToGeodetic, enuToEcefDelta, geodeticToEcef } from '../geodesy/index.js';
 import { gpsSFromWeekTow } from '../time/index.js';
+import { batchMeansStandardError, effectiveSampleSize, standardDeviation } from '../solve/index.js';
 import {
-  batchMeansStandardError,
-  effectiveSampleSize,
   parseOccupationCsv,
   reduceToMark,
   robustMean,
   splitOccupations,
-  standardDeviation,
   summarisePoint,
   verticalHeightToArpM,
   type EpochMark,

@@ -115,7 +115,7 @@ describe('run summary', () => {
       frame: FRAME, referencePosition: { ecef: P, frame: FRAME }, referencePositionSource: '--ref-xyz',
       epochsRover: 10, epochsByKind: { differential: 7, smoothed: 0, standalone: 1, none: 2 }, epochsWithoutCorrections: 3,
       satelliteRejections: [{ reason: 'below elevation mask', count: 4 }], epochRejections: [{ reason: 'no reference epoch within 65 s', count: 2 }],
-      systemsUsed: ['G'], notes: [], firstGpsS: T, lastGpsS: T + 9,
+      systemsUsed: ['G'], notes: [], firstGpsS: T, lastGpsS: T + 9, codeOffsets: [], passes: 1,
     };
     // SHA-256 of the empty string (FIPS 180-4 test vector).
     const emptySha = 'e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855';

@@ -113,5 +113,5 @@ export function solveCodeEpoch(
   rover.lastPosition = fix.positionM;
   rover.lastClockM = fix.clocksM.values().next().value ?? sd.codeClockM;
   for (const s of fix.clocksM.keys()) ctx.tally.systemsUsed.add(s);
-  return differentialRecord(ctx.records, e, fix, ctx.kind, refArp, satellites, sd.maxAgeS, ctx.speedAt(e, fix.positionM, sd));
+  return differentialRecord(ctx.records, e, fix, ctx.kind, refArp, satellites, sd.maxAgeS, ctx.speedAt(e, fix.positionM, sd), sd.referenceClockM);
 }

@@ -45,9 +45,10 @@ function qualityOf(fix: PositionFix): EpochSolution['quality'] {
   return { varianceFactor: fix.varianceFactor, chiSquare: fix.test.statistic, dof: fix.test.dof, critical: fix.test.critical, passed: fix.test.dof > 0 ? fix.test.passed : null };
 }
 
-function clocksOf(fix: PositionFix): Partial<Record<GnssSystem, number>> {
+/** Per constellation, the solved clock less `minusM` (the reference's clock: rover minus reference). */
+function clocksOf(fix: PositionFix, minusM: number): Partial<Record<GnssSystem, number>> {
   const clocks: Partial<Record<GnssSystem, number>> = {};
-  for (const [s, c] of fix.clocksM) clocks[s] = c;
+  for (const [s, c] of fix.clocksM) clocks[s] = c - minusM;
   return clocks;
 }
 
@@ -60,7 +61,8 @@ export function standaloneRecord(ctx: RecordContext, e: ObsEpoch, fix: PositionF
     kind: 'standalone', reason, pointName: ctx.rover.pointName,
     position: { ecef: pos, frame: broadcastFrame(e.tagGpsS) }, geodetic: ecefToGeodetic(pos),
     pointReference: ctx.reduceToMark ? 'ground-mark' : 'antenna-reference-point',
-    baselineEcef: null, baselineEnu: null, relativeClockM: clocksOf(fix), satellitesUsed: fix.used.length,
+    // No reference: there is no relative clock to report.
+    baselineEcef: null, baselineEnu: null, relativeClockM: {}, satellitesUsed: fix.used.length,
     dops: fix.dops, sigmaEnuM: fix.sigmaEnuM, quality: qualityOf(fix),
     correctionAgeS: ageS, satellites,
     speedMS: ctx.speedAt(e, arp), occupationEvent: ctx.rover.pendingEvent, antennaHeightM: ctx.rover.antenna.heightM,
@@ -70,6 +72,7 @@ export function standaloneRecord(ctx: RecordContext, e: ObsEpoch, fix: PositionF
 /** A differential fix, with the baseline between like points (mark to mark, or ARP to ARP). */
 export function differentialRecord(
   ctx: RecordContext, e: ObsEpoch, fix: PositionFix, kind: SolutionKind, refArp: EcefM, satellites: readonly SatelliteResidual[], ageS: number, speedMS: number,
+  referenceClockM: number,
 ): EpochSolution {
   const arp = fix.positionM;
   const pos = ctx.reduceToMark ? arpToMark(arp, ctx.rover.antenna) : arp;
@@ -85,7 +88,7 @@ export function differentialRecord(
     position: { ecef: pos, frame: ctx.frame }, geodetic: ecefToGeodetic(pos),
     pointReference: ctx.reduceToMark ? 'ground-mark' : 'antenna-reference-point',
     baselineEcef, baselineEnu: ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad),
-    relativeClockM: clocksOf(fix), satellitesUsed: fix.used.length,
+    relativeClockM: clocksOf(fix, Number.isFinite(referenceClockM) ? referenceClockM : 0), satellitesUsed: fix.used.length,
     dops: fix.dops, sigmaEnuM: fix.sigmaEnuM, quality: qualityOf(fix),
     correctionAgeS: ageS, satellites, speedMS,
     occupationEvent: ctx.rover.pendingEvent, antennaHeightM: ctx.rover.antenna.heightM,

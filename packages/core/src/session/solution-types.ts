@@ -52,7 +52,7 @@ export interface EpochSolution {
   /** Rover minus reference (m), ECEF and ENU at the reference. Null for standalone/none. */
   readonly baselineEcef: EcefM | null;
   readonly baselineEnu: EnuM | null;
-  /** Relative receiver clock (rover minus reference, m) per constellation used. */
+  /** Relative receiver clock (rover minus reference, m) per constellation used; empty for standalone and none. */
   readonly relativeClockM: Readonly<Partial<Record<GnssSystem, number>>>;
   readonly satellitesUsed: number;
   readonly dops: Dops | null;

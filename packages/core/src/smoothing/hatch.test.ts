@@ -66,15 +66,31 @@ describe('Hatch carrier smoother', () => {
     expect(ratio).toBeLessThan(0.1);
   });
 
-  it('restarts on loss of lock (LLI bit 0) but not on the half-cycle bit alone', () => {
+  it('restarts on loss of lock (LLI bit 0) and on a change of the half-cycle bit, not on a steady one', () => {
     const s = new CarrierSmoother({ intervalS: 1, timeConstantS: 100 });
-    expect(s.update(0, [obs('G01', 0), obs('G02', 0)]).map((x) => x.reason)).toEqual(['start', 'start']);
-    for (let t = 1; t < 20; t++) s.update(t, [obs('G01', t), obs('G02', t)]);
-    // RINEX 3.05 LLI: bit 0 lost lock, bit 1 half-cycle ambiguity possible
-    const out = s.update(20, [obs('G01', 20, { lli: 1, phaseOffsetM: 3 * LAMBDA_L1 }), obs('G02', 20, { lli: 2 })]);
+    expect(s.update(0, [obs('G01', 0), obs('G02', 0), obs('G03', 0, { lli: 2 })]).map((x) => x.reason)).toEqual(['start', 'start', 'start']);
+    for (let t = 1; t < 20; t++) s.update(t, [obs('G01', t), obs('G02', t), obs('G03', t, { lli: 2 })]);
+    // RINEX 3.05 5.3 LLI: bit 0 lost lock, bit 1 half-cycle ambiguity possible
+    const out = s.update(20, [obs('G01', 20, { lli: 1, phaseOffsetM: 3 * LAMBDA_L1 }), obs('G02', 20, { lli: 2 }), obs('G03', 20, { lli: 2 })]);
     expect(out[0]).toMatchObject({ restarted: true, n: 1 });
     expect(out[0].reason).toMatch(/loss of lock/);
-    expect(out[1]).toMatchObject({ restarted: false, n: 21 });
+    expect(out[1]).toMatchObject({ restarted: true, n: 1 });
+    expect(out[1].reason).toMatch(/half-cycle/);
+    expect(out[2]).toMatchObject({ restarted: false, n: 21 });
+  });
+
+  it('a slip of a few cycles that the code cannot see is found by the Doppler; a change common to all satellites is not a slip', () => {
+    // Doppler of the modelled range rate (150 m/s), RINEX sign: a positive Doppler shortens the range.
+    const withDoppler = (x: SmootherInput): SmootherInput => ({ ...x, dopplerHz: -150 / LAMBDA_L1 });
+    const sats = ['G01', 'G02', 'G03', 'G04'];
+    const s = new CarrierSmoother({ intervalS: 1, timeConstantS: 100 });
+    for (let t = 0; t < 10; t++) s.update(t, sats.map((p) => withDoppler(obs(p, t))));
+    const out = s.update(10, sats.map((p) => withDoppler(obs(p, 10, { phaseOffsetM: p === 'G02' ? 5 * LAMBDA_L1 : 0 }))));
+    expect(out.map((x) => x.restarted)).toEqual([false, true, false, false]);
+    expect(out[1].reason).toMatch(/Doppler/);
+    // The same 5 more cycles on every satellite (G02 keeps its slip): a receiver clock term, common, not a slip.
+    const common = s.update(11, sats.map((p) => withDoppler(obs(p, 11, { phaseOffsetM: (p === 'G02' ? 10 : 5) * LAMBDA_L1 }))));
+    expect(common.map((x) => x.restarted)).toEqual([false, false, false, false]);
   });
 
   it('restarts after a gap and on a large code-minus-carrier jump', () => {

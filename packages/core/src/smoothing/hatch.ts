@@ -6,10 +6,11 @@
  * The code-minus-carrier ionosphere divergence biases the smoothed code by about -2 tau dI/dt (Navipedia).
  *
  * One smoother per signal (a satellite's L1 and L2 are smoothed by separate instances).
- * Restarts (n = 1, smoothed = raw code): first epoch; no carrier; loss of lock (LLI bit 0, RINEX 3.05
- * 5.3); a gap longer than `gapThresholdS`; a code-minus-carrier innovation beyond `codeCarrierJumpM`.
- * The half-cycle bit (LLI bit 1) alone is not a slip: a half-cycle ambiguity does not break continuity of
- * the carrier change used here beyond half a wavelength (~10 cm), far below the code noise.
+ * Restarts (n = 1, smoothed = raw code): first epoch; no carrier (blank phase); loss of lock (LLI bit 0,
+ * RINEX 3.05 5.3); a change of the half-cycle flag (LLI bit 1: the receiver changed its half-cycle
+ * resolution, the carrier may have moved by half a cycle); a gap longer than `gapThresholdS`; a carrier
+ * change that the Doppler does not explain (time-differenced phase against the mean Doppler of the
+ * interval); a code-minus-carrier innovation beyond `codeCarrierJumpM`.
  * A millisecond receiver clock jump common to all satellites is repaired (detectMillisecondClockJump).
  */
 import type { SatId } from '../gnss/types.js';
@@ -44,6 +45,8 @@ export interface SmootherInput {
   readonly wavelengthM: number;
   /** Loss-of-lock indicator (RINEX), 0 when blank. */
   readonly lli: number;
+  /** Doppler (Hz) of the same signal, NaN or absent when none. */
+  readonly dopplerHz?: number;
 }
 
 export interface SmootherOutput {
@@ -61,9 +64,42 @@ interface SatState {
   codeM: number;
   phaseM: number;
   timeS: number;
+  lli: number;
+  dopplerHz: number;
 }
 
 const LLI_LOST_LOCK_BIT = 1; // RINEX 2.11 5.1 / RINEX 3.05 5.3: bit 0 = lost lock, bit 1 = half cycle
+const LLI_HALF_CYCLE_BIT = 2;
+
+/**
+ * Cycle slips by time-differenced carrier against Doppler. Per continuing satellite the misfit
+ *   m_i = dPhi_i + (D_i,prev + D_i) / 2 * dt   (cycles; RINEX: a positive Doppler shortens the range),
+ * less the misfit common to all satellites of the epoch (their median: a receiver clock step or a clock
+ * term that the receiver puts in the carrier and not in the Doppler is common to every satellite, a slip
+ * is not). A satellite is flagged when its misfit leaves the common one by more than one cycle plus 0.5 Hz
+ * of Doppler error over the interval (about five times the Doppler noise of low-cost receivers, from
+ * memory; the mean of two Dopplers follows the line-of-sight acceleration to well under a cycle over 30 s).
+ * Receivers that write the Doppler with the other sign are recognised per epoch (the sign whose misfits
+ * scatter less). Needs three satellites with Doppler; otherwise nothing is flagged.
+ */
+export function dopplerSlipFlags(dPhaseCycles: Float64Array, dopplerPrevHz: Float64Array, dopplerHz: Float64Array, dtS: Float64Array): Uint8Array {
+  const n = dPhaseCycles.length;
+  const flags = new Uint8Array(n);
+  const idx: number[] = [];
+  for (let i = 0; i < n; i++) if (Number.isFinite(dPhaseCycles[i]) && Number.isFinite(dopplerPrevHz[i]) && Number.isFinite(dopplerHz[i]) && dtS[i] > 0) idx.push(i);
+  if (idx.length < 3) return flags;
+  const misfits = (sign: number) => idx.map((i) => dPhaseCycles[i] + sign * 0.5 * (dopplerPrevHz[i] + dopplerHz[i]) * dtS[i]);
+  const median = (v: number[]) => { const w = [...v].sort((x, y) => x - y); const h = w.length >> 1; return w.length % 2 ? w[h] : 0.5 * (w[h - 1] + w[h]); };
+  const spread = (v: number[]) => { const m = median(v); return { m, mad: median(v.map((x) => Math.abs(x - m))) }; };
+  const plus = misfits(1), minus = misfits(-1);
+  const a = spread(plus), b = spread(minus);
+  const [use, common] = a.mad <= b.mad ? [plus, a.m] : [minus, b.m];
+  for (let k = 0; k < idx.length; k++) {
+    const i = idx[k];
+    if (Math.abs(use[k] - common) > 1 + 0.5 * dtS[i]) flags[i] = 1;
+  }
+  return flags;
+}
 
 export class CarrierSmoother {
   readonly maxN: number;
@@ -110,6 +146,17 @@ export class CarrierSmoother {
       continuing[i] = ok;
       if (ok) cmcChange[i] = o.codeM - o.phaseCycles * o.wavelengthM - (st!.codeM - st!.phaseM);
     }
+    const dPhase = new Float64Array(sats.length).fill(NaN), dPrev = new Float64Array(sats.length).fill(NaN);
+    const dNow = new Float64Array(sats.length).fill(NaN), dts = new Float64Array(sats.length).fill(NaN);
+    for (let i = 0; i < sats.length; i++) {
+      if (!continuing[i]) continue;
+      const o = sats[i], st = this.states.get(o.sat)!;
+      dPhase[i] = o.phaseCycles - st.phaseM / o.wavelengthM;
+      dPrev[i] = st.dopplerHz;
+      dNow[i] = o.dopplerHz ?? NaN;
+      dts[i] = epochTimeS - st.timeS;
+    }
+    const slipFlags = dopplerSlipFlags(dPhase, dPrev, dNow, dts);
     // 2. a common millisecond jump: shift the history of every continuing satellite
     const jump = detectMillisecondClockJump(cmcChange, { toleranceM: this.clockJumpToleranceM });
     this.lastClockJump = jump;
@@ -129,8 +176,10 @@ export class CarrierSmoother {
       else if (!Number.isFinite(phaseM)) reason = 'no carrier phase';
       else if (!Number.isFinite(st.phaseM)) reason = 'carrier phase resumed';
       else if ((o.lli & LLI_LOST_LOCK_BIT) !== 0) reason = 'loss of lock (LLI bit 0)';
+      else if ((o.lli & LLI_HALF_CYCLE_BIT) !== (st.lli & LLI_HALF_CYCLE_BIT)) reason = 'half-cycle flag changed (LLI bit 1)';
       else if (!(epochTimeS - st.timeS > 0)) reason = `epoch time not after the previous one (${epochTimeS} <= ${st.timeS})`;
       else if (epochTimeS - st.timeS > this.gapThresholdS) reason = `data gap of ${(epochTimeS - st.timeS).toFixed(3)} s`;
+      else if (slipFlags[i]) reason = 'carrier change not explained by the Doppler (cycle slip)';
       let note: string | undefined;
       if (reason === undefined && st) {
         let history = st.smoothedM;
@@ -152,13 +201,14 @@ export class CarrierSmoother {
           const w = Math.min(1, Math.max(1 / n, (epochTimeS - st.timeS) / this.timeConstantS));
           const smoothedM = w * o.codeM + (1 - w) * predicted;
           st.n = n; st.smoothedM = smoothedM; st.codeM = o.codeM; st.phaseM = phaseM; st.timeS = epochTimeS;
+          st.lli = o.lli; st.dopplerHz = o.dopplerHz ?? NaN;
           // Reported filter length: the effective number of epochs averaged, 1 / w.
           const length = Math.round(1 / w);
           out[i] = note ? { sat: o.sat, smoothedM, n: length, restarted: false, reason: note } : { sat: o.sat, smoothedM, n: length, restarted: false };
           continue;
         }
       }
-      this.states.set(o.sat, { n: 1, smoothedM: o.codeM, codeM: o.codeM, phaseM, timeS: epochTimeS });
+      this.states.set(o.sat, { n: 1, smoothedM: o.codeM, codeM: o.codeM, phaseM, timeS: epochTimeS, lli: o.lli, dopplerHz: o.dopplerHz ?? NaN });
       out[i] = { sat: o.sat, smoothedM: o.codeM, n: 1, restarted: true, reason };
     }
     // 4. bounded memory: satellites silent for long restart anyway; kept a while so the restart can say "gap"

@@ -25,7 +25,7 @@ export class SmoothingArcs {
   }
 }
 
-interface SmootherInputRow { sat: SatId; codeM: number; phaseCycles: number; wavelengthM: number; lli: number }
+interface SmootherInputRow { sat: SatId; codeM: number; phaseCycles: number; wavelengthM: number; lli: number; dopplerHz: number }
 
 export class ReceiverSmoother {
   private readonly filters = new Map<string, CarrierSmoother>();
@@ -60,9 +60,10 @@ export class ReceiverSmoother {
         const phase = pi >= 0 ? s.values[pi] : NaN;
         const lli = pi >= 0 ? s.lli[pi] : 0;
         const wl = comp.phase ? carrierWavelengthM(system, comp.phase, k) : NaN;
+        const di = comp.doppler ? s.codes.indexOf(comp.doppler) : -1;
         let list = inputs.get(code);
         if (!list) { list = []; inputs.set(code, list); }
-        list.push({ sat: s.sat, codeM: pseudorangeOf(s, code), phaseCycles: Number.isFinite(wl) ? phase : NaN, wavelengthM: wl, lli });
+        list.push({ sat: s.sat, codeM: pseudorangeOf(s, code), phaseCycles: Number.isFinite(wl) ? phase : NaN, wavelengthM: wl, lli, dopplerHz: di >= 0 ? s.values[di] : NaN });
       }
     }
     return inputs;
