@@ -26,7 +26,8 @@ export async function* joinReferenceStreams(streams: readonly ObsStream[]): Asyn
     const h = heads[best] as IteratorYieldResult<ObsEpoch>;
     const e = h.value;
     heads[best] = await its[best].it.next();
-    const isObservation = e.flag <= 1 || e.flag === 6;
+    // Flag-6 records (cycle slips) share the tag of their epoch: they are kept, not taken for a duplicate.
+    const isObservation = e.flag <= 1;
     if (isObservation && Math.abs(e.tagGpsS - lastTag) < 1e-3) continue;
     if (isObservation) lastTag = e.tagGpsS;
     yield { epoch: e, header: its[best].s.header, file: its[best].s.file };

@@ -14,6 +14,8 @@ import { markToArp } from '../geodesy/index.js';
 /** A per-receiver filter the reference epochs pass through (carrier smoothing), if any. */
 export interface ReferenceFilter {
   update(epoch: SourcedEpoch['epoch']): ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined;
+  /** Satellites of a flag-6 epoch (cycle-slip records) restart. */
+  slipsReported?(epoch: SourcedEpoch['epoch']): void;
   /** Variance factors of the last update's values (sat -> code -> factor). */
   readonly factors?: ReadonlyMap<SatId, ReadonlyMap<string, number>>;
   reset(): void;
@@ -72,6 +74,7 @@ export class ReferenceFeed {
         if (e.flag === 1) this.filter?.reset();
         if (e.sats.length === 0) continue;
       }
+      if (e.flag === 6) this.filter?.slipsReported?.(e);
       if (e.flag > 1) continue;
       if (Number.isNaN(this.firstGpsS)) this.firstGpsS = e.tagGpsS;
       this.lastGpsS = e.tagGpsS;

@@ -100,6 +100,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
         state.applyEvent(e);
         if (e.flag === 1) roverSmoother?.reset();
       }
+      if (e.flag === 6) roverSmoother?.slipsReported(e);
       if (e.flag !== 0 && e.flag !== 1) continue;
       if (e.sats.length === 0 && e.event) continue;
       tally.epochSeen(e.tagGpsS);

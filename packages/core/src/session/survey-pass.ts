@@ -51,6 +51,7 @@ export async function surveySession(setup: SessionSetup, rover: ObsStream, refer
   // so the filters restart at the same epochs and the arcs match.
   for await (const e of rover.epochs) {
     if (e.event && e.flag === 1) roverRecorder?.reset();
+    if (e.flag === 6) roverRecorder?.slipsReported(e);
     if (e.flag !== 0 && e.flag !== 1) continue;
     if (e.sats.length === 0 && e.event) continue;
     await feed.pullUntil(e.tagGpsS + feed.lookaheadS);

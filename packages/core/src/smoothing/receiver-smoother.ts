@@ -123,4 +123,9 @@ export class ReceiverSmoother {
   reset(): void {
     for (const f of this.filters.values()) f.reset();
   }
+
+  /** An epoch of flag 6 (RINEX 3.05 5.3.3: cycle-slip records): its satellites restart their filters. */
+  slipsReported(epoch: ObsEpoch): void {
+    for (const s of epoch.sats) for (const f of this.filters.values()) f.reset(s.sat);
+  }
 }
