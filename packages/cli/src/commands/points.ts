@@ -148,6 +148,7 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     const frame = c.frame ?? { name: 'WGS84 (broadcast orbits)', epochYear: NaN };
     const outcome = summariseOccupations(c.epochs, occupations, {
       pointReference: c.pointReference, frame, horizontalToleranceM: cfg.toleranceHM, verticalToleranceM: cfg.toleranceVM,
+      referenceSigma: st.referenceSigma,
       // core AntennaGeometry: the slant point's height above the ARP is minus --slant-offset.
       ...(cfg.slant ? { antenna: { radiusM: cfg.slant.radiusM, slantPointAboveArpM: -cfg.slant.arpAboveSlantPointM } } : {}),
     });

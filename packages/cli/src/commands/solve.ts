@@ -11,6 +11,8 @@ import {
 import { AtomicFile, OutputSet, openNav, openObs, requireFile, sha256File, type OpenedObs } from '../node-io.js';
 import { obsTimeSpan, requireNavigation, requireOverlap, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
+import { referenceSigmaOf } from '../reference-sigma.js';
+import type { ReferenceSigma } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
 import {
   OUTPUT_FILE_NAMES, parseAntennaHeights, parseOutputs, parseSessionOptions, withHeight,
@@ -25,6 +27,8 @@ import { warningsSummary } from '../warnings-summary.js';
 
 export interface SolveArgs extends ReferenceArgs, SolveOptionArgs {
   readonly rover: string;
+  /** --ref-sigma H[,V] (reference-sigma.ts). */
+  readonly refSigma?: unknown;
   readonly reference: readonly string[];
   readonly nav: readonly string[];
   readonly out: string;
@@ -142,12 +146,15 @@ export interface StagedSolve {
   readonly failure: string | null;
   /** summary.json's document for the given list of outputs. */
   readonly summaryDoc: (outputs: readonly OutputFileRecord[]) => Record<string, unknown>;
+  /** The reference coordinate's own uncertainty (reference-sigma.ts). */
+  readonly referenceSigma: ReferenceSigma;
 }
 
 /** Steps 1-4 of a solve run: checks, reference coordinate, the run, the per-epoch outputs staged in an OutputSet. */
 export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = {}): Promise<StagedSolve> {
   // 1. The command line, before any file is touched.
   const choice = parseReferenceChoice(a);
+  const referenceSigma = referenceSigmaOf(choice.mode === 'header', a.refSigma);
   const base = parseSessionOptions(a);
   const heights = parseAntennaHeights(a);
   const kinds = parseOutputs(a.outputs);
@@ -260,9 +267,9 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
       const doc = summaryJson(summary, inputs, options, outs, {
         scatter, software: SOFTWARE, createdUtc: new Date().toISOString(), warnings: rep.warnings, referenceNote: ref.note, referenceSource: ref.source,
       });
-      return { ...doc, warnings: warningsSummary(rep) };
+      return { ...doc, reference: { ...(doc.reference as object), sigma_horizontal_m: referenceSigma.horizontalM, sigma_vertical_m: referenceSigma.verticalM, sigma_source: referenceSigma.source }, warnings: warningsSummary(rep) };
     };
-    return { outDir, set, kinds, summary, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc };
+    return { outDir, set, kinds, summary, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma };
   } catch (e) {
     await set.abort();
     throw e;

@@ -12,6 +12,7 @@
 import type { EcefM, EnuM, GeodeticRad } from '../gnss/types.js';
 import { ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { median, robustMean } from './robust-mean.js';
+import { circularErrorRadiusM } from '../accuracy/index.js';
 import { batchMeansStandardError, effectiveSampleSize, standardDeviation } from '../solve/index.js';
 
 export interface PointSample {
@@ -36,6 +37,14 @@ export interface SummariseOptions {
    * can reveal. Default 300 s.
    */
   readonly correlationTimeS?: number;
+  /** Standard uncertainty of the reference coordinate itself (m, per horizontal axis and vertical): it moves every point alike. */
+  readonly referenceSigma?: ReferenceSigma;
+}
+
+/** How well the reference coordinate itself is known (1 sigma, m). */
+export interface ReferenceSigma {
+  readonly horizontalM: number;
+  readonly verticalM: number;
 }
 
 export type ToleranceFlag = 'ok' | 'too-few-epochs' | 'scatter-exceeds-tolerance';
@@ -64,6 +73,16 @@ export interface PointSummary {
   /** NaN when no sample carries a PDOP. */
   readonly meanPdop: number;
   readonly toleranceFlag: ToleranceFlag;
+  /** The reference coordinate's own uncertainty (1 sigma per horizontal axis, and vertical), 0 when not given. */
+  readonly sigmaReferenceHorizontalM: number;
+  readonly sigmaReferenceUpM: number;
+  /** Radius holding the true point with 95 % probability, from the relative precision alone (sigma_mean E/N). */
+  readonly radius95RelativeM: number;
+  /** The same with the reference coordinate's uncertainty added: where the point is in the frame. */
+  readonly radius95M: number;
+  /** 95 % vertical half-interval, relative and with the reference's uncertainty (1.96 sigma). */
+  readonly up95RelativeM: number;
+  readonly up95M: number;
 }
 
 export function summarisePoint(samples: readonly PointSample[], opts: SummariseOptions = {}): PointSummary {
@@ -105,6 +124,9 @@ export function summarisePoint(samples: readonly PointSample[], opts: SummariseO
   const nCorrelation = Math.max(1, (Number.isFinite(durationS) ? durationS : 0) / (opts.correlationTimeS ?? 300));
   const minEpochs = opts.minEpochs ?? 10;
   const tol = opts.horizontalToleranceM ?? 1.0;
+  const sigmaE = Math.max(sdE / Math.sqrt(fe.nEff), formal.e / Math.sqrt(nCorrelation));
+  const sigmaN = Math.max(sdN / Math.sqrt(fn.nEff), formal.n / Math.sqrt(nCorrelation));
+  const sigmaU = Math.max(sdU / Math.sqrt(fu.nEff), formal.u / Math.sqrt(nCorrelation));
   const toleranceFlag: ToleranceFlag = n < minEpochs ? 'too-few-epochs' : Math.hypot(sdE, sdN) > tol ? 'scatter-exceeds-tolerance' : 'ok';
   return {
     epochs: n,
@@ -121,13 +143,32 @@ export function summarisePoint(samples: readonly PointSample[], opts: SummariseO
     // sigma of the mean: the larger of the scatter's sd / sqrt(n_eff) (time-correlation.ts) and the epochs'
     // formal sigma over the number of correlation times the occupation lasted: a constant multipath or
     // reference error makes the scatter small but is still in the epochs' own error budget.
-    sigmaMeanEastM: Math.max(sdE / Math.sqrt(fe.nEff), formal.e / Math.sqrt(nCorrelation)),
-    sigmaMeanNorthM: Math.max(sdN / Math.sqrt(fn.nEff), formal.n / Math.sqrt(nCorrelation)),
-    sigmaMeanUpM: Math.max(sdU / Math.sqrt(fu.nEff), formal.u / Math.sqrt(nCorrelation)),
+    sigmaMeanEastM: sigmaE,
+    sigmaMeanNorthM: sigmaN,
+    sigmaMeanUpM: sigmaU,
     batchSigmaMeanEastM: batchMeansStandardError(e),
     batchSigmaMeanNorthM: batchMeansStandardError(nn),
     batchSigmaMeanUpM: batchMeansStandardError(u),
     meanPdop,
     toleranceFlag,
+    ...precision95(sigmaE, sigmaN, sigmaU, opts.referenceSigma),
+  };
+}
+
+/**
+ * 95 % horizontal radius of an error with independent east/north sigmas (accuracy/circular-error.ts: the
+ * exact integral, 2.4477 sigma for a circular error) and 95 % vertical half-interval (1.9600 sigma), from
+ * the point's relative precision and with the reference coordinate's uncertainty added in quadrature.
+ */
+function precision95(sigmaE: number, sigmaN: number, sigmaU: number, ref?: ReferenceSigma) {
+  const rh = ref?.horizontalM ?? 0, rv = ref?.verticalM ?? 0;
+  const ok = Number.isFinite(sigmaE) && Number.isFinite(sigmaN);
+  return {
+    sigmaReferenceHorizontalM: rh,
+    sigmaReferenceUpM: rv,
+    radius95RelativeM: ok ? circularErrorRadiusM(0.95, sigmaE, sigmaN) : NaN,
+    radius95M: ok ? circularErrorRadiusM(0.95, Math.hypot(sigmaE, rh), Math.hypot(sigmaN, rh)) : NaN,
+    up95RelativeM: 1.96 * sigmaU,
+    up95M: 1.96 * Math.hypot(sigmaU, rv),
   };
 }

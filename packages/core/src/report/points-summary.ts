@@ -23,7 +23,7 @@ import type { PointReference, SolutionKind } from '../session/solution-types.js'
 import { ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import {
   reduceToMark, summarisePoint, verticalHeightToArpM,
-  type AntennaGeometry, type HeightKind, type Occupation, type PointSummary,
+  type AntennaGeometry, type HeightKind, type Occupation, type PointSummary, type ReferenceSigma,
 } from '../points/index.js';
 
 /** What the points stage keeps of one epoch solution. */
@@ -54,6 +54,8 @@ export interface PointsOptions {
   readonly minEpochs?: number;
   /** Needed for slant heights. */
   readonly antenna?: AntennaGeometry;
+  /** The reference coordinate's own uncertainty, added to each point's stated precision. */
+  readonly referenceSigma?: ReferenceSigma;
 }
 
 export interface PointResult {
@@ -118,7 +120,7 @@ export function summariseOccupations(epochs: readonly PointEpoch[], occupations:
       }
       return { ecef, tGpsS: e.tagGpsS, pdop: e.pdop, ...(e.sigmaEnuM ? { sigmaEnuM: e.sigmaEnuM } : {}), ...(e.varianceFactor !== undefined ? { varianceFactor: e.varianceFactor } : {}) };
     });
-    const summary = summarisePoint(samples, { minEpochs, horizontalToleranceM: tolH });
+    const summary = summarisePoint(samples, { minEpochs, horizontalToleranceM: tolH, ...(opts.referenceSigma ? { referenceSigma: opts.referenceSigma } : {}) });
     const kinds: Partial<Record<SolutionKind, number>> = {};
     for (const e of chosen) kinds[e.kind] = (kinds[e.kind] ?? 0) + 1;
     points.push({

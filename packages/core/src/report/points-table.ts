@@ -38,6 +38,7 @@ export function pointsColumns(o: Pick<PointsTableOptions, 'projection' | 'geoid'
     'ecef_x_m', 'ecef_y_m', 'ecef_z_m', 'frame', 'frame_epoch', 'point_reference',
     'sd_east_m', 'sd_north_m', 'sd_up_m', 'n_eff', 'sigma_mean_east_m', 'sigma_mean_north_m', 'sigma_mean_up_m',
     'mean_pdop', 'antenna_height_m', 'solution_kinds', 'tolerance',
+    'radius95_relative_m', 'up95_relative_m', 'sigma_reference_horizontal_m', 'sigma_reference_up_m', 'radius95_m', 'up95_m',
   ];
 }
 
@@ -80,6 +81,7 @@ export function pointRow(p: PointResult, o: Pick<PointsTableOptions, 'projection
     fixed(s.sdEastM, 4), fixed(s.sdNorthM, 4), fixed(s.sdUpM, 4), fixed(s.nEff, 1),
     fixed(s.sigmaMeanEastM, 4), fixed(s.sigmaMeanNorthM, 4), fixed(s.sigmaMeanUpM, 4),
     fixed(s.meanPdop, 2), fixed(p.antennaHeightM, 4), kindsText(p), p.tolerance,
+    fixed(s.radius95RelativeM, 4), fixed(s.up95RelativeM, 4), fixed(s.sigmaReferenceHorizontalM, 4), fixed(s.sigmaReferenceUpM, 4), fixed(s.radius95M, 4), fixed(s.up95M, 4),
   ];
 }
 
@@ -92,6 +94,7 @@ export function pointsPreamble(o: PointsTableOptions): string[] {
     `# heights: height_m is ellipsoidal${o.geoid ? `; orthometric_height_m = height_m - N above ${o.geoid.heightReference} (${o.geoid.name})` : ''}`,
     ...(o.geoid && /egm96/i.test(o.geoid.name + o.geoid.heightReference) ? [`# ${EGM96_NOT_A_DATUM_NOTE}`] : []),
     '# position: Huber robust mean (k = 1.5, MAD scale) of the occupation\'s differential/smoothed epochs (standalone only when it has none); point_reference says which point it is',
+    '# radius95_relative_m / up95_relative_m: 95 % horizontal radius / vertical half-interval of the point relative to the reference (from sigma_mean_*); sigma_reference_*: the reference coordinate\'s own uncertainty (1 sigma); radius95_m / up95_m: both together (where the point is in the frame)',
     '# sd_*: per-epoch scatter (1 sigma) in east/north/up; sigma_mean_* = sd / sqrt(n_eff) per component, where n_eff = n / tau and tau is the integrated autocorrelation time',
     '#   (initial positive sequence estimator), so time-correlated epochs are not counted as independent; n_eff column: the smallest of the three components;',
     '#   sigma_mean_* is never below the epochs\' median formal sigma (scaled by the median variance factor) / sqrt(duration / 300 s): errors that stay constant for minutes (multipath, reference) do not show in the scatter',
