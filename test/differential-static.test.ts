@@ -6,17 +6,17 @@
  */
 import { beforeAll, expect, it } from 'vitest';
 import { ecefToEnu } from '../packages/core/src/geodesy/index.js';
-import { solveSession, withDefaults, type EpochSolution, type SessionOptions } from '../packages/core/src/session/index.js';
+import { solveSession, withDefaults, type EpochSolution, type SessionOptions, type SessionSummary } from '../packages/core/src/session/index.js';
 import type { NavData } from '../packages/core/src/gnss/nav-types.js';
 import { describeShared } from './support/shared.js';
 import { corsNav, errorStats, fmt, openObs, roverTruth } from './support/static-run.js';
 
-async function solve(rover: string, references: string[], nav: NavData, opts: Partial<SessionOptions>): Promise<{ solutions: EpochSolution[]; notes: readonly string[] }> {
+async function solve(rover: string, references: string[], nav: NavData, opts: Partial<SessionOptions>): Promise<{ solutions: EpochSolution[]; notes: readonly string[]; codeOffsets: SessionSummary['codeOffsets'] }> {
   const reopen = async () => ({ rover: await openObs(rover), references: await Promise.all(references.map(openObs)) });
   const run = await solveSession({ rover: await openObs(rover), references: await Promise.all(references.map(openObs)), nav, reopen }, withDefaults(opts));
   const solutions: EpochSolution[] = [];
   for await (const s of run.epochs) solutions.push(s);
-  return { solutions, notes: run.summary().notes };
+  return { solutions, notes: run.summary().notes, codeOffsets: run.summary().codeOffsets };
 }
 
 const BASE = 'static-run/base.obs';
@@ -30,23 +30,30 @@ describeShared('differential engine on the real static run (cors-and-rover-2018-
   const truthAt = (s: EpochSolution) => truth.get(Math.round(s.timeGpsS));
   beforeAll(async () => { nav = await corsNav(); truth = roverTruth(); });
 
-  it('rover against base, code only: median <= 1.2 m, 95 % <= 2.5 m, vertical 95 % <= 4.0 m, >= 95 % solved', async () => {
-    const { solutions } = await solve(ROVER, [BASE], nav, {});
+  it('rover against base, default options (code): median <= 0.9 m, 95 % <= 2.0 m, vertical 95 % <= 4.0 m, >= 95 % solved; not worse than GPS alone', async () => {
+    const { solutions, codeOffsets } = await solve(ROVER, [BASE], nav, {});
     const st = errorStats(solutions, truthAt);
+    const gps = errorStats((await solve(ROVER, [BASE], nav, { systems: ['G'] })).solutions, truthAt);
     console.log(`rover vs base, code: ${fmt(st)}`);
+    console.log(`rover vs base, code, GPS alone: ${fmt(gps)}`);
     expect(st.compared).toBeGreaterThan(1000);
     expect(st.solved / st.epochs).toBeGreaterThanOrEqual(0.95);
-    expect(st.h50).toBeLessThanOrEqual(1.2);
-    expect(st.h95).toBeLessThanOrEqual(2.5);
+    expect(st.h50).toBeLessThanOrEqual(0.9);
+    expect(st.h95).toBeLessThanOrEqual(2.0);
     expect(st.v95).toBeLessThanOrEqual(4.0);
+    expect(st.h50).toBeLessThanOrEqual(1.05 * gps.h50);
+    // GLONASS channel offsets, learnt over the whole session, reported with their precision.
+    const channels = codeOffsets.filter((c) => c.key.startsWith('R channel'));
+    expect(channels.length).toBeGreaterThanOrEqual(6);
+    expect(channels.every((c) => c.applied && c.sigmaM > 0 && c.sigmaM < 1.5)).toBe(true);
   });
 
-  it('rover against base, carrier-smoothed: horizontal 95 % <= 2.0 m', async () => {
+  it('rover against base, carrier-smoothed forwards and backwards (100 s, the default time constant): horizontal 95 % <= 1.0 m', async () => {
     const { solutions } = await solve(ROVER, [BASE], nav, smooth);
     const st = errorStats(solutions, truthAt);
     console.log(`rover vs base, smoothed: ${fmt(st)}`);
     expect(solutions.every((s) => s.kind === 'smoothed' || s.kind === 'none')).toBe(true);
-    expect(st.h95).toBeLessThanOrEqual(2.0);
+    expect(st.h95).toBeLessThanOrEqual(1.0);
   });
 
   it('rover against the CORS (196 m), mean offset removed: 95 % <= 2.0 m code, <= 1.3 m smoothed; closure within 0.5 m', async () => {

@@ -39,6 +39,7 @@ export function defineProcessingOptions<T>(c: Argv<T>): Argv<T> {
     .option('sigma-a', { type: 'string', describe: 'weighting constant a (m) in sigma^2 = a^2 + b^2/sin^2(el), default 0.25', group: 'Processing:' })
     .option('sigma-b', { type: 'string', describe: 'weighting constant b (m), default 0.5', group: 'Processing:' })
     .option('smooth', { type: 'string', default: '0', describe: 'carrier smoothing time constant (s); 0 = off', group: 'Processing:' })
+    .option('smooth-reference', { type: 'string', describe: "carrier-smooth the reference's code (forwards and backwards over the session) also when the rover's is not: on | off (default on)", group: 'Processing:' })
     .option('systems', { type: 'string', default: 'G,R,E,C,J', describe: 'systems to use (letters)', group: 'Processing:' })
     .option('glonass', { type: 'string', default: 'auto', describe: 'auto | exclude | include | estimate', group: 'Processing:' })
     .option('max-age', { type: 'string', describe: 'largest correction age (s), default 65', group: 'Processing:' })
@@ -52,7 +53,7 @@ export function solveArgsFrom(a: Record<string, unknown>): SolveArgs {
     outputs: a.outputs, refXyz: a.refXyz, refLlh: a.refLlh, refFromHeader: a.refFromHeader, refMark: a.refMark, marks: a.marks,
     refFrame: a.refFrame, refEpoch: a.refEpoch, refSigma: a.refSigma, roverAntennaHeight: a.roverAntennaHeight, refAntennaHeight: a.refAntennaHeight,
     heightKind: a.heightKind, antennaRadius: a.antennaRadius, slantOffset: a.slantOffset, atAntenna: a.atAntenna, elevationMask: a.elevationMask,
-    weights: a.weights, sigmaA: a.sigmaA, sigmaB: a.sigmaB, smooth: a.smooth, systems: a.systems, glonass: a.glonass,
+    weights: a.weights, sigmaA: a.sigmaA, sigmaB: a.sigmaB, smooth: a.smooth, smoothReference: a.smoothReference, systems: a.systems, glonass: a.glonass,
     maxAge: a.maxAge, fallbackStandalone: a.fallbackStandalone, quiet: a.quiet === true, jsonLines: a.jsonLines === true,
   };
 }

@@ -25,6 +25,7 @@ export interface SolveOptionArgs {
   readonly sigmaA?: unknown;
   readonly sigmaB?: unknown;
   readonly smooth?: unknown;
+  readonly smoothReference?: unknown;
   readonly systems?: unknown;
   readonly glonass?: unknown;
   readonly maxAge?: unknown;
@@ -112,7 +113,7 @@ export function parseSessionOptions(a: SolveOptionArgs): Omit<SessionOptions, 'r
       bM: a.sigmaB === undefined ? d.weighting.bM : parseNumber('sigma-b', a.sigmaB, 0, 100),
       useStrength: weights === 'elevation+strength',
     },
-    smoothing: { ...d.smoothing, enabled: smoothS > 0, timeConstantS: smoothS > 0 ? smoothS : d.smoothing.timeConstantS },
+    smoothing: { ...d.smoothing, enabled: smoothS > 0, timeConstantS: smoothS > 0 ? smoothS : d.smoothing.timeConstantS, reference: onOff('smooth-reference', a.smoothReference, d.smoothing.reference) },
     quality: d.quality,
     maxCorrectionAgeS: a.maxAge === undefined ? d.maxCorrectionAgeS : parseNumber('max-age', a.maxAge, 0, 86400),
     standaloneFallback: a.fallbackStandalone === true,
@@ -122,4 +123,13 @@ export function parseSessionOptions(a: SolveOptionArgs): Omit<SessionOptions, 'r
 
 export function parseOutputs(v: unknown): OutputKind[] {
   return v === undefined ? [...OUTPUT_KINDS] : parseChoiceList('outputs', v, OUTPUT_KINDS);
+}
+
+/** An on|off option; the default when not given. */
+function onOff(name: string, v: unknown, dflt: boolean): boolean {
+  if (v === undefined || v === null) return dflt;
+  const t = String(v).trim().toLowerCase();
+  if (t === 'on' || t === 'true') return true;
+  if (t === 'off' || t === 'false') return false;
+  throw new UsageError(`--${name}: expected on or off, got '${String(v)}'`);
 }

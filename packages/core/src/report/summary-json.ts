@@ -102,7 +102,7 @@ function optionsJson(o: SessionOptions): Record<string, unknown> {
     systems: [...o.systems],
     glonass: o.glonass,
     weighting: { a_m: o.weighting.aM, b_m: o.weighting.bM, use_strength: o.weighting.useStrength },
-    smoothing: { enabled: o.smoothing.enabled, time_constant_s: o.smoothing.timeConstantS },
+    smoothing: { enabled: o.smoothing.enabled, time_constant_s: o.smoothing.timeConstantS, reference: o.smoothing.reference },
     quality: {
       alpha_global: o.quality.testLevels === 'b-method' ? 'from alpha_local per epoch (B-method, power 0.80)' : o.quality.alphaGlobal, alpha_local: o.quality.alphaLocal, test_levels: o.quality.testLevels, min_satellites: o.quality.minSatellites,
       max_pdop: o.quality.maxPdop, max_rejections: o.quality.maxRejections,

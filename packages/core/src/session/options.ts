@@ -36,6 +36,13 @@ export interface SmoothingOptions {
    * still restart the filter.
    */
   readonly maxGapS: number;
+  /**
+   * Smooth the reference receiver's code even when the rover's is not (forwards and backwards over the whole
+   * session, so only when the session is read twice): the corrections of a static reference are carrier-
+   * smoothed as is usual for code-differential corrections (e.g. RTCM 10402.3 reference stations; Navipedia
+   * "DGNSS Fundamentals"), while each rover epoch stays a code solution of its own.
+   */
+  readonly reference: boolean;
 }
 
 export interface QualityOptions {
@@ -94,7 +101,7 @@ export const DEFAULT_OPTIONS: SessionOptions = {
   // a = 0.25 m, b = 0.5 m put the a-posteriori variance factor of low-cost L1 receivers near 1 (measured on
   // the shared static run: median 0.84); geodetic receivers come out below 1 (pessimistic, safe for testing).
   weighting: { aM: 0.25, bM: 0.5, useStrength: true },
-  smoothing: { enabled: false, timeConstantS: 100, maxGapS: 30 },
+  smoothing: { enabled: false, timeConstantS: 100, maxGapS: 30, reference: true },
   quality: { alphaGlobal: 0.001, alphaLocal: 0.001, testLevels: 'b-method', minSatellites: 5, maxPdop: 8, maxRejections: 3 },
   // 30 s CORS data: an epoch half-way between two is 15 s away; allow one missed reference epoch.
   maxCorrectionAgeS: 65,

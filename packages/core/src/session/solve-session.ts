@@ -88,7 +88,8 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
       ({ rover, references } = await inputs.reopen());
     }
     const sm = options.smoothing;
-    const smoother = (intervalS: number | null, arcs: SmoothingArcs | null) => (sm.enabled
+    // Without a first pass the reference has no arcs: it is smoothed only with the rover, forwards.
+    const smoother = (intervalS: number | null, arcs: SmoothingArcs | null) => (sm.enabled || arcs
       ? new ReceiverSmoother(intervalS ?? 1, sm.timeConstantS, setup.systems, setup.glonassChannels, sm.maxGapS, arcs ? 'combined' : 'forward', arcs)
       : null);
     const roverSmoother = smoother(rover.header.intervalS, survey?.roverArcs ?? null);

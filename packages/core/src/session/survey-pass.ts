@@ -28,7 +28,7 @@ function clockSystemOf(setup: SessionSetup) {
 export async function surveySession(setup: SessionSetup, rover: ObsStream, references: readonly ObsStream[], nav: NavData, options: SessionOptions): Promise<SurveyResult> {
   const sm = options.smoothing;
   const roverArcs = sm.enabled ? new SmoothingArcs(sm.timeConstantS) : null;
-  const referenceArcs = sm.enabled ? new SmoothingArcs(sm.timeConstantS) : null;
+  const referenceArcs = sm.enabled || sm.reference ? new SmoothingArcs(sm.timeConstantS) : null;
   const recorder = (intervalS: number | null, arcs: SmoothingArcs | null) =>
     (arcs ? new ReceiverSmoother(intervalS ?? 1, sm.timeConstantS, setup.systems, setup.glonassChannels, sm.maxGapS, 'record', arcs) : null);
   const corrections = new ReferenceCorrections({ store: setup.store, iono: nav.ionosphere, systems: setup.systems, glonassChannels: setup.glonassChannels });
