@@ -1,6 +1,6 @@
 /** Constants of the atmosphere models, each with its source. */
 
-import { SPEED_OF_LIGHT_MS } from '../gnss/constants.js';
+import { SPEED_OF_LIGHT_MS } from '../gnss/index.js';
 export { SPEED_OF_LIGHT_MS };
 /** pi as fixed for the GPS user algorithms (IS-GPS-200, 20.3.3.4.3; check-values.md constants). */
 export const GPS_PI = 3.1415926535898;

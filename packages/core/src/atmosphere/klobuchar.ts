@@ -9,7 +9,7 @@
  * latitude of the pierce point, |phi_M| in the polynomials, period clamped to [72000, 172800] s, BDT.
  * Result is the B1I slant delay.
  */
-import type { KlobucharCoefficients } from '../gnss/nav-types.js';
+import type { KlobucharCoefficients } from '../gnss/index.js';
 import { gpsToBdtS } from '../time/index.js';
 import { FREQ_L1_HZ, GPS_PI, SPEED_OF_LIGHT_MS } from './constants.js';
 

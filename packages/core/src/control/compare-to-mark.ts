@@ -8,7 +8,7 @@
  * A mark whose own accuracy is not at least three times better than the tolerance gets a warning
  * (NSSDA, FGDC-STD-007.3-1998 section 3.2.1: check points at least three times more accurate).
  */
-import type { FramedEcef } from '../gnss/types.js';
+import type { FramedEcef } from '../gnss/index.js';
 import type { WarningSink } from '../errors.js';
 import { ecefDeltaToEnu, ecefToGeodetic } from '../geodesy/index.js';
 import { bringToFrameOf, type FrameRuleOptions } from '../frames/index.js';

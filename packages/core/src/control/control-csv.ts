@@ -17,7 +17,7 @@
  * Lines starting with '#' and empty lines are skipped. A bad row is an InputError naming the file, line,
  * column and what was expected.
  */
-import type { FramedEcef } from '../gnss/types.js';
+import type { FramedEcef } from '../gnss/index.js';
 import { InputError, type WarningSink } from '../errors.js';
 import { degToRad, geodeticToEcef, GRS80, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { normaliseFrameName } from '../frames/index.js';

@@ -6,7 +6,7 @@
  * Distances are horizontal (ENU at the mark), computed on the coordinates as given: frame differences
  * (up to ~1 m) are far below the radius; the frame rule is applied by compareToMark.
  */
-import type { FramedEcef } from '../gnss/types.js';
+import type { FramedEcef } from '../gnss/index.js';
 import { ecefToEnu } from '../geodesy/index.js';
 import type { ControlMark } from './control-csv.js';
 

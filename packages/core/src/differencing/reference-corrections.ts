@@ -16,18 +16,11 @@
  * is used on both sides: corrections are computed per issue on demand and cached, so a change of issue is
  * never interpolated across.
  */
-import type { EcefM, GeodeticRad, GnssSystem, SatId } from '../gnss/types.js';
-import { satSystem } from '../gnss/types.js';
-import type { ObsEpoch } from '../gnss/obs-types.js';
-import type { Ephemeris, IonosphereCoefficients } from '../gnss/nav-types.js';
-import { carrierFrequencyHz } from '../gnss/obs-codes.js';
+import type { EcefM, Ephemeris, GeodeticRad, GnssSystem, IonosphereCoefficients, ObsEpoch, SatId } from '../gnss/index.js';
+import { carrierFrequencyHz, satSystem } from '../gnss/index.js';
 import { EphemerisStore, issueKey, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
-import { satelliteForTag } from '../observables/satellite-for-tag.js';
-import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
-import { clockSignal } from '../observables/signals.js';
-import { signalStrengthDbHz } from '../observables/signal-strength.js';
-import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../observables/atmosphere-model.js';
-import { primaryCodes, pseudorangeOf } from '../observables/code-selection.js';
+import { ecefToGeodetic } from '../geodesy/index.js';
+import { clockSignal, codeMisclosureM, dayOfYear, lookFrom, primaryCodes, pseudorangeOf, satelliteForTag, signalStrengthDbHz } from '../observables/index.js';
 
 export interface ReferenceSatellite {
   /** Pseudorange (m) per code type of the primary band (smoothed when smoothing is on). */
@@ -168,14 +161,11 @@ export class ReferenceCorrections {
   /** P - rho + c dt_sv - T - I at the reference (m), receiver clock not removed; null if not computable. */
   private model(eph: Ephemeris, sat: SatId, system: GnssSystem, code: string, pseudorangeM: number, tagGpsS: number, clockM: number, arpM: EcefM, geodetic: GeodeticRad, doy: number): { residualM: number; elevationRad: number } | null {
     const at = satelliteForTag(eph, tagGpsS, pseudorangeM, clockM, arpM, clockSignal(system, code[1]));
-    const ae = azimuthElevation(arpM, at.posM, geodetic.latRad, geodetic.lonRad);
-    if (ae.elevationRad < 0) return null;
     const k = system === 'R' ? this.ctx.glonassChannels.get(Number(sat.slice(1))) : undefined;
-    const f = carrierFrequencyHz(system, code, k);
-    const iono = Number.isFinite(f) ? ionosphereDelayM(this.ctx.iono, system, geodetic, ae.elevationRad, ae.azimuthRad, tagGpsS, f) : 0;
-    const tropo = troposphereDelayM(geodetic, ae.elevationRad, doy);
-    const residualM = pseudorangeM - (at.rangeM ?? NaN) + SPEED_OF_LIGHT_MS * at.clock.offsetS - tropo - iono;
-    return Number.isFinite(residualM) ? { residualM, elevationRad: ae.elevationRad } : null;
+    const look = lookFrom(arpM, geodetic, at.posM, system, carrierFrequencyHz(system, code, k), this.ctx.iono, tagGpsS, doy, 0);
+    if (look.elevationRad < 0) return null;
+    const residualM = codeMisclosureM(pseudorangeM, at.rangeM ?? NaN, SPEED_OF_LIGHT_MS * at.clock.offsetS, look);
+    return Number.isFinite(residualM) ? { residualM, elevationRad: look.elevationRad } : null;
   }
 
   private correctionOf(e: ReferenceEpoch, sat: SatId, code: string, eph: Ephemeris): CorrectionValue | null {

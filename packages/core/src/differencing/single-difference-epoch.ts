@@ -13,9 +13,9 @@
 import type { EcefM, GeodeticRad, GnssSystem, SatId } from '../gnss/index.js';
 import { carrierFrequencyHz, satSystem, type Ephemeris, type IonosphereCoefficients, type ObsEpoch } from '../gnss/index.js';
 import { SPEED_OF_LIGHT_MS, type EphemerisStore, type SatelliteAtTransmission } from '../orbit/index.js';
-import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
+import { ecefToGeodetic } from '../geodesy/index.js';
 import {
-  clockSignal, dayOfYear, ionosphereDelayM, matchCode, primaryCodes, pseudorangeOf, satelliteForTag, signalStrengthDbHz, troposphereDelayM,
+  clockSignal, codeMisclosureM, dayOfYear, lookFrom, matchCode, primaryCodes, pseudorangeOf, satelliteForTag, signalStrengthDbHz, type ReceiverLook,
 } from '../observables/index.js';
 import type { Bracket, ReferenceCorrections } from './reference-corrections.js';
 
@@ -80,7 +80,7 @@ export interface DifferenceRow {
   readonly varianceM2: number;
 }
 
-interface Look { el: number; az: number; tropoM: number; ionoM: number; varianceM2: number }
+interface Look { look: ReceiverLook; el: number; az: number; varianceM2: number }
 
 function median(v: number[]): number {
   if (v.length === 0) return NaN;
@@ -198,16 +198,12 @@ export class SingleDifferenceEpoch {
   private lookOf(p: SingleDifference): Look {
     let l = this.looks.get(p.sat);
     if (l) return l;
-    const x = this.lookAt!, g = this.lookGeodetic!;
-    const ae = azimuthElevation(x, p.satPos, g.latRad, g.lonRad);
-    const el = ae.elevationRad;
-    const above = el >= this.ctx.maskRad;
+    const look = lookFrom(this.lookAt!, this.lookGeodetic!, p.satPos, p.system, p.frequencyHz, this.ctx.iono, this.epoch.tagGpsS, this.doy, this.ctx.maskRad);
+    const el = look.elevationRad;
     const v = this.ctx.codeVarianceM2;
     l = {
-      el, az: ae.azimuthRad,
-      tropoM: above ? troposphereDelayM(g, el, this.doy) : NaN,
-      ionoM: above && Number.isFinite(p.frequencyHz) ? ionosphereDelayM(this.ctx.iono, p.system, g, el, ae.azimuthRad, this.epoch.tagGpsS, p.frequencyHz) : 0,
-      varianceM2: above ? v(el, p.cn0DbHz) * p.varianceFactorRover + v(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) * p.varianceFactorRef : NaN,
+      look, el, az: look.azimuthRad,
+      varianceM2: el >= this.ctx.maskRad ? v(el, p.cn0DbHz) * p.varianceFactorRover + v(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) * p.varianceFactorRef : NaN,
     };
     this.looks.set(p.sat, l);
     return l;
@@ -242,7 +238,7 @@ export class SingleDifferenceEpoch {
       }
       rows.push({
         sat: p.sat, system: p.system, losX: dx / range, losY: dy / range, losZ: dz / range,
-        misclosureM: p.codeM - range + p.satClockM - look.tropoM - look.ionoM - p.correctionM - offsetM,
+        misclosureM: codeMisclosureM(p.codeM, range, p.satClockM, look.look) - p.correctionM - offsetM,
         varianceM2: look.varianceM2 * factor + extraM2,
       });
     }

@@ -11,7 +11,7 @@
  * ETRS89 (the system) and ETRFyyyy (its realisations) are kept distinct: they differ by up to a few
  * cm; configure an identity transformation if you accept that.
  */
-import type { FrameEpoch } from '../gnss/types.js';
+import type { FrameEpoch } from '../gnss/index.js';
 
 export const UNSTATED_FRAME = 'unstated';
 

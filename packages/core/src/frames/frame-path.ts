@@ -4,7 +4,7 @@
  * Two hops cover e.g. ITRF2020 -> ITRF2014 -> ETRF2000. Longer chains are refused: each hop adds its
  * own parameter uncertainty, and a user needing one should supply a direct set.
  */
-import type { FramedEcef } from '../gnss/types.js';
+import type { FramedEcef } from '../gnss/index.js';
 import { ProcessingError } from '../errors.js';
 import { applyHelmert, invertHelmert, type HelmertParams } from './helmert.js';
 import { normaliseFrameName } from './frame-names.js';

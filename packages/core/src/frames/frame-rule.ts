@@ -12,7 +12,7 @@
  *    stations move a few cm per year in ITRF/WGS 84 (plate motion), about 1 mm per year or less in a
  *    plate-fixed frame (ETRF, NAD83): sizes are common practice figures used only in the message.
  */
-import type { EcefM, FramedEcef } from '../gnss/types.js';
+import type { EcefM, FramedEcef } from '../gnss/index.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
 import type { HelmertParams } from './helmert.js';
 import { isPlateFixedFrame, normaliseFrameName, UNSTATED_FRAME } from './frame-names.js';

@@ -15,7 +15,7 @@
  * products of two parameters, e.g. R^2 X and D R X: for |R| <= 30 mas (1.5e-7 rad) and |X| ~ 6.4e6 m
  * that is 1.5e-7^2 * 6.4e6 ~ 1e-7 m, far below 1 mm (checked by the round-trip test).
  */
-import type { EcefM } from '../gnss/types.js';
+import type { EcefM } from '../gnss/index.js';
 
 export type Vec3 = readonly [number, number, number];
 

@@ -3,7 +3,7 @@
  * and azimuth/elevation of a target. Rotation from ECEF to ENU: e.g. Hofmann-Wellenhof, Lichtenegger,
  * Wasle, "GNSS" (2008), eq. 2.21 / Misra & Enge (2011) eq. 2.16.
  */
-import type { EcefM, EnuM, GeodeticRad } from '../gnss/types.js';
+import type { EcefM, EnuM, GeodeticRad } from '../gnss/index.js';
 import { WGS84, type Ellipsoid } from './ellipsoid.js';
 import { ecefToGeodetic, geodeticToEcef } from './geodetic.js';
 

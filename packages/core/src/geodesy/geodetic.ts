@@ -7,7 +7,7 @@
  * (GeographicLib, Geocentric::Reverse), which stays exact at the poles, on the equator and inside the
  * evolute near the Earth's centre (where a naive iteration converges to the wrong branch).
  */
-import type { EcefM, GeodeticRad } from '../gnss/types.js';
+import type { EcefM, GeodeticRad } from '../gnss/index.js';
 import { WGS84, type Ellipsoid } from './ellipsoid.js';
 
 export function geodeticToEcef(g: GeodeticRad, ell: Ellipsoid = WGS84): EcefM {

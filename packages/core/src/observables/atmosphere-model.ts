@@ -4,8 +4,8 @@
  * frequency, and the Saastamoinen troposphere with a standard atmosphere at the receiver height and the
  * Niell mapping function (see atmosphere/).
  */
-import type { GeodeticRad, GnssSystem } from '../gnss/types.js';
-import type { IonosphereCoefficients } from '../gnss/nav-types.js';
+import type { GeodeticRad, GnssSystem } from '../gnss/index.js';
+import type { IonosphereCoefficients } from '../gnss/index.js';
 import { beidouKlobucharDelayM, klobucharDelayM, scaleIonosphereDelayM, slantTroposphereM } from '../atmosphere/index.js';
 import { calendarFromSeconds, gpsToUtcS, daysFromCivil } from '../time/index.js';
 

@@ -3,9 +3,9 @@
  * both sides (C1C against C1W/P1 leaves a satellite-dependent bias of decimetres, the P1-C1 differential
  * code bias), chosen in the per-system priority order of rinex/obs-codes.ts.
  */
-import type { GnssSystem } from '../gnss/types.js';
-import type { SatObservations } from '../gnss/obs-types.js';
-import { pseudorangePriority } from '../gnss/obs-codes.js';
+import type { GnssSystem } from '../gnss/index.js';
+import type { SatObservations } from '../gnss/index.js';
+import { pseudorangePriority } from '../gnss/index.js';
 import { PRIMARY_BAND } from './signals.js';
 
 export function pseudorangeOf(s: SatObservations, code: string): number {

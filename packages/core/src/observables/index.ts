@@ -7,3 +7,4 @@ export * from './atmosphere-model.js';
 export * from './signal-strength.js';
 export * from './signals.js';
 export * from './code-selection.js';
+export * from './modelled-range.js';

@@ -6,8 +6,8 @@
  * otherwise be wrong by omegaE * 1 ms (about 1 m of satellite position, decimetres of range).
  * So the orbit code is handed the estimated true receive time and the pseudorange less the clock.
  */
-import type { EcefM } from '../gnss/types.js';
-import type { Ephemeris } from '../gnss/nav-types.js';
+import type { EcefM } from '../gnss/index.js';
+import type { Ephemeris } from '../gnss/index.js';
 import { satelliteAtTransmission, SPEED_OF_LIGHT_MS, type SatelliteAtTransmission, type SignalKind } from '../orbit/index.js';
 
 export function satelliteForTag(

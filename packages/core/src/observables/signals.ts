@@ -3,7 +3,7 @@
  * Single-frequency work uses each system's open L1-band (or, for NavIC, L5) signal; the second band is
  * used for the ionosphere-free combination in standalone mode.
  */
-import type { GnssSystem } from '../gnss/types.js';
+import type { GnssSystem } from '../gnss/index.js';
 import type { SignalKind } from '../orbit/index.js';
 
 /** RINEX band digit of the single-frequency signal per system (BeiDou B1I is band 2 since RINEX 3.02). */

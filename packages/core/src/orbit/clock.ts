@@ -19,7 +19,7 @@
  * to GLONASS system time; GLONASS-GPS system time difference is left to the solver (inter-system bias).
  * SBAS: dt_sv = a_Gf0 + a_Gf1 (t - t0) (RINEX SBAS record; DO-229 A.4.4.11).
  */
-import type { Ephemeris, KeplerEphemeris } from '../gnss/nav-types.js';
+import type { Ephemeris, KeplerEphemeris } from '../gnss/index.js';
 import { FREQ_E5B_HZ, FREQ_L1_HZ, FREQ_L5_HZ, keplerConstantsFor } from './constants.js';
 import { solveKepler } from './kepler.js';
 

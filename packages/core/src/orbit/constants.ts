@@ -14,9 +14,9 @@
  *    omegaE 7.2921151467e-5; ICD 5.1 prints omegaE as 7.292115e-5 (from memory): the 1.5e-14 rad/s
  *    difference moves a 15-minute integration by far less than a millimetre.
  */
-import type { GnssSystem } from '../gnss/types.js';
+import type { GnssSystem } from '../gnss/index.js';
 
-import { SPEED_OF_LIGHT_MS } from '../gnss/constants.js';
+import { SPEED_OF_LIGHT_MS } from '../gnss/index.js';
 export { SPEED_OF_LIGHT_MS };
 
 /** The value of pi the GPS control segment uses in curve fits (IS-GPS-200 20.3.3.4.3). */

@@ -15,8 +15,8 @@
  * Among the usable records, healthy ones only (health 0, every system), preferably transmitted
  * before t when the transmission time is known, the one whose reference time is nearest t is taken.
  */
-import type { Ephemeris, KeplerEphemeris, NavData } from '../gnss/nav-types.js';
-import type { GnssSystem, SatId } from '../gnss/types.js';
+import type { Ephemeris, KeplerEphemeris, NavData } from '../gnss/index.js';
+import type { GnssSystem, SatId } from '../gnss/index.js';
 import { isGalileoFnav } from './clock.js';
 
 /** Reference time of an ephemeris (toe, t_b or t0), GPS s. */

@@ -10,7 +10,7 @@
  * Integration nodes are cached per ephemeris at t_b + k*60 s, and a position at t is obtained from the
  * node nearest t_b side of t with one partial step: the result does not depend on call order.
  */
-import type { GlonassEphemeris } from '../gnss/nav-types.js';
+import type { GlonassEphemeris } from '../gnss/index.js';
 import { PZ90 } from './constants.js';
 
 /** Integration step (s): the ICD asks for a step small enough; 60 s keeps the RK4 error well below 1 mm. */

@@ -9,7 +9,7 @@
  * Accuracy: the user algorithm reproduces the broadcast orbit to well below a millimetre; the Kepler
  * equation is iterated until the correction is below 1e-13 rad.
  */
-import type { KeplerEphemeris } from '../gnss/nav-types.js';
+import type { KeplerEphemeris } from '../gnss/index.js';
 import { wrapWeekS } from '../time/index.js';
 import { keplerConstantsFor, type KeplerConstants } from './constants.js';
 

@@ -5,7 +5,7 @@
  *   X(t) = X0 + Xdot (t - t0) + 1/2 Xddot (t - t0)^2   (DO-229 A.4.4.11; from memory, not confirmed here).
  * Frame: WGS 84 ECEF.
  */
-import type { SbasEphemeris } from '../gnss/nav-types.js';
+import type { SbasEphemeris } from '../gnss/index.js';
 
 export function sbasStateInto(eph: SbasEphemeris, tGpsS: number, out: Float64Array): void {
   const dt = tGpsS - eph.t0GpsS;

@@ -1,6 +1,6 @@
 /** Satellite ECEF position and velocity from any broadcast ephemeris kind. */
-import type { Ephemeris } from '../gnss/nav-types.js';
-import type { EcefM } from '../gnss/types.js';
+import type { Ephemeris } from '../gnss/index.js';
+import type { EcefM } from '../gnss/index.js';
 import { keplerStateInto } from './kepler.js';
 import { glonassStateInto } from './glonass.js';
 import { sbasStateInto } from './sbas.js';

@@ -9,8 +9,8 @@
  * Earth rotation (IS-GPS-200 20.3.3.4.3.3.2; Galileo/BeiDou/GLONASS with their own omegaE):
  *   r' = R_Z(omegaE tau) r, i.e. x' = x cos(we tau) + y sin(we tau), y' = -x sin(we tau) + y cos(we tau).
  */
-import type { Ephemeris } from '../gnss/nav-types.js';
-import type { EcefM } from '../gnss/types.js';
+import type { Ephemeris } from '../gnss/index.js';
+import type { EcefM } from '../gnss/index.js';
 import { SPEED_OF_LIGHT_MS, earthRotationRadS } from './constants.js';
 import { satelliteClock, type SatelliteClock, type SignalKind } from './clock.js';
 import { satelliteStateInto } from './state.js';

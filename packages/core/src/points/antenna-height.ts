@@ -13,7 +13,7 @@
  * mark = ARP - h_ARP * up (reduceToMark). The phase-centre offset above the ARP is not applied here
  * (sub-decimetre: a code-differential concern of the engine, not of the point).
  */
-import type { EcefM } from '../gnss/types.js';
+import type { EcefM } from '../gnss/index.js';
 import { ecefToGeodetic, enuToEcefDelta, WGS84, type Ellipsoid } from '../geodesy/index.js';
 
 export type HeightKind = 'vertical' | 'slant';

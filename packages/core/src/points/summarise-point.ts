@@ -9,7 +9,7 @@
  * horizontalToleranceM (default 1.0 m, about the code-differential level of check-values.md
  * "Accuracy facts"); otherwise 'ok'.
  */
-import type { EcefM, EnuM, GeodeticRad } from '../gnss/types.js';
+import type { EcefM, EnuM, GeodeticRad } from '../gnss/index.js';
 import { ecefDeltaToEnu, ecefToGeodetic, enuToEcefDelta, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { median, robustMean } from './robust-mean.js';
 import { circularErrorRadiusM } from '../accuracy/index.js';

@@ -2,10 +2,10 @@
  * Rows of the per-epoch CSV: one row per rover epoch, column names of our own with the unit as suffix
  * (_m metres, _deg degrees, _s seconds; no suffix: a count, a ratio or a word).
  */
-import { GNSS_SYSTEMS, SYSTEM_NAMES, type FrameEpoch, type GnssSystem } from '../gnss/types.js';
+import { GNSS_SYSTEMS, SYSTEM_NAMES, type FrameEpoch, type GnssSystem } from '../gnss/index.js';
 import { gpsToUtcS, isoFromSeconds, weekTowFromGpsS } from '../time/index.js';
 import { radToDeg } from '../geodesy/index.js';
-import type { EpochSolution, PointReference } from '../session/solution-types.js';
+import type { EpochSolution, PointReference } from '../session/index.js';
 import { fixed } from './format.js';
 import { frameWords, pointReferenceWords } from './point-reference.js';
 

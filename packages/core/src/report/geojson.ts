@@ -5,10 +5,10 @@
  * WGS 84: the actual frame is stated in a foreign member "refdelta" (RFC 7946 section 6.1) and in every
  * feature's properties, with a note, never silently.
  */
-import type { FrameEpoch } from '../gnss/types.js';
+import type { FrameEpoch } from '../gnss/index.js';
 import { gpsToUtcS, isoFromSeconds } from '../time/index.js';
 import { radToDeg } from '../geodesy/index.js';
-import type { EpochSolution, PointReference } from '../session/solution-types.js';
+import type { EpochSolution, PointReference } from '../session/index.js';
 import { frameEpochText, jsonNumber } from './format.js';
 import { pointReferenceWords } from './point-reference.js';
 

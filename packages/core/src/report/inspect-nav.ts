@@ -1,7 +1,7 @@
 /** What a navigation file (or a merged set) holds: records per system and satellite, time span, extras. */
 import type { Warning } from '../errors.js';
-import { GNSS_SYSTEMS, SYSTEM_NAMES, type GnssSystem } from '../gnss/types.js';
-import type { Ephemeris, NavData } from '../gnss/nav-types.js';
+import { GNSS_SYSTEMS, SYSTEM_NAMES, type GnssSystem } from '../gnss/index.js';
+import type { Ephemeris, NavData } from '../gnss/index.js';
 import { timeStamp, type TimeStamp } from './inspect-obs.js';
 
 export interface NavInspection {

@@ -3,10 +3,10 @@
  * interval and gaps, satellites per constellation, observation types, events and problems found.
  */
 import type { Warning } from '../errors.js';
-import { GNSS_SYSTEMS, SYSTEM_NAMES, satSystem, type GnssSystem } from '../gnss/types.js';
+import { GNSS_SYSTEMS, SYSTEM_NAMES, satSystem, type GnssSystem } from '../gnss/index.js';
 import { gpsToUtcS, isoFromSeconds, weekTowFromGpsS } from '../time/index.js';
 import { ecefToGeodetic, radToDeg } from '../geodesy/index.js';
-import type { ObsStream } from '../gnss/obs-types.js';
+import type { ObsStream } from '../gnss/index.js';
 import { jsonNumber } from './format.js';
 
 /** RINEX 2.11 section 5.1 / RINEX 3.05 table A3: epoch flag meanings. */

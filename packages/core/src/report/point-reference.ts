@@ -1,6 +1,6 @@
 /** Words for the point a position refers to, as written in the reports. */
-import type { PointReference } from '../session/solution-types.js';
-import type { FrameEpoch } from '../gnss/types.js';
+import type { PointReference } from '../session/index.js';
+import type { FrameEpoch } from '../gnss/index.js';
 import { frameEpochText } from './format.js';
 
 export function pointReferenceWords(p: PointReference): string {

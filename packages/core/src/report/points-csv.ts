@@ -3,7 +3,7 @@
  * ecef_z_m, frame, frame_epoch are required; other columns are ignored. '#' lines are skipped.
  * A bad row is an InputError naming the file, the 1-based line and the column.
  */
-import type { FramedEcef } from '../gnss/types.js';
+import type { FramedEcef } from '../gnss/index.js';
 import { InputError } from '../errors.js';
 import { csvRecords } from '../csv/index.js';
 

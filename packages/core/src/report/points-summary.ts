@@ -18,8 +18,8 @@
  * horizontal tolerance (default 1.0 m), 'exceeds-vertical' when sd_u is above the vertical tolerance
  * (default 2.0 m), 'exceeds-horizontal-and-vertical' for both; else 'ok'. Defaults as control/compare-to-mark.ts.
  */
-import type { EcefM, EnuM, FrameEpoch } from '../gnss/types.js';
-import type { PointReference, SolutionKind } from '../session/solution-types.js';
+import type { EcefM, EnuM, FrameEpoch } from '../gnss/index.js';
+import type { PointReference, SolutionKind } from '../session/index.js';
 import { ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import {
   reduceToMark, summarisePoint, verticalHeightToArpM,

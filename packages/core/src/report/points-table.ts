@@ -7,7 +7,7 @@
  * shifts datums): easting/northing are in that frame too. Orthometric heights: H = h - N with the
  * chosen geoid (geoid/geoid-model.ts); EGM96 is a global model, not a national vertical datum.
  */
-import type { FrameEpoch } from '../gnss/types.js';
+import type { FrameEpoch } from '../gnss/index.js';
 import { gpsToUtcS, isoFromSeconds, weekTowFromGpsS } from '../time/index.js';
 import { radToDeg } from '../geodesy/index.js';
 import type { Projection } from '../projection/index.js';

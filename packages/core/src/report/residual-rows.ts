@@ -1,6 +1,6 @@
 /** Rows of the residual CSV, long form: one row per satellite per epoch. */
 import { weekTowFromGpsS } from '../time/index.js';
-import type { EpochSolution } from '../session/solution-types.js';
+import type { EpochSolution } from '../session/index.js';
 import type { CsvTable } from './epoch-rows.js';
 import { fixed } from './format.js';
 

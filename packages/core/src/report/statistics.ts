@@ -2,7 +2,7 @@
  * Descriptive statistics for the reports: percentiles, scatter of positions about their mean, errors
  * against a truth.
  */
-import type { EcefM, EnuM } from '../gnss/types.js';
+import type { EcefM, EnuM } from '../gnss/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import { ecefDeltaToEnu } from '../geodesy/index.js';
 

@@ -3,10 +3,10 @@
  * reasons, scatter statistics, outputs and the cautions.
  */
 import type { Warning } from '../errors.js';
-import type { EcefM } from '../gnss/types.js';
+import type { EcefM } from '../gnss/index.js';
 import { gpsToUtcS, isoFromSeconds } from '../time/index.js';
-import type { SessionSummary } from '../session/solution-types.js';
-import type { SessionOptions } from '../session/options.js';
+import type { SessionSummary } from '../session/index.js';
+import type { SessionOptions } from '../session/index.js';
 import { frameEpochText, jsonNumber } from './format.js';
 import type { ScatterStats } from './statistics.js';
 

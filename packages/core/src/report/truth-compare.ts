@@ -1,6 +1,6 @@
 /** Errors of solutions against a truth trajectory matched by time (for the demo and the real-data tests). */
-import type { EcefM, EnuM } from '../gnss/types.js';
-import type { EpochSolution } from '../session/solution-types.js';
+import type { EcefM, EnuM } from '../gnss/index.js';
+import type { EpochSolution } from '../session/index.js';
 import { ecefToGeodetic, ecefDeltaToEnu } from '../geodesy/index.js';
 import { horizontalVerticalStats, type HorizontalVerticalStats } from './statistics.js';
 

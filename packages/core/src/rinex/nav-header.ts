@@ -7,9 +7,9 @@
  */
 import { FormatError, InputError, type WarningSink } from '../errors.js';
 import { bdtToGpsS, SECONDS_PER_WEEK, BDT_WEEK_OFFSET } from '../time/index.js';
-import type { GnssSystem } from '../gnss/types.js';
-import { isGnssSystem } from '../gnss/types.js';
-import type { IonosphereCoefficients, KlobucharCoefficients, SystemTimeOffset } from '../gnss/nav-types.js';
+import type { GnssSystem } from '../gnss/index.js';
+import { isGnssSystem } from '../gnss/index.js';
+import type { IonosphereCoefficients, KlobucharCoefficients, SystemTimeOffset } from '../gnss/index.js';
 import { parseFortranReal } from './nav-fields.js';
 
 export interface NavHeader {

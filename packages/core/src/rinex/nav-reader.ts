@@ -6,9 +6,9 @@
  * file is still read. Input that is not a RINEX navigation file raises one FormatError sentence.
  */
 import { FormatError, InputError, RefdeltaError, type Warning, type WarningSink } from '../errors.js';
-import type { GnssSystem } from '../gnss/types.js';
-import { isGnssSystem, SYSTEM_NAMES } from '../gnss/types.js';
-import type { EarthOrientation, Ephemeris, IonosphereCoefficients, NavData, SystemTimeOffset } from '../gnss/nav-types.js';
+import type { GnssSystem } from '../gnss/index.js';
+import { isGnssSystem, SYSTEM_NAMES } from '../gnss/index.js';
+import type { EarthOrientation, Ephemeris, IonosphereCoefficients, NavData, SystemTimeOffset } from '../gnss/index.js';
 import { NavRecordProblem } from './nav-fields.js';
 import { parseNavHeader, type NavHeader } from './nav-header.js';
 import { parseNavRecord, RECORD_LINES, recordSat, type RawNavRecord, type RecordContext } from './nav-records.js';

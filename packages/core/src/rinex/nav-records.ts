@@ -12,9 +12,9 @@
  */
 import { bdtToGpsS, gpsSFromWeekTow, secondsFromCalendar, SECONDS_PER_WEEK, BDT_WEEK_OFFSET, utcToGpsS } from '../time/index.js';
 import type { CalendarTime } from '../time/index.js';
-import type { GnssSystem, SatId } from '../gnss/types.js';
-import { isGnssSystem } from '../gnss/types.js';
-import type { Ephemeris, GlonassEphemeris, KeplerEphemeris, SbasEphemeris } from '../gnss/nav-types.js';
+import type { GnssSystem, SatId } from '../gnss/index.js';
+import { isGnssSystem } from '../gnss/index.js';
+import type { Ephemeris, GlonassEphemeris, KeplerEphemeris, SbasEphemeris } from '../gnss/index.js';
 import { epochRinex2, epochRinex3, intAt, NavRecordProblem, realAt } from './nav-fields.js';
 
 /** The lines of one record and where it starts in the file. */

@@ -9,8 +9,8 @@
  * Record epochs are in the broadcasting system's time (BDT for BDS, UTC for GLONASS, GPS time otherwise).
  */
 import { bdtToGpsS, secondsFromCalendar, utcToGpsS } from '../time/index.js';
-import type { GnssSystem, SatId } from '../gnss/types.js';
-import type { EarthOrientation, KlobucharCoefficients, SystemTimeOffset } from '../gnss/nav-types.js';
+import type { GnssSystem, SatId } from '../gnss/index.js';
+import type { EarthOrientation, KlobucharCoefficients, SystemTimeOffset } from '../gnss/index.js';
 import { epochRinex3, NavRecordProblem, realAt } from './nav-fields.js';
 import { weekTimeNear, type RawNavRecord } from './nav-records.js';
 

@@ -6,7 +6,7 @@
  * seconds): a clock reference time off the second is rounded.
  */
 import { calendarFromSeconds, gpsToBdtS, gpsToUtcS, SECONDS_PER_WEEK, BDT_WEEK_OFFSET } from '../time/index.js';
-import type { Ephemeris, GlonassEphemeris, KeplerEphemeris, KlobucharCoefficients, NavData, SbasEphemeris, SystemTimeOffset } from '../gnss/nav-types.js';
+import type { Ephemeris, GlonassEphemeris, KeplerEphemeris, KlobucharCoefficients, NavData, SbasEphemeris, SystemTimeOffset } from '../gnss/index.js';
 import { d19, formatFortranReal, fortranInt, headerLine } from './nav-format.js';
 
 export interface WriteNavOptions {

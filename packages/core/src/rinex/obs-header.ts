@@ -2,15 +2,15 @@
  * RINEX observation header records (RINEX 2.11 table A1; RINEX 3.05 table A2; RINEX 4.00 table A2).
  * Labels are in columns 61-80; contents in columns 1-60 with the formats quoted beside each record.
  */
-import type { EcefM, GnssSystem } from '../gnss/types.js';
-import { isGnssSystem } from '../gnss/types.js';
+import type { EcefM, GnssSystem } from '../gnss/index.js';
+import { isGnssSystem } from '../gnss/index.js';
 import { FormatError } from '../errors.js';
 import type { Warning } from '../errors.js';
 import type { TimeSystem } from '../time/index.js';
 import { secondsFromCalendar, toGpsS } from '../time/index.js';
-import type { AntennaOffset, ObsHeader } from '../gnss/obs-types.js';
+import type { AntennaOffset, ObsHeader } from '../gnss/index.js';
 import { fieldState, parseFixed, parseIntField, textField } from './obs-fields.js';
-import { normaliseBeidouCode, rinex2CodeList } from '../gnss/obs-codes.js';
+import { normaliseBeidouCode, rinex2CodeList } from '../gnss/index.js';
 
 const TIME_SYSTEMS: readonly TimeSystem[] = ['GPS', 'GLO', 'GAL', 'BDT', 'QZS', 'IRN', 'UTC', 'TAI', 'SBAS'];
 

@@ -7,13 +7,13 @@
  * Garbled or truncated epochs are reported as warnings naming the file and line and skipped; reading
  * resumes at the next recognisable epoch record.
  */
-import type { GnssSystem, SatId } from '../gnss/types.js';
-import { isGnssSystem } from '../gnss/types.js';
+import type { GnssSystem, SatId } from '../gnss/index.js';
+import { isGnssSystem } from '../gnss/index.js';
 import { FormatError, InputError, RefdeltaError } from '../errors.js';
 import type { Warning, WarningSink } from '../errors.js';
 import { daysFromCivil, toGpsS } from '../time/index.js';
 import type { TimeSystem } from '../time/index.js';
-import type { AntennaOffset, HeaderEvent, ObsEpoch, ObsHeader, ObsStream, SatObservations } from '../gnss/obs-types.js';
+import type { AntennaOffset, HeaderEvent, ObsEpoch, ObsHeader, ObsStream, SatObservations } from '../gnss/index.js';
 import { LineCursor, SPAN_END, SPAN_FILL } from './text-lines.js';
 import { digitAt, digitIn, fieldState, parseF14p3In, parseFixed, parseIntField } from './obs-fields.js';
 import { ObsHeaderBuilder, headerLabel, parseVersionLine } from './obs-header.js';

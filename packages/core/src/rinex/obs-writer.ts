@@ -2,11 +2,11 @@
  * RINEX 3 observation writer (RINEX 3.05, IGS/RTCM 2020: header table A2, epoch and observation records
  * table A3; 3.03 and 3.04 share the layout). Produces text chunks: the header, then one chunk per epoch.
  */
-import type { GnssSystem } from '../gnss/types.js';
-import { GNSS_SYSTEMS } from '../gnss/types.js';
+import type { GnssSystem } from '../gnss/index.js';
+import { GNSS_SYSTEMS } from '../gnss/index.js';
 import type { TimeSystem } from '../time/index.js';
 import { calendarFromSeconds, gpsToBdtS, gpsToGlonassS, gpsToUtcS } from '../time/index.js';
-import type { HeaderEvent, ObsEpoch, ObsHeader, SatObservations } from '../gnss/obs-types.js';
+import type { HeaderEvent, ObsEpoch, ObsHeader, SatObservations } from '../gnss/index.js';
 import { headerLabel } from './obs-header.js';
 
 export interface WriteObsOptions {

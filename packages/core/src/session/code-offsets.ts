@@ -40,9 +40,14 @@ export class CodeOffsetSurvey {
     private readonly spacingS = 5,
   ) {}
 
+  /** Whether an epoch at this time would teach anything (samples are spaced): ask before building it. */
+  wants(tagGpsS: number): boolean {
+    return tagGpsS - this.lastS >= this.spacingS;
+  }
+
   /** Learns from one epoch (raw code, no offsets applied); returns the fix's position and clock when it had one. */
   learn(sd: SingleDifferenceEpoch, start: EcefM): { positionM: EcefM; clockM: number } | null {
-    if (sd.epoch.tagGpsS - this.lastS < this.spacingS || sd.usable.length < 5) return null;
+    if (!this.wants(sd.epoch.tagGpsS) || sd.usable.length < 5) return null;
     const glonass = new Set<SatId>();
     for (const p of sd.usable) if (p.system === 'R') glonass.add(p.sat);
     const withoutGlonass = (x: EcefM, ex: ReadonlySet<SatId>) => sd.rowsAt(x, glonass.size ? new Set([...ex, ...glonass]) : ex);

@@ -3,7 +3,7 @@
  * order. Epochs with the same tag (within 1 ms) in two files are taken once. Each epoch travels with the
  * header of the file it came from, so per-file antenna records still apply.
  */
-import type { ObsEpoch, ObsHeader, ObsStream } from '../gnss/obs-types.js';
+import type { ObsEpoch, ObsHeader, ObsStream } from '../gnss/index.js';
 
 export interface SourcedEpoch {
   readonly epoch: ObsEpoch;

@@ -1,8 +1,8 @@
 /**
  * Processing options for a differential session, with documented defaults.
  */
-import type { AntennaOffset } from '../gnss/obs-types.js';
-import type { FramedEcef, GnssSystem } from '../gnss/types.js';
+import type { AntennaOffset } from '../gnss/index.js';
+import type { FramedEcef, GnssSystem } from '../gnss/index.js';
 
 export type GlonassPolicy =
   /**

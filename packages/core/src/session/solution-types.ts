@@ -3,7 +3,7 @@
  * Every coordinate carries its frame and epoch (FramedEcef); every rejected satellite or epoch carries
  * its reason as words.
  */
-import type { EcefM, EnuM, FrameEpoch, FramedEcef, GeodeticRad, GnssSystem, SatId } from '../gnss/types.js';
+import type { EcefM, EnuM, FrameEpoch, FramedEcef, GeodeticRad, GnssSystem, SatId } from '../gnss/index.js';
 
 /** The solution kind, as a word. */
 export type SolutionKind = 'differential' | 'smoothed' | 'standalone' | 'none';
@@ -19,8 +19,8 @@ export interface Dops {
   readonly tdop: number;
 }
 
-export type { SatelliteResidual } from '../solve/satellite-residual.js';
-import type { SatelliteResidual } from '../solve/satellite-residual.js';
+export type { SatelliteResidual } from '../solve/index.js';
+import type { SatelliteResidual } from '../solve/index.js';
 
 export interface QualityTest {
   /** A-posteriori variance factor v'Pv / dof (NaN when dof = 0). */

@@ -58,7 +58,7 @@ export async function surveySession(setup: SessionSetup, rover: ObsStream, refer
     corrections.prune(e.tagGpsS, options.maxCorrectionAgeS + 2);
     roverRecorder?.update(e);
     lastS = e.tagGpsS;
-    if (e.sats.length === 0 || corrections.nearestEpochS(e.tagGpsS) > options.maxCorrectionAgeS + 1) continue;
+    if (e.sats.length === 0 || !survey.wants(e.tagGpsS) || corrections.nearestEpochS(e.tagGpsS) > options.maxCorrectionAgeS + 1) continue;
     try {
       const start = position ?? rover.header.approxPosition ?? feed.arpM;
       const sd = new SingleDifferenceEpoch(e, differencing, undefined, undefined, start, clockM);

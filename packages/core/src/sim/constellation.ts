@@ -17,9 +17,9 @@
  * data source, E5b/E1 clock): toe every hour (the real system refreshes every 10 min; one hour keeps files
  * small), IODnav incrementing (mod 1024), transmitted 9 min before toe.
  */
-import type { GnssSystem } from '../gnss/types.js';
-import type { KeplerEphemeris, KlobucharCoefficients, NavData } from '../gnss/nav-types.js';
-import { GALILEO_CONSTANTS, GPS_CONSTANTS } from '../orbit/constants.js';
+import type { GnssSystem } from '../gnss/index.js';
+import type { KeplerEphemeris, KlobucharCoefficients, NavData } from '../gnss/index.js';
+import { GALILEO_CONSTANTS, GPS_CONSTANTS } from '../orbit/index.js';
 import { SECONDS_PER_WEEK } from '../time/index.js';
 import { Rng } from './rng.js';
 

@@ -8,11 +8,11 @@
  * renderDemoFiles() gives every file's text as chunks; fixtures/demo/make-demo.mjs writes them atomically and
  * the demo test hashes them, so the committed files are exactly what the seed produces.
  */
-import type { EcefM } from '../gnss/types.js';
+import type { EcefM } from '../gnss/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import { isoFromSeconds, secondsFromCalendar, weekTowFromGpsS } from '../time/index.js';
-import { writeObsRinex3 } from '../rinex/obs-writer.js';
-import { writeNavRinex3 } from '../rinex/nav-writer.js';
+import { writeObsRinex3 } from '../rinex/index.js';
+import { writeNavRinex3 } from '../rinex/index.js';
 import { ALL_ERRORS_ON } from './errors.js';
 import { simulateScenario, type ScenarioSpec, type SimulatedScenario } from './scenario.js';
 

@@ -7,7 +7,7 @@
  * semicircles; F = 1 + 16 (0.53 - E)^3). Wave: dI_v = A sin(2 pi s / L + 2 pi t / T + phi0) with s the
  * pierce point's distance along the wave's azimuth; its largest gradient is 2 pi A / L, so A = g L / (2 pi).
  */
-import type { KlobucharCoefficients } from '../gnss/nav-types.js';
+import type { KlobucharCoefficients } from '../gnss/index.js';
 import { klobucharDelayM } from '../atmosphere/index.js';
 import type { IonoErrorParams } from './errors.js';
 

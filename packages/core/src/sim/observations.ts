@@ -17,9 +17,9 @@
  * C/N0 grows linearly with sin(elevation) between the profile's horizon and zenith values (common
  * practice); the signal strength digit is floor(C/N0 / 6) clamped to 1..9 (RINEX 3.04 5.7 table).
  */
-import type { EcefM, SatId } from '../gnss/types.js';
-import type { HeaderEvent, ObsEpoch, SatObservations } from '../gnss/obs-types.js';
-import { LLI_LOST_LOCK } from '../gnss/obs-types.js';
+import type { EcefM, SatId } from '../gnss/index.js';
+import type { HeaderEvent, ObsEpoch, SatObservations } from '../gnss/index.js';
+import { LLI_LOST_LOCK } from '../gnss/index.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
 import { calendarFromSeconds, daysFromCivil } from '../time/index.js';
 import type { ReceiverProfile, ResolvedErrors } from './errors.js';

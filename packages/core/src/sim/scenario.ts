@@ -3,9 +3,9 @@
  * plan, the broadcast navigation data both use, and the truth. The truth is in WGS 84 at the scenario
  * epoch (the frame of the simulated broadcast orbits): every coordinate here is "WGS84 @ decimal year".
  */
-import type { EcefM, FrameEpoch } from '../gnss/types.js';
-import type { HeaderEvent, ObsEpoch, ObsHeader } from '../gnss/obs-types.js';
-import type { NavData } from '../gnss/nav-types.js';
+import type { EcefM, FrameEpoch } from '../gnss/index.js';
+import type { HeaderEvent, ObsEpoch, ObsHeader } from '../gnss/index.js';
+import type { NavData } from '../gnss/index.js';
 import { ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import { decimalYearFromGpsS } from '../time/index.js';
 import { simulateConstellation, TYPICAL_KLOBUCHAR, SIM_LEAP_SECONDS } from './constellation.js';

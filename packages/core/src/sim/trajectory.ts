@@ -4,7 +4,7 @@
  * (RINEX ANTENNA: DELTA H/E/N with E = N = 0); while walking, the ARP moves in a straight line (in ECEF)
  * from the last occupation's ARP to the next one's, at the given horizontal speed.
  */
-import type { EcefM } from '../gnss/types.js';
+import type { EcefM } from '../gnss/index.js';
 import { ecefToGeodetic, enuToEcefDelta, geodeticToEcef } from '../geodesy/index.js';
 
 export type PlanStep =

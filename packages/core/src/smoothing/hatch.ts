@@ -13,7 +13,7 @@
  * interval); a code-minus-carrier innovation beyond `codeCarrierJumpM`.
  * A millisecond receiver clock jump common to all satellites is repaired (detectMillisecondClockJump).
  */
-import type { SatId } from '../gnss/types.js';
+import type { SatId } from '../gnss/index.js';
 import { detectMillisecondClockJump } from './clock-jump.js';
 import type { ClockJump } from './clock-jump.js';
 

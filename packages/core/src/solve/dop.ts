@@ -5,7 +5,7 @@
  * VDOP = sqrt(Quu), TDOP = sqrt(Q of the first clock column).
  * Source: Misra & Enge, "Global Positioning System: Signals, Measurements and Performance", 2nd ed., 6.1.
  */
-import type { EcefM, GeodeticRad } from '../gnss/types.js';
+import type { EcefM, GeodeticRad } from '../gnss/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import { choleskyInPlace, choleskyInverse } from './dense-cholesky.js';
 

@@ -8,7 +8,7 @@
  * Sources: linearised pseudorange model, Misra & Enge (2011) 6.1.1; testing, Teunissen (2000) 4.4
  * (see solve/tests.ts).
  */
-import type { EcefM, EnuM, GnssSystem, SatId } from '../gnss/types.js';
+import type { EcefM, EnuM, GnssSystem, SatId } from '../gnss/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import {
   bMethodGlobalAlpha, choleskyInPlace, choleskyInverse, dataSnooping, globalTest, solveWeightedLeastSquaresSmall,

@@ -1,5 +1,5 @@
 /** One satellite's part in an epoch solution (standalone or differential). */
-import type { SatId } from '../gnss/types.js';
+import type { SatId } from '../gnss/index.js';
 
 export interface SatelliteResidual {
   readonly sat: SatId;

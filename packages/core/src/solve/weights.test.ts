@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import {
-  CODE_ELEVATION_WEIGHT_DEFAULTS, elevationVarianceM2, sigmaEpsilonVarianceM2, singleDifferenceVariance, strengthToDbHz,
+  CODE_ELEVATION_WEIGHT_DEFAULTS, elevationVarianceM2, sigmaEpsilonVarianceM2, singleDifferenceVariance,
   strengthVarianceFactor,
 } from './weights.js';
+import { strengthToDbHz } from '../observables/index.js';
 
 const DEG = Math.PI / 180;
 

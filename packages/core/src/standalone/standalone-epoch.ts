@@ -8,19 +8,19 @@
  * Galileo pairs E1 with E5b for an I/NAV clock and with E5a for an F/NAV clock (OS SIS ICD 5.1.5).
  * GLONASS rows carry an extra variance for the receiver's FDMA code inter-frequency biases (fdma-code-bias.ts).
  */
-import type { EcefM, GnssSystem, SatId } from '../gnss/types.js';
-import { satSystem } from '../gnss/types.js';
-import type { ObsEpoch, ObsHeader, SatObservations } from '../gnss/obs-types.js';
-import type { Ephemeris, IonosphereCoefficients, KeplerEphemeris } from '../gnss/nav-types.js';
-import { chooseCode, carrierFrequencyHz } from '../gnss/obs-codes.js';
+import type { EcefM, GnssSystem, SatId } from '../gnss/index.js';
+import { satSystem } from '../gnss/index.js';
+import type { ObsEpoch, ObsHeader, SatObservations } from '../gnss/index.js';
+import type { Ephemeris, IonosphereCoefficients, KeplerEphemeris } from '../gnss/index.js';
+import { chooseCode, carrierFrequencyHz } from '../gnss/index.js';
 import { EphemerisStore, isGalileoFnav, SPEED_OF_LIGHT_MS, type SignalKind } from '../orbit/index.js';
-import { satelliteForTag } from '../observables/satellite-for-tag.js';
+import { satelliteForTag, signalStrengthDbHz } from '../observables/index.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
-import { elevationVarianceM2, strengthToDbHz, type ElevationWeightParams } from '../solve/index.js';
-import { solvePositionFix, DEFAULT_FIX_OPTIONS, type FixOptions, type LinearRow, type PositionFix, type FixFailure } from '../solve/position-fix.js';
-import { PRIMARY_BAND, SECONDARY_BANDS, clockSignal } from '../observables/signals.js';
-import { dayOfYear, ionosphereDelayM, troposphereDelayM } from '../observables/atmosphere-model.js';
-import type { SatelliteResidual } from '../solve/satellite-residual.js';
+import { elevationVarianceM2, type ElevationWeightParams } from '../solve/index.js';
+import { solvePositionFix, DEFAULT_FIX_OPTIONS, type FixOptions, type LinearRow, type PositionFix, type FixFailure } from '../solve/index.js';
+import { PRIMARY_BAND, SECONDARY_BANDS, clockSignal } from '../observables/index.js';
+import { codeMisclosureM, dayOfYear, lookFrom, type ReceiverLook } from '../observables/index.js';
+import type { SatelliteResidual } from '../solve/index.js';
 import { GLONASS_CODE_BIAS_SIGMA_M, glonassCodeBiasVarianceM2 } from './fdma-code-bias.js';
 
 export type StandaloneMode = 'ionosphere-free' | 'single-frequency';
@@ -71,14 +71,6 @@ interface PreparedSat {
 function valueOf(s: SatObservations, code: string): number {
   const i = s.codes.indexOf(code);
   return i < 0 ? NaN : s.values[i];
-}
-
-function strengthDbHz(s: SatObservations, codeM: string, version: number): number {
-  const sCode = 'S' + codeM.slice(1);
-  const v = valueOf(s, sCode);
-  if (Number.isFinite(v)) return strengthToDbHz(v, 'dbhz');
-  const i = s.codes.indexOf(codeM);
-  return i >= 0 && s.ssi[i] > 0 ? strengthToDbHz(s.ssi[i], 'rinex2-digit') : NaN;
 }
 
 function glonassChannel(sat: SatId, ctx: StandaloneContext): number | undefined {
@@ -144,7 +136,7 @@ function prepareSat(
     sat: s.sat, system, signal, mode, codeM: codeM - extraBiasM,
     satPos: at.posM, satClockM: SPEED_OF_LIGHT_MS * at.clock.offsetS,
     frequencyHz: mode === 'single-frequency' ? f1 : NaN,
-    cn0DbHz: strengthDbHz(s, c1, header.version), noiseFactor,
+    cn0DbHz: signalStrengthDbHz(s, c1), noiseFactor,
     // Independent per-band biases propagate like the noise (a^2 + b^2 for the combination, 1 for one band).
     biasVarianceM2: system === 'R' ? glonassCodeBiasVarianceM2(ctx.glonassCodeBiasSigmaM ?? GLONASS_CODE_BIAS_SIGMA_M, noiseFactor) : 0,
   };
@@ -230,19 +222,23 @@ function solveWithClock(epoch: ObsEpoch, header: ObsHeader, ctx: StandaloneConte
       if (excluded.has(p.sat)) continue;
       const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;
       const range = Math.sqrt(dx * dx + dy * dy + dz * dz);
-      let el = Math.PI / 2, az = 0, tropo = 0, iono = 0;
+      // Far from the surface (the first iterations from the Earth's centre) there is no sky: no mask, no atmosphere.
+      let look: ReceiverLook = { elevationRad: Math.PI / 2, azimuthRad: 0, troposphereM: 0, ionosphereM: 0 };
       if (nearSurface) {
-        const ae = azimuthElevation(x, p.satPos, g.latRad, g.lonRad);
-        el = ae.elevationRad; az = ae.azimuthRad;
-        if (el < ctx.elevationMaskRad) { maskReasons.set(p.sat, `below elevation mask (${(el * 180 / Math.PI).toFixed(1)} deg)`); geometry.set(p.sat, { el, az, variance: NaN }); continue; }
-        tropo = troposphereDelayM(g, el, doy);
-        if (p.mode === 'single-frequency') iono = ionosphereDelayM(ctx.iono, p.system, g, el, az, epoch.tagGpsS, p.frequencyHz);
+        // Ionosphere-free rows carry no ionosphere: the model is asked for none (frequency NaN).
+        look = lookFrom(x, g, p.satPos, p.system, p.mode === 'single-frequency' ? p.frequencyHz : NaN, ctx.iono, epoch.tagGpsS, doy, ctx.elevationMaskRad);
+        if (look.elevationRad < ctx.elevationMaskRad) {
+          maskReasons.set(p.sat, `below elevation mask (${(look.elevationRad * 180 / Math.PI).toFixed(1)} deg)`);
+          geometry.set(p.sat, { el: look.elevationRad, az: look.azimuthRad, variance: NaN });
+          continue;
+        }
       }
+      const el = look.elevationRad, az = look.azimuthRad;
       const variance = elevationVarianceM2(el, ctx.weighting, p.cn0DbHz) * p.noiseFactor + p.biasVarianceM2;
       geometry.set(p.sat, { el, az, variance });
       rows.push({
         sat: p.sat, system: p.system, losX: dx / range, losY: dy / range, losZ: dz / range,
-        misclosureM: p.codeM - (range - p.satClockM + tropo + iono), varianceM2: variance,
+        misclosureM: codeMisclosureM(p.codeM, range, p.satClockM, look), varianceM2: variance,
       });
     }
     return rows;

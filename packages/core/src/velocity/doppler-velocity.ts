@@ -22,15 +22,15 @@
  * removed and the solution repeated, at most 3 times, while redundancy remains (data snooping in the
  * spirit of Baarda 1968, with the a-posteriori factor: our simplification).
  */
-import type { EcefM, EnuM, GnssSystem, SatId } from '../gnss/types.js';
-import { satSystem } from '../gnss/types.js';
-import type { ObsEpoch, SatObservations } from '../gnss/obs-types.js';
-import { carrierWavelengthM } from '../gnss/obs-codes.js';
+import type { EcefM, EnuM, GnssSystem, SatId } from '../gnss/index.js';
+import { satSystem } from '../gnss/index.js';
+import type { ObsEpoch, SatObservations } from '../gnss/index.js';
+import { carrierWavelengthM } from '../gnss/index.js';
 import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS, type SatelliteAtTransmission } from '../orbit/index.js';
 import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic } from '../geodesy/index.js';
 import { solveWeightedLeastSquaresSmall } from '../solve/index.js';
-import { primaryCodes } from '../observables/code-selection.js';
-import { PRIMARY_BAND, clockSignal } from '../observables/signals.js';
+import { primaryCodes } from '../observables/index.js';
+import { PRIMARY_BAND, clockSignal } from '../observables/index.js';
 
 export interface DopplerVelocityOptions {
   /** Satellites already computed for this epoch (position, velocity, clock at transmission), reused when present. */
