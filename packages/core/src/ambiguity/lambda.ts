@@ -13,6 +13,7 @@
  *
  * Matrices are dense, row-major Float64Array of n*n.
  */
+import { normalCdf } from '../solve/index.js';
 
 export interface IntegerSolution {
   /** Best integer vector (original ambiguity space). */
@@ -24,6 +25,12 @@ export interface IntegerSolution {
   readonly secondNorm: number;
   /** secondNorm / bestNorm (the ratio test statistic; Infinity when the best norm is 0). */
   readonly ratio: number;
+  /**
+   * Success rate of integer bootstrapping on the decorrelated ambiguities, prod(2 Phi(1 / (2 sqrt(d_i))) - 1)
+   * (Teunissen 1998, J. Geodesy 72:606-612): a lower bound of the integer least-squares success rate,
+   * from the formal covariance.
+   */
+  readonly successRate: number;
 }
 
 /** Q = L' D L. Returns null when Q is not positive definite. de Jonge & Tiberius 1996, section 3.3. */
@@ -210,5 +217,7 @@ export function lambdaSearch(a: Float64Array, q: Float64Array, n: number): Integ
   const second = backTransform(zm, r.candidates[1], n);
   for (let i = 0; i < n; i++) { best[i] = best[i] + shift[i] + 0; second[i] = second[i] + shift[i] + 0; }
   const [b, s2] = r.norms;
-  return { best, second, bestNorm: b, secondNorm: s2, ratio: b > 0 ? s2 / b : Infinity };
+  let successRate = 1;
+  for (let i = 0; i < n; i++) successRate *= 2 * normalCdf(1 / (2 * Math.sqrt(f.d[i]))) - 1;
+  return { best, second, bestNorm: b, secondNorm: s2, ratio: b > 0 ? s2 / b : Infinity, successRate };
 }

@@ -15,6 +15,8 @@ export interface PartialFixOptions {
   readonly ratioThreshold: number;
   /** Fewest ambiguities a fix may hold (a fix of fewer is refused). */
   readonly minFixed: number;
+  /** Least bootstrapped success rate of the subset (formal; 0 to test the ratio alone). */
+  readonly minSuccessRate?: number;
 }
 
 export interface PartialFix {
@@ -25,6 +27,7 @@ export interface PartialFix {
   readonly ratio: number;
   /** Squared norm of the best candidate. */
   readonly bestNorm: number;
+  readonly successRate: number;
 }
 
 export interface PartialFixFailure {
@@ -52,7 +55,9 @@ export function fixPartially(a: Float64Array, q: Float64Array, n: number, dropOr
     const r = lambdaSearch(sa, sq, m);
     if (r) {
       if (!(r.ratio <= bestRatio)) bestRatio = Number.isNaN(bestRatio) ? r.ratio : Math.max(bestRatio, r.ratio);
-      if (r.ratio >= options.ratioThreshold) return { indices: keep, integers: r.best, ratio: r.ratio, bestNorm: r.bestNorm };
+      if (r.ratio >= options.ratioThreshold && r.successRate >= (options.minSuccessRate ?? 0)) {
+        return { indices: keep, integers: r.best, ratio: r.ratio, bestNorm: r.bestNorm, successRate: r.successRate };
+      }
     }
     // Leave the next least trustworthy ambiguity float.
     while (dropAt < dropOrder.length && !keep.includes(dropOrder[dropAt])) dropAt++;
