@@ -18,7 +18,8 @@
  * Measurement noise per receiver sigma^2 = a^2 + b^2 / sin^2(el), doubled for the single difference.
  * Outliers: a code innovation beyond 5 sigma is not used; a phase innovation beyond 5 sigma on an arc whose
  * ambiguity is already known to better than 0.25 cycle is a slip the receivers did not flag: the arc's
- * ambiguity is started again.
+ * ambiguity is started again. No fix is tried in a disturbed epoch: one whose phase innovations fail their
+ * test, or in which more than half of the arcs start or end.
  *
  * Integer ambiguities: double differences per constellation against a pivot (the previous pivot while it
  * stays above the ambiguity mask, else the highest satellite), fixed with LAMBDA and the ratio test,
@@ -28,6 +29,7 @@
  * keeps it (fix-and-hold within arcs).
  */
 import { fixPartially } from '../ambiguity/index.js';
+import { chiSquareQuantile } from '../solve/index.js';
 import type { CarrierOptions } from './options.js';
 import type { EpochRecords } from './epoch-records.js';
 import type { GnssSystem, SatId } from '../types.js';
@@ -61,6 +63,8 @@ export class PassResult {
 export interface PassCounts {
   readonly unflaggedSlips: number;
   readonly codeOutliers: number;
+  /** Epochs whose phase innovations failed their test (left float). */
+  readonly disturbedEpochs: number;
 }
 
 const INITIAL_POSITION_VAR_M2 = 100;
@@ -211,7 +215,8 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
   const pivots = new Map<GnssSystem, number>();
   const holdCount = new Map<string, { value: number; count: number }>();
-  let unflaggedSlips = 0, codeOutliers = 0;
+  let unflaggedSlips = 0, codeOutliers = 0, disturbedEpochs = 0;
+  let arcsBefore = new Set<number>();
   let prev = -1;
   const idx: number[] = [];
   const val: number[] = [];
@@ -275,7 +280,8 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       used++;
       usedSys.add(sats[rec.sat[j]].system);
     }
-    // Phase.
+    // Phase. The normalised innovations of arcs already known are summed for the epoch's test.
+    let nis = 0, nisDof = 0;
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
       if (el < setup.elevationMaskRad || !Number.isFinite(rec.phaseM[j])) continue;
@@ -301,9 +307,23 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
         st.reset(slot, n0, (AMBIGUITY_SIGMA_M / lam) ** 2);
         for (const key of [...holdCount.keys()]) if (key.startsWith(`${arc}:`) || key.endsWith(`:${arc}`)) holdCount.delete(key);
         v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
-      }
+      } else if (st.p[slot * st.cap + slot] < 0.0625) { nis += (v * v) / s; nisDof++; }
       st.update(idx, val, v, r);
     }
+    // Sequential innovations are independent: their normalised squares sum to a chi-square with one degree
+    // of freedom each (the normalised innovation squared test, e.g. Bar-Shalom et al. 2001, 5.4). An epoch
+    // that fails it at 0.1 % holds a disturbance the slip tests did not catch: no fix is tried in it.
+    // Arc turnover: when more than half of the arcs start or end at once, the receiver's tracking was
+    // disturbed as a whole (shock, power, a shaded sky) and the arcs that kept lock are suspect too.
+    const arcsNow = new Set<number>();
+    for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= setup.elevationMaskRad) arcsNow.add(rec.arc[j]);
+    let turnover = 0;
+    for (const a of arcsNow) if (!arcsBefore.has(a)) turnover++;
+    for (const a of arcsBefore) if (!arcsNow.has(a)) turnover++;
+    const turned = arcsBefore.size > 0 && turnover > 0.5 * Math.max(arcsBefore.size, arcsNow.size);
+    arcsBefore = arcsNow;
+    const disturbed = turned || (nisDof > 0 && nis > chiSquareQuantile(0.999, nisDof));
+    if (disturbed) disturbedEpochs++;
     const ko = 3 * k, kc = 6 * k;
     out.satellitesUsed[k] = used;
     if (used < 4 + usedSys.size) { prev = k; continue; }
@@ -317,10 +337,10 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     flt.position.set(out.position.subarray(ko, ko + 3), ko);
     flt.covariance.set(out.covariance.subarray(kc, kc + 6), kc);
     flt.satellitesUsed[k] = used;
-    fixEpoch(k);
+    if (!disturbed) fixEpoch(k);
     prev = k;
   }
-  return { result: out, float: flt, counts: { unflaggedSlips, codeOutliers } };
+  return { result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } };
 
   /** Double differences of the epoch's fixable arcs, LAMBDA with partial fixing, conditioning and hold. */
   function fixEpoch(k: number): void {

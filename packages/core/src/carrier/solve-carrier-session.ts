@@ -335,7 +335,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     for (const k of r.kind) { if (k === 2) fixed++; else if (k === 1) float++; else none++; }
     return { fixed, float, none };
   };
-  notes.push(`filter: ${fwd.counts.unflaggedSlips + bwd.counts.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.counts.codeOutliers + bwd.counts.codeOutliers} code outliers left out (both passes)`);
+  notes.push(`filter: ${fwd.counts.unflaggedSlips + bwd.counts.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.counts.codeOutliers + bwd.counts.codeOutliers} code outliers left out, ${fwd.counts.disturbedEpochs + bwd.counts.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
 
   const gRef = ecefToGeodetic(refMark);
   const broadcastFrame = frame;
