@@ -207,7 +207,13 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   const sats = setup.satellites;
   const systems = [...new Set(sats.map((s) => s.system))];
   const clockSlot = new Map<GnssSystem, number>(systems.map((s, i) => [s, 3 + i]));
-  const st = new KalmanState(3 + systems.length);
+  // CDMA systems get a phase clock of their own (free every epoch, so still exactly double differences):
+  // some receivers step the code clock by milliseconds while the phase runs on. GLONASS phase keeps the
+  // code clock (see the file comment).
+  const cdma = systems.filter((s) => s !== 'R');
+  const phaseClockSlot = new Map<GnssSystem, number>(cdma.map((s, i) => [s, 3 + systems.length + i]));
+  if (clockSlot.has('R')) phaseClockSlot.set('R', clockSlot.get('R')!);
+  const st = new KalmanState(3 + systems.length + cdma.length);
   const arcSlot = new Map<number, number>();
   const arcSeen = new Map<number, number>();
   const out = new PassResult(rec.count);
@@ -261,6 +267,14 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       const samples: number[] = [];
       for (let j = j0; j < j1; j++) if (sats[rec.sat[j]].system === sys && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - geo(j));
       st.reset(slot, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
+      const ps = phaseClockSlot.get(sys)!;
+      if (ps === slot) continue;
+      const phase: number[] = [];
+      for (let j = j0; j < j1; j++) {
+        const a = arcSlot.get(rec.arc[j]);
+        if (a !== undefined && sats[rec.sat[j]].system === sys && Number.isFinite(rec.phaseM[j])) phase.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a]);
+      }
+      st.reset(ps, phase.length ? median(phase) : 0, CLOCK_VAR_M2);
     }
     let used = 0;
     const usedSys = new Set<GnssSystem>();
@@ -286,7 +300,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       const el = rec.elevationRad[j];
       if (el < setup.elevationMaskRad || !Number.isFinite(rec.phaseM[j])) continue;
       const info = sats[rec.sat[j]];
-      const cs = clockSlot.get(info.system)!;
+      const cs = phaseClockSlot.get(info.system)!;
       const lam = info.wavelengthM;
       const arc = rec.arc[j];
       const geoNow = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z));
