@@ -6,7 +6,11 @@ export type CarrierDynamics =
   | 'static'
   /** Antenna moving: position predicted from the Doppler velocity, or free per epoch without Doppler. */
   | 'kinematic'
-  /** Static between an occupation event (epoch flag 3) and a start-moving event (flag 2), kinematic otherwise. */
+  /**
+   * Static between an occupation event (epoch flag 3) and a start-moving event (flag 2), and before the
+   * first start-moving event (the antenna stood still until then, RINEX 3.05 6.4); kinematic otherwise
+   * (a file without events is taken as moving: safe for a static antenna, at the price of slower fixing).
+   */
   | 'auto';
 
 export interface CarrierOptions {

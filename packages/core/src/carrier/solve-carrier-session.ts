@@ -244,12 +244,19 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   let nextArc = 1;
   let maxBaselineM = 0;
   let epochsWithReference = 0;
+  let firstEvent: 'start-moving' | 'new-occupation' | null = null;
+  let firstMovingRecord = 0;
 
   for await (const e of rover.epochs) {
     if (e.event) {
       const ev = e.event;
       if (ev.kind === 'new-occupation') { pointName = (ev.markerName ?? '').trim() || pointName; pendingEvent = 'new-occupation'; occupied = true; }
-      if (ev.kind === 'start-moving') { pointName = ''; pendingEvent = 'start-moving'; occupied = false; }
+      if (ev.kind === 'start-moving') {
+        pointName = ''; pendingEvent = 'start-moving'; occupied = false;
+        // RINEX 3.05 6.4: the antenna starts moving at flag 2, so it stood still before the first one.
+        if (firstEvent === null) { firstEvent = 'start-moving'; firstMovingRecord = rec.count; }
+      }
+      if (ev.kind === 'new-occupation' && firstEvent === null) firstEvent = 'new-occupation';
       if (ev.antennaOffset && !options.roverAntenna) roverAntenna = ev.antennaOffset;
     }
     if (e.flag !== 0 && e.flag !== 1) continue;
@@ -260,6 +267,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     const isStatic = carrier.dynamics === 'static' || (carrier.dynamics === 'auto' && occupied);
     reasons.push(await prepareRoverEpoch(e, isStatic, context));
   }
+  if (carrier.dynamics === 'auto' && firstEvent === 'start-moving') rec.isStatic.fill(1, 0, firstMovingRecord);
   if (rec.count > 0 && epochsWithReference === 0) {
     throw new ProcessingError(`the rover and reference observations do not overlap in time (no reference epoch within ${carrier.maxReferenceAgeS} s of any rover epoch)`);
   }
