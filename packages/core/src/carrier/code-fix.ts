@@ -45,8 +45,19 @@ export function codeFixDeltas(rows: readonly CodeRow[], start: EcefM, maskRad: n
   const n = 3 + systems.length;
   let x = { ...start };
   const keep = rows.map((r) => Number.isFinite(r.codeM));
+  // Look angles and troposphere change with metres of position only in millimetres: computed at the start
+  // and again only after a step of more than 100 m.
+  let lookAt: EcefM | null = null;
+  const elevation = new Float64Array(rows.length), tropo = new Float64Array(rows.length);
   for (let iter = 0; iter < 6; iter++) {
-    const g = ecefToGeodetic(x);
+    if (lookAt === null || Math.hypot(x.x - lookAt.x, x.y - lookAt.y, x.z - lookAt.z) > 100) {
+      lookAt = x;
+      const g = ecefToGeodetic(x);
+      for (let i = 0; i < rows.length; i++) {
+        elevation[i] = azimuthElevation(x, rows[i].satM, g.latRad, g.lonRad).elevationRad;
+        tropo[i] = elevation[i] >= maskRad ? troposphereDelayM(g, elevation[i], doy) : 0;
+      }
+    }
     const a = new Float64Array(n * n);
     const b = new Float64Array(n);
     const res: number[] = [];
@@ -58,9 +69,9 @@ export function codeFixDeltas(rows: readonly CodeRow[], start: EcefM, maskRad: n
       const r = rows[i];
       const dx = r.satM.x - x.x, dy = r.satM.y - x.y, dz = r.satM.z - x.z;
       const rho = Math.sqrt(dx * dx + dy * dy + dz * dz);
-      const el = azimuthElevation(x, r.satM, g.latRad, g.lonRad).elevationRad;
+      const el = elevation[i];
       if (el < maskRad) continue;
-      const y = r.codeM - (rho - r.satClockM + troposphereDelayM(g, el, doy));
+      const y = r.codeM - (rho - r.satClockM + tropo[i]);
       const h = new Float64Array(n);
       h[0] = -dx / rho; h[1] = -dy / rho; h[2] = -dz / rho;
       const si = systems.indexOf(r.system);
@@ -77,12 +88,7 @@ export function codeFixDeltas(rows: readonly CodeRow[], start: EcefM, maskRad: n
     if (!solveNormal(n, a, b)) return null;
     x = { x: x.x + b[0], y: x.y + b[1], z: x.z + b[2] };
     const step = Math.hypot(b[0], b[1], b[2]);
-    if (step < 0.01) {
-      if (iter >= 1) return x;
-      // Outliers once, from the residuals at the converged position.
-      const sysClock = (i: number) => b[3 + systems.indexOf(rows[i].system)];
-      void sysClock;
-    }
+    if (step < 0.01 && iter >= 1) return x;
     if (iter === 2) {
       // Drop residuals beyond 5 robust sigma about the median (per constellation clocks are in the median's spread).
       const bySys = new Map<GnssSystem, number[]>();

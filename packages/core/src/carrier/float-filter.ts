@@ -139,22 +139,31 @@ class KalmanState {
 
   /** Sequential scalar update with a sparse row h, innovation v and measurement variance r. */
   update(idx: readonly number[], val: readonly number[], v: number, r: number): void {
-    const c = this.cap, p = this.p, ph = this.ph, act = this.active;
+    const c = this.cap, p = this.p, ph = this.ph, act = this.active, x = this.x;
+    const na = act.length, nh = idx.length;
     let s = r;
-    for (const i of act) {
+    for (let ai = 0; ai < na; ai++) {
+      const row = act[ai] * c;
       let t = 0;
-      for (let m = 0; m < idx.length; m++) t += p[i * c + idx[m]] * val[m];
-      ph[i] = t;
+      for (let m = 0; m < nh; m++) t += p[row + idx[m]] * val[m];
+      ph[act[ai]] = t;
     }
-    for (let m = 0; m < idx.length; m++) s += val[m] * ph[idx[m]];
+    for (let m = 0; m < nh; m++) s += val[m] * ph[idx[m]];
     if (!(s > 0)) return;
     const inv = 1 / s;
-    for (const i of act) this.x[i] += ph[i] * inv * v;
-    for (const i of act) {
+    // P - ph ph' / s, symmetric: the upper triangle is computed and mirrored.
+    for (let ai = 0; ai < na; ai++) {
+      const i = act[ai];
       const f = ph[i] * inv;
+      x[i] += f * v;
       if (f === 0) continue;
       const row = i * c;
-      for (const j of act) p[row + j] -= f * ph[j];
+      for (let aj = ai; aj < na; aj++) {
+        const j = act[aj];
+        const y = p[row + j] - f * ph[j];
+        p[row + j] = y;
+        p[j * c + i] = y;
+      }
     }
   }
 }
@@ -178,6 +187,45 @@ function choleskySolve(a: Float64Array, n: number, rhs: Float64Array[], ): boole
     for (let i = n - 1; i >= 0; i--) { let s = b[i]; for (let k = i + 1; k < n; k++) s -= a[k * n + i] * b[k]; b[i] = s / a[i * n + i]; }
   }
   return true;
+}
+
+/**
+ * Integer search around the ambiguities already held. A held ambiguity is within 0.01 cycle of an integer
+ * with a standard deviation below 0.01 cycle: rounding is its integer least-squares value (no other integer
+ * comes near). The others are conditioned on the held integers (a_o|h = a_o - Q_oh Q_hh^-1 (a_h - z_h),
+ * Q_o|h = Q_oo - Q_oh Q_hh^-1 Q_ho; Teunissen 1995, eq. 2.8) and searched alone, which is the same search
+ * with far fewer dimensions. Null when fewer than the minimum are held (the full search is then run).
+ */
+function fixAroundHeld(a: Float64Array, q: Float64Array, m: number, order: readonly number[], options: { ratioThreshold: number; minFixed: number; minSuccessRate: number }): { indices: number[]; integers: Float64Array; ratio: number; bestNorm: number; successRate: number } | null {
+  const held: number[] = [], other: number[] = [];
+  for (let u = 0; u < m; u++) (Math.abs(a[u] - Math.round(a[u])) <= 0.01 && q[u * m + u] < 1e-4 ? held : other).push(u);
+  if (held.length < options.minFixed) return null;
+  const h = held.length, o = other.length;
+  const heldInts = held.map((u) => Math.round(a[u]));
+  if (o === 0) return { indices: held, integers: Float64Array.from(heldInts), ratio: Infinity, bestNorm: 0, successRate: 1 };
+  const qhh = new Float64Array(h * h);
+  for (let i = 0; i < h; i++) for (let j = 0; j < h; j++) qhh[i * h + j] = q[held[i] * m + held[j]];
+  const d = Float64Array.from(held, (u, i) => a[u] - heldInts[i]);
+  const cols = other.map((w) => Float64Array.from(held, (u) => q[u * m + w]));
+  const rhs = [d, ...cols.map((c) => Float64Array.from(c))];
+  if (!choleskySolve(qhh, h, rhs)) return null;
+  const ac = new Float64Array(o), qc = new Float64Array(o * o);
+  for (let i = 0; i < o; i++) {
+    let s = 0;
+    for (let k = 0; k < h; k++) s += cols[i][k] * rhs[0][k];
+    ac[i] = a[other[i]] - s;
+    for (let j = 0; j < o; j++) {
+      let t = 0;
+      for (let k = 0; k < h; k++) t += cols[i][k] * rhs[1 + j][k];
+      qc[i * o + j] = q[other[i] * m + other[j]] - t;
+    }
+  }
+  const subOrder = order.filter((u) => other.includes(u)).map((u) => other.indexOf(u));
+  const r = fixPartially(ac, qc, o, subOrder, { ...options, minFixed: 1 });
+  if (!('integers' in r)) return { indices: held, integers: Float64Array.from(heldInts), ratio: Infinity, bestNorm: 0, successRate: 1 };
+  const indices = [...held, ...r.indices.map((i) => other[i])];
+  const integers = Float64Array.from([...heldInts, ...r.integers]);
+  return { indices, integers, ratio: r.ratio, bestNorm: r.bestNorm, successRate: r.successRate };
 }
 
 /** Median spacing of the epochs (s): the logging interval. */
@@ -220,7 +268,9 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   const flt = new PassResult(rec.count);
   const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
   const pivots = new Map<GnssSystem, number>();
-  const holdCount = new Map<string, { value: number; count: number }>();
+  const holdCount = new Map<number, { value: number; count: number }>();
+  /** Key of a double difference (arc, pivot arc); arcs are numbered below 2^26. */
+  const pairKey = (arcI: number, arcP: number): number => arcI * 67_108_864 + arcP;
   let unflaggedSlips = 0, codeOutliers = 0, disturbedEpochs = 0;
   let arcsBefore = new Set<number>();
   let prev = -1;
@@ -319,7 +369,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       if (v * v > 25 * s && st.p[slot * st.cap + slot] < 0.0625) {
         unflaggedSlips++;
         st.reset(slot, n0, (AMBIGUITY_SIGMA_M / lam) ** 2);
-        for (const key of [...holdCount.keys()]) if (key.startsWith(`${arc}:`) || key.endsWith(`:${arc}`)) holdCount.delete(key);
+        for (const key of [...holdCount.keys()]) if (Math.floor(key / 67_108_864) === arc || key % 67_108_864 === arc) holdCount.delete(key);
         v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
       } else if (st.p[slot * st.cap + slot] < 0.0625) { nis += (v * v) / s; nisDof++; }
       st.update(idx, val, v, r);
@@ -391,7 +441,8 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       }
     }
     const order = dd.map((_, u) => u).sort((u, w) => dd[u].el - dd[w].el);
-    const fix = fixPartially(a, q, m, order, { ratioThreshold: opt.ratioThreshold, minFixed: opt.minFixedAmbiguities, minSuccessRate: opt.minSuccessRate });
+    const fixOptions = { ratioThreshold: opt.ratioThreshold, minFixed: opt.minFixedAmbiguities, minSuccessRate: opt.minSuccessRate };
+    const fix = fixAroundHeld(a, q, m, order, fixOptions) ?? fixPartially(a, q, m, order, fixOptions);
     out.ratio[k] = fix.ratio;
     if (!('integers' in fix)) return;
     const sub = fix.indices;
@@ -421,18 +472,22 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     out.kind[k] = 2;
     out.fixedAmbiguities[k] = ns;
     // Fix-and-hold.
-    const seen = new Set<string>();
+    const seen = new Set<number>();
     for (let u = 0; u < ns; u++) {
       const e = dd[sub[u]];
-      const key = `${e.arcI}:${e.arcP}`;
+      const key = pairKey(e.arcI, e.arcP);
       seen.add(key);
       const h = holdCount.get(key);
       const value = fix.integers[u];
       const count = h && h.value === value ? h.count + 1 : 1;
       holdCount.set(key, { value, count });
       if (count >= opt.holdAfterEpochs) {
-        const ii = [e.i, e.p], vv = [1, -1];
-        st.update(ii, vv, value - (st.x[e.i] - st.x[e.p]), HOLD_VAR_CYCLES2);
+        // Already held to well below the constraint's precision: nothing to add.
+        const c2 = st.cap;
+        const v2 = st.p[e.i * c2 + e.i] - 2 * st.p[e.i * c2 + e.p] + st.p[e.p * c2 + e.p];
+        const miss = value - (st.x[e.i] - st.x[e.p]);
+        if (v2 < 10 * HOLD_VAR_CYCLES2 && Math.abs(miss) < 0.005) continue;
+        st.update([e.i, e.p], [1, -1], miss, HOLD_VAR_CYCLES2);
       }
     }
     for (const key of [...holdCount.keys()]) if (!seen.has(key)) holdCount.delete(key);

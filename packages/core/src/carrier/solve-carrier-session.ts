@@ -337,6 +337,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier };
   const fwd = runPass(rec, setup, 1);
   const bwd = runPass(rec, setup, -1);
+  (globalThis as Record<string, unknown>).__carrierPasses = () => ({ fwd, bwd, rec });
   const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM);
   const shares = (r: PassResult): PassShares => {
     let fixed = 0, float = 0, none = 0;
