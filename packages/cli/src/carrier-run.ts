@@ -137,7 +137,7 @@ export function carrierSummaryJson(c: CarrierSummary, options: CarrierOptions): 
     passes: { forward: share(c.forward), backward: share(c.backward), combined: share(c.combined) },
     fixable_systems: c.fixableSystems,
     arcs_started: c.slips,
-    baseline_length_max_m: Math.round(c.baselineLengthM * 1000) / 1000,
+    baseline_length_median_m: Number.isFinite(c.baselineLengthM) ? Math.round(c.baselineLengthM * 1000) / 1000 : null,
     options: {
       ratio_threshold: options.ratioThreshold, min_success_rate: options.minSuccessRate, ambiguity_mask_deg: options.ambiguityMaskDeg,
       min_fixed_ambiguities: options.minFixedAmbiguities, dynamics: options.dynamics, glonass_fix: options.glonassFix,

@@ -89,6 +89,7 @@ export interface CarrierSummary {
   readonly fixableSystems: readonly GnssSystem[];
   /** Arcs started per cause at each receiver (arc-tracker.ts). */
   readonly slips: { readonly rover: Readonly<Record<string, number>>; readonly reference: Readonly<Record<string, number>> };
+  /** Median antenna-to-antenna distance of the solved epochs (m). */
   readonly baselineLengthM: number;
   readonly notes: readonly string[];
   /** Memory of the prepared records (bytes). */
@@ -391,13 +392,20 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   }
 
   const recordBytes = rec.count * 80 + rec.satTotal * 40;
+  const lengths: number[] = [];
+  for (let k = 0; k < rec.count; k++) {
+    if (combined.kind[k] === 0) continue;
+    lengths.push(Math.hypot(combined.position[3 * k] - refArp.x, combined.position[3 * k + 1] - refArp.y, combined.position[3 * k + 2] - refArp.z));
+  }
+  lengths.sort((a, b) => a - b);
+  const baselineLengthM = lengths.length ? lengths[lengths.length >> 1] : NaN;
   return {
     epochs: run(),
     summary: (): CarrierSummary => ({
       frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
       epochsRover: rec.count, forward: shares(fwd.result), backward: shares(bwd.result), combined: shares(combined),
       fixableSystems: [...fixable], slips: { rover: { ...roverTracker.causes }, reference: { ...refTracker.causes } },
-      baselineLengthM: maxBaselineM, notes, recordBytes,
+      baselineLengthM, notes, recordBytes,
     }),
   };
 }
