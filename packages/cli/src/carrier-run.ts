@@ -111,6 +111,8 @@ export async function runCarrierSession(
         systemsUsed: [...systems],
         notes: [...c.notes, carrierSharesSentence(c)],
         firstGpsS: first, lastGpsS: last,
+        // The carrier engine estimates no code offsets; it reads the inputs once (forward and backward passes run on its records).
+        codeOffsets: [], passes: 1,
       };
     },
   };

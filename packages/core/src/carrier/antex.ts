@@ -10,7 +10,7 @@
  * e . PCO - PCV is added to a phase measurement to refer it to the antenna reference point.
  */
 import { InputError } from '../errors.js';
-import type { GnssSystem } from '../types.js';
+import type { GnssSystem } from '../gnss/index.js';
 
 export interface FrequencyCalibration {
   /** Phase-centre offset north, east, up (m). */

@@ -15,7 +15,7 @@
  *    divergence of a few cm/s cannot reach the limit; common practice).
  * The tests on a double difference against geometry are done by the filter (float-filter.ts).
  */
-import type { SatId } from '../types.js';
+import type { SatId } from '../gnss/index.js';
 
 interface ArcState {
   arc: number;

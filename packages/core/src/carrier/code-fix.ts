@@ -4,9 +4,9 @@
  * relative clock per constellation. Weights sin^2(el) (common practice); residuals beyond 5 robust sigma
  * (1.4826 MAD, at least 1 m) are dropped once. Null when fewer satellites than unknowns + 1.
  */
-import type { EcefM, GnssSystem } from '../types.js';
+import type { EcefM, GnssSystem } from '../gnss/index.js';
 import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
-import { troposphereDelayM } from '../positioning/atmosphere-model.js';
+import { troposphereDelayM } from '../observables/index.js';
 
 export interface CodeRow {
   readonly system: GnssSystem;

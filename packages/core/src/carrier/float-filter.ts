@@ -32,7 +32,7 @@ import { fixPartially } from '../ambiguity/index.js';
 import { chiSquareQuantile } from '../solve/index.js';
 import type { CarrierOptions } from './options.js';
 import type { EpochRecords } from './epoch-records.js';
-import type { GnssSystem, SatId } from '../types.js';
+import type { GnssSystem, SatId } from '../gnss/index.js';
 
 export interface SatelliteInfo {
   readonly id: SatId;

@@ -4,14 +4,14 @@
  * that geometry is computed at the epoch's estimated GPS time, not at its receiver-time tag
  * (IS-GPS-200 20.3.3.4.3.3.2; see positioning/satellite-for-tag.ts).
  */
-import type { EcefM, GnssSystem, SatId } from '../types.js';
-import { satSystem } from '../types.js';
-import type { ObsEpoch, SatObservations } from '../rinex/obs-types.js';
-import type { Ephemeris } from '../rinex/nav-types.js';
-import { carrierWavelengthM, pseudorangePriority } from '../rinex/obs-codes.js';
+import type { EcefM, GnssSystem, SatId } from '../gnss/index.js';
+import { satSystem } from '../gnss/index.js';
+import type { ObsEpoch, SatObservations } from '../gnss/index.js';
+import type { Ephemeris } from '../gnss/index.js';
+import { carrierWavelengthM, pseudorangePriority } from '../gnss/index.js';
 import { EphemerisStore, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
-import { satelliteForTag } from '../positioning/satellite-for-tag.js';
-import { clockSignal, PRIMARY_BAND } from '../positioning/signals.js';
+import { satelliteForTag } from '../observables/index.js';
+import { clockSignal, PRIMARY_BAND } from '../observables/index.js';
 
 export interface ReceiverSat {
   readonly sat: SatId;

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { ReferencePhaseBuffer, type ReferencePhaseEpoch } from './reference-phase.js';
-import type { Ephemeris } from '../rinex/nav-types.js';
+import type { Ephemeris } from '../gnss/index.js';
 
 const eph = {} as Ephemeris;
 const ep = (t: number, arcs: Record<string, number>): ReferencePhaseEpoch => ({

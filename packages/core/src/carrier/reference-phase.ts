@@ -15,12 +15,12 @@
  * is the change over the interval of the orbit, satellite-clock and atmospheric errors: millimetres for a
  * few seconds.
  */
-import type { GeodeticRad, SatId } from '../types.js';
-import type { Ephemeris } from '../rinex/nav-types.js';
+import type { GeodeticRad, SatId } from '../gnss/index.js';
+import type { Ephemeris } from '../gnss/index.js';
 import type { ReceiverEpoch } from './receiver-epoch.js';
 import { azimuthElevation } from '../geodesy/index.js';
-import { dayOfYear, troposphereDelayM } from '../positioning/atmosphere-model.js';
-import type { EcefM } from '../types.js';
+import { dayOfYear, troposphereDelayM } from '../observables/index.js';
+import type { EcefM } from '../gnss/index.js';
 
 export interface ReferenceSat {
   readonly phaseM: number;

@@ -24,17 +24,17 @@
  * biases of FDMA signals then cancel, e.g. Wanninger 2012, GPS Solutions 16:439-448); between unlike
  * receivers they stay float (they still help the float solution).
  */
-import type { EcefM, FrameEpoch, FramedEcef, GnssSystem, SatId } from '../types.js';
-import { satSystem, SYSTEM_NAMES } from '../types.js';
-import type { AntennaOffset, ObsEpoch, ObsStream } from '../rinex/obs-types.js';
-import type { NavData } from '../rinex/nav-types.js';
+import type { EcefM, FrameEpoch, FramedEcef, GnssSystem, SatId } from '../gnss/index.js';
+import { satSystem, SYSTEM_NAMES } from '../gnss/index.js';
+import type { AntennaOffset, ObsEpoch, ObsStream } from '../gnss/index.js';
+import type { NavData } from '../gnss/index.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
 import { EphemerisStore } from '../orbit/index.js';
-import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic } from '../geodesy/index.js';
+import { arpToMark, azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, markToArp } from '../geodesy/index.js';
 import { decimalYearFromGpsS } from '../time/index.js';
-import { dayOfYear, troposphereDelayM } from '../positioning/atmosphere-model.js';
+import { dayOfYear, troposphereDelayM } from '../observables/index.js';
 import { dopplerVelocity } from '../velocity/index.js';
-import { arpToMark, joinReferenceStreams, markToArp, type EpochSolution, type SessionOptions } from '../session/index.js';
+import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '../session/index.js';
 import { ArcTracker } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
 import { ReferencePhaseBuffer, reduceReferenceEpoch } from './reference-phase.js';
