@@ -40,7 +40,7 @@ function solveNormal(n: number, a: Float64Array, b: Float64Array): boolean {
   return true;
 }
 
-export function codeFixDeltas(rows: readonly CodeRow[], start: EcefM, maskRad: number, doy: number): EcefM | null {
+export function codeFixPosition(rows: readonly CodeRow[], start: EcefM, maskRad: number, doy: number): EcefM | null {
   const systems = [...new Set(rows.map((r) => r.system))];
   const n = 3 + systems.length;
   let x = { ...start };
@@ -49,7 +49,8 @@ export function codeFixDeltas(rows: readonly CodeRow[], start: EcefM, maskRad: n
   // and again only after a step of more than 100 m.
   let lookAt: EcefM | null = null;
   const elevation = new Float64Array(rows.length), tropo = new Float64Array(rows.length);
-  for (let iter = 0; iter < 6; iter++) {
+  let screened = false;
+  for (let iter = 0; iter < 8; iter++) {
     if (lookAt === null || Math.hypot(x.x - lookAt.x, x.y - lookAt.y, x.z - lookAt.z) > 100) {
       lookAt = x;
       const g = ecefToGeodetic(x);
@@ -88,8 +89,10 @@ export function codeFixDeltas(rows: readonly CodeRow[], start: EcefM, maskRad: n
     if (!solveNormal(n, a, b)) return null;
     x = { x: x.x + b[0], y: x.y + b[1], z: x.z + b[2] };
     const step = Math.hypot(b[0], b[1], b[2]);
-    if (step < 0.01 && iter >= 1) return x;
-    if (iter === 2) {
+    const converged = step < 0.01 && iter >= 1;
+    if (converged && screened) return x;
+    if (converged || iter === 4) {
+      screened = true;
       // Drop residuals beyond 5 robust sigma about the median (per constellation clocks are in the median's spread).
       const bySys = new Map<GnssSystem, number[]>();
       for (let q = 0; q < res.length; q++) {
@@ -105,6 +108,7 @@ export function codeFixDeltas(rows: readonly CodeRow[], start: EcefM, maskRad: n
         const mad = Math.max(1, 1.4826 * med(l.map((v) => Math.abs(v - m))));
         for (let q = 0; q < res.length; q++) if (rows[resIdx[q]].system === s && Math.abs(res[q] - m) > 5 * mad) keep[resIdx[q]] = false;
       }
+      if (converged && keep.every((k, i) => k || !Number.isFinite(rows[i].codeM))) return x;
     }
   }
   return x;

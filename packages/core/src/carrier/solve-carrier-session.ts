@@ -43,7 +43,7 @@ import { runPass, type PassResult, type SatelliteInfo } from './float-filter.js'
 import { combinePasses } from './combine-passes.js';
 import type { CarrierOptions } from './options.js';
 import { antennaCorrectionM, findAntenna, type AntexData } from './antex.js';
-import { codeFixDeltas } from './code-fix.js';
+import { codeFixPosition } from './code-fix.js';
 
 export interface CarrierInputs {
   readonly rover: ObsStream;
@@ -299,7 +299,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       both.push({ s, ra });
     }
     const doy = dayOfYear(t);
-    const fix = codeFixDeltas(both.map(({ s, ra }) => ({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM })), x0, maskRad, doy);
+    const fix = codeFixPosition(both.map(({ s, ra }) => ({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM })), x0, maskRad, doy);
     if (fix) x0 = fix;
     const g0 = ecefToGeodetic(x0);
     const k = rec.beginEpoch(t, e.tagGpsS, x0, isStatic, al.ageS, context);
