@@ -4,8 +4,10 @@
 //   Part 2: engine on a simulated session (rover 1 Hz, reference 30 s, GPS + Galileo): end-to-end epochs/s,
 //           the solve step alone, the two WLS implementations, and peak memory for 1 h and 24 h, each job
 //           in a fresh child process (bench/engine-run.mjs).
+//   Part 3: carrier phase (bench/carrier-run.mjs): a simulated day at 1 Hz, both passes.
 // A script, not a test. Options: --part1 / --part2 (only one part), --hours-long N (default 24),
-// --throughput-hours N (length of the simulated session timed end to end; default 24, a full day).
+// --throughput-hours N (length of the simulated session timed end to end; default 24, a full day),
+// --carrier-hours N (default 24), --no-carrier.
 import { fork } from 'node:child_process';
 import { resolve } from 'node:path';
 import os from 'node:os';
@@ -91,6 +93,22 @@ if (only !== 1) {
   const rssRatio = long.kernelMaxRssMB / short.kernelMaxRssMB, heapRatio = long.peakHeapMB / short.peakHeapMB;
   verdict(`peak RSS ${longHours} h / 1 h (two passes)`, `${fmt(rssRatio, 2)}x`, '<= 1.3x', rssRatio <= 1.3);
   verdict(`peak heap ${longHours} h / 1 h`, `${fmt(heapRatio, 2)}x`, '<= 1.5x', heapRatio <= 1.5);
+}
+
+if (only !== 1 && !args.includes('--no-carrier')) {
+  const cIdx = args.indexOf('--carrier-hours');
+  const carrierHours = cIdx >= 0 ? Number(args[cIdx + 1]) : 24;
+  console.log(`== Part 3: carrier phase on a simulated session (${carrierHours} h, rover 1 Hz, reference 30 s, GPS + Galileo: the simulator has no GLONASS) ==`);
+  const c = await new Promise((res, rej) => {
+    const child = fork(resolve(ROOT, 'bench/carrier-run.mjs'), [String(carrierHours)], { execArgv: ['--expose-gc'], stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
+    let out = null;
+    child.on('message', (m) => { out = m; });
+    child.on('error', rej);
+    child.on('exit', (code) => (out ? res(out) : rej(new Error(`carrier-run exited with code ${code} and no result`))));
+  });
+  const pct = (p) => `${fmt(100 * p.fixed / c.epochs, 1)} %`;
+  console.log(`${fmt(c.epochs)} rover epochs: read + records + forward + backward + combination in ${fmt(c.wallMs / 1000, 1)} s wall, ${fmt(c.cpuMs / 1000, 1)} s CPU; fixed forward ${pct(c.forward)}, backward ${pct(c.backward)}, combined ${pct(c.combined)}; records ${fmt(c.recordMB, 1)} MB; peak RSS ${fmt(c.peakRssMB, 0)} MB\n`);
+  verdict(`carrier phase, ${carrierHours} h at 1 Hz, both passes (CPU)`, `${fmt(c.cpuMs / 1000, 1)} s`, '<= 60 s for 24 h', carrierHours === 24 ? c.cpuMs <= 60000 : null);
 }
 
 console.log('== Targets ==');

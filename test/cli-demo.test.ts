@@ -20,7 +20,7 @@ describe('refdelta solve on the demo scenario', () => {
     if (!existsSync(DEMO('rover-1s.obs'))) throw new Error('fixtures/demo/ is missing: the demo scenario files are part of the repository');
     out = tempDir('rd-demo-');
     run = runCli([
-      'solve', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
+      'solve', '--carrier-phase', 'off', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
       '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--at-antenna', '--out', out, '--json-lines',
     ]);
   });

@@ -9,10 +9,19 @@ import { epochColumns, epochRow, frameEpochText, type EpochSolution, type GnssSy
 
 const BEFORE = 'latitude_deg';
 
+/** Carrier-phase columns, last: the ratio test statistic and the number of fixed ambiguities (empty for code rows). */
+const CARRIER_COLUMNS = ['ratio', 'fixed_ambiguities'];
+
 export function epochTableColumns(systems: readonly GnssSystem[]): string[] {
   const c = epochColumns(systems);
   const i = c.indexOf(BEFORE);
-  return [...c.slice(0, i), 'frame', 'frame_epoch', ...c.slice(i)];
+  return [...c.slice(0, i), 'frame', 'frame_epoch', ...c.slice(i), ...CARRIER_COLUMNS];
+}
+
+function carrierCells(s: EpochSolution): string[] {
+  const c = s as EpochSolution & { ratio?: number; fixedAmbiguities?: number };
+  if (c.fixedAmbiguities === undefined) return ['', ''];
+  return [Number.isFinite(c.ratio) ? (c.ratio! >= 1e4 ? '>10000' : c.ratio!.toFixed(2)) : '', String(c.fixedAmbiguities)];
 }
 
 /** One row aligned with epochTableColumns(systems); frame cells are empty when the epoch has no position. */
@@ -20,7 +29,7 @@ export function epochTableRow(s: EpochSolution, systems: readonly GnssSystem[]):
   const r = epochRow(s, systems);
   const i = epochColumns(systems).indexOf(BEFORE);
   const f = s.position && s.kind !== 'none' ? s.position.frame : null;
-  return [...r.slice(0, i), f ? f.name : '', f ? frameEpochText(f.epochYear) : '', ...r.slice(i)];
+  return [...r.slice(0, i), f ? f.name : '', f ? frameEpochText(f.epochYear) : '', ...r.slice(i), ...carrierCells(s)];
 }
 
 /** The preamble line that says which rows are in another frame (only when standalone rows can occur). */

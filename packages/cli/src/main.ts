@@ -11,6 +11,7 @@ import { runInspect } from './commands/inspect.js';
 import { runPoints, type PointsArgs } from './commands/points.js';
 import { runCheck, type CheckArgs } from './commands/check.js';
 import { runBatch, type BatchArgs } from './commands/batch.js';
+import { defineCarrierOptions } from './carrier-run.js';
 import { defineProcessingOptions, definePointsOptions, defineSolveOptions, pointsArgsFrom, solveArgsFrom } from './solve-option-definitions.js';
 import { describeFailure } from './failure-sentence.js';
 import { EXIT_OK, EXIT_USAGE } from './exit-codes.js';
@@ -69,7 +70,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
       'solve',
       'position the rover epoch by epoch against the reference receiver(s)',
       (c) => {
-        defineSolveOptions(c);
+        defineCarrierOptions(defineSolveOptions(c));
         for (const [cmd, what] of SOLVE_EXAMPLES) c.example(cmd, what);
         return c;
       },

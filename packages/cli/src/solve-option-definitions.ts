@@ -6,6 +6,7 @@
 import type { Argv } from 'yargs';
 import type { SolveArgs } from './commands/solve.js';
 import type { PointsArgs } from './commands/points.js';
+import { carrierArgsFrom } from './carrier-run.js';
 
 /** The files of one session (solve, points) and every processing option. */
 export function defineSolveOptions<T>(c: Argv<T>): Argv<T> {
@@ -55,6 +56,7 @@ export function solveArgsFrom(a: Record<string, unknown>): SolveArgs {
     heightKind: a.heightKind, antennaRadius: a.antennaRadius, slantOffset: a.slantOffset, atAntenna: a.atAntenna, elevationMask: a.elevationMask,
     weights: a.weights, sigmaA: a.sigmaA, sigmaB: a.sigmaB, smooth: a.smooth, smoothReference: a.smoothReference, systems: a.systems, glonass: a.glonass,
     maxAge: a.maxAge, fallbackStandalone: a.fallbackStandalone, quiet: a.quiet === true, jsonLines: a.jsonLines === true,
+    ...carrierArgsFrom(a),
   };
 }
 

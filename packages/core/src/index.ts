@@ -34,3 +34,5 @@ export * from './report/points-table.js';
 export * from './report/points-csv.js';
 export * from './report/control-check.js';
 export * from './report/control-report.js';
+export * from './ambiguity/index.js';
+export * from './carrier/index.js';

@@ -24,8 +24,9 @@ import { UsageError } from '../usage-error.js';
 import { SOFTWARE } from '../software.js';
 import { epochTableColumns, epochTableRow, standaloneFrameNote } from '../epoch-table.js';
 import { warningsSummary } from '../warnings-summary.js';
+import { carrierSharesSentence, carrierSummaryJson, isCarrierKind, parseCarrierChoice, runCarrierSession, type CarrierArgs } from '../carrier-run.js';
 
-export interface SolveArgs extends ReferenceArgs, SolveOptionArgs {
+export interface SolveArgs extends ReferenceArgs, SolveOptionArgs, CarrierArgs {
   readonly rover: string;
   /** --ref-sigma H[,V] (reference-sigma.ts). */
   readonly refSigma?: unknown;
@@ -137,6 +138,8 @@ export interface StagedSolve {
   readonly set: OutputSet;
   readonly kinds: readonly OutputKind[];
   readonly summary: SessionSummary;
+  /** The fix shares of a carrier-phase run (a sentence), else null. */
+  readonly carrierShares: string | null;
   readonly frame: FrameEpoch;
   readonly pointReference: PointReference;
   readonly roverHeader: ObsHeader;
@@ -219,7 +222,9 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     for (const p of a.reference) again.push(await openObs(p, () => {}));
     return { rover: await openObs(a.rover, () => {}), references: again };
   };
-  const run = await solveSession({ rover, references, nav, onWarning: rep.warn, reopen }, options);
+  const carrier = parseCarrierChoice(a, hooks.command ?? 'solve', rover.header, references[0].header, options);
+  const carrierRun = carrier.on ? await runCarrierSession({ rover, references, nav, onWarning: rep.warn }, options, carrier) : null;
+  const run = carrierRun ?? await solveSession({ rover, references, nav, onWarning: rep.warn, reopen }, options);
 
   const pointReference: PointReference = options.reduceToMark ? 'ground-mark' : 'antenna-reference-point';
   const roverSystems = Object.keys(rover.header.obsCodes) as GnssSystem[];
@@ -237,7 +242,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
       n++;
       await outputs.add(s, clockSystems);
       hooks.onEpoch?.(s);
-      if (s.position && (s.kind === 'differential' || s.kind === 'smoothed')) positions.push(s.position.ecef);
+      if (s.position && (s.kind === 'differential' || s.kind === 'smoothed' || isCarrierKind(s.kind))) positions.push(s.position.ecef);
       else if (s.position && s.kind === 'standalone') standalone.push(s.position.ecef);
       rep.progress(n, (s.tagGpsS - roverSpan.firstGpsS) / spanS);
     }
@@ -260,16 +265,20 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     const scatter = positions.length
       ? { over: 'differential and smoothed epochs', stats: positionScatter(positions) }
       : standalone.length ? { over: 'standalone epochs (no differential epoch)', stats: positionScatter(standalone) } : undefined;
-    const solvedEpochs = summary.epochsByKind.differential + summary.epochsByKind.smoothed + summary.epochsByKind.standalone;
+    const solvedEpochs = summary.epochsRover - summary.epochsByKind.none;
     const top = summary.epochRejections[0]?.reason;
     const failure = solvedEpochs === 0 ? `no rover epoch of ${a.rover} could be solved${top ? `: most epochs were rejected because of "${top}"` : ''}` : null;
     const summaryDoc = (outs: readonly OutputFileRecord[]): Record<string, unknown> => {
       const doc = summaryJson(summary, inputs, options, outs, {
         scatter, software: SOFTWARE, createdUtc: new Date().toISOString(), warnings: rep.warnings, referenceNote: ref.note, referenceSource: ref.source,
       });
-      return { ...doc, reference: { ...(doc.reference as object), sigma_horizontal_m: referenceSigma.horizontalM, sigma_vertical_m: referenceSigma.verticalM, sigma_source: referenceSigma.source }, warnings: warningsSummary(rep) };
+      return {
+        ...doc, reference: { ...(doc.reference as object), sigma_horizontal_m: referenceSigma.horizontalM, sigma_vertical_m: referenceSigma.verticalM, sigma_source: referenceSigma.source },
+        ...(carrierRun ? { carrier_phase: carrierSummaryJson(carrierRun.carrierSummary(), carrier.options) } : {}), warnings: warningsSummary(rep),
+      };
     };
-    return { outDir, set, kinds, summary, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma };
+    const carrierShares = carrierRun ? carrierSharesSentence(carrierRun.carrierSummary()) : null;
+    return { outDir, set, kinds, summary, carrierShares, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma };
   } catch (e) {
     await set.abort();
     throw e;
@@ -306,7 +315,8 @@ export async function commitStagedSolve(st: StagedSolve, rep: Reporter): Promise
 export function reportSolveCounts(st: StagedSolve, rep: Reporter): void {
   const k = st.summary.epochsByKind;
   rep.warningTail(st.kinds.includes('summary') ? join(st.outDir, OUTPUT_FILE_NAMES.summary) : 'the warnings above');
-  rep.info(`${st.summary.epochsRover} rover epochs: ${k.differential} differential, ${k.smoothed} smoothed, ${k.standalone} standalone, ${k.none} without a solution`);
+  if (st.carrierShares) rep.info(`${st.summary.epochsRover} rover epochs: ${st.carrierShares}; ${k.none} without a solution`);
+  else rep.info(`${st.summary.epochsRover} rover epochs: ${k.differential} differential, ${k.smoothed} smoothed, ${k.standalone} standalone, ${k.none} without a solution`);
   rep.info(`frame: ${st.frame.name} epoch ${frameEpochText(st.frame.epochYear)}; positions refer to the ${pointReferenceWords(st.pointReference)}`);
 }
 

@@ -1,0 +1,149 @@
+/**
+ * The carrier-phase options of `solve` and the run adapted to the code engine's outputs: epochs carry the
+ * kinds 'fixed' and 'float' (or 'none'), with the ratio and the number of fixed ambiguities, and the
+ * summary gives the fix shares of each pass.
+ */
+import { readFile } from 'node:fs/promises';
+import type { Argv } from 'yargs';
+import {
+  readAntex, solveCarrierSession, withCarrierDefaults,
+  type AntexData, type CarrierDynamics, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary, type EpochSolution,
+  type GnssSystem, type NavData, type ObsHeader, type ObsStream, type SessionOptions, type SessionSummary, type SolutionKind, type WarningSink,
+} from '@refdelta/core';
+import { parseChoice, parseNumber } from './parse-values.js';
+import { requireFile } from './node-io.js';
+import { UsageError } from './usage-error.js';
+
+export interface CarrierArgs {
+  readonly carrierPhase?: unknown;
+  readonly ratioThreshold?: unknown;
+  readonly ambiguityMask?: unknown;
+  readonly dynamics?: unknown;
+  readonly antennas?: unknown;
+}
+
+export function defineCarrierOptions<T>(c: Argv<T>): Argv<T> {
+  return c.option('carrier-phase', { type: 'string', describe: 'on | off: centimetre solutions from carrier phase with integer ambiguities (default: on when both receivers recorded phase)', group: 'Carrier phase:' })
+    .option('ratio-threshold', { type: 'string', describe: 'ratio test threshold for integer ambiguities, default 3', group: 'Carrier phase:' })
+    .option('ambiguity-mask', { type: 'string', describe: 'elevation mask for fixing ambiguities (deg), default 15', group: 'Carrier phase:' })
+    .option('dynamics', { type: 'string', describe: 'auto | static | kinematic (auto: static between occupation events, moving otherwise)', group: 'Carrier phase:' })
+    .option('antennas', { type: 'string', describe: 'antenna calibrations (ANTEX file) for the antenna types in the RINEX headers', group: 'Carrier phase:' }) as Argv<T>;
+}
+
+export function carrierArgsFrom(a: Record<string, unknown>): CarrierArgs {
+  return { carrierPhase: a.carrierPhase, ratioThreshold: a.ratioThreshold, ambiguityMask: a.ambiguityMask, dynamics: a.dynamics, antennas: a.antennas };
+}
+
+/** Whether a header lists a carrier-phase observation. */
+export function recordsPhase(h: ObsHeader): boolean {
+  return Object.values(h.obsCodes).some((codes) => (codes ?? []).some((c) => c[0] === 'L'));
+}
+
+export interface CarrierChoice {
+  readonly on: boolean;
+  readonly options: CarrierOptions;
+  readonly antennasPath: string | null;
+}
+
+/**
+ * The carrier-phase choice from the command line. Not given: on when both headers list phase and no
+ * code-only processing was asked for (--smooth, --fallback-standalone).
+ */
+export function parseCarrierChoice(a: CarrierArgs, command: string, rover: ObsHeader, reference: ObsHeader, session: SessionOptions): CarrierChoice {
+  const given = a.carrierPhase === undefined ? 'auto' : parseChoice('carrier-phase', a.carrierPhase, ['on', 'off'] as const);
+  if (command !== 'solve' && given === 'on') throw new UsageError(`--carrier-phase on is taken by solve only (not yet by ${command})`);
+  const both = recordsPhase(rover) && recordsPhase(reference);
+  if (given === 'on' && !both) throw new UsageError('--carrier-phase on needs carrier phase in both the rover and the reference file (their headers list no L observation)');
+  if (given === 'on' && (session.smoothing.enabled || session.standaloneFallback)) throw new UsageError('--carrier-phase on cannot be combined with --smooth or --fallback-standalone (code-only processing)');
+  const codeOnly = session.smoothing.enabled || session.standaloneFallback;
+  const on = command === 'solve' && (given === 'on' || (given === 'auto' && both && !codeOnly));
+  const options = withCarrierDefaults({
+    ...(a.ratioThreshold !== undefined ? { ratioThreshold: parseNumber('ratio-threshold', a.ratioThreshold, 1, 1000) } : {}),
+    ...(a.ambiguityMask !== undefined ? { ambiguityMaskDeg: parseNumber('ambiguity-mask', a.ambiguityMask, 0, 60) } : {}),
+    ...(a.dynamics !== undefined ? { dynamics: parseChoice('dynamics', a.dynamics, ['auto', 'static', 'kinematic'] as const) as CarrierDynamics } : {}),
+  });
+  return { on, options, antennasPath: a.antennas === undefined ? null : String(a.antennas) };
+}
+
+export interface CarrierSessionRun {
+  readonly epochs: AsyncIterable<EpochSolution>;
+  summary(): SessionSummary;
+  carrierSummary(): CarrierSummary;
+}
+
+/** A carrier-phase run presented like a code run: solution kinds 'fixed' / 'float' / 'none'. */
+export async function runCarrierSession(
+  inputs: { rover: ObsStream; references: readonly ObsStream[]; nav: NavData; onWarning: WarningSink },
+  options: SessionOptions, choice: CarrierChoice,
+): Promise<CarrierSessionRun> {
+  let antennas: AntexData | undefined;
+  if (choice.antennasPath) {
+    await requireFile(choice.antennasPath);
+    antennas = readAntex(choice.antennasPath, await readFile(choice.antennasPath, 'latin1'));
+  }
+  const run = await solveCarrierSession(async () => ({ ...inputs, ...(antennas ? { antennas } : {}) }), options, choice.options);
+  let n = 0, none = 0, first = NaN, last = NaN;
+  const reasons = new Map<string, number>();
+  const systems = new Set<GnssSystem>();
+  async function* epochs(): AsyncIterable<EpochSolution> {
+    for await (const s of run.epochs) {
+      n++;
+      if (Number.isNaN(first)) first = s.tagGpsS;
+      last = s.tagGpsS;
+      if (s.kind === 'none') { none++; reasons.set(s.reason, (reasons.get(s.reason) ?? 0) + 1); }
+      for (const x of s.satellites) if (x.used) systems.add(x.sat[0] as GnssSystem);
+      yield asEpochSolution(s);
+    }
+  }
+  return {
+    epochs: epochs(),
+    carrierSummary: () => run.summary(),
+    summary: (): SessionSummary => {
+      const c = run.summary();
+      return {
+        frame: c.frame, referencePosition: c.referencePosition, referencePositionSource: c.referencePositionSource,
+        epochsRover: n,
+        // The carrier kinds alongside the code ones (the union of kinds is widened here for the outputs).
+        epochsByKind: { differential: 0, smoothed: 0, standalone: 0, none, fixed: c.combined.fixed, float: c.combined.float } as unknown as SessionSummary['epochsByKind'],
+        epochsWithoutCorrections: 0,
+        satelliteRejections: [],
+        epochRejections: [...reasons].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
+        systemsUsed: [...systems],
+        notes: [...c.notes, carrierSharesSentence(c)],
+        firstGpsS: first, lastGpsS: last,
+        // The carrier engine estimates no code offsets; it reads the inputs once (forward and backward passes run on its records).
+        codeOffsets: [], passes: 1,
+      };
+    },
+  };
+}
+
+function asEpochSolution(s: CarrierEpochSolution): EpochSolution {
+  return { ...s, kind: s.kind as unknown as SolutionKind };
+}
+
+/** True for the carrier-phase solution kinds. */
+export function isCarrierKind(kind: string): boolean {
+  return kind === 'fixed' || kind === 'float';
+}
+
+export function carrierSharesSentence(c: CarrierSummary): string {
+  const pct = (x: number) => `${(100 * x / Math.max(c.epochsRover, 1)).toFixed(1)} %`;
+  return `carrier phase: ${c.combined.fixed} epochs fixed (${pct(c.combined.fixed)}), ${c.combined.float} float; forward pass alone ${pct(c.forward.fixed)} fixed, backward alone ${pct(c.backward.fixed)}`;
+}
+
+/** The carrier-phase part of summary.json. */
+export function carrierSummaryJson(c: CarrierSummary, options: CarrierOptions): Record<string, unknown> {
+  const share = (p: { fixed: number; float: number; none: number }) => ({ fixed: p.fixed, float: p.float, none: p.none, fixed_share: c.epochsRover ? Math.round(1e4 * p.fixed / c.epochsRover) / 1e4 : null });
+  return {
+    passes: { forward: share(c.forward), backward: share(c.backward), combined: share(c.combined) },
+    fixable_systems: c.fixableSystems,
+    arcs_started: c.slips,
+    baseline_length_median_m: Number.isFinite(c.baselineLengthM) ? Math.round(c.baselineLengthM * 1000) / 1000 : null,
+    options: {
+      ratio_threshold: options.ratioThreshold, min_success_rate: options.minSuccessRate, ambiguity_mask_deg: options.ambiguityMaskDeg,
+      min_fixed_ambiguities: options.minFixedAmbiguities, dynamics: options.dynamics, glonass_fix: options.glonassFix,
+    },
+    record_bytes: c.recordBytes,
+  };
+}

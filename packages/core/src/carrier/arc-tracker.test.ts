@@ -1,0 +1,54 @@
+/**
+ * Arc bookkeeping on hand-made epochs (hand-checkable: a satellite approaching at 500 m/s, L1, 1 Hz):
+ * each cause of a new arc on its own, and a receiver clock step common to all satellites that is no slip.
+ */
+import { describe, expect, it } from 'vitest';
+import { ArcTracker, type ArcInput } from './arc-tracker.js';
+
+const LAMBDA = 0.190293672798365; // GPS L1 wavelength c / 1575.42 MHz (IS-GPS-200 3.3.1.1)
+
+/** Two satellites, ranges changing at -500 and +300 m/s, phase and Doppler consistent (RINEX sign: D = -range rate / lambda). */
+function epoch(t: number, opts: { jump?: number; lli?: number; blank?: boolean; clockStepM?: number } = {}): ArcInput[] {
+  const sats: [string, number][] = [['G01', -500], ['G02', 300], ['G03', 120]];
+  return sats.map(([sat, rate], i) => {
+    const range = 2.2e7 + rate * t + (opts.clockStepM ?? 0);
+    const phase = range / LAMBDA + (i === 0 ? opts.jump ?? 0 : 0);
+    return { sat, phaseCycles: i === 0 && opts.blank ? NaN : phase, codeM: range, dopplerHz: -rate / LAMBDA, lli: i === 0 ? opts.lli ?? 0 : 0, wavelengthM: LAMBDA };
+  });
+}
+
+describe('phase arcs', () => {
+  it('continuous phase keeps the arc; a 3-cycle jump against the Doppler starts a new one for that satellite only', () => {
+    const a = new ArcTracker(30);
+    const first = a.update(0, epoch(0));
+    expect(a.update(1, epoch(1)).get('G01')).toBe(first.get('G01'));
+    const third = a.update(2, epoch(2, { jump: 3 }));
+    expect(third.get('G01')).not.toBe(first.get('G01'));
+    expect(third.get('G02')).toBe(first.get('G02'));
+    expect(a.causes.doppler).toBe(1);
+  });
+
+  it('a receiver clock step of 1 ms (300 km in phase and code of every satellite) is no slip', () => {
+    const a = new ArcTracker(30);
+    const first = a.update(0, epoch(0));
+    const next = a.update(1, epoch(1, { clockStepM: 299792.458 }));
+    for (const s of ['G01', 'G02', 'G03']) expect(next.get(s)).toBe(first.get(s));
+  });
+
+  it('loss of lock (LLI bit 0), a change of the half-cycle bit, blank phase and a long gap each start a new arc', () => {
+    const a = new ArcTracker(30);
+    let arc = a.update(0, epoch(0)).get('G01');
+    const step = (t: number, o: Parameters<typeof epoch>[1]) => { const n = a.update(t, epoch(t, o)).get('G01'); const changed = n !== arc; arc = n; return changed; };
+    expect(step(1, { lli: 1 })).toBe(true);
+    expect(step(2, { lli: 2 })).toBe(true);
+    expect(step(3, { lli: 2 })).toBe(false);
+    expect(a.halfCycleUnresolved('G01')).toBe(true);
+    expect(step(4, {})).toBe(true);
+    expect(a.update(5, epoch(5, { blank: true })).get('G01')).toBe(0);
+    arc = 0;
+    expect(step(6, {})).toBe(true);
+    expect(step(60, {})).toBe(true);
+    // The 54 s gap is met by all three satellites.
+    expect(a.causes).toMatchObject({ lli: 1, halfCycle: 2, blank: 1, gap: 3 });
+  });
+});

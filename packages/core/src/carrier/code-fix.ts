@@ -1,0 +1,115 @@
+/**
+ * The rover's linearisation point for one epoch: iterated weighted least squares on the between-receiver
+ * code differences (reference already reduced by its modelled range), unknowns the position and one
+ * relative clock per constellation. Weights sin^2(el) (common practice); residuals beyond 5 robust sigma
+ * (1.4826 MAD, at least 1 m) are dropped once. Null when fewer satellites than unknowns + 1.
+ */
+import type { EcefM, GnssSystem } from '../gnss/index.js';
+import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
+import { troposphereDelayM } from '../observables/index.js';
+
+export interface CodeRow {
+  readonly system: GnssSystem;
+  readonly satM: EcefM;
+  readonly satClockM: number;
+  /** Rover pseudorange minus the reference's reduced code (m). */
+  readonly codeM: number;
+}
+
+function solveNormal(n: number, a: Float64Array, b: Float64Array): boolean {
+  for (let c = 0; c < n; c++) {
+    let p = c;
+    for (let r = c + 1; r < n; r++) if (Math.abs(a[r * n + c]) > Math.abs(a[p * n + c])) p = r;
+    if (!(Math.abs(a[p * n + c]) > 1e-12)) return false;
+    if (p !== c) {
+      for (let j = 0; j < n; j++) { const t = a[c * n + j]; a[c * n + j] = a[p * n + j]; a[p * n + j] = t; }
+      const t = b[c]; b[c] = b[p]; b[p] = t;
+    }
+    for (let r = c + 1; r < n; r++) {
+      const f = a[r * n + c] / a[c * n + c];
+      if (f === 0) continue;
+      for (let j = c; j < n; j++) a[r * n + j] -= f * a[c * n + j];
+      b[r] -= f * b[c];
+    }
+  }
+  for (let r = n - 1; r >= 0; r--) {
+    let s = b[r];
+    for (let j = r + 1; j < n; j++) s -= a[r * n + j] * b[j];
+    b[r] = s / a[r * n + r];
+  }
+  return true;
+}
+
+export function codeFixPosition(rows: readonly CodeRow[], start: EcefM, maskRad: number, doy: number): EcefM | null {
+  const systems = [...new Set(rows.map((r) => r.system))];
+  const n = 3 + systems.length;
+  let x = { ...start };
+  const keep = rows.map((r) => Number.isFinite(r.codeM));
+  // Look angles and troposphere change with metres of position only in millimetres: computed at the start
+  // and again only after a step of more than 100 m.
+  let lookAt: EcefM | null = null;
+  const elevation = new Float64Array(rows.length), tropo = new Float64Array(rows.length);
+  let screened = false;
+  for (let iter = 0; iter < 8; iter++) {
+    if (lookAt === null || Math.hypot(x.x - lookAt.x, x.y - lookAt.y, x.z - lookAt.z) > 100) {
+      lookAt = x;
+      const g = ecefToGeodetic(x);
+      for (let i = 0; i < rows.length; i++) {
+        elevation[i] = azimuthElevation(x, rows[i].satM, g.latRad, g.lonRad).elevationRad;
+        tropo[i] = elevation[i] >= maskRad ? troposphereDelayM(g, elevation[i], doy) : 0;
+      }
+    }
+    const a = new Float64Array(n * n);
+    const b = new Float64Array(n);
+    const res: number[] = [];
+    const resIdx: number[] = [];
+    let count = 0;
+    const sysUsed = new Set<number>();
+    for (let i = 0; i < rows.length; i++) {
+      if (!keep[i]) continue;
+      const r = rows[i];
+      const dx = r.satM.x - x.x, dy = r.satM.y - x.y, dz = r.satM.z - x.z;
+      const rho = Math.sqrt(dx * dx + dy * dy + dz * dz);
+      const el = elevation[i];
+      if (el < maskRad) continue;
+      const y = r.codeM - (rho - r.satClockM + tropo[i]);
+      const h = new Float64Array(n);
+      h[0] = -dx / rho; h[1] = -dy / rho; h[2] = -dz / rho;
+      const si = systems.indexOf(r.system);
+      h[3 + si] = 1;
+      sysUsed.add(si);
+      const w = Math.sin(el) ** 2;
+      for (let p = 0; p < n; p++) { b[p] += w * h[p] * y; for (let q = 0; q < n; q++) a[p * n + q] += w * h[p] * h[q]; }
+      res.push(y); resIdx.push(i);
+      count++;
+    }
+    // Constellations without a satellite: pin their clock.
+    for (let si = 0; si < systems.length; si++) if (!sysUsed.has(si)) a[(3 + si) * n + 3 + si] = 1;
+    if (count < 3 + sysUsed.size + 1) return null;
+    if (!solveNormal(n, a, b)) return null;
+    x = { x: x.x + b[0], y: x.y + b[1], z: x.z + b[2] };
+    const step = Math.hypot(b[0], b[1], b[2]);
+    const converged = step < 0.01 && iter >= 1;
+    if (converged && screened) return x;
+    if (converged || iter === 4) {
+      screened = true;
+      // Drop residuals beyond 5 robust sigma about the median (per constellation clocks are in the median's spread).
+      const bySys = new Map<GnssSystem, number[]>();
+      for (let q = 0; q < res.length; q++) {
+        const s = rows[resIdx[q]].system;
+        let l = bySys.get(s);
+        if (!l) bySys.set(s, (l = []));
+        l.push(res[q]);
+      }
+      const med = (v: number[]) => { const s = [...v].sort((p, q) => p - q); const m = s.length >> 1; return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]); };
+      for (const [s, l] of bySys) {
+        if (l.length < 3) continue;
+        const m = med(l);
+        const mad = Math.max(1, 1.4826 * med(l.map((v) => Math.abs(v - m))));
+        for (let q = 0; q < res.length; q++) if (rows[resIdx[q]].system === s && Math.abs(res[q] - m) > 5 * mad) keep[resIdx[q]] = false;
+      }
+      if (converged && keep.every((k, i) => k || !Number.isFinite(rows[i].codeM))) return x;
+    }
+  }
+  return x;
+}

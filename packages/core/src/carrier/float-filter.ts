@@ -1,0 +1,495 @@
+/**
+ * The carrier-phase filter of one pass (forwards or backwards over the prepared epochs): a Kalman filter
+ * (e.g. Teunissen & Montenbruck 2017, Springer Handbook of GNSS, ch. 22) on
+ *   [position (3), one relative receiver clock per constellation, one single-difference ambiguity per arc],
+ * with between-receiver single differences as measurements. A clock state per constellation, free every
+ * epoch, is the same as forming double differences (the clocks are eliminated), but keeps the measurement
+ * noise diagonal so measurements are processed one at a time (sequential scalar updates).
+ *
+ * Process model:
+ *  - static epochs: the position carries over with no process noise;
+ *  - moving epochs: the position moves by the mean Doppler velocity of the two epochs times the interval,
+ *    with a process noise of ((sigma_v + 0.05 m/s) * dt)^2 per axis (sigma_v the velocity's formal sigma,
+ *    0.05 m/s for the change of velocity within the interval; common practice for pedestrian and vehicle
+ *    rovers at 1 Hz); without Doppler the position is free (re-initialised from the code, sigma 10 m);
+ *  - clocks: free every epoch (white noise of unbounded variance, started at the median code difference);
+ *  - ambiguities: constant within an arc (no process noise); a new arc starts a new state at the value
+ *    implied by the code, sigma 5 m; a state not met for longer than 30 s is dropped.
+ * Measurement noise per receiver sigma^2 = a^2 + b^2 / sin^2(el), doubled for the single difference.
+ * Outliers: a code innovation beyond 5 sigma is not used; a phase innovation beyond 5 sigma on an arc whose
+ * ambiguity is already known to better than 0.25 cycle is a slip the receivers did not flag: the arc's
+ * ambiguity is started again. No fix is tried in a disturbed epoch: one whose phase innovations fail their
+ * test, or in which more than half of the arcs start or end.
+ *
+ * Integer ambiguities: double differences per constellation against a pivot (the previous pivot while it
+ * stays above the ambiguity mask, else the highest satellite), fixed with LAMBDA and the ratio test,
+ * partially (lowest satellites left float first) down to a minimum number; the position is conditioned on
+ * the fixed integers (Teunissen 1995, eq. 2.8). A double difference fixed to the same integer for
+ * `holdAfterEpochs` epochs in a row is held: added as a measurement of 0.001 cycle precision, so the arc
+ * keeps it (fix-and-hold within arcs).
+ */
+import { fixPartially } from '../ambiguity/index.js';
+import { chiSquareQuantile } from '../solve/index.js';
+import type { CarrierOptions } from './options.js';
+import type { EpochRecords } from './epoch-records.js';
+import type { GnssSystem, SatId } from '../gnss/index.js';
+
+export interface SatelliteInfo {
+  readonly id: SatId;
+  readonly system: GnssSystem;
+  readonly wavelengthM: number;
+}
+
+/** Per-epoch results of one pass, in typed arrays indexed like the records. */
+export class PassResult {
+  /** 0 no solution, 1 float, 2 fixed. */
+  readonly kind: Uint8Array;
+  readonly position: Float64Array;
+  /** Position covariance xx, xy, xz, yy, yz, zz (m^2). */
+  readonly covariance: Float64Array;
+  readonly ratio: Float32Array;
+  readonly fixedAmbiguities: Uint16Array;
+  readonly satellitesUsed: Uint16Array;
+  constructor(n: number) {
+    this.kind = new Uint8Array(n);
+    this.position = new Float64Array(3 * n).fill(NaN);
+    this.covariance = new Float64Array(6 * n).fill(NaN);
+    this.ratio = new Float32Array(n).fill(NaN);
+    this.fixedAmbiguities = new Uint16Array(n);
+    this.satellitesUsed = new Uint16Array(n);
+  }
+}
+
+export interface PassCounts {
+  readonly unflaggedSlips: number;
+  readonly codeOutliers: number;
+  /** Epochs whose phase innovations failed their test (left float). */
+  readonly disturbedEpochs: number;
+}
+
+const INITIAL_POSITION_VAR_M2 = 100;
+const CLOCK_VAR_M2 = 1e4;
+const AMBIGUITY_SIGMA_M = 5;
+const DROP_AFTER_S = 30;
+const HOLD_VAR_CYCLES2 = 1e-6;
+
+class KalmanState {
+  cap: number;
+  x: Float64Array;
+  p: Float64Array;
+  active: number[] = [];
+  private free: number[] = [];
+  private ph: Float64Array;
+
+  constructor(private readonly fixedSlots: number) {
+    this.cap = fixedSlots + 32;
+    this.x = new Float64Array(this.cap);
+    this.p = new Float64Array(this.cap * this.cap);
+    this.ph = new Float64Array(this.cap);
+    for (let i = 0; i < fixedSlots; i++) this.active.push(i);
+    for (let i = this.cap - 1; i >= fixedSlots; i--) this.free.push(i);
+  }
+
+  private grow(): void {
+    const old = this.cap;
+    const cap = old * 2;
+    const x = new Float64Array(cap);
+    x.set(this.x);
+    const p = new Float64Array(cap * cap);
+    for (let i = 0; i < old; i++) p.set(this.p.subarray(i * old, i * old + old), i * cap);
+    this.x = x; this.p = p; this.cap = cap; this.ph = new Float64Array(cap);
+    for (let i = cap - 1; i >= old; i--) this.free.push(i);
+  }
+
+  /** Clears a slot's correlations and sets its value and variance. */
+  reset(slot: number, value: number, variance: number): void {
+    const c = this.cap;
+    for (const i of this.active) { this.p[i * c + slot] = 0; this.p[slot * c + i] = 0; }
+    this.p[slot * c + slot] = variance;
+    this.x[slot] = value;
+  }
+
+  allocate(value: number, variance: number): number {
+    if (this.free.length === 0) this.grow();
+    const s = this.free.pop()!;
+    const c = this.cap;
+    for (const i of this.active) { this.p[i * c + s] = 0; this.p[s * c + i] = 0; }
+    this.active.push(s);
+    this.p[s * c + s] = variance;
+    this.x[s] = value;
+    return s;
+  }
+
+  release(slot: number): void {
+    const i = this.active.indexOf(slot);
+    if (i >= 0) this.active.splice(i, 1);
+    const c = this.cap;
+    for (const j of this.active) { this.p[j * c + slot] = 0; this.p[slot * c + j] = 0; }
+    this.p[slot * c + slot] = 0;
+    this.free.push(slot);
+  }
+
+  /** Innovation variance h P h' + r for a sparse h. */
+  innovationVariance(idx: readonly number[], val: readonly number[], r: number): number {
+    const c = this.cap;
+    let s = r;
+    for (let a = 0; a < idx.length; a++) for (let b = 0; b < idx.length; b++) s += val[a] * this.p[idx[a] * c + idx[b]] * val[b];
+    return s;
+  }
+
+  /** Sequential scalar update with a sparse row h, innovation v and measurement variance r. */
+  update(idx: readonly number[], val: readonly number[], v: number, r: number): void {
+    const c = this.cap, p = this.p, ph = this.ph, act = this.active, x = this.x;
+    const na = act.length, nh = idx.length;
+    let s = r;
+    for (let ai = 0; ai < na; ai++) {
+      const row = act[ai] * c;
+      let t = 0;
+      for (let m = 0; m < nh; m++) t += p[row + idx[m]] * val[m];
+      ph[act[ai]] = t;
+    }
+    for (let m = 0; m < nh; m++) s += val[m] * ph[idx[m]];
+    if (!(s > 0)) return;
+    const inv = 1 / s;
+    // P - ph ph' / s, symmetric: the upper triangle is computed and mirrored.
+    for (let ai = 0; ai < na; ai++) {
+      const i = act[ai];
+      const f = ph[i] * inv;
+      x[i] += f * v;
+      if (f === 0) continue;
+      const row = i * c;
+      for (let aj = ai; aj < na; aj++) {
+        const j = act[aj];
+        const y = p[row + j] - f * ph[j];
+        p[row + j] = y;
+        p[j * c + i] = y;
+      }
+    }
+  }
+}
+
+function choleskySolve(a: Float64Array, n: number, rhs: Float64Array[], ): boolean {
+  // In-place Cholesky a = G G' (lower), then solves for each right-hand side.
+  for (let j = 0; j < n; j++) {
+    let d = a[j * n + j];
+    for (let k = 0; k < j; k++) d -= a[j * n + k] * a[j * n + k];
+    if (!(d > 0)) return false;
+    d = Math.sqrt(d);
+    a[j * n + j] = d;
+    for (let i = j + 1; i < n; i++) {
+      let s = a[i * n + j];
+      for (let k = 0; k < j; k++) s -= a[i * n + k] * a[j * n + k];
+      a[i * n + j] = s / d;
+    }
+  }
+  for (const b of rhs) {
+    for (let i = 0; i < n; i++) { let s = b[i]; for (let k = 0; k < i; k++) s -= a[i * n + k] * b[k]; b[i] = s / a[i * n + i]; }
+    for (let i = n - 1; i >= 0; i--) { let s = b[i]; for (let k = i + 1; k < n; k++) s -= a[k * n + i] * b[k]; b[i] = s / a[i * n + i]; }
+  }
+  return true;
+}
+
+/**
+ * Integer search around the ambiguities already held. A held ambiguity is within 0.01 cycle of an integer
+ * with a standard deviation below 0.01 cycle: rounding is its integer least-squares value (no other integer
+ * comes near). The others are conditioned on the held integers (a_o|h = a_o - Q_oh Q_hh^-1 (a_h - z_h),
+ * Q_o|h = Q_oo - Q_oh Q_hh^-1 Q_ho; Teunissen 1995, eq. 2.8) and searched alone, which is the same search
+ * with far fewer dimensions. Null when fewer than the minimum are held (the full search is then run).
+ */
+function fixAroundHeld(a: Float64Array, q: Float64Array, m: number, order: readonly number[], options: { ratioThreshold: number; minFixed: number; minSuccessRate: number }): { indices: number[]; integers: Float64Array; ratio: number; bestNorm: number; successRate: number } | null {
+  const held: number[] = [], other: number[] = [];
+  for (let u = 0; u < m; u++) (Math.abs(a[u] - Math.round(a[u])) <= 0.01 && q[u * m + u] < 1e-4 ? held : other).push(u);
+  if (held.length < options.minFixed) return null;
+  const h = held.length, o = other.length;
+  const heldInts = held.map((u) => Math.round(a[u]));
+  if (o === 0) return { indices: held, integers: Float64Array.from(heldInts), ratio: Infinity, bestNorm: 0, successRate: 1 };
+  const qhh = new Float64Array(h * h);
+  for (let i = 0; i < h; i++) for (let j = 0; j < h; j++) qhh[i * h + j] = q[held[i] * m + held[j]];
+  const d = Float64Array.from(held, (u, i) => a[u] - heldInts[i]);
+  const cols = other.map((w) => Float64Array.from(held, (u) => q[u * m + w]));
+  const rhs = [d, ...cols.map((c) => Float64Array.from(c))];
+  if (!choleskySolve(qhh, h, rhs)) return null;
+  const ac = new Float64Array(o), qc = new Float64Array(o * o);
+  for (let i = 0; i < o; i++) {
+    let s = 0;
+    for (let k = 0; k < h; k++) s += cols[i][k] * rhs[0][k];
+    ac[i] = a[other[i]] - s;
+    for (let j = 0; j < o; j++) {
+      let t = 0;
+      for (let k = 0; k < h; k++) t += cols[i][k] * rhs[1 + j][k];
+      qc[i * o + j] = q[other[i] * m + other[j]] - t;
+    }
+  }
+  const subOrder = order.filter((u) => other.includes(u)).map((u) => other.indexOf(u));
+  const r = fixPartially(ac, qc, o, subOrder, { ...options, minFixed: 1 });
+  if (!('integers' in r)) return { indices: held, integers: Float64Array.from(heldInts), ratio: Infinity, bestNorm: 0, successRate: 1 };
+  const indices = [...held, ...r.indices.map((i) => other[i])];
+  const integers = Float64Array.from([...heldInts, ...r.integers]);
+  return { indices, integers, ratio: r.ratio, bestNorm: r.bestNorm, successRate: r.successRate };
+}
+
+/** Median spacing of the epochs (s): the logging interval. */
+function nominalIntervalS(rec: EpochRecords): number {
+  const d: number[] = [];
+  for (let k = 1; k < rec.count && d.length < 2000; k++) { const x = rec.timeGpsS[k] - rec.timeGpsS[k - 1]; if (x > 0) d.push(x); }
+  return d.length ? median(d) : 1;
+}
+
+function median(v: number[]): number {
+  const s = [...v].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+export interface PassSetup {
+  readonly satellites: readonly SatelliteInfo[];
+  /** Constellations whose ambiguities may be fixed. */
+  readonly fixableSystems: ReadonlySet<GnssSystem>;
+  readonly elevationMaskRad: number;
+  readonly options: CarrierOptions;
+}
+
+/** Runs the filter over the records, forwards (direction 1) or backwards (-1). */
+export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1): { result: PassResult; float: PassResult; counts: PassCounts } {
+  const opt = setup.options;
+  const sats = setup.satellites;
+  const systems = [...new Set(sats.map((s) => s.system))];
+  const clockSlot = new Map<GnssSystem, number>(systems.map((s, i) => [s, 3 + i]));
+  // CDMA systems get a phase clock of their own (free every epoch, so still exactly double differences):
+  // some receivers step the code clock by milliseconds while the phase runs on. GLONASS phase keeps the
+  // code clock (see the file comment).
+  const cdma = systems.filter((s) => s !== 'R');
+  const phaseClockSlot = new Map<GnssSystem, number>(cdma.map((s, i) => [s, 3 + systems.length + i]));
+  if (clockSlot.has('R')) phaseClockSlot.set('R', clockSlot.get('R')!);
+  const st = new KalmanState(3 + systems.length + cdma.length);
+  const arcSlot = new Map<number, number>();
+  const arcSeen = new Map<number, number>();
+  const out = new PassResult(rec.count);
+  const flt = new PassResult(rec.count);
+  const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
+  const pivots = new Map<GnssSystem, number>();
+  const holdCount = new Map<number, { value: number; count: number }>();
+  /** Key of a double difference (arc, pivot arc); arcs are numbered below 2^26. */
+  const pairKey = (arcI: number, arcP: number): number => arcI * 67_108_864 + arcP;
+  let unflaggedSlips = 0, codeOutliers = 0, disturbedEpochs = 0;
+  let arcsBefore = new Set<number>();
+  let prev = -1;
+  const idx: number[] = [];
+  const val: number[] = [];
+  const varOf = (a: number, b: number, el: number): number => { const s = Math.sin(Math.max(el, 0.05)); return 2 * (a * a + (b * b) / (s * s)); };
+  // Code errors correlated over codeCorrelationTimeS: the variance of each epoch's code is scaled up by the
+  // number of epochs in a correlation time (options.ts).
+  const codeScale = Math.max(1, opt.codeCorrelationTimeS / nominalIntervalS(rec));
+
+  for (let n = 0; n < rec.count; n++) {
+    const k = direction === 1 ? n : rec.count - 1 - n;
+    const t = rec.timeGpsS[k];
+    const x0x = rec.x0[3 * k], x0y = rec.x0[3 * k + 1], x0z = rec.x0[3 * k + 2];
+    // Position prediction.
+    if (prev < 0) {
+      for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * k + i], INITIAL_POSITION_VAR_M2);
+    } else {
+      const dt = t - rec.timeGpsS[prev];
+      const staticPair = rec.isStatic[k] === 1 && rec.isStatic[prev] === 1;
+      if (!staticPair) {
+        const v0 = 4 * prev, v1 = 4 * k;
+        if (Number.isFinite(rec.velocity[v0]) && Number.isFinite(rec.velocity[v1]) && Math.abs(dt) <= 5) {
+          const sig = Math.max(rec.velocity[v0 + 3], rec.velocity[v1 + 3]);
+          const q = ((Number.isFinite(sig) ? sig : 0.1) + 0.05) ** 2 * dt * dt;
+          for (let i = 0; i < 3; i++) {
+            st.x[i] += 0.5 * (rec.velocity[v0 + i] + rec.velocity[v1 + i]) * dt;
+            st.p[i * st.cap + i] += q;
+          }
+        } else {
+          for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * k + i], INITIAL_POSITION_VAR_M2);
+        }
+      }
+    }
+    // Drop ambiguity states of arcs not met for a while.
+    for (const [arc, seen] of arcSeen) {
+      if (Math.abs(t - seen) > DROP_AFTER_S) { st.release(arcSlot.get(arc)!); arcSlot.delete(arc); arcSeen.delete(arc); }
+    }
+    const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+    // Clocks: free every epoch, started at the median code difference of the constellation.
+    const dx = st.x[0] - x0x, dy = st.x[1] - x0y, dz = st.x[2] - x0z;
+    const geo = (j: number): number => -(rec.los[3 * j] * dx + rec.los[3 * j + 1] * dy + rec.los[3 * j + 2] * dz);
+    for (const [sys, slot] of clockSlot) {
+      const samples: number[] = [];
+      for (let j = j0; j < j1; j++) if (sats[rec.sat[j]].system === sys && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - geo(j));
+      st.reset(slot, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
+      const ps = phaseClockSlot.get(sys)!;
+      if (ps === slot) continue;
+      const phase: number[] = [];
+      for (let j = j0; j < j1; j++) {
+        const a = arcSlot.get(rec.arc[j]);
+        if (a !== undefined && sats[rec.sat[j]].system === sys && Number.isFinite(rec.phaseM[j])) phase.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a]);
+      }
+      st.reset(ps, phase.length ? median(phase) : 0, CLOCK_VAR_M2);
+    }
+    let used = 0;
+    const usedSys = new Set<GnssSystem>();
+    // Code.
+    for (let j = j0; j < j1; j++) {
+      const el = rec.elevationRad[j];
+      if (el < setup.elevationMaskRad || !Number.isFinite(rec.codeM[j])) continue;
+      const cs = clockSlot.get(sats[rec.sat[j]].system)!;
+      idx.length = 0; val.length = 0;
+      idx.push(0, 1, 2, cs); val.push(-rec.los[3 * j], -rec.los[3 * j + 1], -rec.los[3 * j + 2], 1);
+      const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs];
+      const v = rec.codeM[j] - pred;
+      const r = codeScale * varOf(opt.codeAM, opt.codeBM, el);
+      const s = st.innovationVariance(idx, val, r);
+      if (v * v > 25 * s && prev >= 0) { codeOutliers++; continue; }
+      st.update(idx, val, v, r);
+      used++;
+      usedSys.add(sats[rec.sat[j]].system);
+    }
+    // Phase. The normalised innovations of arcs already known are summed for the epoch's test.
+    let nis = 0, nisDof = 0;
+    for (let j = j0; j < j1; j++) {
+      const el = rec.elevationRad[j];
+      if (el < setup.elevationMaskRad || !Number.isFinite(rec.phaseM[j])) continue;
+      const info = sats[rec.sat[j]];
+      const cs = phaseClockSlot.get(info.system)!;
+      const lam = info.wavelengthM;
+      const arc = rec.arc[j];
+      const geoNow = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z));
+      let slot = arcSlot.get(arc);
+      const n0 = (rec.phaseM[j] - geoNow - st.x[cs]) / lam;
+      if (slot === undefined) {
+        slot = st.allocate(n0, (AMBIGUITY_SIGMA_M / lam) ** 2);
+        arcSlot.set(arc, slot);
+      }
+      arcSeen.set(arc, t);
+      idx.length = 0; val.length = 0;
+      idx.push(0, 1, 2, cs, slot); val.push(-rec.los[3 * j], -rec.los[3 * j + 1], -rec.los[3 * j + 2], 1, lam);
+      const r = varOf(opt.phaseAM, opt.phaseBM, el);
+      let v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
+      const s = st.innovationVariance(idx, val, r);
+      if (v * v > 25 * s && st.p[slot * st.cap + slot] < 0.0625) {
+        unflaggedSlips++;
+        st.reset(slot, n0, (AMBIGUITY_SIGMA_M / lam) ** 2);
+        for (const key of [...holdCount.keys()]) if (Math.floor(key / 67_108_864) === arc || key % 67_108_864 === arc) holdCount.delete(key);
+        v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
+      } else if (st.p[slot * st.cap + slot] < 0.0625) { nis += (v * v) / s; nisDof++; }
+      st.update(idx, val, v, r);
+    }
+    // Sequential innovations are independent: their normalised squares sum to a chi-square with one degree
+    // of freedom each (the normalised innovation squared test, e.g. Bar-Shalom et al. 2001, 5.4). An epoch
+    // that fails it at 0.1 % holds a disturbance the slip tests did not catch: no fix is tried in it.
+    // Arc turnover: when more than half of the arcs start or end at once, the receiver's tracking was
+    // disturbed as a whole (shock, power, a shaded sky) and the arcs that kept lock are suspect too.
+    const arcsNow = new Set<number>();
+    for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= setup.elevationMaskRad) arcsNow.add(rec.arc[j]);
+    let turnover = 0;
+    for (const a of arcsNow) if (!arcsBefore.has(a)) turnover++;
+    for (const a of arcsBefore) if (!arcsNow.has(a)) turnover++;
+    const turned = arcsBefore.size > 0 && turnover > 0.5 * Math.max(arcsBefore.size, arcsNow.size);
+    arcsBefore = arcsNow;
+    const disturbed = turned || (nisDof > 0 && nis > chiSquareQuantile(0.999, nisDof));
+    if (disturbed) disturbedEpochs++;
+    const ko = 3 * k, kc = 6 * k;
+    out.satellitesUsed[k] = used;
+    if (used < 4 + usedSys.size) { prev = k; continue; }
+    // Float solution.
+    const c = st.cap;
+    out.kind[k] = 1;
+    out.position[ko] = st.x[0]; out.position[ko + 1] = st.x[1]; out.position[ko + 2] = st.x[2];
+    out.covariance[kc] = st.p[0]; out.covariance[kc + 1] = st.p[1]; out.covariance[kc + 2] = st.p[2];
+    out.covariance[kc + 3] = st.p[c + 1]; out.covariance[kc + 4] = st.p[c + 2]; out.covariance[kc + 5] = st.p[2 * c + 2];
+    flt.kind[k] = 1;
+    flt.position.set(out.position.subarray(ko, ko + 3), ko);
+    flt.covariance.set(out.covariance.subarray(kc, kc + 6), kc);
+    flt.satellitesUsed[k] = used;
+    if (!disturbed) fixEpoch(k);
+    prev = k;
+  }
+  return { result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } };
+
+  /** Double differences of the epoch's fixable arcs, LAMBDA with partial fixing, conditioning and hold. */
+  function fixEpoch(k: number): void {
+    const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+    const bySys = new Map<GnssSystem, { slot: number; arc: number; el: number }[]>();
+    for (let j = j0; j < j1; j++) {
+      const info = sats[rec.sat[j]];
+      if (!setup.fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < ambMask) continue;
+      const slot = arcSlot.get(rec.arc[j]);
+      if (slot === undefined) continue;
+      let l = bySys.get(info.system);
+      if (!l) bySys.set(info.system, (l = []));
+      l.push({ slot, arc: rec.arc[j], el: rec.elevationRad[j] });
+    }
+    const dd: { i: number; p: number; arcI: number; arcP: number; el: number }[] = [];
+    for (const [sys, list] of bySys) {
+      if (list.length < 2) continue;
+      const prevPivot = pivots.get(sys);
+      let piv = list.find((q) => q.arc === prevPivot);
+      if (!piv) piv = list.reduce((a, b) => (b.el > a.el ? b : a));
+      pivots.set(sys, piv.arc);
+      for (const q of list) if (q !== piv) dd.push({ i: q.slot, p: piv.slot, arcI: q.arc, arcP: piv.arc, el: q.el });
+    }
+    const m = dd.length;
+    if (m < opt.minFixedAmbiguities) return;
+    const c = st.cap, P = st.p, x = st.x;
+    const a = new Float64Array(m);
+    const q = new Float64Array(m * m);
+    for (let u = 0; u < m; u++) {
+      a[u] = x[dd[u].i] - x[dd[u].p];
+      for (let w = 0; w <= u; w++) {
+        const v = P[dd[u].i * c + dd[w].i] - P[dd[u].i * c + dd[w].p] - P[dd[u].p * c + dd[w].i] + P[dd[u].p * c + dd[w].p];
+        q[u * m + w] = v; q[w * m + u] = v;
+      }
+    }
+    const order = dd.map((_, u) => u).sort((u, w) => dd[u].el - dd[w].el);
+    const fixOptions = { ratioThreshold: opt.ratioThreshold, minFixed: opt.minFixedAmbiguities, minSuccessRate: opt.minSuccessRate };
+    const fix = fixAroundHeld(a, q, m, order, fixOptions) ?? fixPartially(a, q, m, order, fixOptions);
+    out.ratio[k] = fix.ratio;
+    if (!('integers' in fix)) return;
+    const sub = fix.indices;
+    const ns = sub.length;
+    const qs = new Float64Array(ns * ns);
+    for (let u = 0; u < ns; u++) for (let w = 0; w < ns; w++) qs[u * ns + w] = q[sub[u] * m + sub[w]];
+    const d = new Float64Array(ns);
+    for (let u = 0; u < ns; u++) d[u] = a[sub[u]] - fix.integers[u];
+    // Q_xa: covariance of position with the fixed double differences.
+    const qxa = [new Float64Array(ns), new Float64Array(ns), new Float64Array(ns)];
+    for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) qxa[r][u] = P[r * c + dd[sub[u]].i] - P[r * c + dd[sub[u]].p];
+    const rhs = [d, Float64Array.from(qxa[0]), Float64Array.from(qxa[1]), Float64Array.from(qxa[2])];
+    if (!choleskySolve(qs, ns, rhs)) return;
+    const ko = 3 * k, kc = 6 * k;
+    for (let r = 0; r < 3; r++) {
+      let s = 0;
+      for (let u = 0; u < ns; u++) s += qxa[r][u] * rhs[0][u];
+      out.position[ko + r] = x[r] - s;
+    }
+    const cov = (r: number, s: number): number => {
+      let t = 0;
+      for (let u = 0; u < ns; u++) t += qxa[r][u] * rhs[1 + s][u];
+      return P[r * c + s] - t;
+    };
+    out.covariance[kc] = cov(0, 0); out.covariance[kc + 1] = cov(0, 1); out.covariance[kc + 2] = cov(0, 2);
+    out.covariance[kc + 3] = cov(1, 1); out.covariance[kc + 4] = cov(1, 2); out.covariance[kc + 5] = cov(2, 2);
+    out.kind[k] = 2;
+    out.fixedAmbiguities[k] = ns;
+    // Fix-and-hold.
+    const seen = new Set<number>();
+    for (let u = 0; u < ns; u++) {
+      const e = dd[sub[u]];
+      const key = pairKey(e.arcI, e.arcP);
+      seen.add(key);
+      const h = holdCount.get(key);
+      const value = fix.integers[u];
+      const count = h && h.value === value ? h.count + 1 : 1;
+      holdCount.set(key, { value, count });
+      if (count >= opt.holdAfterEpochs) {
+        // Already held to well below the constraint's precision: nothing to add.
+        const c2 = st.cap;
+        const v2 = st.p[e.i * c2 + e.i] - 2 * st.p[e.i * c2 + e.p] + st.p[e.p * c2 + e.p];
+        const miss = value - (st.x[e.i] - st.x[e.p]);
+        if (v2 < 10 * HOLD_VAR_CYCLES2 && Math.abs(miss) < 0.005) continue;
+        st.update([e.i, e.p], [1, -1], miss, HOLD_VAR_CYCLES2);
+      }
+    }
+    for (const key of [...holdCount.keys()]) if (!seen.has(key)) holdCount.delete(key);
+  }
+}

@@ -1,0 +1,127 @@
+/**
+ * One receiver's epoch made ready for differencing: per satellite the L1-band code and phase with the
+ * satellite at transmission, its broadcast clock, and the receiver clock estimated from the code, so
+ * that geometry is computed at the epoch's estimated GPS time, not at its receiver-time tag
+ * (IS-GPS-200 20.3.3.4.3.3.2; see positioning/satellite-for-tag.ts).
+ */
+import type { EcefM, GnssSystem, SatId } from '../gnss/index.js';
+import { satSystem } from '../gnss/index.js';
+import type { ObsEpoch, SatObservations } from '../gnss/index.js';
+import type { Ephemeris } from '../gnss/index.js';
+import { carrierWavelengthM, pseudorangePriority } from '../gnss/index.js';
+import { EphemerisStore, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { satelliteForTag } from '../observables/index.js';
+import { clockSignal, PRIMARY_BAND } from '../observables/index.js';
+
+export interface ReceiverSat {
+  readonly sat: SatId;
+  readonly system: GnssSystem;
+  readonly code: string;
+  readonly codeM: number;
+  /** Carrier phase (cycles), NaN when blank. */
+  readonly phaseCycles: number;
+  readonly dopplerHz: number;
+  readonly lli: number;
+  readonly cn0DbHz: number;
+  readonly wavelengthM: number;
+  eph: Ephemeris;
+  /** Satellite at transmission in the ECEF frame of the receive time (m). */
+  posM: EcefM;
+  /** Broadcast satellite clock offset times c (m). */
+  satClockM: number;
+}
+
+export interface ReceiverEpoch {
+  readonly tagGpsS: number;
+  /** Estimated GPS time of the epoch. */
+  readonly timeGpsS: number;
+  /** Receiver clock offset times c (m) from the code at the given position. */
+  readonly clockM: number;
+  readonly sats: ReceiverSat[];
+}
+
+export interface ReceiverContext {
+  readonly store: EphemerisStore;
+  readonly systems: readonly GnssSystem[];
+  readonly glonassChannels: ReadonlyMap<number, number>;
+}
+
+function value(s: SatObservations, code: string): number {
+  const i = s.codes.indexOf(code);
+  return i < 0 ? NaN : s.values[i];
+}
+
+function lliOf(s: SatObservations, code: string): number {
+  const i = s.codes.indexOf(code);
+  return i < 0 ? 0 : s.lli[i];
+}
+
+/** The first code of the primary band with both a pseudorange and a phase (priority order of rinex/obs-codes.ts). */
+function chooseSignal(system: GnssSystem, s: SatObservations): string | null {
+  const band = PRIMARY_BAND[system];
+  const tried = [...pseudorangePriority(system, band), ...s.codes.filter((c) => c[0] === 'C' && c[1] === band)];
+  for (const c of tried) {
+    const p = value(s, c);
+    if (p > 1e6 && p < 1e9 && s.codes.includes('L' + c.slice(1))) return c;
+  }
+  for (const c of tried) {
+    const p = value(s, c);
+    if (p > 1e6 && p < 1e9) return c;
+  }
+  return null;
+}
+
+function median(v: number[]): number {
+  if (v.length === 0) return NaN;
+  const s = [...v].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+/** Satellite position and clock for a receiver clock estimate (Earth rotation over the true flight time). */
+export function placeSatellite(s: ReceiverSat, tagGpsS: number, clockM: number): void {
+  const at = satelliteForTag(s.eph, tagGpsS, s.codeM, clockM, null, clockSignal(s.system, s.code[1]));
+  s.posM = at.posM;
+  s.satClockM = SPEED_OF_LIGHT_MS * at.clock.offsetS;
+}
+
+/**
+ * Prepares an epoch at an approximate position (within a few km: the clock is a median of code
+ * residuals). `clockGuessM` is the previous epoch's clock (0 at first).
+ */
+export function prepareReceiverEpoch(e: ObsEpoch, ctx: ReceiverContext, atM: EcefM, clockGuessM: number): ReceiverEpoch {
+  const sats: ReceiverSat[] = [];
+  for (const s of e.sats) {
+    const system = satSystem(s.sat);
+    if (!ctx.systems.includes(system)) continue;
+    const code = chooseSignal(system, s);
+    if (code === null) continue;
+    const k = system === 'R' ? ctx.glonassChannels.get(Number(s.sat.slice(1))) : undefined;
+    const wavelengthM = carrierWavelengthM(system, code, k);
+    if (!Number.isFinite(wavelengthM)) continue;
+    const sel = ctx.store.select(s.sat, e.tagGpsS);
+    if (sel.eph === null) continue;
+    const tail = code.slice(1);
+    const phase = value(s, 'L' + tail);
+    sats.push({
+      sat: s.sat, system, code, codeM: value(s, code),
+      phaseCycles: Number.isFinite(phase) && phase !== 0 ? phase : NaN,
+      dopplerHz: value(s, 'D' + tail), lli: lliOf(s, 'L' + tail), cn0DbHz: value(s, 'S' + tail),
+      wavelengthM, eph: sel.eph, posM: atM, satClockM: 0,
+    });
+  }
+  const clockOf = (clk: number): number => {
+    const samples: number[] = [];
+    for (const s of sats) {
+      placeSatellite(s, e.tagGpsS, clk);
+      samples.push(s.codeM - Math.hypot(s.posM.x - atM.x, s.posM.y - atM.y, s.posM.z - atM.z) + s.satClockM);
+    }
+    return median(samples);
+  };
+  const guess = Number.isFinite(clockGuessM) ? clockGuessM : 0;
+  let clockM = clockOf(guess);
+  // A clock far from the guess (first epoch, a millisecond step): redo the Earth rotation with it.
+  if (Number.isFinite(clockM) && Math.abs(clockM - guess) > 30) clockM = clockOf(clockM);
+  const timeGpsS = e.tagGpsS - (Number.isFinite(clockM) ? clockM / SPEED_OF_LIGHT_MS : 0);
+  return { tagGpsS: e.tagGpsS, timeGpsS, clockM, sats };
+}

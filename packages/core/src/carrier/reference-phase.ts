@@ -1,0 +1,134 @@
+/**
+ * Reference-receiver phase and code, reduced by the modelled range at the reference antenna and kept
+ * over a short window, then aligned to a rover epoch's estimated GPS time.
+ *
+ * At reference epoch k and satellite s: z_k = lambda Phi - rho(t_k) + c dt^s - T (phase) and
+ * P - rho + c dt^s - T (code), with rho the range to the broadcast satellite at transmission from the
+ * known antenna position at the epoch's estimated GPS time. What is left is c dt_ref(t_k) + lambda N
+ * plus errors that change slowly, so z can be carried to the rover's time:
+ *  - between the bracketing epochs (k0 <= t < k1) by linear interpolation, with one pair of epochs and one
+ *    weight for every satellite of the rover epoch (so the reference clock, interpolated alike for all,
+ *    cancels between satellites), when the pair is at most 2 nominal intervals apart and the satellite has
+ *    the same arc at both (never across a slip or a gap in the reference's logging);
+ *  - otherwise from the nearest single epoch within `maxAgeS`, again common to all satellites.
+ * Between satellites (double differences) the reference clock cancels exactly either way; the error left
+ * is the change over the interval of the orbit, satellite-clock and atmospheric errors: millimetres for a
+ * few seconds.
+ */
+import type { GeodeticRad, SatId } from '../gnss/index.js';
+import type { Ephemeris } from '../gnss/index.js';
+import type { ReceiverEpoch } from './receiver-epoch.js';
+import { azimuthElevation } from '../geodesy/index.js';
+import { dayOfYear, troposphereDelayM } from '../observables/index.js';
+import type { EcefM } from '../gnss/index.js';
+
+export interface ReferenceSat {
+  readonly phaseM: number;
+  readonly codeM: number;
+  readonly arc: number;
+  readonly halfCycle: boolean;
+  readonly elevationRad: number;
+  readonly eph: Ephemeris;
+}
+
+export interface ReferencePhaseEpoch {
+  readonly timeGpsS: number;
+  readonly sats: ReadonlyMap<SatId, ReferenceSat>;
+}
+
+export interface AlignedReferenceSat {
+  readonly phaseM: number;
+  readonly codeM: number;
+  readonly arc: number;
+  readonly halfCycle: boolean;
+  readonly elevationRad: number;
+  readonly eph: Ephemeris;
+}
+
+export interface AlignedReference {
+  readonly sats: Map<SatId, AlignedReferenceSat>;
+  /** Largest distance in time to a reference epoch used (s). */
+  readonly ageS: number;
+  readonly interpolated: boolean;
+}
+
+/** z values of one prepared reference epoch (see the file comment). */
+export function reduceReferenceEpoch(ep: ReceiverEpoch, arpM: EcefM, geodetic: GeodeticRad, arcs: ReadonlyMap<SatId, number>, halfCycle: (sat: SatId) => boolean): ReferencePhaseEpoch {
+  const sats = new Map<SatId, ReferenceSat>();
+  const doy = dayOfYear(ep.tagGpsS);
+  for (const s of ep.sats) {
+    const ae = azimuthElevation(arpM, s.posM, geodetic.latRad, geodetic.lonRad);
+    if (ae.elevationRad < 0) continue;
+    const rho = Math.hypot(s.posM.x - arpM.x, s.posM.y - arpM.y, s.posM.z - arpM.z);
+    const t = troposphereDelayM(geodetic, ae.elevationRad, doy);
+    const model = rho - s.satClockM + t;
+    const arc = arcs.get(s.sat) ?? 0;
+    sats.set(s.sat, {
+      phaseM: arc > 0 ? s.phaseCycles * s.wavelengthM - model : NaN,
+      codeM: s.codeM - model,
+      arc, halfCycle: halfCycle(s.sat), elevationRad: ae.elevationRad, eph: s.eph,
+    });
+  }
+  return { timeGpsS: ep.timeGpsS, sats };
+}
+
+export class ReferencePhaseBuffer {
+  private readonly epochs: ReferencePhaseEpoch[] = [];
+  /** Smallest spacing of reference epochs seen (s): the nominal logging interval. */
+  private nominalS = Infinity;
+
+  constructor(private readonly maxAgeS: number, headerIntervalS: number | null) {
+    if (headerIntervalS && headerIntervalS > 0) this.nominalS = headerIntervalS;
+  }
+
+  get latestTimeGpsS(): number {
+    return this.epochs.length ? this.epochs[this.epochs.length - 1].timeGpsS : -Infinity;
+  }
+
+  add(e: ReferencePhaseEpoch): void {
+    const last = this.epochs[this.epochs.length - 1];
+    if (last) {
+      const d = e.timeGpsS - last.timeGpsS;
+      if (!(d > 1e-3)) return;
+      if (d < this.nominalS) this.nominalS = Math.max(0.05, d);
+    }
+    this.epochs.push(e);
+  }
+
+  /** Drops epochs that can no longer serve a rover epoch at or after t (keeps one before the window). */
+  prune(tGpsS: number): void {
+    let drop = 0;
+    while (drop + 1 < this.epochs.length && this.epochs[drop + 1].timeGpsS < tGpsS - this.maxAgeS) drop++;
+    if (drop > 0) this.epochs.splice(0, drop);
+  }
+
+  align(tGpsS: number): AlignedReference | null {
+    let i1 = this.epochs.findIndex((e) => e.timeGpsS > tGpsS + 1e-4);
+    if (i1 < 0) i1 = this.epochs.length;
+    const e0 = i1 > 0 ? this.epochs[i1 - 1] : null;
+    const e1 = i1 < this.epochs.length ? this.epochs[i1] : null;
+    const sats = new Map<SatId, AlignedReferenceSat>();
+    if (e0 && e1 && e1.timeGpsS - e0.timeGpsS <= 2 * this.nominalS + 1e-3) {
+      const w = (tGpsS - e0.timeGpsS) / (e1.timeGpsS - e0.timeGpsS);
+      for (const [sat, a] of e0.sats) {
+        const b = e1.sats.get(sat);
+        if (!b || b.eph !== a.eph) continue;
+        const sameArc = a.arc > 0 && a.arc === b.arc;
+        sats.set(sat, {
+          phaseM: sameArc ? a.phaseM + w * (b.phaseM - a.phaseM) : NaN,
+          codeM: a.codeM + w * (b.codeM - a.codeM),
+          arc: sameArc ? a.arc : 0, halfCycle: a.halfCycle || b.halfCycle,
+          elevationRad: a.elevationRad + w * (b.elevationRad - a.elevationRad), eph: a.eph,
+        });
+      }
+      return { sats, ageS: Math.max(tGpsS - e0.timeGpsS, e1.timeGpsS - tGpsS), interpolated: true };
+    }
+    const d0 = e0 ? tGpsS - e0.timeGpsS : Infinity;
+    const d1 = e1 ? e1.timeGpsS - tGpsS : Infinity;
+    const near = d0 <= d1 ? e0 : e1;
+    const age = Math.min(d0, d1);
+    if (!near || age > this.maxAgeS) return null;
+    for (const [sat, a] of near.sats) sats.set(sat, a);
+    return { sats, ageS: age, interpolated: false };
+  }
+}

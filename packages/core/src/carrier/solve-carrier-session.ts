@@ -1,0 +1,424 @@
+/**
+ * A carrier-phase session: the rover against one reference, with integer ambiguities, forwards and
+ * backwards.
+ *
+ * 1. One reading of the inputs prepares every rover epoch (estimated GPS time from the rover's code;
+ *    reference phase and code carried to that time within one arc, reference-phase.ts; the rover's
+ *    linearisation point from a code double-difference fix; arcs of both receivers, arc-tracker.ts) into
+ *    compact typed arrays (epoch-records.ts).
+ * 2. The Kalman filter runs over them forwards, then backwards (float-filter.ts), each pass fixing
+ *    ambiguities with LAMBDA and holding them within arcs.
+ * 3. The passes are combined per epoch (combine-passes.ts); every rover epoch is yielded with its kind
+ *    ('fixed', 'float' or 'none'), ratio, number of fixed ambiguities and formal precision.
+ *
+ * Baseline length: differential troposphere is modelled (Saastamoinen + Niell at both ends) and the
+ * differential ionosphere is neglected: below about 10 km it is a few millimetres to a few centimetres
+ * per double difference on L1 in quiet conditions (e.g. Odijk 2002, PhD thesis, Delft), which single-frequency
+ * ambiguity fixing tolerates only over short baselines; longer baselines are reported with a warning.
+ *
+ * Antennas: with an ANTEX calibration (antex.ts) the phase-centre offset and variation of each receiver's
+ * antenna (type from its RINEX header) are applied; without one, different antenna types at the two ends
+ * leave their phase-centre difference (millimetres to centimetres, mostly vertical) in the result: warned.
+ *
+ * GLONASS: its ambiguities are fixed only between receivers of the same type (the inter-channel phase
+ * biases of FDMA signals then cancel, e.g. Wanninger 2012, GPS Solutions 16:439-448); between unlike
+ * receivers they stay float (they still help the float solution).
+ */
+import type { EcefM, FrameEpoch, FramedEcef, GnssSystem, SatId } from '../gnss/index.js';
+import { satSystem, SYSTEM_NAMES } from '../gnss/index.js';
+import type { AntennaOffset, ObsEpoch, ObsStream } from '../gnss/index.js';
+import type { NavData } from '../gnss/index.js';
+import { ProcessingError, type WarningSink } from '../errors.js';
+import { EphemerisStore } from '../orbit/index.js';
+import { arpToMark, azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, markToArp } from '../geodesy/index.js';
+import { decimalYearFromGpsS } from '../time/index.js';
+import { dayOfYear, troposphereDelayM } from '../observables/index.js';
+import { dopplerVelocity } from '../velocity/index.js';
+import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '../session/index.js';
+import { ArcTracker } from './arc-tracker.js';
+import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
+import { ReferencePhaseBuffer, reduceReferenceEpoch } from './reference-phase.js';
+import { EpochRecords } from './epoch-records.js';
+import { runPass, type PassResult, type SatelliteInfo } from './float-filter.js';
+import { combinePasses } from './combine-passes.js';
+import type { CarrierOptions } from './options.js';
+import { antennaCorrectionM, findAntenna, type AntexData } from './antex.js';
+import { codeFixPosition } from './code-fix.js';
+
+export interface CarrierInputs {
+  readonly rover: ObsStream;
+  readonly references: readonly ObsStream[];
+  readonly nav: NavData;
+  /** Antenna calibrations (ANTEX), when given. */
+  readonly antennas?: AntexData;
+  readonly onWarning?: WarningSink;
+}
+
+/** Opens the inputs (again); called once per reading. */
+export type CarrierInputFactory = () => Promise<CarrierInputs>;
+
+export type CarrierSolutionKind = 'fixed' | 'float' | 'none';
+
+/** One rover epoch of a carrier-phase session: an EpochSolution with the carrier-phase kinds and fix quality. */
+export interface CarrierEpochSolution extends Omit<EpochSolution, 'kind'> {
+  readonly kind: CarrierSolutionKind;
+  /** Ratio test statistic of the epoch's integer search (the larger of the two passes; NaN when none ran). */
+  readonly ratio: number;
+  /** Double-difference ambiguities fixed. */
+  readonly fixedAmbiguities: number;
+  /** Formal 3-D precision (m, 1 sigma). */
+  readonly sigma3dM: number;
+  readonly forwardKind: CarrierSolutionKind;
+  readonly backwardKind: CarrierSolutionKind;
+}
+
+export interface PassShares {
+  readonly fixed: number;
+  readonly float: number;
+  readonly none: number;
+}
+
+export interface CarrierSummary {
+  readonly frame: FrameEpoch;
+  readonly referencePosition: FramedEcef;
+  readonly referencePositionSource: string;
+  readonly epochsRover: number;
+  readonly forward: PassShares;
+  readonly backward: PassShares;
+  readonly combined: PassShares;
+  readonly fixableSystems: readonly GnssSystem[];
+  /** Arcs started per cause at each receiver (arc-tracker.ts). */
+  readonly slips: { readonly rover: Readonly<Record<string, number>>; readonly reference: Readonly<Record<string, number>> };
+  /** Median antenna-to-antenna distance of the solved epochs (m). */
+  readonly baselineLengthM: number;
+  readonly notes: readonly string[];
+  /** Memory of the prepared records (bytes). */
+  readonly recordBytes: number;
+}
+
+export interface CarrierRun {
+  readonly epochs: AsyncIterable<CarrierEpochSolution>;
+  summary(): CarrierSummary;
+}
+
+const DEG = Math.PI / 180;
+const KIND: readonly CarrierSolutionKind[] = ['none', 'float', 'fixed'];
+
+function isKnownType(t: string): boolean {
+  const s = t.trim().toLowerCase();
+  return s !== '' && s !== 'unknown' && s !== 'unk';
+}
+
+interface EpochContext {
+  readonly pointName: string;
+  readonly event: 'new-occupation' | 'start-moving' | null;
+  readonly antenna: AntennaOffset;
+  readonly line: number;
+}
+
+export async function solveCarrierSession(open: CarrierInputFactory, options: SessionOptions, carrier: CarrierOptions): Promise<CarrierRun> {
+  const inputs = await open();
+  const warn: WarningSink = inputs.onWarning ?? (() => undefined);
+  if (inputs.references.length === 0) throw new ProcessingError('no reference observation file was given');
+  const store = new EphemerisStore(inputs.nav);
+  if (store.satellites().length === 0) throw new ProcessingError('the navigation files hold no usable ephemeris');
+  const rover = inputs.rover;
+  const refHeader = inputs.references[0].header;
+  const notes: string[] = [];
+
+  const navSystems = store.systemsWithEphemeris();
+  // SBAS and NavIC are left out: their single-frequency phase is rarely logged by both receivers.
+  const systems = options.systems.filter((s) => navSystems.has(s) && s !== 'S' && s !== 'I' && !(s === 'R' && options.glonass === 'exclude'));
+  if (systems.length === 0) throw new ProcessingError(`no navigation data for the constellations asked for (${options.systems.map((s) => SYSTEM_NAMES[s]).join(', ')})`);
+  const likeReceivers = isKnownType(rover.header.receiverType) && inputs.references.every((r) => r.header.receiverType.trim() === rover.header.receiverType.trim());
+  const fixable = new Set<GnssSystem>(systems.filter((s) => s !== 'R'));
+  if (systems.includes('R')) {
+    if (carrier.glonassFix === 'always' || (carrier.glonassFix === 'auto' && likeReceivers)) {
+      fixable.add('R');
+      notes.push(carrier.glonassFix === 'always' ? 'GLONASS ambiguities fixed by option' : `GLONASS ambiguities fixed: both receivers report type '${rover.header.receiverType.trim()}', so inter-channel phase biases cancel`);
+    } else {
+      notes.push(`GLONASS ambiguities kept float: the receivers are not known to match (rover '${rover.header.receiverType.trim() || 'unknown'}', reference '${refHeader.receiverType.trim() || 'unknown'}'), so inter-channel phase biases do not cancel`);
+    }
+  }
+
+  // Reference coordinate and frame (as the code engine: session/solve-session.ts).
+  let refMark: EcefM;
+  let frame: FrameEpoch;
+  let refSource: string;
+  if (options.reference.position) {
+    refMark = options.reference.position.ecef;
+    frame = options.reference.position.frame;
+    refSource = options.reference.source ?? 'given by the user';
+  } else {
+    if (!refHeader.approxPosition) throw new ProcessingError(`${inputs.references[0].file}: no reference coordinate given and the file header has no APPROX POSITION XYZ`);
+    refMark = refHeader.approxPosition;
+    const firstS = rover.header.firstObsGpsS ?? refHeader.firstObsGpsS;
+    frame = { name: 'unstated', epochYear: firstS !== null ? Math.round(decimalYearFromGpsS(firstS) * 100) / 100 : NaN };
+    refSource = `APPROX POSITION XYZ of ${inputs.references[0].file}`;
+    const msg = `reference coordinate taken from the header of ${inputs.references[0].file}: header coordinates can be approximate, and its frame is not stated`;
+    notes.push(msg);
+    warn({ file: inputs.references[0].file, code: 'header-reference-coordinate', message: msg });
+  }
+  const refAntenna: AntennaOffset = options.reference.antenna ?? refHeader.antennaOffset;
+  const refArp = markToArp(refMark, refAntenna);
+  const refGeo = ecefToGeodetic(refArp);
+
+  // Antennas.
+  const roverAntType = rover.header.antennaType.trim();
+  const refAntType = refHeader.antennaType.trim();
+  const antex = inputs.antennas;
+  const roverCal = antex ? findAntenna(antex, roverAntType) : null;
+  const refCal = antex ? findAntenna(antex, refAntType) : null;
+  if (antex) {
+    for (const [t, c, f] of [[roverAntType, roverCal, rover.file], [refAntType, refCal, inputs.references[0].file]] as const) {
+      if (!c) {
+        const msg = `${f}: antenna type '${t || 'unknown'}' is not in the antenna calibrations given: its phase-centre offset and variation are not applied`;
+        notes.push(msg);
+        warn({ file: f, code: 'antenna-not-calibrated', message: msg });
+      }
+    }
+  }
+  if (roverAntType !== refAntType && (!roverCal || !refCal)) {
+    const msg = `the antennas differ (rover '${roverAntType || 'unknown'}', reference '${refAntType || 'unknown'}') and no calibration is applied to both: their phase-centre difference (millimetres to centimetres, mostly in height) stays in the results; give --antennas with an ANTEX file`;
+    notes.push(msg);
+    warn({ file: rover.file, code: 'antenna-types-differ', message: msg });
+  }
+
+  const glonassChannels = new Map<number, number>(store.glonassChannels());
+  for (const h of [refHeader, rover.header]) for (const [slot, k] of h.glonassChannels) glonassChannels.set(slot, k);
+  const ctx: ReceiverContext = { store, systems, glonassChannels };
+  const maskRad = options.elevationMaskDeg * DEG;
+
+  // Satellite table.
+  const satIndex = new Map<SatId, number>();
+  const satellites: SatelliteInfo[] = [];
+  const indexOf = (sat: SatId, wavelengthM: number): number => {
+    let i = satIndex.get(sat);
+    if (i === undefined) { i = satellites.length; satellites.push({ id: sat, system: satSystem(sat), wavelengthM }); satIndex.set(sat, i); }
+    return i;
+  };
+
+  // Reference feed.
+  const refBuffer = new ReferencePhaseBuffer(carrier.maxReferenceAgeS, refHeader.intervalS);
+  const refTracker = new ArcTracker(30);
+  const roverTracker = new ArcTracker(30);
+  const refIter = joinReferenceStreams(inputs.references)[Symbol.asyncIterator]();
+  let refDone = false;
+  let refClockM = NaN;
+  async function pullReference(untilGpsS: number): Promise<void> {
+    while (!refDone && refBuffer.latestTimeGpsS <= untilGpsS) {
+      const r = await refIter.next();
+      if (r.done) { refDone = true; break; }
+      const e = r.value.epoch;
+      if (e.flag > 1 || e.sats.length === 0) continue;
+      const ep = prepareReceiverEpoch(e, ctx, refArp, refClockM);
+      if (!Number.isFinite(ep.clockM)) continue;
+      refClockM = ep.clockM;
+      if (refCal) applyAntenna(ep, refArp, refGeo, refCal);
+      const arcs = refTracker.update(ep.timeGpsS, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
+      refBuffer.add(reduceReferenceEpoch(ep, refArp, refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat)));
+    }
+  }
+
+  /** Phase-centre offset and variation turned into a correction of the phase (cycles) to the antenna reference point. */
+  function applyAntenna(ep: ReceiverEpoch, at: EcefM, g: ReturnType<typeof ecefToGeodetic>, cal: NonNullable<typeof roverCal>): void {
+    for (const s of ep.sats) {
+      if (!Number.isFinite(s.phaseCycles)) continue;
+      const ae = azimuthElevation(at, s.posM, g.latRad, g.lonRad);
+      const c = antennaCorrectionM(cal, s.system, s.code[1], ae.elevationRad, ae.azimuthRad);
+      // The phase centre is nearer the satellite by the correction: add it back to refer to the ARP.
+      (s as { phaseCycles: number }).phaseCycles += c / s.wavelengthM;
+    }
+  }
+
+  // Reading: one pass over the rover, building the records.
+  const rec = new EpochRecords();
+  const contexts: EpochContext[] = [];
+  const reasons: string[] = [];
+  let roverAntenna: AntennaOffset = options.roverAntenna ?? rover.header.antennaOffset;
+  let pointName = rover.header.markerName.trim();
+  let pendingEvent: EpochContext['event'] = null;
+  let occupied = false;
+  let x0: EcefM = rover.header.approxPosition ?? refArp;
+  let roverClockM = NaN;
+  const sdArcs = new Map<SatId, { r: number; b: number; id: number }>();
+  let nextArc = 1;
+  let maxBaselineM = 0;
+  let epochsWithReference = 0;
+  let firstEvent: 'start-moving' | 'new-occupation' | null = null;
+  let firstMovingRecord = 0;
+
+  for await (const e of rover.epochs) {
+    if (e.event) {
+      const ev = e.event;
+      if (ev.kind === 'new-occupation') { pointName = (ev.markerName ?? '').trim() || pointName; pendingEvent = 'new-occupation'; occupied = true; }
+      if (ev.kind === 'start-moving') {
+        pointName = ''; pendingEvent = 'start-moving'; occupied = false;
+        // RINEX 3.05 6.4: the antenna starts moving at flag 2, so it stood still before the first one.
+        if (firstEvent === null) { firstEvent = 'start-moving'; firstMovingRecord = rec.count; }
+      }
+      if (ev.kind === 'new-occupation' && firstEvent === null) firstEvent = 'new-occupation';
+      if (ev.antennaOffset && !options.roverAntenna) roverAntenna = ev.antennaOffset;
+    }
+    if (e.flag !== 0 && e.flag !== 1) continue;
+    if (e.sats.length === 0) continue;
+    const context = contexts.length;
+    contexts.push({ pointName, event: pendingEvent, antenna: roverAntenna, line: e.line });
+    pendingEvent = null;
+    const isStatic = carrier.dynamics === 'static' || (carrier.dynamics === 'auto' && occupied);
+    reasons.push(await prepareRoverEpoch(e, isStatic, context));
+  }
+  if (carrier.dynamics === 'auto' && firstEvent === 'start-moving') rec.isStatic.fill(1, 0, firstMovingRecord);
+  if (rec.count > 0 && epochsWithReference === 0) {
+    throw new ProcessingError(`the rover and reference observations do not overlap in time (no reference epoch within ${carrier.maxReferenceAgeS} s of any rover epoch)`);
+  }
+  if (maxBaselineM > 10_000) {
+    const msg = `baseline up to ${(maxBaselineM / 1000).toFixed(1)} km: the differential ionosphere (not modelled) can reach several centimetres per double difference beyond about 10 km, and single-frequency ambiguities may then be fixed wrongly or not at all`;
+    notes.push(msg);
+    warn({ file: rover.file, code: 'long-baseline', message: msg });
+  }
+
+  async function prepareRoverEpoch(e: ObsEpoch, isStatic: boolean, context: number): Promise<string> {
+    const ep = prepareReceiverEpoch(e, ctx, x0, roverClockM);
+    if (!Number.isFinite(ep.clockM)) { rec.beginEpoch(e.tagGpsS, e.tagGpsS, x0, isStatic, NaN, context); return 'no usable satellite'; }
+    roverClockM = ep.clockM;
+    const t = ep.timeGpsS;
+    if (roverCal) applyAntenna(ep, x0, ecefToGeodetic(x0), roverCal);
+    const arcs = roverTracker.update(t, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
+    await pullReference(t);
+    refBuffer.prune(t);
+    const al = refBuffer.align(t);
+    if (!al) { rec.beginEpoch(t, e.tagGpsS, x0, isStatic, NaN, context); return `no reference epoch within ${carrier.maxReferenceAgeS} s`; }
+    epochsWithReference++;
+    const both = [];
+    for (const s of ep.sats) {
+      const ra = al.sats.get(s.sat);
+      if (!ra) continue;
+      // The same broadcast issue at both ends, so the satellite clock cancels exactly.
+      if (ra.eph !== s.eph) { s.eph = ra.eph; placeSatellite(s, ep.tagGpsS, ep.clockM); }
+      both.push({ s, ra });
+    }
+    const doy = dayOfYear(t);
+    const fix = codeFixPosition(both.map(({ s, ra }) => ({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM })), x0, maskRad, doy);
+    if (fix) x0 = fix;
+    const g0 = ecefToGeodetic(x0);
+    const k = rec.beginEpoch(t, e.tagGpsS, x0, isStatic, al.ageS, context);
+    maxBaselineM = Math.max(maxBaselineM, Math.hypot(x0.x - refArp.x, x0.y - refArp.y, x0.z - refArp.z));
+    for (const { s, ra } of both) {
+      const dx = s.posM.x - x0.x, dy = s.posM.y - x0.y, dz = s.posM.z - x0.z;
+      const rho = Math.sqrt(dx * dx + dy * dy + dz * dz);
+      const ae = azimuthElevation(x0, s.posM, g0.latRad, g0.lonRad);
+      if (ae.elevationRad < 0) continue;
+      const model = rho - s.satClockM + troposphereDelayM(g0, ae.elevationRad, doy);
+      const rArc = arcs.get(s.sat) ?? 0;
+      const withPhase = rArc > 0 && ra.arc > 0 && Number.isFinite(ra.phaseM);
+      let arc = 0;
+      if (withPhase) {
+        const prev = sdArcs.get(s.sat);
+        if (prev && prev.r === rArc && prev.b === ra.arc) arc = prev.id;
+        else { arc = nextArc++; sdArcs.set(s.sat, { r: rArc, b: ra.arc, id: arc }); }
+      }
+      const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle;
+      rec.addSatellite(k, indexOf(s.sat, s.wavelengthM), arc,
+        withPhase ? s.phaseCycles * s.wavelengthM - model - ra.phaseM : NaN,
+        Number.isFinite(s.codeM) ? s.codeM - model - ra.codeM : NaN,
+        dx / rho, dy / rho, dz / rho, Math.min(ae.elevationRad, ra.elevationRad), !half);
+    }
+    if (!isStatic) {
+      const v = dopplerVelocity(e, x0, store, { systems, elevationMaskRad: maskRad, glonassChannels });
+      if (v) {
+        const sig = Math.max(v.sigmaEnuMS.e, v.sigmaEnuMS.n, v.sigmaEnuMS.u);
+        rec.setVelocity(k, v.velocityEcefMS.x, v.velocityEcefMS.y, v.velocityEcefMS.z, Number.isFinite(sig) ? sig : 0.1);
+      }
+    }
+    return rec.satCount[k] === 0 ? 'no satellite common to rover and reference' : '';
+  }
+
+  // Forward and backward passes, then their combination.
+  const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier };
+  const fwd = runPass(rec, setup, 1);
+  const bwd = runPass(rec, setup, -1);
+  (globalThis as Record<string, unknown>).__carrierPasses = () => ({ fwd, bwd, rec });
+  const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM);
+  const shares = (r: PassResult): PassShares => {
+    let fixed = 0, float = 0, none = 0;
+    for (const k of r.kind) { if (k === 2) fixed++; else if (k === 1) float++; else none++; }
+    return { fixed, float, none };
+  };
+  notes.push(`filter: ${fwd.counts.unflaggedSlips + bwd.counts.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.counts.codeOutliers + bwd.counts.codeOutliers} code outliers left out, ${fwd.counts.disturbedEpochs + bwd.counts.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
+
+  const gRef = ecefToGeodetic(refMark);
+  const broadcastFrame = frame;
+  function solutionAt(k: number): CarrierEpochSolution {
+    const c = contexts[rec.context[k]] ?? { pointName, event: null, antenna: roverAntenna, line: 0 };
+    const kind = KIND[combined.kind[k]];
+    const pointReference = options.reduceToMark ? 'ground-mark' as const : 'antenna-reference-point' as const;
+    const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+    const sats = [];
+    for (let j = j0; j < j1; j++) {
+      sats.push({
+        sat: satellites[rec.sat[j]].id, signal: 'L1', elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: NaN,
+        residualM: NaN, weight: 0, wTest: NaN, used: rec.elevationRad[j] >= maskRad && kind !== 'none',
+        reason: rec.elevationRad[j] < maskRad ? `below elevation mask (${(rec.elevationRad[j] / DEG).toFixed(1)} deg)` : Number.isFinite(rec.phaseM[j]) ? '' : 'no phase at both receivers (code only)',
+      });
+    }
+    const base = {
+      tagGpsS: rec.tagGpsS[k], timeGpsS: rec.timeGpsS[k], pointName: c.pointName, pointReference,
+      relativeClockM: {}, dops: null, quality: null, correctionAgeS: rec.referenceAgeS[k], satellites: sats,
+      speedMS: Number.isFinite(rec.velocity[4 * k]) ? Math.hypot(rec.velocity[4 * k], rec.velocity[4 * k + 1], rec.velocity[4 * k + 2]) : NaN,
+      occupationEvent: c.event, antennaHeightM: c.antenna.heightM,
+      forwardKind: KIND[fwd.result.kind[k]], backwardKind: KIND[bwd.result.kind[k]],
+      ratio: combined.ratio[k] > 0 ? combined.ratio[k] : NaN, fixedAmbiguities: combined.fixedAmbiguities[k],
+    };
+    if (kind === 'none') {
+      return { ...base, kind, reason: reasons[k] || 'too few satellites for a solution', position: null, geodetic: null, baselineEcef: null, baselineEnu: null, satellitesUsed: 0, sigmaEnuM: null, sigma3dM: NaN };
+    }
+    const arp = { x: combined.position[3 * k], y: combined.position[3 * k + 1], z: combined.position[3 * k + 2] };
+    const pos = options.reduceToMark ? arpToMark(arp, c.antenna) : arp;
+    const refPoint = options.reduceToMark ? refMark : refArp;
+    const baselineEcef = { x: pos.x - refPoint.x, y: pos.y - refPoint.y, z: pos.z - refPoint.z };
+    const cv = combined.covariance.subarray(6 * k, 6 * k + 6);
+    const g = ecefToGeodetic(pos);
+    return {
+      ...base, kind, reason: kind === 'float' && fwd.result.kind[k] === 2 && bwd.result.kind[k] === 2 ? 'forward and backward fixes disagree' : '',
+      position: { ecef: pos, frame: broadcastFrame }, geodetic: g,
+      baselineEcef, baselineEnu: ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad),
+      satellitesUsed: combined.satellitesUsed[k], sigmaEnuM: enuSigma(cv, g.latRad, g.lonRad), sigma3dM: Math.sqrt(cv[0] + cv[3] + cv[5]),
+    };
+  }
+
+  async function* run(): AsyncIterable<CarrierEpochSolution> {
+    for (let k = 0; k < rec.count; k++) yield solutionAt(k);
+  }
+
+  const recordBytes = rec.count * 80 + rec.satTotal * 40;
+  const lengths: number[] = [];
+  for (let k = 0; k < rec.count; k++) {
+    if (combined.kind[k] === 0) continue;
+    lengths.push(Math.hypot(combined.position[3 * k] - refArp.x, combined.position[3 * k + 1] - refArp.y, combined.position[3 * k + 2] - refArp.z));
+  }
+  lengths.sort((a, b) => a - b);
+  const baselineLengthM = lengths.length ? lengths[lengths.length >> 1] : NaN;
+  return {
+    epochs: run(),
+    summary: (): CarrierSummary => ({
+      frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
+      epochsRover: rec.count, forward: shares(fwd.result), backward: shares(bwd.result), combined: shares(combined),
+      fixableSystems: [...fixable], slips: { rover: { ...roverTracker.causes }, reference: { ...refTracker.causes } },
+      baselineLengthM, notes, recordBytes,
+    }),
+  };
+}
+
+/** Standard deviations east/north/up from an ECEF covariance (xx, xy, xz, yy, yz, zz). */
+function enuSigma(c: ArrayLike<number>, lat: number, lon: number): { e: number; n: number; u: number } {
+  const sl = Math.sin(lat), cl = Math.cos(lat), so = Math.sin(lon), co = Math.cos(lon);
+  const rows = [[-so, co, 0], [-sl * co, -sl * so, cl], [cl * co, cl * so, sl]];
+  const m = [[c[0], c[1], c[2]], [c[1], c[3], c[4]], [c[2], c[4], c[5]]];
+  const v = rows.map((r) => {
+    let s = 0;
+    for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) s += r[i] * m[i][j] * r[j];
+    return Math.sqrt(Math.max(s, 0));
+  });
+  return { e: v[0], n: v[1], u: v[2] };
+}

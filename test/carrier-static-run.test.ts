@@ -1,0 +1,121 @@
+/**
+ * Acceptance of the carrier-phase engine on real data: the static run of cors-and-rover-2018-277
+ * (../shared/data, README there). Truth: the rover's own real-time carrier-phase fixed solution
+ * (rover-truth.csv rows of fix quality 4), relative to the base's header coordinate, positions at the
+ * antenna. Bounds are the engine's acceptance targets; the figures are printed so they can be quoted.
+ */
+import { beforeAll, expect, it } from 'vitest';
+import { ecefToEnu } from '../packages/core/src/geodesy/index.js';
+import { withDefaults, type SessionOptions } from '../packages/core/src/session/index.js';
+import { solveCarrierSession, withCarrierDefaults, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary } from '../packages/core/src/carrier/index.js';
+import type { NavData } from '../packages/core/src/rinex/nav-types.js';
+import type { ObsStream } from '../packages/core/src/rinex/obs-types.js';
+import type { EcefM } from '../packages/core/src/types.js';
+import { describeShared } from './support/shared.js';
+import { corsNav, openObs, percentile, roverTruth } from './support/static-run.js';
+
+/** The rover file with only the epochs of [fromGpsS, toGpsS) (tags), as a stream of its own. */
+async function window(rel: string, fromGpsS: number, toGpsS: number): Promise<ObsStream> {
+  const s = await openObs(rel);
+  async function* epochs() { for await (const e of s.epochs) if (e.tagGpsS >= fromGpsS && e.tagGpsS < toGpsS) yield e; }
+  return { file: s.file, header: s.header, epochs: epochs() };
+}
+
+async function solve(rover: string | (() => Promise<ObsStream>), references: string[], nav: NavData, opts: Partial<SessionOptions> = {}, carrier: Partial<CarrierOptions> = {}): Promise<{ solutions: CarrierEpochSolution[]; summary: CarrierSummary }> {
+  const run = await solveCarrierSession(
+    async () => ({ rover: typeof rover === 'string' ? await openObs(rover) : await rover(), references: await Promise.all(references.map(openObs)), nav }),
+    withDefaults({ reduceToMark: false, ...opts }), withCarrierDefaults(carrier));
+  const solutions: CarrierEpochSolution[] = [];
+  for await (const s of run.epochs) solutions.push(s);
+  return { solutions, summary: run.summary() };
+}
+
+const BASE = 'static-run/base.obs';
+const ROVER = 'static-run/rover.obs';
+const CORS = ['reference/glw1277m.18o', 'reference/glw1277n.18o'];
+const CORS_XYZ: EcefM = { x: 3774050.9626, y: -601852.6734, z: 5089350.3688 };
+
+interface FixStats { truthEpochs: number; fixed: number; forwardFixed: number; h95: number; v95: number; wrong: number; fixedCompared: number }
+
+function fixStats(solutions: readonly CarrierEpochSolution[], truth: Map<number, EcefM>, logWrong = true): FixStats {
+  let truthEpochs = 0, fixed = 0, forwardFixed = 0, wrong = 0;
+  const h: number[] = [], v: number[] = [];
+  for (const s of solutions) {
+    const t = truth.get(Math.round(s.timeGpsS));
+    if (!t) continue;
+    truthEpochs++;
+    if (s.forwardKind === 'fixed') forwardFixed++;
+    if (s.kind !== 'fixed' || !s.position) continue;
+    fixed++;
+    const e = ecefToEnu(s.position.ecef, t);
+    h.push(Math.hypot(e.e, e.n));
+    v.push(Math.abs(e.u));
+    if (Math.hypot(e.e, e.n, e.u) > 0.1) {
+      wrong++;
+      if (logWrong) console.log(`wrong fix at ${s.timeGpsS.toFixed(1)} (${s.forwardKind}/${s.backwardKind}, ratio ${s.ratio.toFixed(1)}, ${s.fixedAmbiguities} fixed): E/N/U ${[e.e, e.n, e.u].map((x) => x.toFixed(3)).join('/')} m`);
+    }
+  }
+  return { truthEpochs, fixed, forwardFixed, h95: percentile(h, 0.95), v95: percentile(v, 0.95), wrong, fixedCompared: h.length };
+}
+
+const fmt = (s: FixStats) => `truth epochs ${s.truthEpochs}: fixed ${(100 * s.fixed / s.truthEpochs).toFixed(1)} % (forward alone ${(100 * s.forwardFixed / s.truthEpochs).toFixed(1)} %), fixed H95 ${s.h95.toFixed(3)} m V95 ${s.v95.toFixed(3)} m, wrong (> 0.10 m) ${s.wrong}`;
+
+describeShared('carrier-phase engine on the real static run (cors-and-rover-2018-277; truth: rover-truth.csv quality 4)', () => {
+  let nav: NavData;
+  let truth = new Map<number, EcefM>();
+  beforeAll(async () => { nav = await corsNav(); truth = roverTruth(); });
+
+  it('rover against base: >= 95 % fixed (>= 90 % forward alone), H95 <= 0.03 m, V95 <= 0.05 m, wrong fixes <= 0.5 %', async () => {
+    const { solutions, summary } = await solve(ROVER, [BASE], nav);
+    const st = fixStats(solutions, truth);
+    console.log(`rover vs base, carrier phase: ${fmt(st)}`);
+    console.log(`passes: forward ${JSON.stringify(summary.forward)} backward ${JSON.stringify(summary.backward)} combined ${JSON.stringify(summary.combined)}; slips ${JSON.stringify(summary.slips)}; ${summary.notes.join(' | ')}`);
+    expect(st.truthEpochs).toBeGreaterThan(1000);
+    expect(st.fixed / st.truthEpochs).toBeGreaterThanOrEqual(0.95);
+    expect(st.forwardFixed / st.truthEpochs).toBeGreaterThanOrEqual(0.90);
+    expect(st.h95).toBeLessThanOrEqual(0.03);
+    expect(st.v95).toBeLessThanOrEqual(0.05);
+    expect(st.wrong / st.fixed).toBeLessThanOrEqual(0.005);
+  });
+
+  it('60-second occupations cut from the run, each solved alone: >= 70 % of their truth epochs fixed, none wrong', async () => {
+    const header = (await openObs(ROVER)).header;
+    const first = header.firstObsGpsS!, last = header.lastObsGpsS!;
+    const all: CarrierEpochSolution[] = [];
+    let windows = 0;
+    for (let t = first; t + 60 <= last + 1; t += 60) {
+      const { solutions } = await solve(() => window(ROVER, t, t + 60), [BASE], nav);
+      all.push(...solutions);
+      windows++;
+    }
+    const st = fixStats(all, truth);
+    console.log(`${windows} occupations of 60 s: ${fmt(st)}`);
+    expect(windows).toBeGreaterThanOrEqual(19);
+    expect(st.fixed / st.truthEpochs).toBeGreaterThanOrEqual(0.70);
+    expect(st.wrong).toBe(0);
+  });
+
+  it('rover against the CORS (196 m, its L1): >= 95 % fixed; closure rover-CORS - (base-CORS + rover-base) <= 0.02 m', async () => {
+    const cors = { reference: { position: { ecef: CORS_XYZ, frame: { name: 'unstated', epochYear: 2018.76 } }, source: 'CORS coordinate (test)' } };
+    const rc = await solve(ROVER, CORS, nav, cors);
+    // Against the CORS the truth (relative to the base header coordinate) is off by that coordinate's own error: fix rate only.
+    const st = fixStats(rc.solutions, truth, false);
+    console.log(`rover vs CORS, carrier phase: truth epochs ${st.truthEpochs}: fixed ${(100 * st.fixed / st.truthEpochs).toFixed(1)} % (forward alone ${(100 * st.forwardFixed / st.truthEpochs).toFixed(1)} %); ${rc.summary.notes.join(' | ')}`);
+    expect(st.fixed / st.truthEpochs).toBeGreaterThanOrEqual(0.95);
+    const mean = (sols: readonly CarrierEpochSolution[]) => {
+      const f = sols.filter((s) => s.kind === 'fixed' && s.position);
+      const m = { x: 0, y: 0, z: 0 };
+      for (const s of f) { m.x += s.position!.ecef.x / f.length; m.y += s.position!.ecef.y / f.length; m.z += s.position!.ecef.z / f.length; }
+      return { m, n: f.length };
+    };
+    const rb = await solve(ROVER, [BASE], nav);
+    const bc = await solve(BASE, CORS, nav, cors);
+    const baseHeader = (await openObs(BASE)).header.approxPosition!;
+    const a = mean(rc.solutions), b = mean(bc.solutions), r = mean(rb.solutions);
+    const closure = Math.hypot(a.m.x - (b.m.x + r.m.x - baseHeader.x), a.m.y - (b.m.y + r.m.y - baseHeader.y), a.m.z - (b.m.z + r.m.z - baseHeader.z));
+    const off = ecefToEnu(b.m, baseHeader);
+    console.log(`base vs CORS: ${bc.summary.combined.fixed}/${bc.summary.epochsRover} fixed, base header coordinate off by E/N/U ${[off.e, off.n, off.u].map((x) => x.toFixed(3)).join('/')} m; closure ${closure.toFixed(4)} m (fixed epochs: ${a.n}, ${b.n}, ${r.n})`);
+    expect(b.n).toBeGreaterThan(100);
+    expect(closure).toBeLessThanOrEqual(0.02);
+  });
+});

@@ -1,0 +1,63 @@
+/**
+ * `refdelta solve` with carrier phase (the default when both receivers recorded phase) on the real static
+ * run (data README, cors-and-rover-2018-277/static-run), positions at the antenna; truth: rover-truth.csv
+ * rows of fix_quality 4 (the rover's real-time carrier-phase fixed solution relative to the base header
+ * coordinate). The engine's own acceptance figures are in carrier-static-run.test.ts; this checks the CLI's
+ * outputs: solution kinds, the carrier columns at the end of epochs.csv, the pass shares in summary.json.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { beforeAll, expect, it } from 'vitest';
+import { dataPath, describeShared } from './support/shared.js';
+import { enuAt, nearestRank, parseCsv, requireBuiltCli, runCli, tempDir, type CliRun } from './cli-support.js';
+
+const D = 'cors-and-rover-2018-277';
+
+describeShared('refdelta solve with carrier phase on the real static run', () => {
+  let out = '';
+  let run: CliRun;
+  beforeAll(() => {
+    requireBuiltCli();
+    out = tempDir('rd-carrier-');
+    run = runCli([
+      'solve', '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
+      '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
+      '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', '--at-antenna',
+      '--out', out,
+    ]);
+  });
+
+  it('exits 0 and says how many epochs were fixed in each pass', () => {
+    expect(run.status, run.stderr).toBe(0);
+    expect(run.stdout + run.stderr).toMatch(/carrier phase: \d+ epochs fixed .* forward pass alone/);
+  });
+
+  it('epochs.csv: ratio and fixed_ambiguities are the last columns; fixed rows within centimetres of the truth', () => {
+    const ep = parseCsv(readFileSync(join(out, 'epochs.csv'), 'utf8'));
+    expect(ep.header.slice(-2)).toEqual(['ratio', 'fixed_ambiguities']);
+    const truth = parseCsv(readFileSync(dataPath(`${D}/static-run/rover-truth.csv`), 'utf8')).rows.filter((r) => r.fix_quality === '4');
+    const byTow = new Map(truth.map((r) => [Math.round(Number(r.gps_tow_s)), r]));
+    const h: number[] = [];
+    let fixed = 0;
+    for (const r of ep.rows) {
+      if (r.solution !== 'fixed') continue;
+      fixed++;
+      expect(Number(r.fixed_ambiguities)).toBeGreaterThanOrEqual(5);
+      const t = byTow.get(Math.round(Number(r.gps_tow_s)));
+      if (!t) continue;
+      const lat = (Number(r.latitude_deg) * Math.PI) / 180, lon = (Number(r.longitude_deg) * Math.PI) / 180;
+      const [e, n] = enuAt([Number(r.ecef_x_m) - Number(t.ecef_x_m), Number(r.ecef_y_m) - Number(t.ecef_y_m), Number(r.ecef_z_m) - Number(t.ecef_z_m)], lat, lon);
+      h.push(Math.hypot(e, n));
+    }
+    expect(fixed / ep.rows.length).toBeGreaterThanOrEqual(0.95);
+    expect(nearestRank(h, 0.95)).toBeLessThanOrEqual(0.03);
+  });
+
+  it('summary.json gives the fix shares of the forward, backward and combined passes', () => {
+    const s = JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8'));
+    const p = s.carrier_phase.passes;
+    for (const k of ['forward', 'backward', 'combined']) expect(p[k].fixed + p[k].float + p[k].none).toBe(s.counts.rover_epochs);
+    expect(p.combined.fixed_share).toBeGreaterThanOrEqual(0.95);
+    expect(s.carrier_phase.options.ratio_threshold).toBe(3);
+  });
+});
