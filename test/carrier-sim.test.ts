@@ -5,7 +5,7 @@
  * are the real-data tests (carrier-static-run.test.ts).
  */
 import { describe, expect, it } from 'vitest';
-import { simulateScenario, exampleScenarioSpec, type ScenarioSpec, type SimulatedScenario } from '../packages/core/src/sim/index.js';
+import { simulateScenario, exampleScenarioSpec, type ScenarioSpec, type SimulatedScenario } from '../packages/sim/src/index.js';
 import { withDefaults } from '../packages/core/src/session/index.js';
 import { solveCarrierSession, withCarrierDefaults, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary } from '../packages/core/src/carrier/index.js';
 import { ecefToEnu } from '../packages/core/src/geodesy/index.js';

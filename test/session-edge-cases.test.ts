@@ -3,7 +3,7 @@
  * orbit model with the engine). Each case is a user situation that must be reported, not dropped.
  */
 import { describe, expect, it } from 'vitest';
-import { simulateScenario, exampleScenarioSpec, type SimulatedScenario } from '../packages/core/src/sim/index.js';
+import { simulateScenario, exampleScenarioSpec, type SimulatedScenario } from '../packages/sim/src/index.js';
 import { solveSession, withDefaults, type EpochSolution } from '../packages/core/src/session/index.js';
 import type { ObsEpoch, ObsHeader, ObsStream } from '../packages/core/src/gnss/obs-types.js';
 import { ProcessingError } from '../packages/core/src/errors.js';

@@ -5,7 +5,7 @@
 import { createHash } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { DEMO_FILE_NAMES, renderDemoFiles } from '../packages/core/src/sim/index.js';
+import { DEMO_FILE_NAMES, renderDemoFiles } from '../packages/sim/src/index.js';
 import { fixturePath } from './support/shared.js';
 
 function sha256(chunks: Iterable<string>): string {

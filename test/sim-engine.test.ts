@@ -4,7 +4,7 @@
  * physics. The outside checks of the engine are the real-data tests (differential-static, standalone-real).
  */
 import { describe, expect, it } from 'vitest';
-import { simulateScenario, exampleScenarioSpec, type ScenarioSpec, type SimulatedScenario } from '../packages/core/src/sim/index.js';
+import { simulateScenario, exampleScenarioSpec, type ScenarioSpec, type SimulatedScenario } from '../packages/sim/src/index.js';
 import { solveSession, withDefaults, type EpochSolution, type SessionOptions } from '../packages/core/src/session/index.js';
 import { solveStandaloneEpoch } from '../packages/core/src/standalone/index.js';
 import { EphemerisStore } from '../packages/core/src/orbit/index.js';

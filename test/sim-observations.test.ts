@@ -3,7 +3,7 @@
  * Each error switch is turned on alone and the observations are compared with the all-off run.
  */
 import { describe, expect, it } from 'vitest';
-import { exampleScenarioSpec, simulateScenario, type ErrorSpec } from '../packages/core/src/sim/index.js';
+import { exampleScenarioSpec, simulateScenario, type ErrorSpec } from '../packages/sim/src/index.js';
 import type { ObsEpoch, NavData } from '../packages/core/src/gnss/index.js';
 import { EphemerisStore, satelliteAtTransmission } from '../packages/core/src/orbit/index.js';
 import { ecefToGeodetic, azimuthElevation } from '../packages/core/src/geodesy/index.js';

@@ -4,7 +4,7 @@
  * observations (RINEX 3.04 table A3), D19.12 for navigation records (RINEX 3.04 table A6).
  */
 import { describe, expect, it } from 'vitest';
-import { ALL_ERRORS_ON, exampleScenarioSpec, simulateScenario } from '../packages/core/src/sim/index.js';
+import { ALL_ERRORS_ON, exampleScenarioSpec, simulateScenario } from '../packages/sim/src/index.js';
 import { readObsStream, collectEpochs, writeObsRinex3 } from '../packages/core/src/rinex/index.js';
 import type { ObsEpoch } from '../packages/core/src/gnss/index.js';
 import { readNav } from '../packages/core/src/rinex/nav-reader.js';

@@ -16,8 +16,7 @@ export * from './standalone/index.js';
 export * from './compress/index.js';
 export * from './session/index.js';
 export * from './control/index.js';
-export * from './sim/index.js';
-// points/: the sim stage exports its own 'Occupation' type, so the points one is renamed here.
+// points/: 'Occupation' is also a word of the simulator's; the points one is exported as PointOccupation.
 export * from './points/robust-mean.js';
 
 export * from './points/antenna-height.js';

@@ -4,11 +4,11 @@
  * error of the error model, both common to every receiver. Also the light-time solution between a
  * receiver and a satellite.
  */
-import type { EcefM, SatId } from '../gnss/index.js';
-import type { KeplerEphemeris, NavData } from '../gnss/index.js';
-import { keplerStateInto } from '../orbit/index.js';
-import { satelliteClock, type SignalKind } from '../orbit/index.js';
-import { GPS_CONSTANTS } from '../orbit/index.js';
+import type { EcefM, SatId } from '@refdelta/core';
+import type { KeplerEphemeris, NavData } from '@refdelta/core';
+import { keplerStateInto } from '@refdelta/core';
+import { satelliteClock, type SignalKind } from '@refdelta/core';
+import { GPS_CONSTANTS } from '@refdelta/core';
 import type { OrbitErrorParams, SatClockErrorParams } from './errors.js';
 import { Rng } from './rng.js';
 import { sumOfSinusoids, ZERO_PROCESS, type SlowProcess } from './slow-process.js';

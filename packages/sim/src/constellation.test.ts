@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { simulateConstellation } from './constellation.js';
-import { satelliteState } from '../orbit/index.js';
-import type { KeplerEphemeris } from '../gnss/nav-types.js';
+import { satelliteState } from '@refdelta/core';
+import type { KeplerEphemeris } from '@refdelta/core';
 
 const START = 1_400_000_000;
 const nav = simulateConstellation({ seed: 3, startGpsS: START, endGpsS: START + 3600, systems: ['G', 'E'] });

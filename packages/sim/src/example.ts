@@ -1,5 +1,5 @@
 /** A small example scenario (10 minutes, two points 100 m apart), for tests and quick experiments. */
-import { secondsFromCalendar } from '../time/index.js';
+import { secondsFromCalendar } from '@refdelta/core';
 import type { ErrorSpec } from './errors.js';
 import type { ScenarioSpec } from './scenario.js';
 

@@ -8,11 +8,11 @@
  * renderDemoFiles() gives every file's text as chunks; fixtures/demo/make-demo.mjs writes them atomically and
  * the demo test hashes them, so the committed files are exactly what the seed produces.
  */
-import type { EcefM } from '../gnss/index.js';
-import { ecefToGeodetic } from '../geodesy/index.js';
-import { isoFromSeconds, secondsFromCalendar, weekTowFromGpsS } from '../time/index.js';
-import { writeObsRinex3 } from '../rinex/index.js';
-import { writeNavRinex3 } from '../rinex/index.js';
+import type { EcefM } from '@refdelta/core';
+import { ecefToGeodetic } from '@refdelta/core';
+import { isoFromSeconds, secondsFromCalendar, weekTowFromGpsS } from '@refdelta/core';
+import { writeObsRinex3 } from '@refdelta/core';
+import { writeNavRinex3 } from '@refdelta/core';
 import { ALL_ERRORS_ON } from './errors.js';
 import { simulateScenario, type ScenarioSpec, type SimulatedScenario } from './scenario.js';
 

@@ -4,8 +4,8 @@
  * (RINEX ANTENNA: DELTA H/E/N with E = N = 0); while walking, the ARP moves in a straight line (in ECEF)
  * from the last occupation's ARP to the next one's, at the given horizontal speed.
  */
-import type { EcefM } from '../gnss/index.js';
-import { ecefToGeodetic, enuToEcefDelta, geodeticToEcef } from '../geodesy/index.js';
+import type { EcefM } from '@refdelta/core';
+import { ecefToGeodetic, enuToEcefDelta, geodeticToEcef } from '@refdelta/core';
 
 export type PlanStep =
   | { readonly kind: 'static'; readonly point: string; readonly durationS: number; readonly antennaHeightM: number }

@@ -7,8 +7,8 @@
  * semicircles; F = 1 + 16 (0.53 - E)^3). Wave: dI_v = A sin(2 pi s / L + 2 pi t / T + phi0) with s the
  * pierce point's distance along the wave's azimuth; its largest gradient is 2 pi A / L, so A = g L / (2 pi).
  */
-import type { KlobucharCoefficients } from '../gnss/index.js';
-import { klobucharDelayM } from '../atmosphere/index.js';
+import type { KlobucharCoefficients } from '@refdelta/core';
+import { klobucharDelayM } from '@refdelta/core';
 import type { IonoErrorParams } from './errors.js';
 
 const GPS_PI = 3.1415926535898; // IS-GPS-200 value of pi for the curve fits

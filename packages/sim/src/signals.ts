@@ -3,8 +3,8 @@
  * 5.1, table 4): GPS C1C/L1C/D1C/S1C (L1 C/A), C1W, C2W/L2W/D2W/S2W (L1 and L2 P(Y), semi-codeless);
  * Galileo C1C/L1C/D1C/S1C (E1 C, pilot).
  */
-import type { SignalKind } from '../orbit/index.js';
-import { FREQ_L1_HZ, FREQ_L2_HZ } from '../orbit/index.js';
+import type { SignalKind } from '@refdelta/core';
+import { FREQ_L1_HZ, FREQ_L2_HZ } from '@refdelta/core';
 
 export type Band = 1 | 2;
 

@@ -17,10 +17,10 @@
  * data source, E5b/E1 clock): toe every hour (the real system refreshes every 10 min; one hour keeps files
  * small), IODnav incrementing (mod 1024), transmitted 9 min before toe.
  */
-import type { GnssSystem } from '../gnss/index.js';
-import type { KeplerEphemeris, KlobucharCoefficients, NavData } from '../gnss/index.js';
-import { GALILEO_CONSTANTS, GPS_CONSTANTS } from '../orbit/index.js';
-import { SECONDS_PER_WEEK } from '../time/index.js';
+import type { GnssSystem } from '@refdelta/core';
+import type { KeplerEphemeris, KlobucharCoefficients, NavData } from '@refdelta/core';
+import { GALILEO_CONSTANTS, GPS_CONSTANTS } from '@refdelta/core';
+import { SECONDS_PER_WEEK } from '@refdelta/core';
 import { Rng } from './rng.js';
 
 /**

@@ -3,11 +3,11 @@
  * plan, the broadcast navigation data both use, and the truth. The truth is in WGS 84 at the scenario
  * epoch (the frame of the simulated broadcast orbits): every coordinate here is "WGS84 @ decimal year".
  */
-import type { EcefM, FrameEpoch } from '../gnss/index.js';
-import type { HeaderEvent, ObsEpoch, ObsHeader } from '../gnss/index.js';
-import type { NavData } from '../gnss/index.js';
-import { ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
-import { decimalYearFromGpsS } from '../time/index.js';
+import type { EcefM, FrameEpoch } from '@refdelta/core';
+import type { HeaderEvent, ObsEpoch, ObsHeader } from '@refdelta/core';
+import type { NavData } from '@refdelta/core';
+import { ecefToGeodetic, enuToEcefDelta } from '@refdelta/core';
+import { decimalYearFromGpsS } from '@refdelta/core';
 import { simulateConstellation, TYPICAL_KLOBUCHAR, SIM_LEAP_SECONDS } from './constellation.js';
 import { GEODETIC_PROFILE, LOW_COST_PROFILE, resolveErrors, type ErrorSpec, type ReceiverProfile } from './errors.js';
 import { IonoTruth } from './iono-truth.js';

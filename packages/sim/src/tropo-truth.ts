@@ -4,7 +4,7 @@
  * al. 1985, Niell 1996), plus a slowly varying zenith wet error of the receiver, mapped with the wet
  * mapping function. Lower sites see more delay because pressure and humidity grow downwards.
  */
-import { slantTroposphere } from '../atmosphere/index.js';
+import { slantTroposphere } from '@refdelta/core';
 import { ZERO_PROCESS, type SlowProcess } from './slow-process.js';
 
 export class TropoTruth {

@@ -17,11 +17,11 @@
  * C/N0 grows linearly with sin(elevation) between the profile's horizon and zenith values (common
  * practice); the signal strength digit is floor(C/N0 / 6) clamped to 1..9 (RINEX 3.04 5.7 table).
  */
-import type { EcefM, SatId } from '../gnss/index.js';
-import type { HeaderEvent, ObsEpoch, SatObservations } from '../gnss/index.js';
-import { LLI_LOST_LOCK } from '../gnss/index.js';
-import { azimuthElevation, ecefToGeodetic } from '../geodesy/index.js';
-import { calendarFromSeconds, daysFromCivil } from '../time/index.js';
+import type { EcefM, SatId } from '@refdelta/core';
+import type { HeaderEvent, ObsEpoch, SatObservations } from '@refdelta/core';
+import { LLI_LOST_LOCK } from '@refdelta/core';
+import { azimuthElevation, ecefToGeodetic } from '@refdelta/core';
+import { calendarFromSeconds, daysFromCivil } from '@refdelta/core';
 import type { ReceiverProfile, ResolvedErrors } from './errors.js';
 import type { IonoTruth } from './iono-truth.js';
 import type { TropoTruth } from './tropo-truth.js';
