@@ -54,9 +54,9 @@ describe.skipIf(!HAVE)('refdelta check on the demo scenario', () => {
 
   it('exit code 3 and one sentence when a mark fails its tolerance', () => {
     const o = tempDir('rd-check-demo-fail-');
-    const r = runCli(['check', '--points', pts, '--marks', DEMO('control-marks.csv'), '--tolerance-h', '0.01', '--out', o, '--quiet']);
+    const r = runCli(['check', '--points', pts, '--marks', DEMO('control-marks.csv'), '--tolerance-h', '0.0001', '--out', o, '--quiet']);
     expect(r.status).toBe(3);
-    expect(expectOneSentence(r)).toMatch(/3 of 3 control mark\(s\) failed the tolerance \(horizontal 0\.01 m/);
+    expect(expectOneSentence(r)).toMatch(/3 of 3 control mark\(s\) failed the tolerance \(horizontal 0\.0001 m/);
     // outputs are still written
     expect(parseCsv(readFileSync(join(o, 'control-check.csv'), 'utf8')).rows.every((x) => x.pass === 'fail')).toBe(true);
   });

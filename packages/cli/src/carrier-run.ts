@@ -51,12 +51,13 @@ export interface CarrierChoice {
  */
 export function parseCarrierChoice(a: CarrierArgs, command: string, rover: ObsHeader, reference: ObsHeader, session: SessionOptions): CarrierChoice {
   const given = a.carrierPhase === undefined ? 'auto' : parseChoice('carrier-phase', a.carrierPhase, ['on', 'off'] as const);
-  if (command !== 'solve' && given === 'on') throw new UsageError(`--carrier-phase on is taken by solve only (not yet by ${command})`);
   const both = recordsPhase(rover) && recordsPhase(reference);
   if (given === 'on' && !both) throw new UsageError('--carrier-phase on needs carrier phase in both the rover and the reference file (their headers list no L observation)');
   if (given === 'on' && (session.smoothing.enabled || session.standaloneFallback)) throw new UsageError('--carrier-phase on cannot be combined with --smooth or --fallback-standalone (code-only processing)');
   const codeOnly = session.smoothing.enabled || session.standaloneFallback;
-  const on = command === 'solve' && (given === 'on' || (given === 'auto' && both && !codeOnly));
+  // solve, points and batch alike (command names the one asking, for messages).
+  void command;
+  const on = given === 'on' || (given === 'auto' && both && !codeOnly);
   const options = withCarrierDefaults({
     ...(a.ratioThreshold !== undefined ? { ratioThreshold: parseNumber('ratio-threshold', a.ratioThreshold, 1, 1000) } : {}),
     ...(a.ambiguityMask !== undefined ? { ambiguityMaskDeg: parseNumber('ambiguity-mask', a.ambiguityMask, 0, 60) } : {}),
@@ -104,7 +105,7 @@ export async function runCarrierSession(
         frame: c.frame, referencePosition: c.referencePosition, referencePositionSource: c.referencePositionSource,
         epochsRover: n,
         // The carrier kinds alongside the code ones (the union of kinds is widened here for the outputs).
-        epochsByKind: { differential: 0, smoothed: 0, standalone: 0, none, fixed: c.combined.fixed, float: c.combined.float } as unknown as SessionSummary['epochsByKind'],
+        epochsByKind: { differential: 0, smoothed: 0, standalone: 0, none, fixed: c.combined.fixed, float: c.combined.float },
         epochsWithoutCorrections: 0,
         satelliteRejections: [],
         epochRejections: [...reasons].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
@@ -119,11 +120,11 @@ export async function runCarrierSession(
 }
 
 function asEpochSolution(s: CarrierEpochSolution): EpochSolution {
-  return { ...s, kind: s.kind as unknown as SolutionKind };
+  return { ...s, kind: s.kind };
 }
 
 /** True for the carrier-phase solution kinds. */
-export function isCarrierKind(kind: string): boolean {
+export function isCarrierKind(kind: SolutionKind): boolean {
   return kind === 'fixed' || kind === 'float';
 }
 

@@ -98,7 +98,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
       'points',
       'per-point coordinates: a solve run, then one averaged coordinate per occupation (windows, event flags or Doppler static detection)',
       (c) =>
-        definePointsOptions(defineSolveOptions(c))
+        defineCarrierOptions(definePointsOptions(defineSolveOptions(c)))
           .example('refdelta points --rover rover.obs --reference base.obs --nav brdc.18n --ref-xyz 3774089.212,-601661.616,5089321.247 --ref-frame WGS84 --ref-epoch 2018.76 --projection utm --geoid egm96 --out out/pts', 'points with UTM grid coordinates and EGM96 heights'),
       async (args) => {
         const a = args as unknown as Record<string, unknown>;
@@ -111,14 +111,14 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
       'batch',
       'a folder of rover sessions: a points run for each observation file (outputs in OUT/<session>/), batch-points.csv and batch-summary.json (exit code 4 when some sessions failed)',
       (c) =>
-        definePointsOptions(defineProcessingOptions(
+        defineCarrierOptions(definePointsOptions(defineProcessingOptions(
           c.option('sessions', { type: 'string', demandOption: true, describe: 'folder of rover observation files, one session each (any RINEX encoding; other files are skipped with a note)', group: 'Files:' })
             .option('reference', { type: 'string', array: true, describe: 'reference observation file(s) for every session', group: 'Files:' })
             .option('reference-dir', { type: 'string', describe: 'folder of reference observation files: each session uses those overlapping its time span', group: 'Files:' })
             .option('nav', { type: 'string', array: true, describe: 'navigation file(s) for every session', group: 'Files:' })
             .option('nav-dir', { type: 'string', describe: 'folder of navigation files: each session uses those with ephemerides for its time span', group: 'Files:' })
             .option('out', { type: 'string', demandOption: true, describe: 'output folder: OUT/<session>/ per session, batch-points.csv, batch-summary.json', group: 'Files:' }),
-        ))
+        )))
           .example('refdelta batch --sessions field/ --reference-dir cors/ --nav-dir cors/ --ref-from-header --out out/batch', 'every session of field/ against the CORS hours that overlap it'),
       async (args) => {
         const a = args as unknown as Record<string, unknown>;

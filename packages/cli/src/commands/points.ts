@@ -42,7 +42,7 @@ interface Collected {
 
 function collect(c: Collected, s: EpochSolution): void {
   if (s.position && s.kind !== 'none') {
-    c.epochs.push({ tagGpsS: s.tagGpsS, ecef: s.position.ecef, kind: s.kind, pdop: s.dops?.pdop ?? NaN, antennaHeightM: s.antennaHeightM, frame: s.position.frame, ...(s.sigmaEnuM ? { sigmaEnuM: s.sigmaEnuM } : {}), ...(s.quality ? { varianceFactor: s.quality.varianceFactor } : {}) });
+    c.epochs.push({ tagGpsS: s.tagGpsS, ecef: s.position.ecef, kind: s.kind, pdop: s.dops?.pdop ?? NaN, ...(s.baselineEcef ? { baselineM: Math.hypot(s.baselineEcef.x, s.baselineEcef.y, s.baselineEcef.z) } : {}), antennaHeightM: s.antennaHeightM, frame: s.position.frame, ...(s.sigmaEnuM ? { sigmaEnuM: s.sigmaEnuM } : {}), ...(s.quality ? { varianceFactor: s.quality.varianceFactor } : {}) });
     if (!c.frame && s.kind !== 'standalone') c.frame = s.position.frame;
   }
   c.pointReference = s.pointReference;

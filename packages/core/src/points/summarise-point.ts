@@ -39,6 +39,8 @@ export interface SummariseOptions {
   readonly correlationTimeS?: number;
   /** Standard uncertainty of the reference coordinate itself (m, per horizontal axis and vertical): it moves every point alike. */
   readonly referenceSigma?: ReferenceSigma;
+  /** Smallest sigma of the mean (m, per horizontal axis and vertical), for errors the epochs cannot show. */
+  readonly sigmaFloor?: ReferenceSigma;
 }
 
 /** How well the reference coordinate itself is known (1 sigma, m). */
@@ -124,9 +126,10 @@ export function summarisePoint(samples: readonly PointSample[], opts: SummariseO
   const nCorrelation = Math.max(1, (Number.isFinite(durationS) ? durationS : 0) / (opts.correlationTimeS ?? 300));
   const minEpochs = opts.minEpochs ?? 10;
   const tol = opts.horizontalToleranceM ?? 1.0;
-  const sigmaE = Math.max(sdE / Math.sqrt(fe.nEff), formal.e / Math.sqrt(nCorrelation));
-  const sigmaN = Math.max(sdN / Math.sqrt(fn.nEff), formal.n / Math.sqrt(nCorrelation));
-  const sigmaU = Math.max(sdU / Math.sqrt(fu.nEff), formal.u / Math.sqrt(nCorrelation));
+  const floorH = opts.sigmaFloor?.horizontalM ?? 0, floorV = opts.sigmaFloor?.verticalM ?? 0;
+  const sigmaE = Math.max(sdE / Math.sqrt(fe.nEff), formal.e / Math.sqrt(nCorrelation), floorH);
+  const sigmaN = Math.max(sdN / Math.sqrt(fn.nEff), formal.n / Math.sqrt(nCorrelation), floorH);
+  const sigmaU = Math.max(sdU / Math.sqrt(fu.nEff), formal.u / Math.sqrt(nCorrelation), floorV);
   const toleranceFlag: ToleranceFlag = n < minEpochs ? 'too-few-epochs' : Math.hypot(sdE, sdN) > tol ? 'scatter-exceeds-tolerance' : 'ok';
   return {
     epochs: n,

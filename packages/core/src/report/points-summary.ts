@@ -33,6 +33,8 @@ export interface PointEpoch {
   /** Position as the session reported it (see pointReference). */
   readonly ecef: EcefM;
   readonly kind: SolutionKind;
+  /** Baseline length of the epoch (m), when it is relative to a reference. */
+  readonly baselineM?: number;
   /** Frame of this epoch's position (standalone epochs are in the broadcast-orbit frame). */
   readonly frame?: FrameEpoch;
   /** Formal precision of the epoch (sigma E/N/U), when the solution gave it. */
@@ -58,7 +60,40 @@ export interface PointsOptions {
   readonly referenceSigma?: ReferenceSigma;
 }
 
+/**
+ * The smallest precision stated for a point from carrier-phase epochs: what their scatter cannot show
+ * (antenna phase centres, phase multipath, the differential troposphere) is covered by the usual
+ * precision statement of carrier-phase receivers, 8 mm + 1 ppm horizontal and 15 mm + 1 ppm vertical
+ * (common practice), with the baseline length of the epochs (median).
+ */
+function carrierPointFloor(epochs: readonly PointEpoch[]): { horizontalM: number; verticalM: number } {
+  const lengths = epochs.map((e) => e.baselineM ?? NaN).filter(Number.isFinite).sort((a, b) => a - b);
+  const l = lengths.length ? lengths[lengths.length >> 1] : 0;
+  return { horizontalM: 0.008 + 1e-6 * l, verticalM: 0.015 + 1e-6 * l };
+}
+
+/** Which epochs a point is averaged from: the best kind the occupation has enough of. */
+export type PointBasis = 'fixed' | 'fixed+float' | 'code' | 'standalone';
+
+/**
+ * Carrier phase with fixed ambiguities when the occupation has at least `minEpochs` of them (centimetres),
+ * else fixed and float together when they are enough, else code (differential or smoothed), else
+ * standalone: a point never mixes centimetre epochs with metre ones.
+ */
+export function chooseEpochs<E extends { readonly kind: SolutionKind }>(inside: readonly E[], minEpochs: number): { chosen: E[]; basis: PointBasis } {
+  const fixed = inside.filter((e) => e.kind === 'fixed');
+  if (fixed.length >= minEpochs) return { chosen: fixed, basis: 'fixed' };
+  const carrier = inside.filter((e) => e.kind === 'fixed' || e.kind === 'float');
+  if (carrier.length >= minEpochs) return { chosen: carrier, basis: 'fixed+float' };
+  const code = inside.filter((e) => e.kind === 'differential' || e.kind === 'smoothed');
+  if (code.length > 0) return { chosen: code, basis: 'code' };
+  if (carrier.length > 0) return { chosen: carrier, basis: 'fixed+float' };
+  return { chosen: inside.filter((e) => e.kind === 'standalone'), basis: 'standalone' };
+}
+
 export interface PointResult {
+  /** Which epochs the point is averaged from (chooseEpochs). */
+  readonly basis: PointBasis;
   readonly name: string;
   readonly source: Occupation['source'];
   readonly startGpsS: number;
@@ -107,8 +142,7 @@ export function summariseOccupations(epochs: readonly PointEpoch[], occupations:
   const empty: Occupation[] = [];
   for (const occ of occupations) {
     const inside = epochs.filter((e) => e.tagGpsS >= occ.startGpsS - TAG_TOLERANCE_S && e.tagGpsS <= occ.endGpsS + TAG_TOLERANCE_S);
-    const diff = inside.filter((e) => e.kind === 'differential' || e.kind === 'smoothed');
-    const chosen = diff.length > 0 ? diff : inside.filter((e) => e.kind === 'standalone');
+    const { chosen, basis } = chooseEpochs(inside, minEpochs);
     if (chosen.length === 0) { empty.push(occ); continue; }
     let heightM = NaN;
     if (occ.antennaHeightM !== undefined) heightM = verticalHeightToArpM(occ.antennaHeightM, occ.heightKind ?? 'vertical', opts.antenna);
@@ -120,7 +154,10 @@ export function summariseOccupations(epochs: readonly PointEpoch[], occupations:
       }
       return { ecef, tGpsS: e.tagGpsS, pdop: e.pdop, ...(e.sigmaEnuM ? { sigmaEnuM: e.sigmaEnuM } : {}), ...(e.varianceFactor !== undefined ? { varianceFactor: e.varianceFactor } : {}) };
     });
-    const summary = summarisePoint(samples, { minEpochs, horizontalToleranceM: tolH, ...(opts.referenceSigma ? { referenceSigma: opts.referenceSigma } : {}) });
+    const summary = summarisePoint(samples, {
+      minEpochs, horizontalToleranceM: tolH, ...(opts.referenceSigma ? { referenceSigma: opts.referenceSigma } : {}),
+      ...(basis === 'fixed' || basis === 'fixed+float' ? { sigmaFloor: carrierPointFloor(chosen) } : {}),
+    });
     const kinds: Partial<Record<SolutionKind, number>> = {};
     for (const e of chosen) kinds[e.kind] = (kinds[e.kind] ?? 0) + 1;
     points.push({
@@ -129,6 +166,7 @@ export function summariseOccupations(epochs: readonly PointEpoch[], occupations:
       antennaHeightM: Number.isFinite(heightM) ? heightM : medianHeight(chosen),
       ...(occ.antennaHeightM !== undefined ? { measuredHeightM: occ.antennaHeightM, heightKind: occ.heightKind ?? 'vertical' } : {}),
       pointReference: Number.isFinite(heightM) ? 'ground-mark' : opts.pointReference,
+      basis,
       frame: chosen[0].frame ?? opts.frame,
       tolerance: toleranceFlagOf(summary, tolH, tolV, minEpochs),
     });

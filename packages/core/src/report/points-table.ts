@@ -38,7 +38,7 @@ export function pointsColumns(o: Pick<PointsTableOptions, 'projection' | 'geoid'
     'ecef_x_m', 'ecef_y_m', 'ecef_z_m', 'frame', 'frame_epoch', 'point_reference',
     'sd_east_m', 'sd_north_m', 'sd_up_m', 'n_eff', 'sigma_mean_east_m', 'sigma_mean_north_m', 'sigma_mean_up_m',
     'mean_pdop', 'antenna_height_m', 'solution_kinds', 'tolerance',
-    'radius95_relative_m', 'up95_relative_m', 'sigma_reference_horizontal_m', 'sigma_reference_up_m', 'radius95_m', 'up95_m',
+    'radius95_relative_m', 'up95_relative_m', 'sigma_reference_horizontal_m', 'sigma_reference_up_m', 'radius95_m', 'up95_m', 'solution_basis',
   ];
 }
 
@@ -81,7 +81,7 @@ export function pointRow(p: PointResult, o: Pick<PointsTableOptions, 'projection
     fixed(s.sdEastM, 4), fixed(s.sdNorthM, 4), fixed(s.sdUpM, 4), fixed(s.nEff, 1),
     fixed(s.sigmaMeanEastM, 4), fixed(s.sigmaMeanNorthM, 4), fixed(s.sigmaMeanUpM, 4),
     fixed(s.meanPdop, 2), fixed(p.antennaHeightM, 4), kindsText(p), p.tolerance,
-    fixed(s.radius95RelativeM, 4), fixed(s.up95RelativeM, 4), fixed(s.sigmaReferenceHorizontalM, 4), fixed(s.sigmaReferenceUpM, 4), fixed(s.radius95M, 4), fixed(s.up95M, 4),
+    fixed(s.radius95RelativeM, 4), fixed(s.up95RelativeM, 4), fixed(s.sigmaReferenceHorizontalM, 4), fixed(s.sigmaReferenceUpM, 4), fixed(s.radius95M, 4), fixed(s.up95M, 4), p.basis,
   ];
 }
 

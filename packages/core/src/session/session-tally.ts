@@ -3,7 +3,7 @@
  * (reasons counted without their numbers), constellations used.
  */
 import type { GnssSystem } from '../gnss/index.js';
-import type { EpochSolution, RejectionCount, SolutionKind } from './solution-types.js';
+import { isRelativeKind, type EpochSolution, type RejectionCount, type SolutionKind } from './solution-types.js';
 
 /** Reason text without its numbers, for counting ('below elevation mask (7.1 deg)' -> 'below elevation mask'). */
 export function reasonKey(reason: string): string {
@@ -29,7 +29,7 @@ export class ReasonCounter {
 export class SessionTally {
   readonly satRejections = new ReasonCounter();
   readonly epochRejections = new ReasonCounter();
-  readonly byKind: Record<SolutionKind, number> = { differential: 0, smoothed: 0, standalone: 0, none: 0 };
+  readonly byKind: Record<SolutionKind, number> = { differential: 0, smoothed: 0, fixed: 0, float: 0, standalone: 0, none: 0 };
   readonly systemsUsed = new Set<GnssSystem>();
   roverEpochs = 0;
   withoutCorrections = 0;
@@ -47,6 +47,6 @@ export class SessionTally {
   /** A solved (or refused) epoch handed out. */
   epochOut(s: EpochSolution): void {
     this.byKind[s.kind]++;
-    if (s.kind !== 'differential' && s.kind !== 'smoothed') this.epochRejections.add(s.reason || s.kind);
+    if (!isRelativeKind(s.kind)) this.epochRejections.add(s.reason || s.kind);
   }
 }

@@ -5,8 +5,16 @@
  */
 import type { EcefM, EnuM, FrameEpoch, FramedEcef, GeodeticRad, GnssSystem, SatId } from '../gnss/index.js';
 
-/** The solution kind, as a word. */
-export type SolutionKind = 'differential' | 'smoothed' | 'standalone' | 'none';
+/**
+ * The solution kind, as a word: code ('differential'), carrier-smoothed code ('smoothed'), carrier phase
+ * with integer ambiguities fixed ('fixed') or not ('float'), the rover alone ('standalone'), or none.
+ */
+export type SolutionKind = 'differential' | 'smoothed' | 'fixed' | 'float' | 'standalone' | 'none';
+
+/** Kinds positioned relative to the reference (code or carrier phase). */
+export function isRelativeKind(kind: SolutionKind): boolean {
+  return kind === 'differential' || kind === 'smoothed' || kind === 'fixed' || kind === 'float';
+}
 
 /** Which physical point a coordinate refers to. */
 export type PointReference = 'antenna-reference-point' | 'ground-mark';
