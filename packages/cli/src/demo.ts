@@ -33,7 +33,7 @@ export function demoArgs(outDir: string) {
     refMark: 'KFRD', marks: FILES.marks,
     // The demo truth is the antenna reference point: report the ARP to compare like with like.
     atAntenna: true,
-    // The demo shows the code engine (its figures are in README.md).
+    // The epoch-by-epoch step shows the code engine (its figures are in README.md); the points, carrier phase.
     carrierPhase: 'off',
   };
 }
@@ -63,20 +63,20 @@ async function demo(): Promise<number> {
 
   // The deliverable: one coordinate per occupied point (occupations from the rover file's event flags,
   // antenna heights from its header records, reduced to the ground marks), in UTM with EGM96 heights,
-  // carrier-smoothed; then the check against the published control marks.
+  // from carrier phase with integer ambiguities (centimetres); then the check against the published marks.
   const pointsOut = join(OUT, 'points');
   process.stderr.write(`\nrefdelta demo: averaging the occupied points into ${relative(ROOT, pointsOut)}/\n`);
-  const pointsArgs = { ...demoArgs(pointsOut), atAntenna: false, smooth: '100', projection: 'utm', geoid: 'egm96', outputs: 'summary' };
+  const pointsArgs = { ...demoArgs(pointsOut), atAntenna: false, carrierPhase: 'on', projection: 'utm', geoid: 'egm96', outputs: 'summary' };
   const p = await runPoints(pointsArgs, rep);
   if (p !== 0) return p;
   const pts = readCommentedCsv(await readFile(join(pointsOut, 'points.csv'), 'utf8'));
   const truePoints = readCommentedCsv(await readFile(join(DEMO, 'points.csv'), 'utf8'));
-  process.stdout.write(`\npoints (ground marks, carrier-smoothed) against the demo's true marks:\n`);
+  process.stdout.write(`\npoints (ground marks, carrier phase) against the demo's true marks:\n`);
   for (const row of pts) {
     const t = truePoints.find((x) => x.name === row.name);
     if (!t) continue;
     const d = [Number(row.ecef_x_m) - Number(t.x_m), Number(row.ecef_y_m) - Number(t.y_m), Number(row.ecef_z_m) - Number(t.z_m)];
-    process.stdout.write(`  ${row.name.padEnd(10)} ${String(row.epochs).padStart(4)} epochs  3-D error ${m(Math.hypot(d[0], d[1], d[2]))}  (sigma of the mean E/N/U ${m(Number(row.sigma_mean_east_m))} / ${m(Number(row.sigma_mean_north_m))} / ${m(Number(row.sigma_mean_up_m))})\n`);
+    process.stdout.write(`  ${row.name.padEnd(10)} ${String(row.epochs).padStart(4)} ${(row.solution_basis ?? '').padEnd(11)} epochs  3-D error ${m(Math.hypot(d[0], d[1], d[2]))}  (95 % radius ${m(Number(row.radius95_relative_m))}; sigma of the mean E/N/U ${m(Number(row.sigma_mean_east_m))} / ${m(Number(row.sigma_mean_north_m))} / ${m(Number(row.sigma_mean_up_m))})\n`);
   }
   const checkOut = join(OUT, 'check');
   process.stderr.write(`\nrefdelta demo: checking the points against the published marks of ${relative(ROOT, FILES.marks)}\n`);
