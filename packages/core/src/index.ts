@@ -7,6 +7,7 @@ export * from './orbit/index.js';
 export * from './solve/index.js';
 export * from './frames/index.js';
 export * from './report/index.js';
+export * from './inspect/index.js';
 export * from './rinex/index.js';
 export * from './atmosphere/index.js';
 export * from './geoid/index.js';

@@ -1,4 +1,4 @@
-/** Report stage: pure builders of CSV rows, GeoJSON, the run summary and file inspections (strings/objects out). */
+/** Report stage: pure builders of CSV rows, GeoJSON and the run summary (strings/objects out). */
 export { fixed, jsonNumber, frameEpochText } from './format.js';
 export { pointReferenceWords, frameWords } from './point-reference.js';
 export {
@@ -15,10 +15,4 @@ export {
   percentile, mean, rms, horizontalVerticalStats, enuDifferences, meanEcef, positionScatter,
   type HorizontalVerticalStats, type ScatterStats,
 } from './statistics.js';
-export {
-  inspectObs, timeStamp, modalIntervalS, EPOCH_FLAG_WORDS,
-  type ObsInspection, type InspectOptions, type TimeStamp, type GapRecord, type EventRecord,
-} from './inspect-obs.js';
-export { inspectNav, ephemerisTimeGpsS, type NavInspection } from './inspect-nav.js';
-export { obsInspectionText, navInspectionText } from './inspect-text.js';
 export { errorsAgainstTruth, truthStatistics, type TruthPoint } from './truth-compare.js';

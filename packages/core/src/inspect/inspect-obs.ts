@@ -7,7 +7,7 @@ import { GNSS_SYSTEMS, SYSTEM_NAMES, satSystem, type GnssSystem } from '../gnss/
 import { gpsToUtcS, isoFromSeconds, weekTowFromGpsS } from '../time/index.js';
 import { ecefToGeodetic, radToDeg } from '../geodesy/index.js';
 import type { ObsStream } from '../gnss/index.js';
-import { jsonNumber } from './format.js';
+import { jsonNumber } from '../report/index.js';
 
 /** RINEX 2.11 section 5.1 / RINEX 3.05 table A3: epoch flag meanings. */
 export const EPOCH_FLAG_WORDS: Readonly<Record<number, string>> = {
