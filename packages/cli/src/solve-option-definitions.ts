@@ -28,6 +28,7 @@ export function defineProcessingOptions<T>(c: Argv<T>): Argv<T> {
     .option('marks', { type: 'string', describe: 'control list CSV holding --ref-mark', group: 'Reference coordinate:' })
     .option('ref-frame', { type: 'string', describe: "frame of the coordinate, e.g. ITRF2014, ETRF2000, WGS84 (required with --ref-xyz/--ref-llh; header: 'unstated')", group: 'Reference coordinate:' })
     .option('ref-epoch', { type: 'string', describe: 'epoch of the coordinate, decimal year, e.g. 2018.76 (required with --ref-xyz/--ref-llh; header: observation epoch)', group: 'Reference coordinate:' })
+    .option('tie-to', { type: 'string', array: true, describe: "CORS observation file(s): the reference (a base on an unknown point) is first tied to them; the --ref-* coordinate is then the CORS's", group: 'Reference coordinate:' })
     .option('ref-sigma', { type: 'string', describe: "the reference coordinate's 1-sigma uncertainty H[,V] (m); default 2,3 for a header coordinate, 0.02,0.03 for a given or published one", group: 'Reference coordinate:' })
     .option('rover-antenna-height', { type: 'string', describe: 'rover antenna height above the mark (m); default: the file header', group: 'Antennas:' })
     .option('ref-antenna-height', { type: 'string', describe: 'reference antenna height above the mark (m); default: the file header', group: 'Antennas:' })
@@ -52,7 +53,7 @@ export function solveArgsFrom(a: Record<string, unknown>): SolveArgs {
   return {
     rover: String(a.rover), reference: (a.reference as string[]) ?? [], nav: (a.nav as string[]) ?? [], out: String(a.out),
     outputs: a.outputs, refXyz: a.refXyz, refLlh: a.refLlh, refFromHeader: a.refFromHeader, refMark: a.refMark, marks: a.marks,
-    refFrame: a.refFrame, refEpoch: a.refEpoch, refSigma: a.refSigma, roverAntennaHeight: a.roverAntennaHeight, refAntennaHeight: a.refAntennaHeight,
+    refFrame: a.refFrame, refEpoch: a.refEpoch, refSigma: a.refSigma, tieTo: a.tieTo as readonly unknown[] | undefined, roverAntennaHeight: a.roverAntennaHeight, refAntennaHeight: a.refAntennaHeight,
     heightKind: a.heightKind, antennaRadius: a.antennaRadius, slantOffset: a.slantOffset, atAntenna: a.atAntenna, elevationMask: a.elevationMask,
     weights: a.weights, sigmaA: a.sigmaA, sigmaB: a.sigmaB, smooth: a.smooth, smoothReference: a.smoothReference, systems: a.systems, glonass: a.glonass,
     maxAge: a.maxAge, fallbackStandalone: a.fallbackStandalone, quiet: a.quiet === true, jsonLines: a.jsonLines === true,

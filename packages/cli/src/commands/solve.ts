@@ -12,6 +12,7 @@ import { AtomicFile, OutputSet, openNav, openObs, requireFile, sha256File, type 
 import { obsTimeSpan, requireNavigation, requireOverlap, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
 import { referenceSigmaOf } from '../reference-sigma.js';
+import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie.js';
 import type { ReferenceSigma } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
 import {
@@ -30,6 +31,8 @@ export interface SolveArgs extends ReferenceArgs, SolveOptionArgs, CarrierArgs {
   readonly rover: string;
   /** --ref-sigma H[,V] (reference-sigma.ts). */
   readonly refSigma?: unknown;
+  /** --tie-to CORS files: the reference (base) is tied to them first (base-tie.ts). */
+  readonly tieTo?: readonly unknown[];
   readonly reference: readonly string[];
   readonly nav: readonly string[];
   readonly out: string;
@@ -157,7 +160,8 @@ export interface StagedSolve {
 export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = {}): Promise<StagedSolve> {
   // 1. The command line, before any file is touched.
   const choice = parseReferenceChoice(a);
-  const referenceSigma = referenceSigmaOf(choice.mode === 'header', a.refSigma);
+  let referenceSigma = referenceSigmaOf(choice.mode === 'header', a.refSigma);
+  const tieFiles = (a.tieTo ?? []).map(String);
   const base = parseSessionOptions(a);
   const heights = parseAntennaHeights(a);
   const kinds = parseOutputs(a.outputs);
@@ -166,7 +170,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   const outDir = resolve(a.out);
 
   // 2. The files: present, of the right kind, overlapping in time, with navigation data.
-  const allPaths = [a.rover, ...a.reference, ...a.nav];
+  const allPaths = [a.rover, ...a.reference, ...tieFiles, ...a.nav];
   const sizes = new Map<string, number>();
   for (const p of allPaths) sizes.set(p, await requireFile(p));
   const roverProbe = await openObs(a.rover, () => {});
@@ -194,9 +198,19 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   if (choice.mode === 'xyz') {
     ref = { position: { ecef: choice.ecef, frame: choice.frame }, source: a.refXyz !== undefined ? '--ref-xyz' : '--ref-llh', note: 'given on the command line' };
   } else if (choice.mode === 'header') {
-    ref = referenceFromHeader(choice, refProbes[0].header, a.reference[0], roverSpan.firstGpsS, rep.warn);
+    // With a tie, the coordinate given is the CORS's: its header's.
+    const from = tieFiles.length ? tieFiles[0] : a.reference[0];
+    ref = referenceFromHeader(choice, tieFiles.length ? (await openObs(from, () => {})).header : refProbes[0].header, from, roverSpan.firstGpsS, rep.warn);
   } else {
     ref = await referenceFromMark(choice, roverSpan.firstGpsS, rep.warn);
+  }
+  let tie: BaseTie | null = null;
+  if (tieFiles.length) {
+    // A base on an unknown point: tied to the CORS first, then the reference of the rover run (base-tie.ts).
+    tie = await tieBaseToCors(a.reference, tieFiles, nav, ref, base, a as unknown as Record<string, unknown>, rep);
+    rep.info(tiedReference(tie, ref, a.reference[0]).note);
+    ref = tiedReference(tie, ref, a.reference[0]);
+    referenceSigma = { horizontalM: Math.hypot(referenceSigma.horizontalM, tie.sigma.horizontalM), verticalM: Math.hypot(referenceSigma.verticalM, tie.sigma.verticalM), source: `${referenceSigma.source}, with the tie to the CORS` };
   }
   const frame = ref.position.frame;
   const roverApprox = roverProbe.header.approxPosition;
@@ -257,7 +271,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   const summary = run.summary();
   try {
     const inputs: InputFileRecord[] = [];
-    const kindOf = (p: string): InputFileRecord['kind'] => (p === a.rover ? 'rover' : a.reference.includes(p) ? 'reference' : 'navigation');
+    const kindOf = (p: string): InputFileRecord['kind'] => (p === a.rover ? 'rover' : a.reference.includes(p) ? 'reference' : tieFiles.includes(p) ? 'tie-station' : 'navigation');
     const layersOf = (p: string): readonly string[] | undefined =>
       p === a.rover ? rover.layers : navLayers.get(p) ?? references[a.reference.indexOf(p)]?.layers;
     for (const p of allPaths) inputs.push({ path: resolve(p), sha256: await sha256File(p), kind: kindOf(p), bytes: sizes.get(p), layers: layersOf(p) });
@@ -273,7 +287,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
         scatter, software: SOFTWARE, createdUtc: new Date().toISOString(), warnings: rep.warnings, referenceNote: ref.note, referenceSource: ref.source,
       });
       return {
-        ...doc, reference: { ...(doc.reference as object), sigma_horizontal_m: referenceSigma.horizontalM, sigma_vertical_m: referenceSigma.verticalM, sigma_source: referenceSigma.source },
+        ...doc, reference: { ...(doc.reference as object), sigma_horizontal_m: referenceSigma.horizontalM, sigma_vertical_m: referenceSigma.verticalM, sigma_source: referenceSigma.source, ...(tie ? { tie: tieJson(tie) } : {}) },
         ...(carrierRun ? { carrier_phase: carrierSummaryJson(carrierRun.carrierSummary(), carrier.options) } : {}), warnings: warningsSummary(rep),
       };
     };

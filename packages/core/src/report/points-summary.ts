@@ -66,7 +66,7 @@ export interface PointsOptions {
  * precision statement of carrier-phase receivers, 8 mm + 1 ppm horizontal and 15 mm + 1 ppm vertical
  * (common practice), with the baseline length of the epochs (median).
  */
-function carrierPointFloor(epochs: readonly PointEpoch[]): { horizontalM: number; verticalM: number } {
+export function carrierPointFloor(epochs: readonly { readonly baselineM?: number }[]): { horizontalM: number; verticalM: number } {
   const lengths = epochs.map((e) => e.baselineM ?? NaN).filter(Number.isFinite).sort((a, b) => a - b);
   const l = lengths.length ? lengths[lengths.length >> 1] : 0;
   return { horizontalM: 0.008 + 1e-6 * l, verticalM: 0.015 + 1e-6 * l };

@@ -10,7 +10,7 @@ import type { SessionOptions } from '../session/index.js';
 import { frameEpochText, jsonNumber } from './format.js';
 import type { ScatterStats } from './statistics.js';
 
-export type InputKind = 'rover' | 'reference' | 'navigation' | 'control';
+export type InputKind = 'rover' | 'reference' | 'navigation' | 'control' | 'tie-station';
 
 export interface InputFileRecord {
   readonly path: string;
