@@ -15,7 +15,7 @@ import { TropoTruth } from './tropo-truth.js';
 import { PERFECT_CLOCK, SteeredReceiverClock, type ReceiverClock } from './receiver-clock.js';
 import { TrueSky } from './true-sky.js';
 import { Rng } from './rng.js';
-import { sumOfSinusoids } from './slow-process.js';
+import { sumOfProcesses, sumOfSinusoids } from './slow-process.js';
 import { ReceiverSimulation } from './observations.js';
 import { antennaPosition, ecefFromDegrees, RoverTrajectory, type Occupation, type PlanStep } from './trajectory.js';
 import { GPS_DUAL_FREQUENCY_CODES, SINGLE_FREQUENCY_CODES } from './signals.js';
@@ -184,9 +184,16 @@ export function simulateScenario(spec: ScenarioSpec): SimulatedScenario {
   const iono = errors.iono === null
     ? null
     : new IonoTruth(errors.iono, nav.ionosphere.gps ?? TYPICAL_KLOBUCHAR, refGeo, new Rng(seed, 'iono').between(0, 2 * Math.PI));
-  const tropoFor = (role: string) => errors.tropo === null
+  // The zenith wet error is a field: the reference sees its value there, the rover the same value plus
+  // the difference a distance d brings (wetDifferenceSigmaM), not an independent draw of its own.
+  const wetAtReference = errors.tropo === null ? null
+    : sumOfSinusoids(new Rng(seed, 'tropo', 'reference'), errors.tropo.zenithWetSigmaM, errors.tropo.minPeriodS, errors.tropo.maxPeriodS);
+  const firstMark = trajectory.occupations[0]?.markEcef ?? referenceArp;
+  const distanceM = Math.hypot(firstMark.x - referenceArp.x, firstMark.y - referenceArp.y, firstMark.z - referenceArp.z);
+  const tropoFor = (role: string) => errors.tropo === null || wetAtReference === null
     ? null
-    : new TropoTruth(sumOfSinusoids(new Rng(seed, 'tropo', role), errors.tropo.zenithWetSigmaM, errors.tropo.minPeriodS, errors.tropo.maxPeriodS));
+    : new TropoTruth(role === 'reference' ? wetAtReference : sumOfProcesses(wetAtReference, sumOfSinusoids(new Rng(seed, 'tropo', role),
+      wetDifferenceSigmaM(errors.tropo.zenithWetSigmaM, distanceM), errors.tropo.minPeriodS, errors.tropo.maxPeriodS)));
 
   const refProfile = profileOf(spec.reference, GEODETIC_PROFILE);
   const roverProfile = profileOf(spec.rover, LOW_COST_PROFILE);
@@ -287,4 +294,14 @@ export function simulateScenario(spec: ScenarioSpec): SimulatedScenario {
     rover,
     sky,
   };
+}
+
+/**
+ * Standard deviation (m) of the difference of zenith wet delay between two sites d metres apart: the
+ * 2/3-power structure function of tropospheric turbulence (Treuhaft & Lanyi 1987, Radio Science 22(2)),
+ * scaled to about 1 cm at 10 km (from memory: the usual order of differential wet delay at that distance),
+ * never more than two independent sites (sqrt(2) sigma).
+ */
+export function wetDifferenceSigmaM(zenithWetSigmaM: number, distanceM: number): number {
+  return Math.min(Math.SQRT2 * zenithWetSigmaM, 0.01 * Math.cbrt(Math.max(distanceM, 0) / 10_000));
 }

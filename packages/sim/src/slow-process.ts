@@ -15,6 +15,11 @@ export interface SlowProcess {
 
 export const ZERO_PROCESS: SlowProcess = { at: () => 0, rateAt: () => 0 };
 
+/** The sum of two processes. */
+export function sumOfProcesses(a: SlowProcess, b: SlowProcess): SlowProcess {
+  return { at: (t) => a.at(t) + b.at(t), rateAt: (t) => a.rateAt(t) + b.rateAt(t) };
+}
+
 /**
  * K sinusoids, equal amplitude sigma*sqrt(2/K) so the RMS over a long span is sigma (mean square of a
  * sinusoid of amplitude a is a^2/2), periods uniform in [minPeriodS, maxPeriodS].
