@@ -15,7 +15,7 @@ import { carrierFrequencyHz, satSystem, type Ephemeris, type IonosphereCoefficie
 import { SPEED_OF_LIGHT_MS, type EphemerisStore, type SatelliteAtTransmission } from '../orbit/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import {
-  clockSignal, codeMisclosureM, dayOfYear, lookFrom, matchCode, primaryCodes, pseudorangeOf, satelliteForTag, signalStrengthDbHz, type ReceiverLook,
+  clockSignal, codeMisclosureM, dayOfYear, lookFrom, matchCode, primaryCodes, pseudorangeOf, satelliteForTag, signalStrengthDbHz, type LinearRow, type ReceiverLook,
 } from '../observables/index.js';
 import type { Bracket, ReferenceCorrections } from './reference-corrections.js';
 
@@ -67,17 +67,6 @@ export interface SingleDifference {
   /** Variance factors of the rover's and the reference's code relative to one raw code (smoothing). */
   readonly varianceFactorRover: number;
   varianceFactorRef: number;
-}
-
-/** One linearised observation at the current estimate (solve/position-fix.ts LinearRow). */
-export interface DifferenceRow {
-  readonly sat: SatId;
-  readonly system: GnssSystem;
-  readonly losX: number;
-  readonly losY: number;
-  readonly losZ: number;
-  readonly misclosureM: number;
-  readonly varianceM2: number;
 }
 
 interface Look { look: ReceiverLook; el: number; az: number; varianceM2: number }
@@ -210,14 +199,14 @@ export class SingleDifferenceEpoch {
   }
 
   /** Linearised rows at a trial rover antenna position, leaving out `excluded` and satellites below a mask. */
-  rowsAt(x: EcefM, excluded: ReadonlySet<SatId>): DifferenceRow[] {
+  rowsAt(x: EcefM, excluded: ReadonlySet<SatId>): LinearRow[] {
     const lookAt = this.lookAt;
     if (lookAt === null || Math.hypot(x.x - lookAt.x, x.y - lookAt.y, x.z - lookAt.z) > 100) {
       this.looks.clear();
       this.lookAt = x;
       this.lookGeodetic = ecefToGeodetic(x);
     }
-    const rows: DifferenceRow[] = [];
+    const rows: LinearRow[] = [];
     const maskRad = this.ctx.maskRad;
     const offsets = this.ctx.offsets;
     this.belowMask.clear();

@@ -8,7 +8,7 @@
  * The look from a receiver (elevation, azimuth) and its a-priori atmosphere (atmosphere-model.ts) are kept
  * together: they change with the receiver position only through metres-scale changes of the look angles.
  */
-import type { EcefM, GeodeticRad, GnssSystem, IonosphereCoefficients } from '../gnss/index.js';
+import type { EcefM, GeodeticRad, GnssSystem, IonosphereCoefficients, SatId } from '../gnss/index.js';
 import { azimuthElevation } from '../geodesy/index.js';
 import { ionosphereDelayM, troposphereDelayM } from './atmosphere-model.js';
 
@@ -42,4 +42,18 @@ export function lookFrom(
 /** Observed minus modelled code (m), receiver clock left in: P - (rho - c dt_sv + T + I). */
 export function codeMisclosureM(codeM: number, rangeM: number, satClockM: number, look: ReceiverLook): number {
   return codeM - rangeM + satClockM - look.troposphereM - look.ionosphereM;
+}
+
+/** One linearised code observation at a trial position: what a position fix (solve/position-fix.ts) consumes. */
+export interface LinearRow {
+  readonly sat: SatId;
+  readonly system: GnssSystem;
+  /** Receiver-to-satellite unit vector (ECEF). */
+  readonly losX: number;
+  readonly losY: number;
+  readonly losZ: number;
+  /** Observed minus computed at the trial position, receiver clock excluded (m). */
+  readonly misclosureM: number;
+  /** A-priori variance (m^2). */
+  readonly varianceM2: number;
 }

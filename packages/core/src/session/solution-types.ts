@@ -3,6 +3,7 @@
  * Every coordinate carries its frame and epoch (FramedEcef); every rejected satellite or epoch carries
  * its reason as words.
  */
+import type { ConstantOffsetEstimate } from '../solve/index.js';
 import type { EcefM, EnuM, FrameEpoch, FramedEcef, GeodeticRad, GnssSystem, SatId } from '../gnss/index.js';
 
 /**
@@ -84,20 +85,10 @@ export interface RejectionCount {
 }
 
 /** A between-receiver code offset estimated over the whole session (session/code-offsets.ts). */
-export interface CodeOffsetReport {
+export interface CodeOffsetReport extends ConstantOffsetEstimate {
   /** 'R channel +1' for a GLONASS frequency channel, else the satellite ('G05'). */
   readonly key: string;
-  readonly offsetM: number;
-  /** Standard deviation of the estimate (m), time correlation included. */
-  readonly sigmaM: number;
-  /** Robust scatter of the samples (m). */
-  readonly scatterM: number;
-  readonly samples: number;
-  readonly nEff: number;
-  readonly significant: boolean;
-  /** The session's two halves agree. */
-  readonly stable: boolean;
-  /** Removed from the satellite's single differences (GLONASS channels always; others when significant and stable). */
+  /** Removed from the satellite's single differences (GLONASS channels always; others are only reported). */
   readonly applied: boolean;
   /** GLONASS: the offset less the mean over channels (the mean is part of the GLONASS relative clock). */
   relativeToChannelMeanM?: number;

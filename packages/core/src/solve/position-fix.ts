@@ -15,19 +15,8 @@ import {
   type Dop, type GlobalTestResult, type WlsSolution,
 } from './index.js';
 
-/** One linearised observation at the current estimate. */
-export interface LinearRow {
-  readonly sat: SatId;
-  readonly system: GnssSystem;
-  /** Receiver-to-satellite unit vector (ECEF). */
-  readonly losX: number;
-  readonly losY: number;
-  readonly losZ: number;
-  /** Observed minus computed at the current estimate, clock excluded (m). */
-  readonly misclosureM: number;
-  /** A-priori variance (m^2). */
-  readonly varianceM2: number;
-}
+import type { LinearRow } from '../observables/index.js';
+export type { LinearRow };
 
 /** Builds the linearised rows at a position (called once per iteration). */
 export type RowBuilder = (positionM: EcefM, excluded: ReadonlySet<SatId>) => LinearRow[];
