@@ -12,6 +12,7 @@ import { runPoints, type PointsArgs } from './commands/points.js';
 import { runCheck, type CheckArgs } from './commands/check.js';
 import { runBatch, type BatchArgs } from './commands/batch.js';
 import { defineCarrierOptions } from './carrier-run.js';
+import { runReport } from './commands/report.js';
 import { defineProcessingOptions, definePointsOptions, defineSolveOptions, pointsArgsFrom, solveArgsFrom } from './solve-option-definitions.js';
 import { describeFailure } from './failure-sentence.js';
 import { EXIT_OK, EXIT_USAGE } from './exit-codes.js';
@@ -149,12 +150,23 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
         exitCode = await runCheck(ca, rep);
       },
     )
+    .command(
+      'report <dir>',
+      'a self-contained HTML page (report.html: charts, tables, inputs, cautions) from a solve, points, check or batch output folder',
+      (c) =>
+        c.positional('dir', { type: 'string', describe: 'output folder of solve, points, check or batch' })
+          .example('refdelta report out/pts', 'out/pts/report.html from the outputs in out/pts')
+          .example('refdelta report out/batch', "each session's report and out/batch/report.html linking them"),
+      async (args) => {
+        exitCode = await runReport(String((args as unknown as { dir?: string }).dir ?? ''), rep);
+      },
+    )
     .example('refdelta solve --rover rover.obs --reference base.obs --nav brdc.18n --ref-from-header --out out/run', 'per-epoch positions against a base whose header coordinate is used')
     .example('refdelta points --rover rover.obs --reference cors.18o --nav cors.18n --ref-xyz X,Y,Z --ref-frame ITRF2014 --ref-epoch 2018.76 --projection utm --out out/pts', 'one coordinate per logged point, in UTM')
     .example('refdelta check --points out/pts/points.csv --marks control.csv --out out/check', 'compare the points with published control marks')
     .example('refdelta batch --sessions field/ --reference-dir cors/ --nav-dir cors/ --ref-from-header --out out/batch', 'every session of a folder')
     .example('refdelta inspect --text rover.obs', 'what a RINEX file holds')
-    .demandCommand(1, 'give a command: solve, points, batch, check or inspect')
+    .demandCommand(1, 'give a command: solve, points, batch, check, report or inspect')
     .strict()
     .version(SOFTWARE.version)
     .help()

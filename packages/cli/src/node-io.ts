@@ -228,6 +228,11 @@ export class OutputSet {
     return f;
   }
 
+  /** The temporary file of a member (readable once sealed), undefined when the set has no such member. */
+  temporaryPathOf(kind: string): string | undefined {
+    return this.files.find((f) => f.kind === kind)?.file.temporaryPath;
+  }
+
   get kinds(): readonly string[] {
     return this.files.map((f) => f.kind);
   }

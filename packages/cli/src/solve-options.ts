@@ -3,7 +3,7 @@ import { DEFAULT_OPTIONS, type AntennaOffset, type GlonassPolicy, type SessionOp
 import { parseChoice, parseChoiceList, parseNumber, parseSystems } from './parse-values.js';
 import { UsageError } from './usage-error.js';
 
-export const OUTPUT_KINDS = ['epochs', 'residuals', 'geojson', 'summary'] as const;
+export const OUTPUT_KINDS = ['epochs', 'residuals', 'geojson', 'summary', 'report'] as const;
 export type OutputKind = (typeof OUTPUT_KINDS)[number];
 
 /** File names inside the output folder. */
@@ -12,6 +12,7 @@ export const OUTPUT_FILE_NAMES: Readonly<Record<OutputKind, string>> = {
   residuals: 'residuals.csv',
   geojson: 'positions.geojson',
   summary: 'summary.json',
+  report: 'report.html',
 };
 
 export interface SolveOptionArgs {
@@ -122,7 +123,8 @@ export function parseSessionOptions(a: SolveOptionArgs): Omit<SessionOptions, 'r
 }
 
 export function parseOutputs(v: unknown): OutputKind[] {
-  return v === undefined ? [...OUTPUT_KINDS] : parseChoiceList('outputs', v, OUTPUT_KINDS);
+  // report.html is asked for by name; the default set is the data files.
+  return v === undefined ? OUTPUT_KINDS.filter((k) => k !== 'report') : parseChoiceList('outputs', v, OUTPUT_KINDS);
 }
 
 /** An on|off option; the default when not given. */

@@ -36,3 +36,4 @@ export * from './report/control-check.js';
 export * from './report/control-report.js';
 export * from './ambiguity/index.js';
 export * from './carrier/index.js';
+export * from './report-html/index.js';

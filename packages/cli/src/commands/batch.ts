@@ -16,6 +16,7 @@ import { NAV_WINDOW_S, obsTimeSpan, type TimeSpan } from '../input-checks.js';
 import { looksLikeObservationName, rinexKindOfFile, type RinexKind } from '../rinex-kind.js';
 import { parseReferenceChoice } from '../reference-choice.js';
 import { parseAntennaHeights, parseOutputs, parseSessionOptions } from '../solve-options.js';
+import { batchIndexHtml, REPORT_FILE_NAME } from './report.js';
 import { describeFailure } from '../failure-sentence.js';
 import { Reporter } from '../reporter.js';
 import { EXIT_BATCH_PARTIAL, EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
@@ -176,7 +177,7 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   parseReferenceChoice(a);
   const base = parseSessionOptions(a);
   parseAntennaHeights(a);
-  parseOutputs(a.outputs);
+  const outputKinds = parseOutputs(a.outputs);
   const cfg: PointsConfig = await parsePointsConfig({ ...a, rover: '', reference: [], nav: [] });
   const sessionsDir = resolve(String(a.sessions));
   const outDir = resolve(a.out);
@@ -254,6 +255,9 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   const summaryPath = join(outDir, BATCH_FILE_NAMES.summary);
   try {
     const p = await pointsFile.seal();
+    const index = outputKinds.includes('report')
+      ? await (await set.add('batch-report', join(outDir, REPORT_FILE_NAME), [batchIndexHtml(outDir, basename(outDir), records, (r) => r.status === 'ok')])).seal()
+      : null;
     const given = Object.fromEntries(ECHOED_OPTIONS.filter((k) => (a as unknown as Record<string, unknown>)[k] !== undefined).map((k) => [k, (a as unknown as Record<string, unknown>)[k]]));
     const doc = {
       software: { ...SOFTWARE }, created_utc: new Date().toISOString(),
@@ -268,7 +272,11 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
         out: r.out, summary: r.out ? join(r.out, 'summary.json') : null, reference_files: r.referenceFiles.map((f) => resolve(f)), nav_files: r.navFiles.map((f) => resolve(f)),
       })),
       skipped_files: skipped,
-      outputs: [{ kind: 'batch-points', path: p.path, bytes: p.bytes, sha256: p.sha256 }, { kind: 'batch-summary', path: summaryPath, bytes: null, sha256: null }],
+      outputs: [
+        { kind: 'batch-points', path: p.path, bytes: p.bytes, sha256: p.sha256 },
+        ...(index ? [{ kind: 'batch-report', path: index.path, bytes: index.bytes, sha256: index.sha256 }] : []),
+        { kind: 'batch-summary', path: summaryPath, bytes: null, sha256: null },
+      ],
     };
     await set.add('batch-summary', summaryPath, [JSON.stringify(doc, null, 2) + '\n']);
     for (const { kind, written } of await set.commit()) rep.event('output', { kind, path: written.path, bytes: written.bytes, sha256: written.sha256 });

@@ -26,6 +26,7 @@ import { SOFTWARE } from '../software.js';
 import { epochTableColumns, epochTableRow, standaloneFrameNote } from '../epoch-table.js';
 import { warningsSummary } from '../warnings-summary.js';
 import { carrierSharesSentence, carrierSummaryJson, isCarrierKind, parseCarrierChoice, runCarrierSession, type CarrierArgs } from '../carrier-run.js';
+import { stagedReportHtml } from '../staged-report.js';
 
 export interface SolveArgs extends ReferenceArgs, SolveOptionArgs, CarrierArgs {
   readonly rover: string;
@@ -65,7 +66,7 @@ class StreamedOutputs {
 
   /** Opens the streamed members; on failure the set is aborted (OutputSet.create). */
   async open(frame: FrameEpoch, pointReference: PointReference, systems: readonly GnssSystem[], notes: readonly string[]): Promise<void> {
-    for (const k of this.kinds) if (k !== 'summary') this.files.set(k, await this.set.create(k, this.path(k)));
+    for (const k of this.kinds) if (k !== 'summary' && k !== 'report') this.files.set(k, await this.set.create(k, this.path(k)));
     const ep = this.files.get('epochs');
     if (ep) await ep.write(csvPreamble({ frame, pointReference, notes }).join('\n') + '\n' + csvText([epochTableColumns(systems)]));
     const rs = this.files.get('residuals');
@@ -307,7 +308,15 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
 export async function commitStagedSolve(st: StagedSolve, rep: Reporter): Promise<OutputFileRecord[]> {
   let done;
   try {
-    const sealed = await st.set.seal();
+    let sealed = await st.set.seal();
+    if (st.kinds.includes('report')) {
+      // report.html is built from the sealed members (and the summary's document), then sealed with them.
+      const reportPath = join(st.outDir, OUTPUT_FILE_NAMES.report);
+      const listed = sealed.map(({ kind, written }) => ({ kind, path: written.path, bytes: written.bytes, sha256: written.sha256 }));
+      const doc = st.summaryDoc([...listed, { kind: 'report', path: reportPath }]);
+      await st.set.add('report', reportPath, [await stagedReportHtml(st.set, doc, basename(st.outDir))]);
+      sealed = await st.set.seal();
+    }
     const records: OutputFileRecord[] = sealed.map(({ kind, written }) => ({ kind, path: written.path, bytes: written.bytes, sha256: written.sha256 }));
     if (st.kinds.includes('summary')) {
       const summaryPath = join(st.outDir, OUTPUT_FILE_NAMES.summary);

@@ -1,0 +1,270 @@
+/**
+ * Reads a run's output files into the data of an HTML report. Tolerant by design: CSV columns are found
+ * by name (with a few alternative names), leading '#' lines are skipped whether or not there are any,
+ * and a missing file or column only removes the chart that needed it (said on the page).
+ */
+import { existsSync } from 'node:fs';
+import { readFile } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import {
+  ecefToEnu, InputError, leapSecondsAtUtc, splitCsvLine, SECONDS_PER_WEEK,
+  type EcefM, type EpochSeries, type ReportControlCheck, type ReportInput, type ReportPoint, type ResidualSeries, type SessionReportData,
+} from '@refdelta/core';
+
+/** The files a session report reads; each may be absent. */
+export interface ReportSources {
+  readonly epochs?: string;
+  readonly residuals?: string;
+  readonly points?: string;
+  /** summary.json: a path, or the document itself (a run that has not written it yet). */
+  readonly summary?: string | Record<string, unknown>;
+  readonly check?: string;
+}
+
+/** The report sources of an output folder of solve, points or check (control-check.json also in DIR/check/). */
+export function sourcesInFolder(dir: string): ReportSources {
+  const at = (name: string) => (existsSync(join(dir, name)) ? join(dir, name) : undefined);
+  const check = at('control-check.json') ?? (existsSync(join(dir, 'check', 'control-check.json')) ? join(dir, 'check', 'control-check.json') : undefined);
+  return { epochs: at('epochs.csv'), residuals: at('residuals.csv'), points: at('points.csv'), summary: at('summary.json'), check };
+}
+
+interface CsvTable {
+  readonly path: string;
+  readonly header: readonly string[];
+  /** Data lines (after the header), each with its 1-based line number in the file. */
+  readonly lines: readonly string[];
+  readonly firstLineNo: number;
+}
+
+/** The header is the first line that is neither blank nor starts with '#'. */
+async function readCsvTable(path: string): Promise<CsvTable> {
+  const text = await readFile(path, 'utf8');
+  const lines = text.split('\n');
+  let h = 0;
+  while (h < lines.length && (lines[h].trim() === '' || lines[h].startsWith('#'))) h++;
+  if (h >= lines.length) throw new InputError(path, 0, `${path} has no header line (expected a CSV with a line of column names)`);
+  const header = splitCsvLine(lines[h].replace(/\r$/, '')).map((c) => c.trim().toLowerCase());
+  const data = lines.slice(h + 1);
+  while (data.length && data[data.length - 1].trim() === '') data.pop();
+  return { path, header, lines: data, firstLineNo: h + 2 };
+}
+
+/** Index of the first of `names` present in the header, -1 when none is. */
+function col(t: CsvTable, ...names: string[]): number {
+  for (const n of names) {
+    const i = t.header.indexOf(n);
+    if (i >= 0) return i;
+  }
+  return -1;
+}
+
+function cells(line: string): string[] {
+  const l = line.endsWith('\r') ? line.slice(0, -1) : line;
+  return l.includes('"') ? splitCsvLine(l) : l.split(',');
+}
+
+const numAt = (c: readonly string[], i: number): number => (i >= 0 && c[i] !== undefined && c[i].trim() !== '' ? Number(c[i]) : NaN);
+const strAt = (c: readonly string[], i: number): string => (i >= 0 ? (c[i] ?? '').trim() : '');
+
+/** GPS seconds of a row: week + time of week, else an ISO UTC time (leap table), else NaN. */
+function timeReader(t: CsvTable): (c: readonly string[]) => number {
+  const w = col(t, 'gps_week', 'week'), tow = col(t, 'gps_tow_s', 'tow_s', 'gps_tow');
+  if (w >= 0 && tow >= 0) return (c) => numAt(c, w) * SECONDS_PER_WEEK + numAt(c, tow);
+  const u = col(t, 'utc_time', 'utc', 'time_utc');
+  if (u >= 0) {
+    return (c) => {
+      const ms = Date.parse(strAt(c, u));
+      if (!Number.isFinite(ms)) return NaN;
+      const utcS = ms / 1000 - Date.UTC(1980, 0, 6) / 1000;
+      return utcS + leapSecondsAtUtc(utcS);
+    };
+  }
+  return () => NaN;
+}
+
+function origin(summary: Record<string, unknown> | null): EcefM | null {
+  const r = (summary?.reference as { position?: Record<string, number> } | undefined)?.position
+    ?? (summary?.options as { reference_position?: Record<string, number> } | undefined)?.reference_position;
+  return r && Number.isFinite(r.x_m) ? { x: r.x_m, y: r.y_m, z: r.z_m } : null;
+}
+
+async function readEpochs(path: string, ref: EcefM | null): Promise<{ series: EpochSeries; origin: EcefM | null; note: string | null }> {
+  const t = await readCsvTable(path);
+  const time = timeReader(t);
+  const [x, y, z] = [col(t, 'ecef_x_m', 'x_m'), col(t, 'ecef_y_m', 'y_m'), col(t, 'ecef_z_m', 'z_m')];
+  const [be, bn, bu] = [col(t, 'baseline_east_m', 'east_m'), col(t, 'baseline_north_m', 'north_m'), col(t, 'baseline_up_m', 'up_m')];
+  const kindCol = col(t, 'solution', 'solution_kind', 'kind'), pointCol = col(t, 'point', 'point_name', 'occupation');
+  const satCol = col(t, 'satellites_used', 'satellites', 'sats_used', 'num_satellites'), pdopCol = col(t, 'pdop');
+  const n = t.lines.length;
+  const s = { timeGpsS: new Float64Array(n), eastM: new Float64Array(n), northM: new Float64Array(n), upM: new Float64Array(n), satellitesUsed: new Float64Array(n), pdop: new Float64Array(n), kind: new Array<string>(n), point: new Array<string>(n) };
+  let o = ref;
+  let note: string | null = null;
+  for (let i = 0; i < n; i++) {
+    const c = cells(t.lines[i]);
+    s.timeGpsS[i] = time(c);
+    s.kind[i] = strAt(c, kindCol) || (kindCol < 0 ? 'unknown' : 'none');
+    s.point[i] = strAt(c, pointCol);
+    s.satellitesUsed[i] = numAt(c, satCol);
+    s.pdop[i] = numAt(c, pdopCol);
+    const p = { x: numAt(c, x), y: numAt(c, y), z: numAt(c, z) };
+    if (Number.isFinite(p.x) && Number.isFinite(p.y) && Number.isFinite(p.z)) {
+      if (!o) { o = p; note = 'No reference coordinate in summary.json: east/north/up are drawn about the first epoch\'s position.'; }
+      const enu = ecefToEnu(p, o);
+      s.eastM[i] = enu.e; s.northM[i] = enu.n; s.upM[i] = enu.u;
+    } else {
+      s.eastM[i] = numAt(c, be); s.northM[i] = numAt(c, bn); s.upM[i] = numAt(c, bu);
+    }
+    if (!Number.isFinite(s.timeGpsS[i])) s.timeGpsS[i] = i;
+  }
+  return { series: s, origin: o, note };
+}
+
+/** Reasons are grouped by their words: figures in parentheses or after '=' are left out. */
+export function reasonCategory(reason: string): string {
+  return reason.replace(/\s*\(.*$/s, '').replace(/\s*[:=].*$/s, '').trim() || 'no reason given';
+}
+
+async function readResiduals(path: string): Promise<ResidualSeries> {
+  const t = await readCsvTable(path);
+  const time = timeReader(t);
+  const satCol = col(t, 'satellite', 'sat', 'prn'), elCol = col(t, 'elevation_deg', 'elevation'), azCol = col(t, 'azimuth_deg', 'azimuth');
+  const resCol = col(t, 'residual_m', 'residual'), statusCol = col(t, 'status'), reasonCol = col(t, 'reason');
+  const n = t.lines.length;
+  const satIndex = new Map<string, number>(), reasonIndex = new Map<string, number>();
+  const s = { timeGpsS: new Float64Array(n), satellite: new Uint16Array(n), elevationDeg: new Float32Array(n), azimuthDeg: new Float32Array(n), residualM: new Float32Array(n), rejection: new Uint16Array(n) };
+  for (let i = 0; i < n; i++) {
+    const c = cells(t.lines[i]);
+    s.timeGpsS[i] = time(c);
+    const sat = strAt(c, satCol) || '?';
+    let k = satIndex.get(sat);
+    if (k === undefined) { k = satIndex.size; satIndex.set(sat, k); }
+    s.satellite[i] = k;
+    s.elevationDeg[i] = numAt(c, elCol);
+    s.azimuthDeg[i] = numAt(c, azCol);
+    s.residualM[i] = numAt(c, resCol);
+    const status = strAt(c, statusCol).toLowerCase();
+    if (status === 'used' || (statusCol < 0 && strAt(c, reasonCol) === '')) s.rejection[i] = 0;
+    else {
+      const r = reasonCategory(strAt(c, reasonCol) || status);
+      let j = reasonIndex.get(r);
+      if (j === undefined) { j = reasonIndex.size; reasonIndex.set(r, j); }
+      s.rejection[i] = j + 1;
+    }
+  }
+  return { ...s, satellites: [...satIndex.keys()], reasons: [...reasonIndex.keys()] };
+}
+
+async function readPoints(path: string, o: EcefM | null): Promise<ReportPoint[]> {
+  const t = await readCsvTable(path);
+  const c = (...names: string[]) => col(t, ...names);
+  const k = {
+    name: c('name', 'point'), epochs: c('epochs', 'n_epochs'), dur: c('duration_s'), start: c('start_utc', 'start'), lat: c('latitude_deg'), lon: c('longitude_deg'), h: c('height_m'),
+    easting: c('easting_m'), northing: c('northing_m'), ortho: c('orthometric_height_m'), x: c('ecef_x_m'), y: c('ecef_y_m'), z: c('ecef_z_m'),
+    sdE: c('sd_east_m'), sdN: c('sd_north_m'), sdU: c('sd_up_m'), smE: c('sigma_mean_east_m'), smN: c('sigma_mean_north_m'), smU: c('sigma_mean_up_m'),
+    tol: c('tolerance', 'status'), kinds: c('solution_kinds', 'solutions'),
+  };
+  return t.lines.map((line) => {
+    const r = cells(line);
+    const p = { x: numAt(r, k.x), y: numAt(r, k.y), z: numAt(r, k.z) };
+    const enu = o && Number.isFinite(p.x) ? ecefToEnu(p, o) : { e: NaN, n: NaN, u: NaN };
+    return {
+      name: strAt(r, k.name), epochs: numAt(r, k.epochs), durationS: numAt(r, k.dur), startUtc: strAt(r, k.start),
+      eastM: enu.e, northM: enu.n, upM: enu.u, latitudeDeg: numAt(r, k.lat), longitudeDeg: numAt(r, k.lon), heightM: numAt(r, k.h),
+      eastingM: numAt(r, k.easting), northingM: numAt(r, k.northing), orthometricHeightM: numAt(r, k.ortho),
+      sdEastM: numAt(r, k.sdE), sdNorthM: numAt(r, k.sdN), sdUpM: numAt(r, k.sdU),
+      sigmaMeanEastM: numAt(r, k.smE), sigmaMeanNorthM: numAt(r, k.smN), sigmaMeanUpM: numAt(r, k.smU),
+      tolerance: strAt(r, k.tol), solutionKinds: strAt(r, k.kinds),
+    };
+  });
+}
+
+async function readJson(path: string): Promise<Record<string, unknown>> {
+  const text = await readFile(path, 'utf8');
+  try {
+    return JSON.parse(text) as Record<string, unknown>;
+  } catch (e) {
+    throw new InputError(path, 0, `${path} is not valid JSON (${e instanceof Error ? e.message : String(e)})`);
+  }
+}
+
+type J = Record<string, unknown>;
+const asObj = (v: unknown): J => (v && typeof v === 'object' && !Array.isArray(v) ? (v as J) : {});
+const asArr = (v: unknown): unknown[] => (Array.isArray(v) ? v : []);
+const text = (v: unknown): string => (v === null || v === undefined ? '' : typeof v === 'object' ? JSON.stringify(v) : String(v));
+
+/** Nested options as flat "a.b" lines. */
+export function flatten(o: unknown, prefix = ''): [string, string][] {
+  if (o && typeof o === 'object' && !Array.isArray(o)) return Object.entries(o as J).flatMap(([k, v]) => flatten(v, prefix ? `${prefix}.${k}` : k));
+  return [[prefix.replace(/_/g, ' '), Array.isArray(o) ? o.map(text).join(', ') : text(o)]];
+}
+
+function readCheck(doc: J): ReportControlCheck {
+  const nssda = asObj(doc.nssda);
+  return {
+    toleranceHM: Number(doc.tolerance_h_m), toleranceVM: Number(doc.tolerance_v_m),
+    pairs: asArr(doc.pairs).map((p0) => {
+      const p = asObj(p0);
+      return { point: text(p.point), mark: text(p.mark), matchedBy: text(p.matched_by), dEastM: Number(p.d_east_m), dNorthM: Number(p.d_north_m), dUpM: Number(p.d_up_m), horizontalM: Number(p.horizontal_m), pass: p.pass === true };
+    }),
+    unmatchedPoints: asArr(doc.unmatched_points).map(text), unmatchedMarks: asArr(doc.unmatched_marks).map(text),
+    nssda: Object.entries(nssda).filter(([k, v]) => k !== 'warnings' && (typeof v !== 'object' || v === null)).map(([k, v]) => [k.replace(/_/g, ' '), text(v)] as const),
+    warnings: asArr(doc.warnings).map((w) => text(asObj(w).message ?? w)),
+  };
+}
+
+/** Everything a session report shows, from the files that exist. */
+export async function readSessionReportData(src: ReportSources, title: string): Promise<SessionReportData> {
+  const missing: string[] = [];
+  const summary = typeof src.summary === 'string' ? await readJson(src.summary) : src.summary ?? null;
+  if (!summary) missing.push('No summary.json: inputs, options, frame and warnings are not shown.');
+  const checkDoc = src.check ? await readJson(src.check) : null;
+  let o = origin(summary);
+  let epochs: EpochSeries | null = null;
+  if (src.epochs) {
+    const r = await readEpochs(src.epochs, o);
+    epochs = r.series;
+    o = r.origin;
+    if (r.note) missing.push(r.note);
+  } else missing.push('No epochs.csv: no track, occupation scatter or time series.');
+  const residuals = src.residuals ? await readResiduals(src.residuals) : null;
+  if (!residuals) missing.push('No residuals.csv: no sky plot or residual chart.');
+  let pointsPath = src.points;
+  if (!pointsPath && checkDoc && typeof checkDoc.points_file === 'string' && existsSync(checkDoc.points_file)) pointsPath = checkDoc.points_file;
+  const points = pointsPath ? await readPoints(pointsPath, o) : [];
+  const s = asObj(summary);
+  const frame = asObj(s.frame), opts = asObj(s.options), ref = asObj(s.reference), span = asObj(s.time_span), counts = asObj(s.counts), sw = asObj(s.software), warn = asObj(s.warnings);
+  const inputs: ReportInput[] = asArr(s.inputs).map((i0) => {
+    const i = asObj(i0);
+    return { kind: text(i.kind), path: text(i.path), sha256: text(i.sha256), bytes: typeof i.bytes === 'number' ? i.bytes : null };
+  });
+  const frameText = frame.name ? `${text(frame.name)} epoch ${text(frame.epoch_text ?? frame.epoch)}` : '';
+  return {
+    title,
+    software: sw.name ? `${text(sw.name)} ${text(sw.version)}` : 'refdelta',
+    createdUtc: text(s.created_utc) || new Date().toISOString(),
+    frameText,
+    pointReference: text(opts.position_refers_to),
+    referenceText: text(ref.source ?? ref.note),
+    firstUtc: text(span.first_utc), lastUtc: text(span.last_utc),
+    epochsByKind: Object.entries(asObj(counts.by_kind)).filter(([, v]) => typeof v === 'number' && v > 0).map(([k, v]) => [k, v as number] as const),
+    epochs, residuals, points,
+    check: checkDoc ? readCheck(checkDoc) : null,
+    inputs,
+    options: flatten(opts),
+    warningsTotal: typeof warn.total === 'number' ? warn.total : asArr(s.warnings).length,
+    warnings: asArr(warn.first ?? s.warnings).map((w0) => {
+      const w = asObj(w0);
+      const where = w.file ? `${basename(text(w.file))}${w.line ? `, line ${text(w.line)}` : ''}: ` : '';
+      return `${where}${text(w.message ?? w0)}`;
+    }),
+    notes: asArr(s.notes).map(text),
+    cautions: asArr(s.cautions).map(text),
+    missing,
+  };
+}
+
+/** A title for a folder: its name, with the parent's for generic names (out/demo/points -> demo/points). */
+export function folderTitle(dir: string): string {
+  const b = basename(dir);
+  return ['points', 'check', 'out', 'solve'].includes(b) ? `${basename(dirname(dir))}/${b}` : b;
+}

@@ -1,0 +1,53 @@
+/** HTML tables and lists of the report. */
+import { scatterRadius95M } from './chart-occupation.js';
+import type { ReportControlCheck, ReportInput, ReportPoint } from './report-data.js';
+import { esc, num } from './svg-kit.js';
+
+export function badge(word: string): string {
+  const cls = word === 'ok' || word === 'pass' ? 'pass' : word === 'failed' || word === 'fail' || word.startsWith('exceeds') ? 'fail' : 'other';
+  return `<span class="badge ${cls}">${esc(word)}</span>`;
+}
+
+export function table(head: readonly string[], rows: readonly (readonly string[])[], textColumns: readonly number[] = [0]): string {
+  const cell = (c: string, i: number, tag: string) => `<${tag}${textColumns.includes(i) ? ' class="t"' : ''}>${c}</${tag}>`;
+  return `<table><thead><tr>${head.map((h, i) => cell(esc(h), i, 'th')).join('')}</tr></thead><tbody>${rows.map((r) => `<tr>${r.map((c, i) => cell(c, i, 'td')).join('')}</tr>`).join('')}</tbody></table>`;
+}
+
+/** Two tables: the coordinates, then precision and the tolerance result. */
+export function pointsTable(points: readonly ReportPoint[]): string {
+  const grid = points.some((p) => Number.isFinite(p.eastingM));
+  const ortho = points.some((p) => Number.isFinite(p.orthometricHeightM));
+  const coords = table(
+    ['point', 'epochs', 'duration (s)', 'latitude (°)', 'longitude (°)', 'ellipsoidal height (m)', ...(grid ? ['easting (m)', 'northing (m)'] : []), ...(ortho ? ['orthometric height (m)'] : [])],
+    points.map((p) => [
+      esc(p.name), String(p.epochs), num(p.durationS, 0), num(p.latitudeDeg, 8), num(p.longitudeDeg, 8), num(p.heightM, 3),
+      ...(grid ? [num(p.eastingM, 3), num(p.northingM, 3)] : []), ...(ortho ? [num(p.orthometricHeightM, 3)] : []),
+    ]));
+  const precision = table(
+    ['point', 'sd east (m)', 'sd north (m)', 'sd up (m)', 'sigma mean east (m)', 'sigma mean north (m)', 'sigma mean up (m)', '95 % radius (m)', 'tolerance'],
+    points.map((p) => [
+      esc(p.name), num(p.sdEastM, 3), num(p.sdNorthM, 3), num(p.sdUpM, 3), num(p.sigmaMeanEastM, 3), num(p.sigmaMeanNorthM, 3), num(p.sigmaMeanUpM, 3),
+      num(scatterRadius95M(p), 3), badge(p.tolerance || 'unknown'),
+    ]));
+  return coords + precision;
+}
+
+export function checkTables(c: ReportControlCheck): string {
+  const rows = c.pairs.map((p) => [esc(p.point), esc(p.mark), esc(p.matchedBy), num(p.dEastM, 3), num(p.dNorthM, 3), num(p.dUpM, 3), num(p.horizontalM, 3), badge(p.pass ? 'pass' : 'fail')]);
+  return `<p>Computed point minus published mark, east/north/up at the mark. Pass: horizontal ≤ ${num(c.toleranceHM, 2)} m and |up| ≤ ${num(c.toleranceVM, 2)} m.</p>` +
+    table(['point', 'mark', 'matched by', 'dE (m)', 'dN (m)', 'dU (m)', 'horizontal (m)', 'result'], rows, [0, 1, 2]) +
+    (c.unmatchedPoints.length ? `<p>Points without a mark: ${c.unmatchedPoints.map(esc).join(', ')}.</p>` : '') +
+    (c.unmatchedMarks.length ? `<p>Marks without a point: ${c.unmatchedMarks.map(esc).join(', ')}.</p>` : '') +
+    (c.nssda.length ? `<h3>NSSDA (FGDC-STD-007.3-1998)</h3>${factsHtml(c.nssda)}` : '') +
+    (c.warnings.length ? `<ul class="plain">${c.warnings.map((w) => `<li>${esc(w)}</li>`).join('')}</ul>` : '');
+}
+
+export function inputsTable(inputs: readonly ReportInput[]): string {
+  const name = (p: string) => p.split(/[\\/]/).pop() ?? p;
+  return table(['kind', 'file', 'bytes', 'SHA-256'], inputs.map((i) => [esc(i.kind), `<span title="${esc(i.path)}">${esc(name(i.path))}</span>`, i.bytes === null ? '' : i.bytes.toLocaleString('en-US'), `<span class="hash-text">${esc(i.sha256)}</span>`]), [0, 1])
+    .replace(/<td><span class="hash-text">/g, '<td class="hash"><span class="hash-text">');
+}
+
+export function factsHtml(lines: readonly (readonly [string, string])[]): string {
+  return `<dl class="facts">${lines.map(([k, v]) => `<dt>${esc(k)}</dt><dd>${esc(v)}</dd>`).join('')}</dl>`;
+}
