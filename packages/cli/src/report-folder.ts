@@ -66,19 +66,20 @@ function cells(line: string): string[] {
 const numAt = (c: readonly string[], i: number): number => (i >= 0 && c[i] !== undefined && c[i].trim() !== '' ? Number(c[i]) : NaN);
 const strAt = (c: readonly string[], i: number): string => (i >= 0 ? (c[i] ?? '').trim() : '');
 
+/** GPS seconds of an ISO 8601 UTC time (leap table); NaN when it is not one. */
+function isoToGpsS(iso: string): number {
+  const ms = Date.parse(iso);
+  if (!Number.isFinite(ms)) return NaN;
+  const utcS = (ms - Date.UTC(1980, 0, 6)) / 1000;
+  return utcS + leapSecondsAtUtc(utcS);
+}
+
 /** GPS seconds of a row: week + time of week, else an ISO UTC time (leap table), else NaN. */
 function timeReader(t: CsvTable): (c: readonly string[]) => number {
   const w = col(t, 'gps_week', 'week'), tow = col(t, 'gps_tow_s', 'tow_s', 'gps_tow');
   if (w >= 0 && tow >= 0) return (c) => numAt(c, w) * SECONDS_PER_WEEK + numAt(c, tow);
   const u = col(t, 'utc_time', 'utc', 'time_utc');
-  if (u >= 0) {
-    return (c) => {
-      const ms = Date.parse(strAt(c, u));
-      if (!Number.isFinite(ms)) return NaN;
-      const utcS = ms / 1000 - Date.UTC(1980, 0, 6) / 1000;
-      return utcS + leapSecondsAtUtc(utcS);
-    };
-  }
+  if (u >= 0) return (c) => isoToGpsS(strAt(c, u));
   return () => NaN;
 }
 
@@ -158,7 +159,8 @@ async function readPoints(path: string, o: EcefM | null): Promise<ReportPoint[]>
   const t = await readCsvTable(path);
   const c = (...names: string[]) => col(t, ...names);
   const k = {
-    name: c('name', 'point'), epochs: c('epochs', 'n_epochs'), dur: c('duration_s'), start: c('start_utc', 'start'), lat: c('latitude_deg'), lon: c('longitude_deg'), h: c('height_m'),
+    name: c('name', 'point'), epochs: c('epochs', 'n_epochs'), dur: c('duration_s'), start: c('start_utc', 'start'),
+    sw: c('start_gps_week'), stow: c('start_gps_tow_s'), ew: c('end_gps_week'), etow: c('end_gps_tow_s'), end: c('end_utc', 'end'), lat: c('latitude_deg'), lon: c('longitude_deg'), h: c('height_m'),
     easting: c('easting_m'), northing: c('northing_m'), ortho: c('orthometric_height_m'), x: c('ecef_x_m'), y: c('ecef_y_m'), z: c('ecef_z_m'),
     sdE: c('sd_east_m'), sdN: c('sd_north_m'), sdU: c('sd_up_m'), smE: c('sigma_mean_east_m'), smN: c('sigma_mean_north_m'), smU: c('sigma_mean_up_m'),
     tol: c('tolerance', 'status'), kinds: c('solution_kinds', 'solutions'),
@@ -169,6 +171,8 @@ async function readPoints(path: string, o: EcefM | null): Promise<ReportPoint[]>
     const enu = o && Number.isFinite(p.x) ? ecefToEnu(p, o) : { e: NaN, n: NaN, u: NaN };
     return {
       name: strAt(r, k.name), epochs: numAt(r, k.epochs), durationS: numAt(r, k.dur), startUtc: strAt(r, k.start),
+      startGpsS: k.sw >= 0 ? numAt(r, k.sw) * SECONDS_PER_WEEK + numAt(r, k.stow) : isoToGpsS(strAt(r, k.start)),
+      endGpsS: k.ew >= 0 ? numAt(r, k.ew) * SECONDS_PER_WEEK + numAt(r, k.etow) : isoToGpsS(strAt(r, k.end)),
       eastM: enu.e, northM: enu.n, upM: enu.u, latitudeDeg: numAt(r, k.lat), longitudeDeg: numAt(r, k.lon), heightM: numAt(r, k.h),
       eastingM: numAt(r, k.easting), northingM: numAt(r, k.northing), orthometricHeightM: numAt(r, k.ortho),
       sdEastM: numAt(r, k.sdE), sdNorthM: numAt(r, k.sdN), sdUpM: numAt(r, k.sdU),
@@ -212,6 +216,10 @@ function readCheck(doc: J): ReportControlCheck {
   };
 }
 
+function referencePositionText(p: J): string {
+  return typeof p.x_m === 'number' ? `ECEF ${[p.x_m, p.y_m, p.z_m].map((v) => Number(v).toFixed(4)).join(', ')} m` : '';
+}
+
 /** Everything a session report shows, from the files that exist. */
 export async function readSessionReportData(src: ReportSources, title: string): Promise<SessionReportData> {
   const missing: string[] = [];
@@ -244,7 +252,7 @@ export async function readSessionReportData(src: ReportSources, title: string): 
     createdUtc: text(s.created_utc) || new Date().toISOString(),
     frameText,
     pointReference: text(opts.position_refers_to),
-    referenceText: text(ref.source ?? ref.note),
+    referenceText: [text(ref.source ?? ref.note), referencePositionText(asObj(ref.position))].filter(Boolean).join('; '),
     firstUtc: text(span.first_utc), lastUtc: text(span.last_utc),
     epochsByKind: Object.entries(asObj(counts.by_kind)).filter(([, v]) => typeof v === 'number' && v > 0).map(([k, v]) => [k, v as number] as const),
     epochs, residuals, points,

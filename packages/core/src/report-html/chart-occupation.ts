@@ -12,10 +12,21 @@ import { esc, linearScale, niceTicks, px, tickDecimals } from './svg-kit.js';
 export const OCCUPATION_MAX_EPOCHS = 800;
 const S = 300, M = 44;
 
-/** Epoch indices of an occupation (by the epochs' point column). */
-export function occupationEpochs(ep: EpochSeries, name: string): number[] {
+/** Half-width of the time window matching epochs to an occupation's first/last epoch tags (s): tags and estimated GPS time differ by the receiver clock offset (milliseconds). */
+export const OCCUPATION_WINDOW_SLACK_S = 0.5;
+
+/**
+ * Epoch indices of an occupation with a position: by the epochs' point column when any epoch carries
+ * the point's name (event flags, windows), else by the occupation's time window (static detection).
+ */
+export function occupationEpochs(ep: EpochSeries, p: Pick<ReportPoint, 'name' | 'startGpsS' | 'endGpsS'>): number[] {
   const out: number[] = [];
-  for (let i = 0; i < ep.point.length; i++) if (ep.point[i] === name && Number.isFinite(ep.eastM[i]) && Number.isFinite(ep.northM[i])) out.push(i);
+  const byName = ep.point.includes(p.name);
+  const t0 = p.startGpsS - OCCUPATION_WINDOW_SLACK_S, t1 = p.endGpsS + OCCUPATION_WINDOW_SLACK_S;
+  for (let i = 0; i < ep.point.length; i++) {
+    const inside = byName ? ep.point[i] === p.name : ep.timeGpsS[i] >= t0 && ep.timeGpsS[i] <= t1;
+    if (inside && Number.isFinite(ep.eastM[i]) && Number.isFinite(ep.northM[i])) out.push(i);
+  }
   return out;
 }
 
@@ -25,7 +36,7 @@ export function scatterRadius95M(p: ReportPoint): number {
 }
 
 export function occupationChart(ep: EpochSeries, p: ReportPoint): string {
-  const all = occupationEpochs(ep, p.name);
+  const all = occupationEpochs(ep, p);
   const stride = decimationStride(all.length, OCCUPATION_MAX_EPOCHS);
   const idx = decimatedIndices(all.length, stride).map((j) => all[j]);
   let ce = p.eastM, cn = p.northM;

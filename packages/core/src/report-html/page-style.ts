@@ -19,7 +19,7 @@ th{border-bottom:2px solid var(--ink);text-align:right}
 th:first-child,td:first-child,td.t,th.t{text-align:left}
 td.hash{font-family:"DejaVu Sans Mono",Consolas,monospace;font-size:11.5px;word-break:break-all;text-align:left}
 td.path{word-break:break-all;text-align:left}
-.badge{display:inline-block;padding:0 7px;border-radius:3px;font-weight:bold;color:#fff}
+.badge{display:inline-block;white-space:nowrap;padding:0 7px;border-radius:3px;font-weight:bold;color:#fff}
 .badge.pass{background:var(--pass)}.badge.fail{background:var(--fail)}.badge.other{background:#777}
 .chart{margin:10px 0 18px;break-inside:avoid;page-break-inside:avoid}
 .chart svg{max-width:100%;height:auto;display:block;font-size:12px;font-family:inherit}

@@ -39,6 +39,9 @@ export interface ReportPoint {
   readonly epochs: number;
   readonly durationS: number;
   readonly startUtc: string;
+  /** First and last epoch of the occupation, GPS seconds (NaN when unknown). */
+  readonly startGpsS: number;
+  readonly endGpsS: number;
   /** Local east/north/up of the point at the reference (m); NaN when unknown. */
   readonly eastM: number;
   readonly northM: number;
