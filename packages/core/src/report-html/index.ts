@@ -11,3 +11,4 @@ export { OCCUPATION_MAX_EPOCHS, OCCUPATION_WINDOW_SLACK_S, occupationEpochs, sca
 export { SKY_MAX_VERTICES_PER_SATELLITE, skyTracks } from './chart-sky.js';
 export { RESIDUALS_MAX_USED, RESIDUALS_MAX_REJECTED_PER_REASON, residualRowsDrawn } from './chart-residuals.js';
 export { OKABE_ITO } from './palette.js';
+export { syntheticSessionReportData } from './synthetic-session.js';

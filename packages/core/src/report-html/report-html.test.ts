@@ -1,0 +1,69 @@
+/**
+ * The HTML report builders without a browser (test/report-browser.test.ts opens the pages in chromium):
+ * escaping, the decimation rule, any solution kind, the page's size for a day at 1 Hz.
+ */
+import { describe, expect, it } from 'vitest';
+import { buildBatchIndexHtml, buildSessionReportHtml, decimatedIndices, decimationStride, ELLIPSE_95_SCALE, syntheticSessionReportData } from './index.js';
+import { esc, niceTicks } from './svg-kit.js';
+
+describe('report-html builders', () => {
+  it('escapes the five characters HTML gives meaning to (HTML Living Standard, 13.1.2.6 / character references)', () => {
+    expect(esc(`<b a="1">&'`)).toBe('&lt;b a=&quot;1&quot;&gt;&amp;&#39;');
+  });
+
+  it('95 % ellipse scale: sqrt of the chi-square 95 % quantile for 2 degrees of freedom, 5.991 (any chi-square table)', () => {
+    expect(ELLIPSE_95_SCALE ** 2).toBeCloseTo(5.991, 3);
+  });
+
+  it('decimation keeps entries 0, k, 2k... with k = ceil(n / max): ceil(n / k) marks, never more than max', () => {
+    for (const [n, max] of [[10, 20], [86_400, 1500], [1501, 1500], [3000, 1500]]) {
+      const k = decimationStride(n, max);
+      const idx = decimatedIndices(n, k);
+      expect(idx.length).toBe(Math.ceil(n / k));
+      expect(idx.length).toBeLessThanOrEqual(max);
+      expect(idx[1] ?? k).toBe(k);
+    }
+  });
+
+  it('axis ticks: 1-2-5 steps, at least two inside any range (common practice)', () => {
+    expect(niceTicks(-164, 169, 3)).toEqual([-100, 0, 100]);
+    expect(niceTicks(1.1, 1.7, 3).map((v) => Number(v.toFixed(6)))).toEqual([1.2, 1.4, 1.6]);
+  });
+
+  it('a day at 1 Hz with every solution kind (code, smoothed, float, fixed, none) gives a page under 2 MB, no script, each kind in the legend', () => {
+    const d = syntheticSessionReportData();
+    const html = buildSessionReportHtml(d);
+    expect(html.length).toBeLessThan(2 * 1024 * 1024);
+    expect(html).not.toMatch(/<script/i);
+    for (const k of ['code', 'smoothed', 'float', 'fixed', 'none']) expect(html).toContain(`data-kind="${k}"`);
+    // The only URL in the page is the SVG namespace name (never fetched).
+    expect([...html.matchAll(/https?:\/\/[^"' )]+/g)].map((m) => m[0]).every((u) => u === 'http://www.w3.org/2000/svg')).toBe(true);
+    expect(html).toMatch(/every \d+th of 86,400 epochs/);
+  });
+
+  it('names from the data are escaped; an unknown kind word is drawn with a colour and listed', () => {
+    const d = syntheticSessionReportData(600, 4);
+    const html = buildSessionReportHtml({
+      ...d, title: '<x>', points: d.points.map((p, i) => (i === 0 ? { ...p, name: 'A&B "1"' } : p)),
+      epochs: { ...d.epochs!, kind: d.epochs!.kind.map((k, i) => (i < 100 ? 'ppp-converging' : k)) },
+    });
+    expect(html).toContain('&lt;x&gt;');
+    expect(html).toContain('A&amp;B &quot;1&quot;');
+    expect(html).not.toContain('A&B "1"');
+    expect(html).toContain('data-kind="ppp-converging"');
+    expect(html).toMatch(/ppp-converging: 100 epochs/);
+  });
+
+  it('batch index: failed sessions first, links only to sessions with a report', () => {
+    const html = buildBatchIndexHtml({
+      title: 'b', software: 'refdelta', createdUtc: '', cautions: [],
+      sessions: [
+        { session: 'a', status: 'ok', reason: '', epochs: 10, solvedEpochs: 10, points: 1, reportHref: 'a/report.html' },
+        { session: 'z', status: 'failed', reason: 'not RINEX', epochs: 0, solvedEpochs: 0, points: 0, reportHref: null },
+      ],
+    });
+    expect(html.indexOf('>z<')).toBeLessThan(html.indexOf('>a<'));
+    expect(html).toContain('<a href="a/report.html">a</a>');
+    expect(html).toMatch(/mapping-grade/);
+  });
+});
