@@ -5,6 +5,7 @@
 //           the solve step alone, the two WLS implementations, and peak memory for 1 h and 24 h, each job
 //           in a fresh child process (bench/engine-run.mjs).
 //   Part 3: carrier phase (bench/carrier-run.mjs): a simulated day at 1 Hz, both passes.
+//   Part 4: the HTML report of a full day at 1 Hz opened in chromium (bench/report-open.mjs); --part4 runs it alone, --no-report skips it.
 // A script, not a test. Options: --part1 / --part2 (only one part), --hours-long N (default 24),
 // --throughput-hours N (length of the simulated session timed end to end; default 24, a full day),
 // --carrier-hours N (default 24), --no-carrier.
@@ -16,7 +17,7 @@ import { benchParse } from './parse-throughput.mjs';
 import { fmt, printTable } from './stats.mjs';
 
 const args = process.argv.slice(2);
-const only = args.includes('--part1') ? 1 : args.includes('--part2') ? 2 : 0;
+const only = args.includes('--part1') ? 1 : args.includes('--part2') ? 2 : args.includes('--part3') ? 3 : args.includes('--part4') ? 4 : 0;
 const longIdx = args.indexOf('--hours-long');
 const longHours = longIdx >= 0 ? Number(args[longIdx + 1]) : 24;
 const tpIdx = args.indexOf('--throughput-hours');
@@ -29,7 +30,7 @@ const t0 = performance.now();
 console.log(`refdelta bench: node ${process.version}, ${os.cpus().length} cores (${os.cpus()[0]?.model ?? '?'}), load average ${os.loadavg().map((l) => l.toFixed(1)).join(' ')}`);
 console.log('Figures are medians of repeated runs after one warm-up; other processes on the machine slow them down.\n');
 
-if (only !== 2) {
+if (only === 0 || only === 1) {
   console.log('== Part 1: observation reader throughput (plain RINEX text held in memory, 64 KiB string chunks) ==');
   const core = await loadCore();
   const results = await benchParse(core, dataDir);
@@ -62,7 +63,7 @@ function job(mode, hours) {
   });
 }
 
-if (only !== 1) {
+if (only === 0 || only === 2) {
   console.log('== Part 2: engine on a simulated session (rover 1 Hz, reference 30 s, GPS + Galileo, all error sources on) ==');
   const tp = await job('throughput', throughputHours);
   const s = tp.solve;
@@ -95,7 +96,7 @@ if (only !== 1) {
   verdict(`peak heap ${longHours} h / 1 h`, `${fmt(heapRatio, 2)}x`, '<= 1.5x', heapRatio <= 1.5);
 }
 
-if (only !== 1 && !args.includes('--no-carrier')) {
+if (only !== 1 && only !== 4 && !args.includes('--no-carrier')) {
   const cIdx = args.indexOf('--carrier-hours');
   const carrierHours = cIdx >= 0 ? Number(args[cIdx + 1]) : 24;
   console.log(`== Part 3: carrier phase on a simulated session (${carrierHours} h, rover 1 Hz, reference 30 s, GPS + Galileo: the simulator has no GLONASS) ==`);
@@ -109,6 +110,18 @@ if (only !== 1 && !args.includes('--no-carrier')) {
   const pct = (p) => `${fmt(100 * p.fixed / c.epochs, 1)} %`;
   console.log(`${fmt(c.epochs)} rover epochs: read + records + forward + backward + combination in ${fmt(c.wallMs / 1000, 1)} s wall, ${fmt(c.cpuMs / 1000, 1)} s CPU; fixed forward ${pct(c.forward)}, backward ${pct(c.backward)}, combined ${pct(c.combined)}; records ${fmt(c.recordMB, 1)} MB; peak RSS ${fmt(c.peakRssMB, 0)} MB\n`);
   verdict(`carrier phase, ${carrierHours} h at 1 Hz, both passes (CPU)`, `${fmt(c.cpuMs / 1000, 1)} s`, '<= 60 s for 24 h', carrierHours === 24 ? c.cpuMs <= 60000 : null);
+}
+
+if ((only === 0 || only === 4) && !args.includes('--no-report')) {
+  console.log('== Part 4: HTML report of a full day at 1 Hz opened in chromium ==');
+  const { benchReportOpen } = await import('./report-open.mjs');
+  const r = await benchReportOpen();
+  if (r.skipped) console.log(`skipped: ${r.skipped}\n`);
+  else {
+    console.log(`page ${fmt(r.bytes / 1048576, 2)} MB built in ${fmt(r.buildMs)} ms; open (navigation to first frame after load) median ${fmt(r.openMs)} ms, range ${fmt(r.minMs)}-${fmt(r.maxMs)} ms over ${r.runs} openings\n`);
+    verdict('report of a day at 1 Hz: opening in chromium', `${fmt(r.openMs)} ms`, '< 3,000 ms', r.openMs < 3000);
+    verdict('report of a day at 1 Hz: file size', `${fmt(r.bytes / 1048576, 2)} MB`, '< 2 MB', r.bytes < 2 * 1048576);
+  }
 }
 
 console.log('== Targets ==');

@@ -61,7 +61,7 @@ export function occupationChart(ep: EpochSeries, p: ReportPoint): string {
     (Number.isFinite(r95) ? `<circle class="radius95" cx="${px(x(0))}" cy="${px(y(0))}" r="${px(r95 * k)}" fill="none" stroke="${OKABE_ITO.vermillion}" stroke-width="1.8"/>` : '') +
     `<path d="M${px(x(0) - 6)} ${px(y(0))}h12M${px(x(0))} ${px(y(0) - 6)}v12" stroke="#000" stroke-width="1.5"/>`;
   return chartFigure({
-    chart: 'occupation', className: 'small', title: `${p.name}: ${all.length} epochs about the mean`, widthPx: S, heightPx: S, body,
+    chart: 'occupation', className: 'small', title: `${p.name}: ${all.length.toLocaleString('en-US')} epochs about the mean`, widthPx: S, heightPx: S, body,
     caption: [
       Number.isFinite(r95) ? `Red circle: 95 % radius ${r95.toFixed(3)} m of the per-epoch scatter (sd east ${p.sdEastM.toFixed(3)} m, north ${p.sdNorthM.toFixed(3)} m).` : 'No scatter figures for this point.',
       `${decimationNote(idx.length, all.length, stride, 'epochs')}.`,

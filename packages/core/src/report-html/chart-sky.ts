@@ -39,6 +39,8 @@ function polar(azDeg: number, elDeg: number): [number, number] {
 
 export function skyChart(rs: ResidualSeries, elevationMaskDeg: number): string {
   const tracks = skyTracks(rs);
+  const [t0, t1] = finiteRange(rs.timeGpsS);
+  const minStepS = (t1 - t0) / SKY_MAX_VERTICES_PER_SATELLITE;
   const parts: string[] = [`<g class="axis">`];
   for (const el of [0, 30, 60]) parts.push(`<circle class="grid" cx="${C}" cy="${C}" r="${px((R * (90 - el)) / 90)}" fill="none"/><text x="${C + 3}" y="${px(C - (R * (90 - el)) / 90 + 12)}">${el}°</text>`);
   if (Number.isFinite(elevationMaskDeg) && elevationMaskDeg > 0) parts.push(`<circle class="mask" cx="${C}" cy="${C}" r="${px((R * (90 - elevationMaskDeg)) / 90)}" fill="none" stroke="#777" stroke-dasharray="2 3"/>`);
@@ -54,9 +56,15 @@ export function skyChart(rs: ResidualSeries, elevationMaskDeg: number): string {
     systems.add(sys);
     const xy = t.rows.map((i) => polar(rs.azimuthDeg[i], rs.elevationDeg[i]));
     const [lx, ly] = xy[xy.length - 1];
+    // A track breaks where the satellite was not seen for a while (set and rose again): more than 10 minutes, or 3 drawn steps.
+    const segments: string[][] = [[]];
+    t.rows.forEach((row, j) => {
+      if (j > 0 && rs.timeGpsS[row] - rs.timeGpsS[t.rows[j - 1]] > Math.max(600, 3 * minStepS)) segments.push([]);
+      segments[segments.length - 1].push(`${px(xy[j][0])},${px(xy[j][1])}`);
+    });
     const colour = systemColour(sys);
     parts.push(`<g class="sat" data-satellite="${esc(t.satellite)}" data-used="${t.used}">` +
-      `<polyline fill="none" stroke="${colour}" stroke-width="${t.used ? 2 : 1.2}"${t.used ? '' : ' stroke-dasharray="4 3"'} points="${xy.map(([x, y]) => `${px(x)},${px(y)}`).join(' ')}"/>` +
+      segments.map((sg) => `<polyline fill="none" stroke="${colour}" stroke-width="${t.used ? 2 : 1.2}"${t.used ? '' : ' stroke-dasharray="4 3"'} points="${sg.join(' ')}"/>`).join('') +
       `<circle cx="${px(lx)}" cy="${px(ly)}" r="3" fill="${colour}"/><text class="sat-label" x="${px(lx + 5)}" y="${px(ly - 4)}">${esc(t.satellite)}</text></g>`);
   }
   const legend = legendHtml([

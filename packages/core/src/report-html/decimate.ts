@@ -14,9 +14,16 @@ export function decimatedIndices(n: number, stride: number, keep: (i: number) =>
   return out;
 }
 
+/** English ordinal of a stride: 2nd, 3rd, 11th, 22nd. */
+export function ordinal(k: number): string {
+  const tens = k % 100, ones = k % 10;
+  const suffix = tens >= 11 && tens <= 13 ? 'th' : ones === 1 ? 'st' : ones === 2 ? 'nd' : ones === 3 ? 'rd' : 'th';
+  return `${k}${suffix}`;
+}
+
 /** A sentence for the chart: what was drawn of how many. */
 export function decimationNote(drawn: number, total: number, stride: number, what: string): string {
   return stride === 1
     ? `all ${total.toLocaleString('en-US')} ${what} drawn`
-    : `drawn: every ${stride}th of ${total.toLocaleString('en-US')} ${what} (${drawn.toLocaleString('en-US')} marks); statistics and tables use all of them`;
+    : `drawn: every ${ordinal(stride)} of ${total.toLocaleString('en-US')} ${what} (${drawn.toLocaleString('en-US')} marks); statistics and tables use all of them`;
 }

@@ -4,6 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { buildBatchIndexHtml, buildSessionReportHtml, decimatedIndices, decimationStride, ELLIPSE_95_SCALE, syntheticSessionReportData } from './index.js';
+import { ordinal } from './decimate.js';
 import { esc, niceTicks } from './svg-kit.js';
 
 describe('report-html builders', () => {
@@ -23,6 +24,10 @@ describe('report-html builders', () => {
       expect(idx.length).toBeLessThanOrEqual(max);
       expect(idx[1] ?? k).toBe(k);
     }
+  });
+
+  it('ordinals in the decimation note follow English usage', () => {
+    expect([1, 2, 3, 4, 11, 12, 13, 21, 22, 58, 101, 112].map(ordinal)).toEqual(['1st', '2nd', '3rd', '4th', '11th', '12th', '13th', '21st', '22nd', '58th', '101st', '112th']);
   });
 
   it('axis ticks: 1-2-5 steps, at least two inside any range (common practice)', () => {
