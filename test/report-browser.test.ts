@@ -37,8 +37,10 @@ function expectedMarks(dir: string) {
   }));
   const rs = parseCsv(readFileSync(join(dir, 'residuals.csv'), 'utf8')).rows;
   const used = rs.filter((r) => r.status === 'used' && r.residual_m !== '' && r.elevation_deg !== '').length;
+  const sky = existsSync(join(dir, 'sky.csv')) ? parseCsv(readFileSync(join(dir, 'sky.csv'), 'utf8')).rows.filter((r) => r.receiver === 'reference') : [];
   return {
     epochs: ep.length,
+    referenceSatellites: new Set(sky.map((r) => r.satellite)).size,
     track: ep.filter((r, i) => i % sPlan === 0 && hasPos(r)).length,
     east: ep.filter((r, i) => i % sTime === 0 && hasPos(r)).length,
     kinds: [...new Set(ep.filter((_, i) => i % sTime === 0).map((r) => r.solution))].sort(),
@@ -60,6 +62,7 @@ async function marksInPage(o: OpenedPage) {
       east: vertices('[data-chart=time-series] [data-series=east] polyline'),
       kinds: [...new Set(q('[data-chart=time-series] .kind-run').map((r) => r.getAttribute('data-kind') ?? ''))].sort(),
       sky: q('[data-chart=sky] g.sat').length,
+      referenceSky: q('[data-chart=sky] g.sat-reference').length,
       used: q('[data-chart=residuals] .used-marks circle').length,
       rejectedReasons: q('[data-chart=residuals] .rejected-marks').map((p) => p.getAttribute('data-reason')),
       occupation: Object.fromEntries(q('[data-chart=occupation]').map((f) => [f.getAttribute('data-point'), f.querySelectorAll('.epoch-dots circle').length])),
@@ -101,6 +104,20 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
     expect(r.sha256).toBe(createHash('sha256').update(readFileSync(join(out, 'report.html'))).digest('hex'));
   });
 
+  it('sky.csv: the reference sees each satellite within 0.1 degree of the rover at the same instant (1.5 km apart: under 0.02 degree, geometry)', () => {
+    const rover = new Map(parseCsv(readFileSync(join(out, 'residuals.csv'), 'utf8')).rows.map((r) => [`${r.gps_tow_s}:${r.satellite}`, r]));
+    let compared = 0;
+    for (const r of parseCsv(readFileSync(join(out, 'sky.csv'), 'utf8')).rows) {
+      const v = rover.get(`${r.gps_tow_s}:${r.satellite}`);
+      if (!v) continue;
+      compared++;
+      expect(Math.abs(Number(r.elevation_deg) - Number(v.elevation_deg))).toBeLessThan(0.1);
+      const dAz = Math.abs(((Number(r.azimuth_deg) - Number(v.azimuth_deg) + 540) % 360) - 180);
+      expect(dAz * Math.cos((Number(v.elevation_deg) * Math.PI) / 180)).toBeLessThan(0.1);
+    }
+    expect(compared).toBeGreaterThan(100);
+  });
+
   it('refdelta report DIR after a check: the page opens with no error, no request leaving the file, every mark drawn', async () => {
     expect(runCli(['check', '--points', join(out, 'points.csv'), '--marks', DEMO('control-marks.csv'), '--out', join(out, 'check')]).status).toBe(0);
     const run = runCli(['report', out]);
@@ -122,6 +139,7 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
     expect(got.east).toBe(want.east);
     expect(got.kinds).toEqual(want.kinds);
     expect(got.sky).toBe(want.satellites);
+    expect(got.referenceSky).toBe(want.referenceSatellites);
     expect(got.used).toBe(want.used);
     expect(got.occupation).toEqual(want.occupation);
     expect(got.rejectedReasons).toEqual(expect.arrayContaining(['below elevation mask', 'rejected by data snooping']));
@@ -188,6 +206,8 @@ describeShared('HTML report of the real static run in chromium', () => {
       expect(got.east).toBe(want.east);
       expect(got.kinds).toEqual(want.kinds);
       expect(got.sky).toBe(want.satellites);
+      expect(got.referenceSky).toBe(want.referenceSatellites);
+      expect(want.referenceSatellites).toBeGreaterThan(4);
       expect(got.used).toBe(want.used);
       expect(got.occupation).toEqual(want.occupation);
       expect(Object.values(got.occupation).every((n) => n > 100)).toBe(true); // data README: "static-run/ ... both receivers still": one Doppler-detected occupation of most epochs

@@ -8,7 +8,7 @@ import { readFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import {
   ecefToEnu, InputError, leapSecondsAtUtc, splitCsvLine, SECONDS_PER_WEEK,
-  type EcefM, type EpochSeries, type ReportControlCheck, type ReportInput, type ReportPoint, type ResidualSeries, type SessionReportData,
+  type EcefM, type EpochSeries, type ReportControlCheck, type ReportInput, type ReportPoint, type ResidualSeries, type SessionReportData, type SkySeries,
 } from '@refdelta/core';
 
 /** The files a session report reads; each may be absent. */
@@ -19,13 +19,15 @@ export interface ReportSources {
   /** summary.json: a path, or the document itself (a run that has not written it yet). */
   readonly summary?: string | Record<string, unknown>;
   readonly check?: string;
+  /** sky.csv: the reference receiver's satellite directions. */
+  readonly sky?: string;
 }
 
 /** The report sources of an output folder of solve, points or check (control-check.json also in DIR/check/). */
 export function sourcesInFolder(dir: string): ReportSources {
   const at = (name: string) => (existsSync(join(dir, name)) ? join(dir, name) : undefined);
   const check = at('control-check.json') ?? (existsSync(join(dir, 'check', 'control-check.json')) ? join(dir, 'check', 'control-check.json') : undefined);
-  return { epochs: at('epochs.csv'), residuals: at('residuals.csv'), points: at('points.csv'), summary: at('summary.json'), check };
+  return { epochs: at('epochs.csv'), residuals: at('residuals.csv'), points: at('points.csv'), summary: at('summary.json'), check, sky: at('sky.csv') };
 }
 
 interface CsvTable {
@@ -155,6 +157,24 @@ async function readResiduals(path: string): Promise<ResidualSeries> {
   return { ...s, satellites: [...satIndex.keys()], reasons: [...reasonIndex.keys()] };
 }
 
+/** Rows of sky.csv other than the rover's (the rover's directions are in residuals.csv). */
+async function readSky(path: string): Promise<SkySeries> {
+  const t = await readCsvTable(path);
+  const time = timeReader(t);
+  const recCol = col(t, 'receiver'), satCol = col(t, 'satellite', 'sat'), azCol = col(t, 'azimuth_deg', 'azimuth'), elCol = col(t, 'elevation_deg', 'elevation');
+  const satIndex = new Map<string, number>();
+  const s = { timeGpsS: [] as number[], satellite: [] as number[], azimuthDeg: [] as number[], elevationDeg: [] as number[] };
+  for (const line of t.lines) {
+    const c = cells(line);
+    if (strAt(c, recCol) === 'rover') continue;
+    const sat = strAt(c, satCol) || '?';
+    let k = satIndex.get(sat);
+    if (k === undefined) { k = satIndex.size; satIndex.set(sat, k); }
+    s.timeGpsS.push(time(c)); s.satellite.push(k); s.azimuthDeg.push(numAt(c, azCol)); s.elevationDeg.push(numAt(c, elCol));
+  }
+  return { ...s, satellites: [...satIndex.keys()] };
+}
+
 async function readPoints(path: string, o: EcefM | null): Promise<ReportPoint[]> {
   const t = await readCsvTable(path);
   const c = (...names: string[]) => col(t, ...names);
@@ -256,6 +276,7 @@ export async function readSessionReportData(src: ReportSources, title: string): 
     firstUtc: text(span.first_utc), lastUtc: text(span.last_utc),
     epochsByKind: Object.entries(asObj(counts.by_kind)).filter(([, v]) => typeof v === 'number' && v > 0).map(([k, v]) => [k, v as number] as const),
     epochs, residuals, points,
+    referenceSky: src.sky ? await readSky(src.sky) : null,
     check: checkDoc ? readCheck(checkDoc) : null,
     inputs,
     options: flatten(opts),

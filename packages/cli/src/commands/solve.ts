@@ -314,7 +314,7 @@ export async function commitStagedSolve(st: StagedSolve, rep: Reporter): Promise
       const reportPath = join(st.outDir, OUTPUT_FILE_NAMES.report);
       const listed = sealed.map(({ kind, written }) => ({ kind, path: written.path, bytes: written.bytes, sha256: written.sha256 }));
       const doc = st.summaryDoc([...listed, { kind: 'report', path: reportPath }]);
-      await st.set.add('report', reportPath, [await stagedReportHtml(st.set, doc, basename(st.outDir))]);
+      await st.set.add('report', reportPath, [await stagedReportHtml(st.set, doc, st.outDir, basename(st.outDir))]);
       sealed = await st.set.seal();
     }
     const records: OutputFileRecord[] = sealed.map(({ kind, written }) => ({ kind, path: written.path, bytes: written.bytes, sha256: written.sha256 }));

@@ -4,7 +4,7 @@
  */
 import { chartFigure, legendHtml } from './chart-frame.js';
 import { CATEGORY_COLOURS, SYSTEM_NAMES, systemColour } from './palette.js';
-import type { ResidualSeries } from './report-data.js';
+import type { ResidualSeries, SkySeries } from './report-data.js';
 import { esc, finiteRange, px } from './svg-kit.js';
 
 /** Largest number of vertices per satellite track. */
@@ -14,15 +14,15 @@ const S = 440, R = 180, C = S / 2;
 export interface SkyTrack { readonly satellite: string; readonly rows: number[]; readonly used: boolean }
 
 /** Per satellite with at least one finite azimuth/elevation: the rows drawn (at most one per span / 180). */
-export function skyTracks(rs: ResidualSeries): SkyTrack[] {
+export function skyTracks(rs: SkySeries & { readonly rejection?: ArrayLike<number> }): SkyTrack[] {
   const [t0, t1] = finiteRange(rs.timeGpsS);
   const minDtS = Math.max(0, (t1 - t0) / SKY_MAX_VERTICES_PER_SATELLITE);
   const rows = rs.satellites.map(() => [] as number[]);
   const last = rs.satellites.map(() => -Infinity);
-  const used = rs.satellites.map(() => false);
+  const used = rs.satellites.map(() => !rs.rejection);
   for (let i = 0; i < rs.timeGpsS.length; i++) {
     const s = rs.satellite[i];
-    if (rs.rejection[i] === 0) used[s] = true;
+    if (rs.rejection && rs.rejection[i] === 0) used[s] = true;
     if (!Number.isFinite(rs.azimuthDeg[i]) || !Number.isFinite(rs.elevationDeg[i])) continue;
     if (rs.timeGpsS[i] - last[s] < minDtS) continue;
     rows[s].push(i);
@@ -37,8 +37,21 @@ function polar(azDeg: number, elDeg: number): [number, number] {
   return [C + r * Math.sin(a), C - r * Math.cos(a)];
 }
 
-export function skyChart(rs: ResidualSeries, elevationMaskDeg: number): string {
+/** Polylines of one track, broken where the satellite was not seen for more than 10 minutes or 3 drawn steps. */
+function trackLines(sky: SkySeries, rows: readonly number[], minStepS: number, attrs: string): string {
+  const segments: string[][] = [[]];
+  rows.forEach((row, j) => {
+    if (j > 0 && sky.timeGpsS[row] - sky.timeGpsS[rows[j - 1]] > Math.max(600, 3 * minStepS)) segments.push([]);
+    const [x, y] = polar(sky.azimuthDeg[row], sky.elevationDeg[row]);
+    segments[segments.length - 1].push(`${px(x)},${px(y)}`);
+  });
+  return segments.map((sg) => `<polyline fill="none" ${attrs} points="${sg.join(' ')}"/>`).join('');
+}
+
+export function skyChart(rs: ResidualSeries, elevationMaskDeg: number, reference: SkySeries | null = null): string {
   const tracks = skyTracks(rs);
+  const refTracks = reference ? skyTracks(reference) : [];
+  const roverSats = new Set(tracks.map((t) => t.satellite));
   const [t0, t1] = finiteRange(rs.timeGpsS);
   const minStepS = (t1 - t0) / SKY_MAX_VERTICES_PER_SATELLITE;
   const parts: string[] = [`<g class="axis">`];
@@ -51,34 +64,40 @@ export function skyChart(rs: ResidualSeries, elevationMaskDeg: number): string {
   }
   parts.push('</g>');
   const systems = new Set<string>();
+  // The reference's tracks first (beneath), thin and light; a satellite the rover never saw gets a label.
+  for (const t of refTracks) {
+    const sys = t.satellite.charAt(0);
+    systems.add(sys);
+    const last = t.rows[t.rows.length - 1];
+    const [lx, ly] = polar(reference!.azimuthDeg[last], reference!.elevationDeg[last]);
+    parts.push(`<g class="sat-reference" data-satellite="${esc(t.satellite)}">` +
+      trackLines(reference!, t.rows, minStepS, `stroke="${systemColour(sys)}" stroke-opacity="0.45" stroke-width="5" stroke-linecap="round"`) +
+      (roverSats.has(t.satellite) ? '' : `<text class="sat-label ref-only" x="${px(lx + 5)}" y="${px(ly - 4)}">${esc(t.satellite)} (reference only)</text>`) + '</g>');
+  }
   for (const t of tracks) {
     const sys = t.satellite.charAt(0);
     systems.add(sys);
-    const xy = t.rows.map((i) => polar(rs.azimuthDeg[i], rs.elevationDeg[i]));
-    const [lx, ly] = xy[xy.length - 1];
-    // A track breaks where the satellite was not seen for a while (set and rose again): more than 10 minutes, or 3 drawn steps.
-    const segments: string[][] = [[]];
-    t.rows.forEach((row, j) => {
-      if (j > 0 && rs.timeGpsS[row] - rs.timeGpsS[t.rows[j - 1]] > Math.max(600, 3 * minStepS)) segments.push([]);
-      segments[segments.length - 1].push(`${px(xy[j][0])},${px(xy[j][1])}`);
-    });
+    const last = t.rows[t.rows.length - 1];
+    const [lx, ly] = polar(rs.azimuthDeg[last], rs.elevationDeg[last]);
     const colour = systemColour(sys);
     parts.push(`<g class="sat" data-satellite="${esc(t.satellite)}" data-used="${t.used}">` +
-      segments.map((sg) => `<polyline fill="none" stroke="${colour}" stroke-width="${t.used ? 2 : 1.2}"${t.used ? '' : ' stroke-dasharray="4 3"'} points="${sg.join(' ')}"/>`).join('') +
+      trackLines(rs, t.rows, minStepS, `stroke="${colour}" stroke-width="${t.used ? 2 : 1.2}"${t.used ? '' : ' stroke-dasharray="4 3"'}`) +
       `<circle cx="${px(lx)}" cy="${px(ly)}" r="3" fill="${colour}"/><text class="sat-label" x="${px(lx + 5)}" y="${px(ly - 4)}">${esc(t.satellite)}</text></g>`);
   }
   const legend = legendHtml([
     ...[...systems].sort().map((s, i) => ({ colour: systemColour(s) ?? CATEGORY_COLOURS[i], label: SYSTEM_NAMES[s] ?? s, shape: 'line' as const })),
-    { colour: '#777', label: 'dashed: never used in a solution', shape: 'line' },
+    { colour: '#777', label: 'rover (dashed: never used in a solution)', shape: 'line' },
+    ...(refTracks.length ? [{ colour: '#bbb', label: 'reference: wide light band', shape: 'box' as const }] : []),
   ]);
   return chartFigure({
-    chart: 'sky', title: `Sky plot: ${tracks.length} satellites`, widthPx: S, heightPx: S, body: parts.join(''),
+    chart: 'sky', title: `Sky plot: ${tracks.length} satellites at the rover${reference ? `, ${refTracks.length} at the reference` : ''}`, widthPx: S, heightPx: S, body: parts.join(''),
     caption: [
-      'Azimuth/elevation at the rover from residuals.csv (the reference, close by, sees the same directions); the dot ends each track.',
+      'Rover: azimuth/elevation from residuals.csv, the dot ends each track.',
+      reference ? 'Reference: directions from the broadcast ephemerides at the reference coordinate for the satellites it observed (sky.csv).' : 'No sky.csv: the reference receiver\'s satellites are not drawn.',
       `Tracks drawn with at most ${SKY_MAX_VERTICES_PER_SATELLITE} vertices per satellite.`,
       Number.isFinite(elevationMaskDeg) ? `Dotted ring: elevation mask ${elevationMaskDeg}°.` : '',
     ].filter(Boolean),
-    data: { satellites: tracks.length },
+    data: { satellites: tracks.length, 'reference-satellites': refTracks.length },
     after: legend,
   });
 }

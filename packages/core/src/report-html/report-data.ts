@@ -34,6 +34,16 @@ export interface ResidualSeries {
   readonly reasons: readonly string[];
 }
 
+/** Satellite directions seen from a receiver (sky.csv: the reference's). */
+export interface SkySeries {
+  readonly timeGpsS: ArrayLike<number>;
+  /** Index into `satellites`. */
+  readonly satellite: ArrayLike<number>;
+  readonly satellites: readonly string[];
+  readonly azimuthDeg: ArrayLike<number>;
+  readonly elevationDeg: ArrayLike<number>;
+}
+
 export interface ReportPoint {
   readonly name: string;
   readonly epochs: number;
@@ -111,6 +121,8 @@ export interface SessionReportData {
   readonly epochsByKind: readonly (readonly [string, number])[];
   readonly epochs: EpochSeries | null;
   readonly residuals: ResidualSeries | null;
+  /** The reference receiver's satellites (sky.csv); null when the folder has none. */
+  readonly referenceSky?: SkySeries | null;
   readonly points: readonly ReportPoint[];
   readonly check: ReportControlCheck | null;
   readonly inputs: readonly ReportInput[];

@@ -63,7 +63,7 @@ export function buildSessionReportHtml(d: SessionReportData): string {
   s.push(d.epochs && d.epochs.timeGpsS.length ? timeSeriesChart(d.epochs) : chartMissing('time-series', 'Time series', 'No epochs.csv in this output.'));
   s.push('<h2>Satellites</h2>');
   const mask = Number(d.options.find(([k]) => /elevation.mask/.test(k))?.[1]);
-  s.push(d.residuals && d.residuals.timeGpsS.length ? skyChart(d.residuals, mask) : chartMissing('sky', 'Sky plot', 'No residuals.csv in this output: no satellite directions.'));
+  s.push(d.residuals && d.residuals.timeGpsS.length ? skyChart(d.residuals, mask, d.referenceSky ?? null) : chartMissing('sky', 'Sky plot', 'No residuals.csv in this output: no satellite directions.'));
   s.push(d.residuals && d.residuals.timeGpsS.length ? residualChart(d.residuals) : chartMissing('residuals', 'Residuals against elevation', 'No residuals.csv in this output.'));
 
   s.push('<h2>Inputs</h2>' + (d.inputs.length ? inputsTable(d.inputs) : '<p class="missing">No summary.json: inputs unknown.</p>'));
