@@ -148,6 +148,16 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
     await screenshot(page, 'report-demo.png');
   });
 
+  it('prints to PDF from the browser (print stylesheet): a PDF of several A4 pages, saved beside the screenshots', async () => {
+    const pdf = await page.page.pdf({ format: 'A4', printBackground: true });
+    expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-'); // ISO 32000-1, 7.5.2 file header
+    const pages = (pdf.toString('latin1').match(/\/Type\s*\/Page[^s]/g) ?? []).length;
+    expect(pages).toBeGreaterThan(2);
+    mkdirSync(ARTIFACTS, { recursive: true });
+    writeFileSync(join(ARTIFACTS, 'report-demo.pdf'), pdf);
+    expect(page.errors).toEqual([]);
+  });
+
   it('batch --outputs ...,report: an index page with the failed session first, linking each session\'s report', async () => {
     const dir = tempDir('rd-report-batch-in-');
     copyFileSync(DEMO('rover-1s.obs'), join(dir, 'walk-a.obs'));

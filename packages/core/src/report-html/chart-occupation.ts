@@ -6,7 +6,7 @@ import { circularErrorRadiusM } from '../accuracy/index.js';
 import { chartFigure } from './chart-frame.js';
 import { decimatedIndices, decimationNote, decimationStride } from './decimate.js';
 import { OKABE_ITO } from './palette.js';
-import type { EpochSeries, ReportPoint } from './report-data.js';
+import type { EpochSeries, ReportCheckPair, ReportPoint } from './report-data.js';
 import { esc, linearScale, niceTicks, px, tickDecimals } from './svg-kit.js';
 
 export const OCCUPATION_MAX_EPOCHS = 800;
@@ -35,7 +35,8 @@ export function scatterRadius95M(p: ReportPoint): number {
   return Number.isFinite(p.sdEastM) && Number.isFinite(p.sdNorthM) ? circularErrorRadiusM(0.95, p.sdEastM, p.sdNorthM) : NaN;
 }
 
-export function occupationChart(ep: EpochSeries, p: ReportPoint): string {
+/** `mark`: the control check of this point, drawn as the published mark's position relative to the point's mean. */
+export function occupationChart(ep: EpochSeries, p: ReportPoint, mark: ReportCheckPair | null = null): string {
   const all = occupationEpochs(ep, p);
   const stride = decimationStride(all.length, OCCUPATION_MAX_EPOCHS);
   const idx = decimatedIndices(all.length, stride).map((j) => all[j]);
@@ -47,6 +48,9 @@ export function occupationChart(ep: EpochSeries, p: ReportPoint): string {
   const r95 = scatterRadius95M(p);
   let half = Number.isFinite(r95) ? r95 * 1.25 : 0.1;
   for (const i of idx) half = Math.max(half, Math.abs(ep.eastM[i] - ce) * 1.05, Math.abs(ep.northM[i] - cn) * 1.05);
+  // The check's differences are point minus mark: the mark is at minus them from the point.
+  const me = mark ? -mark.dEastM : NaN, mn = mark ? -mark.dNorthM : NaN;
+  if (Number.isFinite(me) && Number.isFinite(mn)) half = Math.max(half, Math.abs(me) * 1.15, Math.abs(mn) * 1.15);
   half = Math.max(half, 0.01);
   const x = linearScale(-half, half, M, S - 10), y = linearScale(-half, half, S - M + 10, 10);
   const k = (S - 10 - M) / (2 * half);
@@ -59,11 +63,15 @@ export function occupationChart(ep: EpochSeries, p: ReportPoint): string {
     `<text class="axis-label" x="${px((M + S) / 2)}" y="${S - 4}" text-anchor="middle">East (m)</text><text class="axis-label" transform="translate(12 ${px(S / 2)}) rotate(-90)" text-anchor="middle">North (m)</text></g>` +
     `<g class="epoch-dots" fill="${OKABE_ITO.blue}" fill-opacity="0.55">${dots}</g>` +
     (Number.isFinite(r95) ? `<circle class="radius95" cx="${px(x(0))}" cy="${px(y(0))}" r="${px(r95 * k)}" fill="none" stroke="${OKABE_ITO.vermillion}" stroke-width="1.8"/>` : '') +
-    `<path d="M${px(x(0) - 6)} ${px(y(0))}h12M${px(x(0))} ${px(y(0) - 6)}v12" stroke="#000" stroke-width="1.5"/>`;
+    `<path d="M${px(x(0) - 6)} ${px(y(0))}h12M${px(x(0))} ${px(y(0) - 6)}v12" stroke="#000" stroke-width="1.5"/>` +
+    (mark && Number.isFinite(me) && Number.isFinite(mn)
+      ? `<path class="mark-control" d="M${px(x(me))} ${px(y(mn) - 7)}l6 11h-12z" fill="none" stroke="${mark.pass ? '#000' : OKABE_ITO.vermillion}" stroke-width="2"/>`
+      : '');
   return chartFigure({
     chart: 'occupation', className: 'small', title: `${p.name}: ${all.length.toLocaleString('en-US')} epochs about the mean`, widthPx: S, heightPx: S, body,
     caption: [
       Number.isFinite(r95) ? `Red circle: 95 % radius ${r95.toFixed(3)} m of the per-epoch scatter (sd east ${p.sdEastM.toFixed(3)} m, north ${p.sdNorthM.toFixed(3)} m).` : 'No scatter figures for this point.',
+      ...(mark ? [`Triangle: published mark ${mark.mark}, ${mark.horizontalM.toFixed(3)} m horizontally from the point (${mark.pass ? 'pass' : 'FAIL'}).`] : []),
       `${decimationNote(idx.length, all.length, stride, 'epochs')}.`,
     ],
     data: { point: p.name, epochs: all.length, 'epochs-drawn': idx.length },

@@ -12,7 +12,8 @@ export const PLAN_MAX_EPOCHS = 1500;
 /** sqrt of the chi-square 95 % quantile with 2 degrees of freedom: 2.4477 (a bivariate normal's 95 % ellipse, any statistics text). */
 export const ELLIPSE_95_SCALE = Math.sqrt(-2 * Math.log(0.05));
 
-const W = 620, H = 520, M = 54;
+// A square panel (equal scale on both axes) with the scale bar above it.
+const M = 54, TOP = 30, SIDE = 520, W = M + SIDE + 12, H = TOP + SIDE + 46;
 
 export function planChart(ep: EpochSeries | null, points: readonly ReportPoint[], check: ReportControlCheck | null): string {
   const n = ep?.timeGpsS.length ?? 0;
@@ -34,15 +35,15 @@ export function planChart(ep: EpochSeries | null, points: readonly ReportPoint[]
   if (!(e1 >= e0)) { e0 = -1; e1 = 1; n0 = -1; n1 = 1; }
   const span = Math.max(e1 - e0, n1 - n0, 2) * 1.1;
   const ce = (e0 + e1) / 2, cn = (n0 + n1) / 2;
-  const x = linearScale(ce - span / 2, ce + span / 2, M, W - 12);
-  const y = linearScale(cn - span / 2, cn + span / 2, H - M + 12, 12);
-  const kx = (W - 12 - M) / span; // px per metre
+  const x = linearScale(ce - span / 2, ce + span / 2, M, M + SIDE);
+  const y = linearScale(cn - span / 2, cn + span / 2, TOP + SIDE, TOP);
+  const kx = SIDE / span; // px per metre, both axes
   const parts: string[] = [];
   const ticksE = niceTicks(ce - span / 2, ce + span / 2, 5), ticksN = niceTicks(cn - span / 2, cn + span / 2, 5);
   const dec = tickDecimals(ticksE);
-  parts.push(`<rect class="panel" x="${M}" y="12" width="${W - 12 - M}" height="${H - M}"/>`);
-  parts.push(`<g class="axis">${ticksE.map((t) => `<line class="grid" x1="${px(x(t))}" x2="${px(x(t))}" y1="12" y2="${H - M + 12}"/><text x="${px(x(t))}" y="${H - M + 28}" text-anchor="middle">${t.toFixed(dec)}</text>`).join('')}` +
-    `${ticksN.map((t) => `<line class="grid" y1="${px(y(t))}" y2="${px(y(t))}" x1="${M}" x2="${W - 12}"/><text x="${M - 4}" y="${px(y(t) + 4)}" text-anchor="end">${t.toFixed(dec)}</text>`).join('')}` +
+  parts.push(`<rect class="panel" x="${M}" y="${TOP}" width="${SIDE}" height="${SIDE}"/>`);
+  parts.push(`<g class="axis">${ticksE.map((t) => `<line class="grid" x1="${px(x(t))}" x2="${px(x(t))}" y1="${TOP}" y2="${TOP + SIDE}"/><text x="${px(x(t))}" y="${TOP + SIDE + 16}" text-anchor="middle">${t.toFixed(dec)}</text>`).join('')}` +
+    `${ticksN.map((t) => `<line class="grid" y1="${px(y(t))}" y2="${px(y(t))}" x1="${M}" x2="${M + SIDE}"/><text x="${M - 4}" y="${px(y(t) + 4)}" text-anchor="end">${t.toFixed(dec)}</text>`).join('')}` +
     `<text class="axis-label" x="${px((M + W) / 2)}" y="${H - 6}" text-anchor="middle">East of the reference (m)</text>` +
     `<text class="axis-label" transform="translate(14 ${px(H / 2)}) rotate(-90)" text-anchor="middle">North of the reference (m)</text></g>`);
   if (idx.length) {
@@ -64,7 +65,7 @@ export function planChart(ep: EpochSeries | null, points: readonly ReportPoint[]
   }
   // Scale bar: a round length near a fifth of the width.
   const bar = roundDown125(span / 5);
-  parts.push(`<g class="scale-bar"><line x1="${W - 24 - bar * kx}" x2="${W - 24}" y1="${H - M}" y2="${H - M}" stroke="#000" stroke-width="2"/><text x="${px(W - 24 - (bar * kx) / 2)}" y="${H - M - 5}" text-anchor="middle">${bar} m</text></g>`);
+  parts.push(`<g class="scale-bar"><line x1="${px(M + SIDE - bar * kx)}" x2="${M + SIDE}" y1="${TOP - 8}" y2="${TOP - 8}" stroke="#000" stroke-width="2"/><text x="${px(M + SIDE - bar * kx - 6)}" y="${TOP - 4}" text-anchor="end">${bar} m</text></g>`);
   const legend = legendHtml([
     ...(idx.length ? [{ colour: OKABE_ITO.skyBlue, label: 'track (epoch positions)', shape: 'line' as const }] : []),
     { colour: OKABE_ITO.blue, label: 'point within tolerance', shape: 'dot' },
@@ -76,8 +77,8 @@ export function planChart(ep: EpochSeries | null, points: readonly ReportPoint[]
     chart: 'plan', title: 'Track, points and control marks', widthPx: W, heightPx: H, body: parts.join(''),
     caption: [
       'Local east/north at the reference coordinate, equal scale on both axes.',
-      'Ellipses: 95 % (2.4477 sigma) from sigma_mean east/north, axes along east and north (points.csv gives no east-north correlation).',
-      ep ? `Track: ${decimationNote(idx.length, n, stride, 'epochs')}.` : 'No epochs.csv: no track.',
+      'Ellipses: 95 % (2.4477 sigma) from sigma_mean east/north, axes along east and north (points.csv gives no east-north correlation); at this scale they may be too small to see: the occupation charts below show each point\'s scatter.',
+      ep ? `Track of the epoch positions. ${decimationNote(idx.length, n, stride, 'epochs')}.` : 'No epochs.csv: no track.',
     ],
     data: { points: pts.length, marks: marks.length, 'track-vertices': idx.length, stride },
     after: legend,

@@ -24,6 +24,6 @@ export function ordinal(k: number): string {
 /** A sentence for the chart: what was drawn of how many. */
 export function decimationNote(drawn: number, total: number, stride: number, what: string): string {
   return stride === 1
-    ? `all ${total.toLocaleString('en-US')} ${what} drawn`
-    : `drawn: every ${ordinal(stride)} of ${total.toLocaleString('en-US')} ${what} (${drawn.toLocaleString('en-US')} marks); statistics and tables use all of them`;
+    ? `All ${total.toLocaleString('en-US')} ${what} drawn`
+    : `Drawn: every ${ordinal(stride)} of ${total.toLocaleString('en-US')} ${what} (${drawn.toLocaleString('en-US')} marks); statistics and tables use all of them`;
 }
