@@ -43,6 +43,10 @@ footer{margin-top:30px;color:var(--muted);font-size:12.5px;border-top:1px solid 
   body{max-width:none;padding:0;font-size:10.5pt}
   h2{break-after:avoid;page-break-after:avoid}
   table,tr{break-inside:avoid;page-break-inside:avoid}
+  table{font-size:8.5pt}
+  th,td{padding:2px 4px}
+  td.hash{font-size:7pt}
+  .facts{font-size:10pt}
   .chart svg{max-height:190mm}
   *{-webkit-print-color-adjust:exact;print-color-adjust:exact}
   a{color:inherit;text-decoration:none}
