@@ -5,7 +5,7 @@
  */
 import { ecefToGeodetic, azimuthElevation } from '../geodesy/index.js';
 import { satelliteState, type EphemerisStore } from '../orbit/index.js';
-import type { EcefM, SatId } from '../types.js';
+import type { EcefM, SatId } from '../gnss/index.js';
 
 export interface SatelliteDirection {
   readonly satellite: SatId;
