@@ -236,6 +236,21 @@ function readCheck(doc: J): ReportControlCheck {
   };
 }
 
+/** Summary lines from summary.json: systems, the scatter of the epoch positions, rejected epochs. */
+function summaryFacts(s: J): [string, string][] {
+  const out: [string, string][] = [];
+  const systems = asArr(s.systems_used).map(text);
+  if (systems.length) out.push(['Systems used', systems.join(', ')]);
+  const st = asObj(s.statistics);
+  const m = (k: string) => (typeof st[k] === 'number' ? `${(st[k] as number).toFixed(3)} m` : '?');
+  if (typeof st.horizontal_median_m === 'number') {
+    out.push(['Scatter of the positions', `horizontal median ${m('horizontal_median_m')}, 95 % ${m('horizontal_95_m')}; vertical median ${m('vertical_median_m')}, 95 % ${m('vertical_95_m')} (${text(st.over ?? 'epochs')}, about their mean: precision, not accuracy)`]);
+  }
+  const rej = asArr(s.rejected_epochs).map((r0) => asObj(r0)).filter((r) => typeof r.count === 'number');
+  if (rej.length) out.push(['Epochs without a solution', rej.map((r) => `${text(r.count)} ${text(r.reason)}`).join('; ')]);
+  return out;
+}
+
 function referencePositionText(p: J): string {
   return typeof p.x_m === 'number' ? `ECEF ${[p.x_m, p.y_m, p.z_m].map((v) => Number(v).toFixed(4)).join(', ')} m` : '';
 }
@@ -275,6 +290,7 @@ export async function readSessionReportData(src: ReportSources, title: string): 
     referenceText: [text(ref.source ?? ref.note), referencePositionText(asObj(ref.position))].filter(Boolean).join('; '),
     firstUtc: text(span.first_utc), lastUtc: text(span.last_utc),
     epochsByKind: Object.entries(asObj(counts.by_kind)).filter(([, v]) => typeof v === 'number' && v > 0).map(([k, v]) => [k, v as number] as const),
+    facts: summaryFacts(s),
     epochs, residuals, points,
     referenceSky: src.sky ? await readSky(src.sky) : null,
     check: checkDoc ? readCheck(checkDoc) : null,

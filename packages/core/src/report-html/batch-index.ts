@@ -14,7 +14,7 @@ export function buildBatchIndexHtml(d: BatchIndexData): string {
   const failed = sessions.filter((s) => s.status !== 'ok').length;
   const rows = sessions.map((s) => [
     s.reportHref ? `<a href="${esc(s.reportHref)}">${esc(s.session)}</a>` : esc(s.session),
-    badge(s.status), String(s.epochs), s.epochs ? `${((100 * s.solvedEpochs) / s.epochs).toFixed(1)} %` : '', String(s.points), esc(s.reason),
+    badge(s.status), s.epochs > 0 ? String(s.epochs) : '', s.epochs > 0 ? `${((100 * s.solvedEpochs) / s.epochs).toFixed(1)}&nbsp;%` : '', String(s.points), esc(s.reason),
   ]);
   const body = `<header><h1>Batch report: ${esc(d.title)}</h1><p class="sub">${esc(d.software)}, made ${esc(d.createdUtc)}</p></header>` +
     cautionsHtml(d.cautions) +

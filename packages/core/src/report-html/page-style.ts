@@ -17,6 +17,7 @@ table{border-collapse:collapse;margin:6px 0 10px;font-size:13.5px;font-variant-n
 th,td{border-bottom:1px solid var(--rule);padding:3px 8px;text-align:right;vertical-align:top}
 th{border-bottom:2px solid var(--ink);text-align:right}
 th:first-child,td:first-child,td.t,th.t{text-align:left}
+td:not(.t):not(.hash){white-space:nowrap}
 td.hash{font-family:"DejaVu Sans Mono",Consolas,monospace;font-size:11.5px;word-break:break-all;text-align:left}
 td.path{word-break:break-all;text-align:left}
 .badge{display:inline-block;white-space:nowrap;padding:0 7px;border-radius:3px;font-weight:bold;color:#fff}

@@ -119,6 +119,8 @@ export interface SessionReportData {
   readonly lastUtc: string;
   /** Epoch counts by solution kind (all epochs, before any decimation). */
   readonly epochsByKind: readonly (readonly [string, number])[];
+  /** More summary lines (scatter of the positions, systems used, rejected epochs...), label and value. */
+  readonly facts?: readonly (readonly [string, string])[];
   readonly epochs: EpochSeries | null;
   readonly residuals: ResidualSeries | null;
   /** The reference receiver's satellites (sky.csv); null when the folder has none. */

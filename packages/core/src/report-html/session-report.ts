@@ -46,6 +46,7 @@ export function buildSessionReportHtml(d: SessionReportData): string {
     ['Reference coordinate', d.referenceText || 'not stated'],
     ['Points', d.points.length ? `${d.points.length}, ${failed ? `${failed} exceeding their tolerance` : 'all within tolerance'}` : 'none in this output'],
     ['Control check', d.check ? `${d.check.pairs.length} mark(s) compared, ${checkFailed ? `${checkFailed} FAILED` : 'all pass'}` : 'none in this output'],
+    ...(d.facts ?? []),
     ['Warnings', `${d.warningsTotal}`],
   ]));
   if (d.missing.length) s.push(`<ul class="plain missing">${d.missing.map((m) => `<li>${esc(m)}</li>`).join('')}</ul>`);
