@@ -148,6 +148,22 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
     await screenshot(page, 'report-demo.png');
   });
 
+  it('refdelta report on the check folder alone: the points (found through control-check.json) and their marks in the plan view', async () => {
+    const dir = join(out, 'check');
+    expect(runCli(['report', dir]).status).toBe(0);
+    const o = await openFile(join(dir, 'report.html'));
+    try {
+      expect(o.errors).toEqual([]);
+      onlyTheFile(o, join(dir, 'report.html'));
+      const got = await marksInPage(o);
+      expect(got.points.length).toBe(4); // fixtures/demo/README: MILLSTONE, FERRYPOST, ELMCORNER, WELLHEAD
+      expect(got.controls).toBe(3);
+      expect(got.track).toBe(0);
+    } finally {
+      await o.close();
+    }
+  });
+
   it('prints to PDF from the browser (print stylesheet): a PDF of several A4 pages, saved beside the screenshots', async () => {
     const pdf = await page.page.pdf({ format: 'A4', printBackground: true });
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-'); // ISO 32000-1, 7.5.2 file header

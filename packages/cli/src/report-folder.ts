@@ -175,7 +175,7 @@ async function readSky(path: string): Promise<SkySeries> {
   return { ...s, satellites: [...satIndex.keys()] };
 }
 
-async function readPoints(path: string, o: EcefM | null): Promise<ReportPoint[]> {
+async function readPoints(path: string, origin0: EcefM | null): Promise<{ points: ReportPoint[]; note: string | null }> {
   const t = await readCsvTable(path);
   const c = (...names: string[]) => col(t, ...names);
   const k = {
@@ -185,9 +185,12 @@ async function readPoints(path: string, o: EcefM | null): Promise<ReportPoint[]>
     sdE: c('sd_east_m'), sdN: c('sd_north_m'), sdU: c('sd_up_m'), smE: c('sigma_mean_east_m'), smN: c('sigma_mean_north_m'), smU: c('sigma_mean_up_m'),
     tol: c('tolerance', 'status'), kinds: c('solution_kinds', 'solutions'),
   };
-  return t.lines.map((line) => {
+  let o = origin0;
+  let note: string | null = null;
+  const points = t.lines.map((line) => {
     const r = cells(line);
     const p = { x: numAt(r, k.x), y: numAt(r, k.y), z: numAt(r, k.z) };
+    if (!o && Number.isFinite(p.x)) { o = p; note = `No reference coordinate in this folder: east/north are drawn about the first point (${strAt(r, k.name)}).`; }
     const enu = o && Number.isFinite(p.x) ? ecefToEnu(p, o) : { e: NaN, n: NaN, u: NaN };
     return {
       name: strAt(r, k.name), epochs: numAt(r, k.epochs), durationS: numAt(r, k.dur), startUtc: strAt(r, k.start),
@@ -200,6 +203,7 @@ async function readPoints(path: string, o: EcefM | null): Promise<ReportPoint[]>
       tolerance: strAt(r, k.tol), solutionKinds: strAt(r, k.kinds),
     };
   });
+  return { points, note };
 }
 
 async function readJson(path: string): Promise<Record<string, unknown>> {
@@ -273,7 +277,9 @@ export async function readSessionReportData(src: ReportSources, title: string): 
   if (!residuals) missing.push('No residuals.csv: no sky plot or residual chart.');
   let pointsPath = src.points;
   if (!pointsPath && checkDoc && typeof checkDoc.points_file === 'string' && existsSync(checkDoc.points_file)) pointsPath = checkDoc.points_file;
-  const points = pointsPath ? await readPoints(pointsPath, o) : [];
+  const pr = pointsPath ? await readPoints(pointsPath, o) : { points: [], note: null };
+  const points = pr.points;
+  if (pr.note) missing.push(pr.note);
   const s = asObj(summary);
   const frame = asObj(s.frame), opts = asObj(s.options), ref = asObj(s.reference), span = asObj(s.time_span), counts = asObj(s.counts), sw = asObj(s.software), warn = asObj(s.warnings);
   const inputs: ReportInput[] = asArr(s.inputs).map((i0) => {
