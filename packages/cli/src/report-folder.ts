@@ -3,7 +3,8 @@
  * by name (with a few alternative names), leading '#' lines are skipped whether or not there are any,
  * and a missing file or column only removes the chart that needed it (said on the page).
  */
-import { existsSync } from 'node:fs';
+import { createReadStream, existsSync } from 'node:fs';
+import { createInterface } from 'node:readline';
 import { readFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import {
@@ -51,6 +52,26 @@ async function readCsvTable(path: string): Promise<CsvTable> {
   return { path, header, lines: data, firstLineNo: h + 2 };
 }
 
+/**
+ * The header and the data lines of a CSV, streamed (a day of residuals is tens of MB): the header is
+ * the first line that is neither blank nor starts with '#'.
+ */
+async function streamCsvTable(path: string): Promise<{ table: CsvTable; rows: AsyncIterable<string> }> {
+  const rl = createInterface({ input: createReadStream(path), crlfDelay: Infinity });
+  const it = rl[Symbol.asyncIterator]();
+  let header: string[] | null = null;
+  let lineNo = 0;
+  for (let r = await it.next(); !r.done; r = await it.next()) {
+    lineNo++;
+    if (r.value.trim() === '' || r.value.startsWith('#')) continue;
+    header = splitCsvLine(r.value).map((c) => c.trim().toLowerCase());
+    break;
+  }
+  if (!header) { rl.close(); throw new InputError(path, 0, `${path} has no header line (expected a CSV with a line of column names)`); }
+  const rows = { [Symbol.asyncIterator]: () => it };
+  return { table: { path, header, lines: [], firstLineNo: lineNo + 1 }, rows };
+}
+
 /** Index of the first of `names` present in the header, -1 when none is. */
 function col(t: CsvTable, ...names: string[]): number {
   for (const n of names) {
@@ -92,18 +113,19 @@ function origin(summary: Record<string, unknown> | null): EcefM | null {
 }
 
 async function readEpochs(path: string, ref: EcefM | null): Promise<{ series: EpochSeries; origin: EcefM | null; note: string | null }> {
-  const t = await readCsvTable(path);
+  const { table: t, rows } = await streamCsvTable(path);
   const time = timeReader(t);
   const [x, y, z] = [col(t, 'ecef_x_m', 'x_m'), col(t, 'ecef_y_m', 'y_m'), col(t, 'ecef_z_m', 'z_m')];
   const [be, bn, bu] = [col(t, 'baseline_east_m', 'east_m'), col(t, 'baseline_north_m', 'north_m'), col(t, 'baseline_up_m', 'up_m')];
   const kindCol = col(t, 'solution', 'solution_kind', 'kind'), pointCol = col(t, 'point', 'point_name', 'occupation');
   const satCol = col(t, 'satellites_used', 'satellites', 'sats_used', 'num_satellites'), pdopCol = col(t, 'pdop');
-  const n = t.lines.length;
-  const s = { timeGpsS: new Float64Array(n), eastM: new Float64Array(n), northM: new Float64Array(n), upM: new Float64Array(n), satellitesUsed: new Float64Array(n), pdop: new Float64Array(n), kind: new Array<string>(n), point: new Array<string>(n) };
+  const s = { timeGpsS: [] as number[], eastM: [] as number[], northM: [] as number[], upM: [] as number[], satellitesUsed: [] as number[], pdop: [] as number[], kind: [] as string[], point: [] as string[] };
   let o = ref;
   let note: string | null = null;
-  for (let i = 0; i < n; i++) {
-    const c = cells(t.lines[i]);
+  let i = 0;
+  for await (const line of rows) {
+    if (line.trim() === '') continue;
+    const c = cells(line);
     s.timeGpsS[i] = time(c);
     s.kind[i] = strAt(c, kindCol) || (kindCol < 0 ? 'unknown' : 'none');
     s.point[i] = strAt(c, pointCol);
@@ -118,6 +140,7 @@ async function readEpochs(path: string, ref: EcefM | null): Promise<{ series: Ep
       s.eastM[i] = numAt(c, be); s.northM[i] = numAt(c, bn); s.upM[i] = numAt(c, bu);
     }
     if (!Number.isFinite(s.timeGpsS[i])) s.timeGpsS[i] = i;
+    i++;
   }
   return { series: s, origin: o, note };
 }
@@ -128,15 +151,16 @@ export function reasonCategory(reason: string): string {
 }
 
 async function readResiduals(path: string): Promise<ResidualSeries> {
-  const t = await readCsvTable(path);
+  const { table: t, rows } = await streamCsvTable(path);
   const time = timeReader(t);
   const satCol = col(t, 'satellite', 'sat', 'prn'), elCol = col(t, 'elevation_deg', 'elevation'), azCol = col(t, 'azimuth_deg', 'azimuth');
   const resCol = col(t, 'residual_m', 'residual'), statusCol = col(t, 'status'), reasonCol = col(t, 'reason');
-  const n = t.lines.length;
   const satIndex = new Map<string, number>(), reasonIndex = new Map<string, number>();
-  const s = { timeGpsS: new Float64Array(n), satellite: new Uint16Array(n), elevationDeg: new Float32Array(n), azimuthDeg: new Float32Array(n), residualM: new Float32Array(n), rejection: new Uint16Array(n) };
-  for (let i = 0; i < n; i++) {
-    const c = cells(t.lines[i]);
+  const s = { timeGpsS: [] as number[], satellite: [] as number[], elevationDeg: [] as number[], azimuthDeg: [] as number[], residualM: [] as number[], rejection: [] as number[] };
+  let i = 0;
+  for await (const line of rows) {
+    if (line.trim() === '') continue;
+    const c = cells(line);
     s.timeGpsS[i] = time(c);
     const sat = strAt(c, satCol) || '?';
     let k = satIndex.get(sat);
@@ -153,8 +177,13 @@ async function readResiduals(path: string): Promise<ResidualSeries> {
       if (j === undefined) { j = reasonIndex.size; reasonIndex.set(r, j); }
       s.rejection[i] = j + 1;
     }
+    i++;
   }
-  return { ...s, satellites: [...satIndex.keys()], reasons: [...reasonIndex.keys()] };
+  return {
+    timeGpsS: Float64Array.from(s.timeGpsS), satellite: Uint16Array.from(s.satellite), elevationDeg: Float32Array.from(s.elevationDeg),
+    azimuthDeg: Float32Array.from(s.azimuthDeg), residualM: Float32Array.from(s.residualM), rejection: Uint16Array.from(s.rejection),
+    satellites: [...satIndex.keys()], reasons: [...reasonIndex.keys()],
+  };
 }
 
 /** Rows of sky.csv other than the rover's (the rover's directions are in residuals.csv). */
