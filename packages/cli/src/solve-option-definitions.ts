@@ -20,7 +20,7 @@ export function defineSolveOptions<T>(c: Argv<T>): Argv<T> {
 
 /** Everything but the input files and --out: outputs, reference coordinate, antennas, processing. */
 export function defineProcessingOptions<T>(c: Argv<T>): Argv<T> {
-  return c.option('outputs', { type: 'string', default: 'epochs,residuals,geojson,summary', describe: 'which outputs to write (epochs, residuals, geojson, summary, report)', group: 'Files:' })
+  return c.option('outputs', { type: 'string', default: 'epochs,residuals,geojson,summary', describe: 'which outputs to write (epochs, residuals, geojson, summary, report; report writes epochs and residuals too)', group: 'Files:' })
     .option('ref-xyz', { type: 'string', describe: 'reference mark ECEF X,Y,Z (m)', group: 'Reference coordinate:' })
     .option('ref-llh', { type: 'string', describe: 'reference mark LAT,LON (deg), H (m, ellipsoidal)', group: 'Reference coordinate:' })
     .option('ref-from-header', { type: 'boolean', describe: "use the reference file's APPROX POSITION XYZ (approximate; warns)", group: 'Reference coordinate:' })

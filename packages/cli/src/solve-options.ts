@@ -123,8 +123,11 @@ export function parseSessionOptions(a: SolveOptionArgs): Omit<SessionOptions, 'r
 }
 
 export function parseOutputs(v: unknown): OutputKind[] {
-  // report.html is asked for by name; the default set is the data files.
-  return v === undefined ? OUTPUT_KINDS.filter((k) => k !== 'report') : parseChoiceList('outputs', v, OUTPUT_KINDS);
+  // report.html is asked for by name; the default set is the data files. The report draws from
+  // epochs.csv and residuals.csv, so asking for it writes them too.
+  if (v === undefined) return OUTPUT_KINDS.filter((k) => k !== 'report');
+  const kinds = parseChoiceList('outputs', v, OUTPUT_KINDS);
+  return kinds.includes('report') ? OUTPUT_KINDS.filter((k) => kinds.includes(k) || k === 'epochs' || k === 'residuals') : kinds;
 }
 
 /** An on|off option; the default when not given. */
