@@ -212,7 +212,7 @@ async function readPoints(path: string, origin0: EcefM | null): Promise<{ points
     sw: c('start_gps_week'), stow: c('start_gps_tow_s'), ew: c('end_gps_week'), etow: c('end_gps_tow_s'), end: c('end_utc', 'end'), lat: c('latitude_deg'), lon: c('longitude_deg'), h: c('height_m'),
     easting: c('easting_m'), northing: c('northing_m'), ortho: c('orthometric_height_m'), x: c('ecef_x_m'), y: c('ecef_y_m'), z: c('ecef_z_m'),
     sdE: c('sd_east_m'), sdN: c('sd_north_m'), sdU: c('sd_up_m'), smE: c('sigma_mean_east_m'), smN: c('sigma_mean_north_m'), smU: c('sigma_mean_up_m'),
-    tol: c('tolerance', 'status'), kinds: c('solution_kinds', 'solutions'),
+    tol: c('tolerance', 'status'), kinds: c('solution_kinds', 'solutions'), r95rel: c('radius95_relative_m'), r95: c('radius95_m'),
   };
   let o = origin0;
   let note: string | null = null;
@@ -229,7 +229,7 @@ async function readPoints(path: string, origin0: EcefM | null): Promise<{ points
       eastingM: numAt(r, k.easting), northingM: numAt(r, k.northing), orthometricHeightM: numAt(r, k.ortho),
       sdEastM: numAt(r, k.sdE), sdNorthM: numAt(r, k.sdN), sdUpM: numAt(r, k.sdU),
       sigmaMeanEastM: numAt(r, k.smE), sigmaMeanNorthM: numAt(r, k.smN), sigmaMeanUpM: numAt(r, k.smU),
-      tolerance: strAt(r, k.tol), solutionKinds: strAt(r, k.kinds),
+      tolerance: strAt(r, k.tol), solutionKinds: strAt(r, k.kinds), radius95RelativeM: numAt(r, k.r95rel), radius95M: numAt(r, k.r95),
     };
   });
   return { points, note };

@@ -70,6 +70,9 @@ export interface ReportPoint {
   readonly sigmaMeanEastM: number;
   readonly sigmaMeanNorthM: number;
   readonly sigmaMeanUpM: number;
+  /** Stated 95 % horizontal radius of the point relative to the reference, and in the frame (with the reference's own uncertainty); NaN when not given. */
+  readonly radius95RelativeM?: number;
+  readonly radius95M?: number;
   /** 'ok' or the reason the point exceeds its tolerance. */
   readonly tolerance: string;
   readonly solutionKinds: string;

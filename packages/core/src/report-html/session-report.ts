@@ -55,7 +55,7 @@ export function buildSessionReportHtml(d: SessionReportData): string {
   s.push(d.epochs || d.points.length ? planChart(d.epochs, d.points, d.check) : chartMissing('plan', 'Plan view', 'No epochs and no points in this output.'));
   if (d.points.length) {
     s.push('<h2>Points</h2>' + pointsTable(d.points));
-    s.push('<p class="chart-note">sd: per-epoch scatter (1 sigma); sigma of mean: precision of the averaged coordinate, with time-correlated epochs not counted as independent; 95 % radius: circle holding 95 % of the per-epoch scatter. Precision is not accuracy: compare with control.</p>');
+    s.push('<p class="chart-note">sd: per-epoch scatter (1 sigma); sigma of mean: precision of the averaged coordinate, with time-correlated epochs not counted as independent; 95 % radius of the epochs: circle holding 95 % of the per-epoch scatter; the point\'s own 95 % radius (when points.csv states it) comes from the sigma of the mean, relative to the reference and, with the reference coordinate\'s own uncertainty, in the frame. Precision is not accuracy: compare with control.</p>');
     if (d.epochs) s.push(`<h3>Occupations: epochs about each point's mean</h3><div class="smalls">${d.points.map((p) => occupationChart(d.epochs!, p, d.check?.pairs.find((c) => c.point === p.name) ?? null)).join('')}</div>`);
   }
   if (d.check) s.push('<h2>Control check</h2>' + checkTables(d.check));

@@ -23,11 +23,13 @@ export function pointsTable(points: readonly ReportPoint[]): string {
       esc(p.name), String(p.epochs), num(p.durationS, 0), num(p.latitudeDeg, 8), num(p.longitudeDeg, 8), num(p.heightM, 3),
       ...(grid ? [num(p.eastingM, 3), num(p.northingM, 3)] : []), ...(ortho ? [num(p.orthometricHeightM, 3)] : []),
     ]));
+  const stated = points.some((p) => Number.isFinite(p.radius95RelativeM ?? NaN) || Number.isFinite(p.radius95M ?? NaN));
   const precision = table(
-    ['point', 'sd east (m)', 'sd north (m)', 'sd up (m)', 'sigma mean east (m)', 'sigma mean north (m)', 'sigma mean up (m)', '95 % radius (m)', 'tolerance'],
+    ['point', 'sd east (m)', 'sd north (m)', 'sd up (m)', 'sigma mean east (m)', 'sigma mean north (m)', 'sigma mean up (m)', '95 % radius of the epochs (m)',
+      ...(stated ? ['95 % radius of the point, relative to the reference (m)', '95 % radius in the frame (m)'] : []), 'tolerance'],
     points.map((p) => [
       esc(p.name), num(p.sdEastM, 3), num(p.sdNorthM, 3), num(p.sdUpM, 3), num(p.sigmaMeanEastM, 3), num(p.sigmaMeanNorthM, 3), num(p.sigmaMeanUpM, 3),
-      num(scatterRadius95M(p), 3), badge(p.tolerance || 'unknown'),
+      num(scatterRadius95M(p), 3), ...(stated ? [num(p.radius95RelativeM ?? NaN, 3), num(p.radius95M ?? NaN, 3)] : []), badge(p.tolerance || 'unknown'),
     ]));
   return coords + precision;
 }
