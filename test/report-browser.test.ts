@@ -199,6 +199,11 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
     } finally {
       await o.close();
     }
+    // refdelta report on the batch folder afterwards: the same index, each session's page rebuilt.
+    const again = runCli(['report', bout, '--json-lines']);
+    expect(again.status, again.stderr).toBe(0);
+    const written = again.stdout.split('\n').filter(Boolean).map((l) => JSON.parse(l)).filter((e) => e.event === 'output').map((e) => e.path);
+    expect(written).toEqual([join(bout, 'walk-a', 'report.html'), join(bout, 'report.html')]);
   });
 });
 
