@@ -70,7 +70,7 @@ export function residualChart(rs: ResidualSeries): string {
     chart: 'residuals', title: 'Residuals against elevation', widthPx: W, heightPx: yRow + 40, body: parts.join(''),
     caption: [
       'Post-fit residuals of the used observations (single differences, or code for standalone epochs); rejected observations have no residual and are drawn in the numbered rows beneath, one per reason (reasons grouped by their words, figures left out).',
-      `Used: ${decimationNote(d.used.length, d.usedTotal, d.usedStride, 'observations')}.`,
+      d.usedTotal === 0 ? 'No used observation has a residual value in residuals.csv.' : `Used: ${decimationNote(d.used.length, d.usedTotal, d.usedStride, 'observations')}.`,
       `Rejected: ${rejDrawn === rejTotal ? `all ${rejTotal.toLocaleString('en-US')} drawn` : `${rejDrawn.toLocaleString('en-US')} of ${rejTotal.toLocaleString('en-US')} drawn (at most ${RESIDUALS_MAX_REJECTED_PER_REASON} per reason, evenly spaced)`}.`,
       clipped ? `${clipped} residual(s) beyond ±${lim.toFixed(2)} m are drawn at the edge.` : '',
     ].filter(Boolean),

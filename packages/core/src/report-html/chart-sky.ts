@@ -92,7 +92,7 @@ export function skyChart(rs: ResidualSeries, elevationMaskDeg: number, reference
   return chartFigure({
     chart: 'sky', title: `Sky plot: ${tracks.length} satellites at the rover${reference ? `, ${refTracks.length} at the reference` : ''}`, widthPx: S, heightPx: S, body: parts.join(''),
     caption: [
-      'Rover: azimuth/elevation from residuals.csv, the dot ends each track.',
+      tracks.length ? 'Rover: azimuth/elevation from residuals.csv, the dot ends each track.' : 'Rover: residuals.csv gives no azimuth/elevation, no rover track drawn.',
       reference ? 'Reference: directions from the broadcast ephemerides at the reference coordinate for the satellites it observed (sky.csv).' : 'No sky.csv: the reference receiver\'s satellites are not drawn.',
       `Tracks drawn with at most ${SKY_MAX_VERTICES_PER_SATELLITE} vertices per satellite.`,
       Number.isFinite(elevationMaskDeg) ? `Dotted ring: elevation mask ${elevationMaskDeg}°.` : '',

@@ -50,6 +50,7 @@ export function timeSeriesChart(ep: EpochSeries): string {
     const ys = linearScale(lo, hi, y + p.heightPx, y + 4);
     parts.push(panelAxes(p, ys, y, x));
     const lines = polylines(idx, vals, ep.timeGpsS, x, ys, gapS);
+    if (lines.vertices === 0) parts.push(`<text class="no-values" x="${px((LEFT + W - RIGHT) / 2)}" y="${px(y + p.heightPx / 2 + 4)}" text-anchor="middle">no values in epochs.csv</text>`);
     if (p.label === 'East') plotted = lines.vertices;
     parts.push(`<g class="series" data-series="${esc(p.label.toLowerCase())}" fill="none" stroke="${p.colour}" stroke-width="1.3" stroke-linejoin="round">${lines.svg}</g>`);
     y += p.heightPx + 10;
@@ -74,7 +75,9 @@ export function timeSeriesChart(ep: EpochSeries): string {
   // Ticks at round UTC minutes/hours, placed on the GPS time axis.
   const ticks = niceTimeTicks(t0 - leap, t1 - leap).map((u) => u + leap);
   const withS = t1 - t0 < 600;
-  parts.push(`<g class="axis">${ticks.map((t) => `<line x1="${px(x(t))}" y1="${TOP}" x2="${px(x(t))}" y2="${px(y)}" class="grid"/><text x="${px(x(t))}" y="${px(y + 14)}" text-anchor="middle">${clockText(t, leap, withS)}</text>`).join('')}</g>`);
+  // Vertical grid lines beneath everything else; the tick labels under the strip.
+  parts.unshift(`<g class="axis">${ticks.map((t) => `<line x1="${px(x(t))}" y1="${TOP}" x2="${px(x(t))}" y2="${px(y - 6)}" class="grid"/>`).join('')}</g>`);
+  parts.push(`<g class="axis">${ticks.map((t) => `<text x="${px(x(t))}" y="${px(y + 14)}" text-anchor="middle">${clockText(t, leap, withS)}</text>`).join('')}</g>`);
   parts.push(`<text class="axis-label" x="${px((LEFT + W - RIGHT) / 2)}" y="${px(y + 32)}" text-anchor="middle">UTC time</text>`);
   const height = Math.ceil(y + 40);
   const legend = legendHtml(kinds.map(([k, c], i) => ({ colour: colourOf(k) ?? kindColour(k, i), label: `${k}: ${c.toLocaleString('en-US')} epochs` })));

@@ -26,7 +26,8 @@ td.path{word-break:break-all;text-align:left}
 .chart svg{max-width:100%;height:auto;display:block;font-size:12px;font-family:inherit}
 .chart-title{font-weight:bold;margin-bottom:4px}
 .chart-note{font-size:12.5px;color:var(--muted);margin:4px 0 0}
-.chart .panel{fill:#fff;stroke:#888}
+.chart .panel{fill:none;stroke:#888}
+.chart .no-values{fill:#777;font-style:italic}
 .chart .grid{stroke:#e2e2e2;stroke-width:1}
 .chart .grid.zero{stroke:#999}
 .chart text{fill:var(--ink)}
