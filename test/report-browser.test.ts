@@ -217,7 +217,9 @@ describeShared('HTML report of the real static run in chromium', () => {
     const run = runCli(['points', '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
       '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
       // data README: base APPROX POSITION XYZ, frame WGS 84 at the epoch of observation.
-      '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', ...OUTPUTS, '--out', out]);
+      '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
+      // Code solution: its residual rows carry residuals and directions, so every chart has real data.
+      '--carrier-phase', 'off', ...OUTPUTS, '--out', out]);
     expect(run.status, run.stderr).toBe(0);
   });
 
@@ -246,6 +248,34 @@ describeShared('HTML report of the real static run in chromium', () => {
       const systems = await o.page.evaluate(() => [...new Set(Array.from(document.querySelectorAll('[data-chart=sky] g.sat')).map((g) => (g.getAttribute('data-satellite') ?? '').charAt(0)))].sort());
       expect(systems).toEqual(expect.arrayContaining(['G']));
       await screenshot(o, 'report-static-run.png');
+    } finally {
+      await o.close();
+    }
+  });
+});
+
+describeShared('HTML report of the real static run with carrier phase in chromium', () => {
+  if (!HAS_CHROMIUM) { it.skip(CHROMIUM_SKIP_REASON, () => {}); return; }
+  it('fixed and float epochs are solution kinds on the time axis; the reference sky is drawn; no error, nothing fetched', async () => {
+    requireBuiltCli();
+    const out = tempDir('rd-report-carrier-');
+    const run = runCli(['points', '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
+      '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
+      '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', ...OUTPUTS, '--out', out]);
+    expect(run.status, run.stderr).toBe(0);
+    const file = join(out, 'report.html');
+    expect(statSync(file).size).toBeLessThan(2 * 1024 * 1024);
+    const o = await openFile(file);
+    try {
+      expect(o.errors).toEqual([]);
+      onlyTheFile(o, file);
+      const want = expectedMarks(out);
+      const got = await marksInPage(o);
+      expect(got.kinds).toEqual(want.kinds);
+      expect(got.kinds).toContain('fixed'); // README "--carrier-phase": on by default when both receivers recorded phase (the static run's receivers did)
+      expect(got.east).toBe(want.east);
+      expect(got.referenceSky).toBe(want.referenceSatellites);
+      await screenshot(o, 'report-static-run-carrier.png');
     } finally {
       await o.close();
     }
