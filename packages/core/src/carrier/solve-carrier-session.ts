@@ -34,6 +34,7 @@ import { arpToMark, azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, markToArp 
 import { decimalYearFromGpsS } from '../time/index.js';
 import { dayOfYear, troposphereDelayM } from '../observables/index.js';
 import { dopplerVelocity } from '../velocity/index.js';
+import { dilutionOfPrecision } from '../solve/index.js';
 import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '../session/index.js';
 import { ArcTracker } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
@@ -355,16 +356,28 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     const pointReference = options.reduceToMark ? 'ground-mark' as const : 'antenna-reference-point' as const;
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
     const sats = [];
+    // Look angles and DOPs from the recorded lines of sight (ENU at the reference: a short baseline).
+    const used: number[] = [], clockIndex: number[] = [], systemsSeen: GnssSystem[] = [];
     for (let j = j0; j < j1; j++) {
+      const ux = rec.los[3 * j], uy = rec.los[3 * j + 1], uz = rec.los[3 * j + 2];
+      const e = -Math.sin(gRef.lonRad) * ux + Math.cos(gRef.lonRad) * uy;
+      const n = -Math.sin(gRef.latRad) * Math.cos(gRef.lonRad) * ux - Math.sin(gRef.latRad) * Math.sin(gRef.lonRad) * uy + Math.cos(gRef.latRad) * uz;
+      const az = (Math.atan2(e, n) / DEG + 360) % 360;
+      if (rec.elevationRad[j] >= maskRad) {
+        const sys = satSystem(satellites[rec.sat[j]].id);
+        if (!systemsSeen.includes(sys)) systemsSeen.push(sys);
+        used.push(ux, uy, uz);
+        clockIndex.push(systemsSeen.indexOf(sys));
+      }
       sats.push({
-        sat: satellites[rec.sat[j]].id, signal: 'L1', elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: NaN,
+        sat: satellites[rec.sat[j]].id, signal: 'L1', elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: az,
         residualM: NaN, weight: 0, wTest: NaN, used: rec.elevationRad[j] >= maskRad && kind !== 'none',
         reason: rec.elevationRad[j] < maskRad ? `below elevation mask (${(rec.elevationRad[j] / DEG).toFixed(1)} deg)` : Number.isFinite(rec.phaseM[j]) ? '' : 'no phase at both receivers (code only)',
       });
     }
     const base = {
       tagGpsS: rec.tagGpsS[k], timeGpsS: rec.timeGpsS[k], pointName: c.pointName, pointReference,
-      relativeClockM: {}, dops: null, quality: null, correctionAgeS: rec.referenceAgeS[k], satellites: sats,
+      relativeClockM: {}, dops: dilutionOfPrecision({ lineOfSight: used, frame: 'ecef', receiver: gRef, clockIndex }), quality: null, correctionAgeS: rec.referenceAgeS[k], satellites: sats,
       speedMS: Number.isFinite(rec.velocity[4 * k]) ? Math.hypot(rec.velocity[4 * k], rec.velocity[4 * k + 1], rec.velocity[4 * k + 2]) : NaN,
       occupationEvent: c.event, antennaHeightM: c.antenna.heightM,
       forwardKind: KIND[fwd.result.kind[k]], backwardKind: KIND[bwd.result.kind[k]],
