@@ -17,6 +17,7 @@ import { encodingsFromName, sniffBinaryLayer, sniffCompactRinex, sniffUnsupporte
 import type { Encoding } from './encoding.js';
 import { gunzip } from './gzip.js';
 import { decompressUnix } from './unix-compress.js';
+import { lineTooLongReason, MAX_LINE_CHARS } from '../text-limits.js';
 
 export interface OpenTextOptions {
   readonly onWarning?: WarningSink;
@@ -58,7 +59,13 @@ export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, o
         : decompressUnix(src.chunks(), (reason, at) => damage('unix-compress-damaged', `Unix compress (.Z) stream damaged or truncated near byte ${at}: ${reason}; the text decoded before it is kept`));
     src = new PeekableBytes(inner);
   }
-  const head = await src.peek(FIRST_LINE_BYTES);
+  let head = await src.peek(FIRST_LINE_BYTES);
+  if (head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf) {
+    // A UTF-8 byte order mark (Unicode 15.0 section 23.8) is not part of the RINEX text: dropped before
+    // the one-for-one latin1 decoding, which would turn it into three characters.
+    src = new PeekableBytes(dropBytes(src.chunks(), 3));
+    head = await src.peek(FIRST_LINE_BYTES);
+  }
   if (head.includes(0)) {
     throw new FormatError(file, 1, `not a text file (binary bytes${layers.length > 0 ? ` after ${layers.join(' + ')}` : ''}): RINEX text expected`);
   }
@@ -80,6 +87,16 @@ export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, o
   const chars = decodeLatin1(src.chunks());
   const text = crx === null ? normaliseLineEnds(chars) : decodeCompact(file, crx, chars, onWarning);
   return { layers: layers.length > 0 ? layers : ['plain'], text };
+}
+
+/** The byte stream without its first `n` bytes. */
+async function* dropBytes(bytes: AsyncIterable<Uint8Array>, n: number): AsyncIterable<Uint8Array> {
+  let left = n;
+  for await (const b of bytes) {
+    if (left >= b.length) { left -= b.length; continue; }
+    yield left > 0 ? b.subarray(left) : b;
+    left = 0;
+  }
 }
 
 function latin1Line(head: Uint8Array): string {
@@ -111,7 +128,8 @@ async function* normaliseLineEnds(chunks: AsyncIterable<string>): AsyncIterable<
       carry = '\r';
       s = s.slice(0, -1);
     }
-    if (s.length > 0) yield s.includes('\r\n') ? s.replace(/\r\n/g, '\n') : s;
+    // CR LF and a lone CR (old Mac line ends) both end a line.
+    if (s.length > 0) yield s.includes('\r') ? s.replace(/\r\n?/g, '\n') : s;
   }
   if (carry) yield carry;
 }
@@ -143,6 +161,7 @@ async function* decodeCompact(
         if (dec.pendingChars >= TEXT_CHUNK_CHARS) yield flush();
       }
       rest = start === 0 ? s : s.slice(start);
+      if (rest.length > MAX_LINE_CHARS) throw new InputError(file, dec.lineNumber + 1, lineTooLongReason(dec.lineNumber + 1));
     }
     if (rest.length > 0) dec.pushLine(rest);
     dec.finish();

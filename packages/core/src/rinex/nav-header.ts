@@ -79,7 +79,7 @@ function systemOf(version: number, type: string, sysChar: string): GnssSystem | 
 }
 
 /** Parses the header; `lines` are the file's lines without line ends. */
-export function parseNavHeader(file: string, lines: readonly string[], onWarning: WarningSink): NavHeader {
+export function parseNavHeader(file: string, lines: readonly string[], onWarning: WarningSink, lineShift = 0): NavHeader {
   const { version, type, sysChar } = checkFirstLine(file, lines[0]);
   const system = systemOf(version, type, sysChar);
   const iono: {
@@ -147,7 +147,7 @@ export function parseNavHeader(file: string, lines: readonly string[], onWarning
     }
   }
   if (i >= lines.length) {
-    throw new InputError(file, lines.length, 'the header has no "END OF HEADER" line (expected it before the data records)');
+    throw new InputError(file, lines.length + lineShift, 'the header has no "END OF HEADER" line (expected it before the data records)');
   }
   for (const [sys, key] of [['GPS', 'gps'], ['QZS', 'qzss'], ['BDS', 'beidou']] as const) {
     const a = alpha[sys];

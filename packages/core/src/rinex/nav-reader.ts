@@ -11,6 +11,8 @@ import { isGnssSystem, SYSTEM_NAMES } from '../gnss/index.js';
 import type { EarthOrientation, Ephemeris, IonosphereCoefficients, NavData, SystemTimeOffset } from '../gnss/index.js';
 import { NavRecordProblem } from './nav-fields.js';
 import { parseNavHeader, type NavHeader } from './nav-header.js';
+import { collectNavLines } from './nav-lines.js';
+import { MAX_NAV_HEADER_LINES } from './header-limits.js';
 import { parseNavRecord, RECORD_LINES, recordSat, type RawNavRecord, type RecordContext } from './nav-records.js';
 import { parseEopRecord, parseIonRecord, parseStoRecord } from './nav-rinex4.js';
 
@@ -20,32 +22,24 @@ export interface ReadNavOptions {
 
 /** Joins text chunks (arbitrary boundaries) and splits them into lines (LF, CRLF or CR ends). */
 export async function collectLines(file: string, text: AsyncIterable<string>): Promise<string[]> {
-  const parts: string[] = [];
-  for await (const chunk of text) {
-    if (typeof chunk !== 'string') {
-      throw new FormatError(file, 0, 'expected decompressed text, got binary chunks (decompress the file first)');
-    }
-    parts.push(chunk);
-  }
-  let all = parts.join('');
-  if (all.charCodeAt(0) === 0xfeff) all = all.substring(1);
-  const lines = all.split(/\r\n|\n|\r/);
-  if (lines.length > 0 && lines[lines.length - 1] === '') lines.pop();
-  return lines;
+  return (await collectNavLines(file, text)).lines;
 }
 
 /** Reads a navigation file given as decompressed text chunks. */
 export async function readNav(file: string, text: AsyncIterable<string>, opts?: ReadNavOptions): Promise<NavData> {
-  const lines = await collectLines(file, text);
-  return parseNavLines(file, lines, opts);
+  const { lines, droppedHeaderLines } = await collectNavLines(file, text);
+  if (droppedHeaderLines > 0) {
+    opts?.onWarning?.({ file, line: MAX_NAV_HEADER_LINES, code: 'header-records-dropped', message: `the header runs on for ${droppedHeaderLines.toLocaleString('en-US')} lines after line ${MAX_NAV_HEADER_LINES.toLocaleString('en-US')}: they were read and dropped` });
+  }
+  return parseNavLines(file, lines, opts, droppedHeaderLines);
 }
 
 /** Same as readNav on text already split into lines (no line ends). */
-export function parseNavLines(file: string, lines: readonly string[], opts?: ReadNavOptions): NavData {
+export function parseNavLines(file: string, lines: readonly string[], opts?: ReadNavOptions, lineShift = 0): NavData {
   const warn: WarningSink = opts?.onWarning ?? (() => {});
   try {
-    const header = parseNavHeader(file, lines, warn);
-    const body = header.version >= 4 ? readRinex4Body(file, lines, header, warn) : readRinex23Body(file, lines, header, warn);
+    const header = parseNavHeader(file, lines, warn, lineShift);
+    const body = header.version >= 4 ? readRinex4Body(file, lines, header, warn, lineShift) : readRinex23Body(file, lines, header, warn, lineShift);
     const ionosphere: IonosphereCoefficients = { ...header.ionosphere };
     for (const [k, v] of Object.entries(body.ionosphere) as [keyof IonosphereCoefficients, never][]) ionosphere[k] ??= v;
     return {
@@ -79,7 +73,7 @@ function problemWarning(file: string, p: NavRecordProblem): Warning {
  * RINEX 2/3: a record starts on a line whose first 3 (RINEX 2: I2 PRN) or 4 (RINEX 3: A1,I2 satellite)
  * columns are not blank; its continuation lines start with 3 or 4 spaces (RINEX 2.11 table A4, 3.04 A6).
  */
-function readRinex23Body(file: string, lines: readonly string[], header: NavHeader, warn: WarningSink): Body {
+function readRinex23Body(file: string, lines: readonly string[], header: NavHeader, warn: WarningSink, shift: number): Body {
   const layout: 2 | 3 = header.version >= 3 ? 3 : 2;
   const indent = layout === 3 ? 4 : 3;
   const defaultSystem: GnssSystem = header.system === 'M' ? 'G' : header.system;
@@ -98,12 +92,12 @@ function readRinex23Body(file: string, lines: readonly string[], header: NavHead
     if (line.substring(0, indent).trim() !== '') {
       flush();
       current = [line];
-      firstLine = i + 1;
+      firstLine = i + 1 + shift;
     } else if (current) {
       current.push(line);
     } else if (!orphanWarned) {
       orphanWarned = true;
-      warn({ file, line: i + 1, code: 'orphan-line', message: 'line skipped: expected a record to start with a satellite and epoch line' });
+      warn({ file, line: i + 1 + shift, code: 'orphan-line', message: 'line skipped: expected a record to start with a satellite and epoch line' });
     }
   }
   flush();
@@ -133,7 +127,7 @@ const EPH_READ: Readonly<Record<string, readonly GnssSystem[]>> = {
 };
 
 /** RINEX 4.00: every record begins with a '>' line naming the record type, satellite and message. */
-function readRinex4Body(file: string, lines: readonly string[], header: NavHeader, warn: WarningSink): Body {
+function readRinex4Body(file: string, lines: readonly string[], header: NavHeader, warn: WarningSink, shift: number): Body {
   const body: Body = { ephemerides: [], ionosphere: {}, offsets: [], eop: [] };
   const iono = body.ionosphere as {
     gps?: IonosphereCoefficients['gps']; qzss?: IonosphereCoefficients['qzss'];
@@ -149,14 +143,14 @@ function readRinex4Body(file: string, lines: readonly string[], header: NavHeade
   while (i < lines.length) {
     const line = lines[i]!;
     if (!line.startsWith('>')) {
-      if (line.trim() !== '') skipOnce('orphan', i + 1, "line skipped: expected a record line starting with '>'");
+      if (line.trim() !== '') skipOnce('orphan', i + 1 + shift, "line skipped: expected a record line starting with '>'");
       i++;
       continue;
     }
-    const headLine = i + 1;
+    const headLine = i + 1 + shift;
     let j = i + 1;
     while (j < lines.length && !lines[j]!.startsWith('>')) j++;
-    const rec: RawNavRecord = { lines: lines.slice(i + 1, j), firstLine: i + 2 };
+    const rec: RawNavRecord = { lines: lines.slice(i + 1, j), firstLine: i + 2 + shift };
     i = j;
     const [type = '', sat = '', message = ''] = line.substring(1).trim().split(/\s+/);
     const system = sat.charAt(0);

@@ -4,13 +4,24 @@
  */
 import type { EcefM, GnssSystem } from '../gnss/index.js';
 import { isGnssSystem } from '../gnss/index.js';
-import { FormatError } from '../errors.js';
+import { FormatError, InputError } from '../errors.js';
 import type { Warning } from '../errors.js';
 import type { TimeSystem } from '../time/index.js';
 import { secondsFromCalendar, toGpsS } from '../time/index.js';
 import type { AntennaOffset, ObsHeader } from '../gnss/index.js';
 import { fieldState, parseFixed, parseIntField, textField } from './obs-fields.js';
 import { normaliseBeidouCode, rinex2CodeList } from '../gnss/index.js';
+
+import {
+  droppedRecordsMessage, MAX_HEADER_COMMENTS, MAX_OBS_TYPES_RINEX2, MAX_OBS_TYPES_RINEX3, MAX_OTHER_HEADER_RECORDS,
+} from './header-limits.js';
+
+/** Labels this reader acts on (always remembered as seen; other labels only up to a bound). */
+const KNOWN_LABELS = new Set([
+  'MARKER NAME', 'MARKER NUMBER', 'REC # / TYPE / VERS', 'ANT # / TYPE', 'APPROX POSITION XYZ', 'ANTENNA: DELTA H/E/N',
+  '# / TYPES OF OBSERV', 'SYS / # / OBS TYPES', 'INTERVAL', 'TIME OF FIRST OBS', 'TIME OF LAST OBS', 'GLONASS SLOT / FRQ #',
+  'GLONASS COD/PHS/BIS', 'SYS / PHASE SHIFT', 'SYS / SCALE FACTOR', 'RCV CLOCK OFFS APPL', 'LEAP SECONDS', 'END OF HEADER',
+]);
 
 const TIME_SYSTEMS: readonly TimeSystem[] = ['GPS', 'GLO', 'GAL', 'BDT', 'QZS', 'IRN', 'UTC', 'TAI', 'SBAS'];
 
@@ -101,6 +112,9 @@ export class ObsHeaderBuilder {
   leapSeconds: number | null = null;
   comments: string[] = [];
   otherRecords: string[] = [];
+  /** COMMENT and unrecognised records read beyond the kept bounds (header-limits.ts). */
+  droppedComments = 0;
+  droppedOther = 0;
   seen = new Set<string>();
   private pending: Pending | null = null;
 
@@ -118,11 +132,13 @@ export class ObsHeaderBuilder {
   /** Takes one header line (not the first, not END OF HEADER). */
   line(line: string, lineNo: number): void {
     const label = headerLabel(line);
-    this.seen.add(label);
+    if (label !== 'COMMENT' && (this.seen.size < MAX_OTHER_HEADER_RECORDS || this.seen.has(label) || KNOWN_LABELS.has(label))) this.seen.add(label);
     if (label !== 'SYS / # / OBS TYPES' && label !== '# / TYPES OF OBSERV' && label !== 'SYS / SCALE FACTOR') this.pending = null;
     fieldState.bad = false;
     switch (label) {
-      case 'COMMENT': this.comments.push(line.slice(0, 60).trimEnd()); return;
+      case 'COMMENT':
+        if (this.comments.length < MAX_HEADER_COMMENTS) this.comments.push(line.slice(0, 60).trimEnd()); else this.droppedComments++;
+        return;
       case 'MARKER NAME': this.markerName = textField(line, 0, 60); return;
       case 'MARKER NUMBER': this.markerNumber = textField(line, 0, 20); return;
       case 'REC # / TYPE / VERS': // 3A20
@@ -195,7 +211,7 @@ export class ObsHeaderBuilder {
       case 'WAVELENGTH FACT L1/2': return; // RINEX 2 only: accepted, not needed for code processing
       case '# OF SATELLITES': case 'PRN / # OF OBS': return; // describe the original data; not kept (the writer omits them)
       default:
-        this.otherRecords.push(line.slice(0, 80));
+        if (this.otherRecords.length < MAX_OTHER_HEADER_RECORDS) this.otherRecords.push(line.slice(0, 80)); else this.droppedOther++;
     }
   }
 
@@ -218,6 +234,7 @@ export class ObsHeaderBuilder {
     if (p === null || p.kind !== 'r2types' || p.remaining <= 0) {
       const n = parseIntField(line, 0, 6);
       if (fieldState.bad || !Number.isFinite(n) || n < 0) return this.bad(lineNo, '# / TYPES OF OBSERV', 'the number of types (I6) in columns 1-6');
+      if (n > MAX_OBS_TYPES_RINEX2) throw new InputError(this.file, lineNo, `'# / TYPES OF OBSERV' declares ${n} observation types; RINEX 2 defines fewer than ${MAX_OBS_TYPES_RINEX2 + 1}: the header is damaged`);
       this.r2Codes = [];
       this.pending = { kind: 'r2types', sys: null, remaining: n, factor: 1 };
     }
@@ -239,6 +256,7 @@ export class ObsHeaderBuilder {
       if (!isGnssSystem(s)) return this.bad(lineNo, 'SYS / # / OBS TYPES', 'a system letter G R E C J S I in column 1');
       const n = parseIntField(line, 3, 6);
       if (fieldState.bad || !Number.isFinite(n) || n < 0) return this.bad(lineNo, 'SYS / # / OBS TYPES', 'the number of types (I3) in columns 4-6');
+      if (n > MAX_OBS_TYPES_RINEX3) throw new InputError(this.file, lineNo, `'SYS / # / OBS TYPES' declares ${n} observation types for system ${s}; the count is an I3 field (at most ${MAX_OBS_TYPES_RINEX3}): the header is damaged`);
       this.fileObsCodes[s] = [];
       p = this.pending = { kind: 'r3types', sys: s, remaining: n, factor: 1 };
     } else if (p === null || p.kind !== 'r3types') {
@@ -306,6 +324,8 @@ export class ObsHeaderBuilder {
     if (!this.seen.has(codesLabel)) w(codesLabel);
     if (!this.seen.has('MARKER NAME')) w('MARKER NAME');
     if (!this.seen.has('TIME OF FIRST OBS')) w('TIME OF FIRST OBS');
+    if (this.droppedComments > 0) this.warn({ file: this.file, line: 0, code: 'header-records-dropped', message: droppedRecordsMessage(this.droppedComments, 'COMMENT records', MAX_HEADER_COMMENTS) });
+    if (this.droppedOther > 0) this.warn({ file: this.file, line: 0, code: 'header-records-dropped', message: droppedRecordsMessage(this.droppedOther, 'unrecognised records', MAX_OTHER_HEADER_RECORDS) });
     if (this.approxPosition === null) this.warn({ file: this.file, line: 0, code: 'missing-header-record', message: "header record 'APPROX POSITION XYZ' is missing or zero: no header coordinate" });
     const obsCodes = this.obsCodes();
     const scaleFactors: Partial<Record<GnssSystem, Record<string, number>>> = {};

@@ -31,7 +31,7 @@ const EVENT_KINDS: Readonly<Record<number, HeaderEvent['kind']>> = {
 /** Reads the header of a RINEX observation text and returns it with a lazy epoch iterable. */
 export async function readObsStream(file: string, text: AsyncIterable<string>, opts?: ReadObsOptions): Promise<ObsStream> {
   const warn: WarningSink = opts?.onWarning ?? (() => {});
-  const cur = new LineCursor(text);
+  const cur = new LineCursor(text, file);
   let first = await cur.next();
   if (first === null) throw new FormatError(file, 0, `${file} is empty, not a RINEX observation file`);
   if (first.charCodeAt(0) === 0xfeff) first = first.slice(1);

@@ -10,6 +10,9 @@
  * Hot loops use `takeSpan()` instead: the line is then `src` from `lineStart` to `lineEnd` (end
  * exclusive, CR removed), read with charCodeAt on the chunk itself, and no line string is made.
  */
+import { InputError } from '../errors.js';
+import { lineTooLongReason, MAX_LINE_CHARS } from './header-limits.js';
+
 export class LineCursor {
   private buf = '';
   private pos = 0;
@@ -29,7 +32,8 @@ export class LineCursor {
   lineStart = 0;
   lineEnd = 0;
 
-  constructor(source: AsyncIterable<string>) {
+  /** `file` names the input in the error for a line over MAX_LINE_CHARS. */
+  constructor(source: AsyncIterable<string>, private readonly file = 'the input') {
     this.it = source[Symbol.asyncIterator]();
   }
 
@@ -74,6 +78,7 @@ export class LineCursor {
   }
 
   private spanOfJoined(line: string): void {
+    if (line.length > MAX_LINE_CHARS) throw new InputError(this.file, this.lineNumber, lineTooLongReason(this.lineNumber));
     this.src = line;
     this.lineStart = 0;
     this.lineEnd = line.charCodeAt(line.length - 1) === 13 ? line.length - 1 : line.length;
@@ -127,6 +132,7 @@ export class LineCursor {
       this.carry = '';
     } else {
       this.carry += rest;
+      if (this.carry.length > MAX_LINE_CHARS) throw new InputError(this.file, this.lineNumber + 1, lineTooLongReason(this.lineNumber + 1));
       this.buf = chunk;
     }
     this.pos = 0;
