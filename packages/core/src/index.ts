@@ -37,3 +37,4 @@ export * from './report/control-report.js';
 export * from './ambiguity/index.js';
 export * from './carrier/index.js';
 export * from './report-html/index.js';
+export * from './csv/inert-cell.js';

@@ -9,7 +9,7 @@
  */
 import { readdir, stat } from 'node:fs/promises';
 import { basename, join, resolve } from 'node:path';
-import { stringify } from 'csv-stringify/sync';
+import { csvText } from '../csv-text.js';
 import { InputError, ProcessingError, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds } from '@refdelta/core';
 import { OutputSet, openNav, openObs } from '../node-io.js';
 import { NAV_WINDOW_S, obsTimeSpan, type TimeSpan } from '../input-checks.js';
@@ -248,7 +248,7 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
     '# refdelta batch points: every point of every session of the batch, one row each',
     `# sessions from ${sessionsDir}; frame and frame_epoch are given per row (each session's own reference frame)`,
     "# easting/northing and orthometric heights, when present, follow each session's own projection and geoid: see OUT/<session>/points.csv",
-  ].join('\n') + '\n' + stringify([cols, ...batchRows.map((r) => [r.session, ...cols.slice(1).map((c) => r.cells[c] ?? '')])], { record_delimiter: 'unix' });
+  ].join('\n') + '\n' + csvText([cols, ...batchRows.map((r) => [r.session, ...cols.slice(1).map((c) => r.cells[c] ?? '')])]);
   const set = new OutputSet();
   const pointsPath = join(outDir, BATCH_FILE_NAMES.points);
   const pointsFile = await set.add('batch-points', pointsPath, [pointsCsv]);

@@ -5,7 +5,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
-import { stringify } from 'csv-stringify/sync';
+import { csvText } from '../csv-text.js';
 import {
   CONTROL_CHECK_COLUMNS, checkAgainstControl, controlCheckJson, controlCheckPreamble, controlCheckRows, fixed,
   parseControlCsv, parseHelmertJson, parsePointsCsv, type HelmertParams,
@@ -56,7 +56,7 @@ export async function runCheck(a: CheckArgs, rep: Reporter): Promise<number> {
   // A transformation between frames is never silent: the sets given are named in both outputs.
   const transformLines = (transformations ?? []).map((h) => `${h.from} -> ${h.to} at epoch ${h.epochYear} (source: ${h.source})`);
   const preamble = [...controlCheckPreamble(r), ...transformLines.map((t) => `# transformation available (--transform ${String(a.transform)}): ${t}`)];
-  const csv = preamble.join('\n') + '\n' + stringify([[...CONTROL_CHECK_COLUMNS], ...controlCheckRows(r)], { record_delimiter: 'unix' });
+  const csv = preamble.join('\n') + '\n' + csvText([[...CONTROL_CHECK_COLUMNS], ...controlCheckRows(r)]);
   const doc = { ...controlCheckJson(r, { pointsFile: resolve(pointsFile), marksFile: resolve(marksFile), createdUtc: new Date().toISOString(), warnings: rep.warnings }),
     transformations: transformLines };
   // The pair is one set: both sealed (flushed, fsynced) before either is renamed, the JSON last.

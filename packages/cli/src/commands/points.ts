@@ -7,7 +7,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { stringify } from 'csv-stringify/sync';
+import { csvText } from '../csv-text.js';
 import {
   DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE,
   loadEgm96, makeProjection, parseGeoidGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
@@ -174,7 +174,7 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     };
     const columns = pointsColumns(table);
     const rows = outcome.points.map((p) => pointRow(p, table));
-    const csv = pointsPreamble(table).join('\n') + '\n' + stringify([columns, ...rows], { record_delimiter: 'unix' });
+    const csv = pointsPreamble(table).join('\n') + '\n' + csvText([columns, ...rows]);
     await st.set.add('points', join(st.outDir, POINTS_FILE_NAMES.csv), [csv]);
     await st.set.add('points-geojson', join(st.outDir, POINTS_FILE_NAMES.geojson), [JSON.stringify(pointsGeoJson(outcome.points, table), null, 1) + '\n']);
     const outputs = await commitStagedSolve(st, rep);

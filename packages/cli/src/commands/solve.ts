@@ -1,6 +1,6 @@
 /** `refdelta solve`: a differential session from files to an output folder. */
 import { basename, join, resolve } from 'node:path';
-import { stringify } from 'csv-stringify/sync';
+import { csvText } from '../csv-text.js';
 import {
   frameEpochText,
   GNSS_SYSTEMS, InputError, csvPreamble, epochFeature, geojsonNote, jsonNumber, pointReferenceWords,
@@ -45,10 +45,6 @@ export interface SolveResult {
   readonly exitCode: number;
   readonly outputs: readonly OutputFileRecord[];
   readonly summaryPath: string | null;
-}
-
-function csvText(rows: readonly (readonly string[])[]): string {
-  return rows.length ? stringify(rows as string[][], { record_delimiter: 'unix' }) : '';
 }
 
 /** Writers of the streamed outputs: members of the run's OutputSet, committed with the rest at the end. */

@@ -1,1 +1,2 @@
 export * from './records.js';
+export * from './inert-cell.js';
