@@ -21,12 +21,16 @@ export function describeFailure(e: unknown): Failure {
   }
   if (e instanceof RefdeltaError) return { sentence: oneLine(e.message), exitCode: EXIT_PROCESSING };
   const err = e as NodeJS.ErrnoException;
-  if (err && typeof err === 'object' && typeof err.code === 'string' && typeof err.path === 'string') {
+  if (err && typeof err === 'object' && typeof err.code === 'string' && /^E[A-Z]+$/.test(err.code)) {
     const what: Record<string, string> = {
-      ENOENT: 'no such file or folder', EACCES: 'permission denied', EPERM: 'operation not permitted', ENOSPC: 'no space left on the device',
-      EISDIR: 'is a folder, not a file', ENOTDIR: 'a part of the path is not a folder', EROFS: 'read-only file system',
+      ENOENT: 'no such file or folder', EACCES: 'permission denied', EPERM: 'operation not permitted',
+      ENOSPC: 'no space left on the device: free some space or choose another --out', EDQUOT: 'disk quota exceeded: free some space or choose another --out',
+      EISDIR: 'is a folder, not a file', ENOTDIR: 'a part of the path is not a folder', EROFS: 'read-only file system: choose another --out',
+      EEXIST: 'a file or folder of that name is in the way', EIO: 'input/output error of the device', EMFILE: 'too many open files',
+      ENAMETOOLONG: 'the name is too long for the file system',
     };
-    return { sentence: `${err.path}: ${what[err.code] ?? err.message}`, exitCode: EXIT_PROCESSING };
+    const where = typeof err.path === 'string' ? err.path : 'a file';
+    return { sentence: `${where}: ${what[err.code] ?? `system error ${err.code}`}`, exitCode: EXIT_PROCESSING };
   }
   const msg = e instanceof Error ? e.message : String(e);
   return { sentence: `internal error: ${oneLine(msg)} (run again with --debug for the stack trace)`, exitCode: EXIT_PROCESSING };

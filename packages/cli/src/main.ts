@@ -19,6 +19,7 @@ import { EXIT_OK, EXIT_USAGE } from './exit-codes.js';
 import { Reporter } from './reporter.js';
 import { UsageError } from './usage-error.js';
 import { SOFTWARE } from './software.js';
+import { visibleLine } from './visible-text.js';
 
 const SOLVE_EXAMPLES: readonly [string, string][] = [
   [
@@ -52,6 +53,16 @@ export function joinSignedValues(argv: readonly string[]): string[] {
   }
   return out;
 }
+
+/** A reader that stops early (`| head -1`) closes the pipe: end quietly instead of with a stack trace. */
+function quietOnClosedPipe(stream: NodeJS.WriteStream): void {
+  stream.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code === 'EPIPE') process.exit(0);
+    throw e;
+  });
+}
+quietOnClosedPipe(process.stdout);
+quietOnClosedPipe(process.stderr);
 
 export async function main(rawArgv: readonly string[]): Promise<number> {
   const argv = joinSignedValues(rawArgv);
@@ -195,7 +206,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
 main(hideBin(process.argv)).then(
   (code) => { process.exitCode = code; },
   (e: unknown) => {
-    process.stderr.write(`refdelta: internal error: ${e instanceof Error ? e.message : String(e)}\n`);
+    process.stderr.write(`refdelta: internal error: ${visibleLine(e instanceof Error ? e.message : String(e))}\n`);
     process.exitCode = 1;
   },
 );

@@ -4,8 +4,11 @@
  */
 import { createReadStream } from 'node:fs';
 import { createHash } from 'node:crypto';
-import { mkdir, open, rename, rm, stat, type FileHandle } from 'node:fs/promises';
-import { basename, dirname, join } from 'node:path';
+import { open, rename, rm, stat, type FileHandle } from 'node:fs/promises';
+import { dirname } from 'node:path';
+import { readFile } from 'node:fs/promises';
+import { makeFolder } from './output-folder.js';
+import { commitWithJournal, registerTemporary, releaseTemporary, temporaryName } from './output-commit.js';
 import {
   InputError, mergeNav, openText, readNav, readObsStream,
   type NavData, type ObsStream, type WarningSink,
@@ -106,9 +109,16 @@ export class AtomicFile {
 
   static async create(path: string): Promise<AtomicFile> {
     const dir = dirname(path);
-    await mkdir(dir, { recursive: true });
-    const tmp = join(dir, `.${basename(path)}.${process.pid}.${Date.now().toString(36)}${Math.random().toString(36).slice(2, 8)}.tmp`);
-    const fh = await open(tmp, 'wx');
+    await makeFolder(dir);
+    const tmp = temporaryName(path);
+    registerTemporary(tmp);
+    let fh: FileHandle;
+    try {
+      fh = await open(tmp, 'wx');
+    } catch (e) {
+      releaseTemporary(tmp);
+      throw withPath(e, path);
+    }
     return new AtomicFile(path, tmp, fh);
   }
 
@@ -128,9 +138,13 @@ export class AtomicFile {
     this.pendingBytes = 0;
     this.hash.update(buf);
     let off = 0;
-    while (off < buf.length) {
-      const { bytesWritten } = await this.fh.write(buf, off, buf.length - off);
-      off += bytesWritten;
+    try {
+      while (off < buf.length) {
+        const { bytesWritten } = await this.fh.write(buf, off, buf.length - off);
+        off += bytesWritten;
+      }
+    } catch (e) {
+      throw withPath(e, this.path);
     }
     this.bytes += buf.length;
   }
@@ -149,7 +163,7 @@ export class AtomicFile {
       await this.fh.close();
     } catch (e) {
       await this.abort();
-      throw e;
+      throw withPath(e, this.path);
     }
     this.sealed = { path: this.path, bytes: this.bytes, sha256: this.hash.digest('hex') };
     return this.sealed;
@@ -163,9 +177,10 @@ export class AtomicFile {
       await rename(this.tmp, this.path);
     } catch (e) {
       await this.abort();
-      throw e;
+      throw withPath(e, this.path);
     }
     this.done = true;
+    releaseTemporary(this.tmp);
     return w;
   }
 
@@ -182,6 +197,14 @@ export class AtomicFile {
     this.done = true;
     if (!this.sealed) await this.fh.close().catch(() => {});
     await removeQuietly(this.tmp);
+    releaseTemporary(this.tmp);
+  }
+
+  /** The rename that publishes this sealed file, handed to a journalled commit (the file counts as published). */
+  takeRenameStep(): readonly [string, string] {
+    if (!this.sealed || this.done) throw new Error(`${this.path}: not sealed, or already committed or aborted`);
+    this.done = true;
+    return [this.tmp, this.path];
   }
 
   /** The temporary file's path (tests). */
@@ -258,11 +281,17 @@ export class OutputSet {
     this.closed = true;
     try {
       const last = this.files[this.files.length - 1];
-      if (last && this.files.length > 1) await removeQuietly(last.file.path);
-      for (const { file } of this.files) await file.publish();
+      const removes: string[] = [];
+      if (last && this.files.length > 1) {
+        // The old index first, and the old members it lists that the new set does not have: the set on
+        // disk is then never described by an index that does not match it.
+        removes.push(...(await formerMembers(last.file.path, new Set(this.files.map((f) => f.file.path)))), last.file.path);
+      }
+      const steps = this.files.map(({ file }) => file.takeRenameStep());
+      commitWithJournal(dirname(last!.file.path), steps, removes);
     } catch (e) {
       for (const { file } of this.files) await file.abort();
-      throw e;
+      throw withPath(e, this.files[this.files.length - 1]?.file.path ?? '');
     }
     for (const dir of new Set(this.files.map((f) => dirname(f.file.path)))) await syncFolder(dir);
     return sealed;
@@ -273,6 +302,26 @@ export class OutputSet {
     this.closed = true;
     for (const { file } of this.files) await file.abort();
   }
+}
+
+/** Paths an existing index (summary JSON with an `outputs` list) names in its own folder, other than `keep`. */
+async function formerMembers(indexPath: string, keep: ReadonlySet<string>): Promise<string[]> {
+  try {
+    const doc = JSON.parse(await readFile(indexPath, 'utf8')) as { outputs?: { path?: unknown }[] };
+    const dir = dirname(indexPath);
+    return (doc.outputs ?? [])
+      .map((o) => (typeof o?.path === 'string' ? o.path : ''))
+      .filter((p) => p !== '' && dirname(p) === dir && p !== indexPath && !keep.has(p));
+  } catch {
+    return [];
+  }
+}
+
+/** A system error with the path of the output it concerns (fs write errors on a handle carry none). */
+function withPath(e: unknown, path: string): unknown {
+  const err = e as NodeJS.ErrnoException;
+  if (err && typeof err === 'object' && typeof err.code === 'string' && typeof err.path !== 'string' && path) err.path = path;
+  return e;
 }
 
 /** fsync of the folder so a rename survives a crash (common practice on POSIX file systems). */

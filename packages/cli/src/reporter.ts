@@ -5,6 +5,7 @@
  * and neither --quiet nor --json-lines is given.
  */
 import { formatWarning, type Warning } from '@refdelta/core';
+import { visible, visibleLine } from './visible-text.js';
 
 export interface ReporterOptions {
   readonly quiet: boolean;
@@ -72,7 +73,7 @@ export class Reporter {
     if (this.opts.jsonLines || this.opts.quiet) return;
     this.clearBar();
     const p = this.opts.prefix ?? '';
-    const body = text.endsWith('\n') ? text.slice(0, -1) : text;
+    const body = visible(text.endsWith('\n') ? text.slice(0, -1) : text);
     process.stderr.write(body.split('\n').map((l) => p + l).join('\n') + '\n');
   }
 
@@ -80,7 +81,7 @@ export class Reporter {
   result(text: string): void {
     if (this.opts.jsonLines || this.opts.quiet) return;
     this.clearBar();
-    process.stdout.write(text.endsWith('\n') ? text : text + '\n');
+    process.stdout.write(visible(text.endsWith('\n') ? text : text + '\n'));
   }
 
   readonly warn = (w: Warning): void => {
@@ -95,7 +96,7 @@ export class Reporter {
     const max = this.opts.maxPrintedWarnings ?? 20;
     if (this.printed < max) {
       this.clearBar();
-      process.stderr.write(`${this.opts.prefix ?? ''}warning: ${formatWarning(w)}\n`);
+      process.stderr.write(`${this.opts.prefix ?? ''}warning: ${visibleLine(formatWarning(w))}\n`);
     }
     this.printed++;
   };
@@ -136,14 +137,14 @@ export class Reporter {
   /** A failure of one part of a run that goes on (a batch session): 'refdelta: ...' on stderr in every mode. */
   problem(sentence: string): void {
     this.clearBar();
-    process.stderr.write(`refdelta: ${sentence}\n`);
+    process.stderr.write(`refdelta: ${visibleLine(sentence)}\n`);
   }
 
   /** The one sentence of a failure: always printed (also with --quiet), as JSON with --json-lines. */
   failure(sentence: string, exitCode: number, stack?: string): void {
     this.clearBar();
     if (this.opts.jsonLines) this.event('error', { message: sentence, exit_code: exitCode });
-    process.stderr.write(`refdelta: ${sentence}\n`);
+    process.stderr.write(`refdelta: ${visibleLine(sentence)}\n`);
     if (stack) process.stderr.write(`${stack}\n`);
   }
 }

@@ -7,7 +7,8 @@
  * committed as one set (the summary last), and a table is printed on stdout.
  * Exit: 0 all sessions ok, 4 some failed (EXIT_BATCH_PARTIAL), 1 none could be processed, 2 usage.
  */
-import { readdir, stat } from 'node:fs/promises';
+import { lstat, readdir, rm, stat } from 'node:fs/promises';
+import { prepareOutputFolder } from '../output-folder.js';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
 import { InputError, ProcessingError, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds } from '@refdelta/core';
@@ -51,7 +52,7 @@ export interface SessionRecord {
 interface Candidate { readonly path: string; readonly kind: RinexKind }
 
 /** Regular files of a folder, by name, with their kind by content. */
-async function folderFiles(dir: string, option: string): Promise<Candidate[]> {
+async function folderFiles(dir: string, option: string, skipped?: { file: string; reason: string }[]): Promise<Candidate[]> {
   let names: string[];
   try {
     const st = await stat(dir);
@@ -66,7 +67,16 @@ async function folderFiles(dir: string, option: string): Promise<Candidate[]> {
     if (n.startsWith('.')) continue; // hidden files, our own temporary files among them
     const p = join(dir, n);
     const st = await stat(p).catch(() => null);
-    if (!st?.isFile()) continue;
+    if (!st?.isFile()) {
+      if (skipped) {
+        const link = await lstat(p).catch(() => null);
+        const reason = !st && link?.isSymbolicLink() ? 'a link whose target does not exist'
+          : st?.isDirectory() ? 'a folder, not a file (sessions are the files directly in --sessions)'
+            : !st ? 'not readable' : 'not a regular file';
+        skipped.push({ file: p, reason });
+      }
+      continue;
+    }
     out.push({ path: p, kind: await rinexKindOfFile(p) });
   }
   return out;
@@ -76,7 +86,15 @@ async function folderFiles(dir: string, option: string): Promise<Candidate[]> {
 export function sessionNames(paths: readonly string[]): string[] {
   const clean = (s: string) => s.replace(/[^A-Za-z0-9._-]/g, '_');
   const short = paths.map((p) => clean(basename(p).replace(/\.(gz|z)$/i, '').replace(/\.(obs|rnx|crx|\d\d[od])$/i, '')));
-  return short.map((s, i) => (short.filter((x) => x === s).length > 1 ? clean(basename(paths[i])) : s));
+  const wanted = short.map((s, i) => (short.filter((x) => x === s).length > 1 ? clean(basename(paths[i])) : s));
+  // Names that still clash ('site 1.obs' and 'site_1.obs'; case-insensitive file systems) get -2, -3...
+  const used = new Set<string>();
+  return wanted.map((w) => {
+    let n = w;
+    for (let k = 2; used.has(n.toLowerCase()); k++) n = `${w}-${k}`;
+    used.add(n.toLowerCase());
+    return n;
+  });
 }
 
 function when(gpsS: number): string {
@@ -183,8 +201,8 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   const outDir = resolve(a.out);
 
   // 2. The sessions, recognised by content; other files are skipped with a note.
-  const files = await folderFiles(sessionsDir, '--sessions');
   const skipped: { file: string; reason: string }[] = [];
+  const files = await folderFiles(sessionsDir, '--sessions', skipped);
   const sessionFiles: string[] = [];
   for (const f of files) {
     if (f.kind === 'observation' || (f.kind === 'other' && looksLikeObservationName(basename(f.path)))) sessionFiles.push(f.path);
@@ -200,6 +218,22 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
 
   // 3. One points run per session; a failure is reported and the next session goes on.
   const names = sessionNames(sessionFiles);
+  const renamed: { file: string; folder: string }[] = [];
+  for (const [i, file] of sessionFiles.entries()) {
+    const plain = sessionNames([file])[0];
+    if (names[i] !== plain && names[i] !== basename(file).replace(/[^A-Za-z0-9._-]/g, '_')) {
+      renamed.push({ file, folder: names[i] });
+      rep.info(`note: the folder name of ${file} would clash with another session's: its outputs go to ${join(outDir, names[i])}`);
+    }
+  }
+  await prepareOutputFolder({
+    dir: outDir, inputs: [...sessionFiles, ...refFiles, ...navFiles],
+    outputNames: [...Object.values(BATCH_FILE_NAMES), ...names.flatMap((n) => ['epochs.csv', 'residuals.csv', 'positions.geojson', 'summary.json', 'points.csv', 'points.geojson'].map((f) => join(n, f)))],
+    estimatedBytes: 0,
+  });
+  // The batch index describes the session folders of one run: it goes before the first of them changes,
+  // and the new one is committed at the end.
+  for (const f of Object.values(BATCH_FILE_NAMES)) await rm(join(outDir, f), { force: true });
   const records: SessionRecord[] = [];
   const batchRows: { session: string; cells: Record<string, string> }[] = [];
   let columns: string[] | null = null;
@@ -272,6 +306,7 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
         out: r.out, summary: r.out ? join(r.out, 'summary.json') : null, reference_files: r.referenceFiles.map((f) => resolve(f)), nav_files: r.navFiles.map((f) => resolve(f)),
       })),
       skipped_files: skipped,
+      renamed_session_folders: renamed,
       outputs: [
         { kind: 'batch-points', path: p.path, bytes: p.bytes, sha256: p.sha256 },
         ...(index ? [{ kind: 'batch-report', path: index.path, bytes: index.bytes, sha256: index.sha256 }] : []),

@@ -11,6 +11,7 @@ import {
   parseControlCsv, parseHelmertJson, parsePointsCsv, type HelmertParams,
 } from '@refdelta/core';
 import { OutputSet, requireFile } from '../node-io.js';
+import { prepareOutputFolder } from '../output-folder.js';
 import { parseNumber } from '../parse-values.js';
 import { Reporter } from '../reporter.js';
 import { EXIT_CHECK_FAILED, EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
@@ -39,6 +40,10 @@ export async function runCheck(a: CheckArgs, rep: Reporter): Promise<number> {
   const tolH = a.toleranceH === undefined ? undefined : parseNumber('tolerance-h', a.toleranceH, 0, 1000);
   const tolV = a.toleranceV === undefined ? undefined : parseNumber('tolerance-v', a.toleranceV, 0, 1000);
   const pointsFile = String(a.points), marksFile = String(a.marks);
+  await prepareOutputFolder({
+    dir: String(a.out), inputs: [pointsFile, marksFile, ...(a.transform !== undefined ? [String(a.transform)] : [])],
+    outputNames: Object.values(CHECK_FILE_NAMES), estimatedBytes: 0,
+  });
   const points = parsePointsCsv(pointsFile, await text(pointsFile));
   const marks = parseControlCsv(marksFile, await text(marksFile), rep.warn);
   let transformations: HelmertParams[] | undefined;

@@ -5,6 +5,7 @@ import {
 } from '@refdelta/core';
 import { openTextFile } from '../node-io.js';
 import { Reporter } from '../reporter.js';
+import { visible } from '../visible-text.js';
 
 /** The first line of a text stream, and the stream again from its start. */
 export async function peekFirstLine(text: AsyncIterable<string>): Promise<{ firstLine: string; text: AsyncIterable<string> }> {
@@ -59,7 +60,7 @@ export async function runInspect(files: readonly string[], asText: boolean, rep:
   for (const f of files) {
     const r = await inspectFile(f, rep);
     results.push(r);
-    if (asText) process.stdout.write((r.kind === 'observation' ? obsInspectionText(r) : navInspectionText(r)) + '\n');
+    if (asText) process.stdout.write(visible((r.kind === 'observation' ? obsInspectionText(r) : navInspectionText(r)) + '\n'));
   }
   if (!asText) {
     const body = JSON.stringify(results.length === 1 ? results[0] : results, null, 2) + '\n';

@@ -121,7 +121,10 @@ export interface PointsSessionOutcome {
  */
 export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Reporter, command = 'points'): Promise<PointsSessionOutcome> {
   const c: Collected = { epochs: [], marks: [], frame: null, pointReference: a.atAntenna === true ? 'antenna-reference-point' : 'ground-mark' };
-  const st = await stageSolve(a, rep, { command, onEpoch: (s) => collect(c, s) });
+  const st = await stageSolve(a, rep, {
+    command, onEpoch: (s) => collect(c, s), extraOutputNames: Object.values(POINTS_FILE_NAMES),
+    extraInputs: [...(cfg.windowsFile ? [cfg.windowsFile] : []), ...(cfg.geoidSpec && cfg.geoidSpec.toLowerCase() !== 'egm96' ? [cfg.geoidSpec] : [])],
+  });
   const failed = (failure: string): PointsSessionOutcome => ({
     outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure, points: [], columns: [], rows: [], outputs: [],
   });
