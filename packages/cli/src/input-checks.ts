@@ -11,9 +11,12 @@ export interface TimeSpan {
 }
 
 /** The span of an observation file: from its header when both TIME OF FIRST/LAST OBS are there, else by reading its epochs. */
-export async function obsTimeSpan(path: string, header: ObsHeader): Promise<TimeSpan | null> {
-  if (header.firstObsGpsS !== null && header.lastObsGpsS !== null) return { firstGpsS: header.firstObsGpsS, lastGpsS: header.lastObsGpsS };
-  const s = await openObs(path, () => {});
+export async function obsTimeSpan(path: string, header: ObsHeader, onWarning: WarningSink = () => {}): Promise<TimeSpan | null> {
+  // Header times are trusted only when they make a span (a damaged TIME OF LAST OBS can precede the first).
+  if (header.firstObsGpsS !== null && header.lastObsGpsS !== null && header.lastObsGpsS >= header.firstObsGpsS) {
+    return { firstGpsS: header.firstObsGpsS, lastGpsS: header.lastObsGpsS };
+  }
+  const s = await openObs(path, onWarning);
   let first = NaN;
   let last = NaN;
   for await (const ep of s.epochs) {

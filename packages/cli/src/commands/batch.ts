@@ -9,9 +9,10 @@
  */
 import { lstat, readdir, rm, stat } from 'node:fs/promises';
 import { prepareOutputFolder } from '../output-folder.js';
+import { noEpochSentence } from '../input-sanity.js';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
-import { InputError, ProcessingError, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds } from '@refdelta/core';
+import { InputError, ProcessingError, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds, type Warning } from '@refdelta/core';
 import { OutputSet, openNav, openObs } from '../node-io.js';
 import { NAV_WINDOW_S, obsTimeSpan, type TimeSpan } from '../input-checks.js';
 import { looksLikeObservationName, rinexKindOfFile, type RinexKind } from '../rinex-kind.js';
@@ -244,9 +245,10 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
     let navs: readonly string[] = navFiles;
     try {
       if (refDir || navDir) {
-        const probe = await openObs(file, () => {});
-        const span = await obsTimeSpan(file, probe.header);
-        if (!span) throw new InputError(file, 0, `${file} holds no observation epochs`);
+        const probeWarnings: Warning[] = [];
+        const probe = await openObs(file, (w) => probeWarnings.push(w));
+        const span = await obsTimeSpan(file, probe.header, (w) => probeWarnings.push(w));
+        if (!span) throw new InputError(file, 0, noEpochSentence(file, probeWarnings));
         if (refDir) references = pickReferences(refCandidates, span, base.maxCorrectionAgeS, refDir);
         if (navDir) navs = pickNav(navCands, span, navDir);
       }

@@ -6,10 +6,11 @@ import {
   GNSS_SYSTEMS, InputError, csvPreamble, epochFeature, geojsonNote, jsonNumber, pointReferenceWords,
   positionScatter, residualRowsOf, RESIDUAL_COLUMNS, solveSession, summaryJson,
   type EcefM, type EpochSolution, type FrameEpoch, type GnssSystem, type InputFileRecord, type ObsHeader, type OutputFileRecord,
-  type PointReference, type SessionOptions, type SessionSummary,
+  type PointReference, type SessionOptions, type SessionSummary, type Warning,
 } from '@refdelta/core';
 import { AtomicFile, OutputSet, openNav, openObs, requireFile, sha256File, type OpenedObs } from '../node-io.js';
 import { prepareOutputFolder } from '../output-folder.js';
+import { noEpochSentence, requireObservationTypes } from '../input-sanity.js';
 import { obsTimeSpan, requireNavigation, requireOverlap, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
 import { referenceSigmaOf } from '../reference-sigma.js';
@@ -182,20 +183,24 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     // The outputs of a plain observation file take about 1.5 times its size (the demo: 2.7 MB from 1.8 MB).
     estimatedBytes: 1.5 * (sizes.get(a.rover) ?? 0),
   });
-  const roverProbe = await openObs(a.rover, () => {});
+  // The probes' warnings are kept: a file with no readable epoch is reported with its first problem.
+  const roverProbeWarnings: Warning[] = [];
+  const roverProbe = await openObs(a.rover, (w) => roverProbeWarnings.push(w));
   const refProbes: OpenedObs[] = [];
-  for (const p of a.reference) refProbes.push(await openObs(p, () => {}));
-  const roverSpan = await obsTimeSpan(a.rover, roverProbe.header);
+  const refProbeWarnings: Warning[] = [];
+  for (const p of a.reference) refProbes.push(await openObs(p, (w) => refProbeWarnings.push(w)));
+  const roverSpan = await obsTimeSpan(a.rover, roverProbe.header, (w) => roverProbeWarnings.push(w));
   // A data problem, not a usage one: exit 1 with one sentence.
-  if (!roverSpan) throw new InputError(a.rover, 0, `${a.rover} holds no observation epochs`);
+  if (!roverSpan) throw new InputError(a.rover, 0, noEpochSentence(a.rover, roverProbeWarnings));
   const refSpans: { path: string; span: TimeSpan }[] = [];
   for (let i = 0; i < a.reference.length; i++) {
-    const sp = await obsTimeSpan(a.reference[i], refProbes[i].header);
+    const sp = await obsTimeSpan(a.reference[i], refProbes[i].header, (w) => refProbeWarnings.push(w));
     if (sp) refSpans.push({ path: a.reference[i], span: sp });
   }
   if (!refSpans.length) {
-    throw new InputError(a.reference[0], 0, `the reference file${a.reference.length > 1 ? 's' : ''} ${a.reference.join(', ')} hold${a.reference.length > 1 ? '' : 's'} no observation epochs`);
+    throw new InputError(a.reference[0], 0, noEpochSentence(`the reference file${a.reference.length > 1 ? 's' : ''} ${a.reference.join(', ')}`, refProbeWarnings, a.reference.length > 1));
   }
+  requireObservationTypes(a.rover, roverProbe.header, base.systems);
   requireOverlap({ path: a.rover, span: roverSpan }, refSpans);
 
   rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: a.reference, nav: a.nav, out: outDir });
@@ -290,7 +295,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
       : standalone.length ? { over: 'standalone epochs (no differential epoch)', stats: positionScatter(standalone) } : undefined;
     const solvedEpochs = summary.epochsRover - summary.epochsByKind.none;
     const top = summary.epochRejections[0]?.reason;
-    const failure = solvedEpochs === 0 ? `no rover epoch of ${a.rover} could be solved${top ? `: most epochs were rejected because of "${top}"` : ''}` : null;
+    const failure = summary.epochsRover === 0 ? noEpochSentence(a.rover, rep.warnings.filter((w) => w.file === a.rover))
+      : solvedEpochs === 0 ? `no rover epoch of ${a.rover} could be solved${top ? `: most epochs were rejected because of "${top}"` : ''}` : null;
     const summaryDoc = (outs: readonly OutputFileRecord[]): Record<string, unknown> => {
       const doc = summaryJson(summary, inputs, options, outs, {
         scatter, software: SOFTWARE, createdUtc: new Date().toISOString(), warnings: rep.warnings, referenceNote: ref.note, referenceSource: ref.source,

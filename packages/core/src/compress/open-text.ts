@@ -39,7 +39,9 @@ const FIRST_LINE_BYTES = 1024;
 export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, opts: OpenTextOptions = {}): Promise<OpenedText> {
   const onWarning = opts.onWarning;
   const layers: Encoding[] = [];
+  let firstDamage: string | null = null;
   const damage = (code: string, message: string, line = 0): void => {
+    firstDamage ??= message;
     if (onWarning) onWarning({ file, line, code, message });
     else throw new InputError(file, line, message);
   };
@@ -60,6 +62,10 @@ export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, o
     src = new PeekableBytes(inner);
   }
   let head = await src.peek(FIRST_LINE_BYTES);
+  if (head.length === 0 && firstDamage !== null) {
+    // Nothing decoded at all: the layer's header itself is damaged (not an empty or non-RINEX file).
+    throw new InputError(file, 0, `the ${layers.join(' + ')} layer is damaged from its first bytes, nothing could be decoded: ${firstDamage}`);
+  }
   if (head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf) {
     // A UTF-8 byte order mark (Unicode 15.0 section 23.8) is not part of the RINEX text: dropped before
     // the one-for-one latin1 decoding, which would turn it into three characters.

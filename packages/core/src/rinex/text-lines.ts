@@ -169,12 +169,22 @@ export class LineCursor {
       }
       this.carry = '';
       this.pos = 0;
+      this.checkTrailingLine();
     }
     if (this.carry !== '') {
       this.buf = flatJoin(this.carry, this.buf.slice(this.pos), '');
       this.carry = '';
       this.pos = 0;
     }
+  }
+
+  /** Throws when the unfinished last line of the buffer is longer than MAX_LINE_CHARS (it would be joined without end). */
+  private checkTrailingLine(): void {
+    const lastNl = this.buf.lastIndexOf('\n');
+    if (this.buf.length - (lastNl + 1) <= MAX_LINE_CHARS) return;
+    let n = this.lineNumber + 1;
+    for (let i = this.buf.indexOf('\n', this.pos); i >= 0 && i <= lastNl; i = this.buf.indexOf('\n', i + 1)) n++;
+    throw new InputError(this.file, n, lineTooLongReason(n));
   }
 
   /** Position after the line just taken, for rewind(); valid until the next fill/ensureAhead. */

@@ -122,6 +122,12 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     }
     if (tally.roverEpochs > 0 && tally.epochsInReach === 0) {
       const span = (a: number, b: number) => (Number.isNaN(a) ? 'no epochs' : `${isoFromSeconds(a, ' GPST')} to ${isoFromSeconds(b, ' GPST')}`);
+      if (Number.isNaN(f.firstGpsS)) throw new ProcessingError(`the reference file${references.length > 1 ? 's' : ''} ${references.map((x) => x.file).join(', ')} gave no readable observation epoch (see the warnings)`);
+      const ageS = options.maxCorrectionAgeS;
+      if (f.firstGpsS <= tally.lastGpsS + ageS && f.lastGpsS >= tally.firstGpsS - ageS) {
+        // The times overlap, yet no reference epoch gave a correction: the orbits are what is missing.
+        throw new ProcessingError(`the rover and reference observations overlap in time (rover ${span(tally.firstGpsS, tally.lastGpsS)}, reference ${span(f.firstGpsS, f.lastGpsS)}) but no reference epoch gave a correction: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for these times (stale, for another day, or damaged)`);
+      }
       throw new ProcessingError(`the rover and reference observations do not overlap in time (rover ${span(tally.firstGpsS, tally.lastGpsS)}, reference ${span(f.firstGpsS, f.lastGpsS)}, correction age limit ${options.maxCorrectionAgeS} s)`);
     }
   }
