@@ -71,3 +71,14 @@ describe('sentences that name the real problem (demo files, damaged on purpose)'
     expect(s).toMatch(/r\.obs.* line 31 is longer than 1,048,576 characters/);
   });
 });
+
+describe('geoid grids checked before the run (fixtures/geo/tiny-geoid.txt, an invented grid)', () => {
+  it('a grid that does not cover the survey area is one sentence before any epoch is solved', () => {
+    const r = runCli(['points', '--rover', demo('rover-1s.obs'), '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
+      '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--geoid', join(REPO_ROOT, 'fixtures/geo/tiny-geoid.txt'), '--out', tempDir('rd-geoid-')]);
+    expect(r.status).toBe(1);
+    expect(r.stderr).not.toMatch(/rover epochs/);
+    expect(expectOneSentence({ ...r, stderr: r.stderr.split('\n').filter((l) => !l.startsWith('warning') && !l.startsWith('note')).join('\n') }))
+      .toMatch(/geoid grid .*tiny-geoid\.txt does not cover the survey area/);
+  });
+});

@@ -13,7 +13,7 @@ import {
   loadEgm96, makeProjection, parseGeoidGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
   pointsPreamble, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
-  type PointReference, type PointResult, type Projection,
+  type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad,
 } from '@refdelta/core';
 import { requireFile } from '../node-io.js';
 import { parseNumber } from '../parse-values.js';
@@ -51,6 +51,16 @@ function collect(c: Collected, s: EpochSolution): void {
     ...(s.occupationEvent ? { event: { kind: s.occupationEvent, ...(s.occupationEvent === 'new-occupation' ? { markerName: s.pointName } : {}) } } : {}),
     speedMS: s.speedMS,
   });
+}
+
+/** One sentence, before the run, when a user geoid grid does not cover the reference point. */
+function requireGeoidCovers(g: GeoidModel, spec: string, at: GeodeticRad): void {
+  try {
+    g.undulationM(radToDeg(at.latRad), radToDeg(at.lonRad));
+  } catch (e) {
+    if (e instanceof RangeError) throw new ProcessingError(`the geoid grid ${spec} does not cover the survey area (checked at the reference point): ${e.message}`);
+    throw e;
+  }
 }
 
 async function loadGeoid(spec: string): Promise<GeoidModel> {
@@ -123,6 +133,11 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
   const c: Collected = { epochs: [], marks: [], frame: null, pointReference: a.atAntenna === true ? 'antenna-reference-point' : 'ground-mark' };
   const st = await stageSolve(a, rep, {
     command, onEpoch: (s) => collect(c, s), extraOutputNames: Object.values(POINTS_FILE_NAMES),
+    beforeRun: async (refEcef) => {
+      // The geoid grid is read, and must cover the survey area, before the run (not after it).
+      const g = await cfg.geoid();
+      if (g && cfg.geoidSpec) requireGeoidCovers(g, cfg.geoidSpec, ecefToGeodetic(refEcef));
+    },
     extraInputs: [...(cfg.windowsFile ? [cfg.windowsFile] : []), ...(cfg.geoidSpec && cfg.geoidSpec.toLowerCase() !== 'egm96' ? [cfg.geoidSpec] : [])],
   });
   const failed = (failure: string): PointsSessionOutcome => ({
@@ -176,7 +191,13 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
       notes: [`occupations from ${occupations[0].source === 'windows' ? `the windows file ${cfg.windowsFile}` : occupations[0].source === 'events' ? 'the RINEX event flags of the rover file' : 'static detection on the Doppler speed'}`],
     };
     const columns = pointsColumns(table);
-    const rows = outcome.points.map((p) => pointRow(p, table));
+    let rows: string[][];
+    try {
+      rows = outcome.points.map((p) => pointRow(p, table));
+    } catch (e) {
+      if (e instanceof RangeError && cfg.geoidSpec) throw new ProcessingError(`the geoid grid ${cfg.geoidSpec} does not cover every point: ${e.message}`);
+      throw e;
+    }
     const csv = pointsPreamble(table).join('\n') + '\n' + csvText([columns, ...rows]);
     await st.set.add('points', join(st.outDir, POINTS_FILE_NAMES.csv), [csv]);
     await st.set.add('points-geojson', join(st.outDir, POINTS_FILE_NAMES.geojson), [JSON.stringify(pointsGeoJson(outcome.points, table), null, 1) + '\n']);

@@ -133,6 +133,8 @@ export interface SolveHooks {
   readonly extraOutputNames?: readonly string[];
   /** Other input files the caller reads (never overwritten by an output). */
   readonly extraInputs?: readonly string[];
+  /** Checks of the caller's own inputs at the reference point, made once it is known and before the run. */
+  readonly beforeRun?: (referenceEcef: EcefM) => Promise<void>;
 }
 
 /**
@@ -233,6 +235,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     // Code-differential errors grow about 1 m per 100-150 km of baseline (check-values.md, Navipedia "DGNSS Fundamentals").
     if (km > 300) rep.warn({ file: a.rover, line: 0, code: 'long-baseline', message: `the reference coordinate is ${km.toFixed(0)} km from the rover's header position: check the coordinate (and its sign) or expect metre-level degradation` });
   }
+
+  await hooks.beforeRun?.(ref.position.ecef);
 
   // 4. The run. Streams are opened afresh (the probes only read headers).
   const rover = await openObs(a.rover, rep.warn);

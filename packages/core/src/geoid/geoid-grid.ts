@@ -60,6 +60,11 @@ export function parseGeoidGrid(file: string, text: string): GeoidModel {
   };
   const name = keyed('name');
   const heightReference = keyed('height_reference');
+  // Each value takes at least two characters ('0' and a separator): a larger count is a damaged extent
+  // line, refused before an array of that size is asked for.
+  if (nRows * nCols > text.length / 2) {
+    throw new InputError(file, ext.line, `the extent and spacings declare ${nRows} rows of ${nCols} values (${(nRows * nCols).toExponential(2)}), more than the file's ${text.length} characters can hold`);
+  }
   const values = new Float64Array(nRows * nCols);
   let k = 0;
   for (let l = next(); l; l = next()) {

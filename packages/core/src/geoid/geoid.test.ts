@@ -62,3 +62,10 @@ describe('user geoid grid (refdelta-geoid-grid 1)', () => {
     expect(() => parseGeoidGrid('x.txt', text.replace('0.5 0.5', '0.5 0'))).toThrow(/^x\.txt:3:/);
   });
 });
+
+describe('damaged grid extents (bounded memory)', () => {
+  it('an extent declaring more values than the file can hold is refused at its line', () => {
+    const text = 'refdelta-geoid-grid 1\n-90 90 -180 180 0.00001 0.00001\nname: x\nheight_reference: y\n1 2 3 4\n';
+    expect(() => parseGeoidGrid('g.txt', text)).toThrow(/g\.txt:2: the extent and spacings declare/);
+  });
+});
