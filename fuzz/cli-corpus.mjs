@@ -67,7 +67,7 @@ function run(args, timeoutMs) {
   });
 }
 
-export async function runCliCorpus({ seed, workers = 2, log = console.log, perSource = 20 }) {
+export async function runCliCorpus({ seed, workers = 2, log = console.log, perSource = 20, solve = true }) {
   const r = prng(seed ^ 0x5eed);
   const dir = mkdtempSync(join(tmpdir(), 'rd-fuzz-cli-'));
   const cases = [];
@@ -79,7 +79,7 @@ export async function runCliCorpus({ seed, workers = 2, log = console.log, perSo
       const f = join(dir, `${k}-${basename(src)}`);
       writeFileSync(f, DAMAGES[dmg](r, b));
       cases.push({ src, dmg, file: f, args: ['inspect', f] });
-      if (/base\.obs|glw1277m\.18[on]$/.test(src) && k % 4 === 0) {
+      if (solve && /base\.obs|glw1277m\.18[on]$/.test(src) && k % 4 === 0) {
         const rover = src.endsWith('base.obs') ? f : join(S, 'static-run/base.obs');
         const ref = src.endsWith('.18o') ? f : join(S, 'reference/glw1277m.18o');
         const nav = src.endsWith('.18n') ? f : join(S, 'reference/glw1277m.18n');
