@@ -7,7 +7,7 @@ import { constants as FS, realpathSync } from 'node:fs';
 import { access, mkdir, open, rm, stat, statfs } from 'node:fs/promises';
 import { dirname, join, resolve, sep } from 'node:path';
 import { ProcessingError } from '@refdelta/core';
-import { recoverOutputFolder } from './output-commit.js';
+import { recoverOutputFolder, registerTemporary, releaseTemporary } from './output-commit.js';
 
 /** Kernel file systems where Node's recursive mkdir can loop (it retries on an ENOENT that never clears). */
 const KERNEL_FOLDERS = ['/proc', '/sys', '/dev'];
@@ -107,6 +107,7 @@ export async function prepareOutputFolder(c: OutputFolderCheck): Promise<void> {
   }
   // Writable in fact (a read-only mount passes access() for root): a probe file.
   const probe = join(there, `.refdelta-probe.${process.pid}.${Date.now().toString(36)}.tmp`);
+  registerTemporary(probe);
   try {
     const fh = await open(probe, 'wx');
     await fh.close();
@@ -114,6 +115,7 @@ export async function prepareOutputFolder(c: OutputFolderCheck): Promise<void> {
     fail((e as NodeJS.ErrnoException).code, dir, `the output folder ${dir} is not writable`);
   } finally {
     await rm(probe, { force: true }).catch(() => {});
+    releaseTemporary(probe);
   }
   if (st) recoverOutputFolder(dir);
   const outs = new Map(c.outputNames.map((n) => [realOrSelf(join(dir, n)), n]));
