@@ -41,7 +41,7 @@ describe('data problems are exit 1 with one sentence, not usage errors (finding 
     writeFileSync(rover, lines.slice(0, end + 1).filter((l) => !l.includes('TIME OF LAST OBS')).join('\n') + '\n');
     const r = runCli(['solve', '--rover', rover, ...FILES, ...MARK, '--out', join(d, 'out')]);
     expect(r.status).toBe(1);
-    expect(expectOneSentence(r)).toMatch(/holds no observation epochs/);
+    expect(expectOneSentence(r)).toMatch(/holds no readable observation epoch/);
   });
 });
 
