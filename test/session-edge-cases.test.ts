@@ -44,7 +44,9 @@ describe('session edge cases (self-consistency, simulated)', () => {
   });
 
   it('files that do not overlap in time give one clear ProcessingError', async () => {
-    const before = reference.filter((e) => e.tagGpsS < rover[0].tagGpsS - 100);
+    // the reference moved 6 h earlier (the simulated reference starts only 60 s before the rover, so a
+    // filter on time would leave it empty: that is reported as a reference without epochs)
+    const before = reference.map((e) => ({ ...e, tagGpsS: e.tagGpsS - 6 * 3600 }));
     await expect(run(sim, rover, before)).rejects.toThrow(ProcessingError);
     await expect(run(sim, rover, before)).rejects.toThrow(/do not overlap in time/);
   });

@@ -31,7 +31,7 @@ import type { NavData } from '../gnss/index.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
 import { EphemerisStore } from '../orbit/index.js';
 import { arpToMark, azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, markToArp } from '../geodesy/index.js';
-import { decimalYearFromGpsS } from '../time/index.js';
+import { decimalYearFromGpsS, isoFromSeconds } from '../time/index.js';
 import { dayOfYear, troposphereDelayM } from '../observables/index.js';
 import { dopplerVelocity } from '../velocity/index.js';
 import { dilutionOfPrecision } from '../solve/index.js';
@@ -206,14 +206,20 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const refIter = joinReferenceStreams(inputs.references)[Symbol.asyncIterator]();
   let refDone = false;
   let refClockM = NaN;
+  /** Span of the reference epochs read, and how many could be positioned (for the sentence when none is in reach). */
+  const refSeen = { firstGpsS: NaN, lastGpsS: NaN, positioned: 0 };
+  const roverSeen = { firstGpsS: NaN, lastGpsS: NaN, positioned: 0 };
   async function pullReference(untilGpsS: number): Promise<void> {
     while (!refDone && refBuffer.latestTimeGpsS <= untilGpsS) {
       const r = await refIter.next();
       if (r.done) { refDone = true; break; }
       const e = r.value.epoch;
       if (e.flag > 1 || e.sats.length === 0) continue;
+      if (Number.isNaN(refSeen.firstGpsS)) refSeen.firstGpsS = e.tagGpsS;
+      refSeen.lastGpsS = e.tagGpsS;
       const ep = prepareReceiverEpoch(e, ctx, refArp, refClockM);
       if (!Number.isFinite(ep.clockM)) continue;
+      refSeen.positioned++;
       refClockM = ep.clockM;
       if (refCal) applyAntenna(ep, refArp, refGeo, refCal);
       const arcs = refTracker.update(ep.timeGpsS, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
@@ -271,6 +277,15 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   }
   if (carrier.dynamics === 'auto' && firstEvent === 'start-moving') rec.isStatic.fill(1, 0, firstMovingRecord);
   if (rec.count > 0 && epochsWithReference === 0) {
+    const files = (xs: readonly { file: string }[]) => xs.map((x) => x.file).join(', ');
+    if (roverSeen.positioned === 0) {
+      throw new ProcessingError(`no rover epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the rover's satellites at its times (${isoFromSeconds(roverSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(roverSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged), or ${rover.file} holds no usable pseudorange`);
+    }
+    if (Number.isNaN(refSeen.firstGpsS)) throw new ProcessingError(`the reference file${inputs.references.length > 1 ? 's' : ''} ${files(inputs.references)} gave no readable observation epoch (see the warnings)`);
+    if (refSeen.positioned === 0) {
+      // Reference epochs were read but none could be used: the orbits are what is missing, not the overlap.
+      throw new ProcessingError(`no reference epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the reference's times (${isoFromSeconds(refSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(refSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged)`);
+    }
     throw new ProcessingError(`the rover and reference observations do not overlap in time (no reference epoch within ${carrier.maxReferenceAgeS} s of any rover epoch)`);
   }
   if (maxBaselineM > 10_000) {
@@ -280,9 +295,12 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   }
 
   async function prepareRoverEpoch(e: ObsEpoch, isStatic: boolean, context: number): Promise<string> {
+    if (Number.isNaN(roverSeen.firstGpsS)) roverSeen.firstGpsS = e.tagGpsS;
+    roverSeen.lastGpsS = e.tagGpsS;
     const ep = prepareReceiverEpoch(e, ctx, x0, roverClockM);
     if (!Number.isFinite(ep.clockM)) { rec.beginEpoch(e.tagGpsS, e.tagGpsS, x0, isStatic, NaN, context); return 'no usable satellite'; }
     roverClockM = ep.clockM;
+    roverSeen.positioned++;
     const t = ep.timeGpsS;
     if (roverCal) applyAntenna(ep, x0, ecefToGeodetic(x0), roverCal);
     const arcs = roverTracker.update(t, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
