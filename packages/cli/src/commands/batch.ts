@@ -234,7 +234,7 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   });
   // The batch index describes the session folders of one run: it goes before the first of them changes,
   // and the new one is committed at the end.
-  for (const f of Object.values(BATCH_FILE_NAMES)) await rm(join(outDir, f), { force: true });
+  for (const f of [...Object.values(BATCH_FILE_NAMES), REPORT_FILE_NAME]) await rm(join(outDir, f), { force: true });
   const records: SessionRecord[] = [];
   const batchRows: { session: string; cells: Record<string, string> }[] = [];
   let columns: string[] | null = null;
