@@ -5,7 +5,16 @@ export function fixed(x: number | null | undefined, decimals: number): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '';
   const t = x.toFixed(decimals);
   // '-0.000' reads as a sign where there is none.
-  return /^-0\.?0*$/.test(t) ? t.slice(1) : t;
+  return t.charCodeAt(0) === 45 && onlyZeros(t, 1) ? t.slice(1) : t;
+}
+
+/** True when t from index `from` holds nothing but '0' and '.' (a negative number that rounded to zero). */
+function onlyZeros(t: string, from: number): boolean {
+  for (let i = from; i < t.length; i++) {
+    const c = t.charCodeAt(i);
+    if (c !== 48 && c !== 46) return false;
+  }
+  return true;
 }
 
 /** A number kept for JSON output: null for NaN/infinities (JSON has no NaN), rounded to `decimals`. */
