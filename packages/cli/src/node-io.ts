@@ -41,10 +41,19 @@ export interface OpenedText {
   readonly text: AsyncIterable<string>;
 }
 
+/**
+ * Bytes to characters one for one by Node's latin1 decoding (ISO-8859-1), 2-3x the speed of the core's
+ * default TextDecoder('latin1') (windows-1252). RINEX is ASCII: the two differ only on bytes 0x80-0x9F,
+ * which can stand in a comment, one character each, so no column moves.
+ */
+export function latin1Text(bytes: Uint8Array): string {
+  return Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('latin1');
+}
+
 /** Opens a file through the decompression stage (gzip, Unix compress, compact RINEX detected by content). */
 export async function openTextFile(path: string, onWarning: WarningSink): Promise<OpenedText> {
   await requireFile(path);
-  const opened = await openText(path, fileChunks(path), { onWarning });
+  const opened = await openText(path, fileChunks(path), { onWarning, decodeLatin1: latin1Text });
   return { layers: layerNames(opened.layers), text: opened.text };
 }
 

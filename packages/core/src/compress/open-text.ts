@@ -21,6 +21,12 @@ import { lineTooLongReason, MAX_LINE_CHARS } from '../text-limits.js';
 
 export interface OpenTextOptions {
   readonly onWarning?: WarningSink;
+  /**
+   * Bytes to characters one for one, e.g. Node's Buffer latin1 decoding (2-3x TextDecoder there).
+   * Default: TextDecoder('latin1'), which runs everywhere. The stream is cut at arbitrary bytes, so
+   * the decoder must map each byte to one character.
+   */
+  readonly decodeLatin1?: (bytes: Uint8Array) => string;
 }
 
 export interface OpenedText {
@@ -90,7 +96,7 @@ export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, o
       message: `the name suggests ${hinted.join(' + ')} but the content is ${layers.length > 0 ? layers.join(' + ') : 'plain text'}; read by content`,
     });
   }
-  const chars = decodeLatin1(src.chunks());
+  const chars = opts.decodeLatin1 ? decodeBytewise(src.chunks(), opts.decodeLatin1) : decodeLatin1(src.chunks());
   const text = crx === null ? normaliseLineEnds(chars) : decodeCompact(file, crx, chars, onWarning);
   return { layers: layers.length > 0 ? layers : ['plain'], text };
 }
@@ -123,6 +129,11 @@ async function* decodeLatin1(bytes: AsyncIterable<Uint8Array>): AsyncIterable<st
   }
   const tail = dec.decode();
   if (tail.length > 0) yield tail;
+}
+
+/** Bytes to characters by a single-byte decoder given by the caller. */
+async function* decodeBytewise(bytes: AsyncIterable<Uint8Array>, decode: (bytes: Uint8Array) => string): AsyncIterable<string> {
+  for await (const b of bytes) if (b.length > 0) yield decode(b);
 }
 
 async function* normaliseLineEnds(chunks: AsyncIterable<string>): AsyncIterable<string> {
