@@ -85,6 +85,8 @@ function transmitGpsS(eph: Ephemeris): number {
 export class EphemerisStore {
   private readonly bySat = new Map<SatId, Ephemeris[]>();
   private readonly byKey = new Map<string, Ephemeris>();
+  /** Per satellite: its records' reference times and the last selection (made on first use). */
+  private readonly issueIndex = new Map<SatId, SatelliteIssues | null>();
   /** Number of duplicate records dropped (same issue key seen again). */
   readonly duplicatesRemoved: number;
 
@@ -143,39 +145,127 @@ export class EphemerisStore {
 
   /** The issue to use for sat at GPS time t, or the reason there is none. */
   select(sat: SatId, tGpsS: number, opts: SelectOptions = {}): Selection {
-    const arr = this.bySat.get(sat);
-    if (arr === undefined || arr.length === 0) return { eph: null, reason: 'no-ephemeris' };
+    const index = this.indexOf(sat);
+    if (index === null) return { eph: null, reason: 'no-ephemeris' };
     const marginS = opts.marginS ?? DEFAULT_MARGIN_S;
-    const window = validityS(arr[0]) + marginS;
-    // First record with reference time >= t - window (binary search on the sorted list).
-    let lo = 0;
-    let hi = arr.length;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (referenceTimeGpsS(arr[mid]) < tGpsS - window) lo = mid + 1; else hi = mid;
-    }
+    const allowUnhealthy = opts.allowUnhealthy === true;
     const wantFnav = opts.galileoClock === 'FNAV';
-    let best: Ephemeris | null = null;
-    let bestScore = Infinity;
-    let sawValid = false;
-    for (let i = lo; i < arr.length; i++) {
-      const eph = arr[i];
-      const ref = referenceTimeGpsS(eph);
-      if (ref > tGpsS + window) break;
-      sawValid = true;
-      if (!opts.allowUnhealthy && !isHealthy(eph)) continue;
-      // Score: distance in time, then penalties so that preferred records win whatever their distance.
-      let score = Math.abs(tGpsS - ref);
-      const tx = transmitGpsS(eph);
-      if (tx > tGpsS) score += 1e7; // not yet transmitted at t: only when nothing else
-      if (eph.kind === 'kepler' && eph.system === 'E' && isGalileoFnav(eph as KeplerEphemeris) !== wantFnav) score += 1e8;
-      // Ties (equal distance): the later issue (larger reference time, then later in the list) wins.
-      if (score <= bestScore) { best = eph; bestScore = score; }
+    // The same question is asked several times per epoch (rover fix, Doppler velocity): the last answer is kept.
+    const last = index.last;
+    if (last !== null && last.tGpsS === tGpsS && last.marginS === marginS && last.allowUnhealthy === allowUnhealthy && last.wantFnav === wantFnav) {
+      return last.selection;
     }
-    if (best !== null) return { eph: best, ageS: tGpsS - referenceTimeGpsS(best) };
-    if (sawValid) return { eph: null, reason: 'unhealthy' };
+    const selection = chooseIssue(index, tGpsS, marginS, allowUnhealthy, wantFnav);
+    index.last = { tGpsS, marginS, allowUnhealthy, wantFnav, selection };
+    return selection;
+  }
+
+  private indexOf(sat: SatId): SatelliteIssues | null {
+    let index = this.issueIndex.get(sat);
+    if (index === undefined) {
+      const list = this.bySat.get(sat);
+      index = list === undefined || list.length === 0 ? null : {
+        list,
+        refGpsS: Float64Array.from(list, referenceTimeGpsS),
+        validityS: validityS(list[0]),
+        last: null,
+      };
+      this.issueIndex.set(sat, index);
+    }
+    return index;
+  }
+}
+
+/** One satellite's records with their reference times (sorted), and the last selection made. */
+interface SatelliteIssues {
+  readonly list: readonly Ephemeris[];
+  readonly refGpsS: Float64Array;
+  readonly validityS: number;
+  last: { readonly tGpsS: number; readonly marginS: number; readonly allowUnhealthy: boolean; readonly wantFnav: boolean; readonly selection: Selection } | null;
+}
+
+/** Penalty added to the time distance of a record not yet transmitted at t (used only when nothing else is). */
+const NOT_YET_TRANSMITTED_S = 1e7;
+/** Penalty of a Galileo record of the other clock (I/NAV vs F/NAV): preferred records win whatever their distance. */
+const OTHER_GALILEO_CLOCK_S = 1e8;
+
+/** Penalty of a usable record (0 = preferred), or -1 when it is not usable (unhealthy and not allowed). */
+function penaltyS(eph: Ephemeris, tGpsS: number, allowUnhealthy: boolean, wantFnav: boolean): number {
+  if (!allowUnhealthy && !isHealthy(eph)) return -1;
+  let p = 0;
+  if (transmitGpsS(eph) > tGpsS) p += NOT_YET_TRANSMITTED_S;
+  if (eph.kind === 'kepler' && eph.system === 'E' && isGalileoFnav(eph) !== wantFnav) p += OTHER_GALILEO_CLOCK_S;
+  return p;
+}
+
+/**
+ * The record with the smallest score = |t - reference time| + penalty within the validity window;
+ * ties go to the later issue (larger reference time, then later in the list). A record without
+ * penalty is looked for outward from t (nearest first), so a long window (Galileo: 10-minute issues
+ * over +-4 h) is not scanned whole; when there is none, every record of the window is scored.
+ */
+function chooseIssue(index: SatelliteIssues, tGpsS: number, marginS: number, allowUnhealthy: boolean, wantFnav: boolean): Selection {
+  const { list, refGpsS } = index;
+  const window = index.validityS + marginS;
+  // First record with reference time >= t - window, and first with reference time > t (binary searches).
+  const lo = firstAtOrAfter(refGpsS, tGpsS - window, 0);
+  let hi = lo;
+  while (hi < refGpsS.length && refGpsS[hi]! <= tGpsS + window) hi++;
+  if (lo === hi) {
     let ageS = Infinity;
-    for (const eph of arr) ageS = Math.min(ageS, Math.abs(tGpsS - referenceTimeGpsS(eph)));
+    for (let i = 0; i < refGpsS.length; i++) ageS = Math.min(ageS, Math.abs(tGpsS - refGpsS[i]!));
     return { eph: null, reason: 'too-old', ageS };
   }
+  const pick = (i: number): Selection => ({ eph: list[i]!, ageS: tGpsS - refGpsS[i]! });
+  // Nearest record without penalty, walking out from t; the penalties exceed any distance in the window.
+  if (window < NOT_YET_TRANSMITTED_S / 2) {
+    const mid = firstAfter(refGpsS, tGpsS, lo, hi);
+    let left = mid - 1, right = mid;
+    let found = -1;
+    let foundDistS = Infinity;
+    while (left >= lo || right < hi) {
+      const dl = left >= lo ? tGpsS - refGpsS[left]! : Infinity;
+      const dr = right < hi ? refGpsS[right]! - tGpsS : Infinity;
+      const d = dl < dr ? dl : dr;
+      if (d > foundDistS) break;
+      if (dl < dr) {
+        if (found < 0 && penaltyS(list[left]!, tGpsS, allowUnhealthy, wantFnav) === 0) { found = left; foundDistS = dl; }
+        left--;
+      } else {
+        // Right side first on equal distance: its indices are larger, and the later issue wins a tie.
+        if (penaltyS(list[right]!, tGpsS, allowUnhealthy, wantFnav) === 0 && (found < 0 || right > found)) { found = right; foundDistS = dr; }
+        right++;
+      }
+    }
+    if (found >= 0) return pick(found);
+  }
+  let best = -1;
+  let bestScore = Infinity;
+  for (let i = lo; i < hi; i++) {
+    const p = penaltyS(list[i]!, tGpsS, allowUnhealthy, wantFnav);
+    if (p < 0) continue;
+    const score = Math.abs(tGpsS - refGpsS[i]!) + p;
+    if (score <= bestScore) { best = i; bestScore = score; }
+  }
+  return best >= 0 ? pick(best) : { eph: null, reason: 'unhealthy' };
+}
+
+/** First index i >= from with a[i] >= x (a sorted ascending). */
+function firstAtOrAfter(a: Float64Array, x: number, from: number): number {
+  let lo = from, hi = a.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (a[mid]! < x) lo = mid + 1; else hi = mid;
+  }
+  return lo;
+}
+
+/** First index i in [from, to) with a[i] > x, or `to`. */
+function firstAfter(a: Float64Array, x: number, from: number, to: number): number {
+  let lo = from, hi = to;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (a[mid]! <= x) lo = mid + 1; else hi = mid;
+  }
+  return lo;
 }
