@@ -1,3 +1,4 @@
 #!/usr/bin/env node
-// The refdelta command: runs the built CLI (npm install builds it; see the root package.json "prepare").
-import "../dist/main.js";
+// The refdelta command: runs the built CLI as one bundled file (npm install builds it; see the root
+// package.json "build"), which starts about twice as fast as loading its modules one by one.
+import "../dist/refdelta.mjs";
