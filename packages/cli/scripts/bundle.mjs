@@ -8,9 +8,11 @@ import { fileURLToPath } from 'node:url';
 
 const cli = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 
+// The command, and the script of the batch worker threads (dist/batch-worker-thread.mjs beside it).
 await build({
-  entryPoints: [resolve(cli, 'dist/main.js')],
-  outfile: resolve(cli, 'dist/refdelta.mjs'),
+  entryPoints: { refdelta: resolve(cli, 'dist/main.js'), 'batch-worker-thread': resolve(cli, 'dist/batch-worker-thread.js') },
+  outdir: resolve(cli, 'dist'),
+  outExtension: { '.js': '.mjs' },
   bundle: true,
   platform: 'node',
   format: 'esm',

@@ -129,7 +129,8 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
             .option('reference-dir', { type: 'string', describe: 'folder of reference observation files: each session uses those overlapping its time span', group: 'Files:' })
             .option('nav', { type: 'string', array: true, describe: 'navigation file(s) for every session', group: 'Files:' })
             .option('nav-dir', { type: 'string', describe: 'folder of navigation files: each session uses those with ephemerides for its time span', group: 'Files:' })
-            .option('out', { type: 'string', demandOption: true, describe: 'output folder: OUT/<session>/ per session, batch-points.csv, batch-summary.json', group: 'Files:' }),
+            .option('out', { type: 'string', demandOption: true, describe: 'output folder: OUT/<session>/ per session, batch-points.csv, batch-summary.json', group: 'Files:' })
+            .option('jobs', { type: 'string', describe: 'sessions processed at once, on worker threads (default: the cores); outputs are the same for any value' }),
         )))
           .example('refdelta batch --sessions field/ --reference-dir cors/ --nav-dir cors/ --ref-from-header --out out/batch', 'every session of field/ against the CORS hours that overlap it'),
       async (args) => {
@@ -137,7 +138,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
         const p = pointsArgsFrom({ ...a, rover: '' });
         const ba: BatchArgs = {
           ...p, sessions: a.sessions, reference: (a.reference as string[] | undefined) ?? [], nav: (a.nav as string[] | undefined) ?? [],
-          referenceDir: a.referenceDir, navDir: a.navDir,
+          referenceDir: a.referenceDir, navDir: a.navDir, jobs: a.jobs,
         };
         rep = new Reporter({ quiet: ba.quiet ?? false, jsonLines: ba.jsonLines ?? false });
         exitCode = await runBatch(ba, rep);

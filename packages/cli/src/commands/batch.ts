@@ -25,6 +25,7 @@ import { EXIT_BATCH_PARTIAL, EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
 import { UsageError } from '../usage-error.js';
 import { SOFTWARE } from '../software.js';
 import { parsePointsConfig, runPointsSession, type PointsArgs, type PointsConfig } from './points.js';
+import { parseJobs, runBatchSessions } from '../batch-workers.js';
 
 export interface BatchArgs extends Omit<PointsArgs, 'rover' | 'reference' | 'nav'> {
   readonly sessions: unknown;
@@ -32,6 +33,8 @@ export interface BatchArgs extends Omit<PointsArgs, 'rover' | 'reference' | 'nav
   readonly referenceDir?: unknown;
   readonly nav?: readonly string[];
   readonly navDir?: unknown;
+  /** Sessions run at once (worker threads); default: the cores. */
+  readonly jobs?: unknown;
 }
 
 export const BATCH_FILE_NAMES = { summary: 'batch-summary.json', points: 'batch-points.csv' } as const;
@@ -103,9 +106,9 @@ function when(gpsS: number): string {
 }
 
 /** Reference observation files of a folder with their spans and station names (read once). */
-interface ReferenceCandidate { readonly path: string; readonly span: TimeSpan; readonly marker: string }
+export interface ReferenceCandidate { readonly path: string; readonly span: TimeSpan; readonly marker: string }
 /** Navigation files of a folder with the span of their ephemeris reference times. */
-interface NavCandidate { readonly path: string; readonly span: TimeSpan }
+export interface NavCandidate { readonly path: string; readonly span: TimeSpan }
 
 async function referenceCandidates(files: readonly Candidate[]): Promise<ReferenceCandidate[]> {
   const out: ReferenceCandidate[] = [];
@@ -184,6 +187,70 @@ const ECHOED_OPTIONS = [
   'maxAge', 'fallbackStandalone', 'windows', 'toleranceH', 'toleranceV', 'projection', 'geoid',
 ] as const;
 
+/** One session of a batch, as plain data (it may be sent to a worker thread). */
+export interface BatchSessionJob {
+  readonly index: number;
+  readonly name: string;
+  readonly file: string;
+}
+
+/** What every session of a batch shares (plain data). */
+export interface BatchSessionContext {
+  readonly args: BatchArgs;
+  readonly refDir: string | null;
+  readonly navDir: string | null;
+  readonly refCandidates: readonly ReferenceCandidate[];
+  readonly navCandidates: readonly NavCandidate[];
+  readonly maxCorrectionAgeS: number;
+}
+
+/** A session's outcome: its record, its rows of batch-points.csv, and the sentence of a failure. */
+export interface BatchSessionResult {
+  readonly record: SessionRecord;
+  readonly columns: readonly string[];
+  readonly rows: readonly { readonly session: string; readonly cells: Record<string, string> }[];
+  /** 'session NAME failed and was skipped: ...' for a failed session, else null. */
+  readonly problem: string | null;
+}
+
+/** One points run of a batch; a failure becomes a failed record (a UsageError is thrown: it would fail every session). */
+export async function runBatchSession(job: BatchSessionJob, ctx: BatchSessionContext, cfg: PointsConfig, rep: Reporter): Promise<BatchSessionResult> {
+  const { name, file } = job;
+  const a = ctx.args;
+  const srep = rep.child({ session: name }, `[${name}] `);
+  let references: readonly string[] = a.reference ?? [];
+  let navs: readonly string[] = a.nav ?? [];
+  try {
+    if (ctx.refDir || ctx.navDir) {
+      const probeWarnings: Warning[] = [];
+      const probe = await openObs(file, (w) => probeWarnings.push(w));
+      const span = await obsTimeSpan(file, probe.header, (w) => probeWarnings.push(w));
+      if (!span) throw new InputError(file, 0, noEpochSentence(file, probeWarnings));
+      if (ctx.refDir) references = pickReferences(ctx.refCandidates, span, ctx.maxCorrectionAgeS, ctx.refDir);
+      if (ctx.navDir) navs = pickNav(ctx.navCandidates, span, ctx.navDir);
+    }
+    srep.info(`session ${name}: ${file} against ${references.map((p) => basename(p)).join(', ')}`);
+    const r = await runPointsSession({ ...a, rover: file, reference: references, nav: navs, out: join(resolve(a.out), name) }, cfg, srep, 'batch-session');
+    if (r.failure) throw new ProcessingError(r.failure);
+    const rows = r.rows.map((row) => ({ session: name, cells: Object.fromEntries(r.columns.map((c, k) => [c, row[k] ?? ''])) }));
+    srep.event('session', { status: 'ok', file, epochs: r.roverEpochs, solved_epochs: r.solvedEpochs, points: r.points.length, out: r.outDir });
+    return {
+      record: { name, file, status: 'ok', reason: null, roverEpochs: r.roverEpochs, solvedEpochs: r.solvedEpochs, points: r.points.length, out: r.outDir, referenceFiles: references, navFiles: navs },
+      columns: r.columns, rows, problem: null,
+    };
+  } catch (e) {
+    // The same wrong command line would fail every session: stop with exit 2.
+    if (e instanceof UsageError) throw e;
+    const sentence = describeFailure(e).sentence;
+    const reason = sentence.includes(file) || sentence.includes(basename(file)) ? sentence : `${file}: ${sentence}`;
+    srep.event('session', { status: 'failed', file, reason });
+    return {
+      record: { name, file, status: 'failed', reason, roverEpochs: null, solvedEpochs: null, points: 0, out: null, referenceFiles: references, navFiles: navs },
+      columns: [], rows: [], problem: `session ${name} failed and was skipped: ${reason}`,
+    };
+  }
+}
+
 export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   // 1. The command line, checked once for all sessions.
   if (a.sessions === undefined || String(a.sessions).trim() === '') throw new UsageError('give the folder of rover sessions with --sessions DIR');
@@ -197,6 +264,7 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   const base = parseSessionOptions(a);
   parseAntennaHeights(a);
   const outputKinds = parseOutputs(a.outputs);
+  parseJobs(a.jobs);
   const cfg: PointsConfig = await parsePointsConfig({ ...a, rover: '', reference: [], nav: [] });
   const sessionsDir = resolve(String(a.sessions));
   const outDir = resolve(a.out);
@@ -217,7 +285,8 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   const refCandidates = refDir ? await referenceCandidates(await folderFiles(refDir, '--reference-dir')) : [];
   const navCands = navDir ? await navCandidates(await folderFiles(navDir, '--nav-dir')) : [];
 
-  // 3. One points run per session; a failure is reported and the next session goes on.
+  // 3. One points run per session, in parallel over --jobs worker threads; a failure is reported and
+  // the next session goes on. Results come back in session order, as from a serial run.
   const names = sessionNames(sessionFiles);
   const renamed: { file: string; folder: string }[] = [];
   for (const [i, file] of sessionFiles.entries()) {
@@ -238,37 +307,14 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   const records: SessionRecord[] = [];
   const batchRows: { session: string; cells: Record<string, string> }[] = [];
   let columns: string[] | null = null;
-  for (const [i, file] of sessionFiles.entries()) {
-    const name = names[i];
-    const srep = rep.child({ session: name }, `[${name}] `);
-    let references: readonly string[] = refFiles;
-    let navs: readonly string[] = navFiles;
-    try {
-      if (refDir || navDir) {
-        const probeWarnings: Warning[] = [];
-        const probe = await openObs(file, (w) => probeWarnings.push(w));
-        const span = await obsTimeSpan(file, probe.header, (w) => probeWarnings.push(w));
-        if (!span) throw new InputError(file, 0, noEpochSentence(file, probeWarnings));
-        if (refDir) references = pickReferences(refCandidates, span, base.maxCorrectionAgeS, refDir);
-        if (navDir) navs = pickNav(navCands, span, navDir);
-      }
-      srep.info(`session ${name}: ${file} against ${references.map((p) => basename(p)).join(', ')}`);
-      const r = await runPointsSession({ ...a, rover: file, reference: references, nav: navs, out: join(outDir, name) }, cfg, srep, 'batch-session');
-      if (r.failure) throw new ProcessingError(r.failure);
-      records.push({ name, file, status: 'ok', reason: null, roverEpochs: r.roverEpochs, solvedEpochs: r.solvedEpochs, points: r.points.length, out: r.outDir, referenceFiles: references, navFiles: navs });
-      columns ??= [...r.columns];
-      for (const row of r.rows) batchRows.push({ session: name, cells: Object.fromEntries(r.columns.map((c, k) => [c, row[k] ?? ''])) });
-      srep.event('session', { status: 'ok', file, epochs: r.roverEpochs, solved_epochs: r.solvedEpochs, points: r.points.length, out: r.outDir });
-    } catch (e) {
-      // The same wrong command line would fail every session: stop with exit 2.
-      if (e instanceof UsageError) throw e;
-      const sentence = describeFailure(e).sentence;
-      const reason = sentence.includes(file) || sentence.includes(basename(file)) ? sentence : `${file}: ${sentence}`;
-      records.push({ name, file, status: 'failed', reason, roverEpochs: null, solvedEpochs: null, points: 0, out: null, referenceFiles: references, navFiles: navs });
-      srep.event('session', { status: 'failed', file, reason });
-      rep.problem(`session ${name} failed and was skipped: ${reason}`);
-    }
-  }
+  const context: BatchSessionContext = { args: a, refDir, navDir, refCandidates, navCandidates: navCands, maxCorrectionAgeS: base.maxCorrectionAgeS };
+  const jobs = sessionFiles.map((file, index) => ({ index, name: names[index], file }));
+  await runBatchSessions(jobs, context, cfg, rep, parseJobs(a.jobs), (r) => {
+    records.push(r.record);
+    if (r.record.status === 'ok') columns ??= [...r.columns];
+    batchRows.push(...r.rows);
+    if (r.problem) rep.problem(r.problem);
+  });
 
   // 4. The table; the batch files as one set (summary last), unless no session could be processed.
   const ok = records.filter((r) => r.status === 'ok');
