@@ -20,19 +20,24 @@ export function csvCell(cell: string | null | undefined): string {
   return needsQuotes(cell) ? `"${cell.replaceAll('"', '""')}"` : cell;
 }
 
+/** One row without its '\n'. Array.prototype.join (null and undefined as '') is several times a cell-by-cell concatenation. */
+function rowText(row: readonly (string | null | undefined)[]): string {
+  for (let i = 0; i < row.length; i++) {
+    const cell = row[i];
+    if (cell !== null && cell !== undefined && needsQuotes(cell)) return row.map(csvCell).join(',');
+  }
+  return row.join(',');
+}
+
 /** One row as a line with its '\n'. */
 export function csvLine(row: readonly (string | null | undefined)[]): string {
-  let line = '';
-  for (let i = 0; i < row.length; i++) {
-    if (i > 0) line += ',';
-    line += csvCell(row[i]);
-  }
-  return line + '\n';
+  return rowText(row) + '\n';
 }
 
 /** Rows as CSV text ('' for no rows). */
 export function csvLines(rows: readonly (readonly (string | null | undefined)[])[]): string {
-  let text = '';
-  for (const r of rows) text += csvLine(r);
-  return text;
+  if (rows.length === 0) return '';
+  const lines = new Array<string>(rows.length);
+  for (let i = 0; i < rows.length; i++) lines[i] = rowText(rows[i]!);
+  return lines.join('\n') + '\n';
 }
