@@ -32,12 +32,64 @@ export function parseFortranReal(text: string): number | undefined {
   return Number(s.replace(/[Dd]/, 'E'));
 }
 
+/** 10^k, exact in a double for k <= 22. */
+const EXACT_POW10 = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
+
+/**
+ * The Fortran real in columns [start, end) of `text` read by character codes, blanks around it allowed;
+ * null when the field is anything else (blank, other whitespace, garbage, or digits beyond the exact
+ * range below): the caller then uses parseFortranReal, which gives the value or the verdict.
+ * The mantissa digits as an integer M < 2^53 and the decimal exponent e with |e| <= 22 are both exact
+ * doubles, so M * 10^e or M / 10^-e is one correctly rounded IEEE 754 operation: the value Number()
+ * gives for the text (ECMA-262 7.1.4.1.1; Clinger, "How to read floating point numbers accurately", 1990).
+ */
+export function fortranRealIn(text: string, start: number, end: number): number | null {
+  let i = start;
+  while (i < end && text.charCodeAt(i) === 32) i++;
+  let last = end;
+  while (last > i && text.charCodeAt(last - 1) === 32) last--;
+  if (i >= last) return null;
+  let c = text.charCodeAt(i);
+  const neg = c === 45;
+  if (c === 45 || c === 43) c = text.charCodeAt(++i);
+  let m = 0, digits = 0, fraction = 0, seenPoint = false;
+  for (; i < last; c = text.charCodeAt(++i)) {
+    if (c >= 48 && c <= 57) {
+      m = m * 10 + (c - 48);
+      digits++;
+      if (seenPoint) fraction++;
+    } else if (c === 46 && !seenPoint) seenPoint = true;
+    else break;
+  }
+  if (digits === 0) return null;
+  let exponent = 0;
+  if (i < last) {
+    // E, e, D or d, then an optional sign and at least one digit.
+    if (c !== 69 && c !== 101 && c !== 68 && c !== 100) return null;
+    c = text.charCodeAt(++i);
+    const negExp = c === 45;
+    if (c === 45 || c === 43) c = text.charCodeAt(++i);
+    if (i >= last) return null;
+    for (; i < last; c = text.charCodeAt(++i)) {
+      if (c < 48 || c > 57 || exponent > 1000) return null;
+      exponent = exponent * 10 + (c - 48);
+    }
+    if (negExp) exponent = -exponent;
+  }
+  const e = exponent - fraction;
+  if (m >= 9007199254740992 || e > 22 || e < -22) return null;
+  const v = e >= 0 ? m * EXACT_POW10[e]! : m / EXACT_POW10[-e]!;
+  return neg ? -v : v;
+}
+
 /**
  * Reads the real in columns [start, start + width) of `text` (0-based); NaN when blank or beyond the end of
  * a short line. Throws NavRecordProblem naming the line when the field holds something that is not a number.
  */
 export function realAt(text: string, start: number, width: number, lineNo: number): number {
   if (start >= text.length) return NaN;
+  const fast = fortranRealIn(text, start, Math.min(text.length, start + width));
+  if (fast !== null) return fast;
   const v = parseFortranReal(text.substring(start, start + width));
   if (v === undefined) {
     throw new NavRecordProblem(
