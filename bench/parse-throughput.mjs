@@ -42,16 +42,19 @@ async function parseAll(core, text) {
   return { sats, values };
 }
 
-/** Bare scan from bytes: decode the plain RINEX bytes (latin1) and split into lines, count them. */
+/** Node's latin1 decoding, as the command line hands it to openText. */
+const latin1 = (b) => Buffer.from(b.buffer, b.byteOffset, b.byteLength).toString('latin1');
+
+/** The floor from bytes: Buffer latin1 decoding of the plain RINEX bytes, split into lines, counted. */
 function bytesScan(bytes) {
-  return new TextDecoder('latin1').decode(bytes).split('\n').length;
+  return latin1(bytes).split('\n').length;
 }
 
-/** The reader as the command line uses it on a plain file: bytes -> openText (64 KiB text chunks) -> readObsStream. */
+/** The reader as the command line uses it on a plain file: bytes (64 KiB chunks) -> openText (Buffer latin1) -> readObsStream. */
 async function parseBytes(core, bytes) {
   const opened = await core.openText('bench.obs', (async function* () {
     for (let i = 0; i < bytes.length; i += 1 << 16) yield bytes.subarray(i, Math.min(bytes.length, i + (1 << 16)));
-  })());
+  })(), { decodeLatin1: latin1 });
   const st = await core.readObsStream('bench.obs', opened.text);
   let sats = 0;
   for await (const e of st.epochs) sats += e.sats.length;
@@ -72,9 +75,9 @@ async function parseCase(core, name, text, decode) {
   const bytes = new Uint8Array(Buffer.from(text, 'latin1'));
   const pb = await repeat(() => parseBytes(core, bytes), { minRuns: 5, minTotalMs: 3000 });
   const sb = await repeat(() => bytesScan(bytes), { minRuns: 10, minTotalMs: 1000 });
-  const fromBytes = { parserMBs: mb / pb.medianMs * 1000, bareMBs: mb / sb.medianMs * 1000 };
+  const fromBytes = { parserMBs: mb / pb.medianMs * 1000, bareMBs: mb / sb.medianMs * 1000, parserCpuMs: pb.medianCpuMs, bareCpuMs: sb.medianCpuMs };
   return {
-    fromBytes: { ...fromBytes, ratio: fromBytes.parserMBs / fromBytes.bareMBs },
+    fromBytes: { ...fromBytes, ratio: fromBytes.parserMBs / fromBytes.bareMBs, cpuRatio: sb.medianCpuMs / pb.medianCpuMs },
     name, mb, lines: splitScan(text), sats: counts.sats, values: counts.values,
     parserMBs, parserBestMBs: mb / Math.min(...parse.times) * 1000, parseRuns: parse.times.length, splitMBs, scanMBs, bare, ratio: parserMBs / bare.mbs,
     ...(decode ? { decode } : {}),

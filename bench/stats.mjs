@@ -6,21 +6,26 @@ export const median = (values) => {
   return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
 };
 
+const cpuMs = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1000; };
+
 /**
  * Runs `fn` once to warm up, then at least `minRuns` times and until `minTotalMs` has passed
- * (at most `maxRuns`); returns the run times (ms) and their median.
+ * (at most `maxRuns`); returns the run times (ms, wall) and their median, and the process CPU time
+ * (user + system, ms) of each run and its median: the figure that holds on a shared machine.
  */
 export async function repeat(fn, { minRuns = 5, minTotalMs = 3000, maxRuns = 50 } = {}) {
   await fn();
-  const times = [];
+  const times = [], cpuTimes = [];
   const t0 = performance.now();
   while (times.length < maxRuns && (times.length < minRuns || performance.now() - t0 < minTotalMs)) {
     globalThis.gc?.();
+    const c = cpuMs();
     const t = performance.now();
     await fn();
     times.push(performance.now() - t);
+    cpuTimes.push(cpuMs() - c);
   }
-  return { times, medianMs: median(times) };
+  return { times, medianMs: median(times), cpuTimes, medianCpuMs: median(cpuTimes) };
 }
 
 export const fmt = (v, digits = 0) => (Number.isFinite(v) ? v.toLocaleString('en-US', { minimumFractionDigits: digits, maximumFractionDigits: digits }) : String(v));

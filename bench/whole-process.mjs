@@ -1,0 +1,172 @@
+// Part 3: whole-process runs of the built `refdelta` command (start-up, reading, engine and outputs
+// included) on real files and simulated days, each beside a floor measured in the same run:
+//   start-up      `node -e 0`
+//   solve         bench/floor-solve.mjs on the same files (plain reading of every field, orbits at both
+//                 ends, 4x4 least squares, writing the same bytes), GPS as refdelta is asked (--systems G)
+//   outputs       the same refdelta run with --outputs summary
+//   batch         8 sessions with --jobs 1 against --jobs 2 (wall time: what parallel runs buy)
+//   memory        peak RSS of a 24 h simulated session against a 1 h one (kernel high-water mark)
+// CPU time is user + system of the child (/usr/bin/time), the figure that holds on a shared machine;
+// wall time is printed beside it. Every figure is the median of `runs` runs.
+import { spawnSync } from 'node:child_process';
+import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { gunzipSync } from 'node:zlib';
+import { ROOT } from './load-core.mjs';
+import { benchScenarioSpec, scenarioTexts } from './scenario.mjs';
+import { median } from './stats.mjs';
+
+const CLI = resolve(ROOT, 'packages/cli/bin/refdelta.js');
+const FLOOR = resolve(ROOT, 'bench/floor-solve.mjs');
+const TIME = '/usr/bin/time';
+
+/** Runs a command `runs` times; medians of CPU (user + system, s), wall (s) and peak RSS (MB). */
+export function measure(cmd, args, runs, before = () => {}) {
+  const cpu = [], wall = [], rss = [];
+  let last = null;
+  for (let i = 0; i < runs; i++) {
+    before();
+    const out = join(tmpdir(), `refdelta-bench-time-${process.pid}.txt`);
+    const r = spawnSync(TIME, ['-f', '%U %S %e %M', '-o', out, cmd, ...args], { encoding: 'utf8', maxBuffer: 1 << 26 });
+    if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} exited ${r.status}: ${r.stderr.slice(-2000)}`);
+    const [u, s, e, m] = readFileSync(out, 'utf8').trim().split('\n').pop().split(/\s+/).map(Number);
+    cpu.push(u + s); wall.push(e); rss.push(m / 1024);
+    last = r;
+  }
+  return { cpuS: median(cpu), wallS: median(wall), rssMB: median(rss), cpuRuns: cpu, stdout: last.stdout };
+}
+
+/** APPROX POSITION XYZ of a RINEX observation header, as 'X,Y,Z'. */
+function headerXyz(path) {
+  const line = readFileSync(path, 'latin1').split('\n', 200).find((l) => l.slice(60).startsWith('APPROX POSITION XYZ'));
+  return line.slice(0, 42).trim().split(/\s+/).join(',');
+}
+
+const solveArgs = (rover, reference, nav, xyz, out, extra = []) => [
+  CLI, 'solve', '--rover', rover, '--reference', reference, '--nav', ...nav, '--ref-xyz', xyz, '--ref-frame', 'WGS84', '--ref-epoch', '2024.0',
+  '--out', out, '--quiet', ...extra,
+];
+
+/** A solve case: refdelta (all outputs, then summary only) and the floor on the same files. */
+function solveCase(name, rover, reference, nav, xyz, work, runs, extra = ['--systems', 'G']) {
+  const full = join(work, `${name}-full`), summary = join(work, `${name}-summary`), floorOut = join(work, `${name}-floor`);
+  mkdirSync(floorOut, { recursive: true });
+  const a = measure(process.execPath, solveArgs(rover, reference, nav, xyz, full, extra), runs);
+  const s = measure(process.execPath, solveArgs(rover, reference, nav, xyz, summary, [...extra, '--outputs', 'summary']), runs);
+  // The floor writes the bytes refdelta wrote (its outputs but the summary, which the summary-only run also writes).
+  const like = join(work, `${name}-like`);
+  mkdirSync(like, { recursive: true });
+  for (const f of ['epochs.csv', 'residuals.csv', 'positions.geojson']) copyFileSync(join(full, f), join(like, f));
+  const f = measure(process.execPath, [FLOOR, rover, reference, xyz, floorOut, like, ...nav], runs);
+  return { name, full: a, summary: s, floor: f, floorInfo: JSON.parse(f.stdout) };
+}
+
+/** The text of a simulated session's three files, written under `dir`. */
+async function writeScenario(core, dir, spec) {
+  const sim = core.simulateScenario(spec);
+  const t = scenarioTexts(core, sim);
+  const write = (name, chunks) => { const p = join(dir, name); writeFileSync(p, [...chunks].join('')); return p; };
+  return { rover: write('rover.obs', t.rover()), reference: write('reference.obs', t.reference()), nav: write('nav.rnx', t.nav()), sim };
+}
+
+const ecefText = (core, spec) => {
+  const g = spec.reference.markGeodetic;
+  const p = core.geodeticToEcef({ latRad: (g.latDeg * Math.PI) / 180, lonRad: (g.lonDeg * Math.PI) / 180, heightM: g.heightM + spec.reference.antennaHeightM });
+  return `${p.x.toFixed(4)},${p.y.toFixed(4)},${p.z.toFixed(4)}`;
+};
+
+/**
+ * Every Part 3 measure; `runs` per figure (>= 5 for the targets). Files that are absent are skipped.
+ * Returns { rows (table), verdicts }.
+ */
+export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24 } = {}) {
+  if (!existsSync(TIME)) return { skipped: `${TIME} not found (apt-get install time): whole-process CPU times need it` };
+  const work = mkdtempSync(join(tmpdir(), 'refdelta-bench-'));
+  const rows = [], verdicts = [];
+  const ratio = (x, y) => x / y;
+  const row = (what, m, floorWhat, f, target = '') => rows.push([what, m.cpuS.toFixed(2), m.wallS.toFixed(2), m.rssMB.toFixed(0), floorWhat, f ? f.cpuS.toFixed(2) : '', f ? `${ratio(m.cpuS, f.cpuS).toFixed(2)}x` : '', target]);
+  try {
+    // Start-up.
+    const node0 = measure(process.execPath, ['-e', '0'], Math.max(runs, 7));
+    const version = measure(process.execPath, [CLI, '--version'], Math.max(runs, 7));
+    row('refdelta --version', version, 'node -e 0', node0, '<= 3x');
+    verdicts.push(['start-up: refdelta --version / node -e 0 (CPU)', `${ratio(version.cpuS, node0.cpuS).toFixed(2)}x`, '<= 3x', ratio(version.cpuS, node0.cpuS) <= 3]);
+
+    // Real files: DGAR against itself (GPS), BELE against itself (GPS), the static run (GPS).
+    const ss = (f) => join(dataDir, 'single-station', f);
+    const cases = [];
+    if (existsSync(ss('dgar0100.24o.gz')) && existsSync(ss('brdc0100.24n.gz'))) {
+      const obs = join(work, 'dgar0100.24o'), nav = join(work, 'brdc0100.24n');
+      writeFileSync(obs, gunzipSync(readFileSync(ss('dgar0100.24o.gz'))));
+      writeFileSync(nav, gunzipSync(readFileSync(ss('brdc0100.24n.gz'))));
+      cases.push(['DGAR day vs itself, GPS', solveCase('dgar', obs, obs, [nav], headerXyz(obs), work, runs), true]);
+    }
+    const bele = ss('BELE00BRA_R_20240100000_01D_30S_MO.crx.gz');
+    if (existsSync(bele) && existsSync(ss('BRDC00IGS_R_20240100000_01D_MN.rnx.gz'))) {
+      const plain = join(work, 'BELE00BRA_R_20240100000_01D_30S_MO.rnx'), nav = join(work, 'BRDC00IGS_R_20240100000_01D_MN.rnx');
+      const opened = await core.openText(bele, (async function* () { yield new Uint8Array(readFileSync(bele)); })());
+      const parts = [];
+      for await (const c of opened.text) parts.push(c);
+      writeFileSync(plain, parts.join(''));
+      writeFileSync(nav, gunzipSync(readFileSync(ss('BRDC00IGS_R_20240100000_01D_MN.rnx.gz'))));
+      const c = solveCase('bele', plain, plain, [nav], headerXyz(plain), work, runs);
+      cases.push(['BELE day vs itself (plain RINEX 3), GPS', c, false]);
+      c.crx = measure(process.execPath, solveArgs(bele, bele, [nav], headerXyz(plain), join(work, 'bele-crx'), ['--systems', 'G']), runs);
+    }
+    const sr = join(dataDir, 'cors-and-rover-2018-277');
+    if (existsSync(join(sr, 'static-run/rover.obs'))) {
+      cases.push(['static run, rover vs base (1 Hz), GPS', solveCase('static', join(sr, 'static-run/rover.obs'), join(sr, 'static-run/base.obs'),
+        [join(sr, 'reference/glw1277m.18n')], '3774089.2120,-601661.6157,5089321.2474', work, runs), false]);
+    }
+
+    // Simulated: the bench scenario (rover 1 Hz, reference 30 s, GPS + Galileo) for a day and for 1 h, and
+    // a real-like one (reference at 1 Hz too). The simulator has no GLONASS.
+    const simDir = (n) => { const d = join(work, n); mkdirSync(d, { recursive: true }); return d; };
+    const daySpec = benchScenarioSpec(core, Math.round(simHours * 3600));
+    const day = await writeScenario(core, simDir('sim-day'), daySpec);
+    cases.push([`simulated ${simHours} h (rover 1 Hz, ref 30 s, GPS+Galileo), GPS`, solveCase('simday', day.rover, day.reference, [day.nav], ecefText(core, daySpec), work, runs), false]);
+    const hourSpec = benchScenarioSpec(core, 3600);
+    const hour = await writeScenario(core, simDir('sim-hour'), hourSpec);
+    const likeSpec = { ...benchScenarioSpec(core, 2 * 3600), reference: { ...hourSpec.reference, intervalS: 1 } };
+    const like = await writeScenario(core, simDir('sim-like'), likeSpec);
+    const likeRun = measure(process.execPath, solveArgs(like.rover, like.reference, [like.nav], ecefText(core, likeSpec), join(work, 'like-all')), runs);
+    const likeCase = solveCase('like', like.rover, like.reference, [like.nav], ecefText(core, likeSpec), work, runs);
+    cases.push(['real-like 2 h (rover and ref 1 Hz, GPS+Galileo), GPS', likeCase, false]);
+
+    for (const [what, c, target] of cases) {
+      row(what, c.full, 'floor script', c.floor, target ? '<= 2x' : '');
+      row('  all outputs against --outputs summary', c.full, 'summary only', c.summary, target ? '<= 1.1x' : '');
+      if (c.crx) row('  same from the .crx.gz (gunzip + compact RINEX decoding)', c.crx, 'floor (plain text)', c.floor);
+      if (target) {
+        verdicts.push([`whole solve / floor CPU, ${what}`, `${ratio(c.full.cpuS, c.floor.cpuS).toFixed(2)}x`, '<= 2x', ratio(c.full.cpuS, c.floor.cpuS) <= 2]);
+        verdicts.push([`outputs: all / summary only CPU, ${what}`, `${ratio(c.full.cpuS, c.summary.cpuS).toFixed(2)}x`, '<= 1.1x', ratio(c.full.cpuS, c.summary.cpuS) <= 1.1]);
+      }
+    }
+    row('real-like 2 h, GPS+Galileo (both systems solved)', likeRun, 'floor (GPS)', likeCase.floor);
+
+    // Memory: whole-process peak RSS of the 24 h simulated run against the 1 h one (all outputs).
+    const hourRun = measure(process.execPath, solveArgs(hour.rover, hour.reference, [hour.nav], ecefText(core, hourSpec), join(work, 'hour-full'), ['--systems', 'G']), runs);
+    const rssRatio = cases.find((c) => c[1].name === 'simday')[1].full.rssMB / hourRun.rssMB;
+    rows.push([`peak RSS ${simHours} h / 1 h simulated (whole process)`, '', '', `${cases.find((c) => c[1].name === 'simday')[1].full.rssMB.toFixed(0)} / ${hourRun.rssMB.toFixed(0)}`, '', '', `${rssRatio.toFixed(2)}x`, '<= 1.3x']);
+    verdicts.push([`peak RSS ${simHours} h / 1 h (whole process, median of ${runs})`, `${rssRatio.toFixed(2)}x`, '<= 1.3x', rssRatio <= 1.3]);
+
+    // Batch: 8 sessions (the demo rover, 1387 epochs each) with 1 and 2 workers.
+    const demo = (f) => resolve(ROOT, 'fixtures/demo', f);
+    const sessions = simDir('batch-sessions');
+    for (let i = 1; i <= 8; i++) copyFileSync(demo('rover-1s.obs'), join(sessions, `walk-${i}.obs`));
+    const batchArgs = (jobs) => [CLI, 'batch', '--sessions', sessions, '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
+      '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--jobs', String(jobs), '--out', join(work, `batch-${jobs}`), '--quiet'];
+    const clear = (jobs) => () => rmSync(join(work, `batch-${jobs}`), { recursive: true, force: true });
+    const b1 = measure(process.execPath, batchArgs(1), runs, clear(1));
+    const b2 = measure(process.execPath, batchArgs(2), runs, clear(2));
+    const speedup = b1.wallS / b2.wallS;
+    rows.push(['batch of 8 sessions, --jobs 2 (wall s)', b2.cpuS.toFixed(2), b2.wallS.toFixed(2), b2.rssMB.toFixed(0), '--jobs 1 (wall s)', b1.wallS.toFixed(2), `${speedup.toFixed(2)}x faster`, '>= 1.7x']);
+    // Same bytes but the summaries (their creation times differ from run to run).
+    const same = spawnSync('diff', ['-r', '-q', '-x', '*summary.json', join(work, 'batch-1'), join(work, 'batch-2')]).status === 0;
+    verdicts.push(['batch of 8: wall --jobs 1 / --jobs 2 (machine load decides this one)', `${speedup.toFixed(2)}x (CPU ${b1.cpuS.toFixed(1)} vs ${b2.cpuS.toFixed(1)} s)${same ? ', same bytes' : ', OUTPUTS DIFFER'}`, '>= 1.7x, same bytes', speedup >= 1.7 && same]);
+    return { rows, verdicts, cases };
+  } finally {
+    rmSync(work, { recursive: true, force: true });
+  }
+}
