@@ -26,7 +26,6 @@ import { EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
 import { UsageError } from '../usage-error.js';
 import { SOFTWARE } from '../software.js';
 import { epochTableColumns, epochTableRow, standaloneFrameNote } from '../epoch-table.js';
-import { csvLines } from '../csv-lines.js';
 import { warningsSummary } from '../warnings-summary.js';
 import { carrierSharesSentence, carrierSummaryJson, isCarrierKind, parseCarrierChoice, runCarrierSession, type CarrierArgs } from '../carrier-run.js';
 import { stagedReportHtml } from '../staged-report.js';
