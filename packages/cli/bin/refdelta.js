@@ -1,3 +1,5 @@
 #!/usr/bin/env node
 // The refdelta command: runs the built CLI (npm install builds it; see the root package.json "prepare").
-import "../dist/main.js";
+import { runFromProcess } from "../dist/main.js";
+
+await runFromProcess();
