@@ -83,7 +83,7 @@ export async function runCliCorpus({ seed, workers = 2, log = console.log, perSo
         const rover = src.endsWith('base.obs') ? f : join(S, 'static-run/base.obs');
         const ref = src.endsWith('.18o') ? f : join(S, 'reference/glw1277m.18o');
         const nav = src.endsWith('.18n') ? f : join(S, 'reference/glw1277m.18n');
-        cases.push({ src, dmg, file: f, args: ['solve', '--rover', rover, '--reference', ref, '--nav', nav, '--ref-from-header', '--outputs', 'summary', '--quiet', '--out', join(dir, `out-${k}-${basename(src)}`)] });
+        cases.push({ src, dmg, file: f, args: ['solve', '--rover', rover, '--reference', ref, '--nav', nav, '--ref-coord', 'header', '--outputs', 'summary', '--quiet', '--out', join(dir, `out-${k}-${basename(src)}`)] });
       }
     }
   }

@@ -28,7 +28,7 @@ const sessions = join(work, 'sessions');
 mkdirSync(sessions);
 copyFileSync(demo('rover-1s.obs'), join(sessions, 'walk-a.obs'));
 copyFileSync(demo('rover-1s.obs'), join(sessions, 'walk b.obs'));
-const common = ['--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'), '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--quiet'];
+const common = ['--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'), '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--quiet'];
 const COMMANDS = {
   solve: (out) => ['solve', '--rover', demo('rover-1s.obs'), ...common, '--out', out],
   batch: (out) => ['batch', '--sessions', sessions, ...common, '--outputs', 'epochs,summary', '--out', out],

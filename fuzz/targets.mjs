@@ -84,7 +84,7 @@ const SEEDS = {
   windows: [latin1(bytesOf('fixtures/demo/occupations.csv'))],
   points: [latin1(bytesOf('fuzz/seeds/points.csv'))],
   helmert: [latin1(bytesOf('fuzz/seeds/helmert.json'))],
-  geoid: [latin1(bytesOf('fixtures/geo/tiny-geoid.txt'))],
+  geoid: [latin1(bytesOf('fixtures/geo/egm96-crop.isg'))],
 };
 const Z_SEEDS = SEEDS.obs.slice(0, 2).map((t) => lzwEncode(toBytes(t)));
 const GZ_SEEDS = [...SEEDS.obs.slice(0, 2), SEEDS.nav[0]].map((t) => new Uint8Array(gzipSync(Buffer.from(t, 'latin1'))));
@@ -125,10 +125,10 @@ export const TARGETS = {
   'points-csv': { file: 'fuzz-points.csv', run: async (r, f) => core.parsePointsCsv(f, damageText(r, pick(r, SEEDS.points))).length },
   'helmert-json': { file: 'fuzz-helmert.json', run: async (r, f) => core.parseHelmertJson(f, damageText(r, pick(r, SEEDS.helmert))).length },
   geoid: {
-    file: 'fuzz-geoid.txt',
+    file: 'fuzz-geoid.isg',
     run: async (r, f) => {
-      const g = core.parseGeoidGrid(f, damageText(r, pick(r, SEEDS.geoid)));
-      try { g.undulationM(50.2, 10.3); } catch (e) { if (!(e instanceof RangeError)) throw e; }
+      const g = core.parseIsgGrid(f, damageText(r, pick(r, SEEDS.geoid)));
+      try { g.undulationM(46.9, 102.4); } catch (e) { if (!(e instanceof RangeError)) throw e; }
       return 1;
     },
   },

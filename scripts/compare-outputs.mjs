@@ -26,15 +26,15 @@ const cors = '3774050.9626,-601852.6734,5089350.3688';
 const demo = join(root, 'fixtures', 'demo');
 
 const runs = [
-  ['static rover-base code', ['solve', '--rover', `${S}/static-run/rover.obs`, '--reference', `${S}/static-run/base.obs`, '--nav', ...nav18, '--ref-xyz', base, '--ref-frame', 'WGS84', '--ref-epoch', '2018.76']],
-  ['static rover-base smoothed', ['solve', '--rover', `${S}/static-run/rover.obs`, '--reference', `${S}/static-run/base.obs`, '--nav', ...nav18, '--ref-xyz', base, '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', '--smooth', '100']],
-  ['static rover-base GPS', ['solve', '--rover', `${S}/static-run/rover.obs`, '--reference', `${S}/static-run/base.obs`, '--nav', ...nav18, '--ref-xyz', base, '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', '--systems', 'G']],
-  ['static rover-cors code', ['solve', '--rover', `${S}/static-run/rover.obs`, '--reference', `${S}/reference/glw1277m.18o`, '--nav', ...nav18, '--ref-xyz', cors, '--ref-frame', 'unstated', '--ref-epoch', '2018.76']],
-  ['static base-cors smoothed', ['solve', '--rover', `${S}/static-run/base.obs`, '--reference', `${S}/reference/glw1277m.18o`, '--nav', ...nav18, '--ref-xyz', cors, '--ref-frame', 'unstated', '--ref-epoch', '2018.76', '--smooth', '100']],
-  ['cors hour n against hour m+n', ['solve', '--rover', `${S}/reference/glw1277n.18o`, '--reference', `${S}/reference/glw1277m.18o`, `${S}/reference/glw1277n.18o`, '--nav', ...nav18, `${S}/reference/glw1277n.18n`, `${S}/reference/glw1277n.18g`, '--ref-from-header']],
-  ['DGAR day against itself GPS', ['solve', '--rover', `${SS}/dgar0100.24o.gz`, '--reference', `${SS}/dgar0100.24o.gz`, '--nav', `${SS}/brdc0100.24n.gz`, '--ref-from-header', '--systems', 'G']],
-  ['BELE day against itself', ['solve', '--rover', `${SS}/BELE00BRA_R_20240100000_01D_30S_MO.crx.gz`, '--reference', `${SS}/BELE00BRA_R_20240100000_01D_30S_MO.crx.gz`, '--nav', `${SS}/BRDC00IGS_R_20240100000_01D_MN.rnx.gz`, '--ref-from-header']],
-  ['demo points', ['points', '--rover', `${demo}/rover-1s.obs`, '--reference', `${demo}/KFRD-reference-5s.obs`, '--nav', `${demo}/broadcast-mixed.nav`, '--ref-from-header', '--smooth', '100']],
+  ['static rover-base code', ['solve', '--rover', `${S}/static-run/rover.obs`, '--reference', `${S}/static-run/base.obs`, '--nav', ...nav18, '--ref-coord', base, '--ref-frame', 'WGS84', '--ref-epoch', '2018.76']],
+  ['static rover-base smoothed', ['solve', '--rover', `${S}/static-run/rover.obs`, '--reference', `${S}/static-run/base.obs`, '--nav', ...nav18, '--ref-coord', base, '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', '--smooth', '100']],
+  ['static rover-base GPS', ['solve', '--rover', `${S}/static-run/rover.obs`, '--reference', `${S}/static-run/base.obs`, '--nav', ...nav18, '--ref-coord', base, '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', '--systems', 'G']],
+  ['static rover-cors code', ['solve', '--rover', `${S}/static-run/rover.obs`, '--reference', `${S}/reference/glw1277m.18o`, '--nav', ...nav18, '--ref-coord', cors, '--ref-frame', 'unstated', '--ref-epoch', '2018.76']],
+  ['static base-cors smoothed', ['solve', '--rover', `${S}/static-run/base.obs`, '--reference', `${S}/reference/glw1277m.18o`, '--nav', ...nav18, '--ref-coord', cors, '--ref-frame', 'unstated', '--ref-epoch', '2018.76', '--smooth', '100']],
+  ['cors hour n against hour m+n', ['solve', '--rover', `${S}/reference/glw1277n.18o`, '--reference', `${S}/reference/glw1277m.18o`, `${S}/reference/glw1277n.18o`, '--nav', ...nav18, `${S}/reference/glw1277n.18n`, `${S}/reference/glw1277n.18g`, '--ref-coord', 'header']],
+  ['DGAR day against itself GPS', ['solve', '--rover', `${SS}/dgar0100.24o.gz`, '--reference', `${SS}/dgar0100.24o.gz`, '--nav', `${SS}/brdc0100.24n.gz`, '--ref-coord', 'header', '--systems', 'G']],
+  ['BELE day against itself', ['solve', '--rover', `${SS}/BELE00BRA_R_20240100000_01D_30S_MO.crx.gz`, '--reference', `${SS}/BELE00BRA_R_20240100000_01D_30S_MO.crx.gz`, '--nav', `${SS}/BRDC00IGS_R_20240100000_01D_MN.rnx.gz`, '--ref-coord', 'header']],
+  ['demo points', ['points', '--rover', `${demo}/rover-1s.obs`, '--reference', `${demo}/KFRD-reference-5s.obs`, '--nav', `${demo}/broadcast-mixed.nav`, '--ref-coord', 'header', '--smooth', '100']],
 ];
 
 function hashDir(dir) {

@@ -30,7 +30,7 @@ describe('refdelta batch on a folder of demo sessions', () => {
     copyFileSync(DEMO('broadcast-mixed.nav'), join(dir, 'broadcast-mixed.nav'));
     out = tempDir('rd-batch-out-');
     run = runCli(['batch', '--sessions', dir, '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--outputs', 'epochs,summary', '--out', out]);
+      '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--outputs', 'epochs,summary', '--out', out]);
   });
 
   it('exit 4: two sessions ok, the garbage file failed with one sentence naming it, the nav file skipped with a note', () => {
@@ -49,9 +49,9 @@ describe('refdelta batch on a folder of demo sessions', () => {
   });
 
   it('each ok session has its own complete output set; the failed one has none', () => {
-    expect(readdirSync(out).sort()).toEqual(['batch-points.csv', 'batch-summary.json', 'walk-a', 'walk-b']);
+    expect(readdirSync(out).sort()).toEqual(['batch-points.csv', 'batch-points.csv.meta.json', 'batch-points.csvt', 'batch-summary.json', 'walk-a', 'walk-b']);
     for (const s of ['walk-a', 'walk-b']) {
-      expect(readdirSync(join(out, s)).sort()).toEqual(['epochs.csv', 'points.csv', 'points.geojson', 'summary.json']);
+      expect(readdirSync(join(out, s)).sort()).toEqual(['epochs.csv', 'epochs.csv.meta.json', 'epochs.csvt', 'epochs.prj', 'points.csv', 'points.csv.meta.json', 'points.csvt', 'points.geojson', 'points.prj', 'summary.json']);
       const sum = JSON.parse(readFileSync(join(out, s, 'summary.json'), 'utf8'));
       for (const o of sum.outputs.filter((x: { kind: string }) => x.kind !== 'summary')) expect(o.sha256).toBe(sha256(o.path));
     }
@@ -77,7 +77,7 @@ describe('refdelta batch on a folder of demo sessions', () => {
     writeFileSync(join(only, 'broken.obs'), 'garbage\n');
     const o = join(tempDir('rd-batch-bad-out-'), 'out');
     const r = runCli(['batch', '--sessions', only, '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--out', o]);
+      '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--out', o]);
     expect(r.status).toBe(1);
     expect(r.stderr).toMatch(/refdelta: none of the 1 session\(s\) .* could be processed; nothing was written/);
     expect(existsSync(join(o, 'batch-summary.json'))).toBe(false);
@@ -86,7 +86,7 @@ describe('refdelta batch on a folder of demo sessions', () => {
   it('usage: --reference and --reference-dir together is exit 2', () => {
     mkdirSync(join(dir, 'refs'), { recursive: true });
     const r = runCli(['batch', '--sessions', dir, '--reference', DEMO('KFRD-reference-5s.obs'), '--reference-dir', join(dir, 'refs'),
-      '--nav', DEMO('broadcast-mixed.nav'), '--ref-from-header', '--out', out]);
+      '--nav', DEMO('broadcast-mixed.nav'), '--ref-coord', 'header', '--out', out]);
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/one way only/);
   });

@@ -21,7 +21,7 @@ describeShared('refdelta batch on the real static run', () => {
     requireBuiltCli();
     out = tempDir('rd-batch-static-');
     run = runCli(['batch', '--sessions', dataPath(`${D}/static-run`), '--reference-dir', dataPath(`${D}/reference`), '--nav-dir', dataPath(`${D}/reference`),
-      '--ref-from-header', '--outputs', 'summary', '--out', out]);
+      '--ref-coord', 'header', '--outputs', 'summary', '--out', out]);
   });
 
   it('exit 0: both receivers are sessions, the truth CSV is skipped with a note, the CORS hour m is picked', () => {
@@ -60,7 +60,7 @@ describeShared('refdelta batch on the real static run', () => {
   it('a reference hour that does not overlap: every session fails with its sentence, exit 1', () => {
     const o = tempDir('rd-batch-static-none-');
     const r = runCli(['batch', '--sessions', dataPath(`${D}/static-run`), '--reference', dataPath(`${D}/reference/glw1277o.18o`),
-      '--nav', dataPath(`${D}/reference/glw1277m.18n`), '--ref-from-header', '--out', o]);
+      '--nav', dataPath(`${D}/reference/glw1277m.18n`), '--ref-coord', 'header', '--out', o]);
     expect(r.status).toBe(1);
     const lines = r.stderr.split('\n').filter((l) => l.startsWith('refdelta: session'));
     expect(lines).toHaveLength(2);

@@ -19,7 +19,7 @@ describe.skipIf(!HAVE)('refdelta check on the demo scenario', () => {
     requireBuiltCli();
     const o = tempDir('rd-check-demo-pts-');
     const r = runCli(['points', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--outputs', 'summary', '--out', o]);
+      '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--outputs', 'summary', '--out', o]);
     expect(r.status, r.stderr).toBe(0);
     pts = join(o, 'points.csv');
   });
@@ -56,7 +56,7 @@ describe.skipIf(!HAVE)('refdelta check on the demo scenario', () => {
     const o = tempDir('rd-check-demo-fail-');
     const r = runCli(['check', '--points', pts, '--marks', DEMO('control-marks.csv'), '--tolerance-h', '0.0001', '--out', o, '--quiet']);
     expect(r.status).toBe(3);
-    expect(expectOneSentence(r)).toMatch(/3 of 3 control mark\(s\) failed the tolerance \(horizontal 0\.0001 m/);
+    expect(expectOneSentence(r)).toMatch(/3 of 3 comparison\(s\) with control marks failed the tolerance \(horizontal 0\.0001 m/);
     // outputs are still written
     expect(parseCsv(readFileSync(join(o, 'control-check.csv'), 'utf8')).rows.every((x) => x.pass === 'fail')).toBe(true);
   });
@@ -81,5 +81,55 @@ describe.skipIf(!HAVE)('refdelta check on the demo scenario', () => {
     const r = runCli(['check', '--points', bad, '--marks', DEMO('control-marks.csv'), '--out', o, '--quiet']);
     expect(r.status).toBe(1);
     expect(expectOneSentence(r)).toMatch(/bad\.csv:2: column ecef_y_m: expected a number/);
+  });
+
+  it('every point is compared: a re-occupation of a mark gets its own row, and a failing one makes check exit 3', () => {
+    const o = tempDir('rd-check-demo-reocc-');
+    const lines = readFileSync(pts, 'utf8').trimEnd().split('\n');
+    const header = lines[0]!.split(',');
+    const mill = lines.find((l) => l.startsWith('MILLSTONE,'))!.split(',');
+    // the same mark occupied again, 3 m further north (ECEF z grows with latitude here): a blunder to be caught
+    const z = header.indexOf('ecef_z_m');
+    const again = [...mill];
+    again[z] = (Number(mill[z]) + 3).toFixed(4);
+    writeFileSync(join(o, 'twice.csv'), [...lines, again.join(',')].join('\n') + '\n');
+    const r = runCli(['check', '--points', join(o, 'twice.csv'), '--marks', DEMO('control-marks.csv'), '--out', o, '--quiet']);
+    expect(r.status).toBe(3);
+    const rows = parseCsv(readFileSync(join(o, 'control-check.csv'), 'utf8')).rows.filter((x) => x.mark === 'MILLSTONE');
+    expect(rows.map((x) => x.pass)).toEqual(['pass', 'fail']);
+    expect(expectOneSentence(r)).toMatch(/1 of 4 comparison\(s\) with control marks failed.*MILLSTONE on MILLSTONE/);
+  });
+
+  it('rows of batch-points.csv are grouped by session; control-check.csv carries the point and mark coordinates', () => {
+    const o = tempDir('rd-check-demo-batch-');
+    const lines = readFileSync(pts, 'utf8').trimEnd().split('\n');
+    // sessions interleaved as a batch of two walks could list them
+    const body = lines.slice(1);
+    const batch = ['session,' + lines[0], ...body.flatMap((l) => [`walk-b,${l}`, `walk-a,${l}`])];
+    writeFileSync(join(o, 'batch-points.csv'), batch.join('\n') + '\n');
+    const r = runCli(['check', '--points', join(o, 'batch-points.csv'), '--marks', DEMO('control-marks.csv'), '--out', o]);
+    expect(r.status, r.stderr).toBe(0);
+    const rows = parseCsv(readFileSync(join(o, 'control-check.csv'), 'utf8')).rows;
+    expect(rows.map((x) => `${x.session}/${x.point}`)).toEqual([
+      'walk-b/MILLSTONE', 'walk-b/ELMCORNER', 'walk-b/WELLHEAD', 'walk-a/MILLSTONE', 'walk-a/ELMCORNER', 'walk-a/WELLHEAD',
+    ]);
+    // the mark's coordinates as published (fixtures/demo/control-marks.csv), the point's as computed
+    const marks = parseCsv(readFileSync(DEMO('control-marks.csv'), 'utf8')).rows;
+    for (const x of rows) {
+      const m = marks.find((k) => k.name === x.mark)!;
+      expect(Number(x.mark_latitude_deg)).toBeCloseTo(Number(m.lat_deg), 8);
+      expect(Number(x.mark_longitude_deg)).toBeCloseTo(Number(m.lon_deg), 8);
+      expect(Number(x.mark_height_m)).toBeCloseTo(Number(m.h_m), 3);
+      expect(Math.abs(Number(x.latitude_deg) - Number(m.lat_deg))).toBeLessThan(1e-4);
+    }
+  });
+
+  it('a points.csv is accepted as a marks file (one schema for points out and marks in)', () => {
+    const o = tempDir('rd-check-demo-self-');
+    const r = runCli(['check', '--points', pts, '--marks', pts, '--out', o]);
+    expect(r.status, r.stderr).toBe(0);
+    const rows = parseCsv(readFileSync(join(o, 'control-check.csv'), 'utf8')).rows;
+    expect(rows.length).toBe(4);
+    for (const x of rows) expect(Number(x.three_d_m)).toBeLessThan(1e-3);
   });
 });

@@ -13,7 +13,7 @@ import { parseCsv, requireBuiltCli, runCli, tempDir } from './cli-support.js';
 const D = 'cors-and-rover-2018-277';
 const NAV = ['--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`)];
 // data README: the CORS coordinate (APPROX POSITION XYZ, published by the network; frame not stated).
-const CORS_XYZ = ['--ref-xyz', '3774050.9626,-601852.6734,5089350.3688', '--ref-frame', 'unstated', '--ref-epoch', '2018.76'];
+const CORS_XYZ = ['--ref-coord', '3774050.9626,-601852.6734,5089350.3688', '--ref-frame', 'unstated', '--ref-epoch', '2018.76'];
 
 function meanOfFixed(out: string): { x: number; y: number; z: number; n: number } {
   const rows = parseCsv(readFileSync(join(out, 'epochs.csv'), 'utf8')).rows.filter((r) => r.solution === 'fixed');

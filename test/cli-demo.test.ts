@@ -21,7 +21,7 @@ describe('refdelta solve on the demo scenario', () => {
     out = tempDir('rd-demo-');
     run = runCli([
       'solve', '--carrier-phase', 'off', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--at-antenna', '--out', out, '--json-lines',
+      '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--at-antenna', '--out', out, '--json-lines',
     ]);
   });
 
@@ -42,7 +42,11 @@ describe('refdelta solve on the demo scenario', () => {
       expect(ep.header).toContain(c);
     }
     // The demo truth is the antenna reference point (fixtures/demo/rover-truth.csv comment); --at-antenna reports the ARP.
-    expect(ep.comments.join('\n')).toMatch(/position refers to: antenna reference point/);
+    // The header is the first line; what the table is about is in its metadata sidecar.
+    expect(ep.comments).toEqual([]);
+    const meta = JSON.parse(readFileSync(join(out, 'epochs.csv.meta.json'), 'utf8'));
+    expect(meta.point_reference).toBe('antenna reference point');
+    expect(meta.columns.map((c: { name: string }) => c.name)).toEqual(ep.header);
     const truth = parseCsv(readFileSync(DEMO('rover-truth.csv'), 'utf8')).rows;
     const byTow = new Map(truth.map((r) => [`${r.gps_week}:${Math.round(Number(r.gps_tow_s))}`, r]));
     const h: number[] = [];

@@ -12,22 +12,24 @@ describe('usage errors (exit 2), checked before any file is read', () => {
   const base = ['solve', '--rover', 'r.obs', '--reference', 'b.obs', '--nav', 'n.nav', '--out', 'x'];
   const cases: [string, string[], RegExp][] = [
     ['no command', [], /give a command/],
-    ['unknown option', [...base, '--ref-from-header', '--no-such-option'], /Unknown argument/i],
-    ['missing --rover', ['solve', '--reference', 'b.obs', '--nav', 'n', '--out', 'x', '--ref-from-header'], /rover/],
-    ['no reference coordinate', base, /--ref-xyz.*--ref-llh.*--ref-from-header.*--ref-mark/],
-    ['two reference coordinates', [...base, '--ref-from-header', '--ref-xyz', '1,2,3'], /one way only/],
-    ['coordinate without frame', [...base, '--ref-xyz', '3774089.2,-601661.6,5089321.2'], /--ref-frame.*--ref-epoch/],
-    ['coordinate with two values', [...base, '--ref-xyz', '1,2', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76'], /3 comma-separated numbers/],
-    ['coordinate inside the Earth', [...base, '--ref-xyz', '1,2,3', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76'], /near the surface/],
-    ['latitude out of range', [...base, '--ref-llh', '95,10,100', '--ref-frame', 'ITRF2014', '--ref-epoch', '2018.76'], /latitude/],
-    ['a negative coordinate value is read as a value, not as a flag', [...base, '--ref-llh', '-95,-10,100', '--ref-frame', 'ITRF2014', '--ref-epoch', '2018.76'], /latitude must be within -90..90/],
-    ['elevation mask out of range', [...base, '--ref-from-header', '--elevation-mask', '95'], /--elevation-mask must be between 0 and 90/],
-    ['elevation mask not a number', [...base, '--ref-from-header', '--elevation-mask', 'ten'], /--elevation-mask expects a number/],
-    ['unknown system letter', [...base, '--ref-from-header', '--systems', 'G,X'], /--systems/],
-    ['unknown weighting', [...base, '--ref-from-header', '--weights', 'snr'], /--weights expects one of/],
-    ['slant height without radius', [...base, '--ref-from-header', '--rover-antenna-height', '1.5', '--height-kind', 'slant'], /--antenna-radius/],
-    ['unknown output', [...base, '--ref-from-header', '--outputs', 'epochs,kml'], /--outputs/],
-    ['epoch out of range', [...base, '--ref-llh', '53,-9,70', '--ref-frame', 'ITRF2014', '--ref-epoch', '18.76'], /--ref-epoch must be between/],
+    ['unknown option', [...base, '--ref-coord', 'header', '--no-such-option'], /Unknown argument/i],
+    ['missing --rover', ['solve', '--reference', 'b.obs', '--nav', 'n', '--out', 'x', '--ref-coord', 'header'], /rover/],
+    ['no reference coordinate', base, /--ref-coord: X,Y,Z.*LAT,LON,H.*mark name.*'header'/],
+    ['a reference coordinate of no known form names the forms', [...base, '--ref-coord', 'KFRD;X'], /matches none of its forms: X,Y,Z \(ECEF metres.*LAT,LON,H.*a mark name from --marks FILE.*'header'/],
+    ['a mark name without a marks file', [...base, '--ref-coord', 'KFRD'], /no --marks FILE/],
+    ['coordinate without frame', [...base, '--ref-coord', '3774089.2,-601661.6,5089321.2'], /--ref-frame.*--ref-epoch/],
+    ['coordinate with two values', [...base, '--ref-coord', '1,2', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76'], /expected three/],
+    ['coordinate inside the Earth', [...base, '--ref-coord', '1000,2000,300000', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76'], /near the Earth's surface/],
+    ['latitude out of range', [...base, '--ref-coord', '95,10,100', '--ref-frame', 'ITRF2014', '--ref-epoch', '2018.76'], /latitude\/longitude\/height within -90..90/],
+    ['a negative coordinate value is read as a value, not as a flag', [...base, '--ref-coord', '-95,-10,100', '--ref-frame', 'ITRF2014', '--ref-epoch', '2018.76'], /within -90..90/],
+    ['a misspelt frame name is refused without --allow-unknown-frame', [...base, '--ref-coord', '53,-9,70', '--ref-frame', 'ETRF2OOO', '--ref-epoch', '2018.76'], /'ETRF2OOO' is not a frame refdelta knows.*--allow-unknown-frame/],
+    ['elevation mask out of range', [...base, '--ref-coord', 'header', '--elevation-mask', '95'], /--elevation-mask must be between 0 and 90/],
+    ['elevation mask not a number', [...base, '--ref-coord', 'header', '--elevation-mask', 'ten'], /--elevation-mask expects a number/],
+    ['unknown system letter', [...base, '--ref-coord', 'header', '--systems', 'G,X'], /--systems/],
+    ['unknown weighting', [...base, '--ref-coord', 'header', '--weights', 'snr'], /--weights expects one of/],
+    ['slant height without radius', [...base, '--ref-coord', 'header', '--rover-antenna-height', '1.5', '--height-kind', 'slant'], /--antenna-radius/],
+    ['unknown output', [...base, '--ref-coord', 'header', '--outputs', 'epochs,shapefile'], /--outputs/],
+    ['epoch out of range', [...base, '--ref-coord', '53,-9,70', '--ref-frame', 'ITRF2014', '--ref-epoch', '18.76'], /--ref-epoch must be between/],
   ];
   for (const [name, args, re] of cases) {
     it(name, () => {
@@ -38,7 +40,7 @@ describe('usage errors (exit 2), checked before any file is read', () => {
   }
 
   it('a missing input file is one sentence, exit 1', () => {
-    const r = runCli([...base, '--ref-from-header']);
+    const r = runCli([...base, '--ref-coord', 'header']);
     expect(r.status).toBe(1);
     expect(expectOneSentence(r)).toMatch(/file not found: r\.obs/);
   });
@@ -51,7 +53,7 @@ describeShared('processing failures on real files (exit 1, one sentence)', () =>
   const base = dataPath(`${D}/static-run/base.obs`);
   const nav = dataPath(`${D}/reference/glw1277m.18n`);
   const solve = (r: string, ref: string, n: string, extra: string[] = []) =>
-    runCli(['solve', '--rover', r, '--reference', ref, '--nav', n, '--ref-from-header', '--out', tempDir('rd-fail-'), ...extra]);
+    runCli(['solve', '--rover', r, '--reference', ref, '--nav', n, '--ref-coord', 'header', '--out', tempDir('rd-fail-'), ...extra]);
 
   it('a file that is not RINEX', () => {
     const r = solve(dataPath('README.md'), base, nav);

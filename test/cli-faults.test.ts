@@ -15,7 +15,7 @@ beforeAll(requireBuiltCli);
 
 const demo = (f: string) => join(REPO_ROOT, 'fixtures/demo', f);
 const solveArgs = (rover: string, out: string, extra: string[] = []) => ['solve', '--rover', rover, '--reference', demo('KFRD-reference-5s.obs'),
-  '--nav', demo('broadcast-mixed.nav'), '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--out', out, ...extra];
+  '--nav', demo('broadcast-mixed.nav'), '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--out', out, ...extra];
 const temporaries = (dir: string): string[] => (existsSync(dir) ? readdirSync(dir).filter((n) => n.endsWith('.tmp') || n.startsWith('.refdelta-commit')) : []);
 
 describe('output folder checked before any processing', () => {
@@ -98,7 +98,7 @@ describe('batch folder names and odd entries', () => {
     mkdirSync(join(sessions, 'folder.obs'));
     const out = join(d, 'out');
     const r = runCli(['batch', '--sessions', sessions, '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--outputs', 'summary', '--out', out]);
+      '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--outputs', 'summary', '--out', out]);
     expect(r.status, r.stderr).toBe(0);
     const s = JSON.parse(readFileSync(join(out, 'batch-summary.json'), 'utf8'));
     const folders = s.sessions.map((x: { name: string }) => x.name);

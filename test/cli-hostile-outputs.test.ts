@@ -20,7 +20,7 @@ describe('formula injection through names (demo files, self-consistency)', () =>
     writeFileSync(rover, readFileSync(demo('rover-1s.obs'), 'latin1').replace(/^MILLSTONE {51}MARKER NAME/m, EVIL.padEnd(60) + 'MARKER NAME'), 'latin1');
     const out = join(dir, 'out');
     const r = runCli(['points', '--rover', rover, '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--outputs', 'epochs,summary', '--out', out]);
+      '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--outputs', 'epochs,summary', '--out', out]);
     expect(r.status, r.stderr).toBe(0);
     const epochs = readFileSync(join(out, 'epochs.csv'), 'utf8');
     expect(epochs).not.toMatch(/(^|,)"?=HYPERLINK/m);

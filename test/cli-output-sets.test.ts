@@ -15,7 +15,7 @@ import { expectOneSentence, parseCsv, requireBuiltCli, runCli, tempDir } from '.
 const DEMO = (f: string) => fixturePath(`demo/${f}`);
 const sha256 = (p: string) => createHash('sha256').update(readFileSync(p)).digest('hex');
 const FILES = ['--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav')];
-const MARK = ['--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv')];
+const MARK = ['--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv')];
 const hashes = (d: string) => Object.fromEntries(readdirSync(d).sort().map((n) => [n, sha256(join(d, n))]));
 
 beforeAll(requireBuiltCli);
@@ -25,7 +25,7 @@ describe('data problems are exit 1 with one sentence, not usage errors (finding 
     const d = tempDir('rd-noapprox-');
     const ref = join(d, 'ref.obs');
     writeFileSync(ref, readFileSync(DEMO('KFRD-reference-5s.obs'), 'utf8').split('\n').filter((l) => !l.includes('APPROX POSITION XYZ')).join('\n'));
-    const r = runCli(['solve', '--rover', DEMO('rover-1s.obs'), '--reference', ref, '--nav', DEMO('broadcast-mixed.nav'), '--ref-from-header', '--out', join(d, 'out')]);
+    const r = runCli(['solve', '--rover', DEMO('rover-1s.obs'), '--reference', ref, '--nav', DEMO('broadcast-mixed.nav'), '--ref-coord', 'header', '--out', join(d, 'out')]);
     expect(r.status).toBe(1);
     const s = expectOneSentence(r);
     expect(s).toMatch(/has no APPROX POSITION XYZ header record/);
@@ -56,10 +56,16 @@ describe('a failed run never replaces an earlier complete output set (findings 2
   });
 
   it('points writes solve outputs and points files as one set; summary.json lists them all with their hashes', () => {
-    expect(Object.keys(before)).toEqual(['epochs.csv', 'points.csv', 'points.geojson', 'positions.geojson', 'residuals.csv', 'summary.json']);
+    expect(Object.keys(before)).toEqual([
+      'epochs.csv', 'epochs.csv.meta.json', 'epochs.csvt', 'epochs.prj', 'points.csv', 'points.csv.meta.json', 'points.csvt', 'points.geojson', 'points.prj',
+      'positions.geojson', 'residuals.csv', 'residuals.csv.meta.json', 'residuals.csvt', 'summary.json',
+    ]);
     const s = JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8'));
     const listed = s.outputs.filter((o: { kind: string }) => o.kind !== 'summary');
-    expect(listed.map((o: { kind: string }) => o.kind).sort()).toEqual(['epochs', 'geojson', 'points', 'points-geojson', 'residuals']);
+    expect(listed.map((o: { kind: string }) => o.kind).sort()).toEqual([
+      'epochs', 'epochs-csvt', 'epochs-metadata', 'epochs-prj', 'geojson', 'points', 'points-csvt', 'points-geojson', 'points-metadata', 'points-prj',
+      'residuals', 'residuals-csvt', 'residuals-metadata',
+    ]);
     for (const o of listed) expect(o.sha256).toBe(before[o.path.split('/').pop()]); // FIPS 180-4 via node:crypto
   });
 
@@ -87,13 +93,14 @@ describe('each row carries its frame (finding 29)', () => {
     const r = runCli(['solve', '--rover', DEMO('rover-1s.obs'), ...FILES, ...MARK, '--max-age', '1', '--fallback-standalone', '--out', out]);
     expect(r.status, r.stderr).toBe(0);
     const ep = parseCsv(readFileSync(join(out, 'epochs.csv'), 'utf8'));
-    expect(ep.comments.join('\n')).toMatch(/rows of solution 'standalone' are in the frame of the broadcast orbits/);
+    const meta = JSON.parse(readFileSync(join(out, 'epochs.csv.meta.json'), 'utf8'));
+    expect(meta.notes.join('\n')).toMatch(/rows of solution 'standalone' are in the frame of the broadcast orbits/);
     const kinds = new Set(ep.rows.map((x) => `${x.solution}|${x.frame}`));
     // the demo's control list gives KFRD in WGS84 at 2024.3672 (fixtures/demo/control-marks.csv)
     expect([...kinds].sort()).toEqual(['differential|WGS84', 'standalone|WGS84 (broadcast orbits)']);
     expect(ep.rows.filter((x) => x.solution === 'differential').every((x) => x.frame_epoch === '2024.3672')).toBe(true);
     const g = JSON.parse(readFileSync(join(out, 'positions.geojson'), 'utf8'));
-    for (const f of g.features) expect(f.properties.frame).toBe(f.properties.kind === 'standalone' ? 'WGS84 (broadcast orbits)' : 'WGS84');
+    for (const f of g.features) expect(f.properties.frame).toBe(f.properties.solution === 'standalone' ? 'WGS84 (broadcast orbits)' : 'WGS84');
   });
 });
 
@@ -105,11 +112,11 @@ describe('check: output events and the CSV/JSON pair (finding 30)', () => {
     const r = runCli(['check', '--points', join(pts, 'points.csv'), '--marks', DEMO('control-marks.csv'), '--json-lines', '--out', out]);
     expect([0, 3]).toContain(r.status); // the demo's WELLHEAD is a deliberate blunder (control-marks.csv comment)
     const events = r.stdout.split('\n').filter(Boolean).map((l) => JSON.parse(l)).filter((e) => e.event === 'output');
-    expect(events.map((e) => e.kind)).toEqual(['control-check', 'control-check-json']);
+    expect(events.map((e) => e.kind)).toEqual(['control-check', 'control-check-csvt', 'control-check-metadata', 'control-check-json']);
     for (const e of events) {
       expect(e.sha256).toBe(sha256(e.path)); // FIPS 180-4 via node:crypto
       expect(e.bytes).toBe(readFileSync(e.path).length);
     }
-    expect(readdirSync(out).sort()).toEqual(['control-check.csv', 'control-check.json']);
+    expect(readdirSync(out).sort()).toEqual(['control-check.csv', 'control-check.csv.meta.json', 'control-check.csvt', 'control-check.json']);
   });
 });

@@ -15,7 +15,7 @@ beforeAll(requireBuiltCli);
 const demo = (f: string) => join(REPO_ROOT, 'fixtures/demo', f);
 const text = (f: string) => readFileSync(demo(f), 'latin1');
 const solve = (rover: string, ref: string, nav: string) => runCli(['solve', '--rover', rover, '--reference', ref, '--nav', nav,
-  '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--outputs', 'summary', '--quiet', '--out', tempDir('rd-sent-out-')]);
+  '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--outputs', 'summary', '--quiet', '--out', tempDir('rd-sent-out-')]);
 const put = (name: string, body: string | Uint8Array): string => {
   const p = join(tempDir('rd-sent-'), name);
   writeFileSync(p, body, typeof body === 'string' ? 'latin1' : undefined);
@@ -72,13 +72,13 @@ describe('sentences that name the real problem (demo files, damaged on purpose)'
   });
 });
 
-describe('geoid grids checked before the run (fixtures/geo/tiny-geoid.txt, an invented grid)', () => {
+describe('geoid grids checked before the run (fixtures/geo/egm96-crop.isg, EGM96 nodes far from the demo)', () => {
   it('a grid that does not cover the survey area is one sentence before any epoch is solved', () => {
     const r = runCli(['points', '--rover', demo('rover-1s.obs'), '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--geoid', join(REPO_ROOT, 'fixtures/geo/tiny-geoid.txt'), '--out', tempDir('rd-geoid-')]);
+      '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--geoid', join(REPO_ROOT, 'fixtures/geo/egm96-crop.isg'), '--out', tempDir('rd-geoid-')]);
     expect(r.status).toBe(1);
     expect(r.stderr).not.toMatch(/rover epochs/);
     expect(expectOneSentence({ ...r, stderr: r.stderr.split('\n').filter((l) => !l.startsWith('warning') && !l.startsWith('note')).join('\n') }))
-      .toMatch(/geoid grid .*tiny-geoid\.txt does not cover the survey area/);
+      .toMatch(/geoid grid .*egm96-crop\.isg does not cover the survey area/);
   });
 });

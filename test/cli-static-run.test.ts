@@ -23,7 +23,7 @@ describeShared('refdelta solve on the real static run', () => {
       'solve', '--carrier-phase', 'off', '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
       '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
       // data README: base APPROX POSITION XYZ, frame WGS 84 at the epoch of observation.
-      '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
+      '--ref-coord', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
       '--out', out,
     ]);
   });
@@ -37,7 +37,8 @@ describeShared('refdelta solve on the real static run', () => {
     const truth = parseCsv(readFileSync(dataPath(`${D}/static-run/rover-truth.csv`), 'utf8')).rows.filter((r) => r.fix_quality === '4');
     const byTow = new Map(truth.map((r) => [Math.round(Number(r.gps_tow_s)), r]));
     const ep = parseCsv(readFileSync(join(out, 'epochs.csv'), 'utf8'));
-    expect(ep.comments.join('\n')).toContain('# frame: WGS84 epoch 2018.76; position refers to: ground mark');
+    const meta = JSON.parse(readFileSync(join(out, 'epochs.csv.meta.json'), 'utf8'));
+    expect([meta.frame, meta.frame_epoch, meta.point_reference]).toEqual(['WGS84', 2018.76, 'ground mark']);
     const h: number[] = [];
     for (const r of ep.rows) {
       if (r.solution !== 'differential' && r.solution !== 'smoothed') continue;
@@ -63,6 +64,8 @@ describeShared('refdelta solve on the real static run', () => {
     }
     expect(s.inputs.map((i: { kind: string }) => i.kind)).toEqual(['rover', 'reference', 'navigation', 'navigation']);
     expect(s.frame.name).toBe('WGS84');
-    expect(s.outputs.map((o: { kind: string }) => o.kind).sort()).toEqual(['epochs', 'geojson', 'residuals', 'summary']);
+    expect(s.outputs.map((o: { kind: string }) => o.kind).sort()).toEqual([
+      'epochs', 'epochs-csvt', 'epochs-metadata', 'epochs-prj', 'geojson', 'residuals', 'residuals-csvt', 'residuals-metadata', 'summary',
+    ]);
   });
 });

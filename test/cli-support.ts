@@ -5,7 +5,9 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { REPO_ROOT } from './support/shared.js';
 
-export const CLI_MAIN = resolve(REPO_ROOT, 'packages/cli/dist/main.js');
+/** The installed command's entry (bin/refdelta.js runs the built dist/main.js). */
+export const CLI_MAIN = resolve(REPO_ROOT, 'packages/cli/bin/refdelta.js');
+const CLI_BUILT = resolve(REPO_ROOT, 'packages/cli/dist/main.js');
 
 export interface CliRun {
   readonly status: number | null;
@@ -14,7 +16,7 @@ export interface CliRun {
 }
 
 export function requireBuiltCli(): void {
-  if (!existsSync(CLI_MAIN)) throw new Error(`${CLI_MAIN} is missing: run 'npm run build' (npm test builds first)`);
+  if (!existsSync(CLI_BUILT)) throw new Error(`${CLI_BUILT} is missing: run 'npm run build' (npm test builds first)`);
 }
 
 export function runCli(args: readonly string[], timeoutMs = 120_000): CliRun {

@@ -14,7 +14,7 @@ import { enuAt, parseCsv, requireBuiltCli, runCli, tempDir, type CliRun } from '
 const DEMO = (f: string) => fixturePath(`demo/${f}`);
 const HAVE = existsSync(DEMO('rover-1s.obs'));
 if (!HAVE) console.warn('[skip] points on the demo: fixtures/demo/ not generated yet (node fixtures/demo/make-demo.mjs)');
-const RUN = ['--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'), '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--outputs', 'summary'];
+const RUN = ['--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'), '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--outputs', 'summary'];
 const NAMES = ['MILLSTONE', 'FERRYPOST', 'ELMCORNER', 'WELLHEAD'];
 
 function truthMarks(): Map<string, { x: number; y: number; z: number; h: number }> {

@@ -16,7 +16,7 @@ const D = 'cors-and-rover-2018-277';
 const RUN = [
   '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
   '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
-  '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
+  '--ref-coord', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
 ];
 const T0 = Date.UTC(2018, 9, 4, 12, 38, 0) / 1000;
 

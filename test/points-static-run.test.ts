@@ -16,7 +16,7 @@ const RUN = [
   '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
   '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
   // data README: base APPROX POSITION XYZ, frame WGS 84 at the epoch of observation.
-  '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
+  '--ref-coord', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
 ];
 
 function truthMean(): [number, number, number] {
@@ -66,10 +66,10 @@ describeShared('refdelta points on the real static run', () => {
     // The antenna height in force (header: 0 m) is reported.
     expect(Number(p.antenna_height_m)).toBe(0);
     // the file states frame, epoch, projection and height reference
-    const head = t.comments.join('\n');
-    expect(head).toContain('# frame: WGS84 epoch 2018.76');
-    expect(head).toMatch(/# projection: WGS 84 \/ UTM zone 29N \(EPSG:32629\)/);
-    expect(head).toMatch(/EGM96 is a global geoid model, not a national vertical datum/);
+    const meta = JSON.parse(readFileSync(join(out, 'points.csv.meta.json'), 'utf8'));
+    expect([meta.frame, meta.frame_epoch]).toEqual(['WGS84', 2018.76]);
+    expect(meta.projection.name).toMatch(/WGS 84 \/ UTM zone 29N \(EPSG:32629\)/);
+    expect(meta.notes.join('\n')).toMatch(/EGM96 is a global geoid model, not a national vertical datum/);
     // orthometric = ellipsoidal - N (geoid-model.ts); N here ~ 57 m (EGM96 in western Ireland, from memory: loose bound)
     const N = Number(p.height_m) - Number(p.orthometric_height_m);
     expect(N).toBeGreaterThan(50);
@@ -114,7 +114,7 @@ describeShared('refdelta points on the real static run', () => {
     expect(j.nssda.warnings.join(' ')).toMatch(/at least 20/);
     const tight = runCli(['check', '--points', join(out, 'points.csv'), '--marks', marks, '--tolerance-h', '0.001', '--out', o3, '--quiet']);
     expect(tight.status).toBe(3);
-    expect(expectOneSentence(tight)).toMatch(/1 of 1 control mark\(s\) failed the tolerance/);
+    expect(expectOneSentence(tight)).toMatch(/1 of 1 comparison\(s\) with control marks failed the tolerance/);
     // the frame rule: a mark in another frame without a transformation is refused (exit 1, one sentence)
     writeFileSync(marks, `name,x_m,y_m,z_m,frame,epoch\nROVER-TRUTH,${truth.map((v) => v.toFixed(4)).join(',')},ITRF2014,2018.76\n`);
     const refused = runCli(['check', '--points', join(out, 'points.csv'), '--marks', marks, '--out', o3, '--quiet']);

@@ -93,7 +93,7 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
     requireBuiltCli();
     out = tempDir('rd-report-demo-');
     const run = runCli(['points', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--smooth', '100', '--projection', 'utm', ...OUTPUTS, '--out', out]);
+      '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--smooth', '100', '--projection', 'utm', ...OUTPUTS, '--out', out]);
     expect(run.status, run.stderr).toBe(0);
   });
   afterAll(async () => { await page?.close(); });
@@ -180,7 +180,7 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
     writeFileSync(join(dir, 'broken.24o'), 'this is not RINEX at all\n'.repeat(20));
     const bout = tempDir('rd-report-batch-');
     const run = runCli(['batch', '--sessions', dir, '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), ...OUTPUTS, '--out', bout]);
+      '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), ...OUTPUTS, '--out', bout]);
     expect(run.status, run.stderr).toBe(4); // README: exit 4 when some sessions failed
     expect(existsSync(join(bout, 'walk-a', 'report.html'))).toBe(true);
     const file = join(bout, 'report.html');
@@ -217,7 +217,7 @@ describeShared('HTML report of the real static run in chromium', () => {
     const run = runCli(['points', '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
       '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
       // data README: base APPROX POSITION XYZ, frame WGS 84 at the epoch of observation.
-      '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
+      '--ref-coord', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76',
       // Code solution: its residual rows carry residuals and directions, so every chart has real data.
       '--carrier-phase', 'off', ...OUTPUTS, '--out', out]);
     expect(run.status, run.stderr).toBe(0);
@@ -261,7 +261,7 @@ describeShared('HTML report of the real static run with carrier phase in chromiu
     const out = tempDir('rd-report-carrier-');
     const run = runCli(['points', '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
       '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
-      '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', ...OUTPUTS, '--out', out]);
+      '--ref-coord', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', ...OUTPUTS, '--out', out]);
     expect(run.status, run.stderr).toBe(0);
     const file = join(out, 'report.html');
     expect(statSync(file).size).toBeLessThan(2 * 1024 * 1024);

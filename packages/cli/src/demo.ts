@@ -30,7 +30,7 @@ const FILES = {
 export function demoArgs(outDir: string) {
   return {
     rover: FILES.rover, reference: [FILES.reference], nav: [FILES.nav], out: outDir,
-    refMark: 'KFRD', marks: FILES.marks,
+    refCoord: 'KFRD', marks: FILES.marks,
     // The demo truth is the antenna reference point: report the ARP to compare like with like.
     atAntenna: true,
     // The epoch-by-epoch step shows the code engine (its figures are in README.md); the points, carrier phase.

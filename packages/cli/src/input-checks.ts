@@ -1,6 +1,6 @@
 /** Checks made before processing: time overlap of the files, navigation data for the systems observed. */
 import {
-  ProcessingError, SYSTEM_NAMES, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds,
+  ProcessingError, SYSTEM_NAMES, satSystem, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds,
   type GnssSystem, type NavData, type ObsHeader, type WarningSink,
 } from '@refdelta/core';
 import { openObs } from './node-io.js';
@@ -27,6 +27,14 @@ export async function obsTimeSpan(path: string, header: ObsHeader, onWarning: Wa
   return Number.isFinite(first) ? { firstGpsS: first, lastGpsS: last } : null;
 }
 
+/** The systems whose satellites actually appear in the file's epochs (a header may list codes of a system never tracked). */
+export async function systemsSeen(path: string): Promise<Set<GnssSystem>> {
+  const s = await openObs(path, () => {});
+  const seen = new Set<GnssSystem>();
+  for await (const ep of s.epochs) for (const o of ep.sats) seen.add(satSystem(o.sat));
+  return seen;
+}
+
 function when(gpsS: number): string {
   return `${isoFromSeconds(gpsToUtcS(gpsS), '').replace('T', ' ').slice(0, 19)} UTC`;
 }
@@ -51,8 +59,9 @@ export const NAV_WINDOW_S = 4 * 3600;
  * There must be ephemerides, near the rover's span, for at least one of the systems the rover observed
  * and the user allowed. Systems without any are reported as warnings.
  */
-export function requireNavigation(nav: NavData, navPaths: readonly string[], roverHeader: ObsHeader, systems: readonly GnssSystem[], span: TimeSpan | null, warn: WarningSink): GnssSystem[] {
-  const observed = (Object.keys(roverHeader.obsCodes) as GnssSystem[]).filter((s) => systems.includes(s) && (roverHeader.obsCodes[s]?.length ?? 0) > 0);
+export function requireNavigation(nav: NavData, navPaths: readonly string[], roverHeader: ObsHeader, systems: readonly GnssSystem[], span: TimeSpan | null, warn: WarningSink, seen?: ReadonlySet<GnssSystem>): GnssSystem[] {
+  // Systems the header lists codes for and, when known, whose satellites are actually in the data.
+  const observed = (Object.keys(roverHeader.obsCodes) as GnssSystem[]).filter((s) => systems.includes(s) && (roverHeader.obsCodes[s]?.length ?? 0) > 0 && (!seen || seen.has(s)));
   const covered = new Set<GnssSystem>();
   for (const e of nav.ephemerides) {
     const t = ephemerisTimeGpsS(e);

@@ -1,10 +1,12 @@
-#!/usr/bin/env node
 /**
- * refdelta: differential GNSS pseudorange post-processing from RINEX files.
+ * refdelta: differential GNSS pseudorange post-processing from RINEX files. This module is the CLI's
+ * library entry: importing it runs nothing; `main(argv)` runs a command line and returns its exit code
+ * (bin/refdelta.js calls runFromProcess()).
  * Exit codes: 0 ok, 1 reading or processing failed, 2 wrong command line, 3 a control mark failed
  * (check), 4 some sessions of a batch failed (see exit-codes.ts, README.md).
  */
 import yargs from 'yargs';
+import { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, DEFAULT_MATCH_RADIUS_M } from '@refdelta/core';
 import { hideBin } from 'yargs/helpers';
 import { runSolve, type SolveArgs } from './commands/solve.js';
 import { runInspect } from './commands/inspect.js';
@@ -21,23 +23,19 @@ import { UsageError } from './usage-error.js';
 import { SOFTWARE } from './software.js';
 import { visibleLine } from './visible-text.js';
 
+// Examples use the invented demo scenario only (fixtures/demo: Kestrelford, mark KFRD).
+const D = 'fixtures/demo';
+const DEMO_FILES = `--rover ${D}/rover-1s.obs --reference ${D}/KFRD-reference-5s.obs --nav ${D}/broadcast-mixed.nav`;
 const SOLVE_EXAMPLES: readonly [string, string][] = [
-  [
-    'refdelta solve --rover rover.obs --reference base.obs --nav brdc.18n --ref-xyz 3774089.212,-601661.616,5089321.247 --ref-frame WGS84 --ref-epoch 2018.76 --out out/run1',
-    'known reference coordinate (ECEF metres) with its frame and epoch',
-  ],
-  [
-    'refdelta solve --rover rover.obs --reference cors.18o --nav cors.18n cors.18g --ref-llh 53.32,-9.08,70.2 --ref-frame ETRF2000 --ref-epoch 2018.76 --elevation-mask 15 --smooth 100 --out out/run2',
-    'geodetic reference coordinate, 15 deg mask, 100 s carrier smoothing',
-  ],
-  [
-    'refdelta solve --rover rover.obs --reference base.obs --nav brdc.18n --ref-from-header --rover-antenna-height 1.50 --out out/run3',
-    "the reference file's header coordinate (approximate; frame 'unstated')",
-  ],
+  [`refdelta solve ${DEMO_FILES} --ref-coord 4297138.9472,662577.7978,4651416.4719 --ref-frame WGS84 --ref-epoch 2024.3672 --out out/run1`, 'reference mark as ECEF metres, with its frame and epoch'],
+  [`refdelta solve ${DEMO_FILES} --ref-coord 47.123456,8.765432,412.345 --ref-frame WGS84 --ref-epoch 2024.3672 --elevation-mask 15 --smooth 100 --out out/run2`, 'latitude, longitude, ellipsoidal height; 15 deg mask, 100 s carrier smoothing'],
+  [`refdelta solve ${DEMO_FILES} --ref-coord KFRD --marks ${D}/control-marks.csv --out out/run3`, 'a mark named in a control list (frame and epoch from the list)'],
+  [`refdelta solve ${DEMO_FILES} --ref-coord header --rover-antenna-height 1.5 --out out/run4`, "the reference file's header coordinate (approximate; frame unstated)"],
+  [`refdelta solve --rover ${D}/rover-1s.obs --nav ${D}/broadcast-mixed.nav --out out/alone`, 'no reference: single-receiver (standalone) positions in the broadcast orbits\' frame'],
 ];
 
 /** Options whose values may start with a minus sign (coordinates): joined as --opt=value so they are not read as flags. */
-const SIGNED_VALUE_OPTIONS = new Set(['--ref-xyz', '--ref-llh', '--ref-epoch', '--ref-antenna-height', '--rover-antenna-height', '--slant-offset']);
+const SIGNED_VALUE_OPTIONS = new Set(['--ref-coord', '--ref-epoch', '--ref-antenna-height', '--rover-antenna-height', '--slant-offset']);
 
 export function joinSignedValues(argv: readonly string[]): string[] {
   const out: string[] = [];
@@ -99,8 +97,8 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
       (c) =>
         c.positional('files', { type: 'string', array: true, describe: 'files to inspect (any RINEX encoding)' })
           .option('text', { type: 'boolean', default: false, describe: 'readable text instead of JSON' })
-          .example('refdelta inspect rover.obs', 'JSON description of one file')
-          .example('refdelta inspect --text base.obs brdc.18n', 'readable view of two files'),
+          .example(`refdelta inspect ${D}/rover-1s.obs`, 'JSON description of one file')
+          .example(`refdelta inspect --text ${D}/KFRD-reference-5s.obs ${D}/broadcast-mixed.nav`, 'readable view of two files'),
       async (args) => {
         const files = ((args as unknown as { files?: string[] }).files ?? []).map(String);
         exitCode = await runInspect(files, (args as unknown as { text?: boolean }).text === true, rep);
@@ -111,7 +109,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
       'per-point coordinates: a solve run, then one averaged coordinate per occupation (windows, event flags or Doppler static detection)',
       (c) =>
         defineCarrierOptions(definePointsOptions(defineSolveOptions(c)))
-          .example('refdelta points --rover rover.obs --reference base.obs --nav brdc.18n --ref-xyz 3774089.212,-601661.616,5089321.247 --ref-frame WGS84 --ref-epoch 2018.76 --projection utm --geoid egm96 --out out/pts', 'points with UTM grid coordinates and EGM96 heights'),
+          .example(`refdelta points ${DEMO_FILES} --ref-coord KFRD --marks ${D}/control-marks.csv --projection utm --geoid egm96 --out out/pts`, 'points with UTM grid coordinates and EGM96 heights'),
       async (args) => {
         const a = args as unknown as Record<string, unknown>;
         const pa: PointsArgs = pointsArgsFrom(a);
@@ -132,7 +130,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
             .option('out', { type: 'string', demandOption: true, describe: 'output folder: OUT/<session>/ per session, batch-points.csv, batch-summary.json', group: 'Files:' })
             .option('jobs', { type: 'string', describe: 'sessions processed at once, on worker threads (default: the cores); outputs are the same for any value' }),
         )))
-          .example('refdelta batch --sessions field/ --reference-dir cors/ --nav-dir cors/ --ref-from-header --out out/batch', 'every session of field/ against the CORS hours that overlap it'),
+          .example(`refdelta batch --sessions field/ --reference ${D}/KFRD-reference-5s.obs --nav ${D}/broadcast-mixed.nav --ref-coord KFRD --marks ${D}/control-marks.csv --out out/batch`, 'every rover file of field/ against the KFRD reference'),
       async (args) => {
         const a = args as unknown as Record<string, unknown>;
         const p = pointsArgsFrom({ ...a, rover: '' });
@@ -151,14 +149,16 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
         c.option('points', { type: 'string', demandOption: true, describe: 'points.csv written by refdelta points' })
           .option('marks', { type: 'string', demandOption: true, describe: 'control marks CSV (name, coordinates, frame, epoch[, accuracy_h_m, accuracy_v_m])' })
           .option('out', { type: 'string', demandOption: true, describe: 'output folder (control-check.csv, control-check.json)' })
-          .option('radius', { type: 'string', describe: 'match by proximity within this horizontal distance (m) when names differ, default 5' })
-          .option('tolerance-h', { type: 'string', describe: 'horizontal tolerance (m), default 1.0' })
-          .option('tolerance-v', { type: 'string', describe: 'vertical tolerance (m), default 2.0' })
-          .option('transform', { type: 'string', describe: 'Helmert parameter JSON allowing a comparison across frames' })
-          .example('refdelta check --points out/pts/points.csv --marks control.csv --tolerance-h 0.5 --out out/check', 'check against control marks'),
+          .option('radius', { type: 'number', default: DEFAULT_MATCH_RADIUS_M, describe: 'match by proximity within this horizontal distance (m) when names differ' })
+          .option('tolerance-h', { type: 'number', default: DEFAULT_CHECK_TOLERANCE_H_M, describe: 'horizontal tolerance (m)' })
+          .option('tolerance-v', { type: 'number', default: DEFAULT_CHECK_TOLERANCE_V_M, describe: 'vertical tolerance (m)' })
+          .option('transform', { type: 'string', describe: "frame transformation(s) allowing a comparison across frames: a shipped set by name (ITRF2014>ETRF2000, ITRF2014>ITRF2008, ITRF2020>ITRF2014, WGS84=ITRF2014; either direction) or a Helmert parameter JSON file" })
+          .option('allow-unknown-frame', { type: 'boolean', default: false, describe: 'accept frame names outside the known list' })
+          .option('outputs', { type: 'string', describe: 'further outputs besides control-check.csv and control-check.json: gpkg (a control_check layer, one point per comparison at its mark)' })
+          .example(`refdelta check --points out/pts/points.csv --marks ${D}/control-marks.csv --tolerance-h 0.5 --out out/check`, 'check against control marks'),
       async (args) => {
         const a = args as unknown as Record<string, unknown>;
-        const ca: CheckArgs = { points: a.points, marks: a.marks, out: a.out, radius: a.radius, toleranceH: a.toleranceH, toleranceV: a.toleranceV, transform: a.transform };
+        const ca: CheckArgs = { points: a.points, marks: a.marks, out: a.out, radius: a.radius, toleranceH: a.toleranceH, toleranceV: a.toleranceV, transform: a.transform, allowUnknownFrame: a.allowUnknownFrame, outputs: a.outputs };
         exitCode = await runCheck(ca, rep);
       },
     )
@@ -173,11 +173,11 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
         exitCode = await runReport(String((args as unknown as { dir?: string }).dir ?? ''), rep);
       },
     )
-    .example('refdelta solve --rover rover.obs --reference base.obs --nav brdc.18n --ref-from-header --out out/run', 'per-epoch positions against a base whose header coordinate is used')
-    .example('refdelta points --rover rover.obs --reference cors.18o --nav cors.18n --ref-xyz X,Y,Z --ref-frame ITRF2014 --ref-epoch 2018.76 --projection utm --out out/pts', 'one coordinate per logged point, in UTM')
-    .example('refdelta check --points out/pts/points.csv --marks control.csv --out out/check', 'compare the points with published control marks')
-    .example('refdelta batch --sessions field/ --reference-dir cors/ --nav-dir cors/ --ref-from-header --out out/batch', 'every session of a folder')
-    .example('refdelta inspect --text rover.obs', 'what a RINEX file holds')
+    .example(`refdelta solve ${DEMO_FILES} --ref-coord KFRD --marks ${D}/control-marks.csv --out out/run`, 'per-epoch positions against the reference on mark KFRD')
+    .example(`refdelta points ${DEMO_FILES} --ref-coord KFRD --marks ${D}/control-marks.csv --projection utm --out out/pts`, 'one coordinate per logged point, in UTM')
+    .example(`refdelta check --points out/pts/points.csv --marks ${D}/control-marks.csv --out out/check`, 'compare the points with published control marks')
+    .example(`refdelta batch --sessions field/ --reference ${D}/KFRD-reference-5s.obs --nav ${D}/broadcast-mixed.nav --ref-coord header --out out/batch`, 'every session of a folder')
+    .example(`refdelta inspect --text ${D}/rover-1s.obs`, 'what a RINEX file holds')
     .demandCommand(1, 'give a command: solve, points, batch, check, report or inspect')
     .strict()
     .version(SOFTWARE.version)
@@ -204,10 +204,13 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
   }
 }
 
-main(hideBin(process.argv)).then(
-  (code) => { process.exitCode = code; },
-  (e: unknown) => {
-    process.stderr.write(`refdelta: internal error: ${visibleLine(e instanceof Error ? e.message : String(e))}\n`);
-    process.exitCode = 1;
-  },
-);
+/** Runs the command line and sets the process exit code (what the `refdelta` bin does). */
+export function runFromProcess(): Promise<void> {
+  return main(hideBin(process.argv)).then(
+    (code) => { process.exitCode = code; },
+    (e: unknown) => {
+      process.stderr.write(`refdelta: internal error: ${visibleLine(e instanceof Error ? e.message : String(e))}\n`);
+      process.exitCode = 1;
+    },
+  );
+}

@@ -5,7 +5,7 @@ import { UsageError } from './usage-error.js';
 /** A finite number, optionally within [min, max]. */
 export function parseNumber(option: string, value: unknown, min = -Infinity, max = Infinity): number {
   const x = typeof value === 'number' ? value : typeof value === 'string' && value.trim() !== '' ? Number(value) : NaN;
-  if (!Number.isFinite(x)) throw new UsageError(`--${option} expects a number, got '${String(value)}'`);
+  if (!Number.isFinite(x)) throw new UsageError(`--${option} expects a number${typeof value === 'number' ? '' : `, got '${String(value)}'`}`);
   if (x < min || x > max) throw new UsageError(`--${option} must be between ${min} and ${max}, got ${x}`);
   return x;
 }

@@ -1,18 +1,20 @@
-/** --ref-mark NAME --marks FILE: the reference coordinate from a control list (core control stage reads the CSV). */
+/** --ref-coord NAME --marks FILE: the reference coordinate from a control list (core control stage reads the CSV). */
 import { readFile } from 'node:fs/promises';
-import { decimalYearFromGpsS, parseControlCsv, type FrameEpoch, type Warning } from '@refdelta/core';
+import { decimalYearFromGpsS, parseMarksFile, type FrameEpoch, type Warning } from '@refdelta/core';
 import { requireFile } from './node-io.js';
 import type { ReferenceChoice, ResolvedReference } from './reference-choice.js';
 import { UsageError } from './usage-error.js';
+import { requireKnownFrame } from './frame-check.js';
 
 export async function referenceFromMark(
   choice: Extract<ReferenceChoice, { mode: 'mark' }>,
   roverFirstGpsS: number,
   warn: (w: Warning) => void,
+  allowUnknownFrame = false,
 ): Promise<ResolvedReference> {
   await requireFile(choice.marksFile);
   const text = await readFile(choice.marksFile, 'utf8');
-  const marks = parseControlCsv(choice.marksFile, text, warn);
+  const marks = parseMarksFile(choice.marksFile, text, warn);
   const wanted = choice.markName.trim().toLowerCase();
   const mark = marks.find((m) => m.name.trim().toLowerCase() === wanted);
   if (!mark) {
@@ -20,6 +22,7 @@ export async function referenceFromMark(
     throw new UsageError(`mark '${choice.markName}' is not in ${choice.marksFile}${some ? ` (it holds ${some}${marks.length > 8 ? ', ...' : ''})` : ' (it holds no marks)'}`);
   }
   const listed = mark.position.frame;
+  requireKnownFrame(listed.name, `the frame of ${mark.name} in ${choice.marksFile} (line ${mark.line})`, allowUnknownFrame);
   const notes: string[] = [];
   let name = listed.name;
   if (choice.frameName !== undefined && choice.frameName !== listed.name) {

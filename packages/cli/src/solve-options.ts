@@ -1,19 +1,16 @@
 /** From the command line's values to the engine's SessionOptions (everything but the reference coordinate). */
-import { DEFAULT_OPTIONS, type AntennaOffset, type GlonassPolicy, type SessionOptions } from '@refdelta/core';
+import {
+  DEFAULT_OPTIONS, SUMMARY_FILE_NAME, defaultOutputKinds, outputKinds, type AntennaOffset, type GlonassPolicy, type SessionOptions,
+} from '@refdelta/core';
 import { parseChoice, parseChoiceList, parseNumber, parseSystems } from './parse-values.js';
 import { UsageError } from './usage-error.js';
 
-export const OUTPUT_KINDS = ['epochs', 'residuals', 'geojson', 'summary', 'report'] as const;
-export type OutputKind = (typeof OUTPUT_KINDS)[number];
+/** The kinds of --outputs: the core's output registry (report/output-registry.ts), 'summary' and 'report' (report.html, built from the others). */
+export const OUTPUT_KINDS: readonly string[] = [...outputKinds(), 'report'];
+export type OutputKind = string;
 
-/** File names inside the output folder. */
-export const OUTPUT_FILE_NAMES: Readonly<Record<OutputKind, string>> = {
-  epochs: 'epochs.csv',
-  residuals: 'residuals.csv',
-  geojson: 'positions.geojson',
-  summary: 'summary.json',
-  report: 'report.html',
-};
+/** The run's index and its report inside the output folder. */
+export const OUTPUT_FILE_NAMES = { summary: SUMMARY_FILE_NAME, report: 'report.html' } as const;
 
 export interface SolveOptionArgs {
   readonly roverAntennaHeight?: unknown;
@@ -69,7 +66,7 @@ export function parseSlantGeometry(a: SolveOptionArgs): SlantGeometry | undefine
   // Slant measuring points sit within a few decimetres of the ARP on survey antennas (common practice).
   const offsetM = a.slantOffset === undefined ? 0 : parseNumber('slant-offset', a.slantOffset, -1, 1);
   if (radiusM === undefined) {
-    if (a.slantOffset !== undefined) throw new UsageError('--slant-offset needs --antenna-radius M (both describe the slant measuring point)');
+    if (a.slantOffset !== undefined && a.slantOffset !== 0) throw new UsageError('--slant-offset needs --antenna-radius M (both describe the slant measuring point)');
     return undefined;
   }
   return { radiusM, arpAboveSlantPointM: offsetM };
@@ -125,7 +122,7 @@ export function parseSessionOptions(a: SolveOptionArgs): Omit<SessionOptions, 'r
 export function parseOutputs(v: unknown): OutputKind[] {
   // report.html is asked for by name; the default set is the data files. The report draws from
   // epochs.csv and residuals.csv, so asking for it writes them too.
-  if (v === undefined) return OUTPUT_KINDS.filter((k) => k !== 'report');
+  if (v === undefined) return defaultOutputKinds();
   const kinds = parseChoiceList('outputs', v, OUTPUT_KINDS);
   return kinds.includes('report') ? OUTPUT_KINDS.filter((k) => kinds.includes(k) || k === 'epochs' || k === 'residuals') : kinds;
 }

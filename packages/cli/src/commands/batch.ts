@@ -12,7 +12,7 @@ import { prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence } from '../input-sanity.js';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
-import { InputError, ProcessingError, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds, type Warning } from '@refdelta/core';
+import { InputError, ProcessingError, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds, csvtText, metadataFileName, tableMetadata, type Warning } from '@refdelta/core';
 import { OutputSet, openNav, openObs } from '../node-io.js';
 import { NAV_WINDOW_S, obsTimeSpan, type TimeSpan } from '../input-checks.js';
 import { looksLikeObservationName, rinexKindOfFile, type RinexKind } from '../rinex-kind.js';
@@ -182,7 +182,7 @@ export function batchTable(records: readonly SessionRecord[]): string {
 
 /** Option values echoed into the summary (what was given, as given). */
 const ECHOED_OPTIONS = [
-  'outputs', 'refXyz', 'refLlh', 'refFromHeader', 'refMark', 'marks', 'refFrame', 'refEpoch', 'roverAntennaHeight', 'refAntennaHeight',
+  'outputs', 'refCoord', 'marks', 'refFrame', 'refEpoch', 'roverAntennaHeight', 'refAntennaHeight',
   'heightKind', 'antennaRadius', 'slantOffset', 'atAntenna', 'elevationMask', 'weights', 'sigmaA', 'sigmaB', 'smooth', 'systems', 'glonass',
   'maxAge', 'fallbackStandalone', 'windows', 'toleranceH', 'toleranceV', 'projection', 'geoid',
 ] as const;
@@ -326,14 +326,19 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
     return EXIT_PROCESSING;
   }
   const cols = ['session', ...(columns ?? [])];
-  const pointsCsv = [
-    '# refdelta batch points: every point of every session of the batch, one row each',
-    `# sessions from ${sessionsDir}; frame and frame_epoch are given per row (each session's own reference frame)`,
-    "# easting/northing and orthometric heights, when present, follow each session's own projection and geoid: see OUT/<session>/points.csv",
-  ].join('\n') + '\n' + csvText([cols, ...batchRows.map((r) => [r.session, ...cols.slice(1).map((c) => r.cells[c] ?? '')])]);
+  const pointsCsv = csvText([cols, ...batchRows.map((r) => [r.session, ...cols.slice(1).map((c) => r.cells[c] ?? '')])]);
   const set = new OutputSet();
   const pointsPath = join(outDir, BATCH_FILE_NAMES.points);
   const pointsFile = await set.add('batch-points', pointsPath, [pointsCsv]);
+  const meta = tableMetadata({
+    file: BATCH_FILE_NAMES.points, title: 'refdelta batch points: every point of every session of the batch, one row each', columns: cols, frame: null,
+    notes: [
+      `sessions from ${sessionsDir}; frame and frame_epoch are given per row (each session's own reference frame)`,
+      "easting/northing and orthometric heights, when present, follow each session's own projection and geoid: see OUT/<session>/points.csv.meta.json",
+    ],
+  });
+  await set.add('batch-points-csvt', join(outDir, 'batch-points.csvt'), [csvtText(cols)]);
+  await set.add('batch-points-metadata', join(outDir, metadataFileName(BATCH_FILE_NAMES.points)), [JSON.stringify(meta, null, 2) + '\n']);
   const summaryPath = join(outDir, BATCH_FILE_NAMES.summary);
   try {
     const p = await pointsFile.seal();

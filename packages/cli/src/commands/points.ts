@@ -10,12 +10,13 @@ import { join } from 'node:path';
 import { csvText } from '../csv-text.js';
 import {
   DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE,
-  loadEgm96, makeProjection, parseGeoidGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
-  pointsPreamble, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
+  InputError, loadEgm96, looksLikeIsg, looksLikeTiff, makeProjection, parseGeoTiffGeoid, parseIsgGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
+  crsOfFrame, csvtText, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
   type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad,
 } from '@refdelta/core';
 import { requireFile } from '../node-io.js';
+import { epsgLookup, epsgWkt } from '../epsg-lookup.js';
 import { parseNumber } from '../parse-values.js';
 import { Reporter } from '../reporter.js';
 import { EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
@@ -31,7 +32,7 @@ export interface PointsArgs extends SolveArgs {
   readonly geoid?: unknown;
 }
 
-export const POINTS_FILE_NAMES = { csv: 'points.csv', geojson: 'points.geojson' } as const;
+export const POINTS_FILE_NAMES = { csv: 'points.csv', geojson: 'points.geojson', prj: 'points.prj' } as const;
 
 interface Collected {
   readonly epochs: PointEpoch[];
@@ -66,7 +67,13 @@ function requireGeoidCovers(g: GeoidModel, spec: string, at: GeodeticRad): void 
 async function loadGeoid(spec: string): Promise<GeoidModel> {
   if (spec.toLowerCase() === 'egm96') return loadEgm96();
   await requireFile(spec);
-  return parseGeoidGrid(spec, await readFile(spec, 'utf8'));
+  const bytes = await readFile(spec);
+  if (looksLikeTiff(bytes)) {
+    try { return await parseGeoTiffGeoid(spec, bytes); } catch (e) { throw new InputError(spec, 0, e instanceof Error ? e.message : String(e)); }
+  }
+  const text = bytes.toString('utf8');
+  if (looksLikeIsg(text)) return parseIsgGrid(spec, text);
+  throw new InputError(spec, 1, 'expected a geoid grid in the ISG format (a begin_of_head header) or a GeoTIFF grid as PROJ distributes them');
 }
 
 /** The options of `points` checked once before any run (a batch checks them once for all sessions). */
@@ -87,11 +94,14 @@ export async function parsePointsConfig(a: PointsArgs): Promise<PointsConfig> {
   const toleranceVM = a.toleranceV === undefined ? DEFAULT_POINT_TOLERANCE_V_M : parseNumber('tolerance-v', a.toleranceV, 0, 1000);
   const projectionSpec = a.projection === undefined ? undefined : String(a.projection);
   if (projectionSpec !== undefined) {
-    try { resolveProjectionSpec(projectionSpec, { latDeg: 0, lonDeg: 0 }); } catch (e) { throw new UsageError(`--projection ${projectionSpec}: ${e instanceof Error ? e.message : String(e)}`); }
+    try { resolveProjectionSpec(projectionSpec, { latDeg: 0, lonDeg: 0 }, epsgLookup); } catch (e) { throw new UsageError(`--projection ${projectionSpec}: ${e instanceof Error ? e.message : String(e)}`); }
   }
   const geoidSpec = a.geoid === undefined ? undefined : String(a.geoid);
   if (geoidSpec !== undefined && geoidSpec.toLowerCase() !== 'egm96') await requireFile(geoidSpec);
   const slant = parseSlantGeometry(a);
+  if (String(a.outputs ?? '').toLowerCase().split(',').map((x) => x.trim()).includes('dxf') && projectionSpec === undefined) {
+    throw new UsageError('--outputs dxf holds grid coordinates: give --projection (an EPSG code or utm)');
+  }
   let windows: OccupationWindow[] | undefined;
   let windowsFile: string | undefined;
   if (a.windows !== undefined) {
@@ -180,7 +190,10 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     let projection: Projection | undefined;
     if (cfg.projectionSpec !== undefined) {
       const g = outcome.points[0].summary.meanGeodetic;
-      projection = makeProjection(cfg.projectionSpec, { latDeg: radToDeg(g.latRad), lonDeg: radToDeg(g.lonRad) });
+      projection = makeProjection(cfg.projectionSpec, { latDeg: radToDeg(g.latRad), lonDeg: radToDeg(g.lonRad) }, epsgLookup);
+    }
+    if (projection && /\+(towgs84=(?!0,0,0(,0,0,0,0)?\b)|nadgrids=)/.test(projection.projString)) {
+      rep.warn({ code: 'projection-datum', message: `${projection.name} is on a datum other than the points' frame ${frame.name}: latitude/longitude are projected as they are, without a datum shift (transform the points into that datum first for true grid coordinates)` });
     }
     const geoid = await cfg.geoid();
 
@@ -198,9 +211,27 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
       if (e instanceof RangeError && cfg.geoidSpec) throw new ProcessingError(`the geoid grid ${cfg.geoidSpec} does not cover every point: ${e.message}`);
       throw e;
     }
-    const csv = pointsPreamble(table).join('\n') + '\n' + csvText([columns, ...rows]);
-    await st.set.add('points', join(st.outDir, POINTS_FILE_NAMES.csv), [csv]);
+    await st.set.add('points', join(st.outDir, POINTS_FILE_NAMES.csv), [csvText([columns, ...rows])]);
+    await st.set.add('points-csvt', join(st.outDir, 'points.csvt'), [csvtText(columns)]);
+    await st.set.add('points-metadata', join(st.outDir, metadataFileName(POINTS_FILE_NAMES.csv)), [JSON.stringify(pointsMetadata(table), null, 2) + '\n']);
+    // The .prj states the CRS of the grid coordinates with a projection, else the frame's geographic CRS.
+    const frameCrs = crsOfFrame(frame.name);
+    const prj = projection ? epsgWkt(projection.epsg) : frameCrs ? epsgWkt(frameCrs.geographic2d) : null;
+    if (prj) await st.set.add('points-prj', join(st.outDir, POINTS_FILE_NAMES.prj), [prj + '\n']);
+    else if (projection) rep.warn({ code: 'no-prj', message: `no .prj written for the projection ${projection.name}: its WKT is not known (give an EPSG code)` });
     await st.set.add('points-geojson', join(st.outDir, POINTS_FILE_NAMES.geojson), [JSON.stringify(pointsGeoJson(outcome.points, table), null, 1) + '\n']);
+    for (const f of POINTS_OUTPUT_FORMATS) {
+      if (!st.kinds.includes(f.kind)) continue;
+      const why = f.refuse(table);
+      if (why) throw new UsageError(`--outputs ${f.kind}: ${why}`);
+      await st.set.add(`points-${f.kind}`, join(st.outDir, f.fileName), [f.build({ points: outcome.points, table, columns, rows })]);
+    }
+    st.extras = {
+      points: {
+        columns, rows,
+        lonLatH: outcome.points.map((p) => [radToDeg(p.summary.meanGeodetic.lonRad), radToDeg(p.summary.meanGeodetic.latRad), p.summary.meanGeodetic.heightM] as const),
+      },
+    };
     const outputs = await commitStagedSolve(st, rep);
 
     if (geoid && /egm96/i.test(geoid.name)) rep.info(`note: ${EGM96_NOT_A_DATUM_NOTE}`);

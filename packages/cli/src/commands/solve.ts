@@ -2,16 +2,17 @@
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
 import {
-  frameEpochText,
-  GNSS_SYSTEMS, InputError, csvPreamble, epochFeature, geojsonNote, jsonNumber, pointReferenceWords,
-  positionScatter, residualRowsOf, RESIDUAL_COLUMNS, solveSession, summaryJson,
+  broadcastOrbitFrame, crsOfFrame, crsStatement, frameEpochText, solveStandaloneSession, SOLVE_OUTPUT_FORMATS,
+  GNSS_SYSTEMS, InputError, pointReferenceWords,
+  positionScatter, solveSession, summaryJson,
+  type EpochOutputWriter, type RunExtras, type SolveOutputContext, type SolveOutputFormat, type SqliteDatabase,
   type EcefM, type EpochSolution, type FrameEpoch, type GnssSystem, type InputFileRecord, type ObsHeader, type OutputFileRecord,
   type PointReference, type SessionOptions, type SessionSummary, type Warning,
 } from '@refdelta/core';
 import { AtomicFile, OutputSet, openNav, openObs, requireFile, sha256File, type OpenedObs } from '../node-io.js';
 import { prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence, requireObservationTypes } from '../input-sanity.js';
-import { obsTimeSpan, requireNavigation, requireOverlap, type TimeSpan } from '../input-checks.js';
+import { obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
 import { referenceSigmaOf } from '../reference-sigma.js';
 import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie.js';
@@ -22,10 +23,10 @@ import {
   type OutputKind, type SolveOptionArgs,
 } from '../solve-options.js';
 import { Reporter } from '../reporter.js';
+import { epsgWkt } from '../epsg-lookup.js';
 import { EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
 import { UsageError } from '../usage-error.js';
 import { SOFTWARE } from '../software.js';
-import { epochTableColumns, epochTableRow, standaloneFrameNote } from '../epoch-table.js';
 import { warningsSummary } from '../warnings-summary.js';
 import { carrierSharesSentence, carrierSummaryJson, isCarrierKind, parseCarrierChoice, runCarrierSession, type CarrierArgs } from '../carrier-run.js';
 import { stagedReportHtml } from '../staged-report.js';
@@ -36,7 +37,8 @@ export interface SolveArgs extends ReferenceArgs, SolveOptionArgs, CarrierArgs {
   readonly refSigma?: unknown;
   /** --tie-to CORS files: the reference (base) is tied to them first (base-tie.ts). */
   readonly tieTo?: readonly unknown[];
-  readonly reference: readonly string[];
+  /** Empty or absent: a single-receiver (standalone) run. */
+  readonly reference?: readonly string[];
   readonly nav: readonly string[];
   readonly out: string;
   readonly quiet?: boolean;
@@ -49,79 +51,58 @@ export interface SolveResult {
   readonly summaryPath: string | null;
 }
 
-/** Writers of the streamed outputs: members of the run's OutputSet, committed with the rest at the end. */
+
+/** The registered per-epoch outputs asked for, each a member of the run's OutputSet, committed with the rest at the end. */
 class StreamedOutputs {
-  private readonly files = new Map<OutputKind, AtomicFile>();
-  private geoFeatures = 0;
-  private epochBatch: string[][] = [];
-  private residualBatch: string[][] = [];
+  private readonly open_: { format: SolveOutputFormat; writer: EpochOutputWriter; file: AtomicFile }[] = [];
 
   constructor(readonly dir: string, readonly kinds: readonly OutputKind[], private readonly set: OutputSet) {}
 
-  path(kind: OutputKind): string {
-    return join(this.dir, OUTPUT_FILE_NAMES[kind]);
-  }
-
   /** Opens the streamed members; on failure the set is aborted (OutputSet.create). */
-  async open(frame: FrameEpoch, pointReference: PointReference, systems: readonly GnssSystem[], notes: readonly string[]): Promise<void> {
-    for (const k of this.kinds) if (k !== 'summary' && k !== 'report') this.files.set(k, await this.set.create(k, this.path(k)));
-    const ep = this.files.get('epochs');
-    if (ep) await ep.write(csvPreamble({ frame, pointReference, notes }).join('\n') + '\n' + csvText([epochTableColumns(systems)]));
-    const rs = this.files.get('residuals');
-    if (rs) {
-      await rs.write([
-        '# refdelta per-satellite residuals, one row per satellite per rover epoch (long form)',
-        `# positions of these epochs: ${frame.name} epoch ${frameEpochText(frame.epochYear)}, referring to the ${pointReferenceWords(pointReference)} (see epochs.csv)`,
-        '# residual_m: post-fit residual of the single difference (rover minus reference) or, for standalone rows, of the code; status used | rejected with the reason in words',
-      ].join('\n') + '\n' + csvText([[...RESIDUAL_COLUMNS]]));
-    }
-    const gj = this.files.get('geojson');
-    if (gj) {
-      const head = {
-        type: 'FeatureCollection',
-        refdelta: { frame: frame.name, epoch: jsonNumber(frame.epochYear, 4), point_reference: pointReferenceWords(pointReference), note: geojsonNote(frame) },
-      };
-      // The features array is streamed: the collection is written as its members, then the array.
-      await gj.write(JSON.stringify(head).slice(0, -1) + ',"features":[\n');
+  async open(ctx: SolveOutputContext): Promise<void> {
+    for (const format of SOLVE_OUTPUT_FORMATS) {
+      if (!this.kinds.includes(format.kind)) continue;
+      const file = await this.set.create(format.kind, join(this.dir, format.fileName));
+      const writer = format.open(ctx);
+      this.open_.push({ format, writer, file });
+      await file.write(writer.start());
     }
   }
 
-  async add(s: EpochSolution, systems: readonly GnssSystem[]): Promise<void> {
-    if (this.files.has('epochs')) {
-      this.epochBatch.push(epochTableRow(s, systems));
-      if (this.epochBatch.length >= 500) await this.flushEpochs();
-    }
-    if (this.files.has('residuals')) {
-      this.residualBatch.push(...residualRowsOf(s));
-      if (this.residualBatch.length >= 2000) await this.flushResiduals();
-    }
-    const gj = this.files.get('geojson');
-    if (gj) {
-      // Each feature carries its own row's frame (standalone rows: the broadcast orbits' frame).
-      const f = epochFeature(s, s.position?.frame ?? { name: 'unstated', epochYear: NaN });
-      if (f) await gj.write((this.geoFeatures++ ? ',\n' : '') + JSON.stringify(f));
+  async add(s: EpochSolution): Promise<void> {
+    for (const o of this.open_) {
+      const c = o.writer.epoch(s);
+      if (c.length) await o.file.write(c);
     }
   }
 
-  private async flushEpochs(): Promise<void> {
-    const f = this.files.get('epochs');
-    if (f && this.epochBatch.length) await f.write(csvText(this.epochBatch));
-    this.epochBatch = [];
+  /** Writes what is buffered and each format's end, then its sidecars; the files stay uncommitted members of the set. */
+  async finish(ctx: SolveOutputContext): Promise<void> {
+    for (const o of this.open_) {
+      if (o.format.endsAtCommit) continue;
+      const c = o.writer.end();
+      if (c.length) await o.file.write(c);
+    }
+    for (const o of this.open_) {
+      for (const sc of o.format.sidecars(ctx)) await this.set.add(sc.kind, join(this.dir, sc.fileName), [sc.text]);
+    }
   }
 
-  private async flushResiduals(): Promise<void> {
-    const f = this.files.get('residuals');
-    if (f && this.residualBatch.length) await f.write(csvText(this.residualBatch));
-    this.residualBatch = [];
+  /** Completes the formats that hold the whole run (GeoPackage) with what the command added. */
+  async close(extras: RunExtras): Promise<void> {
+    for (const o of this.open_) {
+      if (!o.format.endsAtCommit) continue;
+      const c = o.writer.end(extras);
+      if (c.length) await o.file.write(c);
+    }
   }
+}
 
-  /** Writes what is buffered and closes the GeoJSON array; the files stay uncommitted members of the set. */
-  async finish(): Promise<void> {
-    await this.flushEpochs();
-    await this.flushResiduals();
-    const gj = this.files.get('geojson');
-    if (gj) await gj.write('\n]}\n');
-  }
+/** A new in-memory SQLite database (sql.js: SQLite compiled to WebAssembly), for the GeoPackage output. */
+export async function sqliteFactory(): Promise<() => SqliteDatabase> {
+  const initSqlJs = (await import('sql.js')).default;
+  const SQL = await initSqlJs();
+  return () => new SQL.Database();
 }
 
 /** Optional hooks for commands built on a solve run (e.g. `points`): every epoch solution is handed over. */
@@ -151,6 +132,9 @@ export interface StagedSolve {
   readonly frame: FrameEpoch;
   readonly pointReference: PointReference;
   readonly roverHeader: ObsHeader;
+  /** What the command adds to whole-run formats (the points layer of the GeoPackage) before commit. */
+  extras: RunExtras;
+  readonly outputs: StreamedOutputs;
   /** Epochs with a position (differential, smoothed or standalone). */
   readonly solvedEpochs: number;
   /** The sentence of a run that solved no epoch, else null. */
@@ -164,74 +148,97 @@ export interface StagedSolve {
 /** Steps 1-4 of a solve run: checks, reference coordinate, the run, the per-epoch outputs staged in an OutputSet. */
 export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = {}): Promise<StagedSolve> {
   // 1. The command line, before any file is touched.
-  const choice = parseReferenceChoice(a);
-  let referenceSigma = referenceSigmaOf(choice.mode === 'header', a.refSigma);
+  // Without --reference the run is single-receiver (standalone): no reference coordinate is asked for.
+  const singleReceiver = !a.reference?.length;
+  if (singleReceiver && a.refCoord !== undefined) throw new UsageError('--ref-coord gives the coordinate of a reference receiver: give its observations with --reference FILE (without --reference, solve gives single-receiver positions)');
   const tieFiles = (a.tieTo ?? []).map(String);
+  if (singleReceiver && tieFiles.length) throw new UsageError('--tie-to ties a reference receiver to a CORS: give the reference observations with --reference FILE');
+  const choice = singleReceiver ? null : parseReferenceChoice(a);
+  // A standalone position has no reference coordinate whose error it shares.
+  let referenceSigma = singleReceiver
+    ? { horizontalM: 0, verticalM: 0, source: 'none: single-receiver (standalone) positions have no reference coordinate' }
+    : referenceSigmaOf(choice!.mode === 'header', a.refSigma);
   const base = parseSessionOptions(a);
   const heights = parseAntennaHeights(a);
   const kinds = parseOutputs(a.outputs);
-  if (!a.reference?.length) throw new UsageError('give at least one reference observation file with --reference FILE');
+  if (kinds.includes('dxf') && (hooks.command ?? 'solve') === 'solve') throw new UsageError('--outputs dxf holds per-point grid coordinates: use refdelta points with --projection');
+  const referencePaths: readonly string[] = a.reference ?? [];
   if (!a.nav?.length) throw new UsageError('give at least one navigation file with --nav FILE');
   const outDir = resolve(a.out);
 
   // 2. The files: present, of the right kind, overlapping in time, with navigation data.
-  const allPaths = [a.rover, ...a.reference, ...tieFiles, ...a.nav];
+  const allPaths = [a.rover, ...referencePaths, ...tieFiles, ...a.nav];
   const sizes = new Map<string, number>();
   for (const p of allPaths) sizes.set(p, await requireFile(p));
   await prepareOutputFolder({
     dir: outDir,
-    inputs: [...allPaths, ...(choice.mode === 'mark' ? [choice.marksFile] : []), ...(hooks.extraInputs ?? [])],
-    outputNames: [...Object.values(OUTPUT_FILE_NAMES), ...(hooks.extraOutputNames ?? [])],
+    inputs: [...allPaths, ...(choice?.mode === 'mark' ? [choice.marksFile] : []), ...(hooks.extraInputs ?? [])],
+    outputNames: [...Object.values(OUTPUT_FILE_NAMES), ...SOLVE_OUTPUT_FORMATS.map((f) => f.fileName), ...(hooks.extraOutputNames ?? [])],
     // Output size per byte of plain rover file, from the demo (1.8 MB): epochs.csv 0.23, residuals.csv 0.97,
     // positions.geojson 0.32; summary.json a few kB.
-    estimatedBytes: (sizes.get(a.rover) ?? 0) * kinds.reduce((sum, k) => sum + ({ epochs: 0.23, residuals: 0.97, geojson: 0.32, summary: 0 } as Record<string, number>)[k]!, 0) + 65536,
+    estimatedBytes: (sizes.get(a.rover) ?? 0) * kinds.reduce((sum, k) => sum + (({ epochs: 0.23, residuals: 0.97, geojson: 0.32, summary: 0 } as Partial<Record<string, number>>)[k] ?? 0.3), 0) + 65536,
   });
   // The probes' warnings are kept: a file with no readable epoch is reported with its first problem.
   const roverProbeWarnings: Warning[] = [];
   const roverProbe = await openObs(a.rover, (w) => roverProbeWarnings.push(w));
   const refProbes: OpenedObs[] = [];
   const refProbeWarnings: Warning[] = [];
-  for (const p of a.reference) refProbes.push(await openObs(p, (w) => refProbeWarnings.push(w)));
+  for (const p of referencePaths) refProbes.push(await openObs(p, (w) => refProbeWarnings.push(w)));
   const roverSpan = await obsTimeSpan(a.rover, roverProbe.header, (w) => roverProbeWarnings.push(w));
   // A data problem, not a usage one: exit 1 with one sentence.
   if (!roverSpan) throw new InputError(a.rover, 0, noEpochSentence(a.rover, roverProbeWarnings));
   const refSpans: { path: string; span: TimeSpan }[] = [];
-  for (let i = 0; i < a.reference.length; i++) {
-    const sp = await obsTimeSpan(a.reference[i], refProbes[i].header, (w) => refProbeWarnings.push(w));
-    if (sp) refSpans.push({ path: a.reference[i], span: sp });
-  }
-  if (!refSpans.length) {
-    throw new InputError(a.reference[0], 0, noEpochSentence(`the reference file${a.reference.length > 1 ? 's' : ''} ${a.reference.join(', ')}`, refProbeWarnings, a.reference.length > 1));
+  for (let i = 0; i < referencePaths.length; i++) {
+    const sp = await obsTimeSpan(referencePaths[i]!, refProbes[i]!.header, (w) => refProbeWarnings.push(w));
+    if (sp) refSpans.push({ path: referencePaths[i]!, span: sp });
   }
   requireObservationTypes(a.rover, roverProbe.header, base.systems);
-  requireOverlap({ path: a.rover, span: roverSpan }, refSpans);
+  if (!singleReceiver) {
+    if (!refSpans.length) {
+      throw new InputError(referencePaths[0]!, 0, noEpochSentence(`the reference file${referencePaths.length > 1 ? 's' : ''} ${referencePaths.join(', ')}`, refProbeWarnings, referencePaths.length > 1));
+    }
+    requireOverlap({ path: a.rover, span: roverSpan }, refSpans);
+  }
 
-  rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: a.reference, nav: a.nav, out: outDir });
+  rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: referencePaths, nav: a.nav, out: outDir, mode: singleReceiver ? 'standalone' : 'differential' });
   const { nav, layers: navLayers } = await openNav(a.nav, rep.warn);
-  requireNavigation(nav, a.nav, roverProbe.header, base.systems, roverSpan, rep.warn);
+  // Systems whose satellites are in the rover's epochs (none seen: the no-epoch sentence comes later).
+  const seen = await systemsSeen(a.rover);
+  const usableSystems = requireNavigation(nav, a.nav, roverProbe.header, base.systems, roverSpan, rep.warn, seen.size ? seen : undefined);
 
   // 3. The reference coordinate with its frame and epoch.
   let ref: ResolvedReference;
-  if (choice.mode === 'xyz') {
-    ref = { position: { ecef: choice.ecef, frame: choice.frame }, source: a.refXyz !== undefined ? '--ref-xyz' : '--ref-llh', note: 'given on the command line' };
+  if (!choice) {
+    const frame = broadcastOrbitFrame((roverSpan.firstGpsS + roverSpan.lastGpsS) / 2);
+    ref = {
+      position: { ecef: roverProbe.header.approxPosition ?? { x: 0, y: 0, z: 0 }, frame },
+      source: 'none: single-receiver (standalone) run',
+      note: 'no reference receiver: single-receiver (standalone) positions from the broadcast orbits and clocks, in the frame of the broadcast orbits (WGS 84 at the epoch of observation); metre-level accuracy',
+    };
+    rep.info(`no --reference: single-receiver (standalone) positions in the frame of the broadcast orbits (${frame.name} epoch ${frameEpochText(frame.epochYear)}); expect metres, not the decimetres of differential positions`);
+  } else if (choice.mode === 'xyz') {
+    ref = { position: { ecef: choice.ecef, frame: choice.frame }, source: `--ref-coord (${choice.form === 'ecef' ? 'ECEF metres' : 'latitude, longitude, ellipsoidal height'})`, note: 'given on the command line' };
   } else if (choice.mode === 'header') {
     // With a tie, the coordinate given is the CORS's: its header's.
-    const from = tieFiles.length ? tieFiles[0] : a.reference[0];
+    const from = tieFiles.length ? tieFiles[0]! : referencePaths[0]!;
     ref = referenceFromHeader(choice, tieFiles.length ? (await openObs(from, () => {})).header : refProbes[0].header, from, roverSpan.firstGpsS, rep.warn);
   } else {
-    ref = await referenceFromMark(choice, roverSpan.firstGpsS, rep.warn);
+    ref = await referenceFromMark(choice, roverSpan.firstGpsS, rep.warn, a.allowUnknownFrame === true);
   }
   let tie: BaseTie | null = null;
   if (tieFiles.length) {
     // A base on an unknown point: tied to the CORS first, then the reference of the rover run (base-tie.ts).
-    tie = await tieBaseToCors(a.reference, tieFiles, nav, ref, base, a as unknown as Record<string, unknown>, rep);
-    rep.info(tiedReference(tie, ref, a.reference[0]).note);
-    ref = tiedReference(tie, ref, a.reference[0]);
+    tie = await tieBaseToCors(referencePaths, tieFiles, nav, ref, base, a as unknown as Record<string, unknown>, rep);
+    rep.info(tiedReference(tie, ref, referencePaths[0]!).note);
+    ref = tiedReference(tie, ref, referencePaths[0]!);
     referenceSigma = { horizontalM: Math.hypot(referenceSigma.horizontalM, tie.sigma.horizontalM), verticalM: Math.hypot(referenceSigma.verticalM, tie.sigma.verticalM), source: `${referenceSigma.source}, with the tie to the CORS` };
   }
   const frame = ref.position.frame;
+  if (!crsOfFrame(frame.name)) {
+    rep.warn({ code: 'frame-without-crs', message: `the reference frame '${frame.name}' has no known EPSG CRS: outputs state no CRS for the positions (a GIS may take them as WGS 84; they are not)` });
+  }
   const roverApprox = roverProbe.header.approxPosition;
-  if (roverApprox) {
+  if (roverApprox && !singleReceiver) {
     const km = Math.hypot(roverApprox.x - ref.position.ecef.x, roverApprox.y - ref.position.ecef.y, roverApprox.z - ref.position.ecef.z) / 1000;
     // Code-differential errors grow about 1 m per 100-150 km of baseline (check-values.md, Navipedia "DGNSS Fundamentals").
     if (km > 300) rep.warn({ file: a.rover, line: 0, code: 'long-baseline', message: `the reference coordinate is ${km.toFixed(0)} km from the rover's header position: check the coordinate (and its sign) or expect metre-level degradation` });
@@ -242,44 +249,52 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   // 4. The run. Streams are opened afresh (the probes only read headers).
   const rover = await openObs(a.rover, rep.warn);
   const references: OpenedObs[] = [];
-  for (const p of a.reference) references.push(await openObs(p, rep.warn));
+  for (const p of referencePaths) references.push(await openObs(p, rep.warn));
   const options: SessionOptions = {
     ...base,
-    reference: { position: ref.position, source: ref.source, antenna: withHeight(references[0].header.antennaOffset, heights.referenceHeightM) },
+    reference: singleReceiver
+      ? { position: null }
+      : { position: ref.position, source: ref.source, antenna: withHeight(references[0]!.header.antennaOffset, heights.referenceHeightM) },
     roverAntenna: withHeight(rover.header.antennaOffset, heights.roverHeightM),
   };
   // The session reads the files twice (whole-session estimates first): the second opening is silent, the
   // readers' warnings were given by the first.
   const reopen = async () => {
     const again: OpenedObs[] = [];
-    for (const p of a.reference) again.push(await openObs(p, () => {}));
+    for (const p of referencePaths) again.push(await openObs(p, () => {}));
     return { rover: await openObs(a.rover, () => {}), references: again };
   };
-  const carrier = parseCarrierChoice(a, hooks.command ?? 'solve', rover.header, references[0].header, options);
-  const carrierRun = carrier.on ? await runCarrierSession({ rover, references, nav, onWarning: rep.warn }, options, carrier) : null;
-  const run = carrierRun ?? await solveSession({ rover, references, nav, onWarning: rep.warn, reopen }, options);
+  const carrier = singleReceiver ? null : parseCarrierChoice(a, hooks.command ?? 'solve', rover.header, references[0]!.header, options);
+  if (singleReceiver && a.carrierPhase === 'on') throw new UsageError('--carrier-phase on needs a reference receiver (--reference FILE)');
+  const carrierRun = carrier?.on ? await runCarrierSession({ rover, references, nav, onWarning: rep.warn }, options, carrier) : null;
+  const run = singleReceiver
+    ? solveStandaloneSession({ rover, nav, onWarning: rep.warn }, options)
+    : carrierRun ?? await solveSession({ rover, references, nav, onWarning: rep.warn, reopen }, options);
 
   const pointReference: PointReference = options.reduceToMark ? 'ground-mark' : 'antenna-reference-point';
-  const roverSystems = Object.keys(rover.header.obsCodes) as GnssSystem[];
-  const clockSystems = GNSS_SYSTEMS.filter((s) => options.systems.includes(s) && roverSystems.includes(s));
+  // One clock column per system that can have a clock: observed by the rover, with navigation data (no always-empty column).
+  const clockSystems = GNSS_SYSTEMS.filter((s) => options.systems.includes(s) && usableSystems.includes(s));
   const set = new OutputSet();
   const outputs = new StreamedOutputs(outDir, kinds, set);
-  const notes = [ref.note, ...(options.standaloneFallback ? [standaloneFrameNote()] : [])];
+  const outputCtx: SolveOutputContext = {
+    frame, pointReference, systems: clockSystems, notes: [`reference coordinate: ${ref.note}`], standaloneRows: options.standaloneFallback && !singleReceiver, csv: csvText,
+    wkt: (code) => epsgWkt(code), ...(kinds.includes('gpkg') ? { openDatabase: await sqliteFactory() } : {}),
+  };
   const positions: EcefM[] = [];
   const standalone: EcefM[] = [];
   let n = 0;
   const spanS = Math.max(roverSpan.lastGpsS - roverSpan.firstGpsS, 1e-9);
   try {
-    await outputs.open(frame, pointReference, clockSystems, notes);
+    await outputs.open(outputCtx);
     for await (const s of run.epochs) {
       n++;
-      await outputs.add(s, clockSystems);
+      await outputs.add(s);
       hooks.onEpoch?.(s);
       if (s.position && (s.kind === 'differential' || s.kind === 'smoothed' || isCarrierKind(s.kind))) positions.push(s.position.ecef);
       else if (s.position && s.kind === 'standalone') standalone.push(s.position.ecef);
       rep.progress(n, (s.tagGpsS - roverSpan.firstGpsS) / spanS);
     }
-    await outputs.finish();
+    await outputs.finish(outputCtx);
   } catch (e) {
     await set.abort();
     throw e;
@@ -290,11 +305,11 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   const summary = run.summary();
   try {
     const inputs: InputFileRecord[] = [];
-    const kindOf = (p: string): InputFileRecord['kind'] => (p === a.rover ? 'rover' : a.reference.includes(p) ? 'reference' : tieFiles.includes(p) ? 'tie-station' : 'navigation');
+    const kindOf = (p: string): InputFileRecord['kind'] => (p === a.rover ? 'rover' : referencePaths.includes(p) ? 'reference' : tieFiles.includes(p) ? 'tie-station' : 'navigation');
     const layersOf = (p: string): readonly string[] | undefined =>
-      p === a.rover ? rover.layers : navLayers.get(p) ?? references[a.reference.indexOf(p)]?.layers;
+      p === a.rover ? rover.layers : navLayers.get(p) ?? references[referencePaths.indexOf(p)]?.layers;
     for (const p of allPaths) inputs.push({ path: resolve(p), sha256: await sha256File(p), kind: kindOf(p), bytes: sizes.get(p), layers: layersOf(p) });
-    if (choice.mode === 'mark') inputs.push({ path: resolve(choice.marksFile), sha256: await sha256File(choice.marksFile), kind: 'control' });
+    if (choice?.mode === 'mark') inputs.push({ path: resolve(choice.marksFile), sha256: await sha256File(choice.marksFile), kind: 'control' });
     const scatter = positions.length
       ? { over: 'differential and smoothed epochs', stats: positionScatter(positions) }
       : standalone.length ? { over: 'standalone epochs (no differential epoch)', stats: positionScatter(standalone) } : undefined;
@@ -306,13 +321,19 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
       const doc = summaryJson(summary, inputs, options, outs, {
         scatter, software: SOFTWARE, createdUtc: new Date().toISOString(), warnings: rep.warnings, referenceNote: ref.note, referenceSource: ref.source,
       });
+      const mode = singleReceiver
+        ? { mode: 'standalone (single receiver): no reference receiver; positions in the frame of the broadcast orbits', reference: null }
+        : {
+          mode: carrierRun ? 'differential, carrier phase' : 'differential',
+          reference: { ...(doc.reference as object), sigma_horizontal_m: referenceSigma.horizontalM, sigma_vertical_m: referenceSigma.verticalM, sigma_source: referenceSigma.source, ...(tie ? { tie: tieJson(tie) } : {}) },
+        };
       return {
-        ...doc, reference: { ...(doc.reference as object), sigma_horizontal_m: referenceSigma.horizontalM, sigma_vertical_m: referenceSigma.verticalM, sigma_source: referenceSigma.source, ...(tie ? { tie: tieJson(tie) } : {}) },
-        ...(carrierRun ? { carrier_phase: carrierSummaryJson(carrierRun.carrierSummary(), carrier.options) } : {}), warnings: warningsSummary(rep),
+        ...doc, ...mode, crs: crsStatement(frame), point_reference: pointReferenceWords(pointReference),
+        ...(carrierRun && carrier ? { carrier_phase: carrierSummaryJson(carrierRun.carrierSummary(), carrier.options) } : {}), warnings: warningsSummary(rep),
       };
     };
     const carrierShares = carrierRun ? carrierSharesSentence(carrierRun.carrierSummary()) : null;
-    return { outDir, set, kinds, summary, carrierShares, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma };
+    return { outDir, set, kinds, summary, carrierShares, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma, extras: {}, outputs };
   } catch (e) {
     await set.abort();
     throw e;
@@ -327,6 +348,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
 export async function commitStagedSolve(st: StagedSolve, rep: Reporter): Promise<OutputFileRecord[]> {
   let done;
   try {
+    await st.outputs.close(st.extras);
     let sealed = await st.set.seal();
     if (st.kinds.includes('report')) {
       // report.html is built from the sealed members (and the summary's document), then sealed with them.

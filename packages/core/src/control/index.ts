@@ -2,3 +2,5 @@
 export * from './control-csv.js';
 export * from './match-marks.js';
 export * from './compare-to-mark.js';
+export * from './match-every-point.js';
+export * from './marks-file.js';

@@ -5,3 +5,5 @@ export * from './helmert-json.js';
 export * from './parameter-sets.js';
 export * from './frame-path.js';
 export * from './frame-rule.js';
+export * from './frame-crs.js';
+export * from './shipped-transformations.js';

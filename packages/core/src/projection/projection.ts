@@ -7,7 +7,7 @@
  * noise, measured in the tests).
  */
 import proj4 from 'proj4';
-import { resolveProjectionSpec, type NearPoint } from './projection-spec.js';
+import { resolveProjectionSpec, type EpsgLookup, type NearPoint } from './projection-spec.js';
 
 export interface ProjectedM {
   readonly eastingM: number;
@@ -17,6 +17,9 @@ export interface ProjectedM {
 export interface Projection {
   readonly name: string;
   readonly projString: string;
+  /** EPSG code and OGC WKT 1 of the CRS, when known (projection-spec.ts). */
+  readonly epsg: number | null;
+  readonly wkt: string | null;
   readonly units: 'm' | 'deg';
   forward(latDeg: number, lonDeg: number): ProjectedM;
   inverse(eastingM: number, northingM: number): { latDeg: number; lonDeg: number };
@@ -29,7 +32,7 @@ interface Converter {
   inverse(c: number[]): number[];
 }
 
-const SHIFT_TOKENS = /^\+(towgs84|nadgrids|datum)=/;
+const SHIFT_TOKENS = /^\+(towgs84|nadgrids|datum|type)=/;
 const ELLIPSOID_TOKENS = /^\+(ellps|a|b|rf|f|R)=/;
 
 /** The PROJ string without any datum-shift tokens; a +datum is replaced by its ellipsoid's axes. */
@@ -49,8 +52,8 @@ export function sameEllipsoidLongLat(projString: string): string {
   return ['+proj=longlat', ...tokens, '+no_defs'].join(' ');
 }
 
-export function makeProjection(spec: string, near?: NearPoint): Projection {
-  const r = resolveProjectionSpec(spec, near);
+export function makeProjection(spec: string, near?: NearPoint, lookup?: EpsgLookup): Projection {
+  const r = resolveProjectionSpec(spec, near, lookup);
   let conv: Converter;
   let aM: number;
   let e2: number;
@@ -67,6 +70,8 @@ export function makeProjection(spec: string, near?: NearPoint): Projection {
   return {
     name: r.name,
     projString: r.projString,
+    epsg: r.epsg,
+    wkt: r.wkt,
     units: r.units,
     ellipsoid: { aM, e2 },
     forward(latDeg, lonDeg) {

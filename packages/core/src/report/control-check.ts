@@ -7,7 +7,9 @@
  */
 import type { Warning, WarningSink } from '../errors.js';
 import type { HelmertParams } from '../frames/index.js';
-import { compareToMark, DEFAULT_MATCH_RADIUS_M, matchPointsToMarks, type ControlMark, type MarkComparison, type NamedPoint } from '../control/index.js';
+import { compareToMark, DEFAULT_MATCH_RADIUS_M, matchEveryPoint, type ControlMark, type MarkComparison, type NamedPoint } from '../control/index.js';
+import { bringToFrameOf } from '../frames/index.js';
+import type { FramedEcef } from '../gnss/index.js';
 import { nssdaAccuracy, type NssdaResult } from '../accuracy/index.js';
 
 export interface ControlCheckOptions {
@@ -19,7 +21,12 @@ export interface ControlCheckOptions {
 }
 
 export interface ControlCheckPair {
+  /** The batch session of the point, '' when none. */
+  readonly session: string;
   readonly pointName: string;
+  /** The point in the frame of the comparison (the mark's, after any transformation) and the mark. */
+  readonly pointPosition: FramedEcef;
+  readonly markPosition: FramedEcef;
   readonly markName: string;
   readonly by: 'name' | 'proximity';
   readonly matchDistanceM: number;
@@ -41,13 +48,24 @@ export interface ControlCheckResult {
 export const DEFAULT_CHECK_TOLERANCE_H_M = 1.0;
 export const DEFAULT_CHECK_TOLERANCE_V_M = 2.0;
 
-export function checkAgainstControl(points: readonly NamedPoint[], marks: readonly ControlMark[], opts: ControlCheckOptions = {}): ControlCheckResult {
+export function checkAgainstControl(points: readonly (NamedPoint & { readonly session?: string })[], marks: readonly ControlMark[], opts: ControlCheckOptions = {}): ControlCheckResult {
   const radiusM = opts.radiusM ?? DEFAULT_MATCH_RADIUS_M;
   const tolH = opts.toleranceHorizontalM ?? DEFAULT_CHECK_TOLERANCE_H_M;
   const tolV = opts.toleranceVerticalM ?? DEFAULT_CHECK_TOLERANCE_V_M;
-  const matches = matchPointsToMarks(points, marks, radiusM);
+  // Every point is compared (re-occupations of a mark each count); rows grouped by session, in file order within one.
+  const matches = matchEveryPoint(points, marks, radiusM, opts.transformations ?? []);
+  const sessionOrder = new Map<string, number>();
+  for (const p of points) if (!sessionOrder.has(p.session ?? '')) sessionOrder.set(p.session ?? '', sessionOrder.size);
+  const order = new Map(points.map((p, i) => [p, i]));
+  matches.sort((a, b) => sessionOrder.get(a.point.session ?? '')! - sessionOrder.get(b.point.session ?? '')! || order.get(a.point)! - order.get(b.point)!);
+  const inMarkFrame = (p: FramedEcef, m: ControlMark): FramedEcef => {
+    try { return bringToFrameOf(p, m.position, { transformations: opts.transformations ?? [] }); } catch { return p; }
+  };
   const pairs: ControlCheckPair[] = matches.map((m) => ({
+    session: m.point.session ?? '',
     pointName: m.point.name,
+    pointPosition: inMarkFrame(m.point.position, m.mark),
+    markPosition: m.mark.position,
     markName: m.mark.name,
     by: m.by,
     matchDistanceM: m.horizontalDistanceM,

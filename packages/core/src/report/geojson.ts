@@ -6,7 +6,8 @@
  * feature's properties, with a note, never silently.
  */
 import type { FrameEpoch } from '../gnss/index.js';
-import { gpsToUtcS, isoFromSeconds } from '../time/index.js';
+import { gpsToUtcS, isoFromSeconds, weekTowFromGpsS } from '../time/index.js';
+import { crsOfFrame } from '../frames/index.js';
 import { radToDeg } from '../geodesy/index.js';
 import type { EpochSolution, PointReference } from '../session/index.js';
 import { frameEpochText, jsonNumber } from './format.js';
@@ -29,7 +30,7 @@ export interface RefdeltaFeatureCollection {
   readonly type: 'FeatureCollection';
   readonly refdelta: {
     readonly frame: string;
-    readonly epoch: number | null;
+    readonly frame_epoch: number | null;
     readonly point_reference: string;
     readonly note: string;
   };
@@ -42,6 +43,10 @@ export function isWgs84Label(name: string): boolean {
 }
 
 export function geojsonNote(frame: FrameEpoch): string {
+  if (!crsOfFrame(frame.name)) {
+    return `RFC 7946 assumes WGS 84 coordinates, but these positions are in the frame '${frame.name}' at epoch ${frameEpochText(frame.epochYear)}, ` +
+      'which refdelta cannot map to a CRS: do not take them as WGS 84 (the offset can reach metres or, for a wrong reference, more).';
+  }
   const base = 'RFC 7946 assumes WGS 84 coordinates (longitude, latitude in degrees, ellipsoidal height in metres).';
   return isWgs84Label(frame.name)
     ? `${base} These positions are in ${frame.name} at epoch ${frameEpochText(frame.epochYear)}.`
@@ -62,18 +67,20 @@ export function epochFeature(s: EpochSolution, frame: FrameEpoch): PointFeature 
       coordinates: [jsonNumber(radToDeg(g.lonRad), 9)!, jsonNumber(radToDeg(g.latRad), 9)!, jsonNumber(g.heightM, 4)!],
     },
     properties: {
-      time_utc: isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'),
-      gps_time_s: jsonNumber(s.timeGpsS, 3),
-      kind: s.kind,
+      // Names and meanings as in epochs.csv (report/vocabulary.ts).
+      gps_week: weekTowFromGpsS(s.timeGpsS).week,
+      gps_tow_s: jsonNumber(weekTowFromGpsS(s.timeGpsS).towS, 3),
+      utc_time: isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'),
       point: s.pointName,
+      solution: s.kind,
       frame: frame.name,
-      frame_epoch: jsonNumber(frame.epochYear, 2),
+      frame_epoch: jsonNumber(frame.epochYear, 4),
       point_reference: pointReferenceWords(s.pointReference),
       sigma_east_m: jsonNumber(s.sigmaEnuM?.e, 4),
       sigma_north_m: jsonNumber(s.sigmaEnuM?.n, 4),
       sigma_up_m: jsonNumber(s.sigmaEnuM?.u, 4),
       pdop: jsonNumber(s.dops?.pdop, 2),
-      satellites: s.satellitesUsed,
+      satellites_used: s.satellitesUsed,
       correction_age_s: jsonNumber(s.correctionAgeS, 3),
       speed_m_s: jsonNumber(s.speedMS, 3),
     },
@@ -91,7 +98,7 @@ export function geojson(solutions: Iterable<EpochSolution>, opts: GeoJsonOptions
     type: 'FeatureCollection',
     refdelta: {
       frame: opts.frame.name,
-      epoch: jsonNumber(opts.frame.epochYear, 2),
+      frame_epoch: jsonNumber(opts.frame.epochYear, 4),
       point_reference: pointReferenceWords(opts.pointReference),
       note: geojsonNote(opts.frame),
     },

@@ -11,6 +11,11 @@ export interface LoggedPoint {
   readonly name: string;
   readonly position: FramedEcef;
   readonly line: number;
+  /** The batch session of the row (batch-points.csv), when the table has a session column. */
+  readonly session?: string;
+  /** Precision of the mean, when the table gives it: sqrt(sigma_mean_east^2 + sigma_mean_north^2) and sigma_mean_up. */
+  readonly sigmaMeanHorizontalM?: number;
+  readonly sigmaMeanUpM?: number;
 }
 
 const REQUIRED = ['name', 'ecef_x_m', 'ecef_y_m', 'ecef_z_m', 'frame', 'frame_epoch'];
@@ -40,7 +45,18 @@ export function parsePointsCsv(file: string, text: string): LoggedPoint[] {
     const epochText = get('frame_epoch');
     const epochYear = epochText === '' || epochText === 'unstated' ? NaN : Number(epochText);
     if (Number.isNaN(epochYear) && epochText !== '' && epochText !== 'unstated') throw new InputError(file, lineNo, `column frame_epoch: expected a decimal year or 'unstated', found '${epochText}'`);
-    out.push({ name, position: { ecef, frame: { name: get('frame') || 'unstated', epochYear } }, line: lineNo });
+    const opt = (c: string): number | undefined => {
+      if (!header!.includes(c) || get(c) === '') return undefined;
+      const v = Number(get(c));
+      return Number.isFinite(v) ? v : undefined;
+    };
+    const se = opt('sigma_mean_east_m'), sn = opt('sigma_mean_north_m'), su = opt('sigma_mean_up_m');
+    out.push({
+      name, position: { ecef, frame: { name: get('frame') || 'unstated', epochYear } }, line: lineNo,
+      ...(header.includes('session') ? { session: get('session') } : {}),
+      ...(se !== undefined && sn !== undefined ? { sigmaMeanHorizontalM: Math.hypot(se, sn) } : {}),
+      ...(su !== undefined ? { sigmaMeanUpM: su } : {}),
+    });
   }
   if (!header) throw new InputError(file, 0, 'expected a points table (as written by refdelta points): the file is empty');
   return out;

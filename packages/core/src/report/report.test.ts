@@ -101,11 +101,11 @@ describe('GeoJSON (RFC 7946)', () => {
     expect(f.geometry.coordinates[1]).toBeCloseTo(33.3, 8);
     expect(f.geometry.coordinates[2]).toBeCloseTo(6000, 3);
     expect(parsed.refdelta.frame).toBe('ITRF2014');
-    expect(parsed.refdelta.epoch).toBe(2018.76);
+    expect(parsed.refdelta.frame_epoch).toBe(2018.76);
     expect(parsed.refdelta.note).toMatch(/RFC 7946 assumes WGS 84/);
     expect(parsed.refdelta.note).toMatch(/NOT transformed/);
     expect(f.properties.frame).toBe('ITRF2014');
-    expect(f.properties.kind).toBe('differential');
+    expect(f.properties.solution).toBe('differential');
   });
 });
 

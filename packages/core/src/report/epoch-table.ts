@@ -1,0 +1,50 @@
+/**
+ * The per-epoch table as written: the columns of epoch-rows.ts with the frame of each row's position
+ * (`frame`, `frame_epoch`) put before the coordinates. Differential and smoothed rows are in the frame
+ * of the reference coordinate; standalone rows are in the frame of the broadcast orbits ('WGS84
+ * (broadcast orbits)', session/solve-session.ts), so one frame for the file cannot describe every row.
+ * frame_epoch is a decimal-year number (empty when not stated).
+ */
+import type { GnssSystem } from '../gnss/index.js';
+import type { EpochSolution } from '../session/solution-types.js';
+import { epochColumns, epochRow } from './epoch-rows.js';
+import { jsonNumber } from './format.js';
+
+const BEFORE = 'latitude_deg';
+
+/** Carrier-phase columns, last: the ratio test statistic and the number of fixed ambiguities (empty for code rows). */
+const CARRIER_COLUMNS = ['ratio', 'fixed_ambiguities'];
+
+/** Ratios above this are written as this value (a number, so the column stays numeric in a GIS). */
+export const RATIO_CAP = 10000;
+
+export function epochTableColumns(systems: readonly GnssSystem[]): string[] {
+  const c = epochColumns(systems);
+  const i = c.indexOf(BEFORE);
+  return [...c.slice(0, i), 'frame', 'frame_epoch', ...c.slice(i), ...CARRIER_COLUMNS];
+}
+
+function carrierCells(s: EpochSolution): string[] {
+  const c = s as EpochSolution & { ratio?: number; fixedAmbiguities?: number };
+  if (c.fixedAmbiguities === undefined) return ['', ''];
+  return [Number.isFinite(c.ratio) ? Math.min(c.ratio!, RATIO_CAP).toFixed(2) : '', String(c.fixedAmbiguities)];
+}
+
+/** A frame epoch as a CSV cell: the decimal year as a number, '' when not stated. */
+export function frameEpochCell(epochYear: number): string {
+  const v = jsonNumber(epochYear, 4);
+  return v === null ? '' : String(v);
+}
+
+/** One row aligned with epochTableColumns(systems); frame cells are empty when the epoch has no position. */
+export function epochTableRow(s: EpochSolution, systems: readonly GnssSystem[]): string[] {
+  const r = epochRow(s, systems);
+  const i = epochColumns(systems).indexOf(BEFORE);
+  const f = s.position && s.kind !== 'none' ? s.position.frame : null;
+  return [...r.slice(0, i), f ? f.name : '', f ? frameEpochCell(f.epochYear) : '', ...r.slice(i), ...carrierCells(s)];
+}
+
+/** The metadata note that says which rows are in another frame (only when standalone rows can occur). */
+export function standaloneFrameNote(): string {
+  return "rows of solution 'standalone' are in the frame of the broadcast orbits (WGS84 (broadcast orbits), at the epoch of observation), not in the frame of the reference coordinate: see the frame and frame_epoch columns";
+}

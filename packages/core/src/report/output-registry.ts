@@ -1,0 +1,361 @@
+/**
+ * Every output format in one place: its kind (the name in --outputs, summaries and events), its file
+ * name, which run writes it, whether it is written by default, and its writer. The CLI iterates this
+ * registry (it owns file access: writers return text or bytes, never touch files).
+ *
+ * Per-epoch formats are streams (start, one chunk per epoch, end) so a day at 1 Hz never sits in
+ * memory as text; per-point formats are built whole. Each table names its metadata sidecar
+ * (`<file>.meta.json`, table-metadata.ts) and each output with projected coordinates its `.prj`.
+ */
+import type { FrameEpoch, GnssSystem } from '../gnss/index.js';
+import type { EpochSolution, PointReference } from '../session/solution-types.js';
+import { epochFeature, geojsonNote } from './geojson.js';
+import { jsonNumber } from './format.js';
+import { epochTableColumns, epochTableRow, standaloneFrameNote } from './epoch-table.js';
+import { RESIDUAL_COLUMNS, residualRowsOf } from './residual-rows.js';
+import { pointReferenceWords } from './point-reference.js';
+import { tableMetadata } from './table-metadata.js';
+import { crsOfFrame } from '../frames/index.js';
+import { radToDeg } from '../geodesy/index.js';
+import { gpsToUtcS, isoFromSeconds } from '../time/index.js';
+import { kmlEnd, kmlPlacemark, kmlStart } from './kml.js';
+import { GeoPackageWriter, csvtText, gpkgFieldType, type GpkgSrs, type SqliteDatabase } from './geopackage.js';
+import { pointsDxf } from './dxf.js';
+import type { PointResult } from './points-summary.js';
+import type { PointsTableOptions } from './points-table.js';
+
+export type OutputChunk = string | Uint8Array;
+
+/** Serialises rows of cells as CSV text (given by the caller: quoting and cell escaping are its choice). */
+export type CsvSerialiser = (rows: readonly (readonly string[])[]) => string;
+
+export interface SolveOutputContext {
+  readonly frame: FrameEpoch;
+  readonly pointReference: PointReference;
+  /** Systems whose relative clocks get a column. */
+  readonly systems: readonly GnssSystem[];
+  /** Free-text notes for the metadata (how the reference coordinate was given...). */
+  readonly notes: readonly string[];
+  /** True when standalone rows (another frame) can occur. */
+  readonly standaloneRows: boolean;
+  readonly csv: CsvSerialiser;
+  /** OGC WKT 1 of an EPSG code (for GeoPackage CRS rows and .prj files), null when unknown. */
+  readonly wkt: (epsg: number) => string | null;
+  /** A new empty SQLite database (GeoPackage output); absent when the caller has none. */
+  readonly openDatabase?: () => SqliteDatabase;
+}
+
+/** What a run adds after its epochs, for formats that hold more than the epochs (GeoPackage). */
+export interface RunExtras {
+  readonly points?: { readonly columns: readonly string[]; readonly rows: readonly (readonly string[])[]; readonly lonLatH: readonly (readonly [number, number, number])[] };
+}
+
+/** A per-epoch output: the chunks written in order; `end` may return the whole file (binary formats). */
+export interface EpochOutputWriter {
+  start(): OutputChunk;
+  epoch(s: EpochSolution): OutputChunk;
+  end(extras?: RunExtras): OutputChunk;
+}
+
+/** A file written beside an output (metadata sidecar, .prj). */
+export interface SidecarFile {
+  readonly kind: string;
+  readonly fileName: string;
+  readonly text: string;
+}
+
+export interface SolveOutputFormat {
+  readonly kind: string;
+  readonly fileName: string;
+  readonly defaultOn: boolean;
+  readonly description: string;
+  open(ctx: SolveOutputContext): EpochOutputWriter;
+  sidecars(ctx: SolveOutputContext): readonly SidecarFile[];
+  /** True when the file is completed only when the whole run is (it takes the RunExtras). */
+  readonly endsAtCommit?: boolean;
+}
+
+/** The metadata sidecar's file name for a table. */
+export function metadataFileName(fileName: string): string {
+  return `${fileName}.meta.json`;
+}
+
+function metaSidecar(kind: string, fileName: string, doc: Record<string, unknown>): SidecarFile {
+  return { kind: `${kind}-metadata`, fileName: metadataFileName(fileName), text: JSON.stringify(doc, null, 2) + '\n' };
+}
+
+/**
+ * A .prj (OGC WKT 1, as GDAL's CSV driver and shapefile readers take it) with the geographic 2-D CRS of
+ * the frame, beside a table of latitude/longitude; none for a frame without a CRS (never WGS 84 by default).
+ */
+function geographicPrj(kind: string, fileName: string, ctx: SolveOutputContext): SidecarFile[] {
+  const c = crsOfFrame(ctx.frame.name);
+  const w = c ? ctx.wkt(c.geographic2d) : null;
+  return w ? [{ kind: `${kind}-prj`, fileName, text: w + '\n' }] : [];
+}
+
+const EPOCHS: SolveOutputFormat = {
+  kind: 'epochs',
+  fileName: 'epochs.csv',
+  defaultOn: true,
+  description: 'one row per rover epoch: position, baseline, clocks, precision, tests',
+  open(ctx) {
+    let pending: string[][] = [];
+    return {
+      start: () => ctx.csv([epochTableColumns(ctx.systems)]),
+      epoch: (s) => {
+        pending.push(epochTableRow(s, ctx.systems));
+        if (pending.length < 500) return '';
+        const t = ctx.csv(pending);
+        pending = [];
+        return t;
+      },
+      end: () => (pending.length ? ctx.csv(pending) : ''),
+    };
+  },
+  sidecars(ctx) {
+    return [...geographicPrj('epochs', 'epochs.prj', ctx), { kind: 'epochs-csvt', fileName: 'epochs.csvt', text: csvtText(epochTableColumns(ctx.systems)) }, metaSidecar('epochs', 'epochs.csv', tableMetadata({
+      file: 'epochs.csv',
+      title: 'refdelta per-epoch positions: one row per rover epoch',
+      columns: epochTableColumns(ctx.systems),
+      frame: ctx.frame,
+      pointReference: pointReferenceWords(ctx.pointReference),
+      heights: 'height_m is ellipsoidal (GRS80 / WGS 84 ellipsoid)',
+      notes: [
+        'gps_week/gps_tow_s are estimated GPS time; epoch_tag_tow_s is the receiver\'s tag',
+        'each row states the frame and epoch of its own position (frame, frame_epoch columns)',
+        ...(ctx.standaloneRows ? [standaloneFrameNote()] : []),
+        ...ctx.notes,
+      ],
+    }))];
+  },
+};
+
+const RESIDUALS: SolveOutputFormat = {
+  kind: 'residuals',
+  fileName: 'residuals.csv',
+  defaultOn: true,
+  description: 'one row per satellite per rover epoch (long form): residual, weight, w-test, used or rejected with the reason',
+  open(ctx) {
+    let pending: string[][] = [];
+    return {
+      start: () => ctx.csv([[...RESIDUAL_COLUMNS]]),
+      epoch: (s) => {
+        pending.push(...residualRowsOf(s));
+        if (pending.length < 2000) return '';
+        const t = ctx.csv(pending);
+        pending = [];
+        return t;
+      },
+      end: () => (pending.length ? ctx.csv(pending) : ''),
+    };
+  },
+  sidecars(ctx) {
+    return [{ kind: 'residuals-csvt', fileName: 'residuals.csvt', text: csvtText(RESIDUAL_COLUMNS) }, metaSidecar('residuals', 'residuals.csv', tableMetadata({
+      file: 'residuals.csv',
+      title: 'refdelta per-satellite residuals: one row per satellite per rover epoch (long form); join to epochs.csv on gps_week, gps_tow_s',
+      columns: RESIDUAL_COLUMNS,
+      frame: null,
+      notes: [
+        `positions of these epochs: ${ctx.frame.name} epoch ${jsonNumber(ctx.frame.epochYear, 4) ?? 'not stated'}, referring to the ${pointReferenceWords(ctx.pointReference)} (see epochs.csv)`,
+        'residual_m: post-fit residual of the single difference (rover minus reference) or, for standalone rows, of the code',
+      ],
+    }))];
+  },
+};
+
+const GEOJSON: SolveOutputFormat = {
+  kind: 'geojson',
+  fileName: 'positions.geojson',
+  defaultOn: true,
+  description: 'RFC 7946 FeatureCollection of the epoch positions; the actual frame in the member "refdelta" and each feature',
+  open(ctx) {
+    let n = 0;
+    return {
+      start: () => {
+        const head = {
+          type: 'FeatureCollection',
+          refdelta: { frame: ctx.frame.name, frame_epoch: jsonNumber(ctx.frame.epochYear, 4), point_reference: pointReferenceWords(ctx.pointReference), note: geojsonNote(ctx.frame) },
+        };
+        // The features array is streamed: the collection is written as its members, then the array.
+        return JSON.stringify(head).slice(0, -1) + ',"features":[\n';
+      },
+      epoch: (s) => {
+        // Each feature carries its own row's frame (standalone rows: the broadcast orbits' frame).
+        const f = epochFeature(s, s.position?.frame ?? { name: 'unstated', epochYear: NaN });
+        return f ? (n++ ? ',\n' : '') + JSON.stringify(f) : '';
+      },
+      end: () => '\n]}\n',
+    };
+  },
+  sidecars: () => [],
+};
+
+const KML: SolveOutputFormat = {
+  kind: 'kml',
+  fileName: 'positions.kml',
+  defaultOn: false,
+  description: 'KML 2.2 of the epoch positions (points: also points.kml); the actual frame stated in the document',
+  open(ctx) {
+    return {
+      start: () => kmlStart('refdelta epoch positions', ctx.frame),
+      epoch: (s) => {
+        if (!s.geodetic || s.kind === 'none') return '';
+        const f = epochFeature(s, s.position?.frame ?? ctx.frame);
+        if (!f) return '';
+        return kmlPlacemark(isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'), radToDeg(s.geodetic.lonRad), radToDeg(s.geodetic.latRad), s.geodetic.heightM,
+          { ...f.properties, height_m: jsonNumber(s.geodetic.heightM, 4) });
+      },
+      end: () => kmlEnd(),
+    };
+  },
+  sidecars: () => [],
+};
+
+/** The GeoPackage CRS of a frame: its geographic 2-D EPSG CRS, or srs_id 0 (undefined geographic) when it has none. */
+export function gpkgSrsOfFrame(frame: FrameEpoch, wkt: (epsg: number) => string | null): GpkgSrs {
+  const c = crsOfFrame(frame.name);
+  const w = c ? wkt(c.geographic2d) : null;
+  if (!c || !w) return { srsId: 0, name: 'Undefined geographic SRS', wkt: 'undefined' };
+  return { srsId: c.geographic2d, name: c.epsgName, wkt: w };
+}
+
+const GPKG: SolveOutputFormat = {
+  kind: 'gpkg',
+  fileName: 'positions.gpkg',
+  defaultOn: false,
+  description: 'GeoPackage: layers epochs (points, with the CRS of the frame), residuals (table) and, from points, points',
+  endsAtCommit: true,
+  open(ctx) {
+    if (!ctx.openDatabase) throw new Error('GeoPackage output needs an SQLite database (openDatabase)');
+    const gp = new GeoPackageWriter(ctx.openDatabase());
+    const srs = gpkgSrsOfFrame(ctx.frame, ctx.wkt);
+    const epochCols = epochTableColumns(ctx.systems);
+    gp.addLayer({ name: 'epochs', description: `refdelta per-epoch positions in ${ctx.frame.name}`, fields: epochCols.map((name) => ({ name, type: gpkgFieldType(name) })), geometry: { srs, hasZ: true } });
+    gp.addLayer({ name: 'residuals', description: 'refdelta per-satellite residuals (long form)', fields: RESIDUAL_COLUMNS.map((name) => ({ name, type: gpkgFieldType(name) })) });
+    return {
+      start: () => '',
+      epoch: (s) => {
+        const g = s.geodetic;
+        // Standalone rows are in another frame: their geometry is left empty rather than mislabelled (their columns hold the values).
+        const sameFrame = s.kind !== 'standalone';
+        gp.addRow('epochs', g && s.kind !== 'none' && sameFrame ? [radToDeg(g.lonRad), radToDeg(g.latRad), g.heightM] : null, epochTableRow(s, ctx.systems));
+        for (const r of residualRowsOf(s)) gp.addRow('residuals', null, r);
+        return '';
+      },
+      end: (extras) => {
+        if (extras?.points) {
+          const p = extras.points;
+          gp.addLayer({ name: 'points', description: `refdelta points in ${ctx.frame.name}`, fields: p.columns.map((name) => ({ name, type: gpkgFieldType(name) })), geometry: { srs, hasZ: true } });
+          p.rows.forEach((r, i) => gp.addRow('points', p.lonLatH[i] ?? null, r));
+        }
+        return gp.finish();
+      },
+    };
+  },
+  sidecars: () => [],
+};
+
+/** The per-epoch outputs of a solve run, in the order they are written; `summary` is the run's index, written last by the CLI. */
+export const SOLVE_OUTPUT_FORMATS: readonly SolveOutputFormat[] = [EPOCHS, RESIDUALS, GEOJSON, KML, GPKG];
+
+/** What per-point formats are built from. */
+export interface PointsOutputContext {
+  readonly points: readonly PointResult[];
+  readonly table: PointsTableOptions;
+  readonly columns: readonly string[];
+  readonly rows: readonly (readonly string[])[];
+}
+
+/** A per-point output of `points`, asked for by the same kind in --outputs. */
+export interface PointsOutputFormat {
+  readonly kind: string;
+  readonly fileName: string;
+  readonly description: string;
+  /** Why the format cannot be written with these options, or null. */
+  refuse(table: Pick<PointsTableOptions, 'projection'>): string | null;
+  build(ctx: PointsOutputContext): OutputChunk;
+}
+
+const POINTS_KML: PointsOutputFormat = {
+  kind: 'kml',
+  fileName: 'points.kml',
+  description: 'KML 2.2 of the points',
+  refuse: () => null,
+  build(ctx) {
+    const cols = ctx.columns;
+    const at = (r: readonly string[], c: string) => r[cols.indexOf(c)] ?? '';
+    return kmlStart('refdelta points', ctx.table.frame) + ctx.rows.map((r) => {
+      const fields: Record<string, string> = {};
+      cols.forEach((c, i) => { fields[c] = r[i] ?? ''; });
+      return kmlPlacemark(at(r, 'name'), Number(at(r, 'longitude_deg')), Number(at(r, 'latitude_deg')), Number(at(r, 'height_m')), fields);
+    }).join('') + kmlEnd();
+  },
+};
+
+const POINTS_DXF: PointsOutputFormat = {
+  kind: 'dxf',
+  fileName: 'points.dxf',
+  description: 'DXF for CAD: the points as named 3-D points in the projected CRS (needs --projection; heights orthometric with --geoid, else ellipsoidal)',
+  refuse: (t) => (!t.projection ? 'dxf holds grid coordinates: give --projection (an EPSG code or utm)' : t.projection.units !== 'm' ? 'dxf holds grid coordinates in metres: give a projected CRS, not a geographic one' : null),
+  build(ctx) {
+    const cols = ctx.columns;
+    const at = (r: readonly string[], c: string) => r[cols.indexOf(c)] ?? '';
+    return pointsDxf(ctx.rows.map((r) => ({
+      name: at(r, 'name'), eastingM: Number(at(r, 'easting_m')), northingM: Number(at(r, 'northing_m')),
+      heightM: Number(at(r, 'orthometric_height_m') !== '' ? at(r, 'orthometric_height_m') : at(r, 'height_m')),
+    })));
+  },
+};
+
+/** Per-point outputs besides points.csv, points.geojson (always written by `points`) and the GeoPackage layer. */
+export const POINTS_OUTPUT_FORMATS: readonly PointsOutputFormat[] = [POINTS_KML, POINTS_DXF];
+
+/** Kinds of --outputs: the registered formats plus the summary. */
+export function outputKinds(): string[] {
+  const kinds = [...SOLVE_OUTPUT_FORMATS.map((f) => f.kind), ...POINTS_OUTPUT_FORMATS.map((f) => f.kind)];
+  return [...new Set(kinds), 'summary'];
+}
+
+export function defaultOutputKinds(): string[] {
+  return [...SOLVE_OUTPUT_FORMATS.filter((f) => f.defaultOn).map((f) => f.kind), 'summary'];
+}
+
+export const SUMMARY_FILE_NAME = 'summary.json';
+
+/** What `check` outputs are built from: control-check.csv's columns and rows, and the frames compared in. */
+export interface CheckOutputContext {
+  readonly columns: readonly string[];
+  readonly rows: readonly (readonly string[])[];
+  /** The frame of each row's comparison (the mark's). */
+  readonly frames: readonly FrameEpoch[];
+  readonly wkt: (epsg: number) => string | null;
+  readonly openDatabase?: () => SqliteDatabase;
+}
+
+export interface CheckOutputFormat {
+  readonly kind: string;
+  readonly fileName: string;
+  readonly description: string;
+  build(ctx: CheckOutputContext): OutputChunk;
+}
+
+const CHECK_GPKG: CheckOutputFormat = {
+  kind: 'gpkg',
+  fileName: 'control-check.gpkg',
+  description: 'GeoPackage layer control_check: one 3-D point per comparison at the mark, with every column of control-check.csv',
+  build(ctx) {
+    if (!ctx.openDatabase) throw new Error('GeoPackage output needs an SQLite database (openDatabase)');
+    const gp = new GeoPackageWriter(ctx.openDatabase());
+    // One CRS for the layer: the marks' frame when they share one, else undefined (srs_id 0), never a guess.
+    const names = new Set(ctx.frames.map((f) => crsOfFrame(f.name)?.geographic2d ?? -1));
+    const srs = names.size === 1 && ctx.frames[0] ? gpkgSrsOfFrame(ctx.frames[0], ctx.wkt) : { srsId: 0, name: 'Undefined geographic SRS', wkt: 'undefined' };
+    gp.addLayer({ name: 'control_check', description: 'refdelta control check: computed point minus published mark', fields: ctx.columns.map((name) => ({ name, type: gpkgFieldType(name) })), geometry: { srs, hasZ: true } });
+    const at = (r: readonly string[], c: string) => Number(r[ctx.columns.indexOf(c)]);
+    for (const r of ctx.rows) gp.addRow('control_check', [at(r, 'mark_longitude_deg'), at(r, 'mark_latitude_deg'), at(r, 'mark_height_m')], r);
+    return gp.finish();
+  },
+};
+
+/** Outputs of `check` besides control-check.csv and control-check.json (always written). */
+export const CHECK_OUTPUT_FORMATS: readonly CheckOutputFormat[] = [CHECK_GPKG];

@@ -1,0 +1,120 @@
+/**
+ * One vocabulary for every output: each column (CSV), property (GeoJSON, KML) or field (GeoPackage)
+ * name means the same thing wherever it appears, with its unit as a suffix (_m metres, _deg degrees,
+ * _s seconds, _m_s metres per second; no suffix: a count, a ratio, a word or a decimal year).
+ * docs/outputs.md lists the same entries (a test keeps the two equal); the metadata sidecars carry
+ * each table's entries.
+ */
+
+export interface VocabularyEntry {
+  readonly unit: string | null;
+  readonly meaning: string;
+}
+
+export const VOCABULARY: Readonly<Record<string, VocabularyEntry>> = {
+  gps_week: { unit: null, meaning: 'GPS week number (continuous, not modulo 1024)' },
+  gps_tow_s: { unit: 's', meaning: 'GPS time of week of the epoch: estimated GPS time, not the receiver tag' },
+  utc_time: { unit: null, meaning: 'UTC time of the epoch, ISO 8601' },
+  epoch_tag_tow_s: { unit: 's', meaning: "the receiver's own time tag of the epoch, GPS time of week" },
+  point: { unit: null, meaning: 'name of the logged point the row belongs to (epochs: the occupation in force; check: the computed point)' },
+  name: { unit: null, meaning: 'name of a point or mark' },
+  session: { unit: null, meaning: 'the batch session (rover file name without extensions) a row comes from' },
+  solution: { unit: null, meaning: 'how the position was computed: differential | smoothed | standalone | fixed | float | none (fixed, float: carrier phase)' },
+  frame: { unit: null, meaning: "reference frame of the row's coordinates (canonical name, e.g. ITRF2014, ETRF2000, WGS84; 'WGS84 (broadcast orbits)' for standalone positions)" },
+  frame_epoch: { unit: 'decimal year', meaning: "epoch of the row's coordinates in its frame (a number; empty when not stated)" },
+  crs_epsg: { unit: null, meaning: 'EPSG code of the geographic CRS of the frame (empty when the frame has none)' },
+  point_reference: { unit: null, meaning: 'which point the coordinates refer to: ground mark | antenna reference point' },
+  latitude_deg: { unit: 'deg', meaning: 'geodetic latitude, north positive' },
+  longitude_deg: { unit: 'deg', meaning: 'geodetic longitude, east positive' },
+  height_m: { unit: 'm', meaning: 'ellipsoidal height (GRS80 / WGS 84 ellipsoid)' },
+  ecef_x_m: { unit: 'm', meaning: 'Earth-centred Earth-fixed X in the frame' },
+  ecef_y_m: { unit: 'm', meaning: 'Earth-centred Earth-fixed Y in the frame' },
+  ecef_z_m: { unit: 'm', meaning: 'Earth-centred Earth-fixed Z in the frame' },
+  easting_m: { unit: 'm', meaning: 'grid easting in the projection stated in the metadata (empty without --projection)' },
+  northing_m: { unit: 'm', meaning: 'grid northing in the projection stated in the metadata (empty without --projection)' },
+  orthometric_height_m: { unit: 'm', meaning: 'height above the geoid stated in the metadata, height_m - N (empty without --geoid)' },
+  baseline_east_m: { unit: 'm', meaning: 'rover minus reference, east component in the local frame at the reference' },
+  baseline_north_m: { unit: 'm', meaning: 'rover minus reference, north component' },
+  baseline_up_m: { unit: 'm', meaning: 'rover minus reference, up component' },
+  baseline_length_m: { unit: 'm', meaning: 'length of the baseline (3-D)' },
+  rel_clock_gps_m: { unit: 'm', meaning: 'receiver clock of GPS in metres: rover minus reference (differential rows), the rover\'s own (standalone rows)' },
+  rel_clock_glonass_m: { unit: 'm', meaning: 'receiver clock of GLONASS in metres: rover minus reference (differential rows), the rover\'s own (standalone rows)' },
+  rel_clock_galileo_m: { unit: 'm', meaning: 'receiver clock of Galileo in metres: rover minus reference (differential rows), the rover\'s own (standalone rows)' },
+  rel_clock_beidou_m: { unit: 'm', meaning: 'receiver clock of BeiDou in metres: rover minus reference (differential rows), the rover\'s own (standalone rows)' },
+  rel_clock_qzss_m: { unit: 'm', meaning: 'receiver clock of QZSS in metres: rover minus reference (differential rows), the rover\'s own (standalone rows)' },
+  rel_clock_navic_m: { unit: 'm', meaning: 'receiver clock of NavIC in metres: rover minus reference (differential rows), the rover\'s own (standalone rows)' },
+  rel_clock_sbas_m: { unit: 'm', meaning: 'receiver clock of SBAS in metres: rover minus reference (differential rows), the rover\'s own (standalone rows)' },
+  satellites_used: { unit: null, meaning: 'satellites used in the solution' },
+  pdop: { unit: null, meaning: 'position dilution of precision' },
+  hdop: { unit: null, meaning: 'horizontal dilution of precision' },
+  vdop: { unit: null, meaning: 'vertical dilution of precision' },
+  sigma_east_m: { unit: 'm', meaning: 'formal standard deviation, east' },
+  sigma_north_m: { unit: 'm', meaning: 'formal standard deviation, north' },
+  sigma_up_m: { unit: 'm', meaning: 'formal standard deviation, up' },
+  variance_factor: { unit: null, meaning: 'a-posteriori variance factor of unit weight' },
+  chi_square: { unit: null, meaning: 'global test statistic (sum of weighted squared residuals)' },
+  chi_square_critical: { unit: null, meaning: 'critical value of the global test' },
+  correction_age_s: { unit: 's', meaning: 'time between the rover epoch and the reference epochs used' },
+  speed_m_s: { unit: 'm/s', meaning: 'speed over ground from Doppler' },
+  antenna_height_m: { unit: 'm', meaning: 'vertical height of the antenna reference point above the mark in force' },
+  ratio: { unit: null, meaning: 'ratio test statistic of the integer ambiguity fix (carrier-phase rows; 10000 once the ambiguities are held, larger values written as 10000)' },
+  fixed_ambiguities: { unit: null, meaning: 'number of integer ambiguities fixed in the epoch (carrier-phase rows)' },
+  reason: { unit: null, meaning: 'why an epoch or satellite was not used, in words (empty when used)' },
+  satellite: { unit: null, meaning: 'satellite: RINEX system letter and number (G05, E11...)' },
+  signal: { unit: null, meaning: 'RINEX observation code of the pseudorange used (C1C...)' },
+  elevation_deg: { unit: 'deg', meaning: 'elevation of the satellite at the rover' },
+  azimuth_deg: { unit: 'deg', meaning: 'azimuth of the satellite at the rover, from north through east' },
+  residual_m: { unit: 'm', meaning: 'post-fit residual of the single difference (standalone rows: of the code)' },
+  weight_per_m2: { unit: '1/m^2', meaning: 'weight of the observation in the adjustment' },
+  w_test: { unit: null, meaning: "Baarda's w-test statistic of the observation" },
+  status: { unit: null, meaning: 'used | rejected' },
+  source: { unit: null, meaning: 'how the occupation was found: windows | events | doppler' },
+  start_utc: { unit: null, meaning: 'first epoch of the occupation, UTC ISO 8601' },
+  end_utc: { unit: null, meaning: 'last epoch of the occupation, UTC ISO 8601' },
+  start_gps_week: { unit: null, meaning: 'GPS week of the first epoch' },
+  start_gps_tow_s: { unit: 's', meaning: 'GPS time of week of the first epoch' },
+  end_gps_week: { unit: null, meaning: 'GPS week of the last epoch' },
+  end_gps_tow_s: { unit: 's', meaning: 'GPS time of week of the last epoch' },
+  epochs: { unit: null, meaning: 'number of epochs averaged' },
+  duration_s: { unit: 's', meaning: 'time from the first to the last epoch' },
+  sd_east_m: { unit: 'm', meaning: 'scatter (1 sigma) of the epochs, east' },
+  sd_north_m: { unit: 'm', meaning: 'scatter (1 sigma) of the epochs, north' },
+  sd_up_m: { unit: 'm', meaning: 'scatter (1 sigma) of the epochs, up' },
+  n_eff: { unit: null, meaning: 'effective number of independent epochs (smallest of the three components)' },
+  sigma_mean_east_m: { unit: 'm', meaning: 'standard deviation of the mean, east' },
+  sigma_mean_north_m: { unit: 'm', meaning: 'standard deviation of the mean, north' },
+  sigma_mean_up_m: { unit: 'm', meaning: 'standard deviation of the mean, up' },
+  radius95_relative_m: { unit: 'm', meaning: '95 % horizontal radius of the point relative to the reference (from sigma_mean_*)' },
+  up95_relative_m: { unit: 'm', meaning: '95 % vertical half-interval of the point relative to the reference' },
+  sigma_reference_horizontal_m: { unit: 'm', meaning: "the reference coordinate's own uncertainty, 1 sigma per horizontal axis" },
+  sigma_reference_up_m: { unit: 'm', meaning: "the reference coordinate's own uncertainty, 1 sigma vertical" },
+  radius95_m: { unit: 'm', meaning: '95 % horizontal radius of the point in the frame (relative precision and the reference uncertainty together)' },
+  up95_m: { unit: 'm', meaning: '95 % vertical half-interval of the point in the frame' },
+  mean_pdop: { unit: null, meaning: 'mean PDOP of the epochs averaged' },
+  solution_kinds: { unit: null, meaning: 'epochs averaged by solution, e.g. smoothed:240' },
+  solution_basis: { unit: null, meaning: 'which epochs a point was averaged from: fixed | fixed+float | code | standalone' },
+  tolerance: { unit: null, meaning: 'ok | too-few-epochs | exceeds-horizontal | exceeds-vertical | exceeds-horizontal-and-vertical' },
+  mark: { unit: null, meaning: 'name of the published control mark' },
+  matched_by: { unit: null, meaning: 'how a point was matched to its mark: name | proximity' },
+  match_distance_m: { unit: 'm', meaning: 'horizontal distance between point and mark, after any frame transformation' },
+  d_east_m: { unit: 'm', meaning: 'point minus mark, east at the mark' },
+  d_north_m: { unit: 'm', meaning: 'point minus mark, north at the mark' },
+  d_up_m: { unit: 'm', meaning: 'point minus mark, up at the mark' },
+  horizontal_m: { unit: 'm', meaning: 'horizontal difference point minus mark' },
+  three_d_m: { unit: 'm', meaning: '3-D difference point minus mark' },
+  tolerance_h_m: { unit: 'm', meaning: 'horizontal tolerance applied' },
+  tolerance_v_m: { unit: 'm', meaning: 'vertical tolerance applied' },
+  pass: { unit: null, meaning: 'pass | fail' },
+  mark_latitude_deg: { unit: 'deg', meaning: 'latitude of the mark in the frame of the comparison' },
+  mark_longitude_deg: { unit: 'deg', meaning: 'longitude of the mark in the frame of the comparison' },
+  mark_height_m: { unit: 'm', meaning: 'ellipsoidal height of the mark in the frame of the comparison' },
+};
+
+/** The vocabulary entries of a table's columns; a name not in the vocabulary is a programming error. */
+export function columnsDescribed(columns: readonly string[]): { name: string; unit: string | null; meaning: string }[] {
+  return columns.map((name) => {
+    const v = VOCABULARY[name];
+    if (!v) throw new Error(`column '${name}' is not in the output vocabulary (report/vocabulary.ts)`);
+    return { name, unit: v.unit, meaning: v.meaning };
+  });
+}
