@@ -44,7 +44,7 @@ function headerXyz(path) {
 }
 
 const solveArgs = (rover, reference, nav, xyz, out, extra = []) => [
-  CLI, 'solve', '--rover', rover, '--reference', reference, '--nav', ...nav, '--ref-xyz', xyz, '--ref-frame', 'WGS84', '--ref-epoch', '2024.0',
+  CLI, 'solve', '--rover', rover, '--reference', reference, '--nav', ...nav, '--ref-coord', xyz, '--ref-frame', 'WGS84', '--ref-epoch', '2024.0',
   '--out', out, '--quiet', ...extra,
 ];
 

@@ -35,7 +35,7 @@ describe('refdelta batch --jobs: worker threads give the bytes and messages of a
     for (const jobs of [1, 2, 3]) {
       const out = tempDir(`rd-jobs-${jobs}-`);
       const run = runCli(['batch', '--sessions', dir, '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-        '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--jobs', String(jobs), '--out', out]);
+        '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--jobs', String(jobs), '--out', out]);
       runs.push({ jobs, out, run });
     }
   }, 300_000);
@@ -65,7 +65,7 @@ describe('refdelta batch --jobs: worker threads give the bytes and messages of a
 
   it('--jobs 0 is a usage error', () => {
     const r = runCli(['batch', '--sessions', dir, '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--jobs', '0', '--out', tempDir('rd-jobs-bad-')]);
+      '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--jobs', '0', '--out', tempDir('rd-jobs-bad-')]);
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/--jobs must be a whole number from 1 to 256, got '0'/);
   });

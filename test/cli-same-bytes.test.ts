@@ -59,7 +59,7 @@ describe('the bundled refdelta command writes what the modular build writes (dem
   const DEMO = (f: string) => fixturePath(`demo/${f}`);
   const args = (out: string) => [
     'solve', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
-    '--ref-mark', 'KFRD', '--marks', DEMO('control-marks.csv'), '--at-antenna', '--out', out, '--quiet',
+    '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--at-antenna', '--out', out, '--quiet',
   ];
   let modularOut = '', bundledOut = '';
   let modular: CliRun, bundled: CliRun;
@@ -99,7 +99,7 @@ describeShared('CSV rows of the real static run are what csv-stringify writes', 
     run = runCli([
       'solve', '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
       '--nav', dataPath(`${D}/reference/glw1277m.18n`), dataPath(`${D}/reference/glw1277m.18g`),
-      '--ref-xyz', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', '--out', out, '--quiet',
+      '--ref-coord', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', '--out', out, '--quiet',
     ]);
   }, 240_000);
 
