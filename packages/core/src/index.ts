@@ -1,40 +1,67 @@
-/** Public face of the engine: every stage's index. Others append lines here; keep it append-only. */
-export * from './gnss/index.js';
-export * from './errors.js';
-export * from './time/index.js';
-export * from './geodesy/index.js';
-export * from './orbit/index.js';
-export * from './solve/index.js';
-export * from './frames/index.js';
-export * from './report/index.js';
-export * from './inspect/index.js';
-export * from './rinex/index.js';
-export * from './atmosphere/index.js';
-export * from './geoid/index.js';
-export * from './observables/index.js';
-export * from './projection/index.js';
-export * from './standalone/index.js';
-export * from './compress/index.js';
-export * from './session/index.js';
-export * from './control/index.js';
-// points/: 'Occupation' is also a word of the simulator's; the points one is exported as PointOccupation.
-export * from './points/robust-mean.js';
-
-export * from './points/antenna-height.js';
-export * from './points/occupation-csv.js';
-export * from './points/summarise-point.js';
-export {
-  splitOccupations, DEFAULT_STATIC_DETECTION,
-  type EpochMark, type SplitInput, type StaticDetection, type Occupation as PointOccupation,
-} from './points/occupations.js';
-export * from './accuracy/index.js';
-export * from './velocity/index.js';
-export * from './report/points-summary.js';
-export * from './report/points-table.js';
-export * from './report/points-csv.js';
-export * from './report/control-check.js';
-export * from './report/control-report.js';
-export * from './ambiguity/index.js';
-export * from './carrier/index.js';
-export * from './report-html/index.js';
-export * from './csv/inert-cell.js';
+/**
+ * The engine's public face: what the command line and a library user need, by stage (values), and every
+ * stage's types. Internals stay behind each stage's index; tests reach modules directly.
+ */
+export { GNSS_SYSTEMS, LLI_LOST_LOCK, SYSTEM_NAMES, isGnssSystem, satSystem } from './gnss/index.js';
+export { FormatError, InputError, ProcessingError, RefdeltaError, formatWarning } from './errors.js';
+export { SECONDS_PER_WEEK, calendarFromSeconds, daysFromCivil, decimalYearFromGpsS, gpsToUtcS, isoFromSeconds, leapSecondsAtUtc, secondsFromCalendar, weekTowFromGpsS } from './time/index.js';
+export { GRS80, WGS84, azimuthElevation, degToRad, ecefDeltaToEnu, ecefToEnu, ecefToGeodetic, enuToEcefDelta, geodeticToEcef, radToDeg } from './geodesy/index.js';
+export { EphemerisStore, FREQ_L1_HZ, FREQ_L2_HZ, GALILEO_CONSTANTS, GPS_CONSTANTS, keplerStateInto, satelliteClock, satelliteState } from './orbit/index.js';
+export { elevationVarianceM2, qualityControlLoop, solvePositionFix, solveWeightedLeastSquares, solveWeightedLeastSquaresSmall } from './solve/index.js';
+export { KNOWN_FRAME_NAMES, crsOfFrame, isKnownFrameName, looksLikeTransformationName, normaliseFrameName, parseHelmertJson, shippedTransformation } from './frames/index.js';
+export { CAUTIONS, CHECK_OUTPUT_FORMATS, POINTS_OUTPUT_FORMATS, SOLVE_OUTPUT_FORMATS, SUMMARY_FILE_NAME, crsStatement, csvtText, defaultOutputKinds, fixed, frameEpochText, horizontalVerticalStats, metadataFileName, outputKinds, pointReferenceWords, positionScatter, summaryJson, tableMetadata } from './report/index.js';
+export { ephemerisTimeGpsS, inspectNav, inspectObs, navInspectionText, obsInspectionText } from './inspect/index.js';
+export { mergeNav, readNav, readObsStream, writeNavRinex3, writeObsRinex3 } from './rinex/index.js';
+export { klobucharDelayM, slantTroposphere } from './atmosphere/index.js';
+export { loadEgm96, looksLikeIsg, looksLikeTiff, parseGeoTiffGeoid, parseIsgGrid } from './geoid/index.js';
+export { makeProjection, resolveProjectionSpec } from './projection/index.js';
+export { broadcastOrbitFrame, solveStandaloneEpoch, solveStandaloneSession } from './standalone/index.js';
+export { openText } from './compress/index.js';
+export { DEFAULT_OPTIONS, solveSession, withDefaults } from './session/index.js';
+export { DEFAULT_MATCH_RADIUS_M, parseControlCsv, parseMarksFile, splitCsvLine } from './control/index.js';
+export { parseOccupationCsv } from './points/occupation-csv.js';
+export { summarisePoint } from './points/summarise-point.js';
+export { DEFAULT_STATIC_DETECTION, splitOccupations } from './points/occupations.js';
+export { nssdaAccuracy } from './accuracy/index.js';
+export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, carrierPointFloor, chooseEpochs, summariseOccupations } from './report/points-summary.js';
+export { EGM96_NOT_A_DATUM_NOTE, pointRow, pointsColumns, pointsGeoJson, pointsMetadata } from './report/points-table.js';
+export { parsePointsCsv } from './report/points-csv.js';
+export { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, checkAgainstControl } from './report/control-check.js';
+export { CONTROL_CHECK_COLUMNS, controlCheckJson, controlCheckNotes, controlCheckRows } from './report/control-report.js';
+export { DEFAULT_CARRIER_OPTIONS, readAntex, solveCarrierSession, withCarrierDefaults } from './carrier/index.js';
+export { SKY_CSV_COLUMNS, buildBatchIndexHtml, buildSessionReportHtml, satelliteDirections, syntheticSessionReportData } from './report-html/index.js';
+export { inertRows } from './csv/inert-cell.js';
+export type * from './gnss/index.js';
+export type * from './errors.js';
+export type * from './time/index.js';
+export type * from './geodesy/index.js';
+export type * from './orbit/index.js';
+export type * from './solve/index.js';
+export type * from './frames/index.js';
+export type * from './report/index.js';
+export type * from './inspect/index.js';
+export type * from './rinex/index.js';
+export type * from './atmosphere/index.js';
+export type * from './geoid/index.js';
+export type * from './observables/index.js';
+export type * from './projection/index.js';
+export type * from './standalone/index.js';
+export type * from './compress/index.js';
+export type * from './session/index.js';
+export type * from './control/index.js';
+export type * from './points/robust-mean.js';
+export type * from './points/antenna-height.js';
+export type * from './points/occupation-csv.js';
+export type * from './points/summarise-point.js';
+export type * from './points/occupations.js';
+export type * from './accuracy/index.js';
+export type * from './velocity/index.js';
+export type * from './report/points-summary.js';
+export type * from './report/points-table.js';
+export type * from './report/points-csv.js';
+export type * from './report/control-check.js';
+export type * from './report/control-report.js';
+export type * from './ambiguity/index.js';
+export type * from './carrier/index.js';
+export type * from './report-html/index.js';
+export type * from './csv/inert-cell.js';
