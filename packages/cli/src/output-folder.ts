@@ -106,7 +106,8 @@ export async function prepareOutputFolder(c: OutputFolderCheck): Promise<void> {
     fail((e as NodeJS.ErrnoException).code, dir, `the output folder ${dir} is not writable`);
   }
   // Writable in fact (a read-only mount passes access() for root): a probe file.
-  const probe = join(there, `.refdelta-probe.${process.pid}.${Date.now().toString(36)}.tmp`);
+  // Unique per thread too: batch workers share the process id and may probe the same folder in one millisecond.
+  const probe = join(there, `.refdelta-probe.${process.pid}.${Date.now().toString(36)}.${Math.random().toString(36).slice(2, 10)}.tmp`);
   registerTemporary(probe);
   try {
     const fh = await open(probe, 'wx');
