@@ -14,17 +14,8 @@ import { lzwEncode } from './lzw.mjs';
 const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
 const bytesOf = (p) => new Uint8Array(readFileSync(join(ROOT, p)));
 
-/** mulberry32 (a common small PRNG, public domain): uniform in [0, 1). */
-export function prng(seed) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { prng } from './prng.mjs';
+import { prng } from './prng.mjs';
 
 const pick = (r, xs) => xs[Math.floor(r() * xs.length)];
 const ATOMS = ['', ' ', '0', '-1', '999999', '1e308', 'NaN', '-', '=', '"', ',', '\r', '\n', '\t', '\x00', '\x1b[2J', '\xef\xbb\xbf',
