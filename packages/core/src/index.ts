@@ -2,11 +2,11 @@
  * The engine's public face: what the command line and a library user need, by stage (values), and every
  * stage's types. Internals stay behind each stage's index; tests reach modules directly.
  */
-export { GNSS_SYSTEMS, LLI_LOST_LOCK, SYSTEM_NAMES, isGnssSystem, satSystem } from './gnss/index.js';
+export { GNSS_SYSTEMS, LLI_LOST_LOCK, SYSTEM_NAMES, glonassG1FrequencyHz, glonassG2FrequencyHz, isGnssSystem, satSystem } from './gnss/index.js';
 export { FormatError, InputError, ProcessingError, RefdeltaError, formatWarning } from './errors.js';
 export { SECONDS_PER_WEEK, calendarFromSeconds, daysFromCivil, decimalYearFromGpsS, gpsToUtcS, isoFromSeconds, leapSecondsAtUtc, secondsFromCalendar, weekTowFromGpsS } from './time/index.js';
 export { GRS80, WGS84, azimuthElevation, degToRad, ecefDeltaToEnu, ecefToEnu, ecefToGeodetic, enuToEcefDelta, geodeticToEcef, radToDeg } from './geodesy/index.js';
-export { EphemerisStore, FREQ_L1_HZ, FREQ_L2_HZ, GALILEO_CONSTANTS, GPS_CONSTANTS, keplerStateInto, satelliteClock, satelliteState } from './orbit/index.js';
+export { EphemerisStore, FREQ_L1_HZ, FREQ_L2_HZ, GALILEO_CONSTANTS, GPS_CONSTANTS, PZ90, keplerStateInto, satelliteClock, satelliteState } from './orbit/index.js';
 export { elevationVarianceM2, qualityControlLoop, solvePositionFix, solveWeightedLeastSquares, solveWeightedLeastSquaresSmall } from './solve/index.js';
 export { KNOWN_FRAME_NAMES, crsOfFrame, isKnownFrameName, looksLikeTransformationName, normaliseFrameName, parseHelmertJson, shippedTransformation } from './frames/index.js';
 export { CAUTIONS, CHECK_OUTPUT_FORMATS, POINTS_OUTPUT_FORMATS, SOLVE_OUTPUT_FORMATS, SUMMARY_FILE_NAME, crsStatement, csvtText, defaultOutputKinds, fixed, frameEpochText, horizontalVerticalStats, metadataFileName, outputKinds, pointReferenceWords, positionScatter, summaryJson, tableMetadata } from './report/index.js';

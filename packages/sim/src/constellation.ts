@@ -1,5 +1,6 @@
 /**
- * A plausible simulated broadcast constellation: Keplerian ephemerides for GPS and Galileo.
+ * A plausible simulated broadcast constellation: Keplerian ephemerides for GPS and Galileo, and GLONASS
+ * state vectors (glonass-constellation.ts: truth orbits integrated from the ICD's equations of motion).
  *
  * Nominal orbits (from memory): GPS, 6 planes A-F with right ascensions of the ascending node 60 deg
  * apart, 55 deg inclination, semi-major axis 26,559.7 km, near-circular (nominal constellation, e.g. GPS
@@ -18,10 +19,26 @@
  * small), IODnav incrementing (mod 1024), transmitted 9 min before toe.
  */
 import type { GnssSystem } from '@refdelta/core';
-import type { KeplerEphemeris, KlobucharCoefficients, NavData } from '@refdelta/core';
+import type { Ephemeris, KeplerEphemeris, KlobucharCoefficients, NavData } from '@refdelta/core';
 import { GALILEO_CONSTANTS, GPS_CONSTANTS } from '@refdelta/core';
 import { SECONDS_PER_WEEK } from '@refdelta/core';
 import { Rng } from './rng.js';
+import { simulateGlonass, type GlonassOrbitTruth } from './glonass-constellation.js';
+
+/** The true GLONASS orbits behind a simulated navigation set (its records are samples of them). */
+const glonassTruth = new WeakMap<NavData, ReadonlyMap<string, GlonassOrbitTruth>>();
+
+/** True GLONASS orbits and clocks of a navigation set made by simulateConstellation (empty otherwise). */
+export function glonassTruthOf(nav: NavData): ReadonlyMap<string, GlonassOrbitTruth> {
+  return glonassTruth.get(nav) ?? new Map();
+}
+
+/** GLONASS slot -> frequency channel of a simulated navigation set. */
+export function glonassChannelsOf(nav: NavData): Map<number, number> {
+  const m = new Map<number, number>();
+  for (const [sat, t] of glonassTruthOf(nav)) m.set(Number(sat.slice(1)), t.channel);
+  return m;
+}
 
 /**
  * A typical broadcast Klobuchar set (values of the kind seen in GPS navigation headers of a quiet
@@ -43,7 +60,7 @@ export interface ConstellationSpec {
   /** Span that the ephemerides must cover (GPS s); issues are added 4 h either side. */
   readonly startGpsS: number;
   readonly endGpsS: number;
-  readonly systems: readonly ('G' | 'E')[];
+  readonly systems: readonly ('G' | 'E' | 'R')[];
 }
 
 /** The orbit and clock of one simulated satellite at a reference instant. */
@@ -225,7 +242,7 @@ export function simulateConstellation(spec: ConstellationSpec): NavData {
   if (spec.systems.includes('G')) elements.push(...gpsElements(spec.seed, tRef));
   if (spec.systems.includes('E')) elements.push(...galileoElements(spec.seed, tRef));
   elements.sort((a, b) => (a.sat < b.sat ? -1 : a.sat > b.sat ? 1 : 0));
-  const ephemerides: KeplerEphemeris[] = [];
+  const ephemerides: Ephemeris[] = [];
   const systems: GnssSystem[] = ['G', 'E'];
   for (const sys of systems) {
     const step = issuePeriodS(sys as 'G' | 'E');
@@ -235,8 +252,11 @@ export function simulateConstellation(spec: ConstellationSpec): NavData {
       for (const el of elements) if (el.system === sys) ephemerides.push(issue(el, tRef, toe, ((k % 1024) + 1024) % 1024));
     }
   }
-  ephemerides.sort((a, b) => a.toeGpsS - b.toeGpsS || (a.sat < b.sat ? -1 : a.sat > b.sat ? 1 : 0));
-  return {
+  const glo = spec.systems.includes('R') ? simulateGlonass(spec.seed, spec.startGpsS, spec.endGpsS, tRef) : null;
+  if (glo) ephemerides.push(...glo.ephemerides);
+  const refTime = (e: Ephemeris) => (e.kind === 'kepler' ? e.toeGpsS : e.kind === 'glonass' ? e.tbGpsS : e.t0GpsS);
+  ephemerides.sort((a, b) => refTime(a) - refTime(b) || (a.sat < b.sat ? -1 : a.sat > b.sat ? 1 : 0));
+  const nav: NavData = {
     files: ['simulated'],
     version: 3.04,
     ephemerides,
@@ -246,4 +266,6 @@ export function simulateConstellation(spec: ConstellationSpec): NavData {
     },
     leapSeconds: SIM_LEAP_SECONDS,
   };
+  if (glo) glonassTruth.set(nav, glo.truth);
+  return nav;
 }

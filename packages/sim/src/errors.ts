@@ -81,6 +81,19 @@ export interface FaultParams {
   readonly durationS: number;
 }
 
+/**
+ * GLONASS inter-channel (inter-frequency) biases: code and phase delays of a receiver that grow linearly
+ * with the frequency channel number k, set by its design (front end, correlator), so alike for receivers
+ * of one type and different between types (Wanninger 2012, GPS Solutions 16:439-448; Sleewaegen et al.
+ * 2012, "Demystifying GLONASS inter-frequency carrier phase biases", InsideGNSS). Each receiver type gets
+ * slopes drawn uniformly within +-max from its type name. Magnitudes from memory: differential phase
+ * slopes of a few millimetres per channel number between manufacturers, code slopes of decimetres.
+ */
+export interface GlonassInterChannelParams {
+  readonly codeMaxMPerChannel: number;
+  readonly phaseMaxMPerChannel: number;
+}
+
 type Switch<P> = boolean | Partial<P> | undefined;
 
 /** Error switches of a scenario: false/absent = off, true = defaults, an object = on with overrides. */
@@ -99,6 +112,8 @@ export interface ErrorSpec {
   readonly slips?: Switch<SlipParams>;
   readonly gaps?: Switch<GapParams>;
   readonly faults?: Switch<FaultParams>;
+  /** GLONASS inter-channel biases per receiver type (not part of ALL_ERRORS_ON: a switch of its own). */
+  readonly glonassInterChannel?: Switch<GlonassInterChannelParams>;
 }
 
 export const DEFAULT_ORBIT_ERROR: OrbitErrorParams = { radialSigmaM: 0.3, alongSigmaM: 1.0, crossSigmaM: 0.6, minPeriodS: 3600, maxPeriodS: 6 * 3600 };
@@ -109,6 +124,7 @@ export const DEFAULT_MULTIPATH: MultipathParams = { minAmplitudeM: 0.5, maxAmpli
 export const DEFAULT_SLIPS: SlipParams = { roverPerSatHour: 1.5, referencePerSatHour: 0.05, maxCycles: 30 };
 export const DEFAULT_GAPS: GapParams = { epochGapsPerHour: 4, epochGapMinS: 2, epochGapMaxS: 12, dropoutsPerHour: 8, dropoutMinS: 10, dropoutMaxS: 90, receivers: 'rover' };
 export const DEFAULT_FAULTS: FaultParams = { perHour: 2, minStepM: 20, maxStepM: 50, durationS: 60 };
+export const DEFAULT_GLONASS_INTER_CHANNEL: GlonassInterChannelParams = { codeMaxMPerChannel: 0.1, phaseMaxMPerChannel: 0.005 };
 
 /** Resolved switches: null = off. */
 export interface ResolvedErrors {
@@ -123,6 +139,7 @@ export interface ResolvedErrors {
   readonly slips: SlipParams | null;
   readonly gaps: GapParams | null;
   readonly faults: FaultParams | null;
+  readonly glonassInterChannel: GlonassInterChannelParams | null;
 }
 
 function resolve<P>(s: Switch<P>, defaults: P): P | null {
@@ -146,6 +163,7 @@ export function resolveErrors(spec: ErrorSpec | undefined): ResolvedErrors {
     slips: resolve(s.slips, DEFAULT_SLIPS),
     gaps: resolve(s.gaps, DEFAULT_GAPS),
     faults: resolve(s.faults, DEFAULT_FAULTS),
+    glonassInterChannel: resolve(s.glonassInterChannel, DEFAULT_GLONASS_INTER_CHANNEL),
   };
 }
 

@@ -1,6 +1,9 @@
 /** Scenario simulator: synthetic broadcast ephemerides, reference and rover observations, and their truth. */
 export { Rng, fnv1a32 } from './rng.js';
-export { simulateConstellation, TYPICAL_KLOBUCHAR, TYPICAL_NEQUICK, issuePeriodS } from './constellation.js';
+export { simulateConstellation, TYPICAL_KLOBUCHAR, TYPICAL_NEQUICK, issuePeriodS, glonassTruthOf, glonassChannelsOf } from './constellation.js';
+export { simulateGlonass, GlonassOrbitTruth, GLONASS_NOMINAL_CHANNELS, GLONASS_ISSUE_PERIOD_S } from './glonass-constellation.js';
+export type { SimulatedGlonass } from './glonass-constellation.js';
+export type { SimSystem } from './signals.js';
 export type { ConstellationSpec } from './constellation.js';
 export * from './errors.js';
 export { TrueSky, C_MS } from './true-sky.js';

@@ -31,7 +31,7 @@ import { C_MS } from './true-sky.js';
 import { Rng } from './rng.js';
 import { sumOfSinusoids, type SlowProcess } from './slow-process.js';
 import { poissonWindows, windowAt, type Window } from './event-plan.js';
-import { CARRIER_HZ, clockSignal, codeInfo, type Band } from './signals.js';
+import { CARRIER_HZ, carrierHz, clockSignal, codeInfo, type Band, type SimSystem } from './signals.js';
 
 /** Elevation mask (rad): 5 deg (common practice for recording). */
 export const RECORDING_MASK_RAD = (5 * Math.PI) / 180;
@@ -54,7 +54,14 @@ export interface ReceiverSetup {
   readonly intervalS: number;
   readonly epochCount: number;
   /** Codes per system, the same arrays as in the header (shared, not copied). */
-  readonly codes: Readonly<Partial<Record<'G' | 'E', readonly string[]>>>;
+  readonly codes: Readonly<Partial<Record<SimSystem, readonly string[]>>>;
+  /** GLONASS slot -> frequency channel k (needed when codes.R is given). */
+  readonly glonassChannels?: ReadonlyMap<number, number>;
+  /**
+   * GLONASS inter-channel biases of this receiver (m per channel number k, code and phase): a property of
+   * the receiver's design, the same for receivers of one type (scenario.ts draws them from the type).
+   */
+  readonly glonassBiasMPerChannel?: { readonly code: number; readonly phase: number };
   /** Event epochs (flags 2, 3) to emit just before the data epoch with this tag index. */
   readonly eventsBefore?: ReadonlyMap<number, readonly HeaderEvent[]>;
 }
@@ -67,8 +74,10 @@ interface TrackState {
   lli: boolean;
 }
 
+const SYSTEM_ORDER: Readonly<Record<string, number>> = { G: 0, E: 1, R: 2 };
+
 function satOrder(a: SatId, b: SatId): number {
-  const sa = a[0] === 'G' ? 0 : 1, sb = b[0] === 'G' ? 0 : 1;
+  const sa = SYSTEM_ORDER[a[0]!]!, sb = SYSTEM_ORDER[b[0]!]!;
   return sa - sb || (a < b ? -1 : a > b ? 1 : 0);
 }
 
@@ -102,7 +111,7 @@ export class ReceiverSimulation {
     this.faults = e.faults !== null && s.role === 'rover'
       ? poissonWindows(rng, e.faults.perHour, t0, t1, e.faults.durationS, e.faults.durationS, e.faults.minStepM, e.faults.maxStepM)
       : [];
-    this.sats = s.sky.satellites().filter((x) => s.codes[x[0] as 'G' | 'E'] !== undefined).sort(satOrder);
+    this.sats = s.sky.satellites().filter((x) => s.codes[x[0] as SimSystem] !== undefined).sort(satOrder);
   }
 
   /** Whole epochs in a logging gap are not emitted. */
@@ -110,8 +119,12 @@ export class ReceiverSimulation {
     return windowAt(this.epochGaps, tagGpsS) >= 0;
   }
 
-  /** The epochs (data epochs with flag 0, and event epochs with flags 2/3 where the plan says). */
-  *epochs(): Generator<ObsEpoch> {
+  /**
+   * The epochs (data epochs with flag 0, and event epochs with flags 2/3 where the plan says). `trueAmbiguities`,
+   * when given, is told the integer ambiguity (cycles) of each satellite's L1 and L2 phase at every data epoch:
+   * the known integers of self-consistency tests.
+   */
+  *epochs(trueAmbiguities?: (tagGpsS: number, sat: SatId, n1Cycles: number, n2Cycles: number) => void): Generator<ObsEpoch> {
     const s = this.setup;
     const e = s.errors;
     const role = s.role;
@@ -173,8 +186,16 @@ export class ReceiverSimulation {
       for (const v of inView) {
         const sat = v.sat;
         if (sat === lostSat) { tracks.delete(sat); continue; }
-        const system = sat[0] as 'G' | 'E';
+        const system = sat[0] as SimSystem;
         const codes = s.codes[system]!;
+        // GLONASS: the satellite's own carriers (FDMA) and the receiver's inter-channel biases.
+        const glonassK = system === 'R' ? s.glonassChannels?.get(Number(sat.slice(1))) ?? NaN : 0;
+        const lambdaSat1 = system === 'R' ? C_MS / carrierHz('R', 1, glonassK) : lambda1;
+        const lambdaSat2 = system === 'R' ? C_MS / carrierHz('R', 2, glonassK) : lambda2;
+        const ionoScale2 = system === 'R' ? (CARRIER_HZ[1] / carrierHz('R', 2, glonassK)) ** 2 : (CARRIER_HZ[1] / CARRIER_HZ[2]) ** 2;
+        const ionoScale1 = system === 'R' ? (CARRIER_HZ[1] / carrierHz('R', 1, glonassK)) ** 2 : 1;
+        const icbCodeM = system === 'R' ? (s.glonassBiasMPerChannel?.code ?? 0) * glonassK : 0;
+        const icbPhaseM = system === 'R' ? (s.glonassBiasMPerChannel?.phase ?? 0) * glonassK : 0;
         let tr = tracks.get(sat);
         if (tr === undefined) {
           // (Re)acquisition: fresh ambiguities (arbitrary integers, as receivers start their phase count).
@@ -221,19 +242,19 @@ export class ReceiverSimulation {
         for (let c = 0; c < codes.length; c++) {
           const info = codeInfo(codes[c]!);
           const band = info.band;
-          const lambda = band === 1 ? lambda1 : lambda2;
-          const ionoK = band === 1 ? iono1 : iono1 * (CARRIER_HZ[1] / CARRIER_HZ[2]) ** 2;
+          const lambda = band === 1 ? lambdaSat1 : lambdaSat2;
+          const ionoK = band === 1 ? (system === 'R' ? iono1 * ionoScale1 : iono1) : iono1 * ionoScale2;
           switch (info.kind) {
             case 'C': {
               const n = e.codeNoise ? codeSigma * noise.normal() : 0;
-              values[c] = rho + C_MS * (dtCode - satClock[band]) + ionoK + tropo + n + mp + fault;
+              values[c] = rho + C_MS * (dtCode - satClock[band]) + ionoK + tropo + n + mp + fault + icbCodeM;
               ssiArr[c] = ssi;
               break;
             }
             case 'L': {
               const n = e.phaseNoise ? phaseSigma * noise.normal() : 0;
               const mpL = mp * (e.multipath?.phaseFraction ?? 0);
-              values[c] = (rho + C_MS * (dtPhase - satClock[band]) - ionoK + tropo + n + mpL) / lambda + (band === 1 ? tr.n1 : tr.n2);
+              values[c] = (rho + C_MS * (dtPhase - satClock[band]) - ionoK + tropo + n + mpL + icbPhaseM) / lambda + (band === 1 ? tr.n1 : tr.n2);
               lli[c] = tr.lli ? LLI_LOST_LOCK : 0;
               ssiArr[c] = ssi;
               break;
@@ -250,6 +271,7 @@ export class ReceiverSimulation {
           }
         }
         tr.lli = false;
+        trueAmbiguities?.(tag, sat, tr.n1, tr.n2);
         out.push({ sat, codes, values, lli, ssi: ssiArr });
       }
       yield { tagGpsS: tag, flag: 0, receiverClockOffsetS: null, line: 0, sats: out, event: null };

@@ -8,7 +8,7 @@ import type { HeaderEvent, ObsEpoch, ObsHeader } from '@refdelta/core';
 import type { NavData } from '@refdelta/core';
 import { ecefToGeodetic, enuToEcefDelta } from '@refdelta/core';
 import { decimalYearFromGpsS } from '@refdelta/core';
-import { simulateConstellation, TYPICAL_KLOBUCHAR, SIM_LEAP_SECONDS } from './constellation.js';
+import { glonassChannelsOf, simulateConstellation, TYPICAL_KLOBUCHAR, SIM_LEAP_SECONDS } from './constellation.js';
 import { GEODETIC_PROFILE, LOW_COST_PROFILE, resolveErrors, type ErrorSpec, type ReceiverProfile } from './errors.js';
 import { IonoTruth } from './iono-truth.js';
 import { TropoTruth } from './tropo-truth.js';
@@ -18,7 +18,7 @@ import { Rng } from './rng.js';
 import { sumOfProcesses, sumOfSinusoids } from './slow-process.js';
 import { ReceiverSimulation } from './observations.js';
 import { antennaPosition, ecefFromDegrees, RoverTrajectory, type Occupation, type PlanStep } from './trajectory.js';
-import { GPS_DUAL_FREQUENCY_CODES, SINGLE_FREQUENCY_CODES } from './signals.js';
+import { GLONASS_DUAL_FREQUENCY_CODES, GPS_DUAL_FREQUENCY_CODES, SINGLE_FREQUENCY_CODES, type SimSystem } from './signals.js';
 
 export interface GeodeticDeg {
   readonly latDeg: number;
@@ -57,7 +57,8 @@ export interface ScenarioSpec {
     readonly markerNumber?: string;
   };
   readonly points: Readonly<Record<string, PointSpec>>;
-  readonly systems: readonly ('G' | 'E')[];
+  /** Constellations: GPS, Galileo, GLONASS (FDMA, glonass-constellation.ts). */
+  readonly systems: readonly SimSystem[];
   readonly errors?: ErrorSpec;
   /** Header COMMENT lines added to both observation files. */
   readonly comments?: readonly string[];
@@ -119,7 +120,8 @@ function profileOf(spec: ReceiverSpecCommon, fallback: ReceiverProfile): Receive
 
 function header(args: {
   markerName: string; markerNumber: string; receiverType: string; antennaType: string; approx: EcefM; heightM: number;
-  codes: Readonly<Partial<Record<'G' | 'E', readonly string[]>>>; intervalS: number; first: number; last: number; comments: readonly string[];
+  codes: Readonly<Partial<Record<SimSystem, readonly string[]>>>; intervalS: number; first: number; last: number; comments: readonly string[];
+  glonassChannels: ReadonlyMap<number, number>;
 }): ObsHeader {
   return {
     version: 3.04,
@@ -139,7 +141,7 @@ function header(args: {
     firstObsGpsS: args.first,
     lastObsGpsS: args.last,
     timeSystem: 'GPS',
-    glonassChannels: new Map(),
+    glonassChannels: new Map(args.codes.R !== undefined ? args.glonassChannels : []),
     glonassCodePhaseBias: {},
     phaseShifts: {},
     scaleFactors: {},
@@ -203,11 +205,22 @@ export function simulateScenario(spec: ScenarioSpec): SimulatedScenario {
   const refClock = clockFor('reference', refProfile);
   const roverClock = clockFor('rover', roverProfile);
 
-  const codesFor = (dual: boolean): Partial<Record<'G' | 'E', readonly string[]>> => {
-    const c: Partial<Record<'G' | 'E', readonly string[]>> = {};
+  const codesFor = (dual: boolean): Partial<Record<SimSystem, readonly string[]>> => {
+    const c: Partial<Record<SimSystem, readonly string[]>> = {};
     if (spec.systems.includes('G')) c.G = dual ? GPS_DUAL_FREQUENCY_CODES : SINGLE_FREQUENCY_CODES;
     if (spec.systems.includes('E')) c.E = SINGLE_FREQUENCY_CODES;
+    if (spec.systems.includes('R')) c.R = dual ? GLONASS_DUAL_FREQUENCY_CODES : SINGLE_FREQUENCY_CODES;
     return c;
+  };
+  const glonassChannels = glonassChannelsOf(nav);
+  const refType = spec.reference.receiverType ?? 'SIM GEODETIC L1L2';
+  const roverType = spec.rover.receiverType ?? 'SIM LOWCOST L1';
+  // Inter-channel bias slopes follow the receiver type (errors.ts): equal types, equal biases.
+  const icb = errors.glonassInterChannel;
+  const biasFor = (type: string) => {
+    if (icb === null) return undefined;
+    const r = new Rng('glonass-inter-channel', type.trim());
+    return { code: r.between(-icb.codeMaxMPerChannel, icb.codeMaxMPerChannel), phase: r.between(-icb.phaseMaxMPerChannel, icb.phaseMaxMPerChannel) };
   };
   const refCodes = codesFor(spec.reference.dualFrequency ?? true);
   const roverCodes = codesFor(spec.rover.dualFrequency ?? false);
@@ -217,6 +230,7 @@ export function simulateScenario(spec: ScenarioSpec): SimulatedScenario {
     role: 'reference', seed, sky, profile: refProfile, errors, iono, tropo: tropoFor('reference'), clock: refClock,
     positionAt: () => referenceArp, velocityAt: () => ({ x: 0, y: 0, z: 0 }),
     firstTagGpsS: spec.startGpsS, intervalS: spec.reference.intervalS, epochCount: refCount, codes: refCodes,
+    glonassChannels, glonassBiasMPerChannel: biasFor(refType),
   });
 
   // Rover epochs: tags from the plan's start to its end; events where occupations begin and end.
@@ -244,6 +258,7 @@ export function simulateScenario(spec: ScenarioSpec): SimulatedScenario {
     role: 'rover', seed, sky, profile: roverProfile, errors, iono, tropo: tropoFor('rover'), clock: roverClock,
     positionAt: (t) => trajectory.positionAt(t), velocityAt: (t) => trajectory.velocityAt(t),
     firstTagGpsS: roverStart, intervalS: spec.rover.intervalS, epochCount: roverCount, codes: roverCodes, eventsBefore: events,
+    glonassChannels, glonassBiasMPerChannel: biasFor(roverType),
   });
 
   const frameComment = `Truth frame: ${frame.name} at epoch ${frame.epochYear.toFixed(4)}`;
@@ -252,13 +267,13 @@ export function simulateScenario(spec: ScenarioSpec): SimulatedScenario {
   const roverApprox = { x: Math.round(first.markEcef.x), y: Math.round(first.markEcef.y), z: Math.round(first.markEcef.z) };
   const referenceHeader = header({
     markerName: spec.reference.markerName ?? 'REF', markerNumber: spec.reference.markerNumber ?? '',
-    receiverType: spec.reference.receiverType ?? 'SIM GEODETIC L1L2', antennaType: spec.reference.antennaType ?? 'SIMCHOKE        NONE',
+    receiverType: refType, antennaType: spec.reference.antennaType ?? 'SIMCHOKE        NONE', glonassChannels,
     approx: referenceMark, heightM: refHeightM, codes: refCodes, intervalS: spec.reference.intervalS,
     first: spec.startGpsS, last: reference.lastTagGpsS, comments,
   });
   const roverHeader = header({
     markerName: first.name, markerNumber: roverNumber,
-    receiverType: spec.rover.receiverType ?? 'SIM LOWCOST L1', antennaType: spec.rover.antennaType ?? 'SIMPATCH        NONE',
+    receiverType: roverType, antennaType: spec.rover.antennaType ?? 'SIMPATCH        NONE', glonassChannels,
     approx: roverApprox, heightM: first.antennaHeightM, codes: roverCodes, intervalS: spec.rover.intervalS,
     first: roverStart, last: rover.lastTagGpsS, comments,
   });

@@ -1,6 +1,7 @@
 /**
  * The simulated satellites as they "really" are: the broadcast orbit and clock (orbit/ user algorithms on
- * the simulated ephemerides) plus the orbit error (radial / along-track / cross-track) and the clock
+ * the simulated ephemerides; for GLONASS the integrated truth the records were sampled from,
+ * glonass-constellation.ts) plus the orbit error (radial / along-track / cross-track) and the clock
  * error of the error model, both common to every receiver. Also the light-time solution between a
  * receiver and a satellite.
  */
@@ -11,6 +12,8 @@ import { satelliteClock, type SignalKind } from '@refdelta/core';
 import { GPS_CONSTANTS } from '@refdelta/core';
 import type { OrbitErrorParams, SatClockErrorParams } from './errors.js';
 import { Rng } from './rng.js';
+import { glonassTruthOf } from './constellation.js';
+import type { GlonassOrbitTruth } from './glonass-constellation.js';
 import { sumOfSinusoids, ZERO_PROCESS, type SlowProcess } from './slow-process.js';
 
 /** Speed of light (m/s), SI definition (check-values.md constants). */
@@ -20,6 +23,8 @@ export const OMEGA_E_RAD_S = GPS_CONSTANTS.omegaERadS;
 
 interface SatTruth {
   readonly ephs: readonly KeplerEphemeris[];
+  /** GLONASS: the integrated orbit and clock (ephs is then empty). */
+  readonly glonass: GlonassOrbitTruth | null;
   readonly radial: SlowProcess;
   readonly along: SlowProcess;
   readonly cross: SlowProcess;
@@ -50,12 +55,15 @@ export class TrueSky {
       if (a === undefined) bySat.set(e.sat, (a = []));
       a.push(e);
     }
+    const glonass = glonassTruthOf(nav);
+    for (const sat of glonass.keys()) bySat.set(sat, []);
     for (const [sat, ephs] of [...bySat.entries()].sort((x, y) => (x[0] < y[0] ? -1 : 1))) {
       ephs.sort((a, b) => a.toeGpsS - b.toeGpsS);
       const proc = (label: string, sigma: number, p: { minPeriodS: number; maxPeriodS: number } | null) =>
         p === null ? ZERO_PROCESS : sumOfSinusoids(new Rng(seed, 'sky', sat, label), sigma, p.minPeriodS, p.maxPeriodS);
       this.sats.set(sat, {
         ephs,
+        glonass: glonass.get(sat) ?? null,
         radial: proc('radial', orbit?.radialSigmaM ?? 0, orbit),
         along: proc('along', orbit?.alongSigmaM ?? 0, orbit),
         cross: proc('cross', orbit?.crossSigmaM ?? 0, orbit),
@@ -81,7 +89,8 @@ export class TrueSky {
   /** True ECEF position and velocity at GPS time t into out[0..5]: broadcast + radial/along/cross error. */
   stateInto(sat: SatId, tGpsS: number, out: Float64Array): void {
     const s = this.sats.get(sat)!;
-    keplerStateInto(this.ephemerisAt(sat, tGpsS), tGpsS, out);
+    if (s.glonass !== null) s.glonass.stateInto(tGpsS, out);
+    else keplerStateInto(this.ephemerisAt(sat, tGpsS), tGpsS, out);
     if (s.radial === ZERO_PROCESS && s.along === ZERO_PROCESS && s.cross === ZERO_PROCESS) return;
     const x = out[0]!, y = out[1]!, z = out[2]!, vx = out[3]!, vy = out[4]!, vz = out[5]!;
     // Radial / along / cross unit vectors: r/|r|, cross = r x v / |r x v|, along = cross x radial (common practice).
@@ -100,12 +109,15 @@ export class TrueSky {
   /** True satellite clock offset for the signal (s): broadcast polynomial + relativity - group delay + clock error. */
   clockOffsetS(sat: SatId, tGpsS: number, signal: SignalKind): number {
     const s = this.sats.get(sat)!;
+    // GLONASS broadcasts no group delay: one clock for G1 and G2 (ICD 5.1 3.3.3).
+    if (s.glonass !== null) return s.glonass.clockOffsetS(tGpsS) + s.clock.at(tGpsS);
     return satelliteClock(this.ephemerisAt(sat, tGpsS), tGpsS, signal).offsetS + s.clock.at(tGpsS);
   }
 
   /** True satellite clock drift (s/s). */
   clockDriftSS(sat: SatId, tGpsS: number): number {
     const s = this.sats.get(sat)!;
+    if (s.glonass !== null) return s.glonass.clockRateSS + s.clock.rateAt(tGpsS);
     return satelliteClock(this.ephemerisAt(sat, tGpsS), tGpsS).driftSS + s.clock.rateAt(tGpsS);
   }
 

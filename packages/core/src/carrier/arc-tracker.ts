@@ -7,9 +7,10 @@
  *  - a gap in the satellite's epochs longer than `maxGapS`;
  *  - time-differenced phase against the Doppler: the phase change between epochs predicted by the mean
  *    Doppler (trapezoid rule; RINEX: Doppler positive for approaching satellites, phase grows with
- *    range), less the median over the epoch's satellites (so a receiver clock step common to all is no
- *    slip), beyond 1 cycle + 0.2 cycles per second of interval (several times the Doppler noise of a
- *    low-cost receiver integrated over the interval; common practice);
+ *    range), in metres, less the median over the epoch's satellites (so a receiver clock step common to
+ *    all is no slip: common in metres, not in cycles, when the carriers differ as GLONASS FDMA ones do),
+ *    beyond 1 cycle + 0.2 cycles per second of interval (several times the Doppler noise of a low-cost
+ *    receiver integrated over the interval; common practice);
  *  - code minus phase jumping by more than 5 m plus 1 m per second of interval, less the median over the
  *    epoch's satellites (a clock step applied to the code only is common to all; the code noise and the
  *    divergence of a few cm/s cannot reach the limit; common practice).
@@ -52,7 +53,7 @@ export class ArcTracker {
    */
   update(tGpsS: number, sats: readonly ArcInput[]): Map<SatId, number> {
     const out = new Map<SatId, number>();
-    // Doppler test residuals (cycles) for the common-mode removal.
+    // Doppler test residuals (m) for the common-mode removal.
     const dopplerResidual = new Map<SatId, number>();
     for (const s of sats) {
       const prev = this.state.get(s.sat);
@@ -60,7 +61,7 @@ export class ArcTracker {
       const dt = tGpsS - prev.tGpsS;
       if (!(dt > 0) || dt > this.maxGapS) continue;
       const predicted = -0.5 * (prev.dopplerHz + s.dopplerHz) * dt;
-      dopplerResidual.set(s.sat, s.phaseCycles - prev.phaseCycles - predicted);
+      dopplerResidual.set(s.sat, (s.phaseCycles - prev.phaseCycles - predicted) * s.wavelengthM);
     }
     const common = median([...dopplerResidual.values()]);
     // Code minus phase changes, less their median: a receiver clock step applied to the code only is common.
@@ -87,7 +88,7 @@ export class ArcTracker {
         else if (!(dt > 0) || dt > this.maxGapS) { slip = true; this.causes.gap++; }
         else {
           const r = dopplerResidual.get(s.sat);
-          if (r !== undefined && dopplerResidual.size >= 2 && Math.abs(r - common) > 1 + 0.2 * dt) { slip = true; this.causes.doppler++; }
+          if (r !== undefined && dopplerResidual.size >= 2 && Math.abs(r - common) > (1 + 0.2 * dt) * s.wavelengthM) { slip = true; this.causes.doppler++; }
           else {
             const cmp = (cmpChange.get(s.sat) ?? commonCmp) - commonCmp;
             if (cmpChange.size >= 2 && Math.abs(cmp) > 5 + 1 * dt) { slip = true; this.causes.codeMinusPhase++; }
