@@ -1,25 +1,25 @@
 // Carrier-phase worker, run in a fresh child process by bench/run.mjs (or by hand):
 //   node bench/carrier-run.mjs <hours>
-// The bench scenario (bench/scenario.mjs: rover 1 Hz, reference 30 s, GPS + Galileo: the simulator has
-// no GLONASS, and Galileo brings a like number of satellites) is written to RINEX text in memory first
+// The bench scenario (bench/scenario.mjs: rover 1 Hz, reference 30 s, GPS + GLONASS) is written to RINEX
+// text in memory first
 // (not timed); then reading the three texts and solveCarrierSession (records, forward pass, backward pass,
 // combination, every epoch yielded) is timed once: wall time and the process's CPU time (user + system),
 // the latter being what one core spends whatever else runs on the machine. The result goes to the parent (process.send) or is
 // printed as one JSON line.
 import { loadCore } from './load-core.mjs';
-import { benchScenarioSpec, memoryChunks, scenarioTexts, SESSION_SYSTEMS } from './scenario.mjs';
+import { benchScenarioSpec, memoryChunks, scenarioTexts, CARRIER_SYSTEMS } from './scenario.mjs';
 
 const hours = Number(process.argv[2] ?? '1');
 const core = await loadCore();
 // Every simulated error on, the zenith wet delay error at 2 mm (its difference between the receivers
 // follows the simulator's field: millimetres over a short baseline), as in earlier runs of this bench.
-const spec = benchScenarioSpec(core, Math.round(hours * 3600));
+const spec = benchScenarioSpec(core, Math.round(hours * 3600), undefined, CARRIER_SYSTEMS);
 const sim = core.simulateScenario({ ...spec, errors: { ...core.ALL_ERRORS_ON, tropo: { zenithWetSigmaM: 0.002, minPeriodS: 1800, maxPeriodS: 6 * 3600 } } });
 const texts = scenarioTexts(core, sim);
 const t0 = performance.now();
 const text = { rover: [...texts.rover()].join(''), reference: [...texts.reference()].join(''), nav: [...texts.nav()].join('') };
 const generateMs = performance.now() - t0;
-const options = core.withDefaults({ systems: SESSION_SYSTEMS, reference: { position: { ecef: sim.truth.referenceMark, frame: sim.truth.frame } }, reduceToMark: false });
+const options = core.withDefaults({ systems: CARRIER_SYSTEMS, reference: { position: { ecef: sim.truth.referenceMark, frame: sim.truth.frame } }, reduceToMark: false });
 
 globalThis.gc?.();
 const t = performance.now();

@@ -105,7 +105,7 @@ if (only === 0 || only === 2) {
 if (only !== 1 && only !== 4 && only !== 5 && !args.includes('--no-carrier')) {
   const cIdx = args.indexOf('--carrier-hours');
   const carrierHours = cIdx >= 0 ? Number(args[cIdx + 1]) : 24;
-  console.log(`== Part 3: carrier phase on a simulated session (${carrierHours} h, rover 1 Hz, reference 30 s, GPS + Galileo: the simulator has no GLONASS) ==`);
+  console.log(`== Part 3: carrier phase on a simulated session (${carrierHours} h, rover 1 Hz, reference 30 s, GPS + GLONASS) ==`);
   const c = await new Promise((res, rej) => {
     const child = fork(resolve(ROOT, 'bench/carrier-run.mjs'), [String(carrierHours)], { execArgv: ['--expose-gc'], stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
     let out = null;

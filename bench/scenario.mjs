@@ -1,5 +1,5 @@
-// The benchmark's simulated session: a reference on a mark logging GPS + Galileo every 30 s
-// (dual-frequency, CORS-like) and a low-cost single-frequency rover at 1 Hz that alternates
+// The benchmark's simulated session: a reference on a mark logging GPS + Galileo (or, for the carrier-phase
+// part, GPS + GLONASS) every 30 s (dual-frequency, CORS-like) and a low-cost single-frequency rover at 1 Hz that alternates
 // 20-minute static occupations of two points 300 m apart with walks between them. Every simulated
 // error source is on (faults included, so quality control has blunders to find).
 // The text is produced by the core's own writers (writeObsRinex3 / writeNavRinex3).
@@ -11,7 +11,7 @@ const POINTS = { NORTHPEG: { e: 800, n: 600, u: -3 }, EASTPEG: { e: 1100, n: 600
 const WALK_S = Math.max(1, Math.round(300 / WALK_SPEED_MS));
 
 /** Scenario spec for a rover session of `roverS` seconds starting `startGpsS`. */
-export function benchScenarioSpec(core, roverS, seed = 20240110) {
+export function benchScenarioSpec(core, roverS, seed = 20240110, systems = SESSION_SYSTEMS) {
   const startGpsS = core.secondsFromCalendar({ year: 2024, month: 1, day: 10, hour: 0, minute: 0, second: 0 });
   const plan = [];
   const names = Object.keys(POINTS);
@@ -36,7 +36,7 @@ export function benchScenarioSpec(core, roverS, seed = 20240110) {
     reference: { markGeodetic: { latDeg: 47.123456, lonDeg: 8.765432, heightM: 412.345 }, antennaHeightM: 0.08, markerName: 'BREF', intervalS: 30, dualFrequency: true },
     rover: { intervalS: 1, plan, markerNumber: 'BENCH-ROVER' },
     points: POINTS,
-    systems: ['G', 'E'],
+    systems,
     errors: core.ALL_ERRORS_ON,
   };
 }
@@ -61,3 +61,8 @@ export async function* asAsync(chunks) {
 }
 
 export const SESSION_SYSTEMS = ['G', 'E'];
+/**
+ * The carrier-phase part's constellations: GPS + GLONASS (FDMA: one wavelength per satellite). The two
+ * receivers are of different types, so GLONASS ambiguities stay float under the engine's 'auto' rule.
+ */
+export const CARRIER_SYSTEMS = ['G', 'R'];

@@ -15,6 +15,13 @@
  *    epoch's satellites (a clock step applied to the code only is common to all; the code noise and the
  *    divergence of a few cm/s cannot reach the limit; common practice).
  * The tests on a double difference against geometry are done by the filter (float-filter.ts).
+ *
+ * Code clock steps: many receivers steer their clock by whole milliseconds applied to the code (and the
+ * epoch tag) while the phase runs on. The median change of code minus phase over the satellites is then
+ * c x 1 ms (299,792 m) at the step; steps beyond 1 km (code noise and ionospheric divergence change it by
+ * centimetres per second) are summed in `codeClockStepsM`, which the session adds to the phase in metres
+ * so that phase and code keep one receiver clock (what the filter's GLONASS phase needs: FDMA double
+ * differences keep their integer nature only with the code clock, float-filter.ts).
  */
 import type { SatId } from '../gnss/index.js';
 
@@ -44,6 +51,8 @@ export class ArcTracker {
   private nextArc = 1;
   /** Count of arcs started by each cause, for the summary. */
   readonly causes = { lli: 0, halfCycle: 0, blank: 0, gap: 0, doppler: 0, codeMinusPhase: 0 };
+  /** Sum of the code clock steps not followed by the phase (m; see the file comment). */
+  codeClockStepsM = 0;
 
   constructor(private readonly maxGapS: number) {}
 
@@ -72,6 +81,7 @@ export class ArcTracker {
       cmpChange.set(s.sat, (s.codeM - s.phaseCycles * s.wavelengthM) - (prev.codeM - prev.phaseCycles * prev.wavelengthM));
     }
     const commonCmp = median([...cmpChange.values()]);
+    if (cmpChange.size >= 2 && Math.abs(commonCmp) > 1000) this.codeClockStepsM += commonCmp;
     for (const s of sats) {
       const prev = this.state.get(s.sat);
       if (!Number.isFinite(s.phaseCycles) || !Number.isFinite(s.codeM)) {

@@ -53,7 +53,7 @@ export interface AlignedReference {
 }
 
 /** z values of one prepared reference epoch (see the file comment). */
-export function reduceReferenceEpoch(ep: ReceiverEpoch, arpM: EcefM, geodetic: GeodeticRad, arcs: ReadonlyMap<SatId, number>, halfCycle: (sat: SatId) => boolean): ReferencePhaseEpoch {
+export function reduceReferenceEpoch(ep: ReceiverEpoch, arpM: EcefM, geodetic: GeodeticRad, arcs: ReadonlyMap<SatId, number>, halfCycle: (sat: SatId) => boolean, codeClockStepsM = 0): ReferencePhaseEpoch {
   const sats = new Map<SatId, ReferenceSat>();
   const doy = dayOfYear(ep.tagGpsS);
   for (const s of ep.sats) {
@@ -64,7 +64,8 @@ export function reduceReferenceEpoch(ep: ReceiverEpoch, arpM: EcefM, geodetic: G
     const model = rho - s.satClockM + t;
     const arc = arcs.get(s.sat) ?? 0;
     sats.set(s.sat, {
-      phaseM: arc > 0 ? s.phaseCycles * s.wavelengthM - model : NaN,
+      // The code clock's steps added to the phase: one receiver clock for both (arc-tracker.ts).
+      phaseM: arc > 0 ? s.phaseCycles * s.wavelengthM + codeClockStepsM - model : NaN,
       codeM: s.codeM - model,
       arc, halfCycle: halfCycle(s.sat), elevationRad: ae.elevationRad, eph: s.eph,
     });

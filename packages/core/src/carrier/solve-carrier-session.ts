@@ -223,7 +223,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       refClockM = ep.clockM;
       if (refCal) applyAntenna(ep, refArp, refGeo, refCal);
       const arcs = refTracker.update(ep.timeGpsS, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
-      refBuffer.add(reduceReferenceEpoch(ep, refArp, refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat)));
+      refBuffer.add(reduceReferenceEpoch(ep, refArp, refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat), refTracker.codeClockStepsM));
     }
   }
 
@@ -339,7 +339,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       }
       const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle;
       rec.addSatellite(k, indexOf(s.sat, s.wavelengthM), arc,
-        withPhase ? s.phaseCycles * s.wavelengthM - model - ra.phaseM : NaN,
+        withPhase ? s.phaseCycles * s.wavelengthM + roverTracker.codeClockStepsM - model - ra.phaseM : NaN,
         Number.isFinite(s.codeM) ? s.codeM - model - ra.codeM : NaN,
         dx / rho, dy / rho, dz / rho, Math.min(ae.elevationRad, ra.elevationRad), !half);
     }
@@ -357,7 +357,6 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier };
   const fwd = runPass(rec, setup, 1);
   const bwd = runPass(rec, setup, -1);
-  (globalThis as Record<string, unknown>).__carrierPasses = () => ({ fwd, bwd, rec });
   const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM);
   const shares = (r: PassResult): PassShares => {
     let fixed = 0, float = 0, none = 0;
