@@ -241,8 +241,17 @@ function median(v: number[]): number {
   return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
 }
 
+/** One fixed double-difference ambiguity: satellite minus pivot, single differences rover minus reference (cycles). */
+export interface FixedDoubleDifference {
+  readonly sat: SatId;
+  readonly pivot: SatId;
+  readonly cycles: number;
+}
+
 export interface PassSetup {
   readonly satellites: readonly SatelliteInfo[];
+  /** Told every epoch's fixed integers (record index and the double differences), when given. */
+  readonly onFix?: (k: number, fixed: readonly FixedDoubleDifference[]) => void;
   /** Constellations whose ambiguities may be fixed. */
   readonly fixableSystems: ReadonlySet<GnssSystem>;
   readonly elevationMaskRad: number;
@@ -409,7 +418,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   /** Double differences of the epoch's fixable arcs, LAMBDA with partial fixing, conditioning and hold. */
   function fixEpoch(k: number): void {
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
-    const bySys = new Map<GnssSystem, { slot: number; arc: number; el: number }[]>();
+    const bySys = new Map<GnssSystem, { slot: number; arc: number; el: number; sat: number }[]>();
     for (let j = j0; j < j1; j++) {
       const info = sats[rec.sat[j]];
       if (!setup.fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < ambMask) continue;
@@ -417,16 +426,16 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       if (slot === undefined) continue;
       let l = bySys.get(info.system);
       if (!l) bySys.set(info.system, (l = []));
-      l.push({ slot, arc: rec.arc[j], el: rec.elevationRad[j] });
+      l.push({ slot, arc: rec.arc[j], el: rec.elevationRad[j], sat: rec.sat[j] });
     }
-    const dd: { i: number; p: number; arcI: number; arcP: number; el: number }[] = [];
+    const dd: { i: number; p: number; arcI: number; arcP: number; el: number; satI: number; satP: number }[] = [];
     for (const [sys, list] of bySys) {
       if (list.length < 2) continue;
       const prevPivot = pivots.get(sys);
       let piv = list.find((q) => q.arc === prevPivot);
       if (!piv) piv = list.reduce((a, b) => (b.el > a.el ? b : a));
       pivots.set(sys, piv.arc);
-      for (const q of list) if (q !== piv) dd.push({ i: q.slot, p: piv.slot, arcI: q.arc, arcP: piv.arc, el: q.el });
+      for (const q of list) if (q !== piv) dd.push({ i: q.slot, p: piv.slot, arcI: q.arc, arcP: piv.arc, el: q.el, satI: q.sat, satP: piv.sat });
     }
     const m = dd.length;
     if (m < opt.minFixedAmbiguities) return;
@@ -471,6 +480,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     out.covariance[kc + 3] = cov(1, 1); out.covariance[kc + 4] = cov(1, 2); out.covariance[kc + 5] = cov(2, 2);
     out.kind[k] = 2;
     out.fixedAmbiguities[k] = ns;
+    setup.onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, cycles: fix.integers[w] })));
     // Fix-and-hold.
     const seen = new Set<number>();
     for (let u = 0; u < ns; u++) {

@@ -3,3 +3,4 @@ export { solveCarrierSession, type CarrierInputs, type CarrierInputFactory, type
 export { DEFAULT_CARRIER_OPTIONS, withCarrierDefaults, type CarrierOptions, type CarrierDynamics } from './options.js';
 export { readAntex, findAntenna, antennaCorrectionM, phaseCentreVariationM, type AntexData, type AntennaCalibration, type FrequencyCalibration } from './antex.js';
 export { ArcTracker } from './arc-tracker.js';
+export type { FixedDoubleDifference } from './float-filter.js';

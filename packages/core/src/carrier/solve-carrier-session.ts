@@ -40,7 +40,7 @@ import { ArcTracker } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
 import { ReferencePhaseBuffer, reduceReferenceEpoch } from './reference-phase.js';
 import { EpochRecords } from './epoch-records.js';
-import { runPass, type PassResult, type SatelliteInfo } from './float-filter.js';
+import { runPass, type FixedDoubleDifference, type PassResult, type SatelliteInfo } from './float-filter.js';
 import { combinePasses } from './combine-passes.js';
 import type { CarrierOptions } from './options.js';
 import { antennaCorrectionM, findAntenna, type AntexData } from './antex.js';
@@ -53,6 +53,8 @@ export interface CarrierInputs {
   /** Antenna calibrations (ANTEX), when given. */
   readonly antennas?: AntexData;
   readonly onWarning?: WarningSink;
+  /** Told the integers each pass fixed at each epoch (epoch tag, double differences): for checks against known integers. */
+  readonly onFixedAmbiguities?: (fix: { readonly pass: 'forward' | 'backward'; readonly tagGpsS: number; readonly ambiguities: readonly FixedDoubleDifference[] }) => void;
 }
 
 /** Opens the inputs (again); called once per reading. */
@@ -355,8 +357,10 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
 
   // Forward and backward passes, then their combination.
   const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier };
-  const fwd = runPass(rec, setup, 1);
-  const bwd = runPass(rec, setup, -1);
+  const sink = inputs.onFixedAmbiguities;
+  const onFix = (pass: 'forward' | 'backward') => sink ? { onFix: (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[k], ambiguities }) } : {};
+  const fwd = runPass(rec, { ...setup, ...onFix('forward') }, 1);
+  const bwd = runPass(rec, { ...setup, ...onFix('backward') }, -1);
   const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM);
   const shares = (r: PassResult): PassShares => {
     let fixed = 0, float = 0, none = 0;
