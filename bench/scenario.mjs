@@ -61,8 +61,5 @@ export async function* asAsync(chunks) {
 }
 
 export const SESSION_SYSTEMS = ['G', 'E'];
-/**
- * The carrier-phase part's constellations: GPS + GLONASS (FDMA: one wavelength per satellite). The two
- * receivers are of different types, so GLONASS ambiguities stay float under the engine's 'auto' rule.
- */
+/** The carrier-phase part's constellations: GPS + GLONASS (FDMA: one wavelength per satellite). */
 export const CARRIER_SYSTEMS = ['G', 'R'];
