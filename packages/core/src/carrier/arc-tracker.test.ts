@@ -35,6 +35,27 @@ describe('phase arcs', () => {
     for (const s of ['G01', 'G02', 'G03']) expect(next.get(s)).toBe(first.get(s));
   });
 
+  it('GLONASS (one wavelength per channel): a clock step common in metres is no slip; a code-only millisecond step is summed as a code clock step', () => {
+    // G1 = 1602 MHz + k 0.5625 MHz (GLONASS ICD 5.1 3.3.1.1): channels -7 and +6, the extremes.
+    const lam = (k: number) => 299792458 / (1602e6 + k * 0.5625e6);
+    const glo = (t: number, phaseStepM: number, codeStepM: number): ArcInput[] => [['R01', -500, -7], ['R02', 300, 6], ['R03', 120, 0]].map(([sat, rate, k]) => {
+      const range = 2.2e7 + (rate as number) * t;
+      const l = lam(k as number);
+      return { sat: sat as string, phaseCycles: (range + phaseStepM) / l, codeM: range + codeStepM, dopplerHz: -(rate as number) / l, lli: 0, wavelengthM: l };
+    });
+    const a = new ArcTracker(30);
+    const first = a.update(0, glo(0, 0, 0));
+    // A 1 ms step in phase and code: 299,792 m, i.e. 1,573,000 cycles at -7 but 1,578,000 at +6.
+    const second = a.update(1, glo(1, 299792.458, 299792.458));
+    for (const s of ['R01', 'R02', 'R03']) expect(second.get(s)).toBe(first.get(s));
+    expect(a.codeClockStepsM).toBe(0);
+    // Then the code alone steps back by 1 ms (the phase runs on): no slip, and the step is summed.
+    const third = a.update(2, glo(2, 299792.458, 0));
+    for (const s of ['R01', 'R02', 'R03']) expect(third.get(s)).toBe(first.get(s));
+    expect(a.codeClockStepsM).toBeCloseTo(-299792.458, 3);
+    expect(a.causes.doppler + a.causes.codeMinusPhase).toBe(0);
+  });
+
   it('loss of lock (LLI bit 0), a change of the half-cycle bit, blank phase and a long gap each start a new arc', () => {
     const a = new ArcTracker(30);
     let arc = a.update(0, epoch(0)).get('G01');
