@@ -82,6 +82,7 @@ describe('simulated GLONASS observations (self-consistency)', () => {
     const sim = simulateScenario({ ...spec, systems: [...spec.systems] });
     const text = [...writeObsRinex3(sim.roverHeader, sim.roverEpochs())].join('');
     expect(text).toContain('GLONASS SLOT / FRQ #');
+    expect(text).toContain('GLONASS COD/PHS/BIS');
     const back = await readObsStream('rover.obs', one(text));
     expect(back.header.glonassChannels.get(10)).toBe(-7);
     expect(back.header.glonassChannels.size).toBe(24);

@@ -142,7 +142,8 @@ function header(args: {
     lastObsGpsS: args.last,
     timeSystem: 'GPS',
     glonassChannels: new Map(args.codes.R !== undefined ? args.glonassChannels : []),
-    glonassCodePhaseBias: {},
+    // RINEX 3.04 5.4 (mandatory with GLONASS since 3.02): the code-phase alignment the observations need, none here.
+    glonassCodePhaseBias: args.codes.R !== undefined ? { C1C: 0, C1P: 0, C2C: 0, C2P: 0 } : {},
     phaseShifts: {},
     scaleFactors: {},
     clockOffsetApplied: false,
