@@ -6,6 +6,9 @@
  *  - otherwise float: the two float solutions weighted by their covariances (the combination of a
  *    forward and a backward filter, Fraser & Potter 1969, shares only the epoch's own measurements);
  *  - one pass only: that pass's solution.
+ * An epoch's residuals (PassResult.residualM) come from the pass whose solution it carries: forward when
+ * both fixed and agree; for a float combination, the float pass with the smaller formal variance (none
+ * when both passes fixed and disagree: neither pass's residuals belong to the combined float position).
  */
 import { PassResult } from './float-filter.js';
 
@@ -36,19 +39,22 @@ export function combinePasses(f: PassResult, fFloat: PassResult, b: PassResult, 
     out.ratio[k] = Math.max(Number.isNaN(f.ratio[k]) ? 0 : f.ratio[k], Number.isNaN(b.ratio[k]) ? 0 : b.ratio[k]);
     out.satellitesUsed[k] = Math.max(f.satellitesUsed[k], b.satellitesUsed[k]);
     if (kf === 0 && kb === 0) continue;
-    if (kf === 0) { copy(b, k, kb); out.fixedAmbiguities[k] = b.fixedAmbiguities[k]; continue; }
-    if (kb === 0) { copy(f, k, kf); out.fixedAmbiguities[k] = f.fixedAmbiguities[k]; continue; }
+    if (kf === 0) { copy(b, k, kb); out.fixedAmbiguities[k] = b.fixedAmbiguities[k]; out.residualFrom[k] = 2; continue; }
+    if (kb === 0) { copy(f, k, kf); out.fixedAmbiguities[k] = f.fixedAmbiguities[k]; out.residualFrom[k] = 1; continue; }
+    const trace = (r: PassResult): number => r.covariance[6 * k] + r.covariance[6 * k + 3] + r.covariance[6 * k + 5];
+    out.residualFrom[k] = kf === 2 && kb === 2 ? 0 : kf === 2 ? 2 : kb === 2 ? 1 : trace(f) <= trace(b) ? 1 : 2;
     const d = [0, 1, 2].map((i) => f.position[3 * k + i] - b.position[3 * k + i]);
     if (kf === 2 && kb === 2 && Math.hypot(d[0], d[1], d[2]) <= agreementM) {
       copy(f, k, 2);
       for (let i = 0; i < 3; i++) out.position[3 * k + i] = 0.5 * (f.position[3 * k + i] + b.position[3 * k + i]);
       out.fixedAmbiguities[k] = Math.max(f.fixedAmbiguities[k], b.fixedAmbiguities[k]);
+      out.residualFrom[k] = 1;
       continue;
     }
     if (kf !== kb) {
       const [fx, fl] = kf === 2 ? [f, bFloat] : [b, fFloat];
       const ok = [0, 1, 2].every((i) => Math.abs(fx.position[3 * k + i] - fl.position[3 * k + i]) <= 3 * Math.sqrt(fl.covariance[6 * k + [0, 3, 5][i]]) + agreementM);
-      if (ok) { copy(fx, k, 2); out.fixedAmbiguities[k] = fx.fixedAmbiguities[k]; continue; }
+      if (ok) { copy(fx, k, 2); out.fixedAmbiguities[k] = fx.fixedAmbiguities[k]; out.residualFrom[k] = kf === 2 ? 1 : 2; continue; }
     }
     // Float: covariance-weighted mean of the two float solutions.
     const wf = inv3(fFloat.covariance, 6 * k), wb = inv3(bFloat.covariance, 6 * k);

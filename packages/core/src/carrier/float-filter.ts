@@ -1,8 +1,10 @@
 /**
  * The carrier-phase filter of one pass (forwards or backwards over the prepared epochs): a Kalman filter
  * (e.g. Teunissen & Montenbruck 2017, Springer Handbook of GNSS, ch. 22) on
- *   [position (3), one relative receiver clock per constellation, one single-difference ambiguity per arc],
- * with between-receiver single differences as measurements. A clock state per constellation, free every
+ *   [position (3), relative receiver clocks per group (a code and a phase clock per constellation's band and
+ *    signal pair: SatelliteInfo.group), one single-difference ambiguity per arc, and with further bands one
+ *    single-difference ionosphere per satellite (ionosphere-weighting.ts)],
+ * with between-receiver single differences as measurements. A clock state per group, free every
  * epoch, is the same as forming double differences (the clocks are eliminated), but keeps the measurement
  * noise diagonal so measurements are processed one at a time (sequential scalar updates).
  *
@@ -33,11 +35,26 @@ import { chiSquareQuantile } from '../solve/index.js';
 import type { CarrierOptions } from './options.js';
 import type { EpochRecords } from './epoch-records.js';
 import type { GnssSystem, SatId } from '../gnss/index.js';
+import { ionosphereObliquity, type IonosphereWeighting } from './ionosphere-weighting.js';
 
+/** One entry of the signal table: a satellite's signal on one band (the primary band, or a further one). */
 export interface SatelliteInfo {
   readonly id: SatId;
   readonly system: GnssSystem;
   readonly wavelengthM: number;
+  /**
+   * Clock group: single differences of one group share a code clock and a phase clock (so ambiguities are
+   * double-differenced within it). The constellation for the primary band; constellation, band and signal
+   * pair for a further band (further-bands.ts).
+   */
+  readonly group: string;
+  /** The primary band's signal (its code counts towards the satellites used). */
+  readonly primary: boolean;
+  /** The rover's pseudorange and phase observation codes ('C2W', 'L2W'; the primary band's as first met), for the outputs. */
+  readonly code: string;
+  readonly phaseCode: string;
+  /** mu = (lambda / lambda of the satellite's primary band)^2: the ionosphere on this band per unit on the primary. */
+  readonly ionoFactor: number;
 }
 
 /** Per-epoch results of one pass, in typed arrays indexed like the records. */
@@ -50,7 +67,18 @@ export class PassResult {
   readonly ratio: Float32Array;
   readonly fixedAmbiguities: Uint16Array;
   readonly satellitesUsed: Uint16Array;
-  constructor(n: number) {
+  /**
+   * Post-fit residual (m) of each record entry (indexed like the records' satellites): of the phase single
+   * difference when its phase was used, else of the code; at the epoch's solution (fixed: position, clocks and
+   * ambiguities conditioned on the fixed integers before they are held; float: the filter's state after the
+   * epoch's updates). NaN below the elevation mask or without a solution. Empty unless asked for.
+   */
+  readonly residualM: Float32Array;
+  /** Combined passes: whose residuals an epoch carries (0 none, 1 forward, 2 backward; combine-passes.ts). */
+  readonly residualFrom: Uint8Array;
+  constructor(n: number, entries = 0) {
+    this.residualM = new Float32Array(entries).fill(NaN);
+    this.residualFrom = new Uint8Array(entries > 0 ? 0 : n);
     this.kind = new Uint8Array(n);
     this.position = new Float64Array(3 * n).fill(NaN);
     this.covariance = new Float64Array(6 * n).fill(NaN);
@@ -228,6 +256,17 @@ function fixAroundHeld(a: Float64Array, q: Float64Array, m: number, order: reado
   return { indices, integers, ratio: r.ratio, bestNorm: r.bestNorm, successRate: r.successRate };
 }
 
+/** Variance (m^2) of a between-receiver single difference: twice a^2 + b^2 / sin^2(el) (file comment). */
+export function singleDifferenceVarianceM2(aM: number, bM: number, elevationRad: number): number {
+  const s = Math.sin(Math.max(elevationRad, 0.05));
+  return 2 * (aM * aM + (bM * bM) / (s * s));
+}
+
+/** Factor on the code variance for its time correlation: max(1, correlation time / logging interval) (options.ts). */
+export function codeVarianceScale(rec: EpochRecords, opt: CarrierOptions): number {
+  return Math.max(1, opt.codeCorrelationTimeS / nominalIntervalS(rec));
+}
+
 /** Median spacing of the epochs (s): the logging interval. */
 function nominalIntervalS(rec: EpochRecords): number {
   const d: number[] = [];
@@ -245,6 +284,8 @@ function median(v: number[]): number {
 export interface FixedDoubleDifference {
   readonly sat: SatId;
   readonly pivot: SatId;
+  /** The phase signal ('L1C', 'L2W'...): one double difference per band. */
+  readonly signal: string;
   readonly cycles: number;
 }
 
@@ -256,27 +297,31 @@ export interface PassSetup {
   readonly fixableSystems: ReadonlySet<GnssSystem>;
   readonly elevationMaskRad: number;
   readonly options: CarrierOptions;
+  /** Estimate the differential ionosphere of satellites with further bands (ionosphere-weighting.ts); null: neglected. */
+  readonly ionosphere?: IonosphereWeighting | null;
 }
 
 /** Runs the filter over the records, forwards (direction 1) or backwards (-1). */
 export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1): { result: PassResult; float: PassResult; counts: PassCounts } {
   const opt = setup.options;
   const sats = setup.satellites;
-  const systems = [...new Set(sats.map((s) => s.system))];
-  const clockSlot = new Map<GnssSystem, number>(systems.map((s, i) => [s, 3 + i]));
+  // One code clock per group (SatelliteInfo.group: a constellation, or a constellation's further band).
+  const systems = [...new Set(sats.map((s) => s.group))];
+  const groupSystem = new Map<string, GnssSystem>(sats.map((s) => [s.group, s.system]));
+  const clockSlot = new Map<string, number>(systems.map((s, i) => [s, 3 + i]));
   // CDMA systems get a phase clock of their own (free every epoch, so still exactly double differences):
   // some receivers step the code clock by milliseconds while the phase runs on. GLONASS phase keeps the
   // code clock (see the file comment).
-  const cdma = systems.filter((s) => s !== 'R');
-  const phaseClockSlot = new Map<GnssSystem, number>(cdma.map((s, i) => [s, 3 + systems.length + i]));
-  if (clockSlot.has('R')) phaseClockSlot.set('R', clockSlot.get('R')!);
+  const cdma = systems.filter((s) => groupSystem.get(s) !== 'R');
+  const phaseClockSlot = new Map<string, number>(cdma.map((s, i) => [s, 3 + systems.length + i]));
+  for (const g of systems) if (groupSystem.get(g) === 'R') phaseClockSlot.set(g, clockSlot.get(g)!);
   const st = new KalmanState(3 + systems.length + cdma.length);
   const arcSlot = new Map<number, number>();
   const arcSeen = new Map<number, number>();
-  const out = new PassResult(rec.count);
+  const out = new PassResult(rec.count, rec.satTotal);
   const flt = new PassResult(rec.count);
   const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
-  const pivots = new Map<GnssSystem, number>();
+  const pivots = new Map<string, number>();
   const holdCount = new Map<number, { value: number; count: number }>();
   /** Key of a double difference (arc, pivot arc); arcs are numbered below 2^26. */
   const pairKey = (arcI: number, arcP: number): number => arcI * 67_108_864 + arcP;
@@ -285,10 +330,23 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   let prev = -1;
   const idx: number[] = [];
   const val: number[] = [];
-  const varOf = (a: number, b: number, el: number): number => { const s = Math.sin(Math.max(el, 0.05)); return 2 * (a * a + (b * b) / (s * s)); };
+  const varOf = singleDifferenceVarianceM2;
   // Code errors correlated over codeCorrelationTimeS: the variance of each epoch's code is scaled up by the
   // number of epochs in a correlation time (options.ts).
-  const codeScale = Math.max(1, opt.codeCorrelationTimeS / nominalIntervalS(rec));
+  const codeScale = codeVarianceScale(rec, opt);
+  // Differential ionosphere per satellite with further bands (ionosphere-weighting.ts): its state, when last
+  // met, and the states of the current epoch's satellites.
+  const iono = setup.ionosphere ?? null;
+  const ionoSlot = new Map<SatId, number>();
+  const ionoSeen = new Map<SatId, number>();
+  let ionoNow = new Map<SatId, number>();
+  /** The ionosphere's part of entry j's single difference on the code (phase: minus it), at the state X. */
+  const ionoTerm = (j: number, X: (slot: number) => number): number => {
+    const info = sats[rec.sat[j]];
+    const io = ionoNow.get(info.id);
+    return io === undefined ? 0 : info.ionoFactor * X(io);
+  };
+  const stateValue = (slot: number): number => st.x[slot];
 
   for (let n = 0; n < rec.count; n++) {
     const k = direction === 1 ? n : rec.count - 1 - n;
@@ -319,19 +377,40 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       if (Math.abs(t - seen) > DROP_AFTER_S) { st.release(arcSlot.get(arc)!); arcSlot.delete(arc); arcSeen.delete(arc); }
     }
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+    if (iono) {
+      // Random walk since the previous epoch; states not met for a while dropped; new ones at their prior.
+      const dtS = prev < 0 ? 0 : Math.abs(t - rec.timeGpsS[prev]);
+      for (const [sat, slot] of ionoSlot) {
+        if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { st.release(slot); ionoSlot.delete(sat); ionoSeen.delete(sat); continue; }
+        st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
+      }
+      ionoNow = new Map<SatId, number>();
+      for (let j = j0; j < j1; j++) {
+        const info = sats[rec.sat[j]];
+        if (info.primary || rec.elevationRad[j] < setup.elevationMaskRad) continue;
+        let slot = ionoSlot.get(info.id);
+        if (slot === undefined) {
+          const sig = iono.verticalSigmaM * ionosphereObliquity(rec.elevationRad[j]);
+          slot = st.allocate(0, sig * sig);
+          ionoSlot.set(info.id, slot);
+        }
+        ionoSeen.set(info.id, t);
+        ionoNow.set(info.id, slot);
+      }
+    }
     // Clocks: free every epoch, started at the median code difference of the constellation.
     const dx = st.x[0] - x0x, dy = st.x[1] - x0y, dz = st.x[2] - x0z;
     const geo = (j: number): number => -(rec.los[3 * j] * dx + rec.los[3 * j + 1] * dy + rec.los[3 * j + 2] * dz);
     for (const [sys, slot] of clockSlot) {
       const samples: number[] = [];
-      for (let j = j0; j < j1; j++) if (sats[rec.sat[j]].system === sys && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - geo(j));
+      for (let j = j0; j < j1; j++) if (sats[rec.sat[j]].group === sys && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - geo(j));
       st.reset(slot, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
       const ps = phaseClockSlot.get(sys)!;
       if (ps === slot) continue;
       const phase: number[] = [];
       for (let j = j0; j < j1; j++) {
         const a = arcSlot.get(rec.arc[j]);
-        if (a !== undefined && sats[rec.sat[j]].system === sys && Number.isFinite(rec.phaseM[j])) phase.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a]);
+        if (a !== undefined && sats[rec.sat[j]].group === sys && Number.isFinite(rec.phaseM[j])) phase.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a] + ionoTerm(j, stateValue));
       }
       st.reset(ps, phase.length ? median(phase) : 0, CLOCK_VAR_M2);
     }
@@ -341,15 +420,19 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
       if (el < setup.elevationMaskRad || !Number.isFinite(rec.codeM[j])) continue;
-      const cs = clockSlot.get(sats[rec.sat[j]].system)!;
+      const cs = clockSlot.get(sats[rec.sat[j]].group)!;
       idx.length = 0; val.length = 0;
       idx.push(0, 1, 2, cs); val.push(-rec.los[3 * j], -rec.los[3 * j + 1], -rec.los[3 * j + 2], 1);
-      const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs];
+      const io = ionoNow.get(sats[rec.sat[j]].id);
+      if (io !== undefined) { idx.push(io); val.push(sats[rec.sat[j]].ionoFactor); }
+      const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs] + ionoTerm(j, stateValue);
       const v = rec.codeM[j] - pred;
       const r = codeScale * varOf(opt.codeAM, opt.codeBM, el);
       const s = st.innovationVariance(idx, val, r);
       if (v * v > 25 * s && prev >= 0) { codeOutliers++; continue; }
       st.update(idx, val, v, r);
+      // Satellites used and their constellations: counted on the primary band.
+      if (!sats[rec.sat[j]].primary) continue;
       used++;
       usedSys.add(sats[rec.sat[j]].system);
     }
@@ -359,10 +442,11 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       const el = rec.elevationRad[j];
       if (el < setup.elevationMaskRad || !Number.isFinite(rec.phaseM[j])) continue;
       const info = sats[rec.sat[j]];
-      const cs = phaseClockSlot.get(info.system)!;
+      const cs = phaseClockSlot.get(info.group)!;
       const lam = info.wavelengthM;
       const arc = rec.arc[j];
-      const geoNow = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z));
+      // Geometry less the ionosphere (which delays the code and advances the phase).
+      const geoNow = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) - ionoTerm(j, stateValue);
       let slot = arcSlot.get(arc);
       const n0 = (rec.phaseM[j] - geoNow - st.x[cs]) / lam;
       if (slot === undefined) {
@@ -372,6 +456,8 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       arcSeen.set(arc, t);
       idx.length = 0; val.length = 0;
       idx.push(0, 1, 2, cs, slot); val.push(-rec.los[3 * j], -rec.los[3 * j + 1], -rec.los[3 * j + 2], 1, lam);
+      const io = ionoNow.get(info.id);
+      if (io !== undefined) { idx.push(io); val.push(-info.ionoFactor); }
       const r = varOf(opt.phaseAM, opt.phaseBM, el);
       let v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
       const s = st.innovationVariance(idx, val, r);
@@ -411,21 +497,40 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     flt.covariance.set(out.covariance.subarray(kc, kc + 6), kc);
     flt.satellitesUsed[k] = used;
     if (!disturbed) fixEpoch(k);
+    if (out.kind[k] !== 2) writeResiduals(k, (slot) => st.x[slot]);
     prev = k;
   }
   return { result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } };
 
+  /** Post-fit residuals of an epoch's entries at the state given by X (PassResult.residualM). */
+  function writeResiduals(k: number, X: (slot: number) => number): void {
+    const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+    const px = X(0) - rec.x0[3 * k], py = X(1) - rec.x0[3 * k + 1], pz = X(2) - rec.x0[3 * k + 2];
+    for (let j = j0; j < j1; j++) {
+      if (rec.elevationRad[j] < setup.elevationMaskRad) continue;
+      const info = sats[rec.sat[j]];
+      const geoNow = -(rec.los[3 * j] * px + rec.los[3 * j + 1] * py + rec.los[3 * j + 2] * pz);
+      const slot = arcSlot.get(rec.arc[j]);
+      const ionoM = ionoTerm(j, X);
+      if (Number.isFinite(rec.phaseM[j]) && slot !== undefined) {
+        out.residualM[j] = rec.phaseM[j] - (geoNow - ionoM + X(phaseClockSlot.get(info.group)!) + info.wavelengthM * X(slot));
+      } else if (Number.isFinite(rec.codeM[j])) {
+        out.residualM[j] = rec.codeM[j] - (geoNow + ionoM + X(clockSlot.get(info.group)!));
+      }
+    }
+  }
+
   /** Double differences of the epoch's fixable arcs, LAMBDA with partial fixing, conditioning and hold. */
   function fixEpoch(k: number): void {
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
-    const bySys = new Map<GnssSystem, { slot: number; arc: number; el: number; sat: number }[]>();
+    const bySys = new Map<string, { slot: number; arc: number; el: number; sat: number }[]>();
     for (let j = j0; j < j1; j++) {
       const info = sats[rec.sat[j]];
       if (!setup.fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < ambMask) continue;
       const slot = arcSlot.get(rec.arc[j]);
       if (slot === undefined) continue;
-      let l = bySys.get(info.system);
-      if (!l) bySys.set(info.system, (l = []));
+      let l = bySys.get(info.group);
+      if (!l) bySys.set(info.group, (l = []));
       l.push({ slot, arc: rec.arc[j], el: rec.elevationRad[j], sat: rec.sat[j] });
     }
     const dd: { i: number; p: number; arcI: number; arcP: number; el: number; satI: number; satP: number }[] = [];
@@ -480,7 +585,14 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     out.covariance[kc + 3] = cov(1, 1); out.covariance[kc + 4] = cov(1, 2); out.covariance[kc + 5] = cov(2, 2);
     out.kind[k] = 2;
     out.fixedAmbiguities[k] = ns;
-    setup.onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, cycles: fix.integers[w] })));
+    setup.onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
+    // Residuals at the fixed solution: every state conditioned on the fixed integers,
+    // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).
+    writeResiduals(k, (slot) => {
+      let t = 0;
+      for (let u = 0; u < ns; u++) t += (P[slot * c + dd[sub[u]].i] - P[slot * c + dd[sub[u]].p]) * rhs[0][u];
+      return x[slot] - t;
+    });
     // Fix-and-hold.
     const seen = new Set<number>();
     for (let u = 0; u < ns; u++) {

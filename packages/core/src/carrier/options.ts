@@ -1,6 +1,8 @@
 /**
  * Options of the carrier-phase solution, with their defaults and where each comes from.
  */
+import type { CarrierFrequencies } from './further-bands.js';
+
 export type CarrierDynamics =
   /** Antenna fixed for the whole session: position constant (no process noise). */
   | 'static'
@@ -60,6 +62,12 @@ export interface CarrierOptions {
   readonly holdAfterEpochs: number;
   /** Fix GLONASS ambiguities: 'auto' only between receivers reporting the same type (inter-channel biases cancel). */
   readonly glonassFix: 'auto' | 'never' | 'always';
+  /**
+   * 'all': the further bands both receivers recorded with phase (GPS L2/L5, GLONASS G2, Galileo E5a/E5b,
+   * BeiDou B3I/B2I: further-bands.ts) join the primary band, each with its own ambiguities; 'single': the
+   * primary band alone.
+   */
+  readonly frequencies: CarrierFrequencies;
 }
 
 export const DEFAULT_CARRIER_OPTIONS: CarrierOptions = {
@@ -77,6 +85,7 @@ export const DEFAULT_CARRIER_OPTIONS: CarrierOptions = {
   passAgreementM: 0.05,
   holdAfterEpochs: 5,
   glonassFix: 'auto',
+  frequencies: 'all',
 };
 
 export function withCarrierDefaults(partial: Partial<CarrierOptions>): CarrierOptions {

@@ -1,6 +1,6 @@
 /**
- * One receiver's epoch made ready for differencing: per satellite the L1-band code and phase with the
- * satellite at transmission, its broadcast clock, and the receiver clock estimated from the code, so
+ * One receiver's epoch made ready for differencing: per satellite the primary band's code and phase (and,
+ * when asked, those of further bands: further-bands.ts) with the satellite at transmission, its broadcast clock, and the receiver clock estimated from the code, so
  * that geometry is computed at the epoch's estimated GPS time, not at its receiver-time tag
  * (IS-GPS-200 20.3.3.4.3.3.2; see positioning/satellite-for-tag.ts).
  */
@@ -12,10 +12,12 @@ import { carrierWavelengthM, pseudorangePriority } from '../gnss/index.js';
 import { EphemerisStore, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
 import { satelliteForTag } from '../observables/index.js';
 import { clockSignal, PRIMARY_BAND } from '../observables/index.js';
+import { bandSignal, furtherBands, hasFurtherBands, type CarrierFrequencies } from './further-bands.js';
 
-export interface ReceiverSat {
-  readonly sat: SatId;
-  readonly system: GnssSystem;
+/** One signal of a satellite: code, phase and their companions on one band. */
+export interface ReceiverSignal {
+  /** RINEX band digit. */
+  readonly band: string;
   readonly code: string;
   readonly codeM: number;
   /** Carrier phase (cycles), NaN when blank. */
@@ -24,6 +26,13 @@ export interface ReceiverSat {
   readonly lli: number;
   readonly cn0DbHz: number;
   readonly wavelengthM: number;
+}
+
+export interface ReceiverSat extends ReceiverSignal {
+  readonly sat: SatId;
+  readonly system: GnssSystem;
+  /** Signals on further bands with phase (further-bands.ts); empty unless asked for. */
+  readonly more: readonly ReceiverSignal[];
   eph: Ephemeris;
   /** Satellite at transmission in the ECEF frame of the receive time (m). */
   posM: EcefM;
@@ -44,6 +53,8 @@ export interface ReceiverContext {
   readonly store: EphemerisStore;
   readonly systems: readonly GnssSystem[];
   readonly glonassChannels: ReadonlyMap<number, number>;
+  /** Read the further bands' signals too (default: the primary band only). */
+  readonly frequencies?: CarrierFrequencies;
 }
 
 function value(s: SatObservations, code: string): number {
@@ -69,6 +80,18 @@ function chooseSignal(system: GnssSystem, s: SatObservations): string | null {
     if (p > 1e6 && p < 1e9) return c;
   }
   return null;
+}
+
+const NO_SIGNALS: readonly ReceiverSignal[] = [];
+
+function signalOf(s: SatObservations, band: string, code: string, wavelengthM: number): ReceiverSignal {
+  const tail = code.slice(1);
+  const phase = value(s, 'L' + tail);
+  return {
+    band, code, codeM: value(s, code),
+    phaseCycles: Number.isFinite(phase) && phase !== 0 ? phase : NaN,
+    dopplerHz: value(s, 'D' + tail), lli: lliOf(s, 'L' + tail), cn0DbHz: value(s, 'S' + tail), wavelengthM,
+  };
 }
 
 function median(v: number[]): number {
@@ -101,13 +124,23 @@ export function prepareReceiverEpoch(e: ObsEpoch, ctx: ReceiverContext, atM: Ece
     if (!Number.isFinite(wavelengthM)) continue;
     const sel = ctx.store.select(s.sat, e.tagGpsS);
     if (sel.eph === null) continue;
+    let more: readonly ReceiverSignal[] = NO_SIGNALS;
+    if (ctx.frequencies === 'all' && hasFurtherBands(system, s.codes)) {
+      const found: ReceiverSignal[] = [];
+      for (const band of furtherBands(system)) {
+        const c = bandSignal(system, band, s);
+        const w = c === null ? NaN : carrierWavelengthM(system, c, k);
+        if (c !== null && Number.isFinite(w)) found.push(signalOf(s, band, c, w));
+      }
+      if (found.length) more = found;
+    }
     const tail = code.slice(1);
     const phase = value(s, 'L' + tail);
     sats.push({
-      sat: s.sat, system, code, codeM: value(s, code),
+      sat: s.sat, system, band: code[1], code, codeM: value(s, code),
       phaseCycles: Number.isFinite(phase) && phase !== 0 ? phase : NaN,
       dopplerHz: value(s, 'D' + tail), lli: lliOf(s, 'L' + tail), cn0DbHz: value(s, 'S' + tail),
-      wavelengthM, eph: sel.eph, posM: atM, satClockM: 0,
+      wavelengthM, more, eph: sel.eph, posM: atM, satClockM: 0,
     });
   }
   const clockOf = (clk: number): number => {

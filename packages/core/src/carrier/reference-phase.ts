@@ -22,6 +22,16 @@ import { azimuthElevation } from '../geodesy/index.js';
 import { dayOfYear, troposphereDelayM } from '../observables/index.js';
 import type { EcefM } from '../gnss/index.js';
 
+/** z values of a signal on a further band (further-bands.ts): its code and phase, arc and half-cycle state. */
+export interface ReferenceSignal {
+  readonly band: string;
+  readonly code: string;
+  readonly phaseM: number;
+  readonly codeM: number;
+  readonly arc: number;
+  readonly halfCycle: boolean;
+}
+
 export interface ReferenceSat {
   readonly phaseM: number;
   readonly codeM: number;
@@ -29,6 +39,14 @@ export interface ReferenceSat {
   readonly halfCycle: boolean;
   readonly elevationRad: number;
   readonly eph: Ephemeris;
+  /** Signals on further bands (none unless asked for). */
+  readonly more?: readonly ReferenceSignal[];
+}
+
+/** Arcs of one further band's signals at the reference (arc-tracker.ts). */
+export interface BandArcs {
+  readonly arcs: ReadonlyMap<SatId, number>;
+  readonly halfCycle: (sat: SatId) => boolean;
 }
 
 export interface ReferencePhaseEpoch {
@@ -43,6 +61,7 @@ export interface AlignedReferenceSat {
   readonly halfCycle: boolean;
   readonly elevationRad: number;
   readonly eph: Ephemeris;
+  readonly more?: readonly ReferenceSignal[];
 }
 
 export interface AlignedReference {
@@ -53,7 +72,7 @@ export interface AlignedReference {
 }
 
 /** z values of one prepared reference epoch (see the file comment). */
-export function reduceReferenceEpoch(ep: ReceiverEpoch, arpM: EcefM, geodetic: GeodeticRad, arcs: ReadonlyMap<SatId, number>, halfCycle: (sat: SatId) => boolean, codeClockStepsM = 0): ReferencePhaseEpoch {
+export function reduceReferenceEpoch(ep: ReceiverEpoch, arpM: EcefM, geodetic: GeodeticRad, arcs: ReadonlyMap<SatId, number>, halfCycle: (sat: SatId) => boolean, codeClockStepsM = 0, further?: ReadonlyMap<string, BandArcs>): ReferencePhaseEpoch {
   const sats = new Map<SatId, ReferenceSat>();
   const doy = dayOfYear(ep.tagGpsS);
   for (const s of ep.sats) {
@@ -63,14 +82,37 @@ export function reduceReferenceEpoch(ep: ReceiverEpoch, arpM: EcefM, geodetic: G
     const t = troposphereDelayM(geodetic, ae.elevationRad, doy);
     const model = rho - s.satClockM + t;
     const arc = arcs.get(s.sat) ?? 0;
+    const more: ReferenceSignal[] = s.more.length ? [] : NO_REFERENCE_SIGNALS;
+    for (const m of s.more) {
+      const b = further?.get(m.band);
+      const a = b?.arcs.get(s.sat) ?? 0;
+      more.push({ band: m.band, code: m.code, phaseM: a > 0 ? m.phaseCycles * m.wavelengthM + codeClockStepsM - model : NaN, codeM: m.codeM - model, arc: a, halfCycle: b ? b.halfCycle(s.sat) : false });
+    }
     sats.set(s.sat, {
       // The code clock's steps added to the phase: one receiver clock for both (arc-tracker.ts).
       phaseM: arc > 0 ? s.phaseCycles * s.wavelengthM + codeClockStepsM - model : NaN,
       codeM: s.codeM - model,
-      arc, halfCycle: halfCycle(s.sat), elevationRad: ae.elevationRad, eph: s.eph,
+      arc, halfCycle: halfCycle(s.sat), elevationRad: ae.elevationRad, eph: s.eph, more,
     });
   }
   return { timeGpsS: ep.timeGpsS, sats };
+}
+
+const NO_REFERENCE_SIGNALS: ReferenceSignal[] = [];
+
+/** Further-band signals of two bracketing epochs carried to weight w: the same band and code at both, phase within one arc. */
+function interpolateSignals(a: readonly ReferenceSignal[], b: readonly ReferenceSignal[], w: number): ReferenceSignal[] {
+  const out: ReferenceSignal[] = [];
+  for (const x of a) {
+    const y = b.find((q) => q.band === x.band && q.code === x.code);
+    if (!y) continue;
+    const sameArc = x.arc > 0 && x.arc === y.arc;
+    out.push({
+      band: x.band, code: x.code, phaseM: sameArc ? x.phaseM + w * (y.phaseM - x.phaseM) : NaN,
+      codeM: x.codeM + w * (y.codeM - x.codeM), arc: sameArc ? x.arc : 0, halfCycle: x.halfCycle || y.halfCycle,
+    });
+  }
+  return out;
 }
 
 export class ReferencePhaseBuffer {
@@ -103,7 +145,8 @@ export class ReferencePhaseBuffer {
     if (drop > 0) this.epochs.splice(0, drop);
   }
 
-  align(tGpsS: number): AlignedReference | null {
+  /** The reference carried to a rover time; `further`: with the signals of further bands (when the rover has some). */
+  align(tGpsS: number, further = true): AlignedReference | null {
     let i1 = this.epochs.findIndex((e) => e.timeGpsS > tGpsS + 1e-4);
     if (i1 < 0) i1 = this.epochs.length;
     const e0 = i1 > 0 ? this.epochs[i1 - 1] : null;
@@ -115,11 +158,12 @@ export class ReferencePhaseBuffer {
         const b = e1.sats.get(sat);
         if (!b || b.eph !== a.eph) continue;
         const sameArc = a.arc > 0 && a.arc === b.arc;
+        const more = further && a.more?.length && b.more?.length ? interpolateSignals(a.more, b.more, w) : NO_REFERENCE_SIGNALS;
         sats.set(sat, {
           phaseM: sameArc ? a.phaseM + w * (b.phaseM - a.phaseM) : NaN,
           codeM: a.codeM + w * (b.codeM - a.codeM),
           arc: sameArc ? a.arc : 0, halfCycle: a.halfCycle || b.halfCycle,
-          elevationRad: a.elevationRad + w * (b.elevationRad - a.elevationRad), eph: a.eph,
+          elevationRad: a.elevationRad + w * (b.elevationRad - a.elevationRad), eph: a.eph, more,
         });
       }
       return { sats, ageS: Math.max(tGpsS - e0.timeGpsS, e1.timeGpsS - tGpsS), interpolated: true };

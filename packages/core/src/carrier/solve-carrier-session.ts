@@ -11,10 +11,16 @@
  * 3. The passes are combined per epoch (combine-passes.ts); every rover epoch is yielded with its kind
  *    ('fixed', 'float' or 'none'), ratio, number of fixed ambiguities and formal precision.
  *
- * Baseline length: differential troposphere is modelled (Saastamoinen + Niell at both ends) and the
- * differential ionosphere is neglected: below about 10 km it is a few millimetres to a few centimetres
- * per double difference on L1 in quiet conditions (e.g. Odijk 2002, PhD thesis, Delft), which single-frequency
- * ambiguity fixing tolerates only over short baselines; longer baselines are reported with a warning.
+ * Frequencies: the primary band of each constellation, and (option `frequencies`, default all) the further
+ * bands both receivers recorded with phase (further-bands.ts), each signal pair with its own ambiguities,
+ * arcs (its own slip tests), antenna calibration and clocks.
+ *
+ * Baseline length: differential troposphere is modelled (Saastamoinen + Niell at both ends). The differential
+ * ionosphere is neglected on the primary band alone: below about 10 km it is a few millimetres to a few
+ * centimetres per double difference on L1 in quiet conditions (e.g. Odijk 2002, PhD thesis, Delft), which
+ * single-frequency ambiguity fixing tolerates only over short baselines. Satellites with further bands have
+ * it estimated, weighted by the baseline length (ionosphere-weighting.ts, with its measured limit). Beyond
+ * 10 km a warning is given either way.
  *
  * Antennas: with an ANTEX calibration (antex.ts) the phase-centre offset and variation of each receiver's
  * antenna (type from its RINEX header) are applied; without one, different antenna types at the two ends
@@ -36,15 +42,18 @@ import { dayOfYear, troposphereDelayM } from '../observables/index.js';
 import { dopplerVelocity } from '../velocity/index.js';
 import { dilutionOfPrecision } from '../solve/index.js';
 import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '../session/index.js';
-import { ArcTracker } from './arc-tracker.js';
+import { ArcTracker, type ArcInput } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
-import { ReferencePhaseBuffer, reduceReferenceEpoch } from './reference-phase.js';
+import { ReferencePhaseBuffer, reduceReferenceEpoch, type BandArcs } from './reference-phase.js';
 import { EpochRecords } from './epoch-records.js';
-import { runPass, type FixedDoubleDifference, type PassResult, type SatelliteInfo } from './float-filter.js';
+import { codeVarianceScale, runPass, singleDifferenceVarianceM2, type FixedDoubleDifference, type PassResult, type SatelliteInfo } from './float-filter.js';
 import { combinePasses } from './combine-passes.js';
 import type { CarrierOptions } from './options.js';
 import { antennaCorrectionM, findAntenna, type AntexData } from './antex.js';
 import { codeFixPosition } from './code-fix.js';
+import { furtherBandGroup } from './further-bands.js';
+import { GeometryFreeMonitor } from './geometry-free.js';
+import { ionosphereFactor, ionosphereWeighting } from './ionosphere-weighting.js';
 
 export interface CarrierInputs {
   readonly rover: ObsStream;
@@ -90,6 +99,8 @@ export interface CarrierSummary {
   readonly backward: PassShares;
   readonly combined: PassShares;
   readonly fixableSystems: readonly GnssSystem[];
+  /** Phase signals of the rover used, per constellation and band ('G L1C', 'G L2W'...), in order of first use. */
+  readonly signals: readonly string[];
   /** Arcs started per cause at each receiver (arc-tracker.ts). */
   readonly slips: { readonly rover: Readonly<Record<string, number>>; readonly reference: Readonly<Record<string, number>> };
   /** Median antenna-to-antenna distance of the solved epochs (m). */
@@ -189,15 +200,22 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
 
   const glonassChannels = new Map<number, number>(store.glonassChannels());
   for (const h of [refHeader, rover.header]) for (const [slot, k] of h.glonassChannels) glonassChannels.set(slot, k);
-  const ctx: ReceiverContext = { store, systems, glonassChannels };
+  const ctx: ReceiverContext = { store, systems, glonassChannels, frequencies: carrier.frequencies };
   const maskRad = options.elevationMaskDeg * DEG;
 
-  // Satellite table.
-  const satIndex = new Map<SatId, number>();
+  // Signal table: a satellite's primary-band signal (group: its constellation) and each further-band signal
+  // pair (group: further-bands.ts) is one entry of the records.
+  const satIndex = new Map<string, number>();
   const satellites: SatelliteInfo[] = [];
-  const indexOf = (sat: SatId, wavelengthM: number): number => {
-    let i = satIndex.get(sat);
-    if (i === undefined) { i = satellites.length; satellites.push({ id: sat, system: satSystem(sat), wavelengthM }); satIndex.set(sat, i); }
+  const indexOf = (sat: SatId, wavelengthM: number, code: string, further: { group: string; primaryWavelengthM: number } | null = null): number => {
+    const key = further ? `${sat}/${further.group}` : sat;
+    let i = satIndex.get(key);
+    if (i === undefined) {
+      const system = satSystem(sat);
+      i = satellites.length;
+      satellites.push({ id: sat, system, wavelengthM, group: further ? further.group : system, primary: further === null, code, phaseCode: 'L' + code.slice(1), ionoFactor: further ? ionosphereFactor(wavelengthM, further.primaryWavelengthM) : 1 });
+      satIndex.set(key, i);
+    }
     return i;
   };
 
@@ -205,6 +223,28 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const refBuffer = new ReferencePhaseBuffer(carrier.maxReferenceAgeS, refHeader.intervalS);
   const refTracker = new ArcTracker(30);
   const roverTracker = new ArcTracker(30);
+  // Further bands: one tracker per band digit at each receiver (each band's own slip tests).
+  const refBandTrackers = new Map<string, ArcTracker>();
+  const roverBandTrackers = new Map<string, ArcTracker>();
+  /** Arcs of the further-band signals of an epoch, per band. */
+  function furtherArcs(trackers: Map<string, ArcTracker>, ep: ReceiverEpoch): Map<string, BandArcs> {
+    const byBand = new Map<string, ArcInput[]>();
+    for (const s of ep.sats) {
+      for (const m of s.more) {
+        let l = byBand.get(m.band);
+        if (!l) byBand.set(m.band, (l = []));
+        l.push({ sat: s.sat, phaseCycles: m.phaseCycles, codeM: m.codeM, dopplerHz: m.dopplerHz, lli: m.lli, wavelengthM: m.wavelengthM });
+      }
+    }
+    const out = new Map<string, BandArcs>();
+    for (const [band, list] of byBand) {
+      let tr = trackers.get(band);
+      if (!tr) trackers.set(band, (tr = new ArcTracker(30)));
+      const t = tr;
+      out.set(band, { arcs: t.update(ep.timeGpsS, list), halfCycle: (sat) => t.halfCycleUnresolved(sat) });
+    }
+    return out;
+  }
   const refIter = joinReferenceStreams(inputs.references)[Symbol.asyncIterator]();
   let refDone = false;
   let refClockM = NaN;
@@ -225,7 +265,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       refClockM = ep.clockM;
       if (refCal) applyAntenna(ep, refArp, refGeo, refCal);
       const arcs = refTracker.update(ep.timeGpsS, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
-      refBuffer.add(reduceReferenceEpoch(ep, refArp, refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat), refTracker.codeClockStepsM));
+      refBuffer.add(reduceReferenceEpoch(ep, refArp, refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat), refTracker.codeClockStepsM, furtherArcs(refBandTrackers, ep)));
     }
   }
 
@@ -237,6 +277,10 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       const c = antennaCorrectionM(cal, s.system, s.code[1], ae.elevationRad, ae.azimuthRad);
       // The phase centre is nearer the satellite by the correction: add it back to refer to the ARP.
       (s as { phaseCycles: number }).phaseCycles += c / s.wavelengthM;
+      // Each further band with its own calibration (ANTEX frequency of the same band).
+      for (const m of s.more) {
+        if (Number.isFinite(m.phaseCycles)) (m as { phaseCycles: number }).phaseCycles += antennaCorrectionM(cal, s.system, m.band, ae.elevationRad, ae.azimuthRad) / m.wavelengthM;
+      }
     }
   }
 
@@ -250,9 +294,26 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   let occupied = false;
   let x0: EcefM = rover.header.approxPosition ?? refArp;
   let roverClockM = NaN;
-  const sdArcs = new Map<SatId, { r: number; b: number; id: number }>();
+  /**
+   * Single-difference arc per record entry (signal table index): a new one whenever either receiver's arc
+   * changes, or the geometry-free test across bands finds a slip on the satellite (its count in `gfSlips`).
+   */
+  const sdArcs = new Map<number, { r: number; b: number; g: number; id: number }>();
+  const gfSlips = new Map<SatId, number>();
+  /** Per satellite with further bands, the arcs of every band at both receivers at its last epoch. */
+  const receiverArcs = new Map<SatId, number[]>();
+  const geometryFree = new GeometryFreeMonitor(30);
+  const sdArcOf = (entry: number, rArc: number, bArc: number, sat: SatId): number => {
+    const g = gfSlips.get(sat) ?? 0;
+    const prev = sdArcs.get(entry);
+    if (prev && prev.r === rArc && prev.b === bArc && prev.g === g) return prev.id;
+    const id = nextArc++;
+    sdArcs.set(entry, { r: rArc, b: bArc, g, id });
+    return id;
+  };
   let nextArc = 1;
   let maxBaselineM = 0;
+  let geometryFreeSlips = 0;
   let epochsWithReference = 0;
   let firstEvent: 'start-moving' | 'new-occupation' | null = null;
   let firstMovingRecord = 0;
@@ -291,7 +352,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     throw new ProcessingError(`the rover and reference observations do not overlap in time (no reference epoch within ${carrier.maxReferenceAgeS} s of any rover epoch)`);
   }
   if (maxBaselineM > 10_000) {
-    const msg = `baseline up to ${(maxBaselineM / 1000).toFixed(1)} km: the differential ionosphere (not modelled) can reach several centimetres per double difference beyond about 10 km, and single-frequency ambiguities may then be fixed wrongly or not at all`;
+    const msg = `baseline up to ${(maxBaselineM / 1000).toFixed(1)} km: the differential ionosphere can reach several centimetres per double difference beyond about 10 km (neglected with one frequency, estimated with a prior when further frequencies are used), and ambiguities may then be fixed wrongly or not at all`;
     notes.push(msg);
     warn({ file: rover.file, code: 'long-baseline', message: msg });
   }
@@ -306,9 +367,10 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     const t = ep.timeGpsS;
     if (roverCal) applyAntenna(ep, x0, ecefToGeodetic(x0), roverCal);
     const arcs = roverTracker.update(t, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
+    const roverFurther = furtherArcs(roverBandTrackers, ep);
     await pullReference(t);
     refBuffer.prune(t);
-    const al = refBuffer.align(t);
+    const al = refBuffer.align(t, ep.sats.some((s) => s.more.length > 0));
     if (!al) { rec.beginEpoch(t, e.tagGpsS, x0, isStatic, NaN, context); return `no reference epoch within ${carrier.maxReferenceAgeS} s`; }
     epochsWithReference++;
     const both = [];
@@ -325,6 +387,40 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     const g0 = ecefToGeodetic(x0);
     const k = rec.beginEpoch(t, e.tagGpsS, x0, isStatic, al.ageS, context);
     maxBaselineM = Math.max(maxBaselineM, Math.hypot(x0.x - refArp.x, x0.y - refArp.y, x0.z - refArp.z));
+    // The geometry-free test on the single differences (geometry-free.ts): the primary band against the
+    // first further band both receivers have, within the arcs of both bands at both receivers.
+    const gfItems: { key: string; gfM: number; sat: SatId }[] = [];
+    for (const { s, ra } of both) {
+      const rArc = arcs.get(s.sat) ?? 0;
+      if (s.more.length === 0 || !ra.more?.length || !(rArc > 0 && ra.arc > 0 && Number.isFinite(ra.phaseM))) continue;
+      for (const m of s.more) {
+        const rm = ra.more.find((q) => q.band === m.band);
+        const mArc = roverFurther.get(m.band)?.arcs.get(s.sat) ?? 0;
+        if (!rm || !(mArc > 0 && rm.arc > 0 && Number.isFinite(rm.phaseM))) continue;
+        // The receivers' modelled ranges are the same on both bands: they cancel.
+        const gfM = s.phaseCycles * s.wavelengthM - m.phaseCycles * m.wavelengthM - (ra.phaseM - rm.phaseM);
+        gfItems.push({ key: `${s.sat}${m.band}:${rArc}:${ra.arc}:${mArc}:${rm.arc}`, gfM, sat: s.sat });
+        break;
+      }
+    }
+    if (gfItems.length) {
+      const jumped = geometryFree.update(t, gfItems);
+      for (const it of gfItems) if (jumped.has(it.key)) { gfSlips.set(it.sat, (gfSlips.get(it.sat) ?? 0) + 1); geometryFreeSlips++; }
+    }
+    // A slip found on one band at either receiver (an arc followed by another, not a blank) restarts every
+    // band of the satellite: tracking loops of one satellite share their carrier, so a slip on one band
+    // often comes with a smaller one on another that its own tests miss (common practice).
+    for (const { s, ra } of both) {
+      if (s.more.length === 0) continue;
+      const now = [arcs.get(s.sat) ?? 0, ra.arc];
+      for (const m of s.more) {
+        const rm = ra.more?.find((q) => q.band === m.band);
+        now.push(roverFurther.get(m.band)?.arcs.get(s.sat) ?? 0, rm?.arc ?? 0);
+      }
+      const before = receiverArcs.get(s.sat);
+      receiverArcs.set(s.sat, now);
+      if (before && before.length === now.length && now.some((a, i) => a > 0 && before[i] > 0 && a !== before[i]) && now.some((a, i) => a > 0 && a === before[i])) gfSlips.set(s.sat, (gfSlips.get(s.sat) ?? 0) + 1);
+    }
     for (const { s, ra } of both) {
       const dx = s.posM.x - x0.x, dy = s.posM.y - x0.y, dz = s.posM.z - x0.z;
       const rho = Math.sqrt(dx * dx + dy * dy + dz * dz);
@@ -333,17 +429,27 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       const model = rho - s.satClockM + troposphereDelayM(g0, ae.elevationRad, doy);
       const rArc = arcs.get(s.sat) ?? 0;
       const withPhase = rArc > 0 && ra.arc > 0 && Number.isFinite(ra.phaseM);
-      let arc = 0;
-      if (withPhase) {
-        const prev = sdArcs.get(s.sat);
-        if (prev && prev.r === rArc && prev.b === ra.arc) arc = prev.id;
-        else { arc = nextArc++; sdArcs.set(s.sat, { r: rArc, b: ra.arc, id: arc }); }
-      }
+      const entry = indexOf(s.sat, s.wavelengthM, s.code);
+      const arc = withPhase ? sdArcOf(entry, rArc, ra.arc, s.sat) : 0;
       const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle;
-      rec.addSatellite(k, indexOf(s.sat, s.wavelengthM), arc,
+      const el = Math.min(ae.elevationRad, ra.elevationRad);
+      rec.addSatellite(k, entry, arc,
         withPhase ? s.phaseCycles * s.wavelengthM + roverTracker.codeClockStepsM - model - ra.phaseM : NaN,
         Number.isFinite(s.codeM) ? s.codeM - model - ra.codeM : NaN,
-        dx / rho, dy / rho, dz / rho, Math.min(ae.elevationRad, ra.elevationRad), !half);
+        dx / rho, dy / rho, dz / rho, el, !half);
+      // Further bands recorded at both receivers: entries of their own (own arcs, own group clocks).
+      for (const m of s.more) {
+        const rm = ra.more?.find((q) => q.band === m.band);
+        if (!rm) continue;
+        const b = roverFurther.get(m.band);
+        const mArc = b?.arcs.get(s.sat) ?? 0;
+        const mPhase = mArc > 0 && rm.arc > 0 && Number.isFinite(rm.phaseM);
+        const mEntry = indexOf(s.sat, m.wavelengthM, m.code, { group: furtherBandGroup(s.system, m.band, m.code, rm.code), primaryWavelengthM: s.wavelengthM });
+        rec.addSatellite(k, mEntry, mPhase ? sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0,
+          mPhase ? m.phaseCycles * m.wavelengthM + roverTracker.codeClockStepsM - model - rm.phaseM : NaN,
+          Number.isFinite(m.codeM) ? m.codeM - model - rm.codeM : NaN,
+          dx / rho, dy / rho, dz / rho, el, !((b?.halfCycle(s.sat) ?? false) || rm.halfCycle));
+      }
     }
     if (!isStatic) {
       const v = dopplerVelocity(e, x0, store, { systems, elevationMaskRad: maskRad, glonassChannels });
@@ -356,12 +462,17 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   }
 
   // Forward and backward passes, then their combination.
-  const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier };
+  // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
+  const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
+  if (ionosphere) notes.push(`${geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
+  if (ionosphere) notes.push(`further frequencies used (${[...new Set(satellites.filter((x) => !x.primary).map((x) => x.phaseCode.slice(0, 2) + ' ' + SYSTEM_NAMES[x.system]))].join(', ')}): the differential ionosphere is estimated per satellite, prior ${(1000 * ionosphere.verticalSigmaM).toFixed(1)} mm at zenith for a ${(maxBaselineM / 1000).toFixed(1)} km baseline`);
+  const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier, ionosphere };
   const sink = inputs.onFixedAmbiguities;
   const onFix = (pass: 'forward' | 'backward') => sink ? { onFix: (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[k], ambiguities }) } : {};
   const fwd = runPass(rec, { ...setup, ...onFix('forward') }, 1);
   const bwd = runPass(rec, { ...setup, ...onFix('backward') }, -1);
   const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM);
+  const codeScale = codeVarianceScale(rec, carrier);
   const shares = (r: PassResult): PassShares => {
     let fixed = 0, float = 0, none = 0;
     for (const k of r.kind) { if (k === 2) fixed++; else if (k === 1) float++; else none++; }
@@ -390,10 +501,17 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
         used.push(ux, uy, uz);
         clockIndex.push(systemsSeen.indexOf(sys));
       }
+      // The residual of the pass whose solution the epoch carries (combine-passes.ts): of the phase when
+      // it was used (signal: its phase code), else of the code (signal: the pseudorange code).
+      const info = satellites[rec.sat[j]];
+      const withPhase = Number.isFinite(rec.phaseM[j]);
+      const from = combined.residualFrom[k];
+      const residualM = from === 1 ? fwd.result.residualM[j] : from === 2 ? bwd.result.residualM[j] : NaN;
+      const variance = withPhase ? singleDifferenceVarianceM2(carrier.phaseAM, carrier.phaseBM, rec.elevationRad[j]) : codeScale * singleDifferenceVarianceM2(carrier.codeAM, carrier.codeBM, rec.elevationRad[j]);
       sats.push({
-        sat: satellites[rec.sat[j]].id, signal: 'L1', elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: az,
-        residualM: NaN, weight: 0, wTest: NaN, used: rec.elevationRad[j] >= maskRad && kind !== 'none',
-        reason: rec.elevationRad[j] < maskRad ? `below elevation mask (${(rec.elevationRad[j] / DEG).toFixed(1)} deg)` : Number.isFinite(rec.phaseM[j]) ? '' : 'no phase at both receivers (code only)',
+        sat: info.id, signal: withPhase ? info.phaseCode : info.code, elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: az,
+        residualM, weight: 1 / variance, wTest: NaN, used: rec.elevationRad[j] >= maskRad && kind !== 'none',
+        reason: rec.elevationRad[j] < maskRad ? `below elevation mask (${(rec.elevationRad[j] / DEG).toFixed(1)} deg)` : withPhase ? '' : 'no phase at both receivers (code only)',
       });
     }
     const base = {
@@ -438,10 +556,17 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     summary: (): CarrierSummary => ({
       frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
       epochsRover: rec.count, forward: shares(fwd.result), backward: shares(bwd.result), combined: shares(combined),
-      fixableSystems: [...fixable], slips: { rover: { ...roverTracker.causes }, reference: { ...refTracker.causes } },
+      fixableSystems: [...fixable], signals: [...new Set(satellites.map((x) => `${x.system} ${x.phaseCode}`))], slips: { rover: allCauses(roverTracker, roverBandTrackers), reference: allCauses(refTracker, refBandTrackers) },
       baselineLengthM, notes, recordBytes,
     }),
   };
+}
+
+/** Arcs started per cause, over every band's tracker of a receiver. */
+function allCauses(primary: ArcTracker, further: ReadonlyMap<string, ArcTracker>): Record<string, number> {
+  const out: Record<string, number> = { ...primary.causes };
+  for (const t of further.values()) for (const [k, v] of Object.entries(t.causes)) out[k] = (out[k] ?? 0) + v;
+  return out;
 }
 
 /** Standard deviations east/north/up from an ECEF covariance (xx, xy, xz, yy, yz, zz). */
