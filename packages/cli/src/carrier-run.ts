@@ -20,6 +20,7 @@ export interface CarrierArgs {
   readonly ambiguityMask?: unknown;
   readonly dynamics?: unknown;
   readonly antennas?: unknown;
+  readonly frequencies?: unknown;
 }
 
 export function defineCarrierOptions<T>(c: Argv<T>): Argv<T> {
@@ -27,11 +28,12 @@ export function defineCarrierOptions<T>(c: Argv<T>): Argv<T> {
     .option('ratio-threshold', { type: 'string', describe: 'ratio test threshold for integer ambiguities, default 3', group: 'Carrier phase:' })
     .option('ambiguity-mask', { type: 'string', describe: 'elevation mask for fixing ambiguities (deg), default 15', group: 'Carrier phase:' })
     .option('dynamics', { type: 'string', describe: 'auto | static | kinematic (auto: static between occupation events, moving otherwise)', group: 'Carrier phase:' })
-    .option('antennas', { type: 'string', describe: 'antenna calibrations (ANTEX file) for the antenna types in the RINEX headers', group: 'Carrier phase:' }) as Argv<T>;
+    .option('antennas', { type: 'string', describe: 'antenna calibrations (ANTEX file) for the antenna types in the RINEX headers', group: 'Carrier phase:' })
+    .option('frequencies', { type: 'string', describe: 'all | single: phase on every band both receivers recorded (L2, L5, E5a, E5b, B3I...; the differential ionosphere then estimated), or the first band alone; default all', group: 'Carrier phase:' }) as Argv<T>;
 }
 
 export function carrierArgsFrom(a: Record<string, unknown>): CarrierArgs {
-  return { carrierPhase: a.carrierPhase, ratioThreshold: a.ratioThreshold, ambiguityMask: a.ambiguityMask, dynamics: a.dynamics, antennas: a.antennas };
+  return { carrierPhase: a.carrierPhase, ratioThreshold: a.ratioThreshold, ambiguityMask: a.ambiguityMask, dynamics: a.dynamics, antennas: a.antennas, frequencies: a.frequencies };
 }
 
 /** Whether a header lists a carrier-phase observation. */
@@ -62,6 +64,7 @@ export function parseCarrierChoice(a: CarrierArgs, command: string, rover: ObsHe
     ...(a.ratioThreshold !== undefined ? { ratioThreshold: parseNumber('ratio-threshold', a.ratioThreshold, 1, 1000) } : {}),
     ...(a.ambiguityMask !== undefined ? { ambiguityMaskDeg: parseNumber('ambiguity-mask', a.ambiguityMask, 0, 60) } : {}),
     ...(a.dynamics !== undefined ? { dynamics: parseChoice('dynamics', a.dynamics, ['auto', 'static', 'kinematic'] as const) as CarrierDynamics } : {}),
+    ...(a.frequencies !== undefined ? { frequencies: parseChoice('frequencies', a.frequencies, ['all', 'single'] as const) } : {}),
   });
   return { on, options, antennasPath: a.antennas === undefined ? null : String(a.antennas) };
 }
@@ -139,11 +142,12 @@ export function carrierSummaryJson(c: CarrierSummary, options: CarrierOptions): 
   return {
     passes: { forward: share(c.forward), backward: share(c.backward), combined: share(c.combined) },
     fixable_systems: c.fixableSystems,
+    signals: c.signals,
     arcs_started: c.slips,
     baseline_length_median_m: Number.isFinite(c.baselineLengthM) ? Math.round(c.baselineLengthM * 1000) / 1000 : null,
     options: {
       ratio_threshold: options.ratioThreshold, min_success_rate: options.minSuccessRate, ambiguity_mask_deg: options.ambiguityMaskDeg,
-      min_fixed_ambiguities: options.minFixedAmbiguities, dynamics: options.dynamics, glonass_fix: options.glonassFix,
+      min_fixed_ambiguities: options.minFixedAmbiguities, dynamics: options.dynamics, glonass_fix: options.glonassFix, frequencies: options.frequencies,
     },
     record_bytes: c.recordBytes,
   };

@@ -159,6 +159,7 @@ const RESIDUALS: SolveOutputFormat = {
       notes: [
         `positions of these epochs: ${ctx.frame.name} epoch ${jsonNumber(ctx.frame.epochYear, 4) ?? 'not stated'}, referring to the ${pointReferenceWords(ctx.pointReference)} (see epochs.csv)`,
         'residual_m: post-fit residual of the single difference (rover minus reference) or, for standalone rows, of the code',
+        'carrier-phase epochs (solution fixed or float): one row per satellite and band; residual_m of the phase single difference where signal is a phase code (L1C, L2W...), at the fixed solution with ambiguities, clocks and position conditioned on the fixed integers, or at the float solution; of the code where signal is a pseudorange code (no phase at both receivers); from the pass (forward or backward) whose solution the epoch carries, empty when both passes fixed and disagreed',
       ],
     }))];
   },
