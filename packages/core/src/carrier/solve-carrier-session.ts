@@ -54,6 +54,7 @@ import { codeFixPosition } from './code-fix.js';
 import { furtherBandGroup } from './further-bands.js';
 import { GeometryFreeMonitor } from './geometry-free.js';
 import { ionosphereFactor, ionosphereWeighting } from './ionosphere-weighting.js';
+import { findTimeDifferencedSlips, type TimeDifferencedPhase } from './time-differenced-slips.js';
 
 export interface CarrierInputs {
   readonly rover: ObsStream;
@@ -314,6 +315,9 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   let nextArc = 1;
   let maxBaselineM = 0;
   let geometryFreeSlips = 0;
+  let timeDifferencedSlips = 0;
+  /** The last record with satellites (the time-differenced slip test's previous epoch). */
+  let previousRecord = -1;
   let epochsWithReference = 0;
   let firstEvent: 'start-moving' | 'new-occupation' | null = null;
   let firstMovingRecord = 0;
@@ -451,6 +455,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
           dx / rho, dy / rho, dz / rho, el, !((b?.halfCycle(s.sat) ?? false) || rm.halfCycle));
       }
     }
+    restartTimeDifferencedSlips(k);
     if (!isStatic) {
       const v = dopplerVelocity(e, x0, store, { systems, elevationMaskRad: maskRad, glonassChannels });
       if (v) {
@@ -461,7 +466,48 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     return rec.satCount[k] === 0 ? 'no satellite common to rover and reference' : '';
   }
 
+  /**
+   * The time-differenced test (time-differenced-slips.ts) of an epoch's phase single differences against the
+   * previous epoch's of the same arcs: a slipped one starts a new arc, with every band of its satellite.
+   */
+  function restartTimeDifferencedSlips(k: number): void {
+    const p = previousRecord;
+    if (rec.satCount[k] === 0) return;
+    previousRecord = k;
+    if (p < 0 || !(rec.timeGpsS[k] - rec.timeGpsS[p] <= 30)) return;
+    const before = new Map<number, number>();
+    for (let i = rec.satStart[p]; i < rec.satStart[p] + rec.satCount[p]; i++) if (rec.arc[i] > 0) before.set(rec.sat[i], i);
+    // The previous epoch's single difference carried to this epoch's linearisation point:
+    // + u_prev . (x0_k - x0_prev) (epoch-records.ts: sd = -u . (x - x0) + ...).
+    const ddx = rec.x0[3 * k] - rec.x0[3 * p], ddy = rec.x0[3 * k + 1] - rec.x0[3 * p + 1], ddz = rec.x0[3 * k + 2] - rec.x0[3 * p + 2];
+    const js: number[] = [];
+    const obs: TimeDifferencedPhase[] = [];
+    for (let j = rec.satStart[k]; j < rec.satStart[k] + rec.satCount[k]; j++) {
+      const i = before.get(rec.sat[j]);
+      if (i === undefined || rec.arc[j] <= 0 || rec.arc[i] !== rec.arc[j] || rec.elevationRad[j] < maskRad || !Number.isFinite(rec.phaseM[j]) || !Number.isFinite(rec.phaseM[i])) continue;
+      const info = satellites[rec.sat[j]];
+      const carriedM = rec.phaseM[i] + rec.los[3 * i] * ddx + rec.los[3 * i + 1] * ddy + rec.los[3 * i + 2] * ddz;
+      js.push(j);
+      obs.push({
+        changeM: rec.phaseM[j] - carriedM, ux: rec.los[3 * j], uy: rec.los[3 * j + 1], uz: rec.los[3 * j + 2], group: info.group,
+        varianceM2: 2 * singleDifferenceVarianceM2(carrier.phaseAM, carrier.phaseBM, rec.elevationRad[j]), wavelengthM: info.wavelengthM,
+      });
+    }
+    for (const o of findTimeDifferencedSlips(obs)) {
+      timeDifferencedSlips++;
+      const sat = satellites[rec.sat[js[o]]].id;
+      for (let j = rec.satStart[k]; j < rec.satStart[k] + rec.satCount[k]; j++) {
+        if (rec.arc[j] <= 0 || satellites[rec.sat[j]].id !== sat) continue;
+        const id = nextArc++;
+        rec.arc[j] = id;
+        const s = sdArcs.get(rec.sat[j]);
+        if (s) s.id = id;
+      }
+    }
+  }
+
   // Forward and backward passes, then their combination.
+  notes.push(`${timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)`);
   // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
   const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
   if (ionosphere) notes.push(`${geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
