@@ -112,7 +112,7 @@ describe('simulator + carrier-phase engine, dual-frequency receivers (self-consi
     expect(l2[Math.floor(0.95 * (l2.length - 1))]).toBeLessThanOrEqual(0.02);
   });
 
-  it('the rover\'s slips left unflagged (loss-of-lock bits cleared): the geometry-free test and the restart of every band of a slipped satellite keep every fix within 0.03 m, >= 90 % fixed, wrong integers of a pass <= 0.1 % (L1 alone: hundreds wrong)', async () => {
+  it('the rover\'s slips left unflagged (loss-of-lock bits cleared): the geometry-free test and the restart of every band of a slipped satellite keep every fix within 0.03 m, >= 90 % fixed, wrong integers of a pass <= 0.1 % (L1 alone too: the time-differenced test)', async () => {
     const base = exampleScenarioSpec(ERRORS, 22);
     const sim = simulateScenario({ ...base, rover: { ...base.rover, dualFrequency: true } });
     // One session, not a guarantee: with other seeds some unflagged slips still pass (one cycle on each band
@@ -124,7 +124,8 @@ describe('simulator + carrier-phase engine, dual-frequency receivers (self-consi
     // A slip no test sees until the next epoch can leave one pass one wrong integer for an epoch (the
     // combination of the passes then keeps the epoch right, checked below): at most 1 in 1000.
     expect(dual.wrongFixes.length).toBeLessThanOrEqual(0.001 * (dual.fixes.L1 + dual.fixes.L2));
-    expect(single.wrongFixes.length).toBeGreaterThan(100 * Math.max(dual.wrongFixes.length, 1));
+    // L1 alone relies on the time-differenced test (time-differenced-slips.ts; 1,165 wrong of 5,802 without it).
+    expect(single.wrongFixes.length).toBeLessThanOrEqual(0.001 * single.fixes.L1);
     const d = check(sim, dual.sols), s1 = check(sim, single.sols);
     console.log(`unflagged slips, L1+L2: ${d.fixed}/${dual.sols.length} fixed, worst ${d.worstM.toFixed(4)} m; L1 alone: ${s1.fixed} fixed, worst ${s1.worstM.toFixed(4)} m; ${dual.summary.notes.filter((n) => /geometry-free/.test(n)).join('')}`);
     expect(d.worstM).toBeLessThanOrEqual(0.03);
