@@ -13,7 +13,9 @@
  *  - moving epochs: the position moves by the mean Doppler velocity of the two epochs times the interval,
  *    with a process noise of ((sigma_v + 0.05 m/s) * dt)^2 per axis (sigma_v the velocity's formal sigma,
  *    0.05 m/s for the change of velocity within the interval; common practice for pedestrian and vehicle
- *    rovers at 1 Hz); without Doppler the position is free (re-initialised from the code, sigma 10 m);
+ *    rovers at 1 Hz), plus per axis half the change of velocity between the two epochs times the interval
+ *    (the trapezoid rule's largest miss when the antenna starts or stops within the interval); without
+ *    Doppler the position is free (re-initialised from the code, sigma 10 m);
  *  - clocks: free every epoch (white noise of unbounded variance, started at the median code difference);
  *  - ambiguities: constant within an arc (no process noise); a new arc starts a new state at the value
  *    implied by the code, sigma 5 m; a state not met for longer than 30 s is dropped.
@@ -364,8 +366,12 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
           const sig = Math.max(rec.velocity[v0 + 3], rec.velocity[v1 + 3]);
           const q = ((Number.isFinite(sig) ? sig : 0.1) + 0.05) ** 2 * dt * dt;
           for (let i = 0; i < 3; i++) {
+            // The mean of the two velocities times the interval (trapezoid rule) misses the displacement by up
+            // to half the velocity change times the interval when the change is not uniform in the interval
+            // (an antenna that starts or stops within it): that bound is added to the process noise per axis.
+            const dv = 0.5 * (rec.velocity[v1 + i] - rec.velocity[v0 + i]) * dt;
             st.x[i] += 0.5 * (rec.velocity[v0 + i] + rec.velocity[v1 + i]) * dt;
-            st.p[i * st.cap + i] += q;
+            st.p[i * st.cap + i] += q + dv * dv;
           }
         } else {
           for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * k + i], INITIAL_POSITION_VAR_M2);
