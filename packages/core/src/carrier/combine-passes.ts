@@ -1,6 +1,6 @@
 /**
  * Forward and backward passes combined per epoch:
- *  - both fixed and within `agreementM` (3-D) of each other: fixed, at their mean;
+ *  - both fixed and within `agreementM` (3-D) of each other: fixed, at their covariance-weighted mean;
  *  - one fixed, the other float with the fixed position inside its 3-sigma box (plus the agreement
  *    distance): fixed, at the fixed position (the float pass has not converged yet, and does not object);
  *  - otherwise float: the two float solutions weighted by their covariances (the combination of a
@@ -46,9 +46,15 @@ export function combinePasses(f: PassResult, fFloat: PassResult, b: PassResult, 
     const d = [0, 1, 2].map((i) => f.position[3 * k + i] - b.position[3 * k + i]);
     if (kf === 2 && kb === 2 && Math.hypot(d[0], d[1], d[2]) <= agreementM) {
       copy(f, k, 2);
-      for (let i = 0; i < 3; i++) out.position[3 * k + i] = 0.5 * (f.position[3 * k + i] + b.position[3 * k + i]);
       out.fixedAmbiguities[k] = Math.max(f.fixedAmbiguities[k], b.fixedAmbiguities[k]);
       out.residualFrom[k] = 1;
+      const m = weightedMean(f, b, k);
+      if (m) {
+        for (let i = 0; i < 3; i++) out.position[3 * k + i] = m.x[i];
+        for (let i = 0; i < 6; i++) out.covariance[6 * k + i] = m.c[i];
+      } else {
+        for (let i = 0; i < 3; i++) out.position[3 * k + i] = 0.5 * (f.position[3 * k + i] + b.position[3 * k + i]);
+      }
       continue;
     }
     if (kf !== kb) {
@@ -57,18 +63,28 @@ export function combinePasses(f: PassResult, fFloat: PassResult, b: PassResult, 
       if (ok) { copy(fx, k, 2); out.fixedAmbiguities[k] = fx.fixedAmbiguities[k]; out.residualFrom[k] = kf === 2 ? 1 : 2; continue; }
     }
     // Float: covariance-weighted mean of the two float solutions.
-    const wf = inv3(fFloat.covariance, 6 * k), wb = inv3(bFloat.covariance, 6 * k);
-    if (!wf || !wb) { copy(fFloat, k, 1); continue; }
-    const w = wf.map((v, i) => v + wb[i]);
-    const c = inv3(w, 0);
-    if (!c) { copy(fFloat, k, 1); continue; }
-    const xf = [0, 1, 2].map((i) => fFloat.position[3 * k + i]);
-    const xb = [0, 1, 2].map((i) => bFloat.position[3 * k + i]);
-    const s1 = mulSym(wf, xf), s2 = mulSym(wb, xb);
-    const x = mulSym(c, [s1[0] + s2[0], s1[1] + s2[1], s1[2] + s2[2]]);
+    const m = weightedMean(fFloat, bFloat, k);
+    if (!m) { copy(fFloat, k, 1); continue; }
     out.kind[k] = 1;
-    for (let i = 0; i < 3; i++) out.position[3 * k + i] = x[i];
-    for (let i = 0; i < 6; i++) out.covariance[6 * k + i] = c[i];
+    for (let i = 0; i < 3; i++) out.position[3 * k + i] = m.x[i];
+    for (let i = 0; i < 6; i++) out.covariance[6 * k + i] = m.c[i];
   }
   return out;
+}
+
+/**
+ * Covariance-weighted mean of two passes' positions at epoch k, with its covariance (null when a
+ * covariance is singular). Both passes hold the epoch's own measurements, so the covariance is somewhat
+ * optimistic; the weights matter where one pass is far better than the other: at the first epochs of a
+ * static occupation the forward pass has only those epochs while the backward pass has the whole of it.
+ */
+function weightedMean(f: PassResult, b: PassResult, k: number): { x: number[]; c: number[] } | null {
+  const wf = inv3(f.covariance, 6 * k), wb = inv3(b.covariance, 6 * k);
+  if (!wf || !wb) return null;
+  const c = inv3(wf.map((v, i) => v + wb[i]), 0);
+  if (!c) return null;
+  const xf = [0, 1, 2].map((i) => f.position[3 * k + i]);
+  const xb = [0, 1, 2].map((i) => b.position[3 * k + i]);
+  const s1 = mulSym(wf, xf), s2 = mulSym(wb, xb);
+  return { x: mulSym(c, [s1[0] + s2[0], s1[1] + s2[1], s1[2] + s2[2]]), c };
 }
