@@ -17,7 +17,7 @@ import { fileURLToPath } from 'node:url';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const data = resolve(root, '..', 'shared', 'data');
-const cli = join(root, 'packages', 'cli', 'dist', 'main.js');
+const cli = join(root, 'packages', 'cli', 'dist', 'cli-entry.js');
 const S = `${data}/cors-and-rover-2018-277`;
 const SS = `${data}/single-station`;
 const nav18 = [`${S}/reference/glw1277m.18n`, `${S}/reference/glw1277m.18g`];

@@ -5,10 +5,12 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fixturePath } from '../../../../test/support/shared.js';
+import { rng } from '../../../../test/support/random.js';
 import { FormatError, InputError } from '../errors.js';
 import type { Warning } from '../errors.js';
 import { applyTextDiff, applyFlagDiff } from './text-diff.js';
 import { formatFixed, formatObs, parseSignedInt } from './fixed-point.js';
+import { PlainTextBuffer } from './plain-text-buffer.js';
 import { encodingsFromName, openText } from './index.js';
 
 async function* chunked(bytes: Uint8Array, size: number): AsyncIterable<Uint8Array> {
@@ -136,6 +138,20 @@ describe('compact RINEX building blocks', () => {
     expect(parseSignedInt('12a', 0, 3)).toBeNaN();
     expect(parseSignedInt('', 0, 0)).toBeNaN();
     expect(parseSignedInt('99999999999999999', 0, 17)).toBeNaN();
+  });
+
+  it('plain output buffer: F14.3 fields byte for byte as formatObs writes them, non-ASCII text kept', () => {
+    const units = [0, -0, 5, -5, 205, 999, 1000, -1000, 123456789, -5936986221, 9999999999999, -9999999999999, 2147483647999, 2147483648000, -2147483648000, 1e15, 2 ** 53, -(2 ** 53)];
+    const random = rng(20240110);
+    for (let k = 0; k < 2000; k++) units.push(Math.round((random() - 0.5) * 10 ** (1 + random() * 14)));
+    const out = new PlainTextBuffer((b) => new TextDecoder('latin1').decode(b));
+    for (const u of units) {
+      out.obsField(u);
+      out.newline();
+    }
+    out.line('comment \u00e9\u20ac');
+    out.commit();
+    expect(out.takeText()).toBe(units.map((u) => formatObs(u) + '\n').join('') + 'comment \u00e9\u20ac\n');
   });
 
   it('file-name hints (RINEX 2.11 / 3.05 section 4 file names)', () => {

@@ -23,10 +23,12 @@
  * Output (plain RINEX): observations F14.3 + LLI + SSI; RINEX 2.11 (section 5.1, table A2): 5 per line,
  * epoch line with 12 satellites per line and continuation lines from column 33, clock F12.9 in columns
  * 69-80; RINEX 3.05 (table A3): one line per satellite, clock F15.12 in columns 42-56. Trailing blanks
- * are not written (common practice).
+ * are not written (common practice). The lines are written as bytes (plain-text-buffer.ts) and handed
+ * out as text once per chunk.
  */
 import { FormatError } from '../errors.js';
-import { formatFixed, formatObs, parseSignedInt, spaces } from './fixed-point.js';
+import { formatFixed, parseSignedInt, spaces } from './fixed-point.js';
+import { PlainTextBuffer } from './plain-text-buffer.js';
 import { ALL_SYSTEMS_KEY, headerLabel, newObsTypeCounts, readHeaderLine } from './obs-type-counts.js';
 import type { ObsTypeCounts } from './obs-type-counts.js';
 import { applyFlagDiff, applyTextDiff } from './text-diff.js';
@@ -40,7 +42,7 @@ export type CrxProblemSink = (line: number, code: string, message: string) => vo
 interface Arc {
   readonly order: number;
   count: number;
-  readonly d: number[];
+  readonly d: Float64Array;
 }
 
 interface SatState {
@@ -53,10 +55,8 @@ type Phase = 'crx-header' | 'header' | 'epoch' | 'clock' | 'sats' | 'event' | 'r
 /** Longest epoch line accepted (999 satellites of 3 characters after column 41). */
 const MAX_EPOCH_LINE = 41 + 3 * 999;
 
-/** A missing observation: value and flags blank (the flag state is kept for the next epochs). */
-const BLANK_FIELD = '                ';
-const CH: string[] = [];
-for (let i = 0; i < 256; i++) CH.push(String.fromCharCode(i));
+/** Columns of an observation field (F14.3, LLI, SSI); a missing one is blank, flags included (their state is kept). */
+const FIELD_COLUMNS = 16;
 
 // RINEX 2.11 table A2 epoch line (columns 2-32) / RINEX 3.05 table A3 epoch line (columns 1-35).
 const DATA_EPOCH_CRX1 = /^[ &][ \d]\d( [ \d]\d){4}[ \d]{2}\d\.\d{7}  [016][ \d]{2}\d/;
@@ -68,9 +68,10 @@ export class CompactRinexDecoder {
   private phase: Phase = 'crx-header';
   private lineNo = 0;
   private readonly types: ObsTypeCounts = newObsTypeCounts();
-  private out: string[] = [];
-  private outChars = 0;
-  private epochOut: string[] = [];
+  /** Plain lines: header lines committed as they come, an epoch's lines once the epoch is complete. */
+  private readonly plain: PlainTextBuffer;
+  /** An observation line's values (integer thousandths; NaN = blank), reused from line to line. */
+  private values = new Float64Array(64);
   private prevEpoch: string | null = null;
   private prevSats = new Map<string, SatState>();
   private curSats = new Map<string, SatState>();
@@ -89,7 +90,10 @@ export class CompactRinexDecoder {
     readonly file: string,
     readonly version: CompactRinexVersion,
     private readonly problem: CrxProblemSink,
+    /** Bytes to text for the ASCII output (any single-byte decoder; Node's Buffer latin1 is the fastest). */
+    decodeSingleByte: (bytes: Uint8Array) => string = latin1Decoder(),
   ) {
+    this.plain = new PlainTextBuffer(decodeSingleByte);
     this.initChar = version === 1 ? '&' : '>';
     this.satListColumn = version === 1 ? 32 : 41;
   }
@@ -99,17 +103,14 @@ export class CompactRinexDecoder {
     return this.lineNo;
   }
 
-  /** Characters of plain text waiting in take(). */
+  /** Characters of plain text waiting in takeText() (about: non-ASCII characters count as their UTF-8 bytes). */
   get pendingChars(): number {
-    return this.outChars;
+    return this.plain.committedLength;
   }
 
-  /** The plain lines produced so far (each without its line end), emptied. */
-  take(): string[] {
-    const o = this.out;
-    this.out = [];
-    this.outChars = 0;
-    return o;
+  /** The plain lines of the complete records decoded so far, each ending in '\n', emptied. */
+  takeText(): string {
+    return this.plain.takeText();
   }
 
   /** One line of the compact file, without its line end. */
@@ -161,14 +162,8 @@ export class CompactRinexDecoder {
     }
   }
 
-  private emit(line: string): void {
-    this.out.push(line);
-    this.outChars += line.length + 1;
-  }
-
   private flushEpoch(): void {
-    for (const l of this.epochOut) this.emit(l);
-    this.epochOut = [];
+    this.plain.commit();
   }
 
   private crxHeaderLine(line: string): void {
@@ -186,7 +181,8 @@ export class CompactRinexDecoder {
 
   private headerLine(line: string): void {
     const label = readHeaderLine(line, this.types);
-    this.emit(line);
+    this.plain.line(line);
+    this.plain.commit();
     if (this.lineNo === 3 || (this.lineNo <= 3 && label === 'RINEX VERSION / TYPE')) {
       // RINEX 2.11 / 3.05 section 5.1: 'RINEX VERSION / TYPE' is the first header record.
       if (label !== 'RINEX VERSION / TYPE') {
@@ -214,7 +210,7 @@ export class CompactRinexDecoder {
 
   /** A damaged record: report it, drop the epoch being decoded, skip to the next initialisation epoch. */
   private damage(line: number, reason: string): void {
-    this.epochOut = [];
+    this.plain.rollback();
     this.resetState();
     this.phase = 'resync';
     this.damagedAt = line;
@@ -255,7 +251,7 @@ export class CompactRinexDecoder {
     const count = Number(text.slice(flagCol + 1, flagCol + 4));
     if (flag >= 2 && flag <= 5 && (v1 ? EVENT_EPOCH_CRX1 : EVENT_EPOCH_CRX3).test(text)) {
       // Event record: written in full, its header lines follow as they are; not a reference for differences.
-      this.epochOut.push(v1 ? (' ' + text.slice(1)).trimEnd() : text.trimEnd());
+      this.plain.line(v1 ? (' ' + text.slice(1)).trimEnd() : text.trimEnd());
       this.remaining = count;
       if (count === 0) this.flushEpoch();
       else this.phase = 'event';
@@ -313,12 +309,12 @@ export class CompactRinexDecoder {
       if (head.length < 32) head += spaces(32 - head.length);
       let first = head + sats.slice(0, 12).join('');
       if (clock !== null) first = first + spaces(68 - first.length) + formatFixed(clock, 9, 12);
-      this.epochOut.push(first.trimEnd());
-      for (let k = 12; k < sats.length; k += 12) this.epochOut.push(spaces(32) + sats.slice(k, k + 12).join(''));
+      this.plain.line(first.trimEnd());
+      for (let k = 12; k < sats.length; k += 12) this.plain.line(spaces(32) + sats.slice(k, k + 12).join(''));
     } else {
       let head = text.slice(0, 41).trimEnd();
       if (clock !== null) head = head + spaces(41 - head.length) + formatFixed(clock, 12, 15);
-      this.epochOut.push(head);
+      this.plain.line(head);
     }
   }
 
@@ -331,7 +327,8 @@ export class CompactRinexDecoder {
       st = { arcs: new Array<Arc | null>(nTypes).fill(null), flags: new Uint8Array(2 * nTypes).fill(32) };
     }
     const arcs = st.arcs;
-    const values = new Array<number>(nTypes);
+    if (this.values.length < nTypes) this.values = new Float64Array(nTypes);
+    const values = this.values;
     let pos = 0;
     const len = line.length;
     for (let j = 0; j < nTypes; j++) {
@@ -341,29 +338,27 @@ export class CompactRinexDecoder {
         pos = len + 1;
         continue;
       }
+      // the field runs to the next blank: a difference (an integer), or 'M&value' (an arc initialisation)
       let end = line.indexOf(' ', pos);
       if (end < 0) end = len;
+      const u = end === pos ? NaN : parseSignedInt(line, pos, end);
       if (end === pos) {
         arcs[j] = null;
         values[j] = NaN;
+      } else if (u === u) {
+        const arc = arcs[j];
+        if (arc === null) return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: difference without an initialisation (M&value expected)`);
+        values[j] = stepArc(arc, u);
       } else {
         const amp = line.indexOf('&', pos);
-        if (amp >= 0 && amp < end) {
-          const order = parseSignedInt(line, pos, amp);
-          const v = parseSignedInt(line, amp + 1, end);
-          if (!(order >= 0 && order <= 9) || Number.isNaN(v)) {
-            return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: "${line.slice(pos, Math.min(end, pos + 24))}" is not 'M&value'`);
-          }
-          const arc = newArc(order, v);
-          arcs[j] = arc;
-          values[j] = v;
-        } else {
-          const u = parseSignedInt(line, pos, end);
-          if (Number.isNaN(u)) return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: "${line.slice(pos, Math.min(end, pos + 24))}" is not an integer difference`);
-          const arc = arcs[j];
-          if (arc === null) return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: difference without an initialisation (M&value expected)`);
-          values[j] = stepArc(arc, u);
+        if (amp < 0 || amp >= end) return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: "${line.slice(pos, Math.min(end, pos + 24))}" is not an integer difference`);
+        const order = parseSignedInt(line, pos, amp);
+        const v = parseSignedInt(line, amp + 1, end);
+        if (!(order >= 0 && order <= 9) || Number.isNaN(v)) {
+          return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: "${line.slice(pos, Math.min(end, pos + 24))}" is not 'M&value'`);
         }
+        arcs[j] = newArc(order, v);
+        values[j] = v;
       }
       pos = end + 1;
     }
@@ -371,32 +366,47 @@ export class CompactRinexDecoder {
       return this.damage(this.lineNo, `satellite ${sat}: LLI/SSI flag text "${line.slice(pos, pos + 40)}" is not digits, blanks and '&' of at most ${2 * nTypes} characters`);
     }
     this.curSats.set(sat, st);
-    this.writeSatLines(sat, values, st.flags);
+    this.writeSatLines(sat, values, nTypes, st.flags);
     this.satIndex++;
     if (this.satIndex === this.epochSats.length) this.endDataEpoch();
   }
 
-  private writeSatLines(sat: string, values: number[], flags: Uint8Array): void {
-    const n = values.length;
+  /** The plain observation line(s) of a satellite, trailing blanks left out. */
+  private writeSatLines(sat: string, values: Float64Array, n: number, flags: Uint8Array): void {
+    const out = this.plain;
     if (this.version === 3) {
-      let s = sat;
-      for (let j = 0; j < n; j++) {
-        const v = values[j];
-        s += v === v ? formatObs(v) + CH[flags[2 * j]] + CH[flags[2 * j + 1]] : BLANK_FIELD;
+      const start = out.position;
+      out.text(sat);
+      const fieldsStart = out.position;
+      this.writeFields(values, 0, n, flags);
+      out.trimTrailingBlanks(fieldsStart);
+      if (out.position === fieldsStart) {
+        // nothing but blanks after the id: the line is the id with its own trailing white space trimmed
+        out.truncate(start);
+        out.text(sat.trimEnd());
       }
-      this.epochOut.push(s.trimEnd());
+      out.newline();
       return;
     }
     // RINEX 2.11 table A2: 5 observations per 80-column line.
     for (let j0 = 0; j0 < n || j0 === 0; j0 += 5) {
-      let s = '';
-      const j1 = Math.min(n, j0 + 5);
-      for (let j = j0; j < j1; j++) {
-        const v = values[j];
-        s += v === v ? formatObs(v) + CH[flags[2 * j]] + CH[flags[2 * j + 1]] : BLANK_FIELD;
-      }
-      this.epochOut.push(s.trimEnd());
+      const start = out.position;
+      this.writeFields(values, j0, Math.min(n, j0 + 5), flags);
+      out.trimTrailingBlanks(start);
+      out.newline();
       if (n === 0) break;
+    }
+  }
+
+  /** Observation fields [from, to): F14.3, LLI, SSI each, or blank columns for a missing value. */
+  private writeFields(values: Float64Array, from: number, to: number, flags: Uint8Array): void {
+    const out = this.plain;
+    for (let j = from; j < to; j++) {
+      const v = values[j]!;
+      if (v === v) {
+        out.obsField(v);
+        out.pair(flags[2 * j]!, flags[2 * j + 1]!);
+      } else out.blanks(FIELD_COLUMNS);
     }
   }
 
@@ -409,7 +419,7 @@ export class CompactRinexDecoder {
 
   private eventLine(line: string): void {
     readHeaderLine(line, this.types);
-    this.epochOut.push(line);
+    this.plain.line(line);
     this.remaining--;
     if (this.remaining <= 0) {
       this.flushEpoch();
@@ -418,8 +428,14 @@ export class CompactRinexDecoder {
   }
 }
 
+/** TextDecoder('latin1') as a function (the default single-byte decoder; the output it decodes is ASCII). */
+function latin1Decoder(): (bytes: Uint8Array) => string {
+  const d = new TextDecoder('latin1');
+  return (bytes) => d.decode(bytes);
+}
+
 function newArc(order: number, value: number): Arc {
-  const d = new Array<number>(order + 1).fill(0);
+  const d = new Float64Array(order + 1);
   d[0] = value;
   return { order, count: 0, d };
 }

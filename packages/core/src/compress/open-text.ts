@@ -97,7 +97,7 @@ export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, o
     });
   }
   const chars = opts.decodeLatin1 ? decodeBytewise(src.chunks(), opts.decodeLatin1) : decodeLatin1(src.chunks());
-  const text = crx === null ? normaliseLineEnds(chars) : decodeCompact(file, crx, chars, onWarning);
+  const text = crx === null ? normaliseLineEnds(chars) : decodeCompact(file, crx, chars, onWarning, opts.decodeLatin1);
   return { layers: layers.length > 0 ? layers : ['plain'], text };
 }
 
@@ -156,15 +156,13 @@ async function* decodeCompact(
   version: CompactRinexVersion,
   chunks: AsyncIterable<string>,
   onWarning: WarningSink | undefined,
+  decodeSingleByte: ((bytes: Uint8Array) => string) | undefined,
 ): AsyncIterable<string> {
   const dec = new CompactRinexDecoder(file, version, (line, code, message) => {
     if (onWarning) onWarning({ file, line, code, message });
     else if (code !== 'crx-resumed') throw new InputError(file, line, message);
-  });
-  const flush = (): string => {
-    const lines = dec.take();
-    return lines.length > 0 ? lines.join('\n') + '\n' : '';
-  };
+  }, decodeSingleByte);
+  const flush = (): string => dec.takeText();
   let rest = '';
   try {
     for await (const c of chunks) {
