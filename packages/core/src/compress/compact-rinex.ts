@@ -29,6 +29,7 @@
 import { FormatError } from '../errors.js';
 import { formatFixed, parseSignedInt, spaces } from './fixed-point.js';
 import { PlainTextBuffer } from './plain-text-buffer.js';
+import type { ObservationRecords } from './observation-records.js';
 import { ALL_SYSTEMS_KEY, headerLabel, newObsTypeCounts, readHeaderLine } from './obs-type-counts.js';
 import type { ObsTypeCounts } from './obs-type-counts.js';
 import { applyFlagDiff, applyTextDiff } from './text-diff.js';
@@ -55,8 +56,8 @@ type Phase = 'crx-header' | 'header' | 'epoch' | 'clock' | 'sats' | 'event' | 'r
 /** Longest epoch line accepted (999 satellites of 3 characters after column 41). */
 const MAX_EPOCH_LINE = 41 + 3 * 999;
 
-/** Columns of an observation field (F14.3, LLI, SSI); a missing one is blank, flags included (their state is kept). */
-const FIELD_COLUMNS = 16;
+/** A satellite id as the observation reader reads it (system letter, two digits or blank + digit): such a record may travel as numbers. */
+const PLAIN_SAT_ID = /^[A-Z][ \d]\d$/;
 
 // RINEX 2.11 table A2 epoch line (columns 2-32) / RINEX 3.05 table A3 epoch line (columns 1-35).
 const DATA_EPOCH_CRX1 = /^[ &][ \d]\d( [ \d]\d){4}[ \d]{2}\d\.\d{7}  [016][ \d]{2}\d/;
@@ -92,6 +93,8 @@ export class CompactRinexDecoder {
     private readonly problem: CrxProblemSink,
     /** Bytes to text for the ASCII output (any single-byte decoder; Node's Buffer latin1 is the fastest). */
     decodeSingleByte: (bytes: Uint8Array) => string = latin1Decoder(),
+    /** Claimed by the observation reader (observation-records.ts): RINEX 3 records go there as numbers. */
+    private readonly records: ObservationRecords | null = null,
   ) {
     this.plain = new PlainTextBuffer(decodeSingleByte);
     this.initChar = version === 1 ? '&' : '>';
@@ -164,6 +167,7 @@ export class CompactRinexDecoder {
 
   private flushEpoch(): void {
     this.plain.commit();
+    this.records?.commit();
   }
 
   private crxHeaderLine(line: string): void {
@@ -211,6 +215,7 @@ export class CompactRinexDecoder {
   /** A damaged record: report it, drop the epoch being decoded, skip to the next initialisation epoch. */
   private damage(line: number, reason: string): void {
     this.plain.rollback();
+    this.records?.rollback();
     this.resetState();
     this.phase = 'resync';
     this.damagedAt = line;
@@ -366,7 +371,14 @@ export class CompactRinexDecoder {
       return this.damage(this.lineNo, `satellite ${sat}: LLI/SSI flag text "${line.slice(pos, pos + 40)}" is not digits, blanks and '&' of at most ${2 * nTypes} characters`);
     }
     this.curSats.set(sat, st);
-    this.writeSatLines(sat, values, nTypes, st.flags);
+    if (this.records !== null && this.version === 3 && allFitObsField(values, nTypes) && PLAIN_SAT_ID.test(sat)) {
+      // the placeholder: the id, blank to the length of the text line, so the text keeps its size
+      // (chunks, the reader's look-ahead and a strict decoder's error fall as with the full text)
+      this.plain.text(sat);
+      this.plain.blanks(rinex3LineLength(values, st.flags, nTypes) - 3);
+      this.plain.newline();
+      this.records.add(this.plain.lineNumber, values, st.flags, nTypes);
+    } else this.writeSatLines(sat, values, nTypes, st.flags);
     this.satIndex++;
     if (this.satIndex === this.epochSats.length) this.endDataEpoch();
   }
@@ -378,7 +390,7 @@ export class CompactRinexDecoder {
       const start = out.position;
       out.text(sat);
       const fieldsStart = out.position;
-      this.writeFields(values, 0, n, flags);
+      out.observationFields(values, flags, 0, n);
       out.trimTrailingBlanks(fieldsStart);
       if (out.position === fieldsStart) {
         // nothing but blanks after the id: the line is the id with its own trailing white space trimmed
@@ -391,22 +403,10 @@ export class CompactRinexDecoder {
     // RINEX 2.11 table A2: 5 observations per 80-column line.
     for (let j0 = 0; j0 < n || j0 === 0; j0 += 5) {
       const start = out.position;
-      this.writeFields(values, j0, Math.min(n, j0 + 5), flags);
+      out.observationFields(values, flags, j0, Math.min(n, j0 + 5));
       out.trimTrailingBlanks(start);
       out.newline();
       if (n === 0) break;
-    }
-  }
-
-  /** Observation fields [from, to): F14.3, LLI, SSI each, or blank columns for a missing value. */
-  private writeFields(values: Float64Array, from: number, to: number, flags: Uint8Array): void {
-    const out = this.plain;
-    for (let j = from; j < to; j++) {
-      const v = values[j]!;
-      if (v === v) {
-        out.obsField(v);
-        out.pair(flags[2 * j]!, flags[2 * j + 1]!);
-      } else out.blanks(FIELD_COLUMNS);
     }
   }
 
@@ -426,6 +426,29 @@ export class CompactRinexDecoder {
       this.phase = 'epoch';
     }
   }
+}
+
+/** True when every present value of values[0, n) has the standard F14.3 text (see PlainTextBuffer.fitsObsField). */
+function allFitObsField(values: Float64Array, n: number): boolean {
+  for (let j = 0; j < n; j++) {
+    const u = values[j]!;
+    if (u === u && !PlainTextBuffer.fitsObsField(u)) return false;
+  }
+  return true;
+}
+
+/**
+ * Length of a RINEX 3 observation line as writeSatLines writes it: the 3-character id, then 16 columns
+ * per field up to the last value present and its last non-blank flag character.
+ */
+function rinex3LineLength(values: Float64Array, flags: Uint8Array, n: number): number {
+  for (let j = n - 1; j >= 0; j--) {
+    const u = values[j]!;
+    if (u !== u) continue;
+    const flagChars = flags[2 * j + 1] !== 32 ? 2 : flags[2 * j] !== 32 ? 1 : 0;
+    return 3 + 16 * j + 14 + flagChars;
+  }
+  return 3;
 }
 
 /** TextDecoder('latin1') as a function (the default single-byte decoder; the output it decodes is ASCII). */

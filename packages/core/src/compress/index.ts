@@ -4,6 +4,8 @@ export type { OpenTextOptions, OpenedText } from './open-text.js';
 export type { Encoding } from './encoding.js';
 export { encodingsFromName, sniffBinaryLayer, sniffCompactRinex } from './encoding.js';
 export { CompactRinexDecoder } from './compact-rinex.js';
+export { claimObservationRecords } from './observation-records.js';
+export type { ObservationRecords } from './observation-records.js';
 export type { CompactRinexVersion, CrxProblemSink } from './compact-rinex.js';
 export { UnixCompressDecoder, UnixCompressDamage, decompressUnix } from './unix-compress.js';
 export { gunzip } from './gzip.js';

@@ -12,6 +12,7 @@ import { FormatError, InputError, RefdeltaError } from '../errors.js';
 import type { WarningSink } from '../errors.js';
 import { PeekableBytes } from './byte-source.js';
 import { CompactRinexDecoder } from './compact-rinex.js';
+import { ObservationRecords, offerObservationRecords } from './observation-records.js';
 import type { CompactRinexVersion } from './compact-rinex.js';
 import { encodingsFromName, sniffBinaryLayer, sniffCompactRinex, sniffUnsupported } from './encoding.js';
 import type { Encoding } from './encoding.js';
@@ -97,7 +98,11 @@ export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, o
     });
   }
   const chars = opts.decodeLatin1 ? decodeBytewise(src.chunks(), opts.decodeLatin1) : decodeLatin1(src.chunks());
-  const text = crx === null ? normaliseLineEnds(chars) : decodeCompact(file, crx, chars, onWarning, opts.decodeLatin1);
+  if (crx === null) return { layers: layers.length > 0 ? layers : ['plain'], text: normaliseLineEnds(chars) };
+  const records = new ObservationRecords();
+  const text = decodeCompact(file, crx, chars, onWarning, opts.decodeLatin1, records);
+  // RINEX 3 observation values may travel as numbers to the observation reader (observation-records.ts)
+  if (crx === 3) offerObservationRecords(text, records);
   return { layers: layers.length > 0 ? layers : ['plain'], text };
 }
 
@@ -157,11 +162,13 @@ async function* decodeCompact(
   chunks: AsyncIterable<string>,
   onWarning: WarningSink | undefined,
   decodeSingleByte: ((bytes: Uint8Array) => string) | undefined,
+  records: ObservationRecords,
 ): AsyncIterable<string> {
+  records.started = true;
   const dec = new CompactRinexDecoder(file, version, (line, code, message) => {
     if (onWarning) onWarning({ file, line, code, message });
     else if (code !== 'crx-resumed') throw new InputError(file, line, message);
-  }, decodeSingleByte);
+  }, decodeSingleByte, records.claimed ? records : null);
   const flush = (): string => dec.takeText();
   let rest = '';
   try {

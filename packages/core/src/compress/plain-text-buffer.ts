@@ -16,6 +16,8 @@ const NEWLINE = 10;
 const MINUS = 45;
 const POINT = 46;
 const ZERO = 48;
+/** Columns of an observation field: F14.3, LLI, SSI (RINEX 3.05 table A3, RINEX 2.11 table A2). */
+const FIELD_COLUMNS = 16;
 /**
  * Thousandths written by the digit loop: an integer part up to 2^31 - 1 (int32 arithmetic; observables
  * stay far below); larger magnitudes (damaged files) go through formatObs itself.
@@ -27,6 +29,9 @@ export class PlainTextBuffer {
   private bytes = new Uint8Array(1 << 17);
   private len = 0;
   private committed = 0;
+  /** Lines written since the start (taken, committed and not), and those committed. */
+  private lines = 0;
+  private committedLines = 0;
   /** True when bytes above 0x7F (UTF-8 of non-ASCII text) were written since the last takeText. */
   private nonAscii = false;
   private readonly encoder = new TextEncoder();
@@ -44,14 +49,21 @@ export class PlainTextBuffer {
     return this.len;
   }
 
+  /** Number of the last line written (1-based, over everything written since the start). */
+  get lineNumber(): number {
+    return this.lines;
+  }
+
   /** The lines written since the last commit become complete records. */
   commit(): void {
     this.committed = this.len;
+    this.committedLines = this.lines;
   }
 
   /** Drops the lines written since the last commit. */
   rollback(): void {
     this.len = this.committed;
+    this.lines = this.committedLines;
   }
 
   /** Drops what was written after `at` (a position read before, not before the last commit). */
@@ -107,6 +119,7 @@ export class PlainTextBuffer {
   newline(): void {
     this.reserve(1);
     this.bytes[this.len++] = NEWLINE;
+    this.lines++;
   }
 
   /** `n` blanks. */
@@ -122,6 +135,11 @@ export class PlainTextBuffer {
     this.bytes[this.len] = c1;
     this.bytes[this.len + 1] = c2;
     this.len += 2;
+  }
+
+  /** True when formatObs writes `thousandths` in 14 columns, the point in the 11th (the standard F14.3 layout). */
+  static fitsObsField(thousandths: number): boolean {
+    return thousandths >= 0 ? thousandths <= 9_999_999_999_999 : thousandths >= -999_999_999_999;
   }
 
   /**
@@ -166,6 +184,20 @@ export class PlainTextBuffer {
     b[at + 2] = ZERO + (((fp32 / 10) | 0) % 10);
     b[at + 3] = ZERO + (fp32 % 10);
     this.len = at + 4;
+  }
+
+  /**
+   * Observation fields [from, to) of a record: F14.3 of the thousandths, then the LLI and SSI
+   * characters (codes, two per value); a blank value (NaN) is 16 blank columns, flags included.
+   */
+  observationFields(thousandths: Float64Array, flagChars: Uint8Array, from: number, to: number): void {
+    for (let j = from; j < to; j++) {
+      const u = thousandths[j]!;
+      if (u === u) {
+        this.obsField(u);
+        this.pair(flagChars[2 * j]!, flagChars[2 * j + 1]!);
+      } else this.blanks(FIELD_COLUMNS);
+    }
   }
 
   /** Removes blanks at the end of what is written, back to `from` at most (a line's trimEnd over blanks). */

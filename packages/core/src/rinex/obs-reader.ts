@@ -6,6 +6,10 @@
  * Reads the header fully, then hands out epochs one at a time (memory bounded by one chunk + one epoch).
  * Garbled or truncated epochs are reported as warnings naming the file and line and skipped; reading
  * resumes at the next recognisable epoch record.
+ *
+ * Given openText's own text of a compact RINEX 3 file, the reader claims its observation records
+ * (compress/observation-records.ts): the values then come as numbers beside placeholder lines, the
+ * same values the text would give, and every other line is read as text.
  */
 import type { GnssSystem, SatId } from '../gnss/index.js';
 import { isGnssSystem } from '../gnss/index.js';
@@ -17,6 +21,8 @@ import type { AntennaOffset, HeaderEvent, ObsEpoch, ObsHeader, ObsStream, SatObs
 import { LineCursor, SPAN_END, SPAN_FILL } from './text-lines.js';
 import { digitAt, digitIn, fieldState, parseF14p3In, parseFixed, parseIntField } from './obs-fields.js';
 import { ObsHeaderBuilder, headerLabel, parseVersionLine } from './obs-header.js';
+import { claimObservationRecords } from '../compress/index.js';
+import type { ObservationRecords } from '../compress/index.js';
 
 export interface ReadObsOptions {
   readonly onWarning?: WarningSink;
@@ -31,6 +37,7 @@ const EVENT_KINDS: Readonly<Record<number, HeaderEvent['kind']>> = {
 /** Reads the header of a RINEX observation text and returns it with a lazy epoch iterable. */
 export async function readObsStream(file: string, text: AsyncIterable<string>, opts?: ReadObsOptions): Promise<ObsStream> {
   const warn: WarningSink = opts?.onWarning ?? (() => {});
+  const records = claimObservationRecords(text);
   const cur = new LineCursor(text, file);
   let first = await cur.next();
   if (first === null) throw new FormatError(file, 0, `${file} is empty, not a RINEX observation file`);
@@ -51,7 +58,7 @@ export async function readObsStream(file: string, text: AsyncIterable<string>, o
     hb.line(line, cur.lineNumber);
   }
   const header = hb.build(cur.lineNumber);
-  const parser = new EpochParser(file, header, cur, warn);
+  const parser = new EpochParser(file, header, cur, warn, records);
   return { file, header, epochs: parser.epochs() };
 }
 
@@ -133,6 +140,8 @@ class EpochParser {
     private readonly header: ObsHeader,
     private readonly cur: LineCursor,
     private warnSink: WarningSink,
+    /** Observation values that come as numbers (compact RINEX 3 through openText), or null. */
+    private records: ObservationRecords | null,
   ) {
     this.r3 = header.version >= 3;
     this.codes = { ...header.obsCodes };
@@ -179,6 +188,7 @@ class EpochParser {
         if (l === undefined) l = await cur.next();
         if (l === null) return;
         const lineNo = cur.lineNumber;
+        this.records?.dropBefore(lineNo);
         const isEpoch = this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l);
         if (!isEpoch) {
           if (l.trim() === '') continue; // blank lines between epochs: tolerated
@@ -219,6 +229,7 @@ class EpochParser {
   private retire(): void {
     this.cur.release();
     this.slab.release();
+    this.records = null;
     this.warnSink = ignoreWarning;
     lastRetired = this;
   }
@@ -396,7 +407,8 @@ class EpochParser {
         this.noTypes(sat.charAt(0), sat);
         continue;
       }
-      const out = this.values(src, a + 3, e, codes, this.divBy[sc]!, sat, 0, codes.length, null);
+      const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
+      const out = rec < 0 ? this.values(src, a + 3, e, codes, this.divBy[sc]!, sat, 0, codes.length, null) : this.recordValues(rec, sat, codes, this.divBy[sc]!);
       if (out === null) return this.requestResync(cur.lineNumber, `garbled observation record of ${sat}: expected F14.3 values with LLI and SSI digits`);
       sats.push(out);
     }
@@ -464,6 +476,21 @@ class EpochParser {
       ssi[k] = b;
     }
     return fieldState.bad || digits < 0 ? null : r;
+  }
+
+  /**
+   * A record that came as numbers (see observation-records.ts); when its count of values is not the
+   * header's for the system, its text line is made and parsed as any other.
+   */
+  private recordValues(rec: number, sat: SatId, codes: readonly string[], div: Float64Array | null): SatObservations | null {
+    const records = this.records!;
+    if (records.size(rec) !== codes.length) {
+      const text = records.lineText(rec, this.cur.spanText().slice(0, 3));
+      return this.values(text, 3, text.length, codes, div, sat, 0, codes.length, null);
+    }
+    const r = this.slab.sat(sat, codes);
+    records.copyTo(rec, r.values, r.lli, r.ssi, div);
+    return r;
   }
 
   /** The N header records that follow an event epoch (flags 2-5; RINEX 3.05 5.3.3 / RINEX 2.11 5.3). */
