@@ -48,12 +48,17 @@ if (only === 0 || only === 1) {
     verdict(`reader from bytes / Buffer latin1 + split floor, CPU, ${r.name.split(' ')[0]}`, `${fmt(100 * r.fromBytes.cpuRatio, 1)} % (${fmt(r.fromBytes.parserCpuMs)} vs ${fmt(r.fromBytes.bareCpuMs)} ms CPU; wall ${fmt(100 * r.fromBytes.ratio, 1)} %)`, '>= 40 %', r.fromBytes.cpuRatio >= 0.4);
   }
   printTable(rows, [0, 7]);
-  const byteRows = [['file', 'reader CPU ms', 'floor CPU ms', 'floor/reader (CPU)', 'reader MB/s (wall)', 'floor MB/s (wall)', 'floor/reader (wall)']];
-  for (const r of results) if (!r.skipped) byteRows.push([r.name, fmt(r.fromBytes.parserCpuMs), fmt(r.fromBytes.bareCpuMs), `${fmt(100 * r.fromBytes.cpuRatio, 1)} %`, fmt(r.fromBytes.parserMBs, 1), fmt(r.fromBytes.bareMBs), `${fmt(100 * r.fromBytes.ratio, 1)} %`]);
+  const byteRows = [['file', 'reader CPU ms', 'floor CPU ms', 'floor/reader (CPU)', 'reader MB/s (wall)', 'floor MB/s (wall)', 'floor/reader (wall)', 'JS byte pass CPU ms', 'floor/JS pass']];
+  for (const r of results) if (!r.skipped) byteRows.push([r.name, fmt(r.fromBytes.parserCpuMs), fmt(r.fromBytes.bareCpuMs), `${fmt(100 * r.fromBytes.cpuRatio, 1)} %`, fmt(r.fromBytes.parserMBs, 1), fmt(r.fromBytes.bareMBs), `${fmt(100 * r.fromBytes.ratio, 1)} %`, fmt(r.fromBytes.jsPassCpuMs, 1), `${fmt(100 * r.fromBytes.bareCpuMs / r.fromBytes.jsPassCpuMs, 1)} %`]);
   console.log('From the bytes of the plain file (reader: openText with Buffer latin1 decoding + readObsStream on 64 KiB byte chunks, as the command line; floor: Buffer latin1 decode + split + count):');
   printTable(byteRows, [0]);
+  console.log('JS byte pass: one loop reading every byte once from a Uint8Array (parses nothing): a JavaScript reader that looks at every character is at best near this share of the floor.');
   for (const r of results) {
     if (r.decode) console.log(`compact RINEX decode (openText on the gunzipped .crx, ${fmt(r.decode.crxMB, 1)} MB in -> ${fmt(r.mb, 1)} MB out): ${fmt(r.decode.decodeMBs, 1)} MB/s of plain output (median of ${r.decode.runs})`);
+    if (r.decode?.fromCrx) {
+      const c = r.decode.fromCrx;
+      console.log(`reader from the .crx bytes (decoding included, as the command line): ${fmt(c.readerCpuMs)} ms CPU; floor on the same ${fmt(r.decode.crxMB, 1)} MB ${fmt(c.floorCpuMs)} ms: ${fmt(100 * c.cpuRatio, 1)} % (info)`);
+    }
   }
   console.log('bare scan: the faster of split and an indexOf loop that makes every line a string (each is measured).\n');
 }
