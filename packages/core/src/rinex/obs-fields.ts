@@ -65,25 +65,24 @@ export function parseF14p3(line: string, c: number): number {
   return parseF14p3In(line, c, line.length);
 }
 
-/** parseF14p3 on a line that ends at `end` (exclusive) inside `s` (a chunk holding many lines). */
+/**
+ * parseF14p3 on a line that ends at `end` (exclusive) inside `s` (a chunk holding many lines).
+ * Kept small so that V8 inlines it into the reader's loop (its bytecode under the inlining limit,
+ * --max-inlined-bytecode-size, 460 bytes): the rare layouts (ten integer digits, no digit before the
+ * point, other characters) go to parseFixedIn, which gives the same value.
+ */
 export function parseF14p3In(s: string, c: number, end: number): number {
   const point = c + 10;
   if (end < c + 14 || s.charCodeAt(point) !== 46) return parseFixedIn(s, c, end < c + 14 ? end : c + 14);
   let i = c;
   let ch = s.charCodeAt(i);
-  while (ch === 32 && i < point) ch = s.charCodeAt(++i);
-  let neg = false;
-  if (ch === 45) { neg = true; ch = s.charCodeAt(++i); }
-  // Integer part in 32-bit integer arithmetic: at most 9 digits fit (common practice: int32 adds are
-  // cheaper than double multiply-adds in V8); a 10th digit (>= 1e9 m or cycles) carries into `high`.
+  while (ch === 32) ch = s.charCodeAt(++i); // the point ends the blanks at the latest
+  const neg = ch === 45;
+  if (neg) ch = s.charCodeAt(++i);
+  if (point - i > 9 || i === point) return parseFixedIn(s, c, c + 14);
+  // at most 9 integer digits: 32-bit integer arithmetic (common practice: int32 adds are cheaper than
+  // double multiply-adds in V8)
   let mant = 0;
-  let high = 0;
-  if (point - i === 10) {
-    const d = ch - 48;
-    if (d < 0 || d > 9) return parseFixedIn(s, c, c + 14);
-    high = d;
-    ch = s.charCodeAt(++i);
-  }
   for (; i < point; ch = s.charCodeAt(++i)) {
     const d = (ch - 48) | 0;
     if (d < 0 || d > 9) return parseFixedIn(s, c, c + 14);
@@ -93,7 +92,7 @@ export function parseF14p3In(s: string, c: number, end: number): number {
   if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || d3 < 0 || d3 > 9) return parseFixedIn(s, c, c + 14);
   // value * 1000 as an integer below 2^53 (exact in a double), divided once by 1000: the correctly
   // rounded double of the decimal text, as parseFloat gives (ECMA-262 7.1.4.1.1, IEEE 754 division).
-  const v = (high * 1e12 + mant * 1000 + (d1 * 100 + d2 * 10 + d3)) / 1000;
+  const v = (mant * 1000 + (d1 * 100 + d2 * 10 + d3)) / 1000;
   return neg ? -v : v;
 }
 
