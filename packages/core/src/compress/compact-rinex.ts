@@ -343,6 +343,25 @@ export class CompactRinexDecoder {
         pos = len + 1;
         continue;
       }
+      // Most fields are a difference, '-'? and digits up to the next blank: read in one pass (up to 15
+      // digits, well inside parseSignedInt's range, so the value is the same); anything else below.
+      let at = pos;
+      let c = line.charCodeAt(at);
+      const negative = c === 45;
+      if (negative) c = line.charCodeAt(++at);
+      const digitsFrom = at;
+      let magnitude = 0;
+      while (c >= 48 && c <= 57) {
+        magnitude = magnitude * 10 + (c - 48);
+        c = line.charCodeAt(++at);
+      }
+      if ((at === len || c === 32) && at > digitsFrom && at - digitsFrom <= 15) {
+        const arc = arcs[j];
+        if (arc === null) return this.damage(this.lineNo, `satellite ${sat}, observation ${j + 1}: difference without an initialisation (M&value expected)`);
+        values[j] = stepArc(arc, negative ? -magnitude : magnitude);
+        pos = at + 1;
+        continue;
+      }
       // the field runs to the next blank: a difference (an integer), or 'M&value' (an arc initialisation)
       let end = line.indexOf(' ', pos);
       if (end < 0) end = len;
