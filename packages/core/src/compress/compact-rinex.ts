@@ -93,7 +93,7 @@ export class CompactRinexDecoder {
     private readonly problem: CrxProblemSink,
     /** Bytes to text for the ASCII output (any single-byte decoder; Node's Buffer latin1 is the fastest). */
     decodeSingleByte: (bytes: Uint8Array) => string = latin1Decoder(),
-    /** Claimed by the observation reader (observation-records.ts): RINEX 3 records go there as numbers. */
+    /** Claimed by the observation reader (observation-records.ts): observation values go there as numbers. */
     private readonly records: ObservationRecords | null = null,
   ) {
     this.plain = new PlainTextBuffer(decodeSingleByte);
@@ -390,13 +390,8 @@ export class CompactRinexDecoder {
       return this.damage(this.lineNo, `satellite ${sat}: LLI/SSI flag text "${line.slice(pos, pos + 40)}" is not digits, blanks and '&' of at most ${2 * nTypes} characters`);
     }
     this.curSats.set(sat, st);
-    if (this.records !== null && this.version === 3 && allFitObsField(values, nTypes) && PLAIN_SAT_ID.test(sat)) {
-      // the placeholder: the id, blank to the length of the text line, so the text keeps its size
-      // (chunks, the reader's look-ahead and a strict decoder's error fall as with the full text)
-      this.plain.text(sat);
-      this.plain.blanks(rinex3LineLength(values, st.flags, nTypes) - 3);
-      this.plain.newline();
-      this.records.add(this.plain.lineNumber, values, st.flags, nTypes);
+    if (this.records !== null && allFitObsField(values, nTypes) && (this.version === 1 || PLAIN_SAT_ID.test(sat))) {
+      this.writeSatPlaceholders(this.records, sat, values, nTypes, st.flags);
     } else this.writeSatLines(sat, values, nTypes, st.flags);
     this.satIndex++;
     if (this.satIndex === this.epochSats.length) this.endDataEpoch();
@@ -429,6 +424,29 @@ export class CompactRinexDecoder {
     }
   }
 
+  /**
+   * The satellite's lines as placeholders, their fields kept as numbers (observation-records.ts): each
+   * line blank to the length writeSatLines would give it (RINEX 3: after the id), so the text keeps its
+   * size (chunks, the reader's look-ahead and a strict decoder's error fall as with the full text).
+   */
+  private writeSatPlaceholders(records: ObservationRecords, sat: string, values: Float64Array, n: number, flags: Uint8Array): void {
+    const out = this.plain;
+    if (this.version === 3) {
+      out.text(sat);
+      out.blanks(fieldsTextLength(values, flags, 0, n));
+      out.newline();
+      records.add(out.lineNumber, values, flags, 0, n);
+      return;
+    }
+    for (let j0 = 0; j0 < n || j0 === 0; j0 += 5) {
+      const j1 = Math.min(n, j0 + 5);
+      out.blanks(fieldsTextLength(values, flags, j0, j1));
+      out.newline();
+      records.add(out.lineNumber, values, flags, j0, j1);
+      if (n === 0) break;
+    }
+  }
+
   private endDataEpoch(): void {
     this.flushEpoch();
     this.prevSats = this.curSats;
@@ -457,17 +475,17 @@ function allFitObsField(values: Float64Array, n: number): boolean {
 }
 
 /**
- * Length of a RINEX 3 observation line as writeSatLines writes it: the 3-character id, then 16 columns
- * per field up to the last value present and its last non-blank flag character.
+ * Length of the text of fields [from, to) as writeSatLines writes them, trailing blanks left out: 16
+ * columns per field up to the last value present and its last non-blank flag character; 0 when none is.
  */
-function rinex3LineLength(values: Float64Array, flags: Uint8Array, n: number): number {
-  for (let j = n - 1; j >= 0; j--) {
+function fieldsTextLength(values: Float64Array, flags: Uint8Array, from: number, to: number): number {
+  for (let j = to - 1; j >= from; j--) {
     const u = values[j]!;
     if (u !== u) continue;
     const flagChars = flags[2 * j + 1] !== 32 ? 2 : flags[2 * j] !== 32 ? 1 : 0;
-    return 3 + 16 * j + 14 + flagChars;
+    return 16 * (j - from) + 14 + flagChars;
   }
-  return 3;
+  return 0;
 }
 
 /** TextDecoder('latin1') as a function (the default single-byte decoder; the output it decodes is ASCII). */

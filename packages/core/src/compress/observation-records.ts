@@ -4,18 +4,20 @@
  * The decoder's differences are integers (thousandths of the F14.3 value, Hatanaka 2008 section 3):
  * writing them as text for the reader to parse back costs more than the decoding itself. When the
  * observation reader is given the very text stream openText made for a compact RINEX 3 file, it claims
- * these records before the first chunk is decoded; the decoder then writes each standard observation
- * record as a placeholder line (the satellite id, blank to the length of its text line) and keeps its
- * values here under the plain line number. Everything else (header, epoch and event lines,
- * records whose text would not be the standard layout) is written as text, and line numbers are those
- * of the full plain text. Unclaimed (any other consumer of the text), nothing changes.
+ * these records before the first chunk is decoded; the decoder then writes each observation line of
+ * the standard layout as a placeholder (RINEX 3: the satellite id, RINEX 2: nothing, blank to the length
+ * of the text line) and keeps the fields of that line here under its plain line number. Everything else
+ * (header, epoch and event lines, values whose text would not be the standard layout) is written as
+ * text, and line numbers are those of the full plain text. Unclaimed (any other consumer of the text),
+ * nothing changes.
  *
  * The values are exactly what parsing the text gives: thousandths / 1000 is the correctly rounded
  * double of the decimal text (ECMA-262 7.1.4.1.1, IEEE 754 division), as parseF14p3 computes it.
  */
+
 import { PlainTextBuffer } from './plain-text-buffer.js';
 
-/** Text streams from openText whose observation values can be claimed (compact RINEX 3 only). */
+/** Text streams from openText whose observation values can be claimed (compact RINEX). */
 const claimable = new WeakMap<object, ObservationRecords>();
 
 /** Registers the records of a compact RINEX text stream (openText). */
@@ -24,7 +26,7 @@ export function offerObservationRecords(text: AsyncIterable<string>, records: Ob
 }
 
 /**
- * The observation records of `text` when it is openText's own stream of a compact RINEX 3 file and
+ * The observation records of `text` when it is openText's own stream of a compact RINEX file and
  * no chunk has been decoded yet: from then on the stream carries placeholder lines for them.
  * null otherwise (parse the text).
  */
@@ -48,21 +50,25 @@ export class ObservationRecords {
   private units = new Float64Array(16384);
   /** LLI then SSI character code per value (a digit or a blank). */
   private flags = new Uint8Array(32768);
-  /** Formats a record back into its text line (see lineText). */
-  private textOut: PlainTextBuffer | null = null;
   private first = 0;
   private count = 0;
   private committed = 0;
   private hint = 0;
+  /** Formats a record back into its text line (lineText). */
+  private textOut: PlainTextBuffer | null = null;
 
-  /** Adds the record of plain line `line`: `n` values in thousandths (NaN = blank) with their LLI/SSI character codes. */
-  add(line: number, units: Float64Array, flagChars: Uint8Array, n: number): void {
+  /**
+   * Adds the record of plain line `line`: the fields [from, to) of a satellite written on that line,
+   * values in thousandths (NaN = blank) with their LLI/SSI character codes (two per value).
+   */
+  add(line: number, units: Float64Array, flagChars: Uint8Array, from: number, to: number): void {
     if (this.count + 1 >= this.lineNo.length) this.compactOrGrow();
     const at = this.start[this.count]!;
+    const n = to - from;
     if (at + n > this.units.length) this.growValues(at + n);
     const u = this.units, f = this.flags;
-    for (let j = 0; j < n; j++) u[at + j] = units[j]!;
-    for (let j = 0; j < 2 * n; j++) f[2 * at + j] = flagChars[j]!;
+    for (let j = 0; j < n; j++) u[at + j] = units[from + j]!;
+    for (let j = 0; j < 2 * n; j++) f[2 * at + j] = flagChars[2 * from + j]!;
     this.lineNo[this.count] = line;
     this.count++;
     this.start[this.count] = at + n;
@@ -97,41 +103,42 @@ export class ObservationRecords {
     return i;
   }
 
-  /** Number of values of record i. */
-  size(i: number): number {
-    return this.start[i + 1]! - this.start[i]!;
-  }
-
   /**
-   * Copies record i into a satellite's arrays as the reader parses its text: value = thousandths / 1000
-   * (-0 is written '0.000', read +0), divided by its scale factor when `div` is given; LLI and SSI
-   * digits, 0 for blanks; a blank field is NaN with flags 0.
+   * Reads record i into fields [from, to) of a satellite's arrays as the reader reads its text line:
+   * fields in order until the line's fields end (those after stay as they are: NaN and 0); value =
+   * thousandths / 1000 (-0 is written '0.000', read +0), divided by its scale factor when `div` is
+   * given; LLI and SSI digits, 0 for blanks; a blank field is NaN with flags 0.
    */
-  copyTo(i: number, values: Float64Array, lli: Uint8Array, ssi: Uint8Array, div: Float64Array | null): void {
-    const at = this.start[i]!, n = this.start[i + 1]! - at;
+  copyTo(i: number, values: Float64Array, lli: Uint8Array, ssi: Uint8Array, div: Float64Array | null, from: number, to: number): void {
+    const at = this.start[i]!;
+    const n = Math.min(this.start[i + 1]! - at, to - from);
     const units = this.units, f = this.flags;
     for (let j = 0; j < n; j++) {
+      const k = from + j;
       const u = units[at + j]!;
       if (u !== u) {
-        values[j] = NaN;
-        lli[j] = 0;
-        ssi[j] = 0;
+        values[k] = NaN;
+        lli[k] = 0;
+        ssi[k] = 0;
         continue;
       }
       const v = (u + 0) / 1000;
-      values[j] = div !== null ? v / div[j]! : v;
-      lli[j] = digitOf(f[2 * (at + j)]!);
-      ssi[j] = digitOf(f[2 * (at + j) + 1]!);
+      values[k] = div !== null ? v / div[k]! : v;
+      lli[k] = digitOf(f[2 * (at + j)]!);
+      ssi[k] = digitOf(f[2 * (at + j) + 1]!);
     }
   }
 
-  /** The text line record i stands for (`sat`: the id its placeholder line starts with), for a reader whose types differ. */
-  lineText(i: number, sat: string): string {
+  /**
+   * The text line record i stands for, as the decoder would have written it: `prefix` (RINEX 3: the
+   * satellite id its placeholder starts with; RINEX 2: '') and the fields, trailing blanks left out.
+   */
+  lineText(i: number, prefix: string): string {
     const at = this.start[i]!, n = this.start[i + 1]! - at;
     const out = (this.textOut ??= new PlainTextBuffer((b) => new TextDecoder('latin1').decode(b)));
-    out.text(sat);
+    out.text(prefix);
     out.observationFields(this.units.subarray(at, at + n), this.flags.subarray(2 * at, 2 * (at + n)), 0, n);
-    out.trimTrailingBlanks(sat.length);
+    out.trimTrailingBlanks(prefix.length);
     out.newline();
     out.commit();
     return out.takeText().slice(0, -1);

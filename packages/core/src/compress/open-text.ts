@@ -101,8 +101,8 @@ export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, o
   if (crx === null) return { layers: layers.length > 0 ? layers : ['plain'], text: normaliseLineEnds(chars) };
   const records = new ObservationRecords();
   const text = decodeCompact(file, crx, chars, onWarning, opts.decodeLatin1, records);
-  // RINEX 3 observation values may travel as numbers to the observation reader (observation-records.ts)
-  if (crx === 3) offerObservationRecords(text, records);
+  // observation values may travel as numbers to the observation reader (observation-records.ts)
+  offerObservationRecords(text, records);
   return { layers: layers.length > 0 ? layers : ['plain'], text };
 }
 

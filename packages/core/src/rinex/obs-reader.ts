@@ -7,7 +7,7 @@
  * Garbled or truncated epochs are reported as warnings naming the file and line and skipped; reading
  * resumes at the next recognisable epoch record.
  *
- * Given openText's own text of a compact RINEX 3 file, the reader claims its observation records
+ * Given openText's own text of a compact RINEX file, the reader claims its observation records
  * (compress/observation-records.ts): the values then come as numbers beside placeholder lines, the
  * same values the text would give, and every other line is read as text.
  */
@@ -169,7 +169,18 @@ class EpochParser {
   /** Next line, awaiting only at chunk boundaries. */
   private async line(): Promise<string | null> {
     const l = this.cur.take();
-    return l !== undefined ? l : this.cur.next();
+    return this.textOf(l !== undefined ? l : await this.cur.next());
+  }
+
+  /**
+   * The line just taken as its full text: a placeholder of a record that came as numbers (see
+   * observation-records.ts) is replaced by the text it stands for, so that every path reading lines
+   * as text (epoch records, resynchronisation, event header records) sees the file as written.
+   */
+  private textOf<T extends string | null | undefined>(l: T): T | string {
+    if (this.records === null || typeof l !== 'string') return l;
+    const rec = this.records.find(this.cur.lineNumber);
+    return rec < 0 ? l : this.records.lineText(rec, this.r3 ? l.slice(0, 3) : '');
   }
 
   /**
@@ -187,6 +198,7 @@ class EpochParser {
         let l = cur.take();
         if (l === undefined) l = await cur.next();
         if (l === null) return;
+        l = this.textOf(l);
         const lineNo = cur.lineNumber;
         this.records?.dropBefore(lineNo);
         const isEpoch = this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l);
@@ -344,7 +356,7 @@ class EpochParser {
       for (let i = 0; i < n; i++) {
         const k = i % 12;
         if (i > 0 && k === 0) {
-          const next = this.cur.take();
+          const next = this.textOf(this.cur.take());
           if (next === undefined) return NEED_MORE;
           // continuation lines: 32X, 12(A1, I2) (RINEX 2.11 table A2)
           if (next === null || looksLikeR2Epoch(next) || next.slice(0, 32).trim() !== '') {
@@ -408,7 +420,8 @@ class EpochParser {
         continue;
       }
       const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
-      const out = rec < 0 ? this.values(src, a + 3, e, codes, this.divBy[sc]!, sat, 0, codes.length, null) : this.recordValues(rec, sat, codes, this.divBy[sc]!);
+      const div = this.divBy[sc]!;
+      const out = rec < 0 ? this.values(src, a + 3, e, codes, div, sat, 0, codes.length, null) : this.recordValues(rec, codes, div, sat, 0, codes.length, null);
       if (out === null) return this.requestResync(cur.lineNumber, `garbled observation record of ${sat}: expected F14.3 values with LLI and SSI digits`);
       sats.push(out);
     }
@@ -445,8 +458,9 @@ class EpochParser {
           return SKIPPED;
         }
         if (codes === undefined) { this.noTypes(sat.charAt(0), sat); break; }
-        const from = j * 5;
-        out = this.values(src, a, e, codes, div, sat, from, from + 5 < nCodes ? from + 5 : nCodes, out);
+        const from = j * 5, to = from + 5 < nCodes ? from + 5 : nCodes;
+        const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
+        out = rec < 0 ? this.values(src, a, e, codes, div, sat, from, to, out) : this.recordValues(rec, codes, div, sat, from, to, out);
         if (out === null) return this.requestResync(cur.lineNumber, `garbled observation line of ${sat}: expected 5 fields of F14.3 + LLI + SSI`);
       }
       if (out !== null) sats.push(out);
@@ -479,17 +493,14 @@ class EpochParser {
   }
 
   /**
-   * A record that came as numbers (see observation-records.ts); when its count of values is not the
-   * header's for the system, its text line is made and parsed as any other.
+   * Fields [from, to) of a satellite from the record of its line (values that came as numbers, see
+   * observation-records.ts), as values() reads them from the line's text.
    */
-  private recordValues(rec: number, sat: SatId, codes: readonly string[], div: Float64Array | null): SatObservations | null {
-    const records = this.records!;
-    if (records.size(rec) !== codes.length) {
-      const text = records.lineText(rec, this.cur.spanText().slice(0, 3));
-      return this.values(text, 3, text.length, codes, div, sat, 0, codes.length, null);
-    }
-    const r = this.slab.sat(sat, codes);
-    records.copyTo(rec, r.values, r.lli, r.ssi, div);
+  private recordValues(
+    rec: number, codes: readonly string[], div: Float64Array | null, sat: SatId, from: number, to: number, into: SatObservations | null,
+  ): SatObservations {
+    const r = into ?? this.slab.sat(sat, codes);
+    this.records!.copyTo(rec, r.values, r.lli, r.ssi, div, from, to);
     return r;
   }
 
