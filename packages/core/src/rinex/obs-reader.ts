@@ -252,6 +252,7 @@ class EpochParser {
     for (;;) {
       const l = await this.line();
       if (l === null) break;
+      this.records?.dropBefore(this.cur.lineNumber); // a long stretch skipped holds no records
       if (this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l)) { this.cur.unread(l); break; }
       last = this.cur.lineNumber;
     }
