@@ -27,11 +27,21 @@ export async function obsTimeSpan(path: string, header: ObsHeader, onWarning: Wa
   return Number.isFinite(first) ? { firstGpsS: first, lastGpsS: last } : null;
 }
 
-/** The systems whose satellites actually appear in the file's epochs (a header may list codes of a system never tracked). */
-export async function systemsSeen(path: string): Promise<Set<GnssSystem>> {
+/**
+ * The systems whose satellites appear in the file's epochs (a header may list codes of a system never
+ * tracked), as far as `asked` is concerned: reading stops once every system of `asked` is seen (usually
+ * in the first epoch), so the set may lack systems outside `asked`; a system of `asked` never tracked
+ * makes it read the whole file.
+ */
+export async function systemsSeen(path: string, asked: readonly GnssSystem[]): Promise<Set<GnssSystem>> {
   const s = await openObs(path, () => {});
   const seen = new Set<GnssSystem>();
-  for await (const ep of s.epochs) for (const o of ep.sats) seen.add(satSystem(o.sat));
+  const allSeen = () => asked.every((x) => seen.has(x));
+  if (asked.length === 0) return seen;
+  for await (const ep of s.epochs) {
+    for (const o of ep.sats) seen.add(satSystem(o.sat));
+    if (allSeen()) break;
+  }
   return seen;
 }
 

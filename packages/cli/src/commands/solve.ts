@@ -202,8 +202,10 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
 
   rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: referencePaths, nav: a.nav, out: outDir, mode: singleReceiver ? 'standalone' : 'differential' });
   const { nav, layers: navLayers } = await openNav(a.nav, rep.warn);
-  // Systems whose satellites are in the rover's epochs (none seen: the no-epoch sentence comes later).
-  const seen = await systemsSeen(a.rover);
+  // Which of the systems listed and allowed have satellites in the rover's epochs (none seen: the no-epoch
+  // sentence comes later).
+  const listed = (Object.keys(roverProbe.header.obsCodes) as GnssSystem[]).filter((s) => base.systems.includes(s) && (roverProbe.header.obsCodes[s]?.length ?? 0) > 0);
+  const seen = await systemsSeen(a.rover, listed);
   const usableSystems = requireNavigation(nav, a.nav, roverProbe.header, base.systems, roverSpan, rep.warn, seen.size ? seen : undefined);
 
   // 3. The reference coordinate with its frame and epoch.
