@@ -14,9 +14,38 @@ import {
   type NavData, type ObsStream, type WarningSink,
 } from '@refdelta/core';
 
-/** The file's bytes as chunks (what the core readers take). */
+/**
+ * SHA-256 of files read from start to end by fileChunks in this process, so that the inputs' digests of
+ * a run cost no second reading: path as given -> the digest with the file's size and modification time
+ * when it was read (a file changed since is hashed afresh).
+ */
+const digestsRead = new Map<string, { readonly sizeBytes: number; readonly mtimeMs: number; readonly sha256: string }>();
+/** Paths a fileChunks stream is hashing now (one stream per path hashes; others just read). */
+const hashing = new Set<string>();
+
+async function fileVersion(path: string): Promise<{ sizeBytes: number; mtimeMs: number } | null> {
+  try {
+    const st = await stat(path);
+    return { sizeBytes: st.size, mtimeMs: st.mtimeMs };
+  } catch {
+    return null;
+  }
+}
+
+/** The file's bytes as chunks (what the core readers take); the first complete reading records the file's SHA-256. */
 export async function* fileChunks(path: string, chunkBytes = 1 << 16): AsyncIterable<Uint8Array> {
-  for await (const c of createReadStream(path, { highWaterMark: chunkBytes })) yield c as Uint8Array;
+  const version = digestsRead.has(path) || hashing.has(path) ? null : await fileVersion(path);
+  const h = version ? createHash('sha256') : null;
+  if (h) hashing.add(path);
+  try {
+    for await (const c of createReadStream(path, { highWaterMark: chunkBytes })) {
+      h?.update(c as Uint8Array);
+      yield c as Uint8Array;
+    }
+    if (h && version) digestsRead.set(path, { ...version, sha256: h.digest('hex') });
+  } finally {
+    if (h) hashing.delete(path);
+  }
 }
 
 /** Throws one clear InputError when `path` is not a readable regular file. */
@@ -83,8 +112,11 @@ export async function openNav(paths: readonly string[], onWarning: WarningSink):
   return { nav: parts.length === 1 ? parts[0] : mergeNav(parts), layers };
 }
 
-/** Hex SHA-256 of a file's bytes as stored (FIPS 180-4). */
+/** Hex SHA-256 of a file's bytes as stored (FIPS 180-4); from the run's own complete reading when there was one. */
 export async function sha256File(path: string): Promise<string> {
+  const known = digestsRead.get(path);
+  const now = known ? await fileVersion(path) : null;
+  if (known && now && now.sizeBytes === known.sizeBytes && now.mtimeMs === known.mtimeMs) return known.sha256;
   const h = createHash('sha256');
   for await (const c of createReadStream(path)) h.update(c as Uint8Array);
   return h.digest('hex');
