@@ -11,6 +11,7 @@ import { solveStandaloneEpoch, type StandaloneContext } from '../standalone/inde
 import type { EpochSolution, SolutionKind } from './solution-types.js';
 import { differentialRecord, noSolution, noSolutionSatellite, standaloneRecord, type RecordContext } from './epoch-records.js';
 import type { SessionTally } from './session-tally.js';
+import type { CodeOffsetSurvey } from './code-offsets.js';
 
 const DEG = Math.PI / 180;
 
@@ -26,6 +27,8 @@ export interface CodeSolverContext {
   readonly standalone: StandaloneContext | null;
   /** Rover speed (m/s) from Doppler, reusing the satellites already computed. */
   readonly speedAt: (e: ObsEpoch, arpM: EcefM, sd: SingleDifferenceEpoch) => number;
+  /** Samples the satellites' code offsets from the epochs' fixes (reported only). */
+  readonly offsetSurvey?: CodeOffsetSurvey;
 }
 
 /** A standalone fix when allowed, else no solution, with the reason the differential one failed. */
@@ -99,6 +102,7 @@ export function solveCodeEpoch(
   const start = rover.lastPosition ?? ctx.roverHeader.approxPosition ?? refArp;
   const sd = new SingleDifferenceEpoch(e, d, smoothed, smoothedFactors, start, rover.lastClockM);
   const fix = fixSingleDifferences(sd, start, ctx.fixOptions);
+  if (fix) ctx.offsetSurvey?.learnSatellites(e.tagGpsS, fix);
   const satellites = satelliteList(ctx, e, sd, fix);
   if (sd.usable.length === 0) {
     return standaloneOr(ctx, e, sd.prepared.length === 0 ? 'no usable satellite (see the satellite reasons)' : 'no satellite with a reference correction (see the satellite reasons)', satellites, NaN);

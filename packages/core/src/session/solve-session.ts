@@ -20,7 +20,8 @@ import { RoverState } from './rover-state.js';
 import { SessionTally } from './session-tally.js';
 import { noSolution, type RecordContext } from './epoch-records.js';
 import { solveCodeEpoch, type CodeSolverContext } from './code-solver.js';
-import { surveySession, type SurveyResult } from './survey-pass.js';
+import { codeOffsetSurvey, firstPassLearns, surveySession, type SurveyResult } from './survey-pass.js';
+import { SessionCodeOffsets, type CodeOffsetSurvey } from './code-offsets.js';
 
 export interface SessionInputs {
   readonly rover: ObsStream;
@@ -52,7 +53,7 @@ function speedFor(setup: SessionSetup) {
 }
 
 /** The code epoch solver's context for the second (or only) pass. */
-function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: SessionOptions, corrections: ReferenceCorrections, records: RecordContext, tally: SessionTally, offsets: CodeOffsetSource | null, roverHeader: ObsHeader): CodeSolverContext {
+function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: SessionOptions, corrections: ReferenceCorrections, records: RecordContext, tally: SessionTally, offsets: CodeOffsetSource | null, roverHeader: ObsHeader, offsetSurvey: CodeOffsetSurvey): CodeSolverContext {
   const speed = speedFor(setup);
   return {
     differencing: {
@@ -67,6 +68,7 @@ function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: Sess
       weighting: setup.weighting, frequencyMode: 'auto', glonassChannels: setup.glonassChannels,
     } : null,
     speedAt: speed,
+    offsetSurvey,
   };
 }
 
@@ -78,14 +80,17 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   const speed = speedFor(setup);
   const records: RecordContext = { rover: state, reduceToMark: options.reduceToMark, frame: setup.frame, refMark: setup.refMark, speedAt: (e, at) => speed(e, at) };
   const corrections = new ReferenceCorrections({ store: setup.store, iono: inputs.nav.ionosphere, systems: setup.systems, glonassChannels: setup.glonassChannels });
+  const offsetSurvey = codeOffsetSurvey(setup);
   let survey: SurveyResult | null = null;
+  let passes = 1;
   let feed: ReferenceFeed | null = null;
 
   async function* run(): AsyncIterable<EpochSolution> {
     let rover = inputs.rover, references = inputs.references;
-    if (inputs.reopen) {
-      survey = await surveySession(setup, rover, references, inputs.nav, options);
+    if (inputs.reopen && firstPassLearns(setup, options)) {
+      survey = await surveySession(setup, rover, references, inputs.nav, options, offsetSurvey);
       ({ rover, references } = await inputs.reopen());
+      passes = 2;
     }
     const sm = options.smoothing;
     // Without a first pass the reference has no arcs: it is smoothed only with the rover, forwards.
@@ -95,7 +100,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
     const roverSmoother = smoother(rover.header.intervalS, survey?.roverArcs ?? null);
     const f = feed = new ReferenceFeed(references, corrections, setup.refMark, setup.refAntenna, options.reference.antenna !== undefined,
       smoother(references[0].header.intervalS, survey?.referenceArcs ?? null), options.maxCorrectionAgeS, setup.notes, warn);
-    const solver = codeSolverFor(setup, inputs, options, corrections, records, tally, survey?.offsets ?? null, rover.header);
+    const solver = codeSolverFor(setup, inputs, options, corrections, records, tally, survey?.offsets ?? null, rover.header, offsetSurvey);
     for await (const e of rover.epochs) {
       if (e.event) {
         state.applyEvent(e);
@@ -135,7 +140,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
   return {
     epochs: run(),
     summary: (): SessionSummary => {
-      const offsets = (survey as SurveyResult | null)?.offsets.reports ?? [];
+      const offsets = ((survey as SurveyResult | null)?.offsets ?? new SessionCodeOffsets(offsetSurvey, false, options.quality.alphaLocal)).reports;
       const channelNote = offsets.some((r) => r.key.startsWith('R channel'))
         ? [`GLONASS per-channel code offsets about their mean (channel: m): ${offsets.filter((r) => r.key.startsWith('R channel')).map((r) => `${r.key.slice(10)}: ${(r.relativeToChannelMeanM ?? 0).toFixed(2)} +- ${r.sigmaM.toFixed(2)}`).join(', ')}`]
         : [];
@@ -153,7 +158,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
         notes: [...setup.notes, ...channelNote, ...satNote, ...(corrections.unusableEpochs > 0 ? [`${corrections.unusableEpochs} reference epochs had no satellite with an ephemeris and were not used`] : [])],
         firstGpsS: tally.firstGpsS, lastGpsS: tally.lastGpsS,
         codeOffsets: offsets,
-        passes: inputs.reopen ? 2 : 1,
+        passes,
       };
     },
   };

@@ -1,7 +1,8 @@
 /**
  * The first of two passes over a session: everything that is constant over the session, or that needs
  * the future of an epoch, is learnt here before any epoch is solved in the second pass.
- * - Between-receiver code offsets (code-offsets.ts), from raw code.
+ * - GLONASS channel code offsets (code-offsets.ts), from raw code, when the session applies them: the
+ *   only reason for fixes in this pass.
  * - The carrier-smoothing arcs of both receivers (smoothing/two-sided-arcs.ts) when smoothing is on.
  * Memory stays bounded as in the second pass: per-key sample series and per-arc bin summaries, no
  * observations are kept.
@@ -25,7 +26,17 @@ function clockSystemOf(setup: SessionSetup) {
   return setup.systems.find((s) => s !== 'R') ?? null;
 }
 
-export async function surveySession(setup: SessionSetup, rover: ObsStream, references: readonly ObsStream[], nav: NavData, options: SessionOptions): Promise<SurveyResult> {
+/** Whether a first pass would learn anything: GLONASS channel offsets, or smoothing arcs. */
+export function firstPassLearns(setup: SessionSetup, options: SessionOptions): boolean {
+  return setup.glonassUse === 'channel-offsets' || options.smoothing.enabled || options.smoothing.reference;
+}
+
+/** The code offset survey of a session: filled by the first pass (GLONASS channels) and the second (other satellites). */
+export function codeOffsetSurvey(setup: SessionSetup): CodeOffsetSurvey {
+  return new CodeOffsetSurvey(setup.glonassUse === 'channel-offsets', clockSystemOf(setup), setup.fixOptions);
+}
+
+export async function surveySession(setup: SessionSetup, rover: ObsStream, references: readonly ObsStream[], nav: NavData, options: SessionOptions, survey: CodeOffsetSurvey): Promise<SurveyResult> {
   const sm = options.smoothing;
   const roverArcs = sm.enabled ? new SmoothingArcs(sm.timeConstantS) : null;
   const referenceArcs = sm.enabled || sm.reference ? new SmoothingArcs(sm.timeConstantS) : null;
@@ -43,7 +54,6 @@ export async function surveySession(setup: SessionSetup, rover: ObsStream, refer
     iono: nav.ionosphere, glonassChannels: setup.glonassChannels, maskRad: setup.maskRad, maxAgeS: options.maxCorrectionAgeS,
     codeVarianceM2: codeVarianceOf(setup), offsets: null,
   };
-  const survey = new CodeOffsetSurvey(setup.glonassUse === 'channel-offsets', clockSystemOf(setup), setup.fixOptions);
   let position: EcefM | null = null;
   let clockM = NaN;
   let lastS = -Infinity;
@@ -58,11 +68,11 @@ export async function surveySession(setup: SessionSetup, rover: ObsStream, refer
     corrections.prune(e.tagGpsS, options.maxCorrectionAgeS + 2);
     roverRecorder?.update(e);
     lastS = e.tagGpsS;
-    if (e.sats.length === 0 || !survey.wants(e.tagGpsS) || corrections.nearestEpochS(e.tagGpsS) > options.maxCorrectionAgeS + 1) continue;
+    if (!survey.learnsInFirstPass || e.sats.length === 0 || !survey.wants(e.tagGpsS) || corrections.nearestEpochS(e.tagGpsS) > options.maxCorrectionAgeS + 1) continue;
     try {
       const start = position ?? rover.header.approxPosition ?? feed.arpM;
       const sd = new SingleDifferenceEpoch(e, differencing, undefined, undefined, start, clockM);
-      const solved = survey.learn(sd, start);
+      const solved = survey.learnChannels(sd, start);
       if (solved) { position = solved.positionM; clockM = solved.clockM; }
     } catch {
       // An epoch that cannot be modelled teaches nothing; the second pass reports it.
