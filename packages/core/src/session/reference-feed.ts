@@ -4,7 +4,7 @@
  * their first epoch, a reference that moves refused, and the window of epochs kept bounded by the
  * correction age limit.
  */
-import type { AntennaOffset, EcefM, ObsHeader, ObsStream, SatId } from '../gnss/index.js';
+import type { AntennaOffset, EcefM, ObsEpoch, ObsHeader, ObsStream, SatId } from '../gnss/index.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
 import { isoFromSeconds } from '../time/index.js';
 import type { ReferenceCorrections } from '../differencing/index.js';
@@ -59,6 +59,36 @@ export class ReferenceFeed {
   /** Reads reference epochs until one later than `untilGpsS` is held (or the files end). */
   async pullUntil(untilGpsS: number): Promise<void> {
     while (!this.done && this.corrections.latestTimeGpsS <= untilGpsS) {
+      const e = await this.nextEpoch();
+      if (e === null) break;
+      const smoothed = this.filter?.update(e);
+      this.corrections.addEpoch(e, this.arpM, smoothed, undefined, this.filter?.factors);
+      // Bounded memory: nothing older than the age limit before the rover's time is kept.
+      this.corrections.prune(untilGpsS - this.lookaheadS, this.maxAgeS + 2);
+    }
+  }
+
+  /**
+   * Passes the reference epochs through the filter as far as pullUntil(untilGpsS) would read them, but
+   * computes corrections only for epochs tagged less than `exactWithinS` before untilGpsS: an earlier
+   * epoch's time (its tag less the receiver clock) cannot pass untilGpsS while the clock is under
+   * exactWithinS, so the reading stops at the same epoch. For a first pass that only records the filter.
+   */
+  async filterUntil(untilGpsS: number, exactWithinS = 1): Promise<void> {
+    while (!this.done && this.corrections.latestTimeGpsS <= untilGpsS) {
+      const e = await this.nextEpoch();
+      if (e === null) break;
+      const smoothed = this.filter?.update(e);
+      if (e.tagGpsS >= untilGpsS - exactWithinS) this.corrections.addEpoch(e, this.arpM, smoothed, undefined, this.filter?.factors);
+    }
+  }
+
+  /**
+   * The next reference epoch to use (flag 0 or 1, with satellites), with the files' antenna records and
+   * in-file events applied on the way; null when the files end.
+   */
+  private async nextEpoch(): Promise<ObsEpoch | null> {
+    while (!this.done) {
       const r = await this.iterator.next();
       if (r.done) { this.done = true; break; }
       const e = r.value.epoch;
@@ -78,11 +108,9 @@ export class ReferenceFeed {
       if (e.flag > 1) continue;
       if (Number.isNaN(this.firstGpsS)) this.firstGpsS = e.tagGpsS;
       this.lastGpsS = e.tagGpsS;
-      const smoothed = this.filter?.update(e);
-      this.corrections.addEpoch(e, this.arpM, smoothed, undefined, this.filter?.factors);
-      // Bounded memory: nothing older than the age limit before the rover's time is kept.
-      this.corrections.prune(untilGpsS - this.lookaheadS, this.maxAgeS + 2);
+      return e;
     }
+    return null;
   }
 
   /** The next reference file: its own antenna record applies from its first epoch. */

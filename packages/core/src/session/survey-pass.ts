@@ -57,6 +57,25 @@ export async function surveySession(setup: SessionSetup, rover: ObsStream, refer
   let position: EcefM | null = null;
   let clockM = NaN;
   let lastS = -Infinity;
+  if (!survey.learnsInFirstPass) {
+    // Only the arcs to record: the rover first, then the reference, as far as the interleaved reading
+    // below would take it (it ends at the first epoch past the largest time asked for, whatever the order
+    // of the asking), without the reference corrections it needs for fixes.
+    let furthestS = -Infinity;
+    for await (const e of rover.epochs) {
+      if (e.event && e.flag === 1) roverRecorder?.reset();
+      if (e.flag === 6) roverRecorder?.slipsReported(e);
+      if (e.flag !== 0 && e.flag !== 1) continue;
+      if (e.sats.length === 0 && e.event) continue;
+      furthestS = Math.max(furthestS, e.tagGpsS + feed.lookaheadS);
+      roverRecorder?.update(e);
+      lastS = e.tagGpsS;
+    }
+    if (refRecorder && Number.isFinite(lastS)) await feed.filterUntil(Math.max(furthestS, lastS + 5 * sm.timeConstantS));
+    roverArcs?.finish();
+    referenceArcs?.finish();
+    return { offsets: new SessionCodeOffsets(survey, setup.glonassUse === 'channel-offsets', options.quality.alphaLocal), roverArcs, referenceArcs };
+  }
   // The same epochs reach the smoothers in the same order as in the second pass (session/solve-session.ts),
   // so the filters restart at the same epochs and the arcs match.
   for await (const e of rover.epochs) {
@@ -68,7 +87,7 @@ export async function surveySession(setup: SessionSetup, rover: ObsStream, refer
     corrections.prune(e.tagGpsS, options.maxCorrectionAgeS + 2);
     roverRecorder?.update(e);
     lastS = e.tagGpsS;
-    if (!survey.learnsInFirstPass || e.sats.length === 0 || !survey.wants(e.tagGpsS) || corrections.nearestEpochS(e.tagGpsS) > options.maxCorrectionAgeS + 1) continue;
+    if (e.sats.length === 0 || !survey.wants(e.tagGpsS) || corrections.nearestEpochS(e.tagGpsS) > options.maxCorrectionAgeS + 1) continue;
     try {
       const start = position ?? rover.header.approxPosition ?? feed.arpM;
       const sd = new SingleDifferenceEpoch(e, differencing, undefined, undefined, start, clockM);
