@@ -20,7 +20,7 @@ import type { EcefM, Ephemeris, GeodeticRad, GnssSystem, IonosphereCoefficients,
 import { carrierFrequencyHz, satSystem } from '../gnss/index.js';
 import { EphemerisStore, issueKey, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
-import { clockSignal, codeMisclosureM, dayOfYear, lookFrom, primaryCodes, pseudorangeOf, satelliteForTag, signalStrengthDbHz } from '../observables/index.js';
+import { clockSignal, codeMisclosureM, dayOfYear, lookFrom, primaryCodeSlots, pseudorangeAt, satelliteForTag, signalStrengthDbHz } from '../observables/index.js';
 
 export interface ReferenceSatellite {
   /** Pseudorange (m) per code type of the primary band (smoothed when smoothing is on). */
@@ -118,9 +118,11 @@ export class ReferenceCorrections {
       if (!this.ctx.systems.includes(system)) continue;
       const codes = new Map<string, number>();
       const over = codesOverride?.get(s.sat);
-      for (const c of primaryCodes(system, s)) {
-        const v = over?.get(c) ?? pseudorangeOf(s, c);
-        if (Number.isFinite(v)) codes.set(c, v);
+      for (const slot of primaryCodeSlots(system, s.codes)) {
+        const raw = pseudorangeAt(s, slot);
+        if (!Number.isFinite(raw)) continue;
+        const v = over?.get(slot.code) ?? raw;
+        if (Number.isFinite(v)) codes.set(slot.code, v);
       }
       if (codes.size === 0) continue;
       const first = codes.keys().next().value as string;

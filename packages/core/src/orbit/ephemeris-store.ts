@@ -34,6 +34,15 @@ export function referenceTimeGpsS(eph: Ephemeris): number {
  * to different signal pairs). Reference and rover processing use the same key at an epoch.
  */
 export function issueKey(eph: Ephemeris): string {
+  // Asked per satellite and reference epoch (the corrections' cache keys): made once per record.
+  let key = issueKeys.get(eph);
+  if (key === undefined) { key = makeIssueKey(eph); issueKeys.set(eph, key); }
+  return key;
+}
+
+const issueKeys = new WeakMap<Ephemeris, string>();
+
+function makeIssueKey(eph: Ephemeris): string {
   switch (eph.kind) {
     case 'kepler':
       return `${eph.sat}:${eph.toeGpsS}:${eph.iode}${eph.system === 'E' ? (isGalileoFnav(eph) ? ':F' : ':I') : ''}`;

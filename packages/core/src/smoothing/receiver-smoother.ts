@@ -10,7 +10,7 @@
  */
 import type { GnssSystem, ObsEpoch, SatId } from '../gnss/index.js';
 import { carrierWavelengthM, companionCodes, satSystem } from '../gnss/index.js';
-import { primaryCodes, pseudorangeOf } from '../observables/index.js';
+import { primaryCodeSlots, pseudorangeAt } from '../observables/index.js';
 import { CarrierSmoother } from './hatch.js';
 import { CODE_ERROR_CORRELATION_S, SmoothingArc } from './two-sided-arcs.js';
 
@@ -23,6 +23,28 @@ export class SmoothingArcs {
   finish(): void {
     for (const a of this.byStart.values()) a.finish();
   }
+}
+
+/** The carrier phase and Doppler going with a pseudorange code (companionCodes), with their indices in the code list. */
+interface CompanionSlots {
+  readonly phase: string | null;
+  readonly phaseIndex: number;
+  readonly dopplerIndex: number;
+}
+
+/** Per code list (shared by a file's satellites of one system) and pseudorange code: made once. */
+const companionsByList = new WeakMap<readonly string[], Map<string, CompanionSlots>>();
+
+function companionSlots(codes: readonly string[], code: string): CompanionSlots {
+  let byCode = companionsByList.get(codes);
+  if (!byCode) { byCode = new Map(); companionsByList.set(codes, byCode); }
+  let slots = byCode.get(code);
+  if (!slots) {
+    const comp = companionCodes(code, codes);
+    slots = { phase: comp.phase, phaseIndex: comp.phase ? codes.indexOf(comp.phase) : -1, dopplerIndex: comp.doppler ? codes.indexOf(comp.doppler) : -1 };
+    byCode.set(code, slots);
+  }
+  return slots;
 }
 
 interface SmootherInputRow { sat: SatId; codeM: number; phaseCycles: number; wavelengthM: number; lli: number; dopplerHz: number }
@@ -54,16 +76,19 @@ export class ReceiverSmoother {
       const system = satSystem(s.sat);
       if (!this.systems.includes(system)) continue;
       const k = system === 'R' ? this.glonassChannels.get(Number(s.sat.slice(1))) : undefined;
-      for (const code of primaryCodes(system, s)) {
-        const comp = companionCodes(code, s.codes);
-        const pi = comp.phase ? s.codes.indexOf(comp.phase) : -1;
+      for (const slot of primaryCodeSlots(system, s.codes)) {
+        const codeM = pseudorangeAt(s, slot);
+        if (!Number.isFinite(codeM)) continue;
+        const code = slot.code;
+        const comp = companionSlots(s.codes, code);
+        const pi = comp.phaseIndex;
         const phase = pi >= 0 ? s.values[pi] : NaN;
         const lli = pi >= 0 ? s.lli[pi] : 0;
         const wl = comp.phase ? carrierWavelengthM(system, comp.phase, k) : NaN;
-        const di = comp.doppler ? s.codes.indexOf(comp.doppler) : -1;
+        const di = comp.dopplerIndex;
         let list = inputs.get(code);
         if (!list) { list = []; inputs.set(code, list); }
-        list.push({ sat: s.sat, codeM: pseudorangeOf(s, code), phaseCycles: Number.isFinite(wl) ? phase : NaN, wavelengthM: wl, lli, dopplerHz: di >= 0 ? s.values[di] : NaN });
+        list.push({ sat: s.sat, codeM, phaseCycles: Number.isFinite(wl) ? phase : NaN, wavelengthM: wl, lli, dopplerHz: di >= 0 ? s.values[di] : NaN });
       }
     }
     return inputs;
