@@ -18,7 +18,7 @@
  */
 import type { EcefM, Ephemeris, GeodeticRad, GnssSystem, IonosphereCoefficients, ObsEpoch, SatId } from '../gnss/index.js';
 import { carrierFrequencyHz, satSystem } from '../gnss/index.js';
-import { EphemerisStore, issueKey, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
+import { EphemerisStore, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
 import { clockSignal, codeMisclosureM, dayOfYear, lookFrom, primaryCodeSlots, pseudorangeAt, satelliteForTag, signalStrengthDbHz } from '../observables/index.js';
 
@@ -39,7 +39,8 @@ export interface ReferenceEpoch {
   readonly sats: ReadonlyMap<SatId, ReferenceSatellite>;
   readonly arpM: EcefM;
   readonly geodetic: GeodeticRad;
-  readonly cache: Map<string, CorrectionValue>;
+  /** Corrections computed so far, per broadcast record (the store's one object per issue) and code. */
+  readonly cache: Map<Ephemeris, Map<string, CorrectionValue>>;
 }
 
 export interface CorrectionValue {
@@ -76,6 +77,12 @@ export interface ReferenceContext {
   readonly glonassChannels: ReadonlyMap<number, number>;
 }
 
+
+function cacheCorrection(cache: Map<Ephemeris, Map<string, CorrectionValue>>, eph: Ephemeris, code: string, v: CorrectionValue): void {
+  let byCode = cache.get(eph);
+  if (!byCode) { byCode = new Map(); cache.set(eph, byCode); }
+  byCode.set(code, v);
+}
 
 function median(v: number[]): number {
   if (v.length === 0) return NaN;
@@ -150,8 +157,8 @@ export class ReferenceCorrections {
     }
     this.lastClockM = clockM;
     // The corrections of the issue in use now are already computed: keep them.
-    const cache = new Map<string, CorrectionValue>();
-    for (const x of modelled) cache.set(`${x.sat}|${x.code}|${issueKey(x.eph)}`, { correctionM: x.m.residualM - clockM, elevationRad: x.m.elevationRad });
+    const cache = new Map<Ephemeris, Map<string, CorrectionValue>>();
+    for (const x of modelled) cacheCorrection(cache, x.eph, x.code, { correctionM: x.m.residualM - clockM, elevationRad: x.m.elevationRad });
     this.epochs.push({
       tagGpsS: epoch.tagGpsS,
       timeGpsS: epoch.tagGpsS - clockM / SPEED_OF_LIGHT_MS,
@@ -171,8 +178,7 @@ export class ReferenceCorrections {
   }
 
   private correctionOf(e: ReferenceEpoch, sat: SatId, code: string, eph: Ephemeris): CorrectionValue | null {
-    const key = `${sat}|${code}|${issueKey(eph)}`;
-    const hit = e.cache.get(key);
+    const hit = e.cache.get(eph)?.get(code);
     if (hit) return hit;
     const rs = e.sats.get(sat);
     const p = rs?.codes.get(code);
@@ -181,7 +187,7 @@ export class ReferenceCorrections {
     const m = this.model(eph, sat, system, code, p, e.tagGpsS, e.clockM, e.arpM, e.geodetic, dayOfYear(e.tagGpsS));
     if (m === null) return null;
     const v = { correctionM: m.residualM - e.clockM, elevationRad: m.elevationRad };
-    e.cache.set(key, v);
+    cacheCorrection(e.cache, eph, code, v);
     return v;
   }
 

@@ -82,9 +82,9 @@ const LLI_HALF_CYCLE_BIT = 2;
  * Receivers that write the Doppler with the other sign are recognised per epoch (the sign whose misfits
  * scatter less). Needs three satellites with Doppler; otherwise nothing is flagged.
  */
-export function dopplerSlipFlags(dPhaseCycles: Float64Array, dopplerPrevHz: Float64Array, dopplerHz: Float64Array, dtS: Float64Array): Uint8Array {
+export function dopplerSlipFlags(dPhaseCycles: ArrayLike<number>, dopplerPrevHz: ArrayLike<number>, dopplerHz: ArrayLike<number>, dtS: ArrayLike<number>): boolean[] {
   const n = dPhaseCycles.length;
-  const flags = new Uint8Array(n);
+  const flags: boolean[] = new Array<boolean>(n).fill(false);
   const idx: number[] = [];
   for (let i = 0; i < n; i++) if (Number.isFinite(dPhaseCycles[i]) && Number.isFinite(dopplerPrevHz[i]) && Number.isFinite(dopplerHz[i]) && dtS[i] > 0) idx.push(i);
   if (idx.length < 3) return flags;
@@ -96,7 +96,7 @@ export function dopplerSlipFlags(dPhaseCycles: Float64Array, dopplerPrevHz: Floa
   const [use, common] = a.mad <= b.mad ? [plus, a.m] : [minus, b.m];
   for (let k = 0; k < idx.length; k++) {
     const i = idx[k];
-    if (Math.abs(use[k] - common) > 1 + 0.5 * dtS[i]) flags[i] = 1;
+    if (Math.abs(use[k] - common) > 1 + 0.5 * dtS[i]) flags[i] = true;
   }
   return flags;
 }
@@ -134,9 +134,11 @@ export class CarrierSmoother {
   }
 
   update(epochTimeS: number, sats: readonly SmootherInput[]): SmootherOutput[] {
+    // Plain arrays: a few numbers per satellite, made every epoch (a typed array costs more to make than to use here).
+    const nanArray = (): number[] => new Array<number>(sats.length).fill(NaN);
     // 1. which satellites continue, and their code-minus-carrier changes
     const continuing: boolean[] = new Array(sats.length);
-    const cmcChange = new Float64Array(sats.length).fill(NaN);
+    const cmcChange = nanArray();
     for (let i = 0; i < sats.length; i++) {
       const o = sats[i];
       const st = this.states.get(o.sat);
@@ -146,8 +148,7 @@ export class CarrierSmoother {
       continuing[i] = ok;
       if (ok) cmcChange[i] = o.codeM - o.phaseCycles * o.wavelengthM - (st!.codeM - st!.phaseM);
     }
-    const dPhase = new Float64Array(sats.length).fill(NaN), dPrev = new Float64Array(sats.length).fill(NaN);
-    const dNow = new Float64Array(sats.length).fill(NaN), dts = new Float64Array(sats.length).fill(NaN);
+    const dPhase = nanArray(), dPrev = nanArray(), dNow = nanArray(), dts = nanArray();
     for (let i = 0; i < sats.length; i++) {
       if (!continuing[i]) continue;
       const o = sats[i], st = this.states.get(o.sat)!;
