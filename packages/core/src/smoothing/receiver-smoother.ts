@@ -53,7 +53,8 @@ export class ReceiverSmoother {
   private readonly filters = new Map<string, CarrierSmoother>();
   /** Receiver clock jumps repaired so far per code filter (m): removed from code minus carrier in the arcs. */
   private readonly jumpsM = new Map<string, number>();
-  private readonly current = new Map<string, SmoothingArc | undefined>();
+  /** The arc each satellite is in, per code (code -> sat -> arc). */
+  private readonly current = new Map<string, Map<SatId, SmoothingArc | undefined>>();
   /** Variance factor of the last update's outputs: sat -> code -> factor. */
   readonly factors = new Map<SatId, Map<string, number>>();
   restarts = 0;
@@ -123,16 +124,17 @@ export class ReceiverSmoother {
 
   /** The smoothed value of one satellite and code in the current mode, and its variance factor. */
   private arcValue(code: string, t: number, row: SmootherInputRow, restarted: boolean, jumpM: number, forwardM: number, n: number): { m: number; factor: number } {
-    const key = `${row.sat}|${code}`;
     const phaseM = row.phaseCycles * row.wavelengthM;
     if (this.mode !== 'forward') {
+      let current = this.current.get(code);
+      if (!current) { current = new Map(); this.current.set(code, current); }
       if (restarted) {
-        const id = `${key}|${t}`;
+        const id = `${row.sat}|${code}|${t}`;
         let arc = this.arcs!.byStart.get(id);
         if (!arc && this.mode === 'record') { arc = new SmoothingArc(t, this.timeConstantS / 10, this.timeConstantS); this.arcs!.byStart.set(id, arc); }
-        this.current.set(key, arc);
+        current.set(row.sat, arc);
       }
-      const arc = this.current.get(key);
+      const arc = current.get(row.sat);
       if (this.mode === 'record') arc?.add(t, row.codeM - phaseM - jumpM);
       else {
         const v = Number.isFinite(phaseM) ? arc?.at(t) : null;
