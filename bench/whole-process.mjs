@@ -101,6 +101,9 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
       writeFileSync(obs, gunzipSync(readFileSync(ss('dgar0100.24o.gz'))));
       writeFileSync(nav, gunzipSync(readFileSync(ss('brdc0100.24n.gz'))));
       cases.push(['DGAR day vs itself, GPS', solveCase('dgar', obs, obs, [nav], headerXyz(obs), work, runs), true]);
+      // Both files hold carrier phase, so the run above is a carrier-phase one (float filter, integer
+      // ambiguities, forward and backward passes); the floor is a code solve: the code engine beside it.
+      cases.push(['DGAR day vs itself, GPS, code only (--carrier-phase off)', solveCase('dgar-code', obs, obs, [nav], headerXyz(obs), work, runs, ['--systems', 'G', '--carrier-phase', 'off'], false), false]);
     }
     const bele = ss('BELE00BRA_R_20240100000_01D_30S_MO.crx.gz');
     if (existsSync(bele) && existsSync(ss('BRDC00IGS_R_20240100000_01D_MN.rnx.gz'))) {
