@@ -20,8 +20,6 @@ import {
  * when it was read (a file changed since is hashed afresh).
  */
 const digestsRead = new Map<string, { readonly sizeBytes: number; readonly mtimeMs: number; readonly sha256: string }>();
-/** Paths a fileChunks stream is hashing now (one stream per path hashes; others just read). */
-const hashing = new Set<string>();
 
 async function fileVersion(path: string): Promise<{ sizeBytes: number; mtimeMs: number } | null> {
   try {
@@ -32,20 +30,19 @@ async function fileVersion(path: string): Promise<{ sizeBytes: number; mtimeMs: 
   }
 }
 
-/** The file's bytes as chunks (what the core readers take); the first complete reading records the file's SHA-256. */
+/**
+ * The file's bytes as chunks (what the core readers take); the first complete reading records the file's
+ * SHA-256. Every reading started before that hashes (a reading may be left unfinished, as by a header
+ * probe, and cannot be waited for): a file read twice at once is hashed twice, once.
+ */
 export async function* fileChunks(path: string, chunkBytes = 1 << 16): AsyncIterable<Uint8Array> {
-  const version = digestsRead.has(path) || hashing.has(path) ? null : await fileVersion(path);
+  const version = digestsRead.has(path) ? null : await fileVersion(path);
   const h = version ? createHash('sha256') : null;
-  if (h) hashing.add(path);
-  try {
-    for await (const c of createReadStream(path, { highWaterMark: chunkBytes })) {
-      h?.update(c as Uint8Array);
-      yield c as Uint8Array;
-    }
-    if (h && version) digestsRead.set(path, { ...version, sha256: h.digest('hex') });
-  } finally {
-    if (h) hashing.delete(path);
+  for await (const c of createReadStream(path, { highWaterMark: chunkBytes })) {
+    h?.update(c as Uint8Array);
+    yield c as Uint8Array;
   }
+  if (h && version && !digestsRead.has(path)) digestsRead.set(path, { ...version, sha256: h.digest('hex') });
 }
 
 /** Throws one clear InputError when `path` is not a readable regular file. */
