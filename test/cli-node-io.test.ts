@@ -1,14 +1,39 @@
 /** The Node adapter: atomic writes, hashes, overlap rule. */
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, utimesSync, writeFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { OutputSet, sha256File, writeFileAtomic } from '../packages/cli/src/node-io.js';
+import { OutputSet, fileChunks, sha256File, writeFileAtomic } from '../packages/cli/src/node-io.js';
 import { requireOverlap } from '../packages/cli/src/input-checks.js';
 import { secondsFromCalendar } from '../packages/core/src/time/index.js';
 
 const dir = () => mkdtempSync(join(tmpdir(), 'rd-io-'));
+
+describe('input digests taken while reading (sha256File after fileChunks)', () => {
+  const read = async (p: string, chunkBytes?: number) => { for await (const c of fileChunks(p, chunkBytes)) void c; };
+  // FIPS 180-2 appendix B.1: SHA-256("abc").
+  const ABC = 'ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad';
+
+  it('a complete reading in small chunks gives the digest of the whole file', async () => {
+    const p = join(dir(), 'abc.obs');
+    writeFileSync(p, 'abc');
+    await read(p, 1);
+    expect(await sha256File(p)).toBe(ABC);
+  });
+
+  it('a reading left unfinished (a header probe) does not keep another from recording the digest; a file changed since is hashed afresh', async () => {
+    const p = join(dir(), 'x.obs');
+    writeFileSync(p, 'abc');
+    const probe = fileChunks(p, 1)[Symbol.asyncIterator]();
+    await probe.next();
+    await read(p);
+    expect(await sha256File(p)).toBe(ABC);
+    writeFileSync(p, 'abcd');
+    utimesSync(p, new Date(2001, 0, 1), new Date(2001, 0, 1));
+    expect(await sha256File(p)).toBe(createHash('sha256').update('abcd').digest('hex'));
+  });
+});
 
 describe('writeFileAtomic', () => {
   it('writes the bytes and returns their SHA-256', async () => {

@@ -36,6 +36,18 @@ describe('session code offsets (self-consistency)', () => {
     expect(r.relativeToChannelMeanM).toBeCloseTo(-2.1 - (-2.1 + 1.6 + 0.2) / 3, 1);
   });
 
+  it('satellite samples taken after the first pass (from the second pass\'s fixes) are reported; the channels stay as applied', () => {
+    const s = surveyWith({ 'R channel +1': -2.1, 'R channel -3': 1.6 });
+    const o = new SessionCodeOffsets(s, true, 0.001);
+    expect(o.reports.map((r) => r.key)).toEqual(['R channel +1', 'R channel -3']);
+    const r = rng(5);
+    for (let i = 0; i < 400; i++) s.samples.add('E11', -0.9 + 0.5 * gauss(r));
+    expect(o.reports.map((x) => x.key)).toEqual(['E11', 'R channel +1', 'R channel -3']);
+    expect(o.reports.find((x) => x.key === 'E11')!.applied).toBe(false);
+    expect(o.offsetM('E11', 'E', undefined)).toBe(0);
+    expect(o.offsetM('R03', 'R', 1)).toBeCloseTo(-2.1, 1);
+  });
+
   it('without the GLONASS policy of channel offsets nothing is applied to GLONASS', () => {
     const none = new SessionCodeOffsets(survey, false, 0.001);
     expect(none.offsetM('R03', 'R', 1)).toBe(0);
