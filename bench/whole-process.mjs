@@ -159,7 +159,7 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
     const sessions = simDir('batch-sessions');
     for (let i = 1; i <= 8; i++) copyFileSync(demo('rover-1s.obs'), join(sessions, `walk-${i}.obs`));
     const batchArgs = (jobs) => [CLI, 'batch', '--sessions', sessions, '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
-      '--ref-mark', 'KFRD', '--marks', demo('control-marks.csv'), '--jobs', String(jobs), '--out', join(work, `batch-${jobs}`), '--quiet'];
+      '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--jobs', String(jobs), '--out', join(work, `batch-${jobs}`), '--quiet'];
     const clear = (jobs) => () => rmSync(join(work, `batch-${jobs}`), { recursive: true, force: true });
     const b1 = measure(process.execPath, batchArgs(1), runs, clear(1));
     const b2 = measure(process.execPath, batchArgs(2), runs, clear(2));
