@@ -12,6 +12,7 @@ import {
 } from '@refdelta/core';
 import { parseChoice, parseNumber } from './parse-values.js';
 import { requireFile } from './node-io.js';
+import { FileRecordStore } from './record-file.js';
 import { UsageError } from './usage-error.js';
 
 export interface CarrierArgs {
@@ -85,7 +86,15 @@ export async function runCarrierSession(
     await requireFile(choice.antennasPath);
     antennas = readAntex(choice.antennasPath, await readFile(choice.antennasPath, 'latin1'));
   }
-  const run = await solveCarrierSession(async () => ({ ...inputs, ...(antennas ? { antennas } : {}) }), options, choice.options);
+  // The records wait for the backward pass in a temporary file, not in memory (record-file.ts).
+  const recordStore = new FileRecordStore();
+  let run: Awaited<ReturnType<typeof solveCarrierSession>>;
+  try {
+    run = await solveCarrierSession(async () => ({ ...inputs, ...(antennas ? { antennas } : {}), recordStore }), options, choice.options);
+  } catch (e) {
+    recordStore.close();
+    throw e;
+  }
   let n = 0, none = 0, first = NaN, last = NaN;
   const reasons = new Map<string, number>();
   const systems = new Set<GnssSystem>();
@@ -122,8 +131,9 @@ export async function runCarrierSession(
   };
 }
 
+/** The carrier kinds are among the solution kinds: the epoch is handed on as it is (a copy by spread is slow in V8 and fills its old generation). */
 function asEpochSolution(s: CarrierEpochSolution): EpochSolution {
-  return { ...s, kind: s.kind };
+  return s;
 }
 
 /** True for the carrier-phase solution kinds. */

@@ -9,7 +9,7 @@ export { GRS80, WGS84, azimuthElevation, degToRad, ecefDeltaToEnu, ecefToEnu, ec
 export { EphemerisStore, FREQ_L1_HZ, FREQ_L2_HZ, GALILEO_CONSTANTS, GPS_CONSTANTS, PZ90, keplerStateInto, satelliteClock, satelliteState } from './orbit/index.js';
 export { elevationVarianceM2, qualityControlLoop, solvePositionFix, solveWeightedLeastSquares, solveWeightedLeastSquaresSmall } from './solve/index.js';
 export { KNOWN_FRAME_NAMES, crsOfFrame, isKnownFrameName, looksLikeTransformationName, normaliseFrameName, parseHelmertJson, shippedTransformation } from './frames/index.js';
-export { CAUTIONS, CHECK_OUTPUT_FORMATS, POINTS_OUTPUT_FORMATS, SOLVE_OUTPUT_FORMATS, SUMMARY_FILE_NAME, crsStatement, csvtText, defaultOutputKinds, fixed, frameEpochText, horizontalVerticalStats, metadataFileName, outputKinds, pointReferenceWords, positionScatter, summaryJson, tableMetadata } from './report/index.js';
+export { CAUTIONS, CHECK_OUTPUT_FORMATS, POINTS_OUTPUT_FORMATS, SOLVE_OUTPUT_FORMATS, SUMMARY_FILE_NAME, crsStatement, csvtText, defaultOutputKinds, fixed, frameEpochText, horizontalVerticalStats, metadataFileName, outputKinds, pointReferenceWords, positionScatter, PositionSeries, seriesScatter, summaryJson, tableMetadata } from './report/index.js';
 export { ephemerisTimeGpsS, inspectNav, inspectObs, navInspectionText, obsInspectionText } from './inspect/index.js';
 export { mergeNav, readNav, readObsStream, writeNavRinex3, writeObsRinex3 } from './rinex/index.js';
 export { klobucharDelayM, slantTroposphere } from './atmosphere/index.js';
@@ -28,7 +28,7 @@ export { EGM96_NOT_A_DATUM_NOTE, pointRow, pointsColumns, pointsGeoJson, pointsM
 export { parsePointsCsv } from './report/points-csv.js';
 export { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, checkAgainstControl } from './report/control-check.js';
 export { CONTROL_CHECK_COLUMNS, controlCheckJson, controlCheckNotes, controlCheckRows } from './report/control-report.js';
-export { DEFAULT_CARRIER_OPTIONS, readAntex, solveCarrierSession, withCarrierDefaults } from './carrier/index.js';
+export { DEFAULT_CARRIER_OPTIONS, MemoryRecordStore, readAntex, solveCarrierSession, withCarrierDefaults } from './carrier/index.js';
 export { SKY_CSV_COLUMNS, buildBatchIndexHtml, buildSessionReportHtml, satelliteDirections, syntheticSessionReportData } from './report-html/index.js';
 export { inertRows } from './csv/inert-cell.js';
 export type * from './gnss/index.js';

@@ -4,7 +4,7 @@ import { csvText } from '../csv-text.js';
 import {
   broadcastOrbitFrame, crsOfFrame, crsStatement, frameEpochText, solveStandaloneSession, SOLVE_OUTPUT_FORMATS,
   GNSS_SYSTEMS, InputError, pointReferenceWords,
-  positionScatter, solveSession, summaryJson,
+  PositionSeries, seriesScatter, solveSession, summaryJson,
   type EpochOutputWriter, type RunExtras, type SolveOutputContext, type SolveOutputFormat, type SqliteDatabase,
   type EcefM, type EpochSolution, type FrameEpoch, type GnssSystem, type InputFileRecord, type ObsHeader, type OutputFileRecord,
   type PointReference, type SessionOptions, type SessionSummary, type Warning,
@@ -282,8 +282,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     frame, pointReference, systems: clockSystems, notes: [`reference coordinate: ${ref.note}`], standaloneRows: options.standaloneFallback && !singleReceiver, csv: csvText,
     wkt: (code) => epsgWkt(code), ...(kinds.includes('gpkg') ? { openDatabase: await sqliteFactory() } : {}),
   };
-  const positions: EcefM[] = [];
-  const standalone: EcefM[] = [];
+  const positions = new PositionSeries();
+  const standalone = new PositionSeries();
   let n = 0;
   const spanS = Math.max(roverSpan.lastGpsS - roverSpan.firstGpsS, 1e-9);
   try {
@@ -313,8 +313,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     for (const p of allPaths) inputs.push({ path: resolve(p), sha256: await sha256File(p), kind: kindOf(p), bytes: sizes.get(p), layers: layersOf(p) });
     if (choice?.mode === 'mark') inputs.push({ path: resolve(choice.marksFile), sha256: await sha256File(choice.marksFile), kind: 'control' });
     const scatter = positions.length
-      ? { over: 'differential and smoothed epochs', stats: positionScatter(positions) }
-      : standalone.length ? { over: 'standalone epochs (no differential epoch)', stats: positionScatter(standalone) } : undefined;
+      ? { over: 'differential and smoothed epochs', stats: seriesScatter(positions) }
+      : standalone.length ? { over: 'standalone epochs (no differential epoch)', stats: seriesScatter(standalone) } : undefined;
     const solvedEpochs = summary.epochsRover - summary.epochsByKind.none;
     const top = summary.epochRejections[0]?.reason;
     const failure = summary.epochsRover === 0 ? noEpochSentence(a.rover, rep.warnings.filter((w) => w.file === a.rover))

@@ -26,9 +26,13 @@ function mulSym(m: number[], v: number[]): number[] {
   return [m[0] * v[0] + m[1] * v[1] + m[2] * v[2], m[1] * v[0] + m[3] * v[1] + m[4] * v[2], m[2] * v[0] + m[4] * v[1] + m[5] * v[2]];
 }
 
-export function combinePasses(f: PassResult, fFloat: PassResult, b: PassResult, bFloat: PassResult, agreementM: number): PassResult {
+/**
+ * The combined passes, written into `out`: by default a new PassResult, or the forward float result fFloat
+ * itself, which saves a day's worth of memory (at each epoch fFloat is read before it is written, and
+ * what an epoch leaves unwritten there is what a new result holds: no solution, no fixed ambiguity).
+ */
+export function combinePasses(f: PassResult, fFloat: PassResult, b: PassResult, bFloat: PassResult, agreementM: number, out: PassResult = new PassResult(f.kind.length)): PassResult {
   const n = f.kind.length;
-  const out = new PassResult(n);
   const copy = (src: PassResult, k: number, kind: number): void => {
     out.kind[k] = kind;
     for (let i = 0; i < 3; i++) out.position[3 * k + i] = src.position[3 * k + i];

@@ -352,6 +352,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
 
   for (let n = 0; n < rec.count; n++) {
     const k = direction === 1 ? n : rec.count - 1 - n;
+    rec.visit(k);
     const t = rec.timeGpsS[k];
     const x0x = rec.x0[3 * k], x0y = rec.x0[3 * k + 1], x0z = rec.x0[3 * k + 2];
     // Position prediction.
@@ -519,9 +520,9 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       const slot = arcSlot.get(rec.arc[j]);
       const ionoM = ionoTerm(j, X);
       if (Number.isFinite(rec.phaseM[j]) && slot !== undefined) {
-        out.residualM[j] = rec.phaseM[j] - (geoNow - ionoM + X(phaseClockSlot.get(info.group)!) + info.wavelengthM * X(slot));
+        out.residualM[rec.satBase + j] = rec.phaseM[j] - (geoNow - ionoM + X(phaseClockSlot.get(info.group)!) + info.wavelengthM * X(slot));
       } else if (Number.isFinite(rec.codeM[j])) {
-        out.residualM[j] = rec.codeM[j] - (geoNow + ionoM + X(clockSlot.get(info.group)!));
+        out.residualM[rec.satBase + j] = rec.codeM[j] - (geoNow + ionoM + X(clockSlot.get(info.group)!));
       }
     }
   }

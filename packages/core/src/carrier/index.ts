@@ -4,3 +4,4 @@ export { DEFAULT_CARRIER_OPTIONS, withCarrierDefaults, type CarrierOptions, type
 export { readAntex, findAntenna, antennaCorrectionM, phaseCentreVariationM, type AntexData, type AntennaCalibration, type FrequencyCalibration } from './antex.js';
 export { ArcTracker } from './arc-tracker.js';
 export type { FixedDoubleDifference } from './float-filter.js';
+export { MemoryRecordStore, type RecordStore } from './epoch-records.js';

@@ -45,7 +45,7 @@ import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '.
 import { ArcTracker, type ArcInput } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
 import { ReferencePhaseBuffer, reduceReferenceEpoch, type BandArcs } from './reference-phase.js';
-import { EpochRecords } from './epoch-records.js';
+import { EpochRecords, type RecordStore } from './epoch-records.js';
 import { codeVarianceScale, runPass, singleDifferenceVarianceM2, type FixedDoubleDifference, type PassResult, type SatelliteInfo } from './float-filter.js';
 import { combinePasses } from './combine-passes.js';
 import type { CarrierOptions } from './options.js';
@@ -65,6 +65,8 @@ export interface CarrierInputs {
   readonly onWarning?: WarningSink;
   /** Told the integers each pass fixed at each epoch (epoch tag, double differences): for checks against known integers. */
   readonly onFixedAmbiguities?: (fix: { readonly pass: 'forward' | 'backward'; readonly tagGpsS: number; readonly ambiguities: readonly FixedDoubleDifference[] }) => void;
+  /** Where the prepared records wait for the passes (epoch-records.ts); default: in memory. Closed when the last epoch has been yielded. */
+  readonly recordStore?: RecordStore;
 }
 
 /** Opens the inputs (again); called once per reading. */
@@ -128,7 +130,6 @@ interface EpochContext {
   readonly pointName: string;
   readonly event: 'new-occupation' | 'start-moving' | null;
   readonly antenna: AntennaOffset;
-  readonly line: number;
 }
 
 export async function solveCarrierSession(open: CarrierInputFactory, options: SessionOptions, carrier: CarrierOptions): Promise<CarrierRun> {
@@ -286,7 +287,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   }
 
   // Reading: one pass over the rover, building the records.
-  const rec = new EpochRecords();
+  const rec = new EpochRecords(inputs.recordStore);
   const contexts: EpochContext[] = [];
   const reasons: string[] = [];
   let roverAntenna: AntennaOffset = options.roverAntenna ?? rover.header.antennaOffset;
@@ -336,8 +337,11 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     }
     if (e.flag !== 0 && e.flag !== 1) continue;
     if (e.sats.length === 0) continue;
-    const context = contexts.length;
-    contexts.push({ pointName, event: pendingEvent, antenna: roverAntenna, line: e.line });
+    // Consecutive epochs share their context (one object per occupation or event, not per epoch).
+    const last = contexts[contexts.length - 1];
+    const same = last !== undefined && last.pointName === pointName && last.event === pendingEvent && last.antenna === roverAntenna;
+    if (!same) contexts.push({ pointName, event: pendingEvent, antenna: roverAntenna });
+    const context = contexts.length - 1;
     pendingEvent = null;
     const isStatic = carrier.dynamics === 'static' || (carrier.dynamics === 'auto' && occupied);
     reasons.push(await prepareRoverEpoch(e, isStatic, context));
@@ -517,19 +521,26 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const onFix = (pass: 'forward' | 'backward') => sink ? { onFix: (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[k], ambiguities }) } : {};
   const fwd = runPass(rec, { ...setup, ...onFix('forward') }, 1);
   const bwd = runPass(rec, { ...setup, ...onFix('backward') }, -1);
-  const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM);
+  // Combined into the forward float result's arrays; of the passes only their kinds are kept for the
+  // outputs (a day at 1 Hz holds about 7 MB per pass result).
+  const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM, fwd.float);
+  const forwardKinds = fwd.result.kind, backwardKinds = bwd.result.kind;
+  // Per entry of the session (EpochRecords.satBase + j).
+  const forwardResiduals = fwd.result.residualM, backwardResiduals = bwd.result.residualM;
   const codeScale = codeVarianceScale(rec, carrier);
-  const shares = (r: PassResult): PassShares => {
+  const shares = (kinds: Uint8Array): PassShares => {
     let fixed = 0, float = 0, none = 0;
-    for (const k of r.kind) { if (k === 2) fixed++; else if (k === 1) float++; else none++; }
+    for (const k of kinds) { if (k === 2) fixed++; else if (k === 1) float++; else none++; }
     return { fixed, float, none };
   };
+  const forwardShares = shares(forwardKinds), backwardShares = shares(backwardKinds), combinedShares = shares(combined.kind);
   notes.push(`filter: ${fwd.counts.unflaggedSlips + bwd.counts.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.counts.codeOutliers + bwd.counts.codeOutliers} code outliers left out, ${fwd.counts.disturbedEpochs + bwd.counts.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
 
   const gRef = ecefToGeodetic(refMark);
   const broadcastFrame = frame;
   function solutionAt(k: number): CarrierEpochSolution {
-    const c = contexts[rec.context[k]] ?? { pointName, event: null, antenna: roverAntenna, line: 0 };
+    rec.visit(k);
+    const c = contexts[rec.context[k]] ?? { pointName, event: null, antenna: roverAntenna };
     const kind = KIND[combined.kind[k]];
     const pointReference = options.reduceToMark ? 'ground-mark' as const : 'antenna-reference-point' as const;
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
@@ -552,7 +563,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       const info = satellites[rec.sat[j]];
       const withPhase = Number.isFinite(rec.phaseM[j]);
       const from = combined.residualFrom[k];
-      const residualM = from === 1 ? fwd.result.residualM[j] : from === 2 ? bwd.result.residualM[j] : NaN;
+      const residualM = from === 1 ? forwardResiduals[rec.satBase + j] : from === 2 ? backwardResiduals[rec.satBase + j] : NaN;
       const variance = withPhase ? singleDifferenceVarianceM2(carrier.phaseAM, carrier.phaseBM, rec.elevationRad[j]) : codeScale * singleDifferenceVarianceM2(carrier.codeAM, carrier.codeBM, rec.elevationRad[j]);
       sats.push({
         sat: info.id, signal: withPhase ? info.phaseCode : info.code, elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: az,
@@ -560,33 +571,36 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
         reason: rec.elevationRad[j] < maskRad ? `below elevation mask (${(rec.elevationRad[j] / DEG).toFixed(1)} deg)` : withPhase ? '' : 'no phase at both receivers (code only)',
       });
     }
-    const base = {
+    // One object literal per epoch, no spread of a shared part: V8 copies a spread object through a slow
+    // path that allocates in the old generation, which made the heap of a long session grow several-fold.
+    const solved = kind !== 'none';
+    const arp = { x: combined.position[3 * k], y: combined.position[3 * k + 1], z: combined.position[3 * k + 2] };
+    const pos = solved && options.reduceToMark ? arpToMark(arp, c.antenna) : arp;
+    const refPoint = options.reduceToMark ? refMark : refArp;
+    const baselineEcef = solved ? { x: pos.x - refPoint.x, y: pos.y - refPoint.y, z: pos.z - refPoint.z } : null;
+    const cv = combined.covariance.subarray(6 * k, 6 * k + 6);
+    const g = solved ? ecefToGeodetic(pos) : null;
+    return {
       tagGpsS: rec.tagGpsS[k], timeGpsS: rec.timeGpsS[k], pointName: c.pointName, pointReference,
       relativeClockM: {}, dops: dilutionOfPrecision({ lineOfSight: used, frame: 'ecef', receiver: gRef, clockIndex }), quality: null, correctionAgeS: rec.referenceAgeS[k], satellites: sats,
       speedMS: Number.isFinite(rec.velocity[4 * k]) ? Math.hypot(rec.velocity[4 * k], rec.velocity[4 * k + 1], rec.velocity[4 * k + 2]) : NaN,
       occupationEvent: c.event, antennaHeightM: c.antenna.heightM,
-      forwardKind: KIND[fwd.result.kind[k]], backwardKind: KIND[bwd.result.kind[k]],
+      forwardKind: KIND[forwardKinds[k]], backwardKind: KIND[backwardKinds[k]],
       ratio: combined.ratio[k] > 0 ? combined.ratio[k] : NaN, fixedAmbiguities: combined.fixedAmbiguities[k],
-    };
-    if (kind === 'none') {
-      return { ...base, kind, reason: reasons[k] || 'too few satellites for a solution', position: null, geodetic: null, baselineEcef: null, baselineEnu: null, satellitesUsed: 0, sigmaEnuM: null, sigma3dM: NaN };
-    }
-    const arp = { x: combined.position[3 * k], y: combined.position[3 * k + 1], z: combined.position[3 * k + 2] };
-    const pos = options.reduceToMark ? arpToMark(arp, c.antenna) : arp;
-    const refPoint = options.reduceToMark ? refMark : refArp;
-    const baselineEcef = { x: pos.x - refPoint.x, y: pos.y - refPoint.y, z: pos.z - refPoint.z };
-    const cv = combined.covariance.subarray(6 * k, 6 * k + 6);
-    const g = ecefToGeodetic(pos);
-    return {
-      ...base, kind, reason: kind === 'float' && fwd.result.kind[k] === 2 && bwd.result.kind[k] === 2 ? 'forward and backward fixes disagree' : '',
-      position: { ecef: pos, frame: broadcastFrame }, geodetic: g,
-      baselineEcef, baselineEnu: ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad),
-      satellitesUsed: combined.satellitesUsed[k], sigmaEnuM: enuSigma(cv, g.latRad, g.lonRad), sigma3dM: Math.sqrt(cv[0] + cv[3] + cv[5]),
+      kind,
+      reason: !solved ? reasons[k] || 'too few satellites for a solution' : kind === 'float' && forwardKinds[k] === 2 && backwardKinds[k] === 2 ? 'forward and backward fixes disagree' : '',
+      position: solved ? { ecef: pos, frame: broadcastFrame } : null, geodetic: g,
+      baselineEcef, baselineEnu: baselineEcef ? ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad) : null,
+      satellitesUsed: solved ? combined.satellitesUsed[k] : 0, sigmaEnuM: g ? enuSigma(cv, g.latRad, g.lonRad) : null, sigma3dM: solved ? Math.sqrt(cv[0] + cv[3] + cv[5]) : NaN,
     };
   }
 
   async function* run(): AsyncIterable<CarrierEpochSolution> {
-    for (let k = 0; k < rec.count; k++) yield solutionAt(k);
+    try {
+      for (let k = 0; k < rec.count; k++) yield solutionAt(k);
+    } finally {
+      rec.close();
+    }
   }
 
   const recordBytes = rec.count * 80 + rec.satTotal * 40;
@@ -601,7 +615,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     epochs: run(),
     summary: (): CarrierSummary => ({
       frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
-      epochsRover: rec.count, forward: shares(fwd.result), backward: shares(bwd.result), combined: shares(combined),
+      epochsRover: rec.count, forward: forwardShares, backward: backwardShares, combined: combinedShares,
       fixableSystems: [...fixable], signals: [...new Set(satellites.map((x) => `${x.system} ${x.phaseCode}`))], slips: { rover: allCauses(roverTracker, roverBandTrackers), reference: allCauses(refTracker, refBandTrackers) },
       baselineLengthM, notes, recordBytes,
     }),

@@ -11,6 +11,8 @@ import { epochColumns, epochRow } from './epoch-rows.js';
 import { jsonNumber } from './format.js';
 
 const BEFORE = 'latitude_deg';
+/** Where the frame cells go: before latitude_deg, which comes before any clock column. */
+const FRAME_CELLS_AT = epochColumns([]).indexOf(BEFORE);
 
 /** Carrier-phase columns, last: the ratio test statistic and the number of fixed ambiguities (empty for code rows). */
 const CARRIER_COLUMNS = ['ratio', 'fixed_ambiguities'];
@@ -39,9 +41,10 @@ export function frameEpochCell(epochYear: number): string {
 /** One row aligned with epochTableColumns(systems); frame cells are empty when the epoch has no position. */
 export function epochTableRow(s: EpochSolution, systems: readonly GnssSystem[]): string[] {
   const r = epochRow(s, systems);
-  const i = epochColumns(systems).indexOf(BEFORE);
   const f = s.position && s.kind !== 'none' ? s.position.frame : null;
-  return [...r.slice(0, i), f ? f.name : '', f ? frameEpochCell(f.epochYear) : '', ...r.slice(i), ...carrierCells(s)];
+  r.splice(FRAME_CELLS_AT, 0, f ? f.name : '', f ? frameEpochCell(f.epochYear) : '');
+  r.push(...carrierCells(s));
+  return r;
 }
 
 /** The metadata note that says which rows are in another frame (only when standalone rows can occur). */

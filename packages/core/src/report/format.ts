@@ -3,9 +3,35 @@
 /** Fixed-decimal text of a number; '' for null, undefined, NaN or infinities (an empty CSV cell means "no value"). */
 export function fixed(x: number | null | undefined, decimals: number): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '';
+  const quick = fixedAwayFromTies(x, decimals);
+  if (quick !== null) return quick;
   const t = x.toFixed(decimals);
   // '-0.000' reads as a sign where there is none.
   return t.charCodeAt(0) === 45 && onlyZeros(t, 1) ? t.slice(1) : t;
+}
+
+const POW10 = [1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9];
+
+/**
+ * The text of fixed() by integer arithmetic, which the output builders call for every cell (several
+ * times faster than toFixed), or null near a rounding tie, where toFixed decides. toFixed rounds the
+ * exact value x * 10^d to an integer (ECMA-262, Number.prototype.toFixed); the product in doubles is
+ * within |x * 10^d| * 2^-53 of it, so away from a tie (by more than 1e-15 relative) both round to the
+ * same integer. The sign of a number that rounds to zero is dropped, as fixed() does.
+ */
+function fixedAwayFromTies(x: number, decimals: number): string | null {
+  if (!(decimals >= 0 && decimals <= 9) || decimals !== Math.floor(decimals)) return null;
+  const scaled = x * POW10[decimals];
+  const a = Math.abs(scaled);
+  if (!(a < 2 ** 52)) return null;
+  if (Math.abs(a - Math.floor(a) - 0.5) <= a * 1e-15) return null;
+  const n = Math.round(a);
+  const sign = x < 0 && n !== 0 ? '-' : '';
+  if (decimals === 0) return sign + String(n);
+  let digits = String(n);
+  if (digits.length <= decimals) digits = '0'.repeat(decimals + 1 - digits.length) + digits;
+  const point = digits.length - decimals;
+  return sign + digits.slice(0, point) + '.' + digits.slice(point);
 }
 
 /** True when t from index `from` holds nothing but '0' and '.' (a negative number that rounded to zero). */

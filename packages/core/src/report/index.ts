@@ -12,7 +12,7 @@ export {
   type InputKind, type InputFileRecord, type OutputFileRecord, type LabelledScatter, type SummaryExtras,
 } from './summary-json.js';
 export {
-  percentile, mean, rms, horizontalVerticalStats, enuDifferences, meanEcef, positionScatter,
+  percentile, mean, rms, horizontalVerticalStats, enuDifferences, meanEcef, positionScatter, seriesScatter, PositionSeries,
   type HorizontalVerticalStats, type ScatterStats,
 } from './statistics.js';
 export { errorsAgainstTruth, truthStatistics, type TruthPoint } from './truth-compare.js';

@@ -100,17 +100,12 @@ const EPOCHS: SolveOutputFormat = {
   defaultOn: true,
   description: 'one row per rover epoch: position, baseline, clocks, precision, tests',
   open(ctx) {
-    let pending: string[][] = [];
+    // Each epoch's text at once (the CLI buffers the bytes): rows held back for a batch would outlive
+    // the collector's young generation and be copied into its old one.
     return {
       start: () => ctx.csv([epochTableColumns(ctx.systems)]),
-      epoch: (s) => {
-        pending.push(epochTableRow(s, ctx.systems));
-        if (pending.length < 500) return '';
-        const t = ctx.csv(pending);
-        pending = [];
-        return t;
-      },
-      end: () => (pending.length ? ctx.csv(pending) : ''),
+      epoch: (s) => ctx.csv([epochTableRow(s, ctx.systems)]),
+      end: () => '',
     };
   },
   sidecars(ctx) {
@@ -137,17 +132,10 @@ const RESIDUALS: SolveOutputFormat = {
   defaultOn: true,
   description: 'one row per satellite per rover epoch (long form): residual, weight, w-test, used or rejected with the reason',
   open(ctx) {
-    let pending: string[][] = [];
     return {
       start: () => ctx.csv([[...RESIDUAL_COLUMNS]]),
-      epoch: (s) => {
-        pending.push(...residualRowsOf(s));
-        if (pending.length < 2000) return '';
-        const t = ctx.csv(pending);
-        pending = [];
-        return t;
-      },
-      end: () => (pending.length ? ctx.csv(pending) : ''),
+      epoch: (s) => ctx.csv(residualRowsOf(s)),
+      end: () => '',
     };
   },
   sidecars(ctx) {

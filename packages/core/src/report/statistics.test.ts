@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { geodeticToEcef, degToRad } from '../geodesy/index.js';
-import { enuDifferences, horizontalVerticalStats, percentile, positionScatter } from './statistics.js';
+import { enuDifferences, horizontalVerticalStats, percentile, PositionSeries, positionScatter, seriesScatter } from './statistics.js';
 
 describe('percentile (Hyndman & Fan 1996 definition 7)', () => {
   it('matches worked values of linear interpolation between closest ranks', () => {
@@ -46,5 +46,21 @@ describe('ENU differences and scatter', () => {
     expect(s.horizontalMedianM).toBeGreaterThan(990);
     expect(s.horizontalMedianM).toBeLessThan(1010);
     expect(s.verticalMedianM).toBeLessThan(0.2);
+  });
+});
+
+describe('seriesScatter (positions in one Float64Array)', () => {
+  it('gives positionScatter\'s figures bit for bit', () => {
+    // Check-values #2 (GeographicLib CartConvert manual) as the centre; the spread is arbitrary.
+    const c = geodeticToEcef({ latRad: degToRad(33), lonRad: degToRad(44), heightM: 20 });
+    const series = new PositionSeries();
+    const list = [];
+    for (let i = 0; i < 5000; i++) {
+      const p = { x: c.x + Math.sin(i * 1.3) * 3, y: c.y + Math.cos(i * 0.7) * 2, z: c.z + ((i * 37) % 101) / 50 };
+      series.push(p);
+      list.push(p);
+    }
+    expect(seriesScatter(series)).toEqual(positionScatter(list));
+    expect(seriesScatter(new PositionSeries())).toEqual(positionScatter([]));
   });
 });

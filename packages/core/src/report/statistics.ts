@@ -105,3 +105,92 @@ export function positionScatter(positions: readonly EcefM[]): ScatterStats {
   const d = m ? enuDifferences(positions, m) : [];
   return { ...horizontalVerticalStats(d), meanEcef: m };
 }
+
+/**
+ * Positions collected one at a time as interleaved ECEF x, y, z (m) in one growing Float64Array: a day at
+ * 1 Hz is 2 MB, where as many small objects take several times that and stay in the collector's old
+ * generation.
+ */
+export class PositionSeries {
+  private xyz = new Float64Array(3 * 1024);
+  length = 0;
+
+  push(p: EcefM): void {
+    if (3 * this.length === this.xyz.length) {
+      const b = new Float64Array(2 * this.xyz.length);
+      b.set(this.xyz);
+      this.xyz = b;
+    }
+    const i = 3 * this.length++;
+    this.xyz[i] = p.x; this.xyz[i + 1] = p.y; this.xyz[i + 2] = p.z;
+  }
+
+  /** Position i as x, y, z (m). */
+  x(i: number): number { return this.xyz[3 * i]; }
+  y(i: number): number { return this.xyz[3 * i + 1]; }
+  z(i: number): number { return this.xyz[3 * i + 2]; }
+}
+
+/** The percentile of percentile() over typed values (finite ones, sorted ascending). */
+function percentileOfTyped(values: Float64Array, p: number): number {
+  let n = 0;
+  const all = new Float64Array(values.length);
+  for (const v of values) if (Number.isFinite(v)) all[n++] = v;
+  const xs = all.subarray(0, n).sort();
+  if (n === 0) return NaN;
+  const h = (n - 1) * p;
+  const lo = Math.floor(h);
+  const hi = Math.min(lo + 1, n - 1);
+  return xs[lo] + (h - lo) * (xs[hi] - xs[lo]);
+}
+
+function maxOfTyped(values: Float64Array): number {
+  let m = -Infinity;
+  for (const v of values) {
+    if (Number.isNaN(v)) return NaN;
+    if (v > m) m = v;
+  }
+  return values.length ? m : NaN;
+}
+
+function rmsOfTyped(values: Float64Array): number {
+  if (values.length === 0) return NaN;
+  let s = 0;
+  for (const v of values) s += v * v;
+  return Math.sqrt(s / values.length);
+}
+
+/** positionScatter() of a PositionSeries: the same figures, without an object per position. */
+export function seriesScatter(series: PositionSeries): ScatterStats {
+  const n = series.length;
+  if (n === 0) return positionScatter([]);
+  // Mean as meanEcef: differences from the first point, summed in order.
+  const ox = series.x(0), oy = series.y(0), oz = series.z(0);
+  let sx = 0, sy = 0, sz = 0;
+  for (let i = 0; i < n; i++) { sx += series.x(i) - ox; sy += series.y(i) - oy; sz += series.z(i) - oz; }
+  const m = { x: ox + sx / n, y: oy + sy / n, z: oz + sz / n };
+  const g = ecefToGeodetic(m);
+  const e = new Float64Array(n), nn = new Float64Array(n), u = new Float64Array(n), h = new Float64Array(n), ua = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const d = ecefDeltaToEnu({ x: series.x(i) - m.x, y: series.y(i) - m.y, z: series.z(i) - m.z }, g.latRad, g.lonRad);
+    e[i] = d.e; nn[i] = d.n; u[i] = d.u;
+    h[i] = Math.hypot(d.e, d.n); ua[i] = Math.abs(d.u);
+  }
+  const rmsE = rmsOfTyped(e), rmsN = rmsOfTyped(nn), rmsU = rmsOfTyped(u);
+  return {
+    count: n,
+    horizontalMedianM: percentileOfTyped(h, 0.5),
+    horizontal95M: percentileOfTyped(h, 0.95),
+    horizontalMaxM: maxOfTyped(h),
+    verticalMedianM: percentileOfTyped(ua, 0.5),
+    vertical95M: percentileOfTyped(ua, 0.95),
+    verticalMaxM: maxOfTyped(ua),
+    rmsEastM: rmsE,
+    rmsNorthM: rmsN,
+    rmsUpM: rmsU,
+    // As horizontalVerticalStats (FGDC-STD-007.3-1998 section 3.2.2).
+    nssdaHorizontal95M: 1.7308 * Math.hypot(rmsE, rmsN),
+    nssdaVertical95M: 1.96 * rmsU,
+    meanEcef: m,
+  };
+}

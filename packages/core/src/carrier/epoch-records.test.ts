@@ -1,0 +1,80 @@
+/**
+ * Records kept in chunks and read back in any order, forwards and backwards as the passes do: every field
+ * comes back bit for bit (a storage round trip, common practice; the values are arbitrary).
+ */
+import { describe, expect, it } from 'vitest';
+import { CHUNK_SATELLITES, EpochRecords, MemoryRecordStore, type RecordStore } from './epoch-records.js';
+
+/** A store that counts its blocks and hands out one shared buffer, as a file-backed store may. */
+class SharedBufferStore implements RecordStore {
+  private readonly inner = new MemoryRecordStore();
+  private buffer = new Uint8Array(0);
+  blocks = 0;
+  put(bytes: Uint8Array): number { this.blocks++; return this.inner.put(bytes); }
+  get(block: number): Uint8Array {
+    const b = this.inner.get(block);
+    if (this.buffer.length < b.length) this.buffer = new Uint8Array(b.length);
+    this.buffer.set(b);
+    return this.buffer.subarray(0, b.length);
+  }
+  close(): void { this.inner.close(); }
+}
+
+const satsAt = (k: number): number => 5 + (k % 9);
+const value = (k: number, i: number): number => Math.fround(Math.sin(k * 7.1 + i * 0.37));
+
+function record(store: RecordStore, epochs: number): EpochRecords {
+  const rec = new EpochRecords(store);
+  for (let k = 0; k < epochs; k++) {
+    rec.beginEpoch(1e9 + k, 1e9 + k - 1e-7, { x: 4e6 + k, y: 6e5 - k, z: 4.6e6 + 0.5 * k }, k % 3 === 0, k % 31, k % 4);
+    if (k % 5 === 0) rec.setVelocity(k, 0.1 * k, -0.2, 0.3, 0.05);
+    for (let i = 0; i < satsAt(k); i++) {
+      rec.addSatellite(k, i, k * 10 + i, 2e4 + k + i / 3, -1e3 + k * 0.001 + i, value(k, i), value(k, i + 1), value(k, i + 2), value(k, i + 3), (k + i) % 2 === 0);
+    }
+    // While recording, the previous epoch's entries are still there (the reading compares the two).
+    if (k > 0) {
+      const p = k - 1, i0 = rec.satStart[p];
+      for (let i = 0; i < satsAt(p); i++) if (rec.arc[i0 + i] !== p * 10 + i || rec.phaseM[i0 + i] !== 2e4 + p + i / 3) throw new Error(`epoch ${p} lost while recording epoch ${k}`);
+    }
+  }
+  return rec;
+}
+
+function expectEpoch(rec: EpochRecords, k: number): void {
+  rec.visit(k);
+  expect(rec.timeGpsS[k]).toBe(1e9 + k);
+  expect(rec.x0[3 * k + 2]).toBe(4.6e6 + 0.5 * k);
+  expect(rec.velocity[4 * k]).toBe(k % 5 === 0 ? 0.1 * k : NaN);
+  expect(rec.satCount[k]).toBe(satsAt(k));
+  const j0 = rec.satStart[k];
+  for (let i = 0; i < satsAt(k); i++) {
+    const j = j0 + i;
+    expect([rec.sat[j], rec.arc[j], rec.phaseM[j], rec.codeM[j], rec.los[3 * j + 2], rec.elevationRad[j], rec.fixable[j]])
+      .toEqual([i, k * 10 + i, 2e4 + k + i / 3, -1e3 + k * 0.001 + i, value(k, i + 2), value(k, i + 3), (k + i) % 2 === 0 ? 1 : 0]);
+  }
+}
+
+describe('carrier records in chunks (storage round trip)', () => {
+  const epochs = Math.ceil((3.5 * CHUNK_SATELLITES) / 9);
+
+  it('reads every epoch back forwards, backwards and at random, across chunk boundaries', () => {
+    const store = new SharedBufferStore();
+    const rec = record(store, epochs);
+    expect(rec.count).toBe(epochs);
+    for (let k = 0; k < epochs; k += 37) expectEpoch(rec, k);
+    // Session-wide entry indices: epoch k's first entry is the sum of the satellites of the epochs before it.
+    let before = 0;
+    for (let k = 0; k < epochs; k++) {
+      if (k % 97 === 0) { rec.visit(k); expect(rec.satBase + rec.satStart[k]).toBe(before); }
+      before += satsAt(k);
+    }
+    expect(rec.satTotal).toBe(before);
+    for (let k = epochs - 1; k >= 0; k -= 41) expectEpoch(rec, k);
+    expect(store.blocks).toBeGreaterThanOrEqual(4);
+    // Another user of the store in between (the stored forward pass) does not disturb the current chunk.
+    rec.visit(epochs - 1);
+    store.get(0);
+    expectEpoch(rec, epochs - 1);
+  });
+
+});
