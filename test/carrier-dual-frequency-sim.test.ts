@@ -5,66 +5,15 @@
  * clocks and ambiguities, the ionosphere state), not the physics; the outside checks of the further bands
  * are the real zero baselines (carrier-dual-frequency-real.test.ts).
  */
+import { solveWithKnownIntegers, SHORT_BASELINE_ERRORS } from './support/known-integers.js';
 import { describe, expect, it } from 'vitest';
 import { simulateScenario, exampleScenarioSpec, type ScenarioSpec, type SimulatedScenario } from '../packages/sim/src/index.js';
-import { withDefaults } from '../packages/core/src/session/index.js';
-import { solveCarrierSession, withCarrierDefaults, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary } from '../packages/core/src/carrier/index.js';
+import type { CarrierEpochSolution, CarrierOptions } from '../packages/core/src/carrier/index.js';
 import { ecefToEnu } from '../packages/core/src/geodesy/index.js';
-import type { ObsEpoch, ObsHeader, ObsStream } from '../packages/core/src/rinex/obs-types.js';
-
-function stream(file: string, header: ObsHeader, epochs: () => Iterable<ObsEpoch>): ObsStream {
-  return { file, header, epochs: (async function* () { yield* epochs(); })() };
-}
-
-/** Known integers: each receiver's ambiguity per satellite, band and epoch tag, as the simulator drew them. */
-class TrueAmbiguities {
-  private readonly bySat = new Map<string, { tags: number[]; n1: number[]; n2: number[] }>();
-  record = (tagGpsS: number, sat: string, n1: number, n2: number): void => {
-    let e = this.bySat.get(sat);
-    if (!e) this.bySat.set(sat, (e = { tags: [], n1: [], n2: [] }));
-    e.tags.push(tagGpsS); e.n1.push(n1); e.n2.push(n2);
-  };
-  /** The ambiguity of a band at the latest epoch at or before t. */
-  at(sat: string, band: 1 | 2, tGpsS: number): number {
-    const e = this.bySat.get(sat);
-    if (!e) return NaN;
-    let lo = 0, hi = e.tags.length - 1, best = -1;
-    while (lo <= hi) { const m = (lo + hi) >> 1; if (e.tags[m]! <= tGpsS + 1e-3) { best = m; lo = m + 1; } else hi = m - 1; }
-    return best < 0 ? NaN : (band === 1 ? e.n1 : e.n2)[best]!;
-  }
-}
-
-interface Solved { sols: CarrierEpochSolution[]; summary: CarrierSummary; fixes: { L1: number; L2: number }; wrongFixes: string[] }
 
 /** Solves a session; with `unflagged`, the rover's loss-of-lock bits are cleared. Every fixed integer is checked against the simulator's. */
-async function solveSim(sim: SimulatedScenario, carrier: Partial<CarrierOptions>, unflagged = false): Promise<Solved> {
-  const rover = new TrueAmbiguities(), reference = new TrueAmbiguities();
-  const fixes = { L1: 0, L2: 0 };
-  const wrongFixes: string[] = [];
-  const roverEpochs = (): Iterable<ObsEpoch> => {
-    const all = sim.rover.epochs(rover.record);
-    return unflagged ? [...all].map((e) => ({ ...e, sats: e.sats.map((x) => ({ ...x, lli: new Uint8Array(x.lli.length) })) })) : all;
-  };
-  const run = await solveCarrierSession(async () => ({
-    rover: stream('rover', sim.roverHeader, roverEpochs),
-    references: [stream('reference', sim.referenceHeader, () => sim.reference.epochs(reference.record))],
-    nav: sim.nav,
-    // (rover - reference) of the satellite minus the same of the pivot, on the double difference's band
-    // (signal L2W: the simulator's L2 integer; else L1/E1).
-    onFixedAmbiguities: ({ pass, tagGpsS, ambiguities }) => {
-      const t = sim.truth.roverTrueTime(tagGpsS);
-      for (const a of ambiguities) {
-        const band = a.signal[1] === '2' ? 2 : 1;
-        fixes[band === 2 ? 'L2' : 'L1']++;
-        const sd = (sat: string) => rover.at(sat, band, tagGpsS) - reference.at(sat, band, t);
-        const truth = sd(a.sat) - sd(a.pivot);
-        if (a.cycles !== truth) wrongFixes.push(`${pass} ${tagGpsS}: ${a.sat}-${a.pivot} ${a.signal} fixed ${a.cycles}, true ${truth}`);
-      }
-    },
-  }), withDefaults({ reference: { position: { ecef: sim.truth.referenceMark, frame: sim.truth.frame } }, reduceToMark: false }), withCarrierDefaults(carrier));
-  const sols: CarrierEpochSolution[] = [];
-  for await (const s of run.epochs) sols.push(s);
-  return { sols, summary: run.summary(), fixes, wrongFixes };
+async function solveSim(sim: SimulatedScenario, carrier: Partial<CarrierOptions>, unflagged = false) {
+  return solveWithKnownIntegers(sim, { carrier, unflagged });
 }
 
 function check(sim: SimulatedScenario, sols: readonly CarrierEpochSolution[]): { fixed: number; worstM: number; firstForwardFix: number } {
@@ -80,13 +29,7 @@ function check(sim: SimulatedScenario, sols: readonly CarrierEpochSolution[]): {
 }
 
 // As carrier-sim.test.ts: a short baseline's errors with frequent slips (on both bands) and gaps, multipath off.
-const ERRORS = {
-  orbit: true, satClock: true, rxClock: true, codeNoise: true, phaseNoise: true,
-  iono: { klobucharScale: 1, gradientMPerKm: 0.001, waveLengthKm: 200, waveAzimuthDeg: 30, wavePeriodS: 1800 },
-  tropo: { zenithWetSigmaM: 0, minPeriodS: 1800, maxPeriodS: 3600 },
-  slips: { roverPerSatHour: 20, referencePerSatHour: 2, maxCycles: 30 },
-  gaps: true,
-} as const;
+const ERRORS = SHORT_BASELINE_ERRORS;
 
 describe('simulator + carrier-phase engine, dual-frequency receivers (self-consistency, every fixed integer checked on both bands)', () => {
   it('a static point with slips on both bands: every fixed epoch within 0.01 m, >= 90 % fixed, the first forward fix no later than with L1 alone; L2 phase residuals at the fixed solution at the millimetre level', async () => {

@@ -4,63 +4,17 @@
  * time alignment, the filter, integer fixing across slips and gaps), not the physics; the outside checks
  * are the real-data tests (carrier-static-run.test.ts).
  */
+import { solveWithKnownIntegers, SHORT_BASELINE_ERRORS } from './support/known-integers.js';
 import { describe, expect, it } from 'vitest';
 import { simulateScenario, exampleScenarioSpec, type ScenarioSpec, type SimulatedScenario } from '../packages/sim/src/index.js';
-import { withDefaults } from '../packages/core/src/session/index.js';
-import { solveCarrierSession, withCarrierDefaults, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary } from '../packages/core/src/carrier/index.js';
+import type { CarrierEpochSolution, CarrierOptions } from '../packages/core/src/carrier/index.js';
 import { ecefToEnu } from '../packages/core/src/geodesy/index.js';
-import type { ObsEpoch, ObsHeader, ObsStream } from '../packages/core/src/rinex/obs-types.js';
 import { percentile } from './support/static-run.js';
 
-/** Known integers: each receiver's ambiguity per satellite and epoch tag, as the simulator drew them. */
-class TrueAmbiguities {
-  private readonly bySat = new Map<string, { tags: number[]; n: number[] }>();
-  record = (tagGpsS: number, sat: string, n1: number): void => {
-    let e = this.bySat.get(sat);
-    if (!e) this.bySat.set(sat, (e = { tags: [], n: [] }));
-    e.tags.push(tagGpsS); e.n.push(n1);
-  };
-  /** The ambiguity at the latest epoch at or before t (the engine never carries phase across a slip). */
-  at(sat: string, tGpsS: number): number {
-    const e = this.bySat.get(sat);
-    if (!e) return NaN;
-    let lo = 0, hi = e.tags.length - 1, best = -1;
-    while (lo <= hi) { const m = (lo + hi) >> 1; if (e.tags[m]! <= tGpsS + 1e-3) { best = m; lo = m + 1; } else hi = m - 1; }
-    return best < 0 ? NaN : e.n[best]!;
-  }
-}
-
-function stream(file: string, header: ObsHeader, epochs: () => Iterable<ObsEpoch>): ObsStream {
-  return { file, header, epochs: (async function* () { yield* epochs(); })() };
-}
-
-interface Solved { sols: CarrierEpochSolution[]; summary: CarrierSummary; fixes: number; glonassFixes: number; wrongFixes: string[] }
-
-async function solveSim(sim: SimulatedScenario, carrier: Partial<CarrierOptions> = {}): Promise<Solved> {
-  const rover = new TrueAmbiguities(), reference = new TrueAmbiguities();
-  let fixes = 0, glonassFixes = 0;
-  const wrongFixes: string[] = [];
-  const run = await solveCarrierSession(async () => ({
-    rover: stream('rover', sim.roverHeader, () => sim.rover.epochs(rover.record)),
-    references: [stream('reference', sim.referenceHeader, () => sim.reference.epochs(reference.record))],
-    nav: sim.nav,
-    // Every double difference fixed by either pass against the simulator's integers: (rover - reference)
-    // of the satellite minus the same of the pivot, rover ambiguity at the epoch's tag, reference ambiguity
-    // at its latest epoch (within one reference arc, the engine's rule).
-    onFixedAmbiguities: ({ pass, tagGpsS, ambiguities }) => {
-      const t = sim.truth.roverTrueTime(tagGpsS);
-      for (const a of ambiguities) {
-        fixes++;
-        if (a.sat[0] === 'R') glonassFixes++;
-        const sd = (sat: string) => rover.at(sat, tagGpsS) - reference.at(sat, t);
-        const truth = sd(a.sat) - sd(a.pivot);
-        if (a.cycles !== truth) wrongFixes.push(`${pass} ${tagGpsS}: ${a.sat}-${a.pivot} fixed ${a.cycles}, true ${truth}`);
-      }
-    },
-  }), withDefaults({ systems: sim.referenceHeader.obsCodes.R ? ['G', 'R'] : ['G', 'E'], reference: { position: { ecef: sim.truth.referenceMark, frame: sim.truth.frame } }, reduceToMark: false }), withCarrierDefaults(carrier));
-  const sols: CarrierEpochSolution[] = [];
-  for await (const s of run.epochs) sols.push(s);
-  return { sols, summary: run.summary(), fixes, glonassFixes, wrongFixes };
+/** Solved with every fixed integer checked; GPS with GLONASS when simulated, else with Galileo. */
+async function solveSim(sim: SimulatedScenario, carrier: Partial<CarrierOptions> = {}) {
+  const r = await solveWithKnownIntegers(sim, { carrier, systems: sim.referenceHeader.obsCodes.R ? ['G', 'R'] : ['G', 'E'] });
+  return { ...r, fixes: r.fixes.total, glonassFixes: r.fixes.glonass };
 }
 
 interface Errors { fixed: number; epochs: number; worst3dM: number; worstHM: number; worstVM: number; h95: number; v95: number }
@@ -91,18 +45,9 @@ function check(sim: SimulatedScenario, sols: readonly CarrierEpochSolution[]): {
 
 const fmtErr = (e: Errors) => `${e.fixed}/${e.epochs} fixed, H95 ${e.h95?.toFixed(4)} V95 ${e.v95?.toFixed(4)} m, worst H ${e.worstHM.toFixed(4)} V ${e.worstVM.toFixed(4)} 3-D ${e.worst3dM.toFixed(4)} m`;
 
-// Everything a short baseline leaves, plus frequent slips (flagged, as receivers do) and gaps; multipath off so
-// that a centimetre bound on every fixed epoch is a fair test of the algebra.
-const ERRORS = {
-  orbit: true, satClock: true, rxClock: true, codeNoise: true, phaseNoise: true,
-  iono: { klobucharScale: 1, gradientMPerKm: 0.001, waveLengthKm: 200, waveAzimuthDeg: 30, wavePeriodS: 1800 },
-  // The standard atmosphere at both heights, no wet-delay error: over 600 m the differential wet delay is
-  // millimetres (the simulator's field gives ~4 mm of zenith difference), which alone moves heights by about
-  // a centimetre and is no part of the integer algebra this checks.
-  tropo: { zenithWetSigmaM: 0, minPeriodS: 1800, maxPeriodS: 3600 },
-  slips: { roverPerSatHour: 20, referencePerSatHour: 2, maxCycles: 30 },
-  gaps: true,
-} as const;
+// A short baseline's errors with frequent flagged slips and gaps; multipath off so that a centimetre bound
+// on every fixed epoch is a fair test of the algebra.
+const ERRORS = SHORT_BASELINE_ERRORS;
 
 describe('simulator + carrier-phase engine (self-consistency, known integers)', () => {
   // Seeds are consecutive, not chosen: every session of each list is checked.

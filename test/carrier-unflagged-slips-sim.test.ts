@@ -5,60 +5,17 @@
  * finds slips the receiver did not report, with the Doppler and code-minus-phase tests seeing only the
  * large ones; the outside check of its false alarms is the real static run (carrier-static-run.test.ts).
  */
+import { solveWithKnownIntegers, SHORT_BASELINE_ERRORS } from './support/known-integers.js';
 import { describe, expect, it } from 'vitest';
 import { simulateScenario, exampleScenarioSpec, type SimulatedScenario } from '../packages/sim/src/index.js';
-import { withDefaults } from '../packages/core/src/session/index.js';
-import { solveCarrierSession, withCarrierDefaults, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary } from '../packages/core/src/carrier/index.js';
+import type { CarrierEpochSolution, CarrierOptions } from '../packages/core/src/carrier/index.js';
 import { ecefToEnu } from '../packages/core/src/geodesy/index.js';
-import type { ObsEpoch, ObsHeader, ObsStream } from '../packages/core/src/rinex/obs-types.js';
 import { percentile } from './support/static-run.js';
 
-function stream(file: string, header: ObsHeader, epochs: () => Iterable<ObsEpoch>): ObsStream {
-  return { file, header, epochs: (async function* () { yield* epochs(); })() };
-}
-
-/** Known integers: each receiver's L1/E1 ambiguity per satellite and epoch tag, as the simulator drew them. */
-class TrueAmbiguities {
-  private readonly bySat = new Map<string, { tags: number[]; n: number[] }>();
-  record = (tagGpsS: number, sat: string, n1: number): void => {
-    let e = this.bySat.get(sat);
-    if (!e) this.bySat.set(sat, (e = { tags: [], n: [] }));
-    e.tags.push(tagGpsS); e.n.push(n1);
-  };
-  at(sat: string, tGpsS: number): number {
-    const e = this.bySat.get(sat);
-    if (!e) return NaN;
-    let lo = 0, hi = e.tags.length - 1, best = -1;
-    while (lo <= hi) { const m = (lo + hi) >> 1; if (e.tags[m]! <= tGpsS + 1e-3) { best = m; lo = m + 1; } else hi = m - 1; }
-    return best < 0 ? NaN : e.n[best]!;
-  }
-}
-
-interface Solved { sols: CarrierEpochSolution[]; summary: CarrierSummary; fixes: number; wrongFixes: string[] }
-
 /** Solves a session on L1/E1 alone with the rover's loss-of-lock bits cleared; every fixed integer checked. */
-async function solveUnflagged(sim: SimulatedScenario, carrier: Partial<CarrierOptions>): Promise<Solved> {
-  const rover = new TrueAmbiguities(), reference = new TrueAmbiguities();
-  let fixes = 0;
-  const wrongFixes: string[] = [];
-  const roverEpochs = (): Iterable<ObsEpoch> => [...sim.rover.epochs(rover.record)].map((e) => ({ ...e, sats: e.sats.map((x) => ({ ...x, lli: new Uint8Array(x.lli.length) })) }));
-  const run = await solveCarrierSession(async () => ({
-    rover: stream('rover', sim.roverHeader, roverEpochs),
-    references: [stream('reference', sim.referenceHeader, () => sim.reference.epochs(reference.record))],
-    nav: sim.nav,
-    onFixedAmbiguities: ({ pass, tagGpsS, ambiguities }) => {
-      const t = sim.truth.roverTrueTime(tagGpsS);
-      for (const a of ambiguities) {
-        fixes++;
-        const sd = (sat: string) => rover.at(sat, tagGpsS) - reference.at(sat, t);
-        const truth = sd(a.sat) - sd(a.pivot);
-        if (a.cycles !== truth) wrongFixes.push(`${pass} ${tagGpsS}: ${a.sat}-${a.pivot} fixed ${a.cycles}, true ${truth}`);
-      }
-    },
-  }), withDefaults({ reference: { position: { ecef: sim.truth.referenceMark, frame: sim.truth.frame } }, reduceToMark: false }), withCarrierDefaults({ frequencies: 'single', ...carrier }));
-  const sols: CarrierEpochSolution[] = [];
-  for await (const s of run.epochs) sols.push(s);
-  return { sols, summary: run.summary(), fixes, wrongFixes };
+async function solveUnflagged(sim: SimulatedScenario, carrier: Partial<CarrierOptions>) {
+  const r = await solveWithKnownIntegers(sim, { carrier: { frequencies: 'single', ...carrier }, unflagged: true });
+  return { ...r, fixes: r.fixes.total };
 }
 
 function errors(sim: SimulatedScenario, sols: readonly CarrierEpochSolution[]): { fixed: number; errorsM: number[] } {
@@ -72,13 +29,7 @@ function errors(sim: SimulatedScenario, sols: readonly CarrierEpochSolution[]): 
 }
 
 // A short baseline's errors with frequent slips and gaps, multipath off (as carrier-dual-frequency-sim.test.ts).
-const ERRORS = {
-  orbit: true, satClock: true, rxClock: true, codeNoise: true, phaseNoise: true,
-  iono: { klobucharScale: 1, gradientMPerKm: 0.001, waveLengthKm: 200, waveAzimuthDeg: 30, wavePeriodS: 1800 },
-  tropo: { zenithWetSigmaM: 0, minPeriodS: 1800, maxPeriodS: 3600 },
-  slips: { roverPerSatHour: 20, referencePerSatHour: 2, maxCycles: 30 },
-  gaps: true,
-} as const;
+const ERRORS = SHORT_BASELINE_ERRORS;
 
 describe('simulator + carrier-phase engine, L1 alone, rover slips unflagged (self-consistency, every fixed integer checked)', () => {
   for (const seed of [22, 23, 24, 25, 26]) {
