@@ -2,11 +2,15 @@
 // yargs, csv-stringify) into one file, packages/cli/dist/refdelta.mjs, which the `refdelta` command
 // runs: Node then loads one module instead of a few hundred, which halves start-up. The library
 // stays modular (packages/core/dist is untouched); the bundle holds the same compiled code.
+import { rmSync } from 'node:fs';
 import { build } from 'esbuild';
 import { dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const cli = resolve(dirname(fileURLToPath(import.meta.url)), '..');
+
+// Chunks of an earlier build would stay beside the new ones.
+rmSync(resolve(cli, 'dist/chunks'), { recursive: true, force: true });
 
 // The command, and the script of the batch worker threads (dist/batch-worker-thread.mjs beside it).
 await build({
@@ -14,6 +18,11 @@ await build({
   outdir: resolve(cli, 'dist'),
   outExtension: { '.js': '.mjs' },
   bundle: true,
+  // Code each command needs only when it runs (main.ts imports the command modules when their command
+  // is chosen) goes to chunks of its own under dist/chunks/, loaded on demand: `--version`, `--help` and
+  // a wrong command line then compile a fraction of the engine.
+  splitting: true,
+  chunkNames: 'chunks/[name]-[hash]',
   platform: 'node',
   format: 'esm',
   target: 'node20',

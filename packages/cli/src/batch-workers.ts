@@ -40,9 +40,12 @@ export type WorkerAnswer =
   | { readonly index: number; readonly result: BatchSessionResult; readonly stdout: string; readonly stderr: string }
   | { readonly index: number; readonly usageError: string; readonly stdout: string; readonly stderr: string };
 
-/** The worker's script: the bundled one beside the bundled command, else the compiled module. */
+/**
+ * The worker's script: the bundled one beside the bundled command (this module is then in dist/chunks/),
+ * else the compiled module beside this one (dist/, unbundled).
+ */
 function workerScript(): URL {
-  const bundled = new URL('./batch-worker-thread.mjs', import.meta.url);
+  const bundled = new URL('../batch-worker-thread.mjs', import.meta.url);
   return existsSync(fileURLToPath(bundled)) ? bundled : new URL('./batch-worker-thread.js', import.meta.url);
 }
 

@@ -1,5 +1,5 @@
 /** One clear sentence (and an exit code) for every way a run can fail. */
-import { InputError, RefdeltaError } from '@refdelta/core';
+import { InputError, RefdeltaError } from '@refdelta/core/defaults-and-errors';
 import { EXIT_PROCESSING, EXIT_USAGE } from './exit-codes.js';
 import { UsageError } from './usage-error.js';
 

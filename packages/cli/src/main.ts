@@ -6,15 +6,15 @@
  * (check), 4 some sessions of a batch failed (see exit-codes.ts, README.md).
  */
 import yargs from 'yargs';
-import { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, DEFAULT_MATCH_RADIUS_M } from '@refdelta/core';
+import { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, DEFAULT_MATCH_RADIUS_M } from '@refdelta/core/defaults-and-errors';
 import { hideBin } from 'yargs/helpers';
-import { runSolve, type SolveArgs } from './commands/solve.js';
-import { runInspect } from './commands/inspect.js';
-import { runPoints, type PointsArgs } from './commands/points.js';
-import { runCheck, type CheckArgs } from './commands/check.js';
-import { runBatch, type BatchArgs } from './commands/batch.js';
-import { defineCarrierOptions } from './carrier-run.js';
-import { runReport } from './commands/report.js';
+// Each command's module is imported when that command runs (`--version`, `--help` and a wrong command
+// line load none of them): the bundle splits them into chunks of their own (scripts/bundle.mjs).
+import type { SolveArgs } from './commands/solve.js';
+import type { PointsArgs } from './commands/points.js';
+import type { CheckArgs } from './commands/check.js';
+import type { BatchArgs } from './commands/batch.js';
+import { defineCarrierOptions } from './carrier-option-definitions.js';
 import { defineProcessingOptions, definePointsOptions, defineSolveOptions, pointsArgsFrom, solveArgsFrom } from './solve-option-definitions.js';
 import { describeFailure } from './failure-sentence.js';
 import { EXIT_OK, EXIT_USAGE } from './exit-codes.js';
@@ -100,6 +100,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
         const a = args as unknown as Record<string, unknown>;
         const solveArgs: SolveArgs = solveArgsFrom(a);
         rep = new Reporter({ quiet: solveArgs.quiet ?? false, jsonLines: solveArgs.jsonLines ?? false });
+        const { runSolve } = await import('./commands/solve.js');
         exitCode = (await runSolve(solveArgs, rep)).exitCode;
       },
     )
@@ -113,6 +114,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
           .example(`refdelta inspect --text ${D}/KFRD-reference-5s.obs ${D}/broadcast-mixed.nav`, 'readable view of two files'),
       async (args) => {
         const files = ((args as unknown as { files?: string[] }).files ?? []).map(String);
+        const { runInspect } = await import('./commands/inspect.js');
         exitCode = await runInspect(files, (args as unknown as { text?: boolean }).text === true, rep);
       },
     )
@@ -126,6 +128,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
         const a = args as unknown as Record<string, unknown>;
         const pa: PointsArgs = pointsArgsFrom(a);
         rep = new Reporter({ quiet: pa.quiet ?? false, jsonLines: pa.jsonLines ?? false });
+        const { runPoints } = await import('./commands/points.js');
         exitCode = await runPoints(pa, rep);
       },
     )
@@ -151,6 +154,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
           referenceDir: a.referenceDir, navDir: a.navDir, jobs: a.jobs,
         };
         rep = new Reporter({ quiet: ba.quiet ?? false, jsonLines: ba.jsonLines ?? false });
+        const { runBatch } = await import('./commands/batch.js');
         exitCode = await runBatch(ba, rep);
       },
     )
@@ -171,6 +175,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
       async (args) => {
         const a = args as unknown as Record<string, unknown>;
         const ca: CheckArgs = { points: a.points, marks: a.marks, out: a.out, radius: a.radius, toleranceH: a.toleranceH, toleranceV: a.toleranceV, transform: a.transform, allowUnknownFrame: a.allowUnknownFrame, outputs: a.outputs };
+        const { runCheck } = await import('./commands/check.js');
         exitCode = await runCheck(ca, rep);
       },
     )
@@ -182,6 +187,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
           .example('refdelta report out/pts', 'out/pts/report.html from the outputs in out/pts')
           .example('refdelta report out/batch', "each session's report and out/batch/report.html linking them"),
       async (args) => {
+        const { runReport } = await import('./commands/report.js');
         exitCode = await runReport(String((args as unknown as { dir?: string }).dir ?? ''), rep);
       },
     )

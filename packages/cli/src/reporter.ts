@@ -4,7 +4,7 @@
  * "output" | "done" | "error", ...}). A progress bar is drawn on stderr only when stderr is a terminal
  * and neither --quiet nor --json-lines is given.
  */
-import { formatWarning, type Warning } from '@refdelta/core';
+import { formatWarning, type Warning } from '@refdelta/core/defaults-and-errors';
 import { visible, visibleLine } from './visible-text.js';
 
 export interface ReporterOptions {

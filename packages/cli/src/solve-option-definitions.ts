@@ -4,10 +4,10 @@
  * SolveArgs.
  */
 import type { Argv } from 'yargs';
-import { DEFAULT_OPTIONS, DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, defaultOutputKinds, outputKinds } from '@refdelta/core';
+import { DEFAULT_OPTIONS, DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, defaultOutputKinds, outputKinds } from '@refdelta/core/defaults-and-errors';
 import type { SolveArgs } from './commands/solve.js';
 import type { PointsArgs } from './commands/points.js';
-import { carrierArgsFrom } from './carrier-run.js';
+import { carrierArgsFrom } from './carrier-option-definitions.js';
 
 /** The files of one session (solve, points) and every processing option. */
 export function defineSolveOptions<T>(c: Argv<T>): Argv<T> {

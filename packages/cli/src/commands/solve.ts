@@ -28,7 +28,8 @@ import { EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
 import { UsageError } from '../usage-error.js';
 import { SOFTWARE } from '../software.js';
 import { warningsSummary } from '../warnings-summary.js';
-import { carrierSharesSentence, carrierSummaryJson, isCarrierKind, parseCarrierChoice, runCarrierSession, type CarrierArgs } from '../carrier-run.js';
+import { carrierSharesSentence, carrierSummaryJson, isCarrierKind, parseCarrierChoice, runCarrierSession } from '../carrier-run.js';
+import type { CarrierArgs } from '../carrier-option-definitions.js';
 import { stagedReportHtml } from '../staged-report.js';
 
 export interface SolveArgs extends ReferenceArgs, SolveOptionArgs, CarrierArgs {

@@ -22,7 +22,8 @@ export interface MarkMatch<P extends NamedPoint = NamedPoint> {
   readonly horizontalDistanceM: number;
 }
 
-export const DEFAULT_MATCH_RADIUS_M = 5;
+import { DEFAULT_MATCH_RADIUS_M } from './match-radius.js';
+export { DEFAULT_MATCH_RADIUS_M };
 
 const key = (s: string) => s.trim().toLowerCase();
 

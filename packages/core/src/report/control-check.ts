@@ -45,8 +45,8 @@ export interface ControlCheckResult {
   readonly allPass: boolean;
 }
 
-export const DEFAULT_CHECK_TOLERANCE_H_M = 1.0;
-export const DEFAULT_CHECK_TOLERANCE_V_M = 2.0;
+import { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M } from './tolerances.js';
+export { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M };
 
 export function checkAgainstControl(points: readonly (NamedPoint & { readonly session?: string })[], marks: readonly ControlMark[], opts: ControlCheckOptions = {}): ControlCheckResult {
   const radiusM = opts.radiusM ?? DEFAULT_MATCH_RADIUS_M;

@@ -20,6 +20,7 @@ export { epochTableColumns, epochTableRow, frameEpochCell, standaloneFrameNote }
 export { VOCABULARY, columnsDescribed, type VocabularyEntry } from './vocabulary.js';
 export { tableMetadata, crsStatement, type TableMetadataInput, type CrsStatement } from './table-metadata.js';
 export * from './output-registry.js';
+export * from './output-kinds.js';
 export { GeoPackageWriter, csvtText, gpkgPointBlob, gpkgFieldType, initGeoPackage, type SqliteDatabase, type GpkgLayer, type GpkgSrs } from './geopackage.js';
 export { kmlPlacemark, kmlStart, kmlEnd, kmlFrameNote, xmlText } from './kml.js';
 export { pointsDxf, DXF_POINTS_LAYER, DXF_NAMES_LAYER, type DxfPoint } from './dxf.js';

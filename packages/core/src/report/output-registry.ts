@@ -300,16 +300,6 @@ const POINTS_DXF: PointsOutputFormat = {
 /** Per-point outputs besides points.csv, points.geojson (always written by `points`) and the GeoPackage layer. */
 export const POINTS_OUTPUT_FORMATS: readonly PointsOutputFormat[] = [POINTS_KML, POINTS_DXF];
 
-/** Kinds of --outputs: the registered formats plus the summary. */
-export function outputKinds(): string[] {
-  const kinds = [...SOLVE_OUTPUT_FORMATS.map((f) => f.kind), ...POINTS_OUTPUT_FORMATS.map((f) => f.kind)];
-  return [...new Set(kinds), 'summary'];
-}
-
-export function defaultOutputKinds(): string[] {
-  return [...SOLVE_OUTPUT_FORMATS.filter((f) => f.defaultOn).map((f) => f.kind), 'summary'];
-}
-
 export const SUMMARY_FILE_NAME = 'summary.json';
 
 /** What `check` outputs are built from: control-check.csv's columns and rows, and the frames compared in. */

@@ -116,8 +116,8 @@ export interface PointsOutcome {
   readonly empty: readonly Occupation[];
 }
 
-export const DEFAULT_POINT_TOLERANCE_H_M = 1.0;
-export const DEFAULT_POINT_TOLERANCE_V_M = 2.0;
+import { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M } from './tolerances.js';
+export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M };
 const TAG_TOLERANCE_S = 0.01;
 
 /** The ARP above a ground-mark position, given the vertical height used. */

@@ -7,6 +7,8 @@ import { csvPreamble, epochColumns, epochRows } from './epoch-rows.js';
 import { residualRows, RESIDUAL_COLUMNS } from './residual-rows.js';
 import { geojson } from './geojson.js';
 import { CAUTIONS, summaryJson } from './summary-json.js';
+import { POINTS_OUTPUT_FORMATS, SOLVE_OUTPUT_FORMATS } from './output-registry.js';
+import { POINTS_OUTPUT_KINDS, SOLVE_OUTPUT_KINDS } from './output-kinds.js';
 
 // check-values.md #8: 2000-01-01 20:45:00 GPST = week 1042, tow 593100 s.
 const T = gpsSFromWeekTow(1042, 593100);
@@ -132,5 +134,12 @@ describe('run summary', () => {
     expect(j.cautions.join(' ')).toMatch(/mapping-grade/);
     expect(j.cautions.join(' ')).toMatch(/licensed surveyors/);
     expect(j.time_span.first_utc).toBe('2000-01-01T20:44:47.000Z'); // check-values.md #8 minus 13 leap seconds
+  });
+});
+
+describe('output kinds listed apart from their writers', () => {
+  it('are the registry\'s kinds, in its order, with its defaults', () => {
+    expect(SOLVE_OUTPUT_KINDS).toEqual(SOLVE_OUTPUT_FORMATS.map((f) => ({ kind: f.kind, defaultOn: f.defaultOn })));
+    expect(POINTS_OUTPUT_KINDS).toEqual(POINTS_OUTPUT_FORMATS.map((f) => f.kind));
   });
 });
