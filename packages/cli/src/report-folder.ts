@@ -154,9 +154,9 @@ async function readResiduals(path: string): Promise<ResidualSeries> {
   const { table: t, rows } = await streamCsvTable(path);
   const time = timeReader(t);
   const satCol = col(t, 'satellite', 'sat', 'prn'), elCol = col(t, 'elevation_deg', 'elevation'), azCol = col(t, 'azimuth_deg', 'azimuth');
-  const resCol = col(t, 'residual_m', 'residual'), statusCol = col(t, 'status'), reasonCol = col(t, 'reason');
+  const resCol = col(t, 'residual_m', 'residual'), statusCol = col(t, 'status'), reasonCol = col(t, 'reason'), signalCol = col(t, 'signal');
   const satIndex = new Map<string, number>(), reasonIndex = new Map<string, number>();
-  const s = { timeGpsS: [] as number[], satellite: [] as number[], elevationDeg: [] as number[], azimuthDeg: [] as number[], residualM: [] as number[], rejection: [] as number[] };
+  const s = { timeGpsS: [] as number[], satellite: [] as number[], elevationDeg: [] as number[], azimuthDeg: [] as number[], residualM: [] as number[], phase: [] as number[], rejection: [] as number[] };
   let i = 0;
   for await (const line of rows) {
     if (line.trim() === '') continue;
@@ -169,6 +169,8 @@ async function readResiduals(path: string): Promise<ResidualSeries> {
     s.elevationDeg[i] = numAt(c, elCol);
     s.azimuthDeg[i] = numAt(c, azCol);
     s.residualM[i] = numAt(c, resCol);
+    // RINEX 3 observation codes: L.. is carrier phase, C.. code (RINEX 3.05, section 5.1).
+    s.phase[i] = strAt(c, signalCol).startsWith('L') ? 1 : 0;
     const status = strAt(c, statusCol).toLowerCase();
     if (status === 'used' || (statusCol < 0 && strAt(c, reasonCol) === '')) s.rejection[i] = 0;
     else {
@@ -181,7 +183,7 @@ async function readResiduals(path: string): Promise<ResidualSeries> {
   }
   return {
     timeGpsS: Float64Array.from(s.timeGpsS), satellite: Uint16Array.from(s.satellite), elevationDeg: Float32Array.from(s.elevationDeg),
-    azimuthDeg: Float32Array.from(s.azimuthDeg), residualM: Float32Array.from(s.residualM), rejection: Uint16Array.from(s.rejection),
+    azimuthDeg: Float32Array.from(s.azimuthDeg), residualM: Float32Array.from(s.residualM), phase: Uint8Array.from(s.phase), rejection: Uint16Array.from(s.rejection),
     satellites: [...satIndex.keys()], reasons: [...reasonIndex.keys()],
   };
 }

@@ -29,6 +29,11 @@ export interface ResidualSeries {
   readonly elevationDeg: ArrayLike<number>;
   readonly azimuthDeg: ArrayLike<number>;
   readonly residualM: ArrayLike<number>;
+  /**
+   * 1 where the row is a carrier-phase residual (its signal a phase code, L..: millimetres), 0 for code
+   * (metres); absent when the outputs do not say (then every row is taken as code).
+   */
+  readonly phase?: ArrayLike<number>;
   /** 0 = used; k > 0 = rejected for reasons[k - 1]. */
   readonly rejection: ArrayLike<number>;
   readonly reasons: readonly string[];

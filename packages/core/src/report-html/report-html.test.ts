@@ -72,3 +72,23 @@ describe('report-html builders', () => {
     expect(html).toMatch(/mapping-grade/);
   });
 });
+
+describe('residual chart with carrier-phase and code residuals', () => {
+  it('draws phase in millimetres and code in metres on panels of their own (self-consistency)', async () => {
+    const { residualChart } = await import('./chart-residuals.js');
+    // Four used rows: two phase residuals of 3 and -4 mm, two code residuals of 0.8 and -0.6 m.
+    const rs = {
+      timeGpsS: [0, 0, 0, 0], satellite: [0, 1, 0, 1], satellites: ['G01', 'G02'], elevationDeg: [30, 60, 30, 60], azimuthDeg: [0, 90, 0, 90],
+      residualM: [0.003, -0.004, 0.8, -0.6], phase: [1, 1, 0, 0], rejection: [0, 0, 0, 0], reasons: [],
+    };
+    const svg = residualChart(rs);
+    expect(svg).toContain('Phase residual (mm)');
+    expect(svg).toContain('Residual (m)');
+    const groups = [...svg.matchAll(/<g class="used-marks" data-unit="(mm|m)"[^>]*>(.*?)<\/g>/g)].map((m) => [m[1], (m[2].match(/<circle/g) ?? []).length]);
+    expect(groups).toEqual([['mm', 2], ['m', 2]]);
+    // Code-only series (no phase column): one panel, as before.
+    const codeOnly = residualChart({ ...rs, phase: undefined });
+    expect(codeOnly).not.toContain('Phase residual');
+    expect([...codeOnly.matchAll(/class="used-marks"/g)].length).toBe(1);
+  });
+});
