@@ -233,4 +233,28 @@ describe('wrong and damaged input', () => {
       expect(Array.isArray(r.epochs)).toBe(true);
     }), { numRuns: 300 });
   });
+
+  it('systems filter: wanted systems read as without it; the others listed with blank fields', async () => {
+    for (const name of ['r2-events.24o', 'r3-scale-events.rnx', 'r4-obs.rnx']) {
+      const all = await read(fixture(name));
+      const stream = await readObsStream('f.obs', chunks(fixture(name)), { systems: ['G'] });
+      const some = await collectEpochs(stream);
+      expect(some.map((e) => e.sats.map((s) => s.sat))).toEqual(all.epochs.map((e) => e.sats.map((s) => s.sat)));
+      let blanks = 0;
+      some.forEach((e, i) => e.sats.forEach((s, j) => {
+        const full = all.epochs[i]!.sats[j]!;
+        expect(s.codes).toEqual(full.codes);
+        if (s.sat[0] === 'G') {
+          expect([...s.values]).toEqual([...full.values]);
+          expect([...s.lli]).toEqual([...full.lli]);
+          expect([...s.ssi]).toEqual([...full.ssi]);
+        } else {
+          blanks++;
+          expect(s.values.every((v) => Number.isNaN(v))).toBe(true);
+          expect(s.lli.every((v) => v === 0) && s.ssi.every((v) => v === 0)).toBe(true);
+        }
+      }));
+      expect(blanks).toBeGreaterThan(0);
+    }
+  });
 });

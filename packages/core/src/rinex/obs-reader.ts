@@ -26,6 +26,15 @@ import type { ObservationRecords } from '../compress/index.js';
 
 export interface ReadObsOptions {
   readonly onWarning?: WarningSink;
+  /**
+   * Systems whose observation values the caller will read (default: all). Satellites of other systems
+   * are still handed out, with their codes, but their fields are neither parsed nor checked: values
+   * NaN, LLI and SSI 0, as blank fields read (arrays shared by the satellites of a system, not to be
+   * written). Parsing the fields is most of the reading: a session on one constellation of a
+   * multi-constellation file skips the others' (a session gives them only a reason, see
+   * session/setup.ts systemLeftOutReason).
+   */
+  readonly systems?: readonly GnssSystem[];
 }
 
 /** Days from 1970-01-01 to the GPS epoch 1980-01-06. */
@@ -58,7 +67,7 @@ export async function readObsStream(file: string, text: AsyncIterable<string>, o
     hb.line(line, cur.lineNumber);
   }
   const header = hb.build(cur.lineNumber);
-  const parser = new EpochParser(file, header, cur, warn, records);
+  const parser = new EpochParser(file, header, cur, warn, records, opts?.systems ?? null);
   return { file, header, epochs: parser.epochs() };
 }
 
@@ -118,6 +127,10 @@ class EpochParser {
   /** codes and divisors indexed by the char code of the system letter (the hot loops avoid keyed lookups). */
   private readonly codesBy: (readonly string[] | undefined)[] = new Array<readonly string[] | undefined>(128).fill(undefined);
   private readonly divBy: (Float64Array | null)[] = new Array<Float64Array | null>(128).fill(null);
+  /** Whether the values of a system are wanted (ReadObsOptions.systems), by the char code of its letter. */
+  private readonly wantedBy: boolean[] = new Array<boolean>(128).fill(true);
+  /** Blank value/LLI/SSI arrays of a system whose values are not wanted, shared by its satellites (made on first use). */
+  private readonly blankBy: (BlankFields | null)[] = new Array<BlankFields | null>(128).fill(null);
   private readonly ts: TimeSystem;
   private prevTagGpsS = NaN;
   private dayKey = -1;
@@ -142,8 +155,13 @@ class EpochParser {
     private warnSink: WarningSink,
     /** Observation values that come as numbers (compact RINEX 3 through openText), or null. */
     private records: ObservationRecords | null,
+    wantedSystems: readonly GnssSystem[] | null,
   ) {
     this.r3 = header.version >= 3;
+    if (wantedSystems !== null) {
+      this.wantedBy.fill(false);
+      for (const s of wantedSystems) this.wantedBy[s.charCodeAt(0)] = true;
+    }
     this.codes = { ...header.obsCodes };
     this.ts = header.timeSystem;
     for (const [s, list] of Object.entries(this.codes) as [GnssSystem, readonly string[]][]) this.setCodes(s, list);
@@ -153,6 +171,7 @@ class EpochParser {
     this.codes[s] = list;
     const at = s.charCodeAt(0);
     this.codesBy[at] = list;
+    this.blankBy[at] = null;
     const t = this.header.scaleFactors[s];
     if (t === undefined) { this.divBy[at] = null; return; }
     const d = new Float64Array(list.length).fill(1);
@@ -420,6 +439,10 @@ class EpochParser {
         this.noTypes(sat.charAt(0), sat);
         continue;
       }
+      if (!this.wantedBy[sc]) {
+        sats.push(this.blankSat(sat, sc, codes));
+        continue;
+      }
       const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
       const div = this.divBy[sc]!;
       const out = rec < 0 ? this.values(src, a + 3, e, codes, div, sat, 0, codes.length, null) : this.recordValues(rec, codes, div, sat, 0, codes.length, null);
@@ -427,6 +450,17 @@ class EpochParser {
       sats.push(out);
     }
     return OK;
+  }
+
+  /** A satellite of a system whose values are not wanted: its fields read as blank, arrays shared. */
+  private blankSat(sat: SatId, sc: number, codes: readonly string[]): SatObservations {
+    let b = this.blankBy[sc];
+    if (b === null) {
+      const n = codes.length;
+      b = { values: new Float64Array(n).fill(NaN), lli: new Uint8Array(n), ssi: new Uint8Array(n) };
+      this.blankBy[sc] = b;
+    }
+    return { sat, codes, values: b.values, lli: b.lli, ssi: b.ssi };
   }
 
   private noTypes(s: string, sat: SatId): void {
@@ -448,6 +482,7 @@ class EpochParser {
       const div = this.divBy[sc]!;
       const nCodes = codes === undefined ? 0 : codes.length;
       const nLines = nCodes === 0 ? 1 : Math.ceil(nCodes / 5);
+      const wanted = this.wantedBy[sc]!;
       let out: SatObservations | null = null;
       for (let j = 0; j < nLines; j++) {
         const r = cur.takeSpan();
@@ -459,6 +494,10 @@ class EpochParser {
           return SKIPPED;
         }
         if (codes === undefined) { this.noTypes(sat.charAt(0), sat); break; }
+        if (!wanted) {
+          out ??= this.blankSat(sat, sc, codes);
+          continue; // its lines are taken (and told from an epoch line) but not parsed
+        }
         const from = j * 5, to = from + 5 < nCodes ? from + 5 : nCodes;
         const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
         out = rec < 0 ? this.values(src, a, e, codes, div, sat, from, to, out) : this.recordValues(rec, codes, div, sat, from, to, out);
@@ -531,6 +570,13 @@ class EpochParser {
       comments: hb.comments,
     };
   }
+}
+
+/** Value, LLI and SSI arrays of blank fields (see EpochParser.blankSat). */
+interface BlankFields {
+  readonly values: Float64Array;
+  readonly lli: Uint8Array;
+  readonly ssi: Uint8Array;
 }
 
 /** Float64 values per slab; lli/ssi bytes take twice as many entries. */
