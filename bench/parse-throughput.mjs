@@ -1,7 +1,9 @@
 // Part 1: observation-reader throughput on real day files held in memory as plain RINEX text,
 // against a bare line scan of the same text; the reader from the bytes against Buffer latin1 + split of
 // the same bytes (CPU), beside one JavaScript pass over those bytes; the compact-RINEX decode throughput
-// and the reader from the .crx bytes.
+// and the reader from the .crx bytes. The reader from bytes is timed reading every system's values, and
+// reading only those of the systems a solve asks for (readObsStream's `systems`, as `refdelta solve`
+// passes its --systems: the default list and GPS alone), the other satellites handed out with blank fields.
 import { readFileSync, existsSync } from 'node:fs';
 import { gunzipSync } from 'node:zlib';
 import { resolve } from 'node:path';
@@ -65,12 +67,18 @@ function jsBytePass(bytes) {
   return sum;
 }
 
-/** The reader as the command line uses it: bytes (64 KiB chunks) -> openText (Buffer latin1, decompression) -> readObsStream. */
-async function parseBytes(core, bytes, name = 'bench.obs') {
+/** Systems whose values a solve asks the reader for: the command's default --systems, and GPS alone. */
+export const SOLVE_SYSTEMS = { default: ['G', 'R', 'E', 'C', 'J'], gps: ['G'] };
+
+/**
+ * The reader as the command line uses it: bytes (64 KiB chunks) -> openText (Buffer latin1, decompression)
+ * -> readObsStream, reading the values of `systems` only when given (all when undefined).
+ */
+async function parseBytes(core, bytes, name = 'bench.obs', systems = undefined) {
   const opened = await core.openText(name, (async function* () {
     for (let i = 0; i < bytes.length; i += 1 << 16) yield bytes.subarray(i, Math.min(bytes.length, i + (1 << 16)));
   })(), { decodeLatin1: latin1 });
-  const st = await core.readObsStream(name, opened.text);
+  const st = await core.readObsStream(name, opened.text, systems ? { systems } : undefined);
   let sats = 0;
   for await (const e of st.epochs) sats += e.sats.length;
   return sats;
@@ -91,7 +99,13 @@ async function parseCase(core, name, text, decode) {
   const pb = await repeat(() => parseBytes(core, bytes), { minRuns: 5, minTotalMs: 3000 });
   const sb = await repeat(() => bytesScan(bytes), { minRuns: 10, minTotalMs: 1000 });
   const js = await repeat(() => jsBytePass(bytes), { minRuns: 10, minTotalMs: 1000 });
-  const fromBytes = { parserMBs: mb / pb.medianMs * 1000, bareMBs: mb / sb.medianMs * 1000, parserCpuMs: pb.medianCpuMs, bareCpuMs: sb.medianCpuMs, jsPassCpuMs: js.medianCpuMs };
+  // the same reading with only the values of the systems a solve asks for
+  const pDefault = await repeat(() => parseBytes(core, bytes, 'bench.obs', SOLVE_SYSTEMS.default), { minRuns: 5, minTotalMs: 3000 });
+  const pGps = await repeat(() => parseBytes(core, bytes, 'bench.obs', SOLVE_SYSTEMS.gps), { minRuns: 5, minTotalMs: 3000 });
+  const fromBytes = {
+    parserMBs: mb / pb.medianMs * 1000, bareMBs: mb / sb.medianMs * 1000, parserCpuMs: pb.medianCpuMs, bareCpuMs: sb.medianCpuMs, jsPassCpuMs: js.medianCpuMs,
+    defaultSystemsCpuMs: pDefault.medianCpuMs, gpsCpuMs: pGps.medianCpuMs,
+  };
   return {
     fromBytes: { ...fromBytes, ratio: fromBytes.parserMBs / fromBytes.bareMBs, cpuRatio: sb.medianCpuMs / pb.medianCpuMs },
     name, mb, lines: splitScan(text), sats: counts.sats, values: counts.values,

@@ -11,7 +11,7 @@ import { makeFolder } from './output-folder.js';
 import { commitWithJournal, registerTemporary, releaseTemporary, temporaryName } from './output-commit.js';
 import {
   InputError, mergeNav, openText, readNav, readObsStream,
-  type NavData, type ObsStream, type WarningSink,
+  type GnssSystem, type NavData, type ObsStream, type WarningSink,
 } from '@refdelta/core';
 
 /**
@@ -85,10 +85,13 @@ export async function openTextFile(path: string, onWarning: WarningSink): Promis
 
 export type OpenedObs = ObsStream & { readonly layers: readonly string[] };
 
-/** Opens an observation file (any encoding): header read, epochs streamed on iteration. */
-export async function openObs(path: string, onWarning: WarningSink): Promise<OpenedObs> {
+/**
+ * Opens an observation file (any encoding): header read, epochs streamed on iteration. Given `systems`,
+ * only their satellites' values are read (the others come with blank fields: ReadObsOptions.systems).
+ */
+export async function openObs(path: string, onWarning: WarningSink, systems?: readonly GnssSystem[]): Promise<OpenedObs> {
   const t = await openTextFile(path, onWarning);
-  const stream = await readObsStream(path, t.text, { onWarning });
+  const stream = await readObsStream(path, t.text, systems ? { onWarning, systems } : { onWarning });
   return { file: stream.file, header: stream.header, epochs: stream.epochs, layers: t.layers };
 }
 

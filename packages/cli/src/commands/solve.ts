@@ -249,10 +249,11 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
 
   await hooks.beforeRun?.(ref.position.ecef);
 
-  // 4. The run. Streams are opened afresh (the probes only read headers).
-  const rover = await openObs(a.rover, rep.warn);
+  // 4. The run. Streams are opened afresh (the probes only read headers). Only the values of the
+  // constellations asked for are read: the session gives the others' satellites a reason and no more.
+  const rover = await openObs(a.rover, rep.warn, base.systems);
   const references: OpenedObs[] = [];
-  for (const p of referencePaths) references.push(await openObs(p, rep.warn));
+  for (const p of referencePaths) references.push(await openObs(p, rep.warn, base.systems));
   const options: SessionOptions = {
     ...base,
     reference: singleReceiver
@@ -264,8 +265,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   // readers' warnings were given by the first.
   const reopen = async () => {
     const again: OpenedObs[] = [];
-    for (const p of referencePaths) again.push(await openObs(p, () => {}));
-    return { rover: await openObs(a.rover, () => {}), references: again };
+    for (const p of referencePaths) again.push(await openObs(p, () => {}, base.systems));
+    return { rover: await openObs(a.rover, () => {}, base.systems), references: again };
   };
   const carrier = singleReceiver ? null : parseCarrierChoice(a, hooks.command ?? 'solve', rover.header, references[0]!.header, options);
   if (singleReceiver && a.carrierPhase === 'on') throw new UsageError('--carrier-phase on needs a reference receiver (--reference FILE)');
