@@ -257,4 +257,28 @@ describe('wrong and damaged input', () => {
       expect(blanks).toBeGreaterThan(0);
     }
   });
+
+  it('systems filter: a garbled field of a system not wanted is not read, so not reported; an epoch record among its lines still is', async () => {
+    const cases = [
+      { name: 'r2-events.24o', from: '  21200001.500 7 111300008.37517', to: '  2120x001.500 7 111300008.37517', nth: 2 },
+      { name: 'r3-scale-events.rnx', from: 'R01 191000000.500', to: 'R01 1910x0000.500', nth: 1 },
+    ];
+    for (const c of cases) {
+      const parts = fixture(c.name).split(c.from);
+      expect(parts.length).toBeGreaterThan(c.nth);
+      const text = parts.slice(0, c.nth).join(c.from) + c.to + parts.slice(c.nth).join(c.from);
+      const all = await read(text);
+      expect(all.warnings.map((w) => w.code)).toContain('bad-epoch-skipped');
+      const warnings: Warning[] = [];
+      const some = await collectEpochs(await readObsStream('f.obs', chunks(text), { onWarning: (w) => warnings.push(w), systems: ['G'] }));
+      expect(warnings).toEqual([]);
+      expect(some.length).toBe(all.epochs.length + 1);
+      // cut inside the records of a satellite not wanted: the epoch is reported as without the filter
+      const cut = text.slice(0, text.indexOf(c.to) + 5);
+      const cutAll = await read(cut);
+      const cutWarnings: Warning[] = [];
+      await collectEpochs(await readObsStream('f.obs', chunks(cut), { onWarning: (w) => cutWarnings.push(w), systems: ['G'] }));
+      expect(cutWarnings.map((w) => w.message)).toEqual(cutAll.warnings.map((w) => w.message));
+    }
+  });
 });
