@@ -103,21 +103,26 @@ const AMBIGUITY_SIGMA_M = 5;
 const DROP_AFTER_S = 30;
 const HOLD_VAR_CYCLES2 = 1e-6;
 
+/**
+ * State and covariance of the filter. Slots are numbered in the order their states were added (fixed slots
+ * first) and stay contiguous: removing a state moves the later ones down one slot (`remove` returns the
+ * renumbering), so the updates run over rows 0..n-1 without an index list. The covariance is kept exactly
+ * symmetric: each pair (i, j) is computed once, for i <= j, and mirrored.
+ */
 class KalmanState {
   cap: number;
+  /** States in use: slots 0..n-1. */
+  n: number;
   x: Float64Array;
   p: Float64Array;
-  active: number[] = [];
-  private free: number[] = [];
   private ph: Float64Array;
 
-  constructor(private readonly fixedSlots: number) {
+  constructor(fixedSlots: number) {
     this.cap = fixedSlots + 32;
+    this.n = fixedSlots;
     this.x = new Float64Array(this.cap);
     this.p = new Float64Array(this.cap * this.cap);
     this.ph = new Float64Array(this.cap);
-    for (let i = 0; i < fixedSlots; i++) this.active.push(i);
-    for (let i = this.cap - 1; i >= fixedSlots; i--) this.free.push(i);
   }
 
   private grow(): void {
@@ -128,35 +133,35 @@ class KalmanState {
     const p = new Float64Array(cap * cap);
     for (let i = 0; i < old; i++) p.set(this.p.subarray(i * old, i * old + old), i * cap);
     this.x = x; this.p = p; this.cap = cap; this.ph = new Float64Array(cap);
-    for (let i = cap - 1; i >= old; i--) this.free.push(i);
   }
 
   /** Clears a slot's correlations and sets its value and variance. */
   reset(slot: number, value: number, variance: number): void {
-    const c = this.cap;
-    for (const i of this.active) { this.p[i * c + slot] = 0; this.p[slot * c + i] = 0; }
-    this.p[slot * c + slot] = variance;
+    const c = this.cap, p = this.p;
+    for (let i = 0; i < this.n; i++) { p[i * c + slot] = 0; p[slot * c + i] = 0; }
+    p[slot * c + slot] = variance;
     this.x[slot] = value;
   }
 
+  /** A new state, uncorrelated with the others, in the next slot. */
   allocate(value: number, variance: number): number {
-    if (this.free.length === 0) this.grow();
-    const s = this.free.pop()!;
-    const c = this.cap;
-    for (const i of this.active) { this.p[i * c + s] = 0; this.p[s * c + i] = 0; }
-    this.active.push(s);
-    this.p[s * c + s] = variance;
-    this.x[s] = value;
+    if (this.n === this.cap) this.grow();
+    const s = this.n++;
+    this.reset(s, value, variance);
     return s;
   }
 
-  release(slot: number): void {
-    const i = this.active.indexOf(slot);
-    if (i >= 0) this.active.splice(i, 1);
-    const c = this.cap;
-    for (const j of this.active) { this.p[j * c + slot] = 0; this.p[slot * c + j] = 0; }
-    this.p[slot * c + slot] = 0;
-    this.free.push(slot);
+  /** Removes a state: every later slot moves down by one (slot > removed becomes slot - 1). */
+  remove(slot: number): void {
+    const c = this.cap, p = this.p, n = this.n;
+    for (let i = 0; i < n; i++) {
+      if (i === slot) continue;
+      const to = (i < slot ? i : i - 1) * c;
+      if (to !== i * c) p.copyWithin(to, i * c, i * c + slot);
+      p.copyWithin(to + slot, i * c + slot + 1, i * c + n);
+    }
+    this.x.copyWithin(slot, slot + 1, n);
+    this.n = n - 1;
   }
 
   /** Innovation variance h P h' + r for a sparse h. */
@@ -169,27 +174,25 @@ class KalmanState {
 
   /** Sequential scalar update with a sparse row h, innovation v and measurement variance r. */
   update(idx: readonly number[], val: readonly number[], v: number, r: number): void {
-    const c = this.cap, p = this.p, ph = this.ph, act = this.active, x = this.x;
-    const na = act.length, nh = idx.length;
+    const c = this.cap, p = this.p, ph = this.ph, x = this.x;
+    const n = this.n, nh = idx.length;
     let s = r;
-    for (let ai = 0; ai < na; ai++) {
-      const row = act[ai] * c;
+    for (let i = 0; i < n; i++) {
+      const row = i * c;
       let t = 0;
       for (let m = 0; m < nh; m++) t += p[row + idx[m]] * val[m];
-      ph[act[ai]] = t;
+      ph[i] = t;
     }
     for (let m = 0; m < nh; m++) s += val[m] * ph[idx[m]];
     if (!(s > 0)) return;
     const inv = 1 / s;
     // P - ph ph' / s, symmetric: the upper triangle is computed and mirrored.
-    for (let ai = 0; ai < na; ai++) {
-      const i = act[ai];
+    for (let i = 0; i < n; i++) {
       const f = ph[i] * inv;
       x[i] += f * v;
       if (f === 0) continue;
       const row = i * c;
-      for (let aj = ai; aj < na; aj++) {
-        const j = act[aj];
+      for (let j = i; j < n; j++) {
         const y = p[row + j] - f * ph[j];
         p[row + j] = y;
         p[j * c + i] = y;
@@ -349,6 +352,12 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     return io === undefined ? 0 : info.ionoFactor * X(io);
   };
   const stateValue = (slot: number): number => st.x[slot];
+  /** Removes a state and renumbers the slots after it (KalmanState.remove). */
+  const release = (slot: number): void => {
+    st.remove(slot);
+    for (const [key, s] of arcSlot) if (s > slot) arcSlot.set(key, s - 1);
+    for (const [key, s] of ionoSlot) if (s > slot) ionoSlot.set(key, s - 1);
+  };
 
   for (let n = 0; n < rec.count; n++) {
     const k = direction === 1 ? n : rec.count - 1 - n;
@@ -381,14 +390,14 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     }
     // Drop ambiguity states of arcs not met for a while.
     for (const [arc, seen] of arcSeen) {
-      if (Math.abs(t - seen) > DROP_AFTER_S) { st.release(arcSlot.get(arc)!); arcSlot.delete(arc); arcSeen.delete(arc); }
+      if (Math.abs(t - seen) > DROP_AFTER_S) { const slot = arcSlot.get(arc)!; arcSlot.delete(arc); arcSeen.delete(arc); release(slot); }
     }
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
     if (iono) {
       // Random walk since the previous epoch; states not met for a while dropped; new ones at their prior.
       const dtS = prev < 0 ? 0 : Math.abs(t - rec.timeGpsS[prev]);
       for (const [sat, slot] of ionoSlot) {
-        if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { st.release(slot); ionoSlot.delete(sat); ionoSeen.delete(sat); continue; }
+        if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { ionoSlot.delete(sat); ionoSeen.delete(sat); release(slot); continue; }
         st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
       }
       ionoNow = new Map<SatId, number>();
