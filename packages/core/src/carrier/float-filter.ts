@@ -105,15 +105,16 @@ const HOLD_VAR_CYCLES2 = 1e-6;
 
 /**
  * State and covariance of the filter. Slots are numbered in the order their states were added (fixed slots
- * first) and stay contiguous: removing a state moves the later ones down one slot (`remove` returns the
- * renumbering), so the updates run over rows 0..n-1 without an index list. The covariance is kept exactly
- * symmetric: each pair (i, j) is computed once, for i <= j, and mirrored.
+ * first) and stay contiguous: removing a state moves the later ones down one slot, so the updates run over
+ * rows 0..n-1 without an index list. Only the upper triangle of the
+ * covariance (row <= column) is kept up to date: `cov` reads it for any pair.
  */
 class KalmanState {
   cap: number;
   /** States in use: slots 0..n-1. */
   n: number;
   x: Float64Array;
+  /** Covariance, row-major with `cap` columns; valid where row <= column. */
   p: Float64Array;
   private ph: Float64Array;
 
@@ -133,6 +134,11 @@ class KalmanState {
     const p = new Float64Array(cap * cap);
     for (let i = 0; i < old; i++) p.set(this.p.subarray(i * old, i * old + old), i * cap);
     this.x = x; this.p = p; this.cap = cap; this.ph = new Float64Array(cap);
+  }
+
+  /** Covariance of slots i and j. */
+  cov(i: number, j: number): number {
+    return i <= j ? this.p[i * this.cap + j] : this.p[j * this.cap + i];
   }
 
   /** Clears a slot's correlations and sets its value and variance. */
@@ -166,9 +172,8 @@ class KalmanState {
 
   /** Innovation variance h P h' + r for a sparse h. */
   innovationVariance(idx: readonly number[], val: readonly number[], r: number): number {
-    const c = this.cap;
     let s = r;
-    for (let a = 0; a < idx.length; a++) for (let b = 0; b < idx.length; b++) s += val[a] * this.p[idx[a] * c + idx[b]] * val[b];
+    for (let a = 0; a < idx.length; a++) for (let b = 0; b < idx.length; b++) s += val[a] * this.cov(idx[a], idx[b]) * val[b];
     return s;
   }
 
@@ -176,27 +181,25 @@ class KalmanState {
   update(idx: readonly number[], val: readonly number[], v: number, r: number): void {
     const c = this.cap, p = this.p, ph = this.ph, x = this.x;
     const n = this.n, nh = idx.length;
-    let s = r;
-    for (let i = 0; i < n; i++) {
-      const row = i * c;
-      let t = 0;
-      for (let m = 0; m < nh; m++) t += p[row + idx[m]] * val[m];
-      ph[i] = t;
+    // ph = P h', one column of P per entry of h, in the order of h (each column read from the upper triangle:
+    // down to the diagonal, then along the row).
+    ph.fill(0, 0, n);
+    for (let m = 0; m < nh; m++) {
+      const a = idx[m], w = val[m], row = a * c;
+      for (let i = 0; i < a; i++) ph[i] += p[i * c + a] * w;
+      for (let i = a; i < n; i++) ph[i] += p[row + i] * w;
     }
+    let s = r;
     for (let m = 0; m < nh; m++) s += val[m] * ph[idx[m]];
     if (!(s > 0)) return;
     const inv = 1 / s;
-    // P - ph ph' / s, symmetric: the upper triangle is computed and mirrored.
+    // P - ph ph' / s, upper triangle.
     for (let i = 0; i < n; i++) {
       const f = ph[i] * inv;
       x[i] += f * v;
       if (f === 0) continue;
       const row = i * c;
-      for (let j = i; j < n; j++) {
-        const y = p[row + j] - f * ph[j];
-        p[row + j] = y;
-        p[j * c + i] = y;
-      }
+      for (let j = i; j < n; j++) p[row + j] -= f * ph[j];
     }
   }
 }
@@ -560,13 +563,13 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     }
     const m = dd.length;
     if (m < opt.minFixedAmbiguities) return;
-    const c = st.cap, P = st.p, x = st.x;
+    const x = st.x;
     const a = new Float64Array(m);
     const q = new Float64Array(m * m);
     for (let u = 0; u < m; u++) {
       a[u] = x[dd[u].i] - x[dd[u].p];
       for (let w = 0; w <= u; w++) {
-        const v = P[dd[u].i * c + dd[w].i] - P[dd[u].i * c + dd[w].p] - P[dd[u].p * c + dd[w].i] + P[dd[u].p * c + dd[w].p];
+        const v = st.cov(dd[u].i, dd[w].i) - st.cov(dd[u].i, dd[w].p) - st.cov(dd[u].p, dd[w].i) + st.cov(dd[u].p, dd[w].p);
         q[u * m + w] = v; q[w * m + u] = v;
       }
     }
@@ -583,7 +586,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     for (let u = 0; u < ns; u++) d[u] = a[sub[u]] - fix.integers[u];
     // Q_xa: covariance of position with the fixed double differences.
     const qxa = [new Float64Array(ns), new Float64Array(ns), new Float64Array(ns)];
-    for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) qxa[r][u] = P[r * c + dd[sub[u]].i] - P[r * c + dd[sub[u]].p];
+    for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) qxa[r][u] = st.cov(r, dd[sub[u]].i) - st.cov(r, dd[sub[u]].p);
     const rhs = [d, Float64Array.from(qxa[0]), Float64Array.from(qxa[1]), Float64Array.from(qxa[2])];
     if (!choleskySolve(qs, ns, rhs)) return;
     const ko = 3 * k, kc = 6 * k;
@@ -595,7 +598,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     const cov = (r: number, s: number): number => {
       let t = 0;
       for (let u = 0; u < ns; u++) t += qxa[r][u] * rhs[1 + s][u];
-      return P[r * c + s] - t;
+      return st.cov(r, s) - t;
     };
     out.covariance[kc] = cov(0, 0); out.covariance[kc + 1] = cov(0, 1); out.covariance[kc + 2] = cov(0, 2);
     out.covariance[kc + 3] = cov(1, 1); out.covariance[kc + 4] = cov(1, 2); out.covariance[kc + 5] = cov(2, 2);
@@ -606,7 +609,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).
     writeResiduals(k, (slot) => {
       let t = 0;
-      for (let u = 0; u < ns; u++) t += (P[slot * c + dd[sub[u]].i] - P[slot * c + dd[sub[u]].p]) * rhs[0][u];
+      for (let u = 0; u < ns; u++) t += (st.cov(slot, dd[sub[u]].i) - st.cov(slot, dd[sub[u]].p)) * rhs[0][u];
       return x[slot] - t;
     });
     // Fix-and-hold.
@@ -621,8 +624,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       holdCount.set(key, { value, count });
       if (count >= opt.holdAfterEpochs) {
         // Already held to well below the constraint's precision: nothing to add.
-        const c2 = st.cap;
-        const v2 = st.p[e.i * c2 + e.i] - 2 * st.p[e.i * c2 + e.p] + st.p[e.p * c2 + e.p];
+        const v2 = st.cov(e.i, e.i) - 2 * st.cov(e.i, e.p) + st.cov(e.p, e.p);
         const miss = value - (st.x[e.i] - st.x[e.p]);
         if (v2 < 10 * HOLD_VAR_CYCLES2 && Math.abs(miss) < 0.005) continue;
         st.update([e.i, e.p], [1, -1], miss, HOLD_VAR_CYCLES2);
