@@ -171,16 +171,16 @@ class KalmanState {
   }
 
   /** Innovation variance h P h' + r for a sparse h. */
-  innovationVariance(idx: readonly number[], val: readonly number[], r: number): number {
+  innovationVariance(idx: Int32Array, val: Float64Array, nh: number, r: number): number {
     let s = r;
-    for (let a = 0; a < idx.length; a++) for (let b = 0; b < idx.length; b++) s += val[a] * this.cov(idx[a], idx[b]) * val[b];
+    for (let a = 0; a < nh; a++) for (let b = 0; b < nh; b++) s += val[a] * this.cov(idx[a], idx[b]) * val[b];
     return s;
   }
 
-  /** Sequential scalar update with a sparse row h, innovation v and measurement variance r. */
-  update(idx: readonly number[], val: readonly number[], v: number, r: number): void {
+  /** Sequential scalar update with a sparse row h (slots idx, values val, nh of them), innovation v and measurement variance r. */
+  update(idx: Int32Array, val: Float64Array, nh: number, v: number, r: number): void {
     const c = this.cap, p = this.p, ph = this.ph, x = this.x;
-    const n = this.n, nh = idx.length;
+    const n = this.n;
     // ph = P h', one column of P per entry of h, in the order of h (each column read from the upper triangle:
     // down to the diagonal, then along the row).
     ph.fill(0, 0, n);
@@ -336,8 +336,11 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   let unflaggedSlips = 0, codeOutliers = 0, disturbedEpochs = 0;
   let arcsBefore = new Set<number>();
   let prev = -1;
-  const idx: number[] = [];
-  const val: number[] = [];
+  // The sparse row of a measurement: slots and coefficients (position, clock, ambiguity, ionosphere).
+  const idx = new Int32Array(6);
+  const val = new Float64Array(6);
+  const holdIdx = new Int32Array(2);
+  const holdVal = Float64Array.of(1, -1);
   const varOf = singleDifferenceVarianceM2;
   // Code errors correlated over codeCorrelationTimeS: the variance of each epoch's code is scaled up by the
   // number of epochs in a correlation time (options.ts).
@@ -440,16 +443,17 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       const el = rec.elevationRad[j];
       if (el < setup.elevationMaskRad || !Number.isFinite(rec.codeM[j])) continue;
       const cs = clockSlot.get(sats[rec.sat[j]].group)!;
-      idx.length = 0; val.length = 0;
-      idx.push(0, 1, 2, cs); val.push(-rec.los[3 * j], -rec.los[3 * j + 1], -rec.los[3 * j + 2], 1);
+      idx[0] = 0; idx[1] = 1; idx[2] = 2; idx[3] = cs;
+      val[0] = -rec.los[3 * j]; val[1] = -rec.los[3 * j + 1]; val[2] = -rec.los[3 * j + 2]; val[3] = 1;
+      let nh = 4;
       const io = ionoNow.get(sats[rec.sat[j]].id);
-      if (io !== undefined) { idx.push(io); val.push(sats[rec.sat[j]].ionoFactor); }
+      if (io !== undefined) { idx[nh] = io; val[nh++] = sats[rec.sat[j]].ionoFactor; }
       const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs] + ionoTerm(j, stateValue);
       const v = rec.codeM[j] - pred;
       const r = codeScale * varOf(opt.codeAM, opt.codeBM, el);
-      const s = st.innovationVariance(idx, val, r);
+      const s = st.innovationVariance(idx, val, nh, r);
       if (v * v > 25 * s && prev >= 0) { codeOutliers++; continue; }
-      st.update(idx, val, v, r);
+      st.update(idx, val, nh, v, r);
       // Satellites used and their constellations: counted on the primary band.
       if (!sats[rec.sat[j]].primary) continue;
       used++;
@@ -473,20 +477,21 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
         arcSlot.set(arc, slot);
       }
       arcSeen.set(arc, t);
-      idx.length = 0; val.length = 0;
-      idx.push(0, 1, 2, cs, slot); val.push(-rec.los[3 * j], -rec.los[3 * j + 1], -rec.los[3 * j + 2], 1, lam);
+      idx[0] = 0; idx[1] = 1; idx[2] = 2; idx[3] = cs; idx[4] = slot;
+      val[0] = -rec.los[3 * j]; val[1] = -rec.los[3 * j + 1]; val[2] = -rec.los[3 * j + 2]; val[3] = 1; val[4] = lam;
+      let nh = 5;
       const io = ionoNow.get(info.id);
-      if (io !== undefined) { idx.push(io); val.push(-info.ionoFactor); }
+      if (io !== undefined) { idx[nh] = io; val[nh++] = -info.ionoFactor; }
       const r = varOf(opt.phaseAM, opt.phaseBM, el);
       let v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
-      const s = st.innovationVariance(idx, val, r);
+      const s = st.innovationVariance(idx, val, nh, r);
       if (v * v > 25 * s && st.p[slot * st.cap + slot] < 0.0625) {
         unflaggedSlips++;
         st.reset(slot, n0, (AMBIGUITY_SIGMA_M / lam) ** 2);
         for (const key of [...holdCount.keys()]) if (Math.floor(key / 67_108_864) === arc || key % 67_108_864 === arc) holdCount.delete(key);
         v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
       } else if (st.p[slot * st.cap + slot] < 0.0625) { nis += (v * v) / s; nisDof++; }
-      st.update(idx, val, v, r);
+      st.update(idx, val, nh, v, r);
     }
     // Sequential innovations are independent: their normalised squares sum to a chi-square with one degree
     // of freedom each (the normalised innovation squared test, e.g. Bar-Shalom et al. 2001, 5.4). An epoch
@@ -627,7 +632,8 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
         const v2 = st.cov(e.i, e.i) - 2 * st.cov(e.i, e.p) + st.cov(e.p, e.p);
         const miss = value - (st.x[e.i] - st.x[e.p]);
         if (v2 < 10 * HOLD_VAR_CYCLES2 && Math.abs(miss) < 0.005) continue;
-        st.update([e.i, e.p], [1, -1], miss, HOLD_VAR_CYCLES2);
+        holdIdx[0] = e.i; holdIdx[1] = e.p;
+        st.update(holdIdx, holdVal, 2, miss, HOLD_VAR_CYCLES2);
       }
     }
     for (const key of [...holdCount.keys()]) if (!seen.has(key)) holdCount.delete(key);
