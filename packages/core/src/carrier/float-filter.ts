@@ -311,8 +311,13 @@ export interface PassSetup {
 
 /** Runs the filter over the records, forwards (direction 1) or backwards (-1). */
 export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1): { result: PassResult; float: PassResult; counts: PassCounts } {
+  // The setup's fields read once: the objects handed in differ in shape from call to call (spread), and
+  // reading them in the epoch loop made the optimised code start over at every new shape.
   const opt = setup.options;
   const sats = setup.satellites;
+  const maskRad = setup.elevationMaskRad;
+  const fixableSystems = setup.fixableSystems;
+  const onFix = setup.onFix;
   // One code clock per group (SatelliteInfo.group: a constellation, or a constellation's further band).
   const systems = [...new Set(sats.map((s) => s.group))];
   const groupSystem = new Map<string, GnssSystem>(sats.map((s) => [s.group, s.system]));
@@ -409,7 +414,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       ionoNow = new Map<SatId, number>();
       for (let j = j0; j < j1; j++) {
         const info = sats[rec.sat[j]];
-        if (info.primary || rec.elevationRad[j] < setup.elevationMaskRad) continue;
+        if (info.primary || rec.elevationRad[j] < maskRad) continue;
         let slot = ionoSlot.get(info.id);
         if (slot === undefined) {
           const sig = iono.verticalSigmaM * ionosphereObliquity(rec.elevationRad[j]);
@@ -441,7 +446,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     // Code.
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
-      if (el < setup.elevationMaskRad || !Number.isFinite(rec.codeM[j])) continue;
+      if (el < maskRad || !Number.isFinite(rec.codeM[j])) continue;
       const cs = clockSlot.get(sats[rec.sat[j]].group)!;
       idx[0] = 0; idx[1] = 1; idx[2] = 2; idx[3] = cs;
       val[0] = -rec.los[3 * j]; val[1] = -rec.los[3 * j + 1]; val[2] = -rec.los[3 * j + 2]; val[3] = 1;
@@ -463,7 +468,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     let nis = 0, nisDof = 0;
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
-      if (el < setup.elevationMaskRad || !Number.isFinite(rec.phaseM[j])) continue;
+      if (el < maskRad || !Number.isFinite(rec.phaseM[j])) continue;
       const info = sats[rec.sat[j]];
       const cs = phaseClockSlot.get(info.group)!;
       const lam = info.wavelengthM;
@@ -499,7 +504,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     // Arc turnover: when more than half of the arcs start or end at once, the receiver's tracking was
     // disturbed as a whole (shock, power, a shaded sky) and the arcs that kept lock are suspect too.
     const arcsNow = new Set<number>();
-    for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= setup.elevationMaskRad) arcsNow.add(rec.arc[j]);
+    for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= maskRad) arcsNow.add(rec.arc[j]);
     let turnover = 0;
     for (const a of arcsNow) if (!arcsBefore.has(a)) turnover++;
     for (const a of arcsBefore) if (!arcsNow.has(a)) turnover++;
@@ -531,7 +536,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
     const px = X(0) - rec.x0[3 * k], py = X(1) - rec.x0[3 * k + 1], pz = X(2) - rec.x0[3 * k + 2];
     for (let j = j0; j < j1; j++) {
-      if (rec.elevationRad[j] < setup.elevationMaskRad) continue;
+      if (rec.elevationRad[j] < maskRad) continue;
       const info = sats[rec.sat[j]];
       const geoNow = -(rec.los[3 * j] * px + rec.los[3 * j + 1] * py + rec.los[3 * j + 2] * pz);
       const slot = arcSlot.get(rec.arc[j]);
@@ -550,7 +555,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     const bySys = new Map<string, { slot: number; arc: number; el: number; sat: number }[]>();
     for (let j = j0; j < j1; j++) {
       const info = sats[rec.sat[j]];
-      if (!setup.fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < ambMask) continue;
+      if (!fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < ambMask) continue;
       const slot = arcSlot.get(rec.arc[j]);
       if (slot === undefined) continue;
       let l = bySys.get(info.group);
@@ -609,7 +614,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     out.covariance[kc + 3] = cov(1, 1); out.covariance[kc + 4] = cov(1, 2); out.covariance[kc + 5] = cov(2, 2);
     out.kind[k] = 2;
     out.fixedAmbiguities[k] = ns;
-    setup.onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
+    onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
     // Residuals at the fixed solution: every state conditioned on the fixed integers,
     // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).
     writeResiduals(k, (slot) => {
