@@ -361,14 +361,18 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   const iono = setup.ionosphere ?? null;
   const ionoSlot = new Map<SatId, number>();
   const ionoSeen = new Map<SatId, number>();
-  let ionoNow = new Map<SatId, number>();
-  /** The ionosphere's part of entry j's single difference on the code (phase: minus it), at the state X. */
-  const ionoTerm = (j: number, X: (slot: number) => number): number => {
+  const ionoNow = new Map<SatId, number>();
+  /** The ionosphere's part of entry j's single difference on the code (phase: minus it), at the state xs (by slot). */
+  const ionoTerm = (j: number, xs: Float64Array): number => {
     const info = sats[rec.sat[j]];
     const io = ionoNow.get(info.id);
-    return io === undefined ? 0 : info.ionoFactor * X(io);
+    return io === undefined ? 0 : info.ionoFactor * xs[io];
   };
-  const stateValue = (slot: number): number => st.x[slot];
+  /** The state conditioned on the fixed integers (fixEpoch), by slot. */
+  let conditioned = new Float64Array(0);
+  // Per-epoch scratch: the clock samples, the arcs of this epoch and of the previous one.
+  const samples: number[] = [];
+  let arcsNow = new Set<number>();
   /** Removes a state and renumbers the slots after it (KalmanState.remove). */
   const release = (slot: number): void => {
     st.remove(slot);
@@ -417,7 +421,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
         if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { ionoSlot.delete(sat); ionoSeen.delete(sat); release(slot); continue; }
         st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
       }
-      ionoNow = new Map<SatId, number>();
+      ionoNow.clear();
       for (let j = j0; j < j1; j++) {
         const info = sats[rec.sat[j]];
         if (info.primary || rec.elevationRad[j] < maskRad) continue;
@@ -435,17 +439,17 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     const dx = st.x[0] - x0x, dy = st.x[1] - x0y, dz = st.x[2] - x0z;
     const geo = (j: number): number => -(rec.los[3 * j] * dx + rec.los[3 * j + 1] * dy + rec.los[3 * j + 2] * dz);
     for (const [sys, slot] of clockSlot) {
-      const samples: number[] = [];
+      samples.length = 0;
       for (let j = j0; j < j1; j++) if (sats[rec.sat[j]].group === sys && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - geo(j));
       st.reset(slot, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
       const ps = phaseClockSlot.get(sys)!;
       if (ps === slot) continue;
-      const phase: number[] = [];
+      samples.length = 0;
       for (let j = j0; j < j1; j++) {
         const a = arcSlot.get(rec.arc[j]);
-        if (a !== undefined && sats[rec.sat[j]].group === sys && Number.isFinite(rec.phaseM[j])) phase.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a] + ionoTerm(j, stateValue));
+        if (a !== undefined && sats[rec.sat[j]].group === sys && Number.isFinite(rec.phaseM[j])) samples.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a] + ionoTerm(j, st.x));
       }
-      st.reset(ps, phase.length ? median(phase) : 0, CLOCK_VAR_M2);
+      st.reset(ps, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
     }
     let used = 0;
     const usedSys = new Set<GnssSystem>();
@@ -459,7 +463,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       let nh = 4;
       const io = ionoNow.get(sats[rec.sat[j]].id);
       if (io !== undefined) { idx[nh] = io; val[nh++] = sats[rec.sat[j]].ionoFactor; }
-      const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs] + ionoTerm(j, stateValue);
+      const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs] + ionoTerm(j, st.x);
       const v = rec.codeM[j] - pred;
       const r = codeScale * varOf(opt.codeAM, opt.codeBM, el);
       const s = st.innovationVariance(idx, val, nh, r);
@@ -480,7 +484,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       const lam = info.wavelengthM;
       const arc = rec.arc[j];
       // Geometry less the ionosphere (which delays the code and advances the phase).
-      const geoNow = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) - ionoTerm(j, stateValue);
+      const geoNow = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) - ionoTerm(j, st.x);
       let slot = arcSlot.get(arc);
       const n0 = (rec.phaseM[j] - geoNow - st.x[cs]) / lam;
       if (slot === undefined) {
@@ -509,13 +513,15 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     // that fails it at 0.1 % holds a disturbance the slip tests did not catch: no fix is tried in it.
     // Arc turnover: when more than half of the arcs start or end at once, the receiver's tracking was
     // disturbed as a whole (shock, power, a shaded sky) and the arcs that kept lock are suspect too.
-    const arcsNow = new Set<number>();
+    arcsNow.clear();
     for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= maskRad) arcsNow.add(rec.arc[j]);
     let turnover = 0;
     for (const a of arcsNow) if (!arcsBefore.has(a)) turnover++;
     for (const a of arcsBefore) if (!arcsNow.has(a)) turnover++;
     const turned = arcsBefore.size > 0 && turnover > 0.5 * Math.max(arcsBefore.size, arcsNow.size);
+    const spare = arcsBefore;
     arcsBefore = arcsNow;
+    arcsNow = spare;
     const disturbed = turned || (nisDof > 0 && nis > chiSquareQuantile(0.999, nisDof));
     if (disturbed) disturbedEpochs++;
     const ko = 3 * k, kc = 6 * k;
@@ -532,25 +538,25 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     flt.covariance.set(out.covariance.subarray(kc, kc + 6), kc);
     flt.satellitesUsed[k] = used;
     if (!disturbed) fixEpoch(k);
-    if (out.kind[k] !== 2) writeResiduals(k, (slot) => st.x[slot]);
+    if (out.kind[k] !== 2) writeResiduals(k, st.x);
     prev = k;
   }
   return { result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } };
 
   /** Post-fit residuals of an epoch's entries at the state given by X (PassResult.residualM). */
-  function writeResiduals(k: number, X: (slot: number) => number): void {
+  function writeResiduals(k: number, xs: Float64Array): void {
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
-    const px = X(0) - rec.x0[3 * k], py = X(1) - rec.x0[3 * k + 1], pz = X(2) - rec.x0[3 * k + 2];
+    const px = xs[0] - rec.x0[3 * k], py = xs[1] - rec.x0[3 * k + 1], pz = xs[2] - rec.x0[3 * k + 2];
     for (let j = j0; j < j1; j++) {
       if (rec.elevationRad[j] < maskRad) continue;
       const info = sats[rec.sat[j]];
       const geoNow = -(rec.los[3 * j] * px + rec.los[3 * j + 1] * py + rec.los[3 * j + 2] * pz);
       const slot = arcSlot.get(rec.arc[j]);
-      const ionoM = ionoTerm(j, X);
+      const ionoM = ionoTerm(j, xs);
       if (Number.isFinite(rec.phaseM[j]) && slot !== undefined) {
-        out.residualM[rec.satBase + j] = rec.phaseM[j] - (geoNow - ionoM + X(phaseClockSlot.get(info.group)!) + info.wavelengthM * X(slot));
+        out.residualM[rec.satBase + j] = rec.phaseM[j] - (geoNow - ionoM + xs[phaseClockSlot.get(info.group)!] + info.wavelengthM * xs[slot]);
       } else if (Number.isFinite(rec.codeM[j])) {
-        out.residualM[rec.satBase + j] = rec.codeM[j] - (geoNow + ionoM + X(clockSlot.get(info.group)!));
+        out.residualM[rec.satBase + j] = rec.codeM[j] - (geoNow + ionoM + xs[clockSlot.get(info.group)!]);
       }
     }
   }
@@ -623,11 +629,13 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
     // Residuals at the fixed solution: every state conditioned on the fixed integers,
     // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).
-    writeResiduals(k, (slot) => {
+    if (conditioned.length < st.n) conditioned = new Float64Array(st.cap);
+    for (let slot = 0; slot < st.n; slot++) {
       let t = 0;
       for (let u = 0; u < ns; u++) t += (st.cov(slot, dd[sub[u]].i) - st.cov(slot, dd[sub[u]].p)) * rhs[0][u];
-      return x[slot] - t;
-    });
+      conditioned[slot] = x[slot] - t;
+    }
+    writeResiduals(k, conditioned);
     // Fix-and-hold.
     const seen = new Set<number>();
     for (let u = 0; u < ns; u++) {
