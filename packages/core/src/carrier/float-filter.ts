@@ -141,6 +141,11 @@ class KalmanState {
     return i <= j ? this.p[i * this.cap + j] : this.p[j * this.cap + i];
   }
 
+  /** out[s] += (P[s][a] - P[s][b]) * w for every slot s. */
+  addColumnDifference(out: Float64Array, a: number, b: number, w: number): void {
+    for (let s = 0; s < this.n; s++) out[s] += (this.cov(s, a) - this.cov(s, b)) * w;
+  }
+
   /** Clears a slot's correlations and sets its value and variance. */
   reset(slot: number, value: number, variance: number): void {
     const c = this.cap, p = this.p;
@@ -629,12 +634,12 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
     // Residuals at the fixed solution: every state conditioned on the fixed integers,
     // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).
-    if (conditioned.length < st.n) conditioned = new Float64Array(st.cap);
-    for (let slot = 0; slot < st.n; slot++) {
-      let t = 0;
-      for (let u = 0; u < ns; u++) t += (st.cov(slot, dd[sub[u]].i) - st.cov(slot, dd[sub[u]].p)) * rhs[0][u];
-      conditioned[slot] = x[slot] - t;
-    }
+    // Q_sa Q_a^-1 (a - z) for every slot s, summed over the fixed double differences in order.
+    const nst = st.n;
+    if (conditioned.length < nst) conditioned = new Float64Array(st.cap);
+    conditioned.fill(0, 0, nst);
+    for (let u = 0; u < ns; u++) st.addColumnDifference(conditioned, dd[sub[u]].i, dd[sub[u]].p, rhs[0][u]);
+    for (let slot = 0; slot < nst; slot++) conditioned[slot] = x[slot] - conditioned[slot];
     writeResiduals(k, conditioned);
     // Fix-and-hold.
     const seen = new Set<number>();
