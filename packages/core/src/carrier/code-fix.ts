@@ -41,10 +41,25 @@ function solveNormal(n: number, a: Float64Array, b: Float64Array): boolean {
 }
 
 export function codeFixPosition(rows: readonly CodeRow[], start: EcefM, maskRad: number, doy: number): EcefM | null {
-  const systems = [...new Set(rows.map((r) => r.system))];
+  const systems: GnssSystem[] = [];
+  // Each row's clock (index into systems) and whether it is kept.
+  const clockOf = new Int32Array(rows.length);
+  const keep: boolean[] = [];
+  for (let i = 0; i < rows.length; i++) {
+    let si = systems.indexOf(rows[i].system);
+    if (si < 0) { si = systems.length; systems.push(rows[i].system); }
+    clockOf[i] = si;
+    keep.push(Number.isFinite(rows[i].codeM));
+  }
   const n = 3 + systems.length;
-  let x = { ...start };
-  const keep = rows.map((r) => Number.isFinite(r.codeM));
+  // Positions always built as { x, y, z } literals: one object shape for the optimised code.
+  let x: EcefM = { x: start.x, y: start.y, z: start.z };
+  const h = new Float64Array(n);
+  const a = new Float64Array(n * n);
+  const b = new Float64Array(n);
+  const res: number[] = [];
+  const resIdx: number[] = [];
+  const sysUsed = new Uint8Array(systems.length);
   // Look angles and troposphere change with metres of position only in millimetres: computed at the start
   // and again only after a step of more than 100 m.
   let lookAt: EcefM | null = null;
@@ -59,12 +74,9 @@ export function codeFixPosition(rows: readonly CodeRow[], start: EcefM, maskRad:
         tropo[i] = elevation[i] >= maskRad ? troposphereDelayM(g, elevation[i], doy) : 0;
       }
     }
-    const a = new Float64Array(n * n);
-    const b = new Float64Array(n);
-    const res: number[] = [];
-    const resIdx: number[] = [];
-    let count = 0;
-    const sysUsed = new Set<number>();
+    a.fill(0); b.fill(0); sysUsed.fill(0);
+    res.length = 0; resIdx.length = 0;
+    let count = 0, systemsUsed = 0;
     for (let i = 0; i < rows.length; i++) {
       if (!keep[i]) continue;
       const r = rows[i];
@@ -73,19 +85,19 @@ export function codeFixPosition(rows: readonly CodeRow[], start: EcefM, maskRad:
       const el = elevation[i];
       if (el < maskRad) continue;
       const y = r.codeM - (rho - r.satClockM + tropo[i]);
-      const h = new Float64Array(n);
+      h.fill(0);
       h[0] = -dx / rho; h[1] = -dy / rho; h[2] = -dz / rho;
-      const si = systems.indexOf(r.system);
+      const si = clockOf[i];
       h[3 + si] = 1;
-      sysUsed.add(si);
+      if (sysUsed[si] === 0) { sysUsed[si] = 1; systemsUsed++; }
       const w = Math.sin(el) ** 2;
       for (let p = 0; p < n; p++) { b[p] += w * h[p] * y; for (let q = 0; q < n; q++) a[p * n + q] += w * h[p] * h[q]; }
       res.push(y); resIdx.push(i);
       count++;
     }
     // Constellations without a satellite: pin their clock.
-    for (let si = 0; si < systems.length; si++) if (!sysUsed.has(si)) a[(3 + si) * n + 3 + si] = 1;
-    if (count < 3 + sysUsed.size + 1) return null;
+    for (let si = 0; si < systems.length; si++) if (sysUsed[si] === 0) a[(3 + si) * n + 3 + si] = 1;
+    if (count < 3 + systemsUsed + 1) return null;
     if (!solveNormal(n, a, b)) return null;
     x = { x: x.x + b[0], y: x.y + b[1], z: x.z + b[2] };
     const step = Math.hypot(b[0], b[1], b[2]);
