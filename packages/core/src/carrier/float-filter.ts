@@ -248,13 +248,23 @@ function fixAroundHeld(a: Float64Array, q: Float64Array, m: number, order: reado
   for (let u = 0; u < m; u++) (Math.abs(a[u] - Math.round(a[u])) <= 0.01 && q[u * m + u] < 1e-4 ? held : other).push(u);
   if (held.length < options.minFixed) return null;
   const h = held.length, o = other.length;
-  const heldInts = held.map((u) => Math.round(a[u]));
-  if (o === 0) return { indices: held, integers: Float64Array.from(heldInts), ratio: Infinity, bestNorm: 0, successRate: 1 };
+  // Plain loops and typed arrays below (no spreads or array callbacks): arrays of one element kind each, so
+  // the optimised code of this function, called every epoch, is not thrown away for a new array shape.
+  const heldInts = new Float64Array(h);
+  for (let i = 0; i < h; i++) heldInts[i] = Math.round(a[held[i]]);
+  if (o === 0) return { indices: held, integers: heldInts, ratio: Infinity, bestNorm: 0, successRate: 1 };
   const qhh = new Float64Array(h * h);
   for (let i = 0; i < h; i++) for (let j = 0; j < h; j++) qhh[i * h + j] = q[held[i] * m + held[j]];
-  const d = Float64Array.from(held, (u, i) => a[u] - heldInts[i]);
-  const cols = other.map((w) => Float64Array.from(held, (u) => q[u * m + w]));
-  const rhs = [d, ...cols.map((c) => Float64Array.from(c))];
+  const d = new Float64Array(h);
+  for (let i = 0; i < h; i++) d[i] = a[held[i]] - heldInts[i];
+  const cols: Float64Array[] = [];
+  const rhs: Float64Array[] = [d];
+  for (let i = 0; i < o; i++) {
+    const col = new Float64Array(h);
+    for (let k = 0; k < h; k++) col[k] = q[held[k] * m + other[i]];
+    cols.push(col);
+    rhs.push(col.slice());
+  }
   if (!choleskySolve(qhh, h, rhs)) return null;
   const ac = new Float64Array(o), qc = new Float64Array(o * o);
   for (let i = 0; i < o; i++) {
@@ -267,11 +277,18 @@ function fixAroundHeld(a: Float64Array, q: Float64Array, m: number, order: reado
       qc[i * o + j] = q[other[i] * m + other[j]] - t;
     }
   }
-  const subOrder = order.filter((u) => other.includes(u)).map((u) => other.indexOf(u));
-  const r = fixPartially(ac, qc, o, subOrder, { ...options, minFixed: 1 });
-  if (!('integers' in r)) return { indices: held, integers: Float64Array.from(heldInts), ratio: Infinity, bestNorm: 0, successRate: 1 };
-  const indices = [...held, ...r.indices.map((i) => other[i])];
-  const integers = Float64Array.from([...heldInts, ...r.integers]);
+  const subOrder: number[] = [];
+  for (const u of order) {
+    const i = other.indexOf(u);
+    if (i >= 0) subOrder.push(i);
+  }
+  const r = fixPartially(ac, qc, o, subOrder, { ratioThreshold: options.ratioThreshold, minFixed: 1, minSuccessRate: options.minSuccessRate });
+  if (!('integers' in r)) return { indices: held, integers: heldInts, ratio: Infinity, bestNorm: 0, successRate: 1 };
+  const indices = held.slice();
+  for (const i of r.indices) indices.push(other[i]);
+  const integers = new Float64Array(h + r.integers.length);
+  integers.set(heldInts);
+  integers.set(r.integers, h);
   return { indices, integers, ratio: r.ratio, bestNorm: r.bestNorm, successRate: r.successRate };
 }
 
@@ -584,7 +601,10 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       if (list.length < 2) continue;
       const prevPivot = pivots.get(sys);
       let piv = list.find((q) => q.arc === prevPivot);
-      if (!piv) piv = list.reduce((a, b) => (b.el > a.el ? b : a));
+      if (!piv) {
+        piv = list[0];
+        for (const q of list) if (q.el > piv.el) piv = q;
+      }
       pivots.set(sys, piv.arc);
       for (const q of list) if (q !== piv) dd.push({ i: q.slot, p: piv.slot, arcI: q.arc, arcP: piv.arc, el: q.el, satI: q.sat, satP: piv.sat });
     }
