@@ -356,6 +356,12 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   const cdma = systems.filter((s) => groupSystem.get(s) !== 'R');
   const phaseClockSlot = new Map<string, number>(cdma.map((s, i) => [s, 3 + systems.length + i]));
   for (const g of systems) if (groupSystem.get(g) === 'R') phaseClockSlot.set(g, clockSlot.get(g)!);
+  // Per entry of the signal table: its code and phase clock slots, and its satellite's index (the
+  // ionosphere state is the satellite's, shared by its bands).
+  const clockOfEntry = Int32Array.from(sats, (s) => clockSlot.get(s.group)!);
+  const phaseClockOfEntry = Int32Array.from(sats, (s) => phaseClockSlot.get(s.group)!);
+  const satIds = [...new Set(sats.map((s) => s.id))];
+  const satOfEntry = Int32Array.from(sats, (s) => satIds.indexOf(s.id));
   const st = new KalmanState(3 + systems.length + cdma.length);
   const arcSlot = new Map<number, number>();
   const arcSeen = new Map<number, number>();
@@ -383,12 +389,12 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   const iono = setup.ionosphere ?? null;
   const ionoSlot = new Map<SatId, number>();
   const ionoSeen = new Map<SatId, number>();
-  const ionoNow = new Map<SatId, number>();
+  /** The ionosphere state of each satellite (satIds) at the current epoch; -1: none. */
+  const ionoNow = new Int32Array(satIds.length).fill(-1);
   /** The ionosphere's part of entry j's single difference on the code (phase: minus it), at the state xs (by slot). */
   const ionoTerm = (j: number, xs: Float64Array): number => {
-    const info = sats[rec.sat[j]];
-    const io = ionoNow.get(info.id);
-    return io === undefined ? 0 : info.ionoFactor * xs[io];
+    const io = ionoNow[satOfEntry[rec.sat[j]]];
+    return io < 0 ? 0 : sats[rec.sat[j]].ionoFactor * xs[io];
   };
   /** The state conditioned on the fixed integers (fixEpoch), by slot. */
   let conditioned = new Float64Array(0);
@@ -443,7 +449,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
         if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { ionoSlot.delete(sat); ionoSeen.delete(sat); release(slot); continue; }
         st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
       }
-      ionoNow.clear();
+      ionoNow.fill(-1);
       for (let j = j0; j < j1; j++) {
         const info = sats[rec.sat[j]];
         if (info.primary || rec.elevationRad[j] < maskRad) continue;
@@ -454,7 +460,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
           ionoSlot.set(info.id, slot);
         }
         ionoSeen.set(info.id, t);
-        ionoNow.set(info.id, slot);
+        ionoNow[satOfEntry[rec.sat[j]]] = slot;
       }
     }
     // Clocks: free every epoch, started at the median code difference of the constellation.
@@ -462,14 +468,15 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     const geo = (j: number): number => -(rec.los[3 * j] * dx + rec.los[3 * j + 1] * dy + rec.los[3 * j + 2] * dz);
     for (const [sys, slot] of clockSlot) {
       samples.length = 0;
-      for (let j = j0; j < j1; j++) if (sats[rec.sat[j]].group === sys && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - geo(j));
+      for (let j = j0; j < j1; j++) if (clockOfEntry[rec.sat[j]] === slot && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - geo(j));
       st.reset(slot, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
       const ps = phaseClockSlot.get(sys)!;
       if (ps === slot) continue;
       samples.length = 0;
       for (let j = j0; j < j1; j++) {
+        if (clockOfEntry[rec.sat[j]] !== slot || !Number.isFinite(rec.phaseM[j])) continue;
         const a = arcSlot.get(rec.arc[j]);
-        if (a !== undefined && sats[rec.sat[j]].group === sys && Number.isFinite(rec.phaseM[j])) samples.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a] + ionoTerm(j, st.x));
+        if (a !== undefined) samples.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a] + ionoTerm(j, st.x));
       }
       st.reset(ps, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
     }
@@ -479,12 +486,12 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
       if (el < maskRad || !Number.isFinite(rec.codeM[j])) continue;
-      const cs = clockSlot.get(sats[rec.sat[j]].group)!;
+      const cs = clockOfEntry[rec.sat[j]];
       idx[0] = 0; idx[1] = 1; idx[2] = 2; idx[3] = cs;
       val[0] = -rec.los[3 * j]; val[1] = -rec.los[3 * j + 1]; val[2] = -rec.los[3 * j + 2]; val[3] = 1;
       let nh = 4;
-      const io = ionoNow.get(sats[rec.sat[j]].id);
-      if (io !== undefined) { idx[nh] = io; val[nh++] = sats[rec.sat[j]].ionoFactor; }
+      const io = ionoNow[satOfEntry[rec.sat[j]]];
+      if (io >= 0) { idx[nh] = io; val[nh++] = sats[rec.sat[j]].ionoFactor; }
       const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs] + ionoTerm(j, st.x);
       const v = rec.codeM[j] - pred;
       const r = codeScale * varOf(opt.codeAM, opt.codeBM, el);
@@ -502,7 +509,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       const el = rec.elevationRad[j];
       if (el < maskRad || !Number.isFinite(rec.phaseM[j])) continue;
       const info = sats[rec.sat[j]];
-      const cs = phaseClockSlot.get(info.group)!;
+      const cs = phaseClockOfEntry[rec.sat[j]];
       const lam = info.wavelengthM;
       const arc = rec.arc[j];
       // Geometry less the ionosphere (which delays the code and advances the phase).
@@ -517,8 +524,8 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       idx[0] = 0; idx[1] = 1; idx[2] = 2; idx[3] = cs; idx[4] = slot;
       val[0] = -rec.los[3 * j]; val[1] = -rec.los[3 * j + 1]; val[2] = -rec.los[3 * j + 2]; val[3] = 1; val[4] = lam;
       let nh = 5;
-      const io = ionoNow.get(info.id);
-      if (io !== undefined) { idx[nh] = io; val[nh++] = -info.ionoFactor; }
+      const io = ionoNow[satOfEntry[rec.sat[j]]];
+      if (io >= 0) { idx[nh] = io; val[nh++] = -info.ionoFactor; }
       const r = varOf(opt.phaseAM, opt.phaseBM, el);
       let v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
       const s = st.innovationVariance(idx, val, nh, r);
@@ -576,9 +583,9 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
       const slot = arcSlot.get(rec.arc[j]);
       const ionoM = ionoTerm(j, xs);
       if (Number.isFinite(rec.phaseM[j]) && slot !== undefined) {
-        out.residualM[rec.satBase + j] = rec.phaseM[j] - (geoNow - ionoM + xs[phaseClockSlot.get(info.group)!] + info.wavelengthM * xs[slot]);
+        out.residualM[rec.satBase + j] = rec.phaseM[j] - (geoNow - ionoM + xs[phaseClockOfEntry[rec.sat[j]]] + info.wavelengthM * xs[slot]);
       } else if (Number.isFinite(rec.codeM[j])) {
-        out.residualM[rec.satBase + j] = rec.codeM[j] - (geoNow + ionoM + xs[clockSlot.get(info.group)!]);
+        out.residualM[rec.satBase + j] = rec.codeM[j] - (geoNow + ionoM + xs[clockOfEntry[rec.sat[j]]]);
       }
     }
   }
