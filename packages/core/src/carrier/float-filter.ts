@@ -408,8 +408,13 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     for (const [key, s] of ionoSlot) if (s > slot) ionoSlot.set(key, s - 1);
   };
 
-  for (let n = 0; n < rec.count; n++) {
-    const k = direction === 1 ? n : rec.count - 1 - n;
+  // The epoch's work in a function of its own: called once per epoch, it is optimised like any function
+  // (the epoch loop alone would wait for on-stack replacement, and start over at each deoptimisation).
+  for (let n = 0; n < rec.count; n++) epochStep(direction === 1 ? n : rec.count - 1 - n);
+  return { result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } };
+
+  /** One epoch of the pass: prediction, clocks, code and phase updates, the epoch's test, float and fixed solutions. */
+  function epochStep(k: number): void {
     rec.visit(k);
     const t = rec.timeGpsS[k];
     const x0x = rec.x0[3 * k], x0y = rec.x0[3 * k + 1], x0z = rec.x0[3 * k + 2];
@@ -555,7 +560,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     if (disturbed) disturbedEpochs++;
     const ko = 3 * k, kc = 6 * k;
     out.satellitesUsed[k] = used;
-    if (used < 4 + usedSys.size) { prev = k; continue; }
+    if (used < 4 + usedSys.size) { prev = k; return; }
     // Float solution.
     const c = st.cap;
     out.kind[k] = 1;
@@ -570,7 +575,6 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     if (out.kind[k] !== 2) writeResiduals(k, st.x);
     prev = k;
   }
-  return { result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } };
 
   /** Post-fit residuals of an epoch's entries at the state given by X (PassResult.residualM). */
   function writeResiduals(k: number, xs: Float64Array): void {
