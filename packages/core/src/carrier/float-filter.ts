@@ -337,6 +337,11 @@ export interface PassSetup {
   readonly ionosphere?: IonosphereWeighting | null;
 }
 
+/** Key of a double difference (arc, pivot arc); arcs are numbered below 2^26. */
+function pairKey(arcI: number, arcP: number): number {
+  return arcI * 67_108_864 + arcP;
+}
+
 /** Runs the filter over the records, forwards (direction 1) or backwards (-1). */
 export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1): { result: PassResult; float: PassResult; counts: PassCounts } {
   // The setup's fields read once: the objects handed in differ in shape from call to call (spread), and
@@ -370,8 +375,6 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
   const pivots = new Map<string, number>();
   const holdCount = new Map<number, { value: number; count: number }>();
-  /** Key of a double difference (arc, pivot arc); arcs are numbered below 2^26. */
-  const pairKey = (arcI: number, arcP: number): number => arcI * 67_108_864 + arcP;
   let unflaggedSlips = 0, codeOutliers = 0, disturbedEpochs = 0;
   let arcsBefore = new Set<number>();
   let prev = -1;
@@ -572,7 +575,8 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     flt.covariance.set(out.covariance.subarray(kc, kc + 6), kc);
     flt.satellitesUsed[k] = used;
     if (!disturbed) fixEpoch(k);
-    if (out.kind[k] !== 2) writeResiduals(k, st.x);
+    // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
+    writeResiduals(k, out.kind[k] === 2 ? conditioned : st.x);
     prev = k;
   }
 
@@ -663,7 +667,7 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     out.kind[k] = 2;
     out.fixedAmbiguities[k] = ns;
     onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
-    // Residuals at the fixed solution: every state conditioned on the fixed integers,
+    // Residuals at the fixed solution (written by the caller): every state conditioned on the fixed integers,
     // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).
     // Q_sa Q_a^-1 (a - z) for every slot s, summed over the fixed double differences in order.
     const nst = st.n;
@@ -671,7 +675,6 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     conditioned.fill(0, 0, nst);
     for (let u = 0; u < ns; u++) st.addColumnDifference(conditioned, dd[sub[u]].i, dd[sub[u]].p, rhs[0][u]);
     for (let slot = 0; slot < nst; slot++) conditioned[slot] = x[slot] - conditioned[slot];
-    writeResiduals(k, conditioned);
     // Fix-and-hold.
     const seen = new Set<number>();
     for (let u = 0; u < ns; u++) {
