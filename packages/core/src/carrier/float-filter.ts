@@ -325,10 +325,11 @@ export interface FixedDoubleDifference {
   readonly cycles: number;
 }
 
+/** Told every epoch's fixed integers (record index and the double differences). */
+export type FixListener = (k: number, fixed: readonly FixedDoubleDifference[]) => void;
+
 export interface PassSetup {
   readonly satellites: readonly SatelliteInfo[];
-  /** Told every epoch's fixed integers (record index and the double differences), when given. */
-  readonly onFix?: (k: number, fixed: readonly FixedDoubleDifference[]) => void;
   /** Constellations whose ambiguities may be fixed. */
   readonly fixableSystems: ReadonlySet<GnssSystem>;
   readonly elevationMaskRad: number;
@@ -342,15 +343,28 @@ function pairKey(arcI: number, arcP: number): number {
   return arcI * 67_108_864 + arcP;
 }
 
-/** Runs the filter over the records, forwards (direction 1) or backwards (-1). */
-export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1): { result: PassResult; float: PassResult; counts: PassCounts } {
+/** One pass's results. */
+export interface PassOutput {
+  readonly result: PassResult;
+  readonly float: PassResult;
+  readonly counts: PassCounts;
+}
+
+/**
+ * Runs the filter over the records once per pass given, forwards (direction 1) or backwards (-1), each from
+ * a fresh state, in order, each telling its fixes to its onFix when given. The
+ * passes share their functions: the second starts with the code the first had the engine optimise, where
+ * functions made anew for it would have to be optimised again (and calls between them sent the shared
+ * optimised code back at every epoch).
+ */
+export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly { direction: 1 | -1; onFix?: FixListener }[]): PassOutput[] {
   // The setup's fields read once: the objects handed in differ in shape from call to call (spread), and
   // reading them in the epoch loop made the optimised code start over at every new shape.
   const opt = setup.options;
   const sats = setup.satellites;
   const maskRad = setup.elevationMaskRad;
   const fixableSystems = setup.fixableSystems;
-  const onFix = setup.onFix;
+  let onFix: FixListener | undefined;
   // One code clock per group (SatelliteInfo.group: a constellation, or a constellation's further band).
   const systems = [...new Set(sats.map((s) => s.group))];
   const groupSystem = new Map<string, GnssSystem>(sats.map((s) => [s.group, s.system]));
@@ -367,11 +381,12 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
   const phaseClockOfEntry = Int32Array.from(sats, (s) => phaseClockSlot.get(s.group)!);
   const satIds = [...new Set(sats.map((s) => s.id))];
   const satOfEntry = Int32Array.from(sats, (s) => satIds.indexOf(s.id));
-  const st = new KalmanState(3 + systems.length + cdma.length);
+  // The state of a pass (set again at the start of each).
+  let st = new KalmanState(3 + systems.length + cdma.length);
   const arcSlot = new Map<number, number>();
   const arcSeen = new Map<number, number>();
-  const out = new PassResult(rec.count, rec.satTotal);
-  const flt = new PassResult(rec.count);
+  let out = new PassResult(0);
+  let flt = new PassResult(0);
   const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
   const pivots = new Map<string, number>();
   const holdCount = new Map<number, { value: number; count: number }>();
@@ -411,10 +426,23 @@ export function runPass(rec: EpochRecords, setup: PassSetup, direction: 1 | -1):
     for (const [key, s] of ionoSlot) if (s > slot) ionoSlot.set(key, s - 1);
   };
 
-  // The epoch's work in a function of its own: called once per epoch, it is optimised like any function
-  // (the epoch loop alone would wait for on-stack replacement, and start over at each deoptimisation).
-  for (let n = 0; n < rec.count; n++) epochStep(direction === 1 ? n : rec.count - 1 - n);
-  return { result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } };
+  const outputs: PassOutput[] = [];
+  for (const pass of passes) {
+    st = new KalmanState(3 + systems.length + cdma.length);
+    arcSlot.clear(); arcSeen.clear(); pivots.clear(); holdCount.clear();
+    ionoSlot.clear(); ionoSeen.clear(); ionoNow.fill(-1);
+    out = new PassResult(rec.count, rec.satTotal);
+    flt = new PassResult(rec.count);
+    unflaggedSlips = 0; codeOutliers = 0; disturbedEpochs = 0;
+    arcsBefore = new Set<number>(); arcsNow = new Set<number>();
+    prev = -1;
+    onFix = pass.onFix;
+    // The epoch's work in a function of its own: called once per epoch, it is optimised like any function
+    // (the epoch loop alone would wait for on-stack replacement, and start over at each deoptimisation).
+    for (let n = 0; n < rec.count; n++) epochStep(pass.direction === 1 ? n : rec.count - 1 - n);
+    outputs.push({ result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } });
+  }
+  return outputs;
 
   /** One epoch of the pass: prediction, clocks, code and phase updates, the epoch's test, float and fixed solutions. */
   function epochStep(k: number): void {

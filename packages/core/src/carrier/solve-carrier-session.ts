@@ -46,7 +46,7 @@ import { ArcTracker, type ArcInput } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
 import { ReferencePhaseBuffer, reduceReferenceEpoch, type BandArcs } from './reference-phase.js';
 import { EpochRecords, type RecordStore } from './epoch-records.js';
-import { codeVarianceScale, runPass, singleDifferenceVarianceM2, type FixedDoubleDifference, type PassResult, type SatelliteInfo } from './float-filter.js';
+import { codeVarianceScale, runPasses, singleDifferenceVarianceM2, type FixedDoubleDifference, type PassResult, type SatelliteInfo } from './float-filter.js';
 import { combinePasses } from './combine-passes.js';
 import type { CarrierOptions } from './options.js';
 import { antennaCorrectionM, findAntenna, type AntexData } from './antex.js';
@@ -518,9 +518,8 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   if (ionosphere) notes.push(`further frequencies used (${[...new Set(satellites.filter((x) => !x.primary).map((x) => x.phaseCode.slice(0, 2) + ' ' + SYSTEM_NAMES[x.system]))].join(', ')}): the differential ionosphere is estimated per satellite, prior ${(1000 * ionosphere.verticalSigmaM).toFixed(1)} mm at zenith for a ${(maxBaselineM / 1000).toFixed(1)} km baseline`);
   const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier, ionosphere };
   const sink = inputs.onFixedAmbiguities;
-  const onFix = (pass: 'forward' | 'backward') => sink ? { onFix: (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[k], ambiguities }) } : {};
-  const fwd = runPass(rec, { ...setup, ...onFix('forward') }, 1);
-  const bwd = runPass(rec, { ...setup, ...onFix('backward') }, -1);
+  const onFix = (pass: 'forward' | 'backward') => sink ? (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[k], ambiguities }) : undefined;
+  const [fwd, bwd] = runPasses(rec, setup, [{ direction: 1, onFix: onFix('forward') }, { direction: -1, onFix: onFix('backward') }]);
   // Combined into the forward float result's arrays; of the passes only their kinds are kept for the
   // outputs (a day at 1 Hz holds about 7 MB per pass result).
   const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM, fwd.float);
