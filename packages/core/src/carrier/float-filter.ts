@@ -416,6 +416,10 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
   };
   /** The state conditioned on the fixed integers (fixEpoch), by slot. */
   let conditioned = new Float64Array(0);
+  // fixEpoch's scratch: double-difference ambiguities and covariance, the fixed subset's covariance and
+  // misfit, the position's covariance with it and its copies solved in place.
+  let fixA = new Float64Array(0), fixD = new Float64Array(0), fixQ = new Float64Array(0), fixQs = new Float64Array(0);
+  let fixQxa: Float64Array[] = [], fixRhs: Float64Array[] = [];
   // Per-epoch scratch: the clock samples, the arcs of this epoch and of the previous one.
   const samples: number[] = [];
   let arcsNow = new Set<number>();
@@ -654,8 +658,10 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     const m = dd.length;
     if (m < opt.minFixedAmbiguities) return;
     const x = st.x;
-    const a = new Float64Array(m);
-    const q = new Float64Array(m * m);
+    // Scratch arrays of the pass, grown as needed (larger than needed: every reader indexes with m or ns).
+    if (fixA.length < m) { fixA = new Float64Array(2 * m); fixD = new Float64Array(2 * m); fixQxa = [0, 1, 2].map(() => new Float64Array(2 * m)); fixRhs = [0, 1, 2].map(() => new Float64Array(2 * m)); }
+    if (fixQ.length < m * m) { fixQ = new Float64Array(4 * m * m); fixQs = new Float64Array(4 * m * m); }
+    const a = fixA, q = fixQ;
     for (let u = 0; u < m; u++) {
       a[u] = x[dd[u].i] - x[dd[u].p];
       for (let w = 0; w <= u; w++) {
@@ -670,14 +676,15 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     if (!('integers' in fix)) return;
     const sub = fix.indices;
     const ns = sub.length;
-    const qs = new Float64Array(ns * ns);
+    const qs = fixQs;
     for (let u = 0; u < ns; u++) for (let w = 0; w < ns; w++) qs[u * ns + w] = q[sub[u] * m + sub[w]];
-    const d = new Float64Array(ns);
+    const d = fixD;
     for (let u = 0; u < ns; u++) d[u] = a[sub[u]] - fix.integers[u];
     // Q_xa: covariance of position with the fixed double differences.
-    const qxa = [new Float64Array(ns), new Float64Array(ns), new Float64Array(ns)];
+    const qxa = fixQxa;
     for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) qxa[r][u] = st.cov(r, dd[sub[u]].i) - st.cov(r, dd[sub[u]].p);
-    const rhs = [d, Float64Array.from(qxa[0]), Float64Array.from(qxa[1]), Float64Array.from(qxa[2])];
+    for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) fixRhs[r][u] = qxa[r][u];
+    const rhs = [d, fixRhs[0], fixRhs[1], fixRhs[2]];
     if (!choleskySolve(qs, ns, rhs)) return;
     const ko = 3 * k, kc = 6 * k;
     for (let r = 0; r < 3; r++) {
