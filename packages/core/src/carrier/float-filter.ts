@@ -106,8 +106,9 @@ const HOLD_VAR_CYCLES2 = 1e-6;
 /**
  * State and covariance of the filter. Slots are numbered in the order their states were added (fixed slots
  * first) and stay contiguous: removing a state moves the later ones down one slot, so the updates run over
- * rows 0..n-1 without an index list. Only the upper triangle of the
- * covariance (row <= column) is kept up to date: `cov` reads it for any pair.
+ * rows 0..n-1 without an index list. Only the upper triangle of the covariance (row <= column) is kept up
+ * to date: `cov` reads it for any pair. Each pair is computed as before the layout changed (the earlier
+ * slot's gain times the later one's P h'), so the results are the same to the last bit.
  */
 class KalmanState {
   cap: number;
