@@ -391,6 +391,10 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
   const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
   const pivots = new Map<string, number>();
   const holdCount = new Map<number, { value: number; count: number }>();
+  const holdSeen = new Set<number>();
+  const fixOptions = { ratioThreshold: opt.ratioThreshold, minFixed: opt.minFixedAmbiguities, minSuccessRate: opt.minSuccessRate };
+  /** Constellations of the satellites used in the current epoch. */
+  const usedSys = new Set<GnssSystem>();
   let unflaggedSlips = 0, codeOutliers = 0, disturbedEpochs = 0;
   let arcsBefore = new Set<number>();
   let prev = -1;
@@ -522,7 +526,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
       st.reset(ps, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
     }
     let used = 0;
-    const usedSys = new Set<GnssSystem>();
+    usedSys.clear();
     // Code.
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
@@ -671,7 +675,6 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
       }
     }
     const order = dd.map((_, u) => u).sort((u, w) => dd[u].el - dd[w].el);
-    const fixOptions = { ratioThreshold: opt.ratioThreshold, minFixed: opt.minFixedAmbiguities, minSuccessRate: opt.minSuccessRate };
     const fix = fixAroundHeld(a, q, m, order, fixOptions) ?? fixPartially(a, q, m, order, fixOptions);
     out.ratio[k] = fix.ratio;
     if (!('integers' in fix)) return;
@@ -712,15 +715,17 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     for (let u = 0; u < ns; u++) st.addColumnDifference(conditioned, dd[sub[u]].i, dd[sub[u]].p, rhs[0][u]);
     for (let slot = 0; slot < nst; slot++) conditioned[slot] = x[slot] - conditioned[slot];
     // Fix-and-hold.
-    const seen = new Set<number>();
+    holdSeen.clear();
     for (let u = 0; u < ns; u++) {
       const e = dd[sub[u]];
       const key = pairKey(e.arcI, e.arcP);
-      seen.add(key);
-      const h = holdCount.get(key);
+      holdSeen.add(key);
+      let h = holdCount.get(key);
       const value = fix.integers[u];
-      const count = h && h.value === value ? h.count + 1 : 1;
-      holdCount.set(key, { value, count });
+      if (h && h.value === value) h.count++;
+      else if (h) { h.value = value; h.count = 1; }
+      else holdCount.set(key, (h = { value, count: 1 }));
+      const count = h.count;
       if (count >= opt.holdAfterEpochs) {
         // Already held to well below the constraint's precision: nothing to add.
         const v2 = st.cov(e.i, e.i) - 2 * st.cov(e.i, e.p) + st.cov(e.p, e.p);
@@ -730,6 +735,6 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
         st.update(holdIdx, holdVal, 2, miss, HOLD_VAR_CYCLES2);
       }
     }
-    for (const key of [...holdCount.keys()]) if (!seen.has(key)) holdCount.delete(key);
+    for (const key of holdCount.keys()) if (!holdSeen.has(key)) holdCount.delete(key);
   }
 }
