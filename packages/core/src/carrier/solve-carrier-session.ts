@@ -266,7 +266,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       refSeen.positioned++;
       refClockM = ep.clockM;
       if (refCal) applyAntenna(ep, refArp, refGeo, refCal);
-      const arcs = refTracker.update(ep.timeGpsS, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
+      const arcs = refTracker.update(ep.timeGpsS, ep.sats);
       refBuffer.add(reduceReferenceEpoch(ep, refArp, refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat), refTracker.codeClockStepsM, furtherArcs(refBandTrackers, ep)));
     }
   }
@@ -374,7 +374,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     roverSeen.positioned++;
     const t = ep.timeGpsS;
     if (roverCal) applyAntenna(ep, x0, ecefToGeodetic(x0), roverCal);
-    const arcs = roverTracker.update(t, ep.sats.map((s) => ({ sat: s.sat, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, lli: s.lli, wavelengthM: s.wavelengthM })));
+    const arcs = roverTracker.update(t, ep.sats);
     const roverFurther = furtherArcs(roverBandTrackers, ep);
     await pullReference(t);
     refBuffer.prune(t);
