@@ -31,6 +31,13 @@ export interface ClockJumpOptions {
 export function detectMillisecondClockJump(codeMinusCarrierChangesM: ArrayLike<number>, opts: ClockJumpOptions = {}): ClockJump | null {
   const tol = opts.toleranceM ?? 10;
   const minFraction = opts.minFraction ?? 0.5;
+  // The median is one of the changes: when none rounds to a whole millisecond there is no jump (the usual epoch).
+  let anyMillisecond = false;
+  for (let i = 0; i < codeMinusCarrierChangesM.length; i++) {
+    const v = codeMinusCarrierChangesM[i];
+    if (Number.isFinite(v) && Math.round(v / MILLISECOND_RANGE_M) !== 0) { anyMillisecond = true; break; }
+  }
+  if (!anyMillisecond) return null;
   const values: number[] = [];
   for (let i = 0; i < codeMinusCarrierChangesM.length; i++) {
     const v = codeMinusCarrierChangesM[i];

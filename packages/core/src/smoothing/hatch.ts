@@ -15,7 +15,7 @@
  */
 import type { SatId } from '../gnss/index.js';
 import { detectMillisecondClockJump } from './clock-jump.js';
-import type { ClockJump } from './clock-jump.js';
+import type { ClockJump, ClockJumpOptions } from './clock-jump.js';
 
 export interface CarrierSmootherOptions {
   /** Nominal observation interval (s). */
@@ -59,6 +59,7 @@ export interface SmootherOutput {
 }
 
 interface SatState {
+  readonly sat: SatId;
   n: number;
   smoothedM: number;
   codeM: number;
@@ -70,6 +71,61 @@ interface SatState {
 
 const LLI_LOST_LOCK_BIT = 1; // RINEX 2.11 5.1 / RINEX 3.05 5.3: bit 0 = lost lock, bit 1 = half cycle
 const LLI_HALF_CYCLE_BIT = 2;
+
+/**
+ * Working arrays of one epoch's satellites (CarrierSmoother.update, dopplerSlipFlags), kept from epoch to
+ * epoch and grown when an epoch has more satellites: the filter runs every epoch of every receiver.
+ */
+export class SmootherScratch {
+  capacity = 0;
+  continuing = new Uint8Array(0);
+  slip = new Uint8Array(0);
+  cmcChangeM = new Float64Array(0);
+  dPhaseCycles = new Float64Array(0);
+  dopplerPrevHz = new Float64Array(0);
+  dopplerHz = new Float64Array(0);
+  dtS = new Float64Array(0);
+  /** Indices of the satellites with Doppler, and the misfits of both Doppler signs (dopplerSlipFlags). */
+  index = new Int32Array(0);
+  plusCycles = new Float64Array(0);
+  minusCycles = new Float64Array(0);
+  deviations = new Float64Array(0);
+  sorted = new Float64Array(0);
+
+  /** Ready for n satellites: the per-satellite arrays hold NaN (no value) and 0 (no flag) throughout. */
+  reset(n: number): void {
+    if (n > this.capacity) {
+      const c = Math.max(n, 2 * this.capacity, 16);
+      this.capacity = c;
+      this.continuing = new Uint8Array(c); this.slip = new Uint8Array(c);
+      this.cmcChangeM = new Float64Array(c); this.dPhaseCycles = new Float64Array(c);
+      this.dopplerPrevHz = new Float64Array(c); this.dopplerHz = new Float64Array(c); this.dtS = new Float64Array(c);
+      this.index = new Int32Array(c); this.plusCycles = new Float64Array(c); this.minusCycles = new Float64Array(c);
+      this.deviations = new Float64Array(c); this.sorted = new Float64Array(c);
+    }
+    this.continuing.fill(0); this.slip.fill(0);
+    this.cmcChangeM.fill(NaN); this.dPhaseCycles.fill(NaN);
+    this.dopplerPrevHz.fill(NaN); this.dopplerHz.fill(NaN); this.dtS.fill(NaN);
+  }
+}
+
+/** Median of values[0..count-1] (count >= 1), sorted in `work` by insertion (a dozen satellites). */
+function medianOf(values: Float64Array, count: number, work: Float64Array): number {
+  for (let i = 0; i < count; i++) {
+    const x = values[i];
+    let j = i - 1;
+    while (j >= 0 && work[j] > x) { work[j + 1] = work[j]; j--; }
+    work[j + 1] = x;
+  }
+  const h = count >> 1;
+  return count % 2 ? work[h] : 0.5 * (work[h - 1] + work[h]);
+}
+
+/** Median absolute deviation of values[0..count-1] about m (the deviations are written over `deviations`). */
+function madAbout(values: Float64Array, count: number, m: number, deviations: Float64Array, work: Float64Array): number {
+  for (let i = 0; i < count; i++) deviations[i] = Math.abs(values[i] - m);
+  return medianOf(deviations, count, work);
+}
 
 /**
  * Cycle slips by time-differenced carrier against Doppler. Per continuing satellite the misfit
@@ -84,21 +140,38 @@ const LLI_HALF_CYCLE_BIT = 2;
  */
 export function dopplerSlipFlags(dPhaseCycles: ArrayLike<number>, dopplerPrevHz: ArrayLike<number>, dopplerHz: ArrayLike<number>, dtS: ArrayLike<number>): boolean[] {
   const n = dPhaseCycles.length;
-  const flags: boolean[] = new Array<boolean>(n).fill(false);
-  const idx: number[] = [];
-  for (let i = 0; i < n; i++) if (Number.isFinite(dPhaseCycles[i]) && Number.isFinite(dopplerPrevHz[i]) && Number.isFinite(dopplerHz[i]) && dtS[i] > 0) idx.push(i);
-  if (idx.length < 3) return flags;
-  const misfits = (sign: number) => idx.map((i) => dPhaseCycles[i] + sign * 0.5 * (dopplerPrevHz[i] + dopplerHz[i]) * dtS[i]);
-  const median = (v: number[]) => { const w = [...v].sort((x, y) => x - y); const h = w.length >> 1; return w.length % 2 ? w[h] : 0.5 * (w[h - 1] + w[h]); };
-  const spread = (v: number[]) => { const m = median(v); return { m, mad: median(v.map((x) => Math.abs(x - m))) }; };
-  const plus = misfits(1), minus = misfits(-1);
-  const a = spread(plus), b = spread(minus);
-  const [use, common] = a.mad <= b.mad ? [plus, a.m] : [minus, b.m];
-  for (let k = 0; k < idx.length; k++) {
-    const i = idx[k];
-    if (Math.abs(use[k] - common) > 1 + 0.5 * dtS[i]) flags[i] = true;
+  const w = new SmootherScratch();
+  w.reset(n);
+  for (let i = 0; i < n; i++) {
+    w.dPhaseCycles[i] = dPhaseCycles[i]; w.dopplerPrevHz[i] = dopplerPrevHz[i]; w.dopplerHz[i] = dopplerHz[i]; w.dtS[i] = dtS[i];
   }
-  return flags;
+  markDopplerSlips(n, w);
+  return Array.from(w.slip.subarray(0, n), (f) => f === 1);
+}
+
+/** dopplerSlipFlags on the scratch's first n satellites: sets scratch.slip[i] to 1 for a slip. */
+function markDopplerSlips(n: number, w: SmootherScratch): void {
+  const { dPhaseCycles, dopplerPrevHz, dopplerHz, dtS, index, plusCycles, minusCycles, sorted } = w;
+  let count = 0;
+  for (let i = 0; i < n; i++) if (Number.isFinite(dPhaseCycles[i]) && Number.isFinite(dopplerPrevHz[i]) && Number.isFinite(dopplerHz[i]) && dtS[i] > 0) index[count++] = i;
+  if (count < 3) return;
+  for (let k = 0; k < count; k++) {
+    const i = index[k];
+    const meanDopplerCycles = 0.5 * (dopplerPrevHz[i] + dopplerHz[i]) * dtS[i];
+    plusCycles[k] = dPhaseCycles[i] + meanDopplerCycles;
+    minusCycles[k] = dPhaseCycles[i] - meanDopplerCycles;
+  }
+  const plusM = medianOf(plusCycles, count, sorted);
+  const minusM = medianOf(minusCycles, count, sorted);
+  const plusMad = madAbout(plusCycles, count, plusM, w.deviations, sorted);
+  const minusMad = madAbout(minusCycles, count, minusM, w.deviations, sorted);
+  const usePlus = plusMad <= minusMad;
+  const use = usePlus ? plusCycles : minusCycles;
+  const common = usePlus ? plusM : minusM;
+  for (let k = 0; k < count; k++) {
+    const i = index[k];
+    if (Math.abs(use[k] - common) > 1 + 0.5 * dtS[i]) w.slip[i] = 1;
+  }
 }
 
 export class CarrierSmoother {
@@ -109,6 +182,8 @@ export class CarrierSmoother {
   readonly clockJumpToleranceM: number;
   private readonly states = new Map<SatId, SatState>();
   private lastClockJump: ClockJump | null = null;
+  private readonly jumpOptions: ClockJumpOptions;
+  private readonly scratch = new SmootherScratch();
 
   constructor(opts: CarrierSmootherOptions) {
     if (!(opts.intervalS > 0)) throw new RangeError(`CarrierSmoother: intervalS ${opts.intervalS} must be > 0`);
@@ -120,6 +195,7 @@ export class CarrierSmoother {
     this.gapThresholdS = opts.gapThresholdS ?? 2 * opts.intervalS + 1e-3;
     this.codeCarrierJumpM = opts.codeCarrierJumpM ?? 10;
     this.clockJumpToleranceM = opts.clockJumpToleranceM ?? 10;
+    this.jumpOptions = { toleranceM: this.clockJumpToleranceM };
   }
 
   /** The clock jump repaired at the last update, if any. */
@@ -134,36 +210,31 @@ export class CarrierSmoother {
   }
 
   update(epochTimeS: number, sats: readonly SmootherInput[]): SmootherOutput[] {
-    // Plain arrays: a few numbers per satellite, made every epoch (a typed array costs more to make than to use here).
-    const nanArray = (): number[] => new Array<number>(sats.length).fill(NaN);
-    // 1. which satellites continue, and their code-minus-carrier changes
-    const continuing: boolean[] = new Array(sats.length);
-    const cmcChange = nanArray();
-    for (let i = 0; i < sats.length; i++) {
+    const count = sats.length;
+    const scratch = this.scratch;
+    scratch.reset(count);
+    // 1. which satellites continue, their code-minus-carrier changes and carrier-against-Doppler inputs
+    for (let i = 0; i < count; i++) {
       const o = sats[i];
       const st = this.states.get(o.sat);
       const dt = st ? epochTimeS - st.timeS : NaN;
       const ok = !!st && dt > 0 && dt <= this.gapThresholdS && (o.lli & LLI_LOST_LOCK_BIT) === 0
         && Number.isFinite(o.codeM) && Number.isFinite(o.phaseCycles) && Number.isFinite(st.phaseM);
-      continuing[i] = ok;
-      if (ok) cmcChange[i] = o.codeM - o.phaseCycles * o.wavelengthM - (st!.codeM - st!.phaseM);
+      if (!ok) continue;
+      scratch.continuing[i] = 1;
+      scratch.cmcChangeM[i] = o.codeM - o.phaseCycles * o.wavelengthM - (st!.codeM - st!.phaseM);
+      scratch.dPhaseCycles[i] = o.phaseCycles - st!.phaseM / o.wavelengthM;
+      scratch.dopplerPrevHz[i] = st!.dopplerHz;
+      scratch.dopplerHz[i] = o.dopplerHz ?? NaN;
+      scratch.dtS[i] = dt;
     }
-    const dPhase = nanArray(), dPrev = nanArray(), dNow = nanArray(), dts = nanArray();
-    for (let i = 0; i < sats.length; i++) {
-      if (!continuing[i]) continue;
-      const o = sats[i], st = this.states.get(o.sat)!;
-      dPhase[i] = o.phaseCycles - st.phaseM / o.wavelengthM;
-      dPrev[i] = st.dopplerHz;
-      dNow[i] = o.dopplerHz ?? NaN;
-      dts[i] = epochTimeS - st.timeS;
-    }
-    const slipFlags = dopplerSlipFlags(dPhase, dPrev, dNow, dts);
+    markDopplerSlips(count, scratch);
     // 2. a common millisecond jump: shift the history of every continuing satellite
-    const jump = detectMillisecondClockJump(cmcChange, { toleranceM: this.clockJumpToleranceM });
+    const jump = detectMillisecondClockJump(scratch.cmcChangeM, this.jumpOptions);
     this.lastClockJump = jump;
     // 3. per satellite
-    const out: SmootherOutput[] = new Array(sats.length);
-    for (let i = 0; i < sats.length; i++) {
+    const out: SmootherOutput[] = new Array(count);
+    for (let i = 0; i < count; i++) {
       const o = sats[i];
       const st = this.states.get(o.sat);
       const phaseM = o.phaseCycles * o.wavelengthM;
@@ -180,11 +251,11 @@ export class CarrierSmoother {
       else if ((o.lli & LLI_HALF_CYCLE_BIT) !== (st.lli & LLI_HALF_CYCLE_BIT)) reason = 'half-cycle flag changed (LLI bit 1)';
       else if (!(epochTimeS - st.timeS > 0)) reason = `epoch time not after the previous one (${epochTimeS} <= ${st.timeS})`;
       else if (epochTimeS - st.timeS > this.gapThresholdS) reason = `data gap of ${(epochTimeS - st.timeS).toFixed(3)} s`;
-      else if (slipFlags[i]) reason = 'carrier change not explained by the Doppler (cycle slip)';
+      else if (scratch.slip[i] === 1) reason = 'carrier change not explained by the Doppler (cycle slip)';
       let note: string | undefined;
       if (reason === undefined && st) {
         let history = st.smoothedM;
-        if (jump && continuing[i] && Math.abs(cmcChange[i] - jump.jumpM) <= this.clockJumpToleranceM) {
+        if (jump && scratch.continuing[i] === 1 && Math.abs(scratch.cmcChangeM[i] - jump.jumpM) <= this.clockJumpToleranceM) {
           history += jump.jumpM;
           note = `receiver clock jump of ${jump.milliseconds} ms repaired`;
         }
@@ -209,12 +280,12 @@ export class CarrierSmoother {
           continue;
         }
       }
-      this.states.set(o.sat, { n: 1, smoothedM: o.codeM, codeM: o.codeM, phaseM, timeS: epochTimeS, lli: o.lli, dopplerHz: o.dopplerHz ?? NaN });
+      this.states.set(o.sat, { sat: o.sat, n: 1, smoothedM: o.codeM, codeM: o.codeM, phaseM, timeS: epochTimeS, lli: o.lli, dopplerHz: o.dopplerHz ?? NaN });
       out[i] = { sat: o.sat, smoothedM: o.codeM, n: 1, restarted: true, reason };
     }
     // 4. bounded memory: satellites silent for long restart anyway; kept a while so the restart can say "gap"
     const forgetS = Math.max(10 * this.gapThresholdS, 600);
-    for (const [sat, st] of this.states) if (epochTimeS - st.timeS > forgetS) this.states.delete(sat);
+    for (const st of this.states.values()) if (epochTimeS - st.timeS > forgetS) this.states.delete(st.sat);
     return out;
   }
 }

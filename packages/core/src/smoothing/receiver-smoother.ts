@@ -49,6 +49,9 @@ function companionSlots(codes: readonly string[], code: string): CompanionSlots 
 
 interface SmootherInputRow { sat: SatId; codeM: number; phaseCycles: number; wavelengthM: number; lli: number; dopplerHz: number }
 
+/** One code's inputs of an epoch: rows reused from epoch to epoch (`list` holds this epoch's, in order). */
+interface CodeInputs { readonly code: string; readonly list: SmootherInputRow[]; readonly pool: SmootherInputRow[] }
+
 export class ReceiverSmoother {
   private readonly filters = new Map<string, CarrierSmoother>();
   /** Receiver clock jumps repaired so far per code filter (m): removed from code minus carrier in the arcs. */
@@ -58,6 +61,16 @@ export class ReceiverSmoother {
   /** Variance factor of the last update's outputs: sat -> code -> factor. */
   readonly factors = new Map<SatId, Map<string, number>>();
   restarts = 0;
+  /** The inputs per code, in the order the codes first came in this epoch (inputsOf). */
+  private readonly inputs: CodeInputs[] = [];
+  private readonly inputsByCode = new Map<string, CodeInputs>();
+  /** The last update's smoothed values: sat -> code -> m. */
+  private readonly values = new Map<SatId, Map<string, number>>();
+  /** Per-satellite maps of values and of factors, cleared and handed out again each update. */
+  private readonly valueMaps = new Map<SatId, Map<string, number>>();
+  private readonly factorMaps = new Map<SatId, Map<string, number>>();
+  /** The last arcValue: smoothed value (m) and its variance factor. */
+  private readonly value = { m: NaN, factor: 1 };
 
   constructor(
     private readonly intervalS: number,
@@ -71,8 +84,11 @@ export class ReceiverSmoother {
     if (mode !== 'forward' && !arcs) throw new RangeError(`ReceiverSmoother: mode '${mode}' needs the arcs`);
   }
 
-  private inputsOf(epoch: ObsEpoch): Map<string, SmootherInputRow[]> {
-    const inputs = new Map<string, SmootherInputRow[]>();
+  /** Fills `this.inputs` with the epoch's filter inputs per code (codes in order of first appearance). */
+  private inputsOf(epoch: ObsEpoch): void {
+    const inputs = this.inputs;
+    for (const x of inputs) x.list.length = 0;
+    inputs.length = 0;
     for (const s of epoch.sats) {
       const system = satSystem(s.sat);
       if (!this.systems.includes(system)) continue;
@@ -87,20 +103,41 @@ export class ReceiverSmoother {
         const lli = pi >= 0 ? s.lli[pi] : 0;
         const wl = comp.phase ? carrierWavelengthM(system, comp.phase, k) : NaN;
         const di = comp.dopplerIndex;
-        let list = inputs.get(code);
-        if (!list) { list = []; inputs.set(code, list); }
-        list.push({ sat: s.sat, codeM, phaseCycles: Number.isFinite(wl) ? phase : NaN, wavelengthM: wl, lli, dopplerHz: di >= 0 ? s.values[di] : NaN });
+        let forCode = this.inputsByCode.get(code);
+        if (!forCode) { forCode = { code, list: [], pool: [] }; this.inputsByCode.set(code, forCode); }
+        if (forCode.list.length === 0) inputs.push(forCode);
+        const n = forCode.list.length;
+        let row = forCode.pool[n];
+        if (!row) { row = { sat: s.sat, codeM: NaN, phaseCycles: NaN, wavelengthM: NaN, lli: 0, dopplerHz: NaN }; forCode.pool.push(row); }
+        row.sat = s.sat; row.codeM = codeM; row.phaseCycles = Number.isFinite(wl) ? phase : NaN; row.wavelengthM = wl; row.lli = lli;
+        row.dopplerHz = di >= 0 ? s.values[di] : NaN;
+        forCode.list.push(row);
       }
     }
-    return inputs;
   }
 
-  /** Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value). */
+  /** The per-satellite map of `owner` handed out again for this update, cleared (made at the satellite's first use). */
+  private static mapFor(owner: Map<SatId, Map<string, number>>, pool: Map<SatId, Map<string, number>>, sat: SatId): Map<string, number> {
+    let m = owner.get(sat);
+    if (!m) {
+      m = pool.get(sat);
+      if (m) m.clear(); else { m = new Map(); pool.set(sat, m); }
+      owner.set(sat, m);
+    }
+    return m;
+  }
+
+  /**
+   * Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value). The maps
+   * returned, like `factors`, are valid until the next update.
+   */
   update(epoch: ObsEpoch): Map<SatId, Map<string, number>> {
-    const out = new Map<SatId, Map<string, number>>();
+    const out = this.values;
+    out.clear();
     this.factors.clear();
     const t = epoch.tagGpsS;
-    for (const [code, list] of this.inputsOf(epoch)) {
+    this.inputsOf(epoch);
+    for (const { code, list } of this.inputs) {
       let f = this.filters.get(code);
       if (!f) { f = new CarrierSmoother({ intervalS: this.intervalS, timeConstantS: this.timeConstantS, gapThresholdS: Math.max(this.maxGapS, 2 * this.intervalS + 1e-3) }); this.filters.set(code, f); }
       const results = f.update(t, list);
@@ -111,19 +148,16 @@ export class ReceiverSmoother {
         if (r.restarted && r.n <= 1) this.restarts++;
         const value = this.arcValue(code, t, row, r.restarted, jumpM, r.smoothedM, r.n);
         if (!Number.isFinite(value.m)) continue;
-        let m = out.get(r.sat);
-        if (!m) { m = new Map(); out.set(r.sat, m); }
-        m.set(code, value.m);
-        let fm = this.factors.get(r.sat);
-        if (!fm) { fm = new Map(); this.factors.set(r.sat, fm); }
-        fm.set(code, value.factor);
+        ReceiverSmoother.mapFor(out, this.valueMaps, r.sat).set(code, value.m);
+        ReceiverSmoother.mapFor(this.factors, this.factorMaps, r.sat).set(code, value.factor);
       }
     }
     return out;
   }
 
-  /** The smoothed value of one satellite and code in the current mode, and its variance factor. */
-  private arcValue(code: string, t: number, row: SmootherInputRow, restarted: boolean, jumpM: number, forwardM: number, n: number): { m: number; factor: number } {
+  /** The smoothed value of one satellite and code in the current mode, and its variance factor (in `this.value`, reused). */
+  private arcValue(code: string, t: number, row: SmootherInputRow, restarted: boolean, jumpM: number, forwardM: number, n: number): { readonly m: number; readonly factor: number } {
+    const value = this.value;
     const phaseM = row.phaseCycles * row.wavelengthM;
     if (this.mode !== 'forward') {
       let current = this.current.get(code);
@@ -138,13 +172,15 @@ export class ReceiverSmoother {
       if (this.mode === 'record') arc?.add(t, row.codeM - phaseM - jumpM);
       else {
         const v = Number.isFinite(phaseM) ? arc?.at(t) : null;
-        if (v && Number.isFinite(v.cmcM)) return { m: phaseM + jumpM + v.cmcM, factor: v.varianceFactor };
-        return { m: row.codeM, factor: 1 };
+        if (v && Number.isFinite(v.cmcM)) { value.m = phaseM + jumpM + v.cmcM; value.factor = v.varianceFactor; return value; }
+        value.m = row.codeM; value.factor = 1;
+        return value;
       }
     }
     // The forward filter: n is its effective length 1/w (hatch.ts).
     const windowS = n * this.intervalS;
-    return { m: forwardM, factor: Math.min(1, Math.max(1 / Math.max(n, 1), CODE_ERROR_CORRELATION_S / windowS)) };
+    value.m = forwardM; value.factor = Math.min(1, Math.max(1 / Math.max(n, 1), CODE_ERROR_CORRELATION_S / windowS));
+    return value;
   }
 
   reset(): void {
