@@ -17,7 +17,20 @@ export function inertCell(cell: string): string {
   return `'${cell}`;
 }
 
-/** Every cell of every row made inert (see inertCell). */
-export function inertRows(rows: readonly (readonly string[])[]): string[][] {
-  return rows.map((r) => r.map((c) => inertCell(String(c))));
+/**
+ * Every cell of every row made inert (see inertCell). A row none of whose cells changes (the usual
+ * numeric row) is handed back as it is, not copied: the output builders call this for every row of a run.
+ */
+export function inertRows(rows: readonly (readonly string[])[]): (readonly string[])[] {
+  const out = new Array<readonly string[]>(rows.length);
+  for (let i = 0; i < rows.length; i++) out[i] = inertRow(rows[i]);
+  return out;
+}
+
+function inertRow(row: readonly string[]): readonly string[] {
+  for (let j = 0; j < row.length; j++) {
+    const c = row[j];
+    if (typeof c !== 'string' || inertCell(c) !== c) return row.map((x) => inertCell(String(x)));
+  }
+  return row;
 }

@@ -216,7 +216,7 @@ export class SingleDifferenceEpoch {
       const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;
       const range = Math.sqrt(dx * dx + dy * dy + dz * dz);
       const look = this.lookOf(p);
-      this.geometry.set(p.sat, { el: look.el, az: look.az });
+      this.geometry.set(p.sat, look);
       if (look.el < maskRad) { this.belowMask.add(p.sat); continue; }
       if (p.elevationRefRad < maskRad) { this.belowMaskRef.add(p.sat); continue; }
       let offsetM = 0, extraM2 = 0, factor = 1;

@@ -5,8 +5,8 @@
  * differential one is possible.
  */
 import type { EcefM, ObsEpoch, ObsHeader, SatId } from '../gnss/index.js';
-import { solvePositionFix, type FixOptions, type PositionFix, type SatelliteResidual } from '../solve/index.js';
-import { SingleDifferenceEpoch, type DifferencingContext } from '../differencing/index.js';
+import { solvePositionFix, type FixOptions, type PositionFix, type Rejection, type RowOutcome, type SatelliteResidual } from '../solve/index.js';
+import { SingleDifferenceEpoch, type DifferencingContext, type SingleDifference } from '../differencing/index.js';
 import { solveStandaloneEpoch, type StandaloneContext } from '../standalone/index.js';
 import type { EpochSolution, SolutionKind } from './solution-types.js';
 import { differentialRecord, noSolution, noSolutionSatellite, standaloneRecord, type RecordContext } from './epoch-records.js';
@@ -57,9 +57,12 @@ export function fixSingleDifferences(sd: SingleDifferenceEpoch, start: EcefM, op
 
 /** Every satellite of the epoch with its residual or the reason it was not used. */
 function satelliteList(ctx: CodeSolverContext, e: ObsEpoch, sd: SingleDifferenceEpoch, fix: ReturnType<typeof solvePositionFix> | null): SatelliteResidual[] {
-  const usedBySat = new Map(fix && fix.ok ? fix.used.map((u) => [u.row.sat, u] as const) : []);
-  const rejBySat = new Map(fix ? fix.rejected.map((r) => [r.sat, r] as const) : []);
-  const preparedBySat = new Map(sd.prepared.map((q) => [q.sat, q] as const));
+  const usedBySat = new Map<SatId, RowOutcome>();
+  if (fix && fix.ok) for (const u of fix.used) usedBySat.set(u.row.sat, u);
+  const rejBySat = new Map<SatId, Rejection>();
+  if (fix) for (const r of fix.rejected) rejBySat.set(r.sat, r);
+  const preparedBySat = new Map<SatId, SingleDifference>();
+  for (const q of sd.prepared) preparedBySat.set(q.sat, q);
   const out: SatelliteResidual[] = [];
   for (const s of e.sats) {
     const pre = sd.reasons.get(s.sat);
