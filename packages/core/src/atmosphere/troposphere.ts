@@ -82,14 +82,17 @@ function marini(sinE: number, a: number, b: number, c: number): number {
   return (1 + a / (1 + b / (1 + c))) / (sinE + a / (sinE + b / (sinE + c)));
 }
 
-/** Linear interpolation in |latitude| over the table, constant beyond 15 and 75 deg (Niell 1996, sec. 4). */
-function interpolate(table: readonly (readonly [number, number, number])[], absLatDeg: number): [number, number, number] {
-  if (absLatDeg <= NIELL_LAT_DEG[0]) return [...table[0]];
-  if (absLatDeg >= NIELL_LAT_DEG[4]) return [...table[4]];
+/**
+ * Coefficient k of the table, interpolated linearly in |latitude|, constant beyond 15 and 75 deg (Niell 1996,
+ * sec. 4). One number at a time: the mapping is evaluated for every satellite of every epoch.
+ */
+function interpolate(table: readonly (readonly [number, number, number])[], absLatDeg: number, k: 0 | 1 | 2): number {
+  if (absLatDeg <= NIELL_LAT_DEG[0]) return table[0][k];
+  if (absLatDeg >= NIELL_LAT_DEG[4]) return table[4][k];
   const i = Math.floor((absLatDeg - 15) / 15);
   const f = (absLatDeg - NIELL_LAT_DEG[i]) / 15;
   const lo = table[i], hi = table[i + 1];
-  return [lo[0] + f * (hi[0] - lo[0]), lo[1] + f * (hi[1] - lo[1]), lo[2] + f * (hi[2] - lo[2])];
+  return lo[k] + f * (hi[k] - lo[k]);
 }
 
 export interface NiellMapping {
@@ -105,18 +108,16 @@ export function niellMapping(latRad: number, heightM: number, elevationRad: numb
   const absLatDeg = (Math.abs(latRad) * 180) / Math.PI;
   const doy = latRad < 0 ? dayOfYear + 365.25 / 2 : dayOfYear;
   const season = Math.cos((2 * Math.PI * (doy - 28)) / 365.25);
-  const avg = interpolate(NMF_H_AVG, absLatDeg);
-  const amp = interpolate(NMF_H_AMP, absLatDeg);
-  const a = avg[0] - amp[0] * season;
-  const b = avg[1] - amp[1] * season;
-  const c = avg[2] - amp[2] * season;
+  const a = interpolate(NMF_H_AVG, absLatDeg, 0) - interpolate(NMF_H_AMP, absLatDeg, 0) * season;
+  const b = interpolate(NMF_H_AVG, absLatDeg, 1) - interpolate(NMF_H_AMP, absLatDeg, 1) * season;
+  const c = interpolate(NMF_H_AVG, absLatDeg, 2) - interpolate(NMF_H_AMP, absLatDeg, 2) * season;
   const sinE = Math.sin(Math.max(elevationRad, MIN_ELEVATION_RAD));
   const h = Math.min(MAX_HEIGHT_M, Math.max(MIN_HEIGHT_M, heightM));
   // height correction dm/dh = 1/sin E - f(E; a_ht, b_ht, c_ht), per km of height (Niell 1996, eq. 6)
   const dmdh = 1 / sinE - marini(sinE, NMF_HT[0], NMF_HT[1], NMF_HT[2]);
   const hydrostatic = marini(sinE, a, b, c) + dmdh * (h / 1000);
-  const w = interpolate(NMF_W, absLatDeg);
-  return { hydrostatic, wet: marini(sinE, w[0], w[1], w[2]) };
+  const wet = marini(sinE, interpolate(NMF_W, absLatDeg, 0), interpolate(NMF_W, absLatDeg, 1), interpolate(NMF_W, absLatDeg, 2));
+  return { hydrostatic, wet };
 }
 
 export interface SlantTroposphere {

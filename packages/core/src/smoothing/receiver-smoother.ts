@@ -10,7 +10,7 @@
  */
 import type { GnssSystem, ObsEpoch, SatId } from '../gnss/index.js';
 import { carrierWavelengthM, companionCodes, satSystem } from '../gnss/index.js';
-import { primaryCodeSlots, pseudorangeAt } from '../observables/index.js';
+import { primaryCodeSlots, pseudorangeAt, type CodeSlot } from '../observables/index.js';
 import { CarrierSmoother } from './hatch.js';
 import { CODE_ERROR_CORRELATION_S, SmoothingArc } from './two-sided-arcs.js';
 
@@ -25,26 +25,39 @@ export class SmoothingArcs {
   }
 }
 
-/** The carrier phase and Doppler going with a pseudorange code (companionCodes), with their indices in the code list. */
-interface CompanionSlots {
+/**
+ * A primary-band pseudorange of a code list with its carrier phase and Doppler (companionCodes), as
+ * indices in the list.
+ */
+interface CodeWithCompanions {
+  readonly slot: CodeSlot;
   readonly phase: string | null;
   readonly phaseIndex: number;
   readonly dopplerIndex: number;
+  /** The phase's wavelength (m); NaN without a phase, or for GLONASS (per satellite: its frequency channel). */
+  readonly wavelengthM: number;
 }
 
-/** Per code list (shared by a file's satellites of one system) and pseudorange code: made once. */
-const companionsByList = new WeakMap<readonly string[], Map<string, CompanionSlots>>();
+/** Per code list (shared by a file's satellites of one system) and system: made once. */
+const companionsByList = new WeakMap<readonly string[], Map<GnssSystem, readonly CodeWithCompanions[]>>();
 
-function companionSlots(codes: readonly string[], code: string): CompanionSlots {
-  let byCode = companionsByList.get(codes);
-  if (!byCode) { byCode = new Map(); companionsByList.set(codes, byCode); }
-  let slots = byCode.get(code);
-  if (!slots) {
-    const comp = companionCodes(code, codes);
-    slots = { phase: comp.phase, phaseIndex: comp.phase ? codes.indexOf(comp.phase) : -1, dopplerIndex: comp.doppler ? codes.indexOf(comp.doppler) : -1 };
-    byCode.set(code, slots);
+function codesWithCompanions(system: GnssSystem, codes: readonly string[]): readonly CodeWithCompanions[] {
+  let bySystem = companionsByList.get(codes);
+  if (!bySystem) { bySystem = new Map(); companionsByList.set(codes, bySystem); }
+  let list = bySystem.get(system);
+  if (!list) {
+    list = primaryCodeSlots(system, codes).map((slot) => {
+      const comp = companionCodes(slot.code, codes);
+      return {
+        slot, phase: comp.phase,
+        phaseIndex: comp.phase ? codes.indexOf(comp.phase) : -1,
+        dopplerIndex: comp.doppler ? codes.indexOf(comp.doppler) : -1,
+        wavelengthM: comp.phase && system !== 'R' ? carrierWavelengthM(system, comp.phase) : NaN,
+      };
+    });
+    bySystem.set(system, list);
   }
-  return slots;
+  return list;
 }
 
 interface SmootherInputRow { sat: SatId; codeM: number; phaseCycles: number; wavelengthM: number; lli: number; dopplerHz: number }
@@ -93,15 +106,14 @@ export class ReceiverSmoother {
       const system = satSystem(s.sat);
       if (!this.systems.includes(system)) continue;
       const k = system === 'R' ? this.glonassChannels.get(Number(s.sat.slice(1))) : undefined;
-      for (const slot of primaryCodeSlots(system, s.codes)) {
-        const codeM = pseudorangeAt(s, slot);
+      for (const comp of codesWithCompanions(system, s.codes)) {
+        const codeM = pseudorangeAt(s, comp.slot);
         if (!Number.isFinite(codeM)) continue;
-        const code = slot.code;
-        const comp = companionSlots(s.codes, code);
+        const code = comp.slot.code;
         const pi = comp.phaseIndex;
         const phase = pi >= 0 ? s.values[pi] : NaN;
         const lli = pi >= 0 ? s.lli[pi] : 0;
-        const wl = comp.phase ? carrierWavelengthM(system, comp.phase, k) : NaN;
+        const wl = comp.phase && system === 'R' ? carrierWavelengthM(system, comp.phase, k) : comp.wavelengthM;
         const di = comp.dopplerIndex;
         let forCode = this.inputsByCode.get(code);
         if (!forCode) { forCode = { code, list: [], pool: [] }; this.inputsByCode.set(code, forCode); }

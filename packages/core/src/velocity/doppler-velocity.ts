@@ -29,7 +29,7 @@ import { carrierWavelengthM } from '../gnss/index.js';
 import { EphemerisStore, satelliteAtTransmission, SPEED_OF_LIGHT_MS, type SatelliteAtTransmission } from '../orbit/index.js';
 import { azimuthElevation, ecefDeltaToEnu, ecefToGeodetic } from '../geodesy/index.js';
 import { solveWeightedLeastSquaresSmall } from '../solve/index.js';
-import { primaryCodes } from '../observables/index.js';
+import { primaryCodeSlots, pseudorangeAt } from '../observables/index.js';
 import { PRIMARY_BAND, clockSignal } from '../observables/index.js';
 
 export interface DopplerVelocityOptions {
@@ -72,22 +72,44 @@ interface Row {
   readonly varianceM2S2: number;
 }
 
-/** The Doppler (Hz) on the primary band: the one paired with the preferred pseudorange code, else any. */
-function primaryDoppler(system: GnssSystem, s: SatObservations): { code: string; hz: number } | null {
-  const tryCode = (d: string) => {
-    const i = s.codes.indexOf(d);
-    return i >= 0 && Number.isFinite(s.values[i]) ? { code: d, hz: s.values[i] } : null;
-  };
-  for (const c of primaryCodes(system, s)) {
-    const r = tryCode('D' + c.slice(1));
-    if (r) return r;
+/** Where a code list (shared by a file's satellites of one system) holds the Doppler of the primary band. */
+interface DopplerSlots {
+  /** Per primary pseudorange slot (primaryCodeSlots order): the index of its Doppler, -1 when none. */
+  readonly paired: readonly number[];
+  /** Every Doppler of the primary band, in the list's order. */
+  readonly anyOnBand: readonly number[];
+}
+
+const dopplerSlotsByList = new WeakMap<readonly string[], Map<GnssSystem, DopplerSlots>>();
+
+function dopplerSlots(system: GnssSystem, codes: readonly string[]): DopplerSlots {
+  let bySystem = dopplerSlotsByList.get(codes);
+  if (!bySystem) { bySystem = new Map(); dopplerSlotsByList.set(codes, bySystem); }
+  let slots = bySystem.get(system);
+  if (!slots) {
+    const band = PRIMARY_BAND[system];
+    slots = {
+      paired: primaryCodeSlots(system, codes).map((slot) => codes.indexOf('D' + slot.code.slice(1))),
+      anyOnBand: codes.filter((c) => c[0] === 'D' && c[1] === band).map((c) => codes.indexOf(c)),
+    };
+    bySystem.set(system, slots);
   }
-  const band = PRIMARY_BAND[system];
-  for (const c of s.codes) if (c[0] === 'D' && c[1] === band) {
-    const r = tryCode(c);
-    if (r) return r;
+  return slots;
+}
+
+/**
+ * Index in the code list of the Doppler on the primary band: the one paired with the preferred pseudorange
+ * code present, else any with a value; -1 when none.
+ */
+function primaryDopplerIndex(system: GnssSystem, s: SatObservations): number {
+  const slots = dopplerSlots(system, s.codes);
+  const codeSlots = primaryCodeSlots(system, s.codes);
+  for (let k = 0; k < codeSlots.length; k++) {
+    const i = slots.paired[k];
+    if (i >= 0 && !Number.isNaN(pseudorangeAt(s, codeSlots[k])) && Number.isFinite(s.values[i])) return i;
   }
-  return null;
+  for (const i of slots.anyOnBand) if (Number.isFinite(s.values[i])) return i;
+  return -1;
 }
 
 function pseudorangeFor(s: SatObservations, dopplerCode: string): number | null {
@@ -102,16 +124,18 @@ export function dopplerVelocity(epoch: ObsEpoch, positionM: EcefM, store: Epheme
   for (const s of epoch.sats) {
     const system = satSystem(s.sat);
     if (!opts.systems.includes(system)) continue;
-    const d = primaryDoppler(system, s);
-    if (!d || d.hz === 0) continue;
+    const di = primaryDopplerIndex(system, s);
+    if (di < 0) continue;
+    const dopplerCode = s.codes[di], dopplerHz = s.values[di];
+    if (dopplerHz === 0) continue;
     const k = system === 'R' ? opts.glonassChannels.get(Number(s.sat.slice(1))) : undefined;
-    const lambdaM = carrierWavelengthM(system, d.code, k);
+    const lambdaM = carrierWavelengthM(system, dopplerCode, k);
     if (!Number.isFinite(lambdaM)) continue;
     let at = opts.satellites?.get(s.sat);
     if (at === undefined) {
       const sel = store.select(s.sat, epoch.tagGpsS);
       if (sel.eph === null) continue;
-      at = satelliteAtTransmission(sel.eph, epoch.tagGpsS, pseudorangeFor(s, d.code), positionM, clockSignal(system, d.code[1]));
+      at = satelliteAtTransmission(sel.eph, epoch.tagGpsS, pseudorangeFor(s, dopplerCode), positionM, clockSignal(system, dopplerCode[1]));
     }
     const ae = azimuthElevation(positionM, at.posM, g.latRad, g.lonRad);
     if (ae.elevationRad < opts.elevationMaskRad) continue;
@@ -119,7 +143,7 @@ export function dopplerVelocity(epoch: ObsEpoch, positionM: EcefM, store: Epheme
     const r = Math.sqrt(dx * dx + dy * dy + dz * dz);
     const e = { x: dx / r, y: dy / r, z: dz / r };
     // y = -lambda D - e . v_sat + c dtDot_sat (Misra & Enge 2011, eq. 6.21 rearranged)
-    const yMS = -lambdaM * d.hz - (e.x * at.velMS.x + e.y * at.velMS.y + e.z * at.velMS.z) + SPEED_OF_LIGHT_MS * at.clock.driftSS;
+    const yMS = -lambdaM * dopplerHz - (e.x * at.velMS.x + e.y * at.velMS.y + e.z * at.velMS.z) + SPEED_OF_LIGHT_MS * at.clock.driftSS;
     if (!Number.isFinite(yMS)) continue;
     const sinEl = Math.sin(Math.max(ae.elevationRad, MIN_ELEVATION_FOR_WEIGHT_RAD));
     rows.push({ sat: s.sat, system, e, yMS, varianceM2S2: A_MS * A_MS + (B_MS * B_MS) / (sinEl * sinEl) });
