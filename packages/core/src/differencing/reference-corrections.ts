@@ -84,6 +84,12 @@ function cacheCorrection(cache: Map<Ephemeris, Map<string, CorrectionValue>>, ep
   byCode.set(code, v);
 }
 
+/** The codes a reference epoch holds for a satellite, added to `out`. */
+function addCodesOf(e: ReferenceEpoch | null, sat: SatId, out: Set<string>): void {
+  const rs = e?.sats.get(sat);
+  if (rs) for (const c of rs.codes.keys()) out.add(c);
+}
+
 function median(v: number[]): number {
   if (v.length === 0) return NaN;
   const s = [...v].sort((a, b) => a - b);
@@ -230,10 +236,8 @@ export class ReferenceCorrections {
   codesNear(sat: SatId, tGpsS: number, maxAgeS: number, bracket?: Bracket): Set<string> {
     const out = new Set<string>();
     const b = bracket ?? this.bracketAt(tGpsS, maxAgeS);
-    for (const e of [b.before, b.after]) {
-      const rs = e?.sats.get(sat);
-      if (rs) for (const c of rs.codes.keys()) out.add(c);
-    }
+    addCodesOf(b.before, sat, out);
+    addCodesOf(b.after, sat, out);
     if (out.size > 0) return out;
     for (const e of this.epochs) {
       if (Math.abs(e.timeGpsS - tGpsS) > maxAgeS) continue;

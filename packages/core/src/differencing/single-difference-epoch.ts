@@ -209,8 +209,9 @@ export class SingleDifferenceEpoch {
     const rows: LinearRow[] = [];
     const maskRad = this.ctx.maskRad;
     const offsets = this.ctx.offsets;
-    this.belowMask.clear();
-    this.belowMaskRef.clear();
+    // Clearing a set makes it a new table: only when it holds something.
+    if (this.belowMask.size > 0) this.belowMask.clear();
+    if (this.belowMaskRef.size > 0) this.belowMaskRef.clear();
     for (const p of this.usable) {
       if (excluded.has(p.sat)) continue;
       const dx = p.satPos.x - x.x, dy = p.satPos.y - x.y, dz = p.satPos.z - x.z;

@@ -73,8 +73,8 @@ export type CodeMatch = { readonly code: string } | { readonly code: null; reado
 
 /** The first code in the rover's priority order that the reference has too. */
 export function matchCode(roverCodes: readonly string[], referenceCodes: ReadonlySet<string> | readonly string[]): CodeMatch {
-  const has = (c: string) => (referenceCodes instanceof Set ? referenceCodes.has(c) : (referenceCodes as readonly string[]).includes(c));
-  for (const c of roverCodes) if (has(c)) return { code: c };
+  const isSet = referenceCodes instanceof Set;
+  for (const c of roverCodes) if (isSet ? referenceCodes.has(c) : (referenceCodes as readonly string[]).includes(c)) return { code: c };
   const ref = referenceCodes instanceof Set ? [...referenceCodes] : [...(referenceCodes as readonly string[])];
   return { code: null, reason: `no common code type (rover ${roverCodes.join('/') || 'none'}, reference ${ref.join('/') || 'none'})` };
 }
