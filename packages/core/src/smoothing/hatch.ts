@@ -76,7 +76,7 @@ const LLI_HALF_CYCLE_BIT = 2;
  * Working arrays of one epoch's satellites (CarrierSmoother.update, dopplerSlipFlags), kept from epoch to
  * epoch and grown when an epoch has more satellites: the filter runs every epoch of every receiver.
  */
-export class SmootherScratch {
+class SmootherScratch {
   capacity = 0;
   continuing = new Uint8Array(0);
   slip = new Uint8Array(0);

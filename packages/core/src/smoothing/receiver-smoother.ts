@@ -77,11 +77,6 @@ export class ReceiverSmoother {
   /** The inputs per code, in the order the codes first came in this epoch (inputsOf). */
   private readonly inputs: CodeInputs[] = [];
   private readonly inputsByCode = new Map<string, CodeInputs>();
-  /** The last update's smoothed values: sat -> code -> m. */
-  private readonly values = new Map<SatId, Map<string, number>>();
-  /** Per-satellite maps of values and of factors, cleared and handed out again each update. */
-  private readonly valueMaps = new Map<SatId, Map<string, number>>();
-  private readonly factorMaps = new Map<SatId, Map<string, number>>();
   /** The last arcValue: smoothed value (m) and its variance factor. */
   private readonly value = { m: NaN, factor: 1 };
 
@@ -128,24 +123,9 @@ export class ReceiverSmoother {
     }
   }
 
-  /** The per-satellite map of `owner` handed out again for this update, cleared (made at the satellite's first use). */
-  private static mapFor(owner: Map<SatId, Map<string, number>>, pool: Map<SatId, Map<string, number>>, sat: SatId): Map<string, number> {
-    let m = owner.get(sat);
-    if (!m) {
-      m = pool.get(sat);
-      if (m) m.clear(); else { m = new Map(); pool.set(sat, m); }
-      owner.set(sat, m);
-    }
-    return m;
-  }
-
-  /**
-   * Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value). The maps
-   * returned, like `factors`, are valid until the next update.
-   */
+  /** Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value). */
   update(epoch: ObsEpoch): Map<SatId, Map<string, number>> {
-    const out = this.values;
-    out.clear();
+    const out = new Map<SatId, Map<string, number>>();
     this.factors.clear();
     const t = epoch.tagGpsS;
     this.inputsOf(epoch);
@@ -160,8 +140,12 @@ export class ReceiverSmoother {
         if (r.restarted && r.n <= 1) this.restarts++;
         const value = this.arcValue(code, t, row, r.restarted, jumpM, r.smoothedM, r.n);
         if (!Number.isFinite(value.m)) continue;
-        ReceiverSmoother.mapFor(out, this.valueMaps, r.sat).set(code, value.m);
-        ReceiverSmoother.mapFor(this.factors, this.factorMaps, r.sat).set(code, value.factor);
+        let m = out.get(r.sat);
+        if (!m) { m = new Map(); out.set(r.sat, m); }
+        m.set(code, value.m);
+        let fm = this.factors.get(r.sat);
+        if (!fm) { fm = new Map(); this.factors.set(r.sat, fm); }
+        fm.set(code, value.factor);
       }
     }
     return out;
