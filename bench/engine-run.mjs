@@ -3,11 +3,14 @@
 //   node bench/engine-run.mjs memory <hours>       generation streamed into read + solve; peak memory sampled
 // The result is sent to the parent (process.send) or printed as one JSON line when run by hand.
 import v8 from 'node:v8';
+import { limitHeapGrowth } from '../packages/cli/bin/heap-growth.js';
 import { loadCore } from './load-core.mjs';
 import { asAsync, benchScenarioSpec, memoryChunks, scenarioTexts, SESSION_SYSTEMS } from './scenario.mjs';
 import { captureProblem, benchSolveStep } from './solve-step.mjs';
 import { median } from './stats.mjs';
 
+// The engine's heap as the refdelta command has it (old generation grown to 1.2 times its live part).
+limitHeapGrowth();
 const [mode = 'throughput', hoursArg = '1'] = process.argv.slice(2);
 const hours = Number(hoursArg);
 const core = await loadCore();
