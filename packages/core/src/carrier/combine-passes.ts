@@ -6,11 +6,12 @@
  *  - otherwise float: the two float solutions weighted by their covariances (the combination of a
  *    forward and a backward filter, Fraser & Potter 1969, shares only the epoch's own measurements);
  *  - one pass only: that pass's solution.
- * An epoch's residuals (PassResult.residualM) come from the pass whose solution it carries: forward when
+ * An epoch's residuals (EpochResult.residualM) come from the pass whose solution it carries: forward when
  * both fixed and agree; for a float combination, the float pass with the smaller formal variance (none
  * when both passes fixed and disagree: neither pass's residuals belong to the combined float position).
  */
-import { PassResult } from './float-filter.js';
+import type { EpochResult } from './float-filter.js';
+import type { PassResults } from './pass-results.js';
 
 function inv3(c: ArrayLike<number>, o: number): number[] | null {
   const a = c[o], b = c[o + 1], d = c[o + 2], e = c[o + 3], f = c[o + 4], g = c[o + 5];
@@ -26,54 +27,74 @@ function mulSym(m: number[], v: number[]): number[] {
   return [m[0] * v[0] + m[1] * v[1] + m[2] * v[2], m[1] * v[0] + m[3] * v[1] + m[4] * v[2], m[2] * v[0] + m[4] * v[1] + m[5] * v[2]];
 }
 
+/** A solution: position (3) and covariance (6) at offsets 3 i and 6 i of its arrays. */
+interface Solution {
+  readonly position: ArrayLike<number>;
+  readonly covariance: ArrayLike<number>;
+  readonly i: number;
+}
+
 /**
- * The combined passes, written into `out`: by default a new PassResult, or the forward float result fFloat
- * itself, which saves a day's worth of memory (at each epoch fFloat is read before it is written, and
- * what an epoch leaves unwritten there is what a new result holds: no solution, no fixed ambiguity).
+ * Combines the backward pass's result `b` at an epoch with the forward pass's, at index i of `r` (its
+ * columns as the forward pass wrote them), writing the combination there in place: kind, position,
+ * covariance, ratio, fixed ambiguities, satellites used, the backward kind and the epoch's residuals (its
+ * `entries` entries from `entry` in r.residualM: the forward pass's stay, or the backward pass's replace
+ * them, or none, NaN). Every forward value is read before it is overwritten.
  */
-export function combinePasses(f: PassResult, fFloat: PassResult, b: PassResult, bFloat: PassResult, agreementM: number, out: PassResult = new PassResult(f.kind.length)): PassResult {
-  const n = f.kind.length;
-  const copy = (src: PassResult, k: number, kind: number): void => {
-    out.kind[k] = kind;
-    for (let i = 0; i < 3; i++) out.position[3 * k + i] = src.position[3 * k + i];
-    for (let i = 0; i < 6; i++) out.covariance[6 * k + i] = src.covariance[6 * k + i];
+export function combineEpoch(r: PassResults, i: number, entry: number, entries: number, b: EpochResult, agreementM: number): void {
+  const from = combine(r, i, b, agreementM);
+  r.backwardKind[i] = b.kind;
+  if (from === 2) r.residualM.set(b.residualM.subarray(0, entries), entry);
+  else if (from === 0) r.residualM.fill(NaN, entry, entry + entries);
+}
+
+/** Returns whose residuals the epoch carries: 0 none, 1 forward, 2 backward. */
+function combine(r: PassResults, i: number, b: EpochResult, agreementM: number): 0 | 1 | 2 {
+  const kf = r.kind[i], kb = b.kind;
+  r.ratio[i] = Math.max(Number.isNaN(r.ratio[i]) ? 0 : r.ratio[i], Number.isNaN(b.ratio) ? 0 : b.ratio);
+  r.satellitesUsed[i] = Math.max(r.satellitesUsed[i], b.satellitesUsed);
+  if (kf === 0 && kb === 0) return 0;
+  const set = (kind: number, position: ArrayLike<number>, covariance: ArrayLike<number>, o3: number, o6: number): void => {
+    r.kind[i] = kind;
+    for (let a = 0; a < 3; a++) r.position[3 * i + a] = position[o3 + a];
+    for (let a = 0; a < 6; a++) r.covariance[6 * i + a] = covariance[o6 + a];
   };
-  for (let k = 0; k < n; k++) {
-    const kf = f.kind[k], kb = b.kind[k];
-    out.ratio[k] = Math.max(Number.isNaN(f.ratio[k]) ? 0 : f.ratio[k], Number.isNaN(b.ratio[k]) ? 0 : b.ratio[k]);
-    out.satellitesUsed[k] = Math.max(f.satellitesUsed[k], b.satellitesUsed[k]);
-    if (kf === 0 && kb === 0) continue;
-    if (kf === 0) { copy(b, k, kb); out.fixedAmbiguities[k] = b.fixedAmbiguities[k]; out.residualFrom[k] = 2; continue; }
-    if (kb === 0) { copy(f, k, kf); out.fixedAmbiguities[k] = f.fixedAmbiguities[k]; out.residualFrom[k] = 1; continue; }
-    const trace = (r: PassResult): number => r.covariance[6 * k] + r.covariance[6 * k + 3] + r.covariance[6 * k + 5];
-    out.residualFrom[k] = kf === 2 && kb === 2 ? 0 : kf === 2 ? 2 : kb === 2 ? 1 : trace(f) <= trace(b) ? 1 : 2;
-    const d = [0, 1, 2].map((i) => f.position[3 * k + i] - b.position[3 * k + i]);
-    if (kf === 2 && kb === 2 && Math.hypot(d[0], d[1], d[2]) <= agreementM) {
-      copy(f, k, 2);
-      out.fixedAmbiguities[k] = Math.max(f.fixedAmbiguities[k], b.fixedAmbiguities[k]);
-      out.residualFrom[k] = 1;
-      const m = weightedMean(f, b, k);
-      if (m) {
-        for (let i = 0; i < 3; i++) out.position[3 * k + i] = m.x[i];
-        for (let i = 0; i < 6; i++) out.covariance[6 * k + i] = m.c[i];
-      } else {
-        for (let i = 0; i < 3; i++) out.position[3 * k + i] = 0.5 * (f.position[3 * k + i] + b.position[3 * k + i]);
-      }
-      continue;
+  if (kf === 0) { set(kb, b.position, b.covariance, 0, 0); r.fixedAmbiguities[i] = b.fixedAmbiguities; return 2; }
+  // The forward result stays as it is.
+  if (kb === 0) return 1;
+  const f: Solution = { position: r.position, covariance: r.covariance, i };
+  const fFloat: Solution = { position: r.floatPosition, covariance: r.floatCovariance, i };
+  const bFixed: Solution = { position: b.position, covariance: b.covariance, i: 0 };
+  const bFloat: Solution = { position: b.floatPosition, covariance: b.floatCovariance, i: 0 };
+  const trace = (s: Solution): number => s.covariance[6 * s.i] + s.covariance[6 * s.i + 3] + s.covariance[6 * s.i + 5];
+  const from = kf === 2 && kb === 2 ? 0 : kf === 2 ? 2 : kb === 2 ? 1 : trace(f) <= trace(bFixed) ? 1 : 2;
+  const d = [0, 1, 2].map((a) => r.position[3 * i + a] - b.position[a]);
+  if (kf === 2 && kb === 2 && Math.hypot(d[0], d[1], d[2]) <= agreementM) {
+    // Kind and covariance (when the mean has none) stay the forward pass's.
+    r.fixedAmbiguities[i] = Math.max(r.fixedAmbiguities[i], b.fixedAmbiguities);
+    const m = weightedMean(f, bFixed);
+    if (m) {
+      for (let a = 0; a < 3; a++) r.position[3 * i + a] = m.x[a];
+      for (let a = 0; a < 6; a++) r.covariance[6 * i + a] = m.c[a];
+    } else {
+      for (let a = 0; a < 3; a++) r.position[3 * i + a] = 0.5 * (r.position[3 * i + a] + b.position[a]);
     }
-    if (kf !== kb) {
-      const [fx, fl] = kf === 2 ? [f, bFloat] : [b, fFloat];
-      const ok = [0, 1, 2].every((i) => Math.abs(fx.position[3 * k + i] - fl.position[3 * k + i]) <= 3 * Math.sqrt(fl.covariance[6 * k + [0, 3, 5][i]]) + agreementM);
-      if (ok) { copy(fx, k, 2); out.fixedAmbiguities[k] = fx.fixedAmbiguities[k]; out.residualFrom[k] = kf === 2 ? 1 : 2; continue; }
-    }
-    // Float: covariance-weighted mean of the two float solutions.
-    const m = weightedMean(fFloat, bFloat, k);
-    if (!m) { copy(fFloat, k, 1); continue; }
-    out.kind[k] = 1;
-    for (let i = 0; i < 3; i++) out.position[3 * k + i] = m.x[i];
-    for (let i = 0; i < 6; i++) out.covariance[6 * k + i] = m.c[i];
+    return 1;
   }
-  return out;
+  if (kf !== kb) {
+    const [fx, fl] = kf === 2 ? [f, bFloat] : [bFixed, fFloat];
+    const ok = [0, 1, 2].every((a) => Math.abs(fx.position[3 * fx.i + a] - fl.position[3 * fl.i + a]) <= 3 * Math.sqrt(fl.covariance[6 * fl.i + [0, 3, 5][a]]) + agreementM);
+    if (ok) {
+      if (kf !== 2) { set(2, b.position, b.covariance, 0, 0); r.fixedAmbiguities[i] = b.fixedAmbiguities; }
+      return kf === 2 ? 1 : 2;
+    }
+  }
+  // Float: covariance-weighted mean of the two float solutions (no fixed ambiguity).
+  r.fixedAmbiguities[i] = 0;
+  const m = weightedMean(fFloat, bFloat);
+  if (!m) { set(1, r.floatPosition, r.floatCovariance, 3 * i, 6 * i); return from; }
+  set(1, m.x, m.c, 0, 0);
+  return from;
 }
 
 /**
@@ -82,13 +103,13 @@ export function combinePasses(f: PassResult, fFloat: PassResult, b: PassResult, 
  * optimistic; the weights matter where one pass is far better than the other: at the first epochs of a
  * static occupation the forward pass has only those epochs while the backward pass has the whole of it.
  */
-function weightedMean(f: PassResult, b: PassResult, k: number): { x: number[]; c: number[] } | null {
-  const wf = inv3(f.covariance, 6 * k), wb = inv3(b.covariance, 6 * k);
+function weightedMean(f: Solution, b: Solution): { x: number[]; c: number[] } | null {
+  const wf = inv3(f.covariance, 6 * f.i), wb = inv3(b.covariance, 6 * b.i);
   if (!wf || !wb) return null;
   const c = inv3(wf.map((v, i) => v + wb[i]), 0);
   if (!c) return null;
-  const xf = [0, 1, 2].map((i) => f.position[3 * k + i]);
-  const xb = [0, 1, 2].map((i) => b.position[3 * k + i]);
+  const xf = [0, 1, 2].map((a) => f.position[3 * f.i + a]);
+  const xb = [0, 1, 2].map((a) => b.position[3 * b.i + a]);
   const s1 = mulSym(wf, xf), s2 = mulSym(wb, xb);
   return { x: mulSym(c, [s1[0] + s2[0], s1[1] + s2[1], s1[2] + s2[2]]), c };
 }

@@ -209,11 +209,10 @@ export class EpochRecords {
     return this.recorded >= 0 ? this.satTotal - this.recorded : this.current >= 0 ? this.chunkBase[this.current] : 0;
   }
 
-  /** Makes epoch k's chunk current: its satellites are then entries satStart[k].. of the per-satellite arrays. */
-  visit(k: number): void {
-    if (this.recorded >= 0) this.endRecording();
+  /** The chunk holding epoch k (once recording has ended: after the first visit). */
+  chunkOf(k: number): number {
     const c = this.current;
-    if (c >= 0 && k >= this.chunkFirstEpoch[c] && (c + 1 === this.chunkFirstEpoch.length || k < this.chunkFirstEpoch[c + 1])) return;
+    if (c >= 0 && k >= this.chunkFirstEpoch[c] && (c + 1 === this.chunkFirstEpoch.length || k < this.chunkFirstEpoch[c + 1])) return c;
     if (!(k >= 0 && k < this.count)) throw new RangeError(`EpochRecords: no epoch ${k} (${this.count} recorded)`);
     // The last chunk starting at or before k.
     let lo = 0, hi = this.chunkFirstEpoch.length - 1;
@@ -221,6 +220,21 @@ export class EpochRecords {
       const mid = (lo + hi + 1) >> 1;
       if (this.chunkFirstEpoch[mid] <= k) lo = mid; else hi = mid - 1;
     }
+    return lo;
+  }
+
+  /** Chunk c's first epoch, its number of epochs and of satellite entries (once recording has ended). */
+  chunkSpan(c: number): { readonly firstEpoch: number; readonly epochs: number; readonly entries: number } {
+    const firstEpoch = this.chunkFirstEpoch[c];
+    const end = c + 1 < this.chunkFirstEpoch.length ? this.chunkFirstEpoch[c + 1] : this.count;
+    return { firstEpoch, epochs: end - firstEpoch, entries: this.chunkEntries[c] };
+  }
+
+  /** Makes epoch k's chunk current: its satellites are then entries satStart[k].. of the per-satellite arrays. */
+  visit(k: number): void {
+    if (this.recorded >= 0) this.endRecording();
+    const lo = this.chunkOf(k);
+    if (lo === this.current) return;
     // Copied out of the store: what get returns is valid only until its next get (by anyone).
     const src = this.store.get(this.chunkBlock[lo]);
     if (this.loaded.length < src.length) this.loaded = new Uint8Array(src.length);

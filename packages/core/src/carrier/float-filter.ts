@@ -59,34 +59,39 @@ export interface SatelliteInfo {
   readonly ionoFactor: number;
 }
 
-/** Per-epoch results of one pass, in typed arrays indexed like the records. */
-export class PassResult {
+/**
+ * One epoch's result of a pass, handed to the pass's consumer as the epoch ends (the same object is
+ * refilled for the next epoch: a consumer keeps what it needs, so a pass holds no session-long arrays).
+ */
+export class EpochResult {
   /** 0 no solution, 1 float, 2 fixed. */
-  readonly kind: Uint8Array;
-  readonly position: Float64Array;
+  kind = 0;
+  /** Ratio test statistic of the epoch's integer search (NaN when none ran). */
+  ratio = NaN;
+  fixedAmbiguities = 0;
+  satellitesUsed = 0;
+  /** The epoch's solution: fixed when kind is 2, else float. */
+  readonly position = new Float64Array(3);
   /** Position covariance xx, xy, xz, yy, yz, zz (m^2). */
-  readonly covariance: Float64Array;
-  readonly ratio: Float32Array;
-  readonly fixedAmbiguities: Uint16Array;
-  readonly satellitesUsed: Uint16Array;
+  readonly covariance = new Float64Array(6);
+  /** The float solution (before any fix), when kind > 0. */
+  readonly floatPosition = new Float64Array(3);
+  readonly floatCovariance = new Float64Array(6);
   /**
-   * Post-fit residual (m) of each record entry (indexed like the records' satellites): of the phase single
-   * difference when its phase was used, else of the code; at the epoch's solution (fixed: position, clocks and
-   * ambiguities conditioned on the fixed integers before they are held; float: the filter's state after the
-   * epoch's updates). NaN below the elevation mask or without a solution. Empty unless asked for.
+   * Post-fit residual (m) of each of the epoch's record entries (index i for entry satStart[k] + i): of the
+   * phase single difference when its phase was used, else of the code; at the epoch's solution (fixed:
+   * position, clocks and ambiguities conditioned on the fixed integers before they are held; float: the
+   * filter's state after the epoch's updates). NaN below the elevation mask or without a solution.
+   * Single precision, as kept for the outputs.
    */
-  readonly residualM: Float32Array;
-  /** Combined passes: whose residuals an epoch carries (0 none, 1 forward, 2 backward; combine-passes.ts). */
-  readonly residualFrom: Uint8Array;
-  constructor(n: number, entries = 0) {
-    this.residualM = new Float32Array(entries).fill(NaN);
-    this.residualFrom = new Uint8Array(entries > 0 ? 0 : n);
-    this.kind = new Uint8Array(n);
-    this.position = new Float64Array(3 * n).fill(NaN);
-    this.covariance = new Float64Array(6 * n).fill(NaN);
-    this.ratio = new Float32Array(n).fill(NaN);
-    this.fixedAmbiguities = new Uint16Array(n);
-    this.satellitesUsed = new Uint16Array(n);
+  residualM = new Float32Array(64);
+
+  /** Clears the result for an epoch of `entries` record entries. */
+  start(entries: number): void {
+    this.kind = 0; this.ratio = NaN; this.fixedAmbiguities = 0; this.satellitesUsed = 0;
+    this.position.fill(NaN); this.covariance.fill(NaN); this.floatPosition.fill(NaN); this.floatCovariance.fill(NaN);
+    if (this.residualM.length < entries) this.residualM = new Float32Array(2 * entries);
+    this.residualM.fill(NaN, 0, entries);
   }
 }
 
@@ -344,21 +349,25 @@ function pairKey(arcI: number, arcP: number): number {
   return arcI * 67_108_864 + arcP;
 }
 
-/** One pass's results. */
-export interface PassOutput {
-  readonly result: PassResult;
-  readonly float: PassResult;
-  readonly counts: PassCounts;
+/** A pass of runPasses: its direction, its fixes' listener, and the consumer of its epochs' results. */
+export interface PassSpec {
+  readonly direction: 1 | -1;
+  readonly onFix?: FixListener;
+  /**
+   * Given each epoch's result as the epoch ends (the same object refilled for the next epoch: valid during
+   * the call), with the epoch's records current (EpochRecords.visit).
+   */
+  readonly onEpoch: (k: number, result: EpochResult) => void;
 }
 
 /**
  * Runs the filter over the records once per pass given, forwards (direction 1) or backwards (-1), each from
- * a fresh state, in order, each telling its fixes to its onFix when given. The
+ * a fresh state, in order, each handing its epochs' results to its onEpoch and its fixes to its onFix. The
  * passes share their functions: the second starts with the code the first had the engine optimise, where
  * functions made anew for it would have to be optimised again (and calls between them sent the shared
  * optimised code back at every epoch).
  */
-export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly { direction: 1 | -1; onFix?: FixListener }[]): PassOutput[] {
+export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly PassSpec[]): PassCounts[] {
   // The setup's fields read once: the objects handed in differ in shape from call to call (spread), and
   // reading them in the epoch loop made the optimised code start over at every new shape.
   const opt = setup.options;
@@ -366,6 +375,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
   const maskRad = setup.elevationMaskRad;
   const fixableSystems = setup.fixableSystems;
   let onFix: FixListener | undefined;
+  let onEpoch: (k: number, result: EpochResult) => void = () => {};
   // One code clock per group (SatelliteInfo.group: a constellation, or a constellation's further band).
   const systems = [...new Set(sats.map((s) => s.group))];
   const groupSystem = new Map<string, GnssSystem>(sats.map((s) => [s.group, s.system]));
@@ -386,8 +396,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
   let st = new KalmanState(3 + systems.length + cdma.length);
   const arcSlot = new Map<number, number>();
   const arcSeen = new Map<number, number>();
-  let out = new PassResult(0);
-  let flt = new PassResult(0);
+  const out = new EpochResult();
   const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
   const pivots = new Map<string, number>();
   const holdCount = new Map<number, { value: number; count: number }>();
@@ -435,21 +444,20 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     for (const [key, s] of ionoSlot) if (s > slot) ionoSlot.set(key, s - 1);
   };
 
-  const outputs: PassOutput[] = [];
+  const outputs: PassCounts[] = [];
   for (const pass of passes) {
     st = new KalmanState(3 + systems.length + cdma.length);
     arcSlot.clear(); arcSeen.clear(); pivots.clear(); holdCount.clear();
     ionoSlot.clear(); ionoSeen.clear(); ionoNow.fill(-1);
-    out = new PassResult(rec.count, rec.satTotal);
-    flt = new PassResult(rec.count);
     unflaggedSlips = 0; codeOutliers = 0; disturbedEpochs = 0;
     arcsBefore = new Set<number>(); arcsNow = new Set<number>();
     prev = -1;
     onFix = pass.onFix;
+    onEpoch = pass.onEpoch;
     // The epoch's work in a function of its own: called once per epoch, it is optimised like any function
     // (the epoch loop alone would wait for on-stack replacement, and start over at each deoptimisation).
     for (let n = 0; n < rec.count; n++) epochStep(pass.direction === 1 ? n : rec.count - 1 - n);
-    outputs.push({ result: out, float: flt, counts: { unflaggedSlips, codeOutliers, disturbedEpochs } });
+    outputs.push({ unflaggedSlips, codeOutliers, disturbedEpochs });
   }
   return outputs;
 
@@ -487,6 +495,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
       if (Math.abs(t - seen) > DROP_AFTER_S) { const slot = arcSlot.get(arc)!; arcSlot.delete(arc); arcSeen.delete(arc); release(slot); }
     }
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+    out.start(j1 - j0);
     if (iono) {
       // Random walk since the previous epoch; states not met for a while dropped; new ones at their prior.
       const dtS = prev < 0 ? 0 : Math.abs(t - rec.timeGpsS[prev]);
@@ -598,26 +607,24 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     arcsNow = spare;
     const disturbed = turned || (nisDof > 0 && nis > chiSquareQuantile(0.999, nisDof));
     if (disturbed) disturbedEpochs++;
-    const ko = 3 * k, kc = 6 * k;
-    out.satellitesUsed[k] = used;
-    if (used < 4 + usedSys.size) { prev = k; return; }
+    out.satellitesUsed = used;
+    if (used < 4 + usedSys.size) { prev = k; onEpoch(k, out); return; }
     // Float solution.
     const c = st.cap;
-    out.kind[k] = 1;
-    out.position[ko] = st.x[0]; out.position[ko + 1] = st.x[1]; out.position[ko + 2] = st.x[2];
-    out.covariance[kc] = st.p[0]; out.covariance[kc + 1] = st.p[1]; out.covariance[kc + 2] = st.p[2];
-    out.covariance[kc + 3] = st.p[c + 1]; out.covariance[kc + 4] = st.p[c + 2]; out.covariance[kc + 5] = st.p[2 * c + 2];
-    flt.kind[k] = 1;
-    flt.position.set(out.position.subarray(ko, ko + 3), ko);
-    flt.covariance.set(out.covariance.subarray(kc, kc + 6), kc);
-    flt.satellitesUsed[k] = used;
+    out.kind = 1;
+    out.position[0] = st.x[0]; out.position[1] = st.x[1]; out.position[2] = st.x[2];
+    out.covariance[0] = st.p[0]; out.covariance[1] = st.p[1]; out.covariance[2] = st.p[2];
+    out.covariance[3] = st.p[c + 1]; out.covariance[4] = st.p[c + 2]; out.covariance[5] = st.p[2 * c + 2];
+    out.floatPosition.set(out.position);
+    out.floatCovariance.set(out.covariance);
     if (!disturbed) fixEpoch(k);
     // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
-    writeResiduals(k, out.kind[k] === 2 ? conditioned : st.x);
+    writeResiduals(k, out.kind === 2 ? conditioned : st.x);
     prev = k;
+    onEpoch(k, out);
   }
 
-  /** Post-fit residuals of an epoch's entries at the state given by X (PassResult.residualM). */
+  /** Post-fit residuals of an epoch's entries at the state given by X (EpochResult.residualM). */
   function writeResiduals(k: number, xs: Float64Array): void {
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
     const px = xs[0] - rec.x0[3 * k], py = xs[1] - rec.x0[3 * k + 1], pz = xs[2] - rec.x0[3 * k + 2];
@@ -628,9 +635,9 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
       const slot = arcSlot.get(rec.arc[j]);
       const ionoM = ionoTerm(j, xs);
       if (Number.isFinite(rec.phaseM[j]) && slot !== undefined) {
-        out.residualM[rec.satBase + j] = rec.phaseM[j] - (geoNow - ionoM + xs[phaseClockOfEntry[rec.sat[j]]] + info.wavelengthM * xs[slot]);
+        out.residualM[j - j0] = rec.phaseM[j] - (geoNow - ionoM + xs[phaseClockOfEntry[rec.sat[j]]] + info.wavelengthM * xs[slot]);
       } else if (Number.isFinite(rec.codeM[j])) {
-        out.residualM[rec.satBase + j] = rec.codeM[j] - (geoNow + ionoM + xs[clockOfEntry[rec.sat[j]]]);
+        out.residualM[j - j0] = rec.codeM[j] - (geoNow + ionoM + xs[clockOfEntry[rec.sat[j]]]);
       }
     }
   }
@@ -676,7 +683,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     }
     const order = dd.map((_, u) => u).sort((u, w) => dd[u].el - dd[w].el);
     const fix = fixAroundHeld(a, q, m, order, fixOptions) ?? fixPartially(a, q, m, order, fixOptions);
-    out.ratio[k] = fix.ratio;
+    out.ratio = fix.ratio;
     if (!('integers' in fix)) return;
     const sub = fix.indices;
     const ns = sub.length;
@@ -690,21 +697,20 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) fixRhs[r][u] = qxa[r][u];
     const rhs = [d, fixRhs[0], fixRhs[1], fixRhs[2]];
     if (!choleskySolve(qs, ns, rhs)) return;
-    const ko = 3 * k, kc = 6 * k;
     for (let r = 0; r < 3; r++) {
       let s = 0;
       for (let u = 0; u < ns; u++) s += qxa[r][u] * rhs[0][u];
-      out.position[ko + r] = x[r] - s;
+      out.position[r] = x[r] - s;
     }
     const cov = (r: number, s: number): number => {
       let t = 0;
       for (let u = 0; u < ns; u++) t += qxa[r][u] * rhs[1 + s][u];
       return st.cov(r, s) - t;
     };
-    out.covariance[kc] = cov(0, 0); out.covariance[kc + 1] = cov(0, 1); out.covariance[kc + 2] = cov(0, 2);
-    out.covariance[kc + 3] = cov(1, 1); out.covariance[kc + 4] = cov(1, 2); out.covariance[kc + 5] = cov(2, 2);
-    out.kind[k] = 2;
-    out.fixedAmbiguities[k] = ns;
+    out.covariance[0] = cov(0, 0); out.covariance[1] = cov(0, 1); out.covariance[2] = cov(0, 2);
+    out.covariance[3] = cov(1, 1); out.covariance[4] = cov(1, 2); out.covariance[5] = cov(2, 2);
+    out.kind = 2;
+    out.fixedAmbiguities = ns;
     onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
     // Residuals at the fixed solution (written by the caller): every state conditioned on the fixed integers,
     // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).

@@ -8,7 +8,8 @@
  *    compact typed arrays (epoch-records.ts).
  * 2. The Kalman filter runs over them forwards, then backwards (float-filter.ts), each pass fixing
  *    ambiguities with LAMBDA and holding them within arcs.
- * 3. The passes are combined per epoch (combine-passes.ts); every rover epoch is yielded with its kind
+ * 3. The backward pass is combined with the forward one epoch by epoch as it runs (combine-passes.ts;
+ *    the results wait in the records' store chunk by chunk, pass-results.ts); every rover epoch is yielded with its kind
  *    ('fixed', 'float' or 'none'), ratio, number of fixed ambiguities and formal precision.
  *
  * Frequencies: the primary band of each constellation, and (option `frequencies`, default all) the further
@@ -45,9 +46,10 @@ import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '.
 import { ArcTracker, type ArcInput } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
 import { ReferencePhaseBuffer, reduceReferenceEpoch, type BandArcs } from './reference-phase.js';
-import { EpochRecords, type RecordStore } from './epoch-records.js';
-import { codeVarianceScale, runPasses, singleDifferenceVarianceM2, type FixedDoubleDifference, type PassResult, type SatelliteInfo } from './float-filter.js';
-import { combinePasses } from './combine-passes.js';
+import { EpochRecords, MemoryRecordStore, type RecordStore } from './epoch-records.js';
+import { codeVarianceScale, runPasses, singleDifferenceVarianceM2, type FixedDoubleDifference, type SatelliteInfo } from './float-filter.js';
+import { combineEpoch } from './combine-passes.js';
+import { PassResults } from './pass-results.js';
 import type { CarrierOptions } from './options.js';
 import { antennaCorrectionM, findAntenna, type AntexData } from './antex.js';
 import { codeFixPosition } from './code-fix.js';
@@ -287,7 +289,8 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   }
 
   // Reading: one pass over the rover, building the records.
-  const rec = new EpochRecords(inputs.recordStore);
+  const recordStore = inputs.recordStore ?? new MemoryRecordStore();
+  const rec = new EpochRecords(recordStore);
   const contexts: EpochContext[] = [];
   const reasons: string[] = [];
   let roverAntenna: AntennaOffset = options.roverAntenna ?? rover.header.antennaOffset;
@@ -519,28 +522,39 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier, ionosphere };
   const sink = inputs.onFixedAmbiguities;
   const onFix = (pass: 'forward' | 'backward') => sink ? (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[k], ambiguities }) : undefined;
-  const [fwd, bwd] = runPasses(rec, setup, [{ direction: 1, onFix: onFix('forward') }, { direction: -1, onFix: onFix('backward') }]);
-  // Combined into the forward float result's arrays; of the passes only their kinds are kept for the
-  // outputs (a day at 1 Hz holds about 7 MB per pass result).
-  const combined = combinePasses(fwd.result, fwd.float, bwd.result, bwd.float, carrier.passAgreementM, fwd.float);
-  const forwardKinds = fwd.result.kind, backwardKinds = bwd.result.kind;
-  // Per entry of the session (EpochRecords.satBase + j).
-  const forwardResiduals = fwd.result.residualM, backwardResiduals = bwd.result.residualM;
-  const codeScale = codeVarianceScale(rec, carrier);
-  const shares = (kinds: Uint8Array): PassShares => {
-    let fixed = 0, float = 0, none = 0;
-    for (const k of kinds) { if (k === 2) fixed++; else if (k === 1) float++; else none++; }
-    return { fixed, float, none };
+  // The forward pass's results wait in the record store, chunk by chunk; the backward pass combines each
+  // epoch with them as it goes (pass-results.ts): no pass holds a whole session's results.
+  const results = new PassResults(rec, recordStore);
+  const forwardShares = { fixed: 0, float: 0, none: 0 }, backwardShares = { fixed: 0, float: 0, none: 0 }, combinedShares = { fixed: 0, float: 0, none: 0 };
+  const count = (shares: { fixed: number; float: number; none: number }, kind: number): void => {
+    if (kind === 2) shares.fixed++; else if (kind === 1) shares.float++; else shares.none++;
   };
-  const forwardShares = shares(forwardKinds), backwardShares = shares(backwardKinds), combinedShares = shares(combined.kind);
-  notes.push(`filter: ${fwd.counts.unflaggedSlips + bwd.counts.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.counts.codeOutliers + bwd.counts.codeOutliers} code outliers left out, ${fwd.counts.disturbedEpochs + bwd.counts.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
+  // Antenna-to-antenna distances of the solved epochs (their median goes into the summary).
+  const lengths = new Float64Array(rec.count);
+  let solvedCount = 0;
+  const [fwd, bwd] = runPasses(rec, setup, [
+    { direction: 1, onFix: onFix('forward'), onEpoch: (k, r) => { count(forwardShares, r.kind); results.putForward(k, r); } },
+    {
+      direction: -1, onFix: onFix('backward'), onEpoch: (k, r) => {
+        count(backwardShares, r.kind);
+        const i = results.at(k, 'combine');
+        combineEpoch(results, i, rec.satStart[k], rec.satCount[k], r, carrier.passAgreementM);
+        count(combinedShares, results.kind[i]);
+        if (results.kind[i] !== 0) lengths[solvedCount++] = Math.hypot(results.position[3 * i] - refArp.x, results.position[3 * i + 1] - refArp.y, results.position[3 * i + 2] - refArp.z);
+      },
+    },
+  ]);
+  results.finish();
+  const codeScale = codeVarianceScale(rec, carrier);
+  notes.push(`filter: ${fwd.unflaggedSlips + bwd.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
 
   const gRef = ecefToGeodetic(refMark);
   const broadcastFrame = frame;
   function solutionAt(k: number): CarrierEpochSolution {
     rec.visit(k);
+    const i = results.at(k, 'read');
     const c = contexts[rec.context[k]] ?? { pointName, event: null, antenna: roverAntenna };
-    const kind = KIND[combined.kind[k]];
+    const kind = KIND[results.kind[i]];
     const pointReference = options.reduceToMark ? 'ground-mark' as const : 'antenna-reference-point' as const;
     const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
     const sats = [];
@@ -561,8 +575,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       // it was used (signal: its phase code), else of the code (signal: the pseudorange code).
       const info = satellites[rec.sat[j]];
       const withPhase = Number.isFinite(rec.phaseM[j]);
-      const from = combined.residualFrom[k];
-      const residualM = from === 1 ? forwardResiduals[rec.satBase + j] : from === 2 ? backwardResiduals[rec.satBase + j] : NaN;
+      const residualM = results.residualM[j];
       const variance = withPhase ? singleDifferenceVarianceM2(carrier.phaseAM, carrier.phaseBM, rec.elevationRad[j]) : codeScale * singleDifferenceVarianceM2(carrier.codeAM, carrier.codeBM, rec.elevationRad[j]);
       sats.push({
         sat: info.id, signal: withPhase ? info.phaseCode : info.code, elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: az,
@@ -573,24 +586,24 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     // One object literal per epoch, no spread of a shared part: V8 copies a spread object through a slow
     // path that allocates in the old generation, which made the heap of a long session grow several-fold.
     const solved = kind !== 'none';
-    const arp = { x: combined.position[3 * k], y: combined.position[3 * k + 1], z: combined.position[3 * k + 2] };
+    const arp = { x: results.position[3 * i], y: results.position[3 * i + 1], z: results.position[3 * i + 2] };
     const pos = solved && options.reduceToMark ? arpToMark(arp, c.antenna) : arp;
     const refPoint = options.reduceToMark ? refMark : refArp;
     const baselineEcef = solved ? { x: pos.x - refPoint.x, y: pos.y - refPoint.y, z: pos.z - refPoint.z } : null;
-    const cv = combined.covariance.subarray(6 * k, 6 * k + 6);
+    const cv = results.covariance.subarray(6 * i, 6 * i + 6);
     const g = solved ? ecefToGeodetic(pos) : null;
     return {
       tagGpsS: rec.tagGpsS[k], timeGpsS: rec.timeGpsS[k], pointName: c.pointName, pointReference,
       relativeClockM: {}, dops: dilutionOfPrecision({ lineOfSight: used, frame: 'ecef', receiver: gRef, clockIndex }), quality: null, correctionAgeS: rec.referenceAgeS[k], satellites: sats,
       speedMS: Number.isFinite(rec.velocity[4 * k]) ? Math.hypot(rec.velocity[4 * k], rec.velocity[4 * k + 1], rec.velocity[4 * k + 2]) : NaN,
       occupationEvent: c.event, antennaHeightM: c.antenna.heightM,
-      forwardKind: KIND[forwardKinds[k]], backwardKind: KIND[backwardKinds[k]],
-      ratio: combined.ratio[k] > 0 ? combined.ratio[k] : NaN, fixedAmbiguities: combined.fixedAmbiguities[k],
+      forwardKind: KIND[results.forwardKind[i]], backwardKind: KIND[results.backwardKind[i]],
+      ratio: results.ratio[i] > 0 ? results.ratio[i] : NaN, fixedAmbiguities: results.fixedAmbiguities[i],
       kind,
-      reason: !solved ? reasons[k] || 'too few satellites for a solution' : kind === 'float' && forwardKinds[k] === 2 && backwardKinds[k] === 2 ? 'forward and backward fixes disagree' : '',
+      reason: !solved ? reasons[k] || 'too few satellites for a solution' : kind === 'float' && results.forwardKind[i] === 2 && results.backwardKind[i] === 2 ? 'forward and backward fixes disagree' : '',
       position: solved ? { ecef: pos, frame: broadcastFrame } : null, geodetic: g,
       baselineEcef, baselineEnu: baselineEcef ? ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad) : null,
-      satellitesUsed: solved ? combined.satellitesUsed[k] : 0, sigmaEnuM: g ? enuSigma(cv, g.latRad, g.lonRad) : null, sigma3dM: solved ? Math.sqrt(cv[0] + cv[3] + cv[5]) : NaN,
+      satellitesUsed: solved ? results.satellitesUsed[i] : 0, sigmaEnuM: g ? enuSigma(cv, g.latRad, g.lonRad) : null, sigma3dM: solved ? Math.sqrt(cv[0] + cv[3] + cv[5]) : NaN,
     };
   }
 
@@ -598,18 +611,14 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     try {
       for (let k = 0; k < rec.count; k++) yield solutionAt(k);
     } finally {
+      results.release();
       rec.close();
     }
   }
 
   const recordBytes = rec.count * 80 + rec.satTotal * 40;
-  const lengths: number[] = [];
-  for (let k = 0; k < rec.count; k++) {
-    if (combined.kind[k] === 0) continue;
-    lengths.push(Math.hypot(combined.position[3 * k] - refArp.x, combined.position[3 * k + 1] - refArp.y, combined.position[3 * k + 2] - refArp.z));
-  }
-  lengths.sort((a, b) => a - b);
-  const baselineLengthM = lengths.length ? lengths[lengths.length >> 1] : NaN;
+  const solvedLengths = lengths.subarray(0, solvedCount).sort();
+  const baselineLengthM = solvedCount ? solvedLengths[solvedCount >> 1] : NaN;
   return {
     epochs: run(),
     summary: (): CarrierSummary => ({
