@@ -311,8 +311,7 @@ export function codeVarianceScale(rec: EpochRecords, opt: CarrierOptions): numbe
 
 /** Median spacing of the epochs (s): the logging interval. */
 function nominalIntervalS(rec: EpochRecords): number {
-  const d: number[] = [];
-  for (let k = 1; k < rec.count && d.length < 2000; k++) { const x = rec.timeGpsS[k] - rec.timeGpsS[k - 1]; if (x > 0) d.push(x); }
+  const d = rec.firstIntervalsS;
   return d.length ? median(d) : 1;
 }
 
@@ -406,7 +405,13 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
   const usedSys = new Set<GnssSystem>();
   let unflaggedSlips = 0, codeOutliers = 0, disturbedEpochs = 0;
   let arcsBefore = new Set<number>();
-  let prev = -1;
+  /** The previous epoch's index (-1 before the first), time, static flag and velocity (its chunk may be gone). */
+  let prev = -1, prevTimeS = NaN, prevStatic = 0;
+  const prevVelocity = new Float64Array(4);
+  const remember = (k: number, e: number): void => {
+    prev = k; prevTimeS = rec.timeGpsS[e]; prevStatic = rec.isStatic[e];
+    for (let i = 0; i < 4; i++) prevVelocity[i] = rec.velocity[4 * e + i];
+  };
   // The sparse row of a measurement: slots and coefficients (position, clock, ambiguity, ionosphere).
   const idx = new Int32Array(6);
   const val = new Float64Array(6);
@@ -451,7 +456,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     ionoSlot.clear(); ionoSeen.clear(); ionoNow.fill(-1);
     unflaggedSlips = 0; codeOutliers = 0; disturbedEpochs = 0;
     arcsBefore = new Set<number>(); arcsNow = new Set<number>();
-    prev = -1;
+    prev = -1; prevTimeS = NaN; prevStatic = 0; prevVelocity.fill(NaN);
     onFix = pass.onFix;
     onEpoch = pass.onEpoch;
     // The epoch's work in a function of its own: called once per epoch, it is optimised like any function
@@ -463,30 +468,30 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
 
   /** One epoch of the pass: prediction, clocks, code and phase updates, the epoch's test, float and fixed solutions. */
   function epochStep(k: number): void {
-    rec.visit(k);
-    const t = rec.timeGpsS[k];
-    const x0x = rec.x0[3 * k], x0y = rec.x0[3 * k + 1], x0z = rec.x0[3 * k + 2];
+    const e = rec.visit(k);
+    const t = rec.timeGpsS[e];
+    const x0x = rec.x0[3 * e], x0y = rec.x0[3 * e + 1], x0z = rec.x0[3 * e + 2];
     // Position prediction.
     if (prev < 0) {
-      for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * k + i], INITIAL_POSITION_VAR_M2);
+      for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
     } else {
-      const dt = t - rec.timeGpsS[prev];
-      const staticPair = rec.isStatic[k] === 1 && rec.isStatic[prev] === 1;
+      const dt = t - prevTimeS;
+      const staticPair = rec.isStatic[e] === 1 && prevStatic === 1;
       if (!staticPair) {
-        const v0 = 4 * prev, v1 = 4 * k;
-        if (Number.isFinite(rec.velocity[v0]) && Number.isFinite(rec.velocity[v1]) && Math.abs(dt) <= 5) {
-          const sig = Math.max(rec.velocity[v0 + 3], rec.velocity[v1 + 3]);
+        const v0 = prevVelocity, v1 = 4 * e;
+        if (Number.isFinite(v0[0]) && Number.isFinite(rec.velocity[v1]) && Math.abs(dt) <= 5) {
+          const sig = Math.max(v0[3], rec.velocity[v1 + 3]);
           const q = ((Number.isFinite(sig) ? sig : 0.1) + 0.05) ** 2 * dt * dt;
           for (let i = 0; i < 3; i++) {
             // The mean of the two velocities times the interval (trapezoid rule) misses the displacement by up
             // to half the velocity change times the interval when the change is not uniform in the interval
             // (an antenna that starts or stops within it): that bound is added to the process noise per axis.
-            const dv = 0.5 * (rec.velocity[v1 + i] - rec.velocity[v0 + i]) * dt;
-            st.x[i] += 0.5 * (rec.velocity[v0 + i] + rec.velocity[v1 + i]) * dt;
+            const dv = 0.5 * (rec.velocity[v1 + i] - v0[i]) * dt;
+            st.x[i] += 0.5 * (v0[i] + rec.velocity[v1 + i]) * dt;
             st.p[i * st.cap + i] += q + dv * dv;
           }
         } else {
-          for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * k + i], INITIAL_POSITION_VAR_M2);
+          for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
         }
       }
     }
@@ -494,11 +499,11 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     for (const [arc, seen] of arcSeen) {
       if (Math.abs(t - seen) > DROP_AFTER_S) { const slot = arcSlot.get(arc)!; arcSlot.delete(arc); arcSeen.delete(arc); release(slot); }
     }
-    const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
     out.start(j1 - j0);
     if (iono) {
       // Random walk since the previous epoch; states not met for a while dropped; new ones at their prior.
-      const dtS = prev < 0 ? 0 : Math.abs(t - rec.timeGpsS[prev]);
+      const dtS = prev < 0 ? 0 : Math.abs(t - prevTimeS);
       for (const [sat, slot] of ionoSlot) {
         if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { ionoSlot.delete(sat); ionoSeen.delete(sat); release(slot); continue; }
         st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
@@ -608,7 +613,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     const disturbed = turned || (nisDof > 0 && nis > chiSquareQuantile(0.999, nisDof));
     if (disturbed) disturbedEpochs++;
     out.satellitesUsed = used;
-    if (used < 4 + usedSys.size) { prev = k; onEpoch(k, out); return; }
+    if (used < 4 + usedSys.size) { remember(k, e); onEpoch(k, out); return; }
     // Float solution.
     const c = st.cap;
     out.kind = 1;
@@ -617,17 +622,17 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     out.covariance[3] = st.p[c + 1]; out.covariance[4] = st.p[c + 2]; out.covariance[5] = st.p[2 * c + 2];
     out.floatPosition.set(out.position);
     out.floatCovariance.set(out.covariance);
-    if (!disturbed) fixEpoch(k);
+    if (!disturbed) fixEpoch(k, e);
     // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
-    writeResiduals(k, out.kind === 2 ? conditioned : st.x);
-    prev = k;
+    writeResiduals(e, out.kind === 2 ? conditioned : st.x);
+    remember(k, e);
     onEpoch(k, out);
   }
 
   /** Post-fit residuals of an epoch's entries at the state given by X (EpochResult.residualM). */
-  function writeResiduals(k: number, xs: Float64Array): void {
-    const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
-    const px = xs[0] - rec.x0[3 * k], py = xs[1] - rec.x0[3 * k + 1], pz = xs[2] - rec.x0[3 * k + 2];
+  function writeResiduals(e: number, xs: Float64Array): void {
+    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
+    const px = xs[0] - rec.x0[3 * e], py = xs[1] - rec.x0[3 * e + 1], pz = xs[2] - rec.x0[3 * e + 2];
     for (let j = j0; j < j1; j++) {
       if (rec.elevationRad[j] < maskRad) continue;
       const info = sats[rec.sat[j]];
@@ -643,8 +648,8 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
   }
 
   /** Double differences of the epoch's fixable arcs, LAMBDA with partial fixing, conditioning and hold. */
-  function fixEpoch(k: number): void {
-    const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+  function fixEpoch(k: number, e: number): void {
+    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
     const bySys = new Map<string, { slot: number; arc: number; el: number; sat: number }[]>();
     for (let j = j0; j < j1; j++) {
       const info = sats[rec.sat[j]];

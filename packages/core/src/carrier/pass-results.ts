@@ -10,7 +10,7 @@
  *
  * Columns of a chunk of n epochs and m satellite entries: position, covariance (xx, xy, xz, yy, yz, zz),
  * floatPosition, floatCovariance (f64); ratio, residualM (f32, per entry, indexed like the records'
- * per-satellite arrays: EpochRecords.satStart[k] + i); fixedAmbiguities, satellitesUsed (u16); kind,
+ * per-satellite arrays: EpochRecords.satStart[e] + i); fixedAmbiguities, satellitesUsed (u16); kind,
  * forwardKind, backwardKind (u8: 0 none, 1 float, 2 fixed). 155 n + 4 m bytes.
  */
 import type { EpochRecords, RecordStore } from './epoch-records.js';
@@ -49,7 +49,8 @@ export class PassResults {
 
   /**
    * Makes epoch k's chunk current for a stage (the records of epoch k current already, EpochRecords.visit);
-   * returns k's index in the per-epoch columns. The residuals of epoch k are residualM[rec.satStart[k] + i].
+   * returns k's index in the per-epoch columns. The residuals of epoch k are residualM[rec.satStart[e] + i],
+   * e = rec.indexOf(k).
    */
   at(k: number, stage: Stage): number {
     const c = this.rec.chunkOf(k);
@@ -87,7 +88,8 @@ export class PassResults {
     this.ratio[i] = r.ratio;
     this.fixedAmbiguities[i] = r.fixedAmbiguities;
     this.satellitesUsed[i] = r.satellitesUsed;
-    this.residualM.set(r.residualM.subarray(0, this.rec.satCount[k]), this.rec.satStart[k]);
+    const e = this.rec.indexOf(k);
+    this.residualM.set(r.residualM.subarray(0, this.rec.satCount[e]), this.rec.satStart[e]);
   }
 
   /** Stores the current chunk's columns if a pass wrote them. */

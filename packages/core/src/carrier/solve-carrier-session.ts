@@ -349,7 +349,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     const isStatic = carrier.dynamics === 'static' || (carrier.dynamics === 'auto' && occupied);
     reasons.push(await prepareRoverEpoch(e, isStatic, context));
   }
-  if (carrier.dynamics === 'auto' && firstEvent === 'start-moving') rec.isStatic.fill(1, 0, firstMovingRecord);
+  if (carrier.dynamics === 'auto' && firstEvent === 'start-moving') rec.staticBefore(firstMovingRecord);
   if (rec.count > 0 && epochsWithReference === 0) {
     const files = (xs: readonly { file: string }[]) => xs.map((x) => x.file).join(', ');
     if (roverSeen.positioned === 0) {
@@ -470,7 +470,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
         rec.setVelocity(k, v.velocityEcefMS.x, v.velocityEcefMS.y, v.velocityEcefMS.z, Number.isFinite(sig) ? sig : 0.1);
       }
     }
-    return rec.satCount[k] === 0 ? 'no satellite common to rover and reference' : '';
+    return rec.satCount[rec.indexOf(k)] === 0 ? 'no satellite common to rover and reference' : '';
   }
 
   /**
@@ -479,17 +479,21 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
    */
   function restartTimeDifferencedSlips(k: number): void {
     const p = previousRecord;
-    if (rec.satCount[k] === 0) return;
+    const e = rec.indexOf(k);
+    if (rec.satCount[e] === 0) return;
     previousRecord = k;
-    if (p < 0 || !(rec.timeGpsS[k] - rec.timeGpsS[p] <= 30)) return;
+    if (p < 0) return;
+    // The previous epoch with satellites is still in the chunk being recorded (EpochRecords.beginEpoch).
+    const q = rec.indexOf(p);
+    if (!(rec.timeGpsS[e] - rec.timeGpsS[q] <= 30)) return;
     const before = new Map<number, number>();
-    for (let i = rec.satStart[p]; i < rec.satStart[p] + rec.satCount[p]; i++) if (rec.arc[i] > 0) before.set(rec.sat[i], i);
+    for (let i = rec.satStart[q]; i < rec.satStart[q] + rec.satCount[q]; i++) if (rec.arc[i] > 0) before.set(rec.sat[i], i);
     // The previous epoch's single difference carried to this epoch's linearisation point:
     // + u_prev . (x0_k - x0_prev) (epoch-records.ts: sd = -u . (x - x0) + ...).
-    const ddx = rec.x0[3 * k] - rec.x0[3 * p], ddy = rec.x0[3 * k + 1] - rec.x0[3 * p + 1], ddz = rec.x0[3 * k + 2] - rec.x0[3 * p + 2];
+    const ddx = rec.x0[3 * e] - rec.x0[3 * q], ddy = rec.x0[3 * e + 1] - rec.x0[3 * q + 1], ddz = rec.x0[3 * e + 2] - rec.x0[3 * q + 2];
     const js: number[] = [];
     const obs: TimeDifferencedPhase[] = [];
-    for (let j = rec.satStart[k]; j < rec.satStart[k] + rec.satCount[k]; j++) {
+    for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
       const i = before.get(rec.sat[j]);
       if (i === undefined || rec.arc[j] <= 0 || rec.arc[i] !== rec.arc[j] || rec.elevationRad[j] < maskRad || !Number.isFinite(rec.phaseM[j]) || !Number.isFinite(rec.phaseM[i])) continue;
       const info = satellites[rec.sat[j]];
@@ -503,7 +507,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     for (const o of findTimeDifferencedSlips(obs)) {
       timeDifferencedSlips++;
       const sat = satellites[rec.sat[js[o]]].id;
-      for (let j = rec.satStart[k]; j < rec.satStart[k] + rec.satCount[k]; j++) {
+      for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
         if (rec.arc[j] <= 0 || satellites[rec.sat[j]].id !== sat) continue;
         const id = nextArc++;
         rec.arc[j] = id;
@@ -521,7 +525,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   if (ionosphere) notes.push(`further frequencies used (${[...new Set(satellites.filter((x) => !x.primary).map((x) => x.phaseCode.slice(0, 2) + ' ' + SYSTEM_NAMES[x.system]))].join(', ')}): the differential ionosphere is estimated per satellite, prior ${(1000 * ionosphere.verticalSigmaM).toFixed(1)} mm at zenith for a ${(maxBaselineM / 1000).toFixed(1)} km baseline`);
   const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier, ionosphere };
   const sink = inputs.onFixedAmbiguities;
-  const onFix = (pass: 'forward' | 'backward') => sink ? (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[k], ambiguities }) : undefined;
+  const onFix = (pass: 'forward' | 'backward') => sink ? (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[rec.indexOf(k)], ambiguities }) : undefined;
   // The forward pass's results wait in the record store, chunk by chunk; the backward pass combines each
   // epoch with them as it goes (pass-results.ts): no pass holds a whole session's results.
   const results = new PassResults(rec, recordStore);
@@ -538,7 +542,8 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       direction: -1, onFix: onFix('backward'), onEpoch: (k, r) => {
         count(backwardShares, r.kind);
         const i = results.at(k, 'combine');
-        combineEpoch(results, i, rec.satStart[k], rec.satCount[k], r, carrier.passAgreementM);
+        const e = rec.indexOf(k);
+        combineEpoch(results, i, rec.satStart[e], rec.satCount[e], r, carrier.passAgreementM);
         count(combinedShares, results.kind[i]);
         if (results.kind[i] !== 0) lengths[solvedCount++] = Math.hypot(results.position[3 * i] - refArp.x, results.position[3 * i + 1] - refArp.y, results.position[3 * i + 2] - refArp.z);
       },
@@ -551,12 +556,12 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const gRef = ecefToGeodetic(refMark);
   const broadcastFrame = frame;
   function solutionAt(k: number): CarrierEpochSolution {
-    rec.visit(k);
+    const e = rec.visit(k);
     const i = results.at(k, 'read');
-    const c = contexts[rec.context[k]] ?? { pointName, event: null, antenna: roverAntenna };
+    const c = contexts[rec.context[e]] ?? { pointName, event: null, antenna: roverAntenna };
     const kind = KIND[results.kind[i]];
     const pointReference = options.reduceToMark ? 'ground-mark' as const : 'antenna-reference-point' as const;
-    const j0 = rec.satStart[k], j1 = j0 + rec.satCount[k];
+    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
     const sats = [];
     // Look angles and DOPs from the recorded lines of sight (ENU at the reference: a short baseline).
     const used: number[] = [], clockIndex: number[] = [], systemsSeen: GnssSystem[] = [];
@@ -593,9 +598,9 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     const cv = results.covariance.subarray(6 * i, 6 * i + 6);
     const g = solved ? ecefToGeodetic(pos) : null;
     return {
-      tagGpsS: rec.tagGpsS[k], timeGpsS: rec.timeGpsS[k], pointName: c.pointName, pointReference,
-      relativeClockM: {}, dops: dilutionOfPrecision({ lineOfSight: used, frame: 'ecef', receiver: gRef, clockIndex }), quality: null, correctionAgeS: rec.referenceAgeS[k], satellites: sats,
-      speedMS: Number.isFinite(rec.velocity[4 * k]) ? Math.hypot(rec.velocity[4 * k], rec.velocity[4 * k + 1], rec.velocity[4 * k + 2]) : NaN,
+      tagGpsS: rec.tagGpsS[e], timeGpsS: rec.timeGpsS[e], pointName: c.pointName, pointReference,
+      relativeClockM: {}, dops: dilutionOfPrecision({ lineOfSight: used, frame: 'ecef', receiver: gRef, clockIndex }), quality: null, correctionAgeS: rec.referenceAgeS[e], satellites: sats,
+      speedMS: Number.isFinite(rec.velocity[4 * e]) ? Math.hypot(rec.velocity[4 * e], rec.velocity[4 * e + 1], rec.velocity[4 * e + 2]) : NaN,
       occupationEvent: c.event, antennaHeightM: c.antenna.heightM,
       forwardKind: KIND[results.forwardKind[i]], backwardKind: KIND[results.backwardKind[i]],
       ratio: results.ratio[i] > 0 ? results.ratio[i] : NaN, fixedAmbiguities: results.fixedAmbiguities[i],
