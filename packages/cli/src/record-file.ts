@@ -1,7 +1,8 @@
 /**
  * The carrier-phase engine's records in a temporary file (the core's RecordStore): a day at 1 Hz keeps
- * about 30 MB of per-satellite records for its backward pass, which then leave the process's memory
- * (the system's file cache holds them while they are read back).
+ * about 38 MB of records (epochs and their satellites) for its passes and 2 x 16 MB of pass results (the
+ * forward pass's, then the combined ones), which then leave the process's memory (the system's file
+ * cache holds them while they are read back).
  *
  * The file is removed as soon as it is opened: its open descriptor keeps the data until close, so
  * nothing is left behind even when the process is killed (POSIX; where an open file cannot be removed,

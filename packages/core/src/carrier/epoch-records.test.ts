@@ -28,6 +28,7 @@ function record(store: RecordStore, epochs: number): EpochRecords {
   for (let k = 0; k < epochs; k++) {
     rec.beginEpoch(1e9 + k, 1e9 + k - 1e-7, { x: 4e6 + k, y: 6e5 - k, z: 4.6e6 + 0.5 * k }, k % 3 === 0, k % 31, k % 4);
     if (k % 5 === 0) rec.setVelocity(k, 0.1 * k, -0.2, 0.3, 0.05);
+    rec.reason[rec.indexOf(k)] = k % 7;
     for (let i = 0; i < satsAt(k); i++) {
       rec.addSatellite(k, i, k * 10 + i, 2e4 + k + i / 3, -1e3 + k * 0.001 + i, value(k, i), value(k, i + 1), value(k, i + 2), value(k, i + 3), (k + i) % 2 === 0);
     }
@@ -44,6 +45,7 @@ function expectEpoch(rec: EpochRecords, k: number): void {
   const e = rec.visit(k);
   expect([rec.timeGpsS[e], rec.tagGpsS[e], rec.isStatic[e], rec.referenceAgeS[e], rec.context[e]]).toEqual([1e9 + k, 1e9 + k - 1e-7, k % 3 === 0 || k < 50 ? 1 : 0, k % 31, k % 4]);
   expect(rec.x0[3 * e + 2]).toBe(4.6e6 + 0.5 * k);
+  expect(rec.reason[e]).toBe(k % 7);
   expect(rec.velocity[4 * e]).toBe(k % 5 === 0 ? 0.1 * k : NaN);
   expect(rec.satCount[e]).toBe(satsAt(k));
   const j0 = rec.satStart[e];

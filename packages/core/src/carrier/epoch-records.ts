@@ -7,10 +7,10 @@
  * so that sd = -u . (x - x0) + c (dt_rover - dt_reference) [+ lambda N for phase] + noise, with u the unit
  * vector from x0 to the satellite.
  *
- * Memory: per satellite and epoch 2 + 4 + 8 + 8 + 3 * 4 + 4 + 1 = 39 bytes, per epoch 8 * 9 + 4 * 3 + 2 + 1
- * = 87 bytes (times, linearisation point, velocity, indices), kept in chunks of about CHUNK_SATELLITES
+ * Memory: per satellite and epoch 2 + 4 + 8 + 8 + 3 * 4 + 4 + 1 = 39 bytes, per epoch 8 * 9 + 4 * 3 + 2 + 2
+ * = 88 bytes (times, linearisation point, velocity, indices), kept in chunks of about CHUNK_SATELLITES
  * entries (1.3 MB with their epochs) handed to a RecordStore as they fill: the session holds one chunk in
- * memory whatever its length. A day at 1 Hz with 9 satellites is 86,400 * (9 * 39 + 87) = 38 MB in the
+ * memory whatever its length. A day at 1 Hz with 9 satellites is 86,400 * (9 * 39 + 88) = 38 MB in the
  * store: in memory with the default store (MemoryRecordStore, exact size), in a temporary file with the
  * command line's.
  *
@@ -54,8 +54,8 @@ export class MemoryRecordStore implements RecordStore {
 export const CHUNK_SATELLITES = 32_768;
 /** Bytes per satellite entry: phaseM, codeM (f64), los (3 x f32), elevationRad (f32), arc (i32), sat (u16), fixable (u8). */
 const ENTRY_BYTES = 8 + 8 + 12 + 4 + 4 + 2 + 1;
-/** Bytes per epoch: timeGpsS, tagGpsS, x0 (3), velocity (4) (f64), referenceAgeS (f32), satStart, context (i32), satCount (u16), isStatic (u8). */
-const EPOCH_BYTES = 8 * 9 + 4 * 3 + 2 + 1;
+/** Bytes per epoch: timeGpsS, tagGpsS, x0 (3), velocity (4) (f64), referenceAgeS (f32), satStart, context (i32), satCount (u16), isStatic, reason (u8). */
+const EPOCH_BYTES = 8 * 9 + 4 * 3 + 2 + 2;
 
 /**
  * The arrays of one chunk of n entries and m epochs, as views on one buffer of n * ENTRY_BYTES +
@@ -82,6 +82,7 @@ function chunkViews(bytes: Uint8Array, n: number, m: number) {
     satCount: take((o) => new Uint16Array(b, o, m), 2 * m),
     fixable: take((o) => new Uint8Array(b, o, n), n),
     isStatic: take((o) => new Uint8Array(b, o, m), m),
+    reason: take((o) => new Uint8Array(b, o, m), m),
   };
 }
 
@@ -110,6 +111,8 @@ export class EpochRecords {
   referenceAgeS: Float32Array = new Float32Array(1024);
   /** Index of the epoch's context (point name, event, antenna height) in `contexts`. */
   context: Int32Array = new Int32Array(1024);
+  /** Why the epoch cannot be solved, as an index into the session's table of reasons (0: no reason given). */
+  reason: Uint8Array = new Uint8Array(1024);
   // Per satellite, of the current chunk.
   sat: Uint16Array = new Uint16Array(CHUNK_SATELLITES);
   arc: Int32Array = new Int32Array(CHUNK_SATELLITES);
@@ -149,7 +152,7 @@ export class EpochRecords {
     while (n < need) n *= 2;
     this.timeGpsS = grown(this.timeGpsS, n); this.tagGpsS = grown(this.tagGpsS, n); this.x0 = grown(this.x0, n, 3); this.velocity = grown(this.velocity, n, 4);
     this.satStart = grown(this.satStart, n); this.satCount = grown(this.satCount, n); this.isStatic = grown(this.isStatic, n);
-    this.referenceAgeS = grown(this.referenceAgeS, n); this.context = grown(this.context, n);
+    this.referenceAgeS = grown(this.referenceAgeS, n); this.context = grown(this.context, n); this.reason = grown(this.reason, n);
   }
 
   /** Room for `need` entries in the chunk being recorded (an epoch with more satellites than a chunk holds). */
@@ -175,7 +178,7 @@ export class EpochRecords {
     v.elevationRad.set(this.elevationRad.subarray(0, n)); v.arc.set(this.arc.subarray(0, n)); v.sat.set(this.sat.subarray(0, n)); v.fixable.set(this.fixable.subarray(0, n));
     v.timeGpsS.set(this.timeGpsS.subarray(0, m)); v.tagGpsS.set(this.tagGpsS.subarray(0, m)); v.x0.set(this.x0.subarray(0, 3 * m)); v.velocity.set(this.velocity.subarray(0, 4 * m));
     v.referenceAgeS.set(this.referenceAgeS.subarray(0, m)); v.satStart.set(this.satStart.subarray(0, m)); v.context.set(this.context.subarray(0, m));
-    v.satCount.set(this.satCount.subarray(0, m)); v.isStatic.set(this.isStatic.subarray(0, m));
+    v.satCount.set(this.satCount.subarray(0, m)); v.isStatic.set(this.isStatic.subarray(0, m)); v.reason.set(this.reason.subarray(0, m));
     this.chunkEntries.push(n);
     this.chunkBase.push(this.satTotal - this.recorded);
     this.chunkBlock.push(this.store.put(bytes));
@@ -185,7 +188,7 @@ export class EpochRecords {
     this.elevationRad.copyWithin(0, n, n + r); this.arc.copyWithin(0, n, n + r); this.sat.copyWithin(0, n, n + r); this.fixable.copyWithin(0, n, n + r);
     this.timeGpsS.copyWithin(0, m, m + kept); this.tagGpsS.copyWithin(0, m, m + kept); this.x0.copyWithin(0, 3 * m, 3 * (m + kept)); this.velocity.copyWithin(0, 4 * m, 4 * (m + kept));
     this.referenceAgeS.copyWithin(0, m, m + kept); this.satStart.copyWithin(0, m, m + kept); this.context.copyWithin(0, m, m + kept);
-    this.satCount.copyWithin(0, m, m + kept); this.isStatic.copyWithin(0, m, m + kept);
+    this.satCount.copyWithin(0, m, m + kept); this.isStatic.copyWithin(0, m, m + kept); this.reason.copyWithin(0, m, m + kept);
     for (let e = 0; e < kept; e++) this.satStart[e] -= n;
     this.recorded = r;
     this.firstEpoch = until;
@@ -221,6 +224,7 @@ export class EpochRecords {
     this.isStatic[e] = isStatic ? 1 : 0;
     this.referenceAgeS[e] = referenceAgeS;
     this.context[e] = context;
+    this.reason[e] = 0;
     return k;
   }
 
@@ -301,7 +305,7 @@ export class EpochRecords {
       const v = chunkViews(this.loaded, span.entries, span.epochs);
       this.phaseM = v.phaseM; this.codeM = v.codeM; this.los = v.los; this.elevationRad = v.elevationRad; this.arc = v.arc; this.sat = v.sat; this.fixable = v.fixable;
       this.timeGpsS = v.timeGpsS; this.tagGpsS = v.tagGpsS; this.x0 = v.x0; this.velocity = v.velocity; this.referenceAgeS = v.referenceAgeS;
-      this.satStart = v.satStart; this.context = v.context; this.satCount = v.satCount; this.isStatic = v.isStatic;
+      this.satStart = v.satStart; this.context = v.context; this.satCount = v.satCount; this.isStatic = v.isStatic; this.reason = v.reason;
       const staticEnd = Math.min(this.staticUntil - span.firstEpoch, span.epochs);
       if (staticEnd > 0) this.isStatic.fill(1, 0, staticEnd);
       this.current = c;

@@ -292,7 +292,8 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const recordStore = inputs.recordStore ?? new MemoryRecordStore();
   const rec = new EpochRecords(recordStore);
   const contexts: EpochContext[] = [];
-  const reasons: string[] = [];
+  /** Why epochs cannot be solved: the records keep an index into this table (EpochRecords.reason). */
+  const reasons: string[] = [''];
   let roverAntenna: AntennaOffset = options.roverAntenna ?? rover.header.antennaOffset;
   let pointName = rover.header.markerName.trim();
   let pendingEvent: EpochContext['event'] = null;
@@ -347,7 +348,14 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     const context = contexts.length - 1;
     pendingEvent = null;
     const isStatic = carrier.dynamics === 'static' || (carrier.dynamics === 'auto' && occupied);
-    reasons.push(await prepareRoverEpoch(e, isStatic, context));
+    const reason = await prepareRoverEpoch(e, isStatic, context);
+    if (reason) {
+      let r = reasons.indexOf(reason);
+      if (r < 0) { r = reasons.length; reasons.push(reason); }
+      // A few fixed sentences (prepareRoverEpoch).
+      if (r > 255) throw new Error('more than 255 reasons for unsolved epochs');
+      rec.reason[rec.indexOf(rec.count - 1)] = r;
+    }
   }
   if (carrier.dynamics === 'auto' && firstEvent === 'start-moving') rec.staticBefore(firstMovingRecord);
   if (rec.count > 0 && epochsWithReference === 0) {
@@ -605,7 +613,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       forwardKind: KIND[results.forwardKind[i]], backwardKind: KIND[results.backwardKind[i]],
       ratio: results.ratio[i] > 0 ? results.ratio[i] : NaN, fixedAmbiguities: results.fixedAmbiguities[i],
       kind,
-      reason: !solved ? reasons[k] || 'too few satellites for a solution' : kind === 'float' && results.forwardKind[i] === 2 && results.backwardKind[i] === 2 ? 'forward and backward fixes disagree' : '',
+      reason: !solved ? reasons[rec.reason[e]] || 'too few satellites for a solution' : kind === 'float' && results.forwardKind[i] === 2 && results.backwardKind[i] === 2 ? 'forward and backward fixes disagree' : '',
       position: solved ? { ecef: pos, frame: broadcastFrame } : null, geodetic: g,
       baselineEcef, baselineEnu: baselineEcef ? ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad) : null,
       satellitesUsed: solved ? results.satellitesUsed[i] : 0, sigmaEnuM: g ? enuSigma(cv, g.latRad, g.lonRad) : null, sigma3dM: solved ? Math.sqrt(cv[0] + cv[3] + cv[5]) : NaN,
