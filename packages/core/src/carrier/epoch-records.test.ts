@@ -3,22 +3,9 @@
  * comes back bit for bit (a storage round trip, common practice; the values are arbitrary).
  */
 import { describe, expect, it } from 'vitest';
-import { CHUNK_SATELLITES, EpochRecords, MemoryRecordStore, type RecordStore } from './epoch-records.js';
+import { CHUNK_SATELLITES, EpochRecords, type RecordStore } from './epoch-records.js';
+import { SharedBufferStore } from './shared-buffer-store.test-support.js';
 
-/** A store that counts its blocks and hands out one shared buffer, as a file-backed store may. */
-class SharedBufferStore implements RecordStore {
-  private readonly inner = new MemoryRecordStore();
-  private buffer = new Uint8Array(0);
-  blocks = 0;
-  put(bytes: Uint8Array): number { this.blocks++; return this.inner.put(bytes); }
-  get(block: number): Uint8Array {
-    const b = this.inner.get(block);
-    if (this.buffer.length < b.length) this.buffer = new Uint8Array(b.length);
-    this.buffer.set(b);
-    return this.buffer.subarray(0, b.length);
-  }
-  close(): void { this.inner.close(); }
-}
 
 const satsAt = (k: number): number => 5 + (k % 9);
 const value = (k: number, i: number): number => Math.fround(Math.sin(k * 7.1 + i * 0.37));

@@ -4,24 +4,12 @@
  * values are arbitrary, and the combinations used are the one-pass ones, whose result is that pass's).
  */
 import { describe, expect, it } from 'vitest';
-import { CHUNK_SATELLITES, EpochRecords, MemoryRecordStore, type RecordStore } from './epoch-records.js';
+import { CHUNK_SATELLITES, EpochRecords, type RecordStore } from './epoch-records.js';
 import { EpochResult } from './float-filter.js';
 import { combineEpoch } from './combine-passes.js';
 import { PassResults } from './pass-results.js';
+import { SharedBufferStore } from './shared-buffer-store.test-support.js';
 
-/** A store handing out one shared buffer (valid until its next get), as the command line's file store does. */
-class SharedBufferStore implements RecordStore {
-  private readonly inner = new MemoryRecordStore();
-  private buffer = new Uint8Array(0);
-  put(bytes: Uint8Array): number { return this.inner.put(bytes); }
-  get(block: number): Uint8Array {
-    const b = this.inner.get(block);
-    if (this.buffer.length < b.length) this.buffer = new Uint8Array(b.length);
-    this.buffer.set(b);
-    return this.buffer.subarray(0, b.length);
-  }
-  close(): void { this.inner.close(); }
-}
 
 const satsAt = (k: number): number => 5 + (k % 9);
 
