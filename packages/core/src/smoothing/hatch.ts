@@ -230,7 +230,7 @@ export class CarrierSmoother {
     }
     markDopplerSlips(count, scratch);
     // 2. a common millisecond jump: shift the history of every continuing satellite
-    const jump = detectMillisecondClockJump(scratch.cmcChangeM, this.jumpOptions);
+    const jump = detectMillisecondClockJump(scratch.cmcChangeM.subarray(0, count), this.jumpOptions);
     this.lastClockJump = jump;
     // 3. per satellite
     const out: SmootherOutput[] = new Array(count);
