@@ -374,7 +374,6 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
   const maskRad = setup.elevationMaskRad;
   const fixableSystems = setup.fixableSystems;
   let onFix: FixListener | undefined;
-  let onEpoch: (k: number, result: EpochResult) => void = () => {};
   // One code clock per group (SatelliteInfo.group: a constellation, or a constellation's further band).
   const systems = [...new Set(sats.map((s) => s.group))];
   const groupSystem = new Map<string, GnssSystem>(sats.map((s) => [s.group, s.system]));
@@ -458,10 +457,16 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     arcsBefore = new Set<number>(); arcsNow = new Set<number>();
     prev = -1; prevTimeS = NaN; prevStatic = 0; prevVelocity.fill(NaN);
     onFix = pass.onFix;
-    onEpoch = pass.onEpoch;
     // The epoch's work in a function of its own: called once per epoch, it is optimised like any function
     // (the epoch loop alone would wait for on-stack replacement, and start over at each deoptimisation).
-    for (let n = 0; n < rec.count; n++) epochStep(pass.direction === 1 ? n : rec.count - 1 - n);
+    // The pass's consumer is called here, not in epochStep: each pass has its own, and a call inlined in
+    // epochStep's optimised code would be deoptimised at every epoch of the next pass.
+    const onEpoch = pass.onEpoch;
+    for (let n = 0; n < rec.count; n++) {
+      const k = pass.direction === 1 ? n : rec.count - 1 - n;
+      epochStep(k);
+      onEpoch(k, out);
+    }
     outputs.push({ unflaggedSlips, codeOutliers, disturbedEpochs });
   }
   return outputs;
@@ -613,7 +618,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     const disturbed = turned || (nisDof > 0 && nis > chiSquareQuantile(0.999, nisDof));
     if (disturbed) disturbedEpochs++;
     out.satellitesUsed = used;
-    if (used < 4 + usedSys.size) { remember(k, e); onEpoch(k, out); return; }
+    if (used < 4 + usedSys.size) { remember(k, e); return; }
     // Float solution.
     const c = st.cap;
     out.kind = 1;
@@ -626,7 +631,6 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
     // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
     writeResiduals(e, out.kind === 2 ? conditioned : st.x);
     remember(k, e);
-    onEpoch(k, out);
   }
 
   /** Post-fit residuals of an epoch's entries at the state given by X (EpochResult.residualM). */
