@@ -7,6 +7,10 @@
  * Garbled or truncated epochs are reported as warnings naming the file and line and skipped; reading
  * resumes at the next recognisable epoch record.
  *
+ * Lines are read from bytes (byte-lines.ts): given openText's own text of a plain file, the reader
+ * takes its bytes instead (compress/byte-text.ts), and observation fields are parsed from the bytes;
+ * any other text is copied into bytes chunk by chunk. Header, epoch and event lines are read as text.
+ *
  * Given openText's own text of a compact RINEX file, the reader claims its observation records
  * (compress/observation-records.ts): the values then come as numbers beside placeholder lines, the
  * same values the text would give, and every other line is read as text.
@@ -18,10 +22,13 @@ import type { Warning, WarningSink } from '../errors.js';
 import { daysFromCivil, toGpsS } from '../time/index.js';
 import type { TimeSystem } from '../time/index.js';
 import type { AntennaOffset, HeaderEvent, ObsEpoch, ObsHeader, ObsStream, SatObservations } from '../gnss/index.js';
-import { LineCursor, SPAN_END, SPAN_FILL } from './text-lines.js';
-import { digitAt, digitIn, fieldState, parseF14p3In, parseFixed, parseIntField } from './obs-fields.js';
+import { SPAN_END, SPAN_FILL } from './text-lines.js';
+import { ByteLineCursor } from './byte-lines.js';
+import {
+  digitAt, digitInBytes, fieldState, NOT_USUAL_LAYOUT, parseF14p3Bytes, parseFixed, parseFixedIn, parseIntField, parseObsLineBytes,
+} from './obs-fields.js';
 import { ObsHeaderBuilder, headerLabel, parseVersionLine } from './obs-header.js';
-import { claimObservationRecords } from '../compress/index.js';
+import { claimObservationRecords, claimTextBytes } from '../compress/index.js';
 import type { ObservationRecords } from '../compress/index.js';
 
 export interface ReadObsOptions {
@@ -47,7 +54,8 @@ const EVENT_KINDS: Readonly<Record<number, HeaderEvent['kind']>> = {
 export async function readObsStream(file: string, text: AsyncIterable<string>, opts?: ReadObsOptions): Promise<ObsStream> {
   const warn: WarningSink = opts?.onWarning ?? (() => {});
   const records = claimObservationRecords(text);
-  const cur = new LineCursor(text, file);
+  const bytes = records === null ? claimTextBytes(text) : null;
+  const cur = bytes !== null ? new ByteLineCursor(bytes.chunks, file, bytes.decode, true) : new ByteLineCursor(text, file);
   let first = await cur.next();
   if (first === null) throw new FormatError(file, 0, `${file} is empty, not a RINEX observation file`);
   if (first.charCodeAt(0) === 0xfeff) first = first.slice(1);
@@ -61,7 +69,7 @@ export async function readObsStream(file: string, text: AsyncIterable<string>, o
     if (label === 'END OF HEADER') break;
     if (label === '' && (v.version >= 3 ? line.charCodeAt(0) === 62 : looksLikeR2Epoch(line))) {
       warn({ file, line: cur.lineNumber, code: 'missing-header-record', message: "the header has no 'END OF HEADER' record: data assumed to start here" });
-      cur.unread(line);
+      cur.unread();
       break;
     }
     hb.line(line, cur.lineNumber);
@@ -84,16 +92,33 @@ export async function collectEpochs(stream: ObsStream): Promise<ObsEpoch[]> {
  * (F14.3 fields of 16 columns) have no point in column 19.
  */
 export function looksLikeR2Epoch(line: string): boolean {
-  return looksLikeR2EpochIn(line, 0, line.length);
+  if (line.length < 29) return false;
+  const f = line.charCodeAt(28);
+  if (f < 48 || f > 54 || line.charCodeAt(26) !== 32 || line.charCodeAt(27) !== 32) return false;
+  if (line.charCodeAt(18) === 46) return line.charCodeAt(0) === 32;
+  return f >= 50 && f <= 53 && isBlank(line, 0, 26);
 }
 
-/** looksLikeR2Epoch on the line s[a, e) (a span of a chunk, see LineCursor.takeSpan). */
-function looksLikeR2EpochIn(s: string, a: number, e: number): boolean {
+/** looksLikeR2Epoch on the line bytes[a, e) of the cursor (see ByteLineCursor.takeSpan). */
+function looksLikeR2EpochBytes(cur: ByteLineCursor, a: number, e: number): boolean {
   if (e - a < 29) return false;
-  const f = s.charCodeAt(a + 28);
-  if (f < 48 || f > 54 || s.charCodeAt(a + 26) !== 32 || s.charCodeAt(a + 27) !== 32) return false;
-  if (s.charCodeAt(a + 18) === 46) return s.charCodeAt(a) === 32;
-  return f >= 50 && f <= 53 && isBlank(s, a, a + 26);
+  const b = cur.bytes;
+  const f = b[a + 28]!;
+  if (f < 48 || f > 54 || b[a + 26] !== 32 || b[a + 27] !== 32) return false;
+  if (b[a + 18] === 46) return b[a] === 32;
+  return f >= 50 && f <= 53 && isBlankBytes(cur, a, a + 26);
+}
+
+/** isBlank on bytes[from, to) of the cursor: any byte other than a blank or an ASCII letter, digit or sign is judged on the text. */
+function isBlankBytes(cur: ByteLineCursor, from: number, to: number): boolean {
+  const b = cur.bytes;
+  for (let i = from; i < to; i++) {
+    const c = b[i]!;
+    if (c === 32) continue;
+    if ((c > 13 && c < 0x7f) || c < 9) return false;
+    return isBlank(cur.textOf(from, to), 0, to - from);
+  }
+  return true;
 }
 
 /** s.slice(from, to).trim() === '' without making the slice (ECMA-262 WhiteSpace + LineTerminator). */
@@ -151,7 +176,7 @@ class EpochParser {
   constructor(
     private readonly file: string,
     private readonly header: ObsHeader,
-    private readonly cur: LineCursor,
+    private readonly cur: ByteLineCursor,
     private warnSink: WarningSink,
     /** Observation values that come as numbers (compact RINEX 3 through openText), or null. */
     private records: ObservationRecords | null,
@@ -272,7 +297,7 @@ class EpochParser {
       const l = await this.line();
       if (l === null) break;
       this.records?.dropBefore(this.cur.lineNumber); // a long stretch skipped holds no records
-      if (this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l)) { this.cur.unread(l); break; }
+      if (this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l)) { this.cur.unread(); break; }
       last = this.cur.lineNumber;
     }
     const span = last > fromLine ? `lines ${fromLine}-${last}` : `line ${fromLine}`;
@@ -380,7 +405,7 @@ class EpochParser {
           if (next === undefined) return NEED_MORE;
           // continuation lines: 32X, 12(A1, I2) (RINEX 2.11 table A2)
           if (next === null || looksLikeR2Epoch(next) || next.slice(0, 32).trim() !== '') {
-            if (next !== null) this.cur.unread(next);
+            if (next !== null) this.cur.unread();
             this.warn(lineNo, 'bad-epoch-skipped', `epoch announces ${n} satellites but its satellite list continuation line is missing; epoch skipped`);
             return SKIPPED;
           }
@@ -423,17 +448,33 @@ class EpochParser {
   private sats3(epochLine: number, n: number, sats: SatObservations[]): number {
     const cur = this.cur;
     for (let i = 0; i < n; i++) {
+      // the usual layout, read in one pass (parseObsLineBytes); anything else as a span below, into the same arrays
+      let into: SatObservations | null = null;
+      if (this.records === null) {
+        const b = cur.bytes, a = cur.pos, sc = b[a]!;
+        const codes = sc < 128 ? this.codesBy[sc] : undefined;
+        const sat = codes !== undefined && this.wantedBy[sc] ? satIdInBytes(b, a, cur.end) : null;
+        if (sat !== null) {
+          into = this.slab.sat(sat, codes!);
+          const nl = parseObsLineBytes(b, a + 3, 0, codes!.length, into.values, into.lli, into.ssi, this.divBy[sc]!);
+          if (nl >= 0) {
+            cur.tookLine(nl);
+            sats.push(into);
+            continue;
+          }
+        }
+      }
       const r = cur.takeSpan();
       if (r === SPAN_FILL) return NEED_MORE;
-      const src = cur.src, a = cur.lineStart, e = cur.lineEnd;
-      if (r === SPAN_END || (e > a && src.charCodeAt(a) === 62)) {
-        if (r !== SPAN_END) cur.unreadSpan();
+      const src = cur.bytes, a = cur.lineStart, e = cur.lineEnd;
+      if (r === SPAN_END || (e > a && src[a] === 62)) {
+        if (r !== SPAN_END) cur.unread();
         this.warn(epochLine, 'bad-epoch-skipped', `epoch announces ${n} satellites but ${i} observation records follow${r === SPAN_END ? ' (file ends)' : ''}; epoch skipped`);
         return SKIPPED;
       }
-      const sat = satIdIn(src, a, e, false);
+      const sat = satIdInBytes(src, a, e);
       if (sat === null) return this.requestResync(cur.lineNumber, 'garbled observation record: expected a satellite id (A1, I2) in columns 1-3');
-      const sc = src.charCodeAt(a);
+      const sc = src[a]!;
       const codes = this.codesBy[sc];
       if (codes === undefined) {
         this.noTypes(sat.charAt(0), sat);
@@ -445,7 +486,7 @@ class EpochParser {
       }
       const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
       const div = this.divBy[sc]!;
-      const out = rec < 0 ? this.values(src, a + 3, e, codes, div, sat, 0, codes.length, null) : this.recordValues(rec, codes, div, sat, 0, codes.length, null);
+      const out = rec < 0 ? this.values(a + 3, e, codes, div, sat, 0, codes.length, into) : this.recordValues(rec, codes, div, sat, 0, codes.length, null);
       if (out === null) return this.requestResync(cur.lineNumber, `garbled observation record of ${sat}: expected F14.3 values with LLI and SSI digits`);
       sats.push(out);
     }
@@ -485,11 +526,21 @@ class EpochParser {
       const wanted = this.wantedBy[sc]!;
       let out: SatObservations | null = null;
       for (let j = 0; j < nLines; j++) {
+        const from = j * 5, to = from + 5 < nCodes ? from + 5 : nCodes;
+        if (wanted && this.records === null && nCodes > 0) {
+          // the usual layout, read in one pass (parseObsLineBytes); anything else as a span below
+          out ??= this.slab.sat(sat, codes!);
+          const nl = parseObsLineBytes(cur.bytes, cur.pos, from, to, out.values, out.lli, out.ssi, div);
+          if (nl >= 0) {
+            cur.tookLine(nl);
+            continue;
+          }
+        }
         const r = cur.takeSpan();
         if (r === SPAN_FILL) return NEED_MORE;
-        const src = cur.src, a = cur.lineStart, e = cur.lineEnd;
-        if (r === SPAN_END || looksLikeR2EpochIn(src, a, e)) {
-          if (r !== SPAN_END) cur.unreadSpan();
+        const a = cur.lineStart, e = cur.lineEnd;
+        if (r === SPAN_END || looksLikeR2EpochBytes(cur, a, e)) {
+          if (r !== SPAN_END) cur.unread();
           this.warn(epochLine, 'bad-epoch-skipped', `epoch's observation records end early at ${sat}${r === SPAN_END ? ' (file ends)' : ''}; epoch skipped`);
           return SKIPPED;
         }
@@ -498,9 +549,8 @@ class EpochParser {
           out ??= this.blankSat(sat, sc, codes);
           continue; // its lines are taken (and told from an epoch line) but not parsed
         }
-        const from = j * 5, to = from + 5 < nCodes ? from + 5 : nCodes;
         const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
-        out = rec < 0 ? this.values(src, a, e, codes, div, sat, from, to, out) : this.recordValues(rec, codes, div, sat, from, to, out);
+        out = rec < 0 ? this.values(a, e, codes, div, sat, from, to, out) : this.recordValues(rec, codes, div, sat, from, to, out);
         if (out === null) return this.requestResync(cur.lineNumber, `garbled observation line of ${sat}: expected 5 fields of F14.3 + LLI + SSI`);
       }
       if (out !== null) sats.push(out);
@@ -509,21 +559,27 @@ class EpochParser {
   }
 
   /**
-   * Parses fields [from, to) of a satellite's list from the line src[c0, end) (a span of a chunk),
-   * 16 columns each: F14.3, LLI I1, SSI I1. null = garbled.
+   * Parses fields [from, to) of a satellite's list from the line bytes[c0, end) of the cursor,
+   * 16 columns each: F14.3, LLI I1, SSI I1. null = garbled. A field not in the usual layout is parsed
+   * from its text (parseFixedIn).
    */
   private values(
-    src: string, c0: number, end: number, codes: readonly string[], div: Float64Array | null, sat: SatId, from: number, to: number,
+    c0: number, end: number, codes: readonly string[], div: Float64Array | null, sat: SatId, from: number, to: number,
     into: SatObservations | null,
   ): SatObservations | null {
     const r = into ?? this.slab.sat(sat, codes);
     const values = r.values, lli = r.lli, ssi = r.ssi;
+    const cur = this.cur, src = cur.bytes;
     fieldState.bad = false;
     // a non-digit LLI/SSI is -1: OR-ed into `digits`, checked once for the line with fieldState.bad
     let digits = 0;
     for (let k = from, c = c0; k < to && c < end; k++, c += 16) {
-      const v = parseF14p3In(src, c, end);
-      const a = digitIn(src, c + 14, end), b = digitIn(src, c + 15, end);
+      let v = parseF14p3Bytes(src, c, end);
+      if (v === NOT_USUAL_LAYOUT) {
+        const fe = end < c + 14 ? end : c + 14;
+        v = parseFixedIn(cur.textOf(c, fe), 0, fe - c);
+      }
+      const a = digitInBytes(src, c + 14, end), b = digitInBytes(src, c + 15, end);
       digits |= a | b;
       values[k] = div !== null ? v / div[k]! : v;
       lli[k] = a;
@@ -550,7 +606,7 @@ class EpochParser {
     for (let i = 0; i < n; i++) {
       const l = await this.line();
       if (l === null || (this.r3 && l.charCodeAt(0) === 62) || (!this.r3 && looksLikeR2Epoch(l) && headerLabel(l) === '')) {
-        if (l !== null) this.cur.unread(l);
+        if (l !== null) this.cur.unread();
         this.warn(lineNo, 'bad-epoch-skipped', `event (flag ${flag}) announces ${n} header records but only ${i} follow; event skipped`);
         return null;
       }
@@ -630,6 +686,16 @@ class ObsSlab {
 /** Satellite ids by system letter char code, then number 0-99; null = not a system letter (filled on first use). */
 const SAT_IDS: (SatId[] | null | undefined)[] = new Array<SatId[] | null | undefined>(128).fill(undefined);
 
+/** satIdIn on bytes, for a RINEX 3 observation record (a blank system letter is not GPS there). */
+function satIdInBytes(b: Uint8Array, i: number, end: number): SatId | null {
+  if (i + 3 > end) return null;
+  const c0 = b[i]!;
+  const t1 = b[i + 1]!;
+  const d1 = t1 === 32 ? 0 : t1 - 48, d2 = b[i + 2]! - 48;
+  if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || c0 > 127) return null;
+  return satIdOf(c0, 10 * d1 + d2);
+}
+
 /**
  * Satellite id at s[i, i+3) of a line ending at `end` (A1, I2; RINEX 3.05 table A3 / 2.11 table A2):
  * a blank tens digit reads as 0; a blank system letter is GPS in RINEX 2 (RINEX 2.11 5.1), an error in 3.
@@ -642,11 +708,16 @@ function satIdIn(s: string, i: number, end: number, blankIsGps: boolean): SatId 
   const t1 = s.charCodeAt(i + 1);
   const d1 = t1 === 32 ? 0 : t1 - 48, d2 = s.charCodeAt(i + 2) - 48;
   if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || c0 > 127) return null;
+  return satIdOf(c0, 10 * d1 + d2);
+}
+
+/** The satellite id of system letter code `c0` (below 128) and number 0-99; null when not a system letter. */
+function satIdOf(c0: number, prn: number): SatId | null {
   let ids = SAT_IDS[c0];
   if (ids === undefined) {
     const sys = String.fromCharCode(c0);
     ids = isGnssSystem(sys) ? Array.from({ length: 100 }, (_, k) => `${sys}${String(k).padStart(2, '0')}`) : null;
     SAT_IDS[c0] = ids;
   }
-  return ids === null ? null : ids[10 * d1 + d2]!;
+  return ids === null ? null : ids[prn]!;
 }
