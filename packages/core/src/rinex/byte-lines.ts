@@ -10,7 +10,8 @@
  * '\n' does, the lines openText's text has (it makes them all '\n').
  *
  * The buffer always holds whole lines from the current position on, the last one possibly unfinished:
- * pulling a chunk joins the unread rest and the chunk into one new buffer. A line is therefore
+ * pulling a chunk moves the unread rest to the front of the buffer and copies the chunk after it (the
+ * buffer is reused, grown when the two do not fit). A line is therefore
  * `bytes[lineStart, lineEnd)`, never split, and the cursor can go back to any position taken since the
  * last pull (unread, rewind). The buffer ends with PADDING_BYTES zero bytes after `end`, so a parser that
  * stops at the first unexpected byte may read a field's columns without checking the end first.
@@ -30,6 +31,8 @@ const CR = 13;
 const SHORT_LINE_BYTES = 1024;
 
 const EMPTY = new Uint8Array(PADDING_BYTES);
+/** The smallest buffer made: a chunk of openText's 64 KiB and a few lines. */
+const MIN_BUFFER_BYTES = 1 << 17;
 
 /** Bytes to text one for one (ISO-8859-1 or windows-1252: a byte is one character). */
 export type ByteDecoder = (bytes: Uint8Array) => string;
@@ -160,29 +163,32 @@ export class ByteLineCursor {
   /** Pulls one more chunk into the buffer. Returns false when the source is exhausted. */
   async fill(): Promise<boolean> {
     if (this.ended) return false;
-    // the unread rest is copied before the source runs again: it may reuse the chunk's memory
-    const restBytes = this.bytes.slice(this.pos, this.end);
-    const restText = this.text === null ? null : this.text.slice(this.pos, this.end);
     const r = await this.it.next();
     if (r.done) {
       this.ended = true;
       return false;
     }
     const chunk = r.value instanceof Uint8Array ? r.value : typeof r.value === 'string' ? r.value : String(r.value);
-    const n = chunk.length;
-    const b = new Uint8Array(restBytes.length + n + PADDING_BYTES);
-    b.set(restBytes, 0);
+    const rest = this.end - this.pos;
+    const restText = this.text === null ? null : this.text.slice(this.pos, this.end);
+    const need = rest + chunk.length + PADDING_BYTES;
+    let b = this.bytes;
+    if (need > b.length || b === EMPTY) {
+      b = new Uint8Array(Math.max(need, 2 * b.length, MIN_BUFFER_BYTES));
+      b.set(this.bytes.subarray(this.pos, this.end), 0);
+    } else if (this.pos > 0) b.copyWithin(0, this.pos, this.end);
     if (typeof chunk === 'string') {
-      copyText(chunk, b, restBytes.length);
-      this.text = (restText ?? this.decode(restBytes)) + chunk;
+      copyText(chunk, b, rest);
+      this.text = (restText ?? this.decode(b.subarray(0, rest))) + chunk;
     } else {
-      b.set(chunk, restBytes.length);
+      b.set(chunk, rest);
       // after text, the rest keeps its characters (a source that mixes both: not made by openText)
       this.text = restText === null || restText === '' ? null : restText + this.decode(chunk);
     }
+    this.end = rest + chunk.length;
+    b.fill(0, this.end, this.end + PADDING_BYTES);
     this.bytes = b;
-    this.end = restBytes.length + n;
-    this.seam = restBytes.length;
+    this.seam = rest;
     this.pos = 0;
     this.lastPos = 0;
     this.checkTrailingLine();
@@ -235,6 +241,15 @@ export class ByteLineCursor {
     for (;;) {
       const l = this.take();
       if (l !== undefined) return l;
+      await this.fill();
+    }
+  }
+
+  /** Next line as a span, awaiting more chunks as needed: SPAN_LINE or SPAN_END. */
+  async nextSpan(): Promise<number> {
+    for (;;) {
+      const r = this.takeSpan();
+      if (r !== SPAN_FILL) return r;
       await this.fill();
     }
   }

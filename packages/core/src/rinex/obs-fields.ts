@@ -245,3 +245,62 @@ export function parseObsLineBytes(
   }
   return b[c] === LF ? c : -1;
 }
+
+/**
+ * parseFixedIn on bytes[start, end) (end already clipped to the line). A field with an exponent or more
+ * than 15 digits returns NOT_USUAL_LAYOUT (parse its text with parseFixedIn, which reads it with
+ * parseFloat); everything else gives parseFixedIn's value and sets fieldState.bad as it does.
+ */
+export function parseFixedBytes(b: Uint8Array, start: number, end: number): number {
+  const n = end;
+  let i = start;
+  while (i < n && b[i] === BLANK) i++;
+  if (i >= n) return NaN;
+  let neg = false;
+  let c = b[i]!;
+  if (c === MINUS) { neg = true; i++; } else if (c === 43) i++;
+  let mant = 0;
+  let digits = 0;
+  let frac = 0;
+  let seenDot = false;
+  for (; i < n; i++) {
+    c = b[i]!;
+    if (c >= 48 && c <= 57) {
+      mant = mant * 10 + (c - 48);
+      digits++;
+      if (seenDot) frac++;
+    } else if (c === POINT && !seenDot) {
+      seenDot = true;
+    } else break;
+  }
+  if (i < n) {
+    if (c === 69 || c === 101 || c === 68 || c === 100) return NOT_USUAL_LAYOUT;
+    for (; i < n; i++) {
+      if (b[i] !== BLANK) { fieldState.bad = true; return NaN; }
+    }
+  }
+  if (digits === 0) { fieldState.bad = true; return NaN; }
+  if (digits > 15) return NOT_USUAL_LAYOUT;
+  const v = frac === 0 ? mant : mant / POW10[frac]!;
+  return neg ? -v : v;
+}
+
+/** parseIntField on bytes[start, end) (end already clipped to the line): blank -> NaN; garbage sets fieldState.bad. */
+export function parseIntBytes(b: Uint8Array, start: number, end: number): number {
+  const n = end;
+  let i = start;
+  while (i < n && b[i] === BLANK) i++;
+  if (i >= n) return NaN;
+  let neg = false;
+  let c = b[i]!;
+  if (c === MINUS) { neg = true; i++; } else if (c === 43) i++;
+  let v = 0;
+  let digits = 0;
+  for (; i < n; i++) {
+    c = b[i]!;
+    if (c >= 48 && c <= 57) { v = v * 10 + (c - 48); digits++; } else break;
+  }
+  for (; i < n; i++) if (b[i] !== BLANK) { fieldState.bad = true; return NaN; }
+  if (digits === 0) { fieldState.bad = true; return NaN; }
+  return neg ? -v : v;
+}
