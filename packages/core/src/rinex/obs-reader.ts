@@ -742,8 +742,14 @@ class ObsSlab {
   }
 }
 
-/** Satellite ids by system letter char code, then number 0-99; null = not a system letter (filled on first use). */
-const SAT_IDS: (SatId[] | null | undefined)[] = new Array<SatId[] | null | undefined>(128).fill(undefined);
+/**
+ * Satellite ids by system letter char code (below 128), then number 0-99; null = not a system letter.
+ * Made whole at load (a few arrays of 100 strings), so the lookup meets one kind of element.
+ */
+const SAT_IDS: (SatId[] | null)[] = Array.from({ length: 128 }, (_, c0) => {
+  const sys = String.fromCharCode(c0);
+  return isGnssSystem(sys) ? Array.from({ length: 100 }, (_, k) => `${sys}${String(k).padStart(2, '0')}`) : null;
+});
 
 /** satIdIn on bytes. */
 function satIdInBytes(b: Uint8Array, i: number, end: number, blankIsGps: boolean): SatId | null {
@@ -773,11 +779,6 @@ function satIdIn(s: string, i: number, end: number, blankIsGps: boolean): SatId 
 
 /** The satellite id of system letter code `c0` (below 128) and number 0-99; null when not a system letter. */
 function satIdOf(c0: number, prn: number): SatId | null {
-  let ids = SAT_IDS[c0];
-  if (ids === undefined) {
-    const sys = String.fromCharCode(c0);
-    ids = isGnssSystem(sys) ? Array.from({ length: 100 }, (_, k) => `${sys}${String(k).padStart(2, '0')}`) : null;
-    SAT_IDS[c0] = ids;
-  }
+  const ids = SAT_IDS[c0]!;
   return ids === null ? null : ids[prn]!;
 }
