@@ -4,8 +4,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { ByteLineCursor } from './byte-lines.js';
-import { LineCursor, SPAN_END, SPAN_FILL } from './text-lines.js';
+import { ByteLineCursor, SPAN_END, SPAN_FILL } from './byte-lines.js';
+import { LineCursor } from './text-lines.js';
 import { InputError } from '../errors.js';
 import { MAX_LINE_CHARS } from './header-limits.js';
 
@@ -68,6 +68,66 @@ describe('ByteLineCursor', () => {
       }
       expect(got).toEqual(want);
     }), { numRuns: 300 });
+  });
+
+  it('property: a group of lines read after a mark, rewound and read again after ensureAhead, reads like split (what the observation reader does at chunk ends)', async () => {
+    const arb = fc.string({ unit: fc.constantFrom('a', 'b', '\n', '\r\n', ' ') });
+    await fc.assert(fc.asyncProperty(arb, fc.array(fc.nat(20)), fc.integer({ min: 1, max: 8 }), async (text, cuts, ahead) => {
+      const want = text.split(/\r?\n/);
+      if (want[want.length - 1] === '') want.pop(); // no empty line after a final newline (common practice)
+      const c = new ByteLineCursor(from(chunked(text, cuts)));
+      const got: string[] = [];
+      for (;;) {
+        if (!c.hasAhead(ahead)) await c.ensureAhead(ahead);
+        const first = await c.next();
+        if (first === null) break;
+        const lineNo = c.lineNumber;
+        let mark = c.markPos();
+        // read up to two more lines synchronously; when the buffer runs out, rewind, pull more, retry
+        let group: string[];
+        for (;;) {
+          group = [first];
+          let short = false;
+          for (let k = 0; k < 2; k++) {
+            const r = c.takeSpan();
+            if (r === SPAN_FILL) { short = true; break; }
+            if (r === SPAN_END) break;
+            group.push(c.textOf(c.lineStart, c.lineEnd));
+          }
+          if (!short) break;
+          c.rewind(mark, lineNo);
+          await c.ensureAhead(2 * c.ahead() + ahead);
+          mark = c.markPos();
+        }
+        got.push(...group);
+        expect(c.lineNumber).toBe(got.length);
+      }
+      expect(got).toEqual(want);
+    }), { numRuns: 300 });
+  });
+
+  it('a second rewind after ensureAhead uses the new mark (a case the property above found in the text cursor)', async () => {
+    const c = new ByteLineCursor(from(['\r', '\n', 'a']));
+    await c.ensureAhead(1);
+    expect(await c.next()).toBe('');
+    let mark = c.markPos();
+    expect(c.takeSpan()).toBe(SPAN_FILL);
+    c.rewind(mark, 1);
+    await c.ensureAhead(1);
+    mark = c.markPos();
+    expect(c.takeSpan()).toBe(SPAN_FILL);
+    c.rewind(mark, 1);
+    await c.ensureAhead(2);
+    expect(c.take()).toBe('a');
+    expect(c.take()).toBeNull();
+  });
+
+  it('release() ends the cursor', async () => {
+    const c = new ByteLineCursor(from(['ab\ncd\n']));
+    expect(await c.next()).toBe('ab');
+    c.release();
+    expect(c.takeSpan()).toBe(SPAN_END);
+    expect(await c.next()).toBeNull();
   });
 
   it('gives text lines back as given, characters above U+00FF included', async () => {

@@ -21,7 +21,11 @@
  */
 import { InputError } from '../errors.js';
 import { lineTooLongReason, MAX_LINE_CHARS } from './header-limits.js';
-import { SPAN_END, SPAN_FILL, SPAN_LINE } from './text-lines.js';
+
+/** takeSpan() results. */
+export const SPAN_LINE = 1;
+export const SPAN_FILL = 0;
+export const SPAN_END = -1;
 
 /** Zero bytes after the data in every buffer (see the file comment): a field's 16 columns. */
 export const PADDING_BYTES = 16;

@@ -22,8 +22,7 @@ import type { Warning, WarningSink } from '../errors.js';
 import { daysFromCivil, toGpsS } from '../time/index.js';
 import type { TimeSystem } from '../time/index.js';
 import type { AntennaOffset, HeaderEvent, ObsEpoch, ObsHeader, ObsStream, SatObservations } from '../gnss/index.js';
-import { SPAN_END, SPAN_FILL } from './text-lines.js';
-import { ByteLineCursor } from './byte-lines.js';
+import { ByteLineCursor, SPAN_END, SPAN_FILL } from './byte-lines.js';
 import {
   digitInBytes, fieldState, NOT_USUAL_LAYOUT, parseF14p3Bytes, parseFixedBytes, parseFixedIn, parseIntBytes, parseObsLineBytes,
 } from './obs-fields.js';
