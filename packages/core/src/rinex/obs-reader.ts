@@ -8,8 +8,10 @@
  * resumes at the next recognisable epoch record.
  *
  * Lines are read from bytes (byte-lines.ts): given openText's own text of a plain file, the reader
- * takes its bytes instead (compress/byte-text.ts), and observation fields are parsed from the bytes;
- * any other text is copied into bytes chunk by chunk. Header, epoch and event lines are read as text.
+ * takes its bytes instead (compress/byte-text.ts); any other text is copied into bytes chunk by chunk.
+ * Epoch records and observation fields are parsed from the bytes (an observation line of the usual
+ * layout in one pass, obs-fields.ts parseObsLineBytes); header lines, the header records of events and
+ * lines skipped to resynchronise are read as text.
  *
  * Given openText's own text of a compact RINEX file, the reader claims its observation records
  * (compress/observation-records.ts): the values then come as numbers beside placeholder lines, the
