@@ -72,7 +72,11 @@ export const SOLVE_SYSTEMS = { default: ['G', 'R', 'E', 'C', 'J'], gps: ['G'] };
 
 /**
  * The reader as the command line uses it: bytes (64 KiB chunks) -> openText (Buffer latin1, decompression)
- * -> readObsStream, reading the values of `systems` only when given (all when undefined).
+ * -> readObsStream, reading the values of `systems` only when given (all when undefined). Given openText's
+ * text of a plain file, readObsStream takes its bytes instead and parses them (core compress/byte-text.ts,
+ * rinex/byte-lines.ts): only the header lines (and rare ones: event records, lines skipped to resynchronise)
+ * are decoded to text, so the reader does not pay the latin1 decoding that the floor pays. Given a
+ * compact RINEX file, it reads openText's text.
  */
 async function parseBytes(core, bytes, name = 'bench.obs', systems = undefined) {
   const opened = await core.openText(name, (async function* () {

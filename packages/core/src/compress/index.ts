@@ -5,6 +5,8 @@ export type { Encoding } from './encoding.js';
 export { encodingsFromName, sniffBinaryLayer, sniffCompactRinex } from './encoding.js';
 export { CompactRinexDecoder } from './compact-rinex.js';
 export { claimObservationRecords } from './observation-records.js';
+export { claimTextBytes } from './byte-text.js';
+export type { TextBytes } from './byte-text.js';
 export type { ObservationRecords } from './observation-records.js';
 export type { CompactRinexVersion, CrxProblemSink } from './compact-rinex.js';
 export { UnixCompressDecoder, UnixCompressDamage, decompressUnix } from './unix-compress.js';

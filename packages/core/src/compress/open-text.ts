@@ -13,6 +13,7 @@ import type { WarningSink } from '../errors.js';
 import { PeekableBytes } from './byte-source.js';
 import { CompactRinexDecoder } from './compact-rinex.js';
 import { ObservationRecords, offerObservationRecords } from './observation-records.js';
+import { textWithClaimableBytes } from './byte-text.js';
 import type { CompactRinexVersion } from './compact-rinex.js';
 import { encodingsFromName, sniffBinaryLayer, sniffCompactRinex, sniffUnsupported } from './encoding.js';
 import type { Encoding } from './encoding.js';
@@ -97,8 +98,14 @@ export async function openText(file: string, bytes: AsyncIterable<Uint8Array>, o
       message: `the name suggests ${hinted.join(' + ')} but the content is ${layers.length > 0 ? layers.join(' + ') : 'plain text'}; read by content`,
     });
   }
+  if (crx === null) {
+    // the bytes may be taken instead of the text by a reader of bytes (byte-text.ts)
+    const decodeLatin1Bytes = opts.decodeLatin1;
+    const lineBytes = { chunks: src.chunks(), decode: decodeLatin1Bytes ?? decodeLatin1Once };
+    const text = textWithClaimableBytes(lineBytes, (b) => normaliseLineEnds(decodeLatin1Bytes ? decodeBytewise(b, decodeLatin1Bytes) : decodeLatin1(b)));
+    return { layers: layers.length > 0 ? layers : ['plain'], text };
+  }
   const chars = opts.decodeLatin1 ? decodeBytewise(src.chunks(), opts.decodeLatin1) : decodeLatin1(src.chunks());
-  if (crx === null) return { layers: layers.length > 0 ? layers : ['plain'], text: normaliseLineEnds(chars) };
   const records = new ObservationRecords();
   const text = decodeCompact(file, crx, chars, onWarning, opts.decodeLatin1, records);
   // observation values may travel as numbers to the observation reader (observation-records.ts)
@@ -139,6 +146,11 @@ async function* decodeLatin1(bytes: AsyncIterable<Uint8Array>): AsyncIterable<st
 /** Bytes to characters by a single-byte decoder given by the caller. */
 async function* decodeBytewise(bytes: AsyncIterable<Uint8Array>, decode: (bytes: Uint8Array) => string): AsyncIterable<string> {
   for await (const b of bytes) if (b.length > 0) yield decode(b);
+}
+
+/** TextDecoder('latin1') on one piece of bytes (openText's default decoding, for a line). */
+function decodeLatin1Once(bytes: Uint8Array): string {
+  return new TextDecoder('latin1').decode(bytes);
 }
 
 async function* normaliseLineEnds(chunks: AsyncIterable<string>): AsyncIterable<string> {

@@ -1,7 +1,11 @@
-/** The F14.3 fast path against the platform's parseFloat (ECMA-262 StringToNumber: correctly rounded). */
+/**
+ * The F14.3 fast path against the platform's parseFloat (ECMA-262 StringToNumber: correctly rounded);
+ * the one-pass reading of an observation line from bytes against the field-by-field reading.
+ */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { fieldState, parseF14p3, parseFixed } from './obs-fields.js';
+import { digitInBytes, fieldState, NOT_USUAL_LAYOUT, parseF14p3, parseF14p3Bytes, parseFixed, parseObsLineBytes } from './obs-fields.js';
+import { PADDING_BYTES } from './byte-lines.js';
 
 /** Fortran F14.3 (RINEX 3.05 table A3): right-aligned in 14 columns, 3 decimals. */
 const f14p3 = (v: number) => v.toFixed(3).padStart(14, ' ');
@@ -41,5 +45,57 @@ describe('parseF14p3', () => {
     expect(parseF14p3('  12.5', 0)).toBe(12.5);
     expect(parseF14p3('', 0)).toBeNaN();
     expect(fieldState.bad).toBe(false);
+  });
+});
+
+describe('parseObsLineBytes (one pass over an observation line)', () => {
+  const LF = 10;
+  /** A field of 16 columns: F14.3 in the usual layout or another, LLI and SSI blank or digits. */
+  const fieldArb = fc.oneof(
+    fc.tuple(fc.integer({ min: -999_999_999_999, max: 9_999_999_999_999 }), fc.constantFrom(' ', '0', '1', '7'), fc.constantFrom(' ', '5', '9'))
+      .map(([milli, lli, ssi]) => (milli / 1000).toFixed(3).padStart(14, ' ').slice(-14) + lli + ssi),
+    fc.constantFrom('                ', '               1', '    123.4       ', '  1.2345678E+3 1', '          .125  ', '   12a4567.890  ', '  -  12.000    ', '        +1.000  ', '    12.345  x   '),
+  );
+  const lineArb = fc.tuple(fc.array(fieldArb, { maxLength: 6 }), fc.nat(17), fc.constantFrom('\n', '\r\n', '  \n', 'junk\n'));
+
+  it('property: when it reads a line, its fields and end are those of the field-by-field reading of the line', () => {
+    fc.assert(fc.property(lineArb, fc.integer({ min: 1, max: 6 }), ([fields, cut, end], nCodes) => {
+      let text = fields.join('');
+      text = text.slice(0, Math.max(0, text.length - (cut % 17))) + end;
+      const b = new Uint8Array(text.length + PADDING_BYTES);
+      for (let i = 0; i < text.length; i++) b[i] = text.charCodeAt(i);
+      const values = new Float64Array(nCodes).fill(NaN), lli = new Uint8Array(nCodes), ssi = new Uint8Array(nCodes);
+      const nl = parseObsLineBytes(b, 0, 0, nCodes, values, lli, ssi, null);
+      if (nl < 0) return;
+      expect(b[nl]).toBe(LF);
+      expect(nl).toBe(text.indexOf('\n'));
+      // the reader's span path: parseF14p3Bytes (parseFixedIn on the text otherwise) and digitInBytes
+      for (let k = 0, c = 0; k < nCodes; k++, c += 16) {
+        if (c >= nl) {
+          expect(values[k]).toBeNaN();
+          continue;
+        }
+        fieldState.bad = false;
+        let v = parseF14p3Bytes(b, c, nl);
+        if (v === NOT_USUAL_LAYOUT) v = parseFixed(text.slice(0, nl), c, c + 14);
+        expect(fieldState.bad).toBe(false);
+        expect(Object.is(values[k], v)).toBe(true);
+        expect(lli[k]).toBe(digitInBytes(b, c + 14, nl));
+        expect(ssi[k]).toBe(digitInBytes(b, c + 15, nl));
+      }
+    }), { numRuns: 3000 });
+  });
+
+  it('reads a line of a real file (dgar0100.24o, RINEX 2.11) and leaves other layouts to the span reading', () => {
+    const bytesOf = (s: string) => { const b = new Uint8Array(s.length + PADDING_BYTES); for (let i = 0; i < s.length; i++) b[i] = s.charCodeAt(i); return b; };
+    const values = new Float64Array(5).fill(NaN), lli = new Uint8Array(5), ssi = new Uint8Array(5);
+    const line = '  23646991.774 6 124265862.78706  96830576.53603  23646993.808 3  23646991.323 3\n';
+    expect(parseObsLineBytes(bytesOf(line), 0, 0, 5, values, lli, ssi, null)).toBe(80);
+    expect([...values]).toEqual([23646991.774, 124265862.787, 96830576.536, 23646993.808, 23646991.323]);
+    expect([...lli]).toEqual([0, 0, 0, 0, 0]);
+    expect([...ssi]).toEqual([6, 6, 3, 3, 3]);
+    for (const other of ['  1.2345678E+3\n', '  23646991.774 6\r\n', '   12a4567.890\n', '  23646991.774 6']) {
+      expect(parseObsLineBytes(bytesOf(other), 0, 0, 5, values, lli, ssi, null)).toBe(-1);
+    }
   });
 });

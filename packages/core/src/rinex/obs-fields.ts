@@ -140,3 +140,167 @@ export function digitIn(s: string, col: number, end: number): number {
 export function textField(line: string, start: number, end: number): string {
   return line.slice(start, end).trim();
 }
+
+/*
+ * The same fields read from bytes (a line of a Uint8Array, see byte-lines.ts). Only the usual layouts
+ * are read here; anything else is left to the text functions above on the field's characters, so both
+ * give the same values and the same garbled fields.
+ */
+
+const LF = 10;
+const BLANK = 32;
+const MINUS = 45;
+const POINT = 46;
+
+/** What parseF14p3Bytes returns for a field not in the usual layout (no field reads as -Infinity). */
+export const NOT_USUAL_LAYOUT = -Infinity;
+
+/**
+ * parseF14p3In on bytes: the field F14.3 at b[c, c+14) of a line ending at `end`, when it is in the
+ * usual layout (right-aligned digits, the point in the 11th column, at most 9 integer digits);
+ * NOT_USUAL_LAYOUT otherwise (blank, short, exponent, garbled: parse its text with parseFixedIn).
+ */
+export function parseF14p3Bytes(b: Uint8Array, c: number, end: number): number {
+  const point = c + 10;
+  if (end < c + 14 || b[point] !== POINT) return NOT_USUAL_LAYOUT;
+  let i = c;
+  let ch = b[i]!;
+  while (ch === BLANK) ch = b[++i]!; // the point ends the blanks at the latest
+  const neg = ch === MINUS;
+  if (neg) ch = b[++i]!;
+  if (point - i > 9 || i === point) return NOT_USUAL_LAYOUT;
+  let mant = 0;
+  for (; i < point; ch = b[++i]!) {
+    const d = (ch - 48) | 0;
+    if (d < 0 || d > 9) return NOT_USUAL_LAYOUT;
+    mant = (mant * 10 + d) | 0;
+  }
+  const d1 = b[point + 1]! - 48, d2 = b[point + 2]! - 48, d3 = b[point + 3]! - 48;
+  if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || d3 < 0 || d3 > 9) return NOT_USUAL_LAYOUT;
+  // integer thousandths divided once by 1000: the value parseF14p3In gives (see there)
+  const v = (mant * 1000 + (d1 * 100 + d2 * 10 + d3)) / 1000;
+  return neg ? -v : v;
+}
+
+/** digitIn on bytes: the LLI/SSI digit at `col` of a line ending at `end`; 0 blank or absent; -1 not a digit. */
+export function digitInBytes(b: Uint8Array, col: number, end: number): number {
+  if (col >= end) return 0;
+  const c = b[col]!;
+  if (c === BLANK) return 0;
+  if (c >= 48 && c <= 57) return c - 48;
+  return -1;
+}
+
+/**
+ * An observation line in the usual layout read in one pass, its end found on the way: fields
+ * [from, to) from column `c` on, 16 columns each (F14.3, LLI I1, SSI I1: RINEX 3.05 table A3, RINEX 2.11
+ * table A2), each either a value in the usual layout (see parseF14p3Bytes) or 14 blank columns, with
+ * blank or digit flags; the line may end ('\n') before a field or after its value or LLI. The fields are
+ * written to values/lli/ssi (value divided by div[k] when div is given) and the position of the line's
+ * '\n' is returned. -1 when the line is anything else (a CR, another layout, garbled, the buffer ends):
+ * then read it as a span with parseF14p3Bytes and digitInBytes, which give the same values for the
+ * fields written here. Needs 16 readable bytes after any position before the line's end (byte-lines.ts
+ * PADDING_BYTES). Columns after field `to` are not read, as in the span reading.
+ */
+export function parseObsLineBytes(
+  b: Uint8Array, c: number, from: number, to: number, values: Float64Array, lli: Uint8Array, ssi: Uint8Array, div: Float64Array | null,
+): number {
+  for (let k = from; k < to; k++, c += 16) {
+    let ch = b[c]!;
+    if (ch === LF) return c;
+    const point = c + 10;
+    let i = c;
+    while (ch === BLANK && i < point) ch = b[++i]!;
+    let v: number;
+    if (i === point) {
+      // ten blanks: a blank field when the point's column and the three after it are blank too
+      if (ch !== BLANK || b[c + 11] !== BLANK || b[c + 12] !== BLANK || b[c + 13] !== BLANK) return -1;
+      v = NaN;
+    } else {
+      const neg = ch === MINUS;
+      if (neg) ch = b[++i]!;
+      if (b[point] !== POINT || point - i > 9 || i === point) return -1;
+      let mant = 0;
+      for (; i < point; ch = b[++i]!) {
+        const d = (ch - 48) | 0;
+        if (d < 0 || d > 9) return -1;
+        mant = (mant * 10 + d) | 0;
+      }
+      const d1 = b[point + 1]! - 48, d2 = b[point + 2]! - 48, d3 = b[point + 3]! - 48;
+      if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || d3 < 0 || d3 > 9) return -1;
+      const u = (mant * 1000 + (d1 * 100 + d2 * 10 + d3)) / 1000;
+      v = neg ? -u : u;
+    }
+    values[k] = div !== null ? v / div[k]! : v;
+    const f1 = b[c + 14]!;
+    if (f1 === LF) { lli[k] = 0; ssi[k] = 0; return c + 14; }
+    const a = f1 === BLANK ? 0 : f1 - 48;
+    if (a < 0 || a > 9) return -1;
+    lli[k] = a;
+    const f2 = b[c + 15]!;
+    if (f2 === LF) { ssi[k] = 0; return c + 15; }
+    const s = f2 === BLANK ? 0 : f2 - 48;
+    if (s < 0 || s > 9) return -1;
+    ssi[k] = s;
+  }
+  return b[c] === LF ? c : -1;
+}
+
+/**
+ * parseFixedIn on bytes[start, end) (end already clipped to the line). A field with an exponent or more
+ * than 15 digits returns NOT_USUAL_LAYOUT (parse its text with parseFixedIn, which reads it with
+ * parseFloat); everything else gives parseFixedIn's value and sets fieldState.bad as it does.
+ */
+export function parseFixedBytes(b: Uint8Array, start: number, end: number): number {
+  const n = end;
+  let i = start;
+  while (i < n && b[i] === BLANK) i++;
+  if (i >= n) return NaN;
+  let neg = false;
+  let c = b[i]!;
+  if (c === MINUS) { neg = true; i++; } else if (c === 43) i++;
+  let mant = 0;
+  let digits = 0;
+  let frac = 0;
+  let seenDot = false;
+  for (; i < n; i++) {
+    c = b[i]!;
+    if (c >= 48 && c <= 57) {
+      mant = mant * 10 + (c - 48);
+      digits++;
+      if (seenDot) frac++;
+    } else if (c === POINT && !seenDot) {
+      seenDot = true;
+    } else break;
+  }
+  if (i < n) {
+    if (c === 69 || c === 101 || c === 68 || c === 100) return NOT_USUAL_LAYOUT;
+    for (; i < n; i++) {
+      if (b[i] !== BLANK) { fieldState.bad = true; return NaN; }
+    }
+  }
+  if (digits === 0) { fieldState.bad = true; return NaN; }
+  if (digits > 15) return NOT_USUAL_LAYOUT;
+  const v = frac === 0 ? mant : mant / POW10[frac]!;
+  return neg ? -v : v;
+}
+
+/** parseIntField on bytes[start, end) (end already clipped to the line): blank -> NaN; garbage sets fieldState.bad. */
+export function parseIntBytes(b: Uint8Array, start: number, end: number): number {
+  const n = end;
+  let i = start;
+  while (i < n && b[i] === BLANK) i++;
+  if (i >= n) return NaN;
+  let neg = false;
+  let c = b[i]!;
+  if (c === MINUS) { neg = true; i++; } else if (c === 43) i++;
+  let v = 0;
+  let digits = 0;
+  for (; i < n; i++) {
+    c = b[i]!;
+    if (c >= 48 && c <= 57) { v = v * 10 + (c - 48); digits++; } else break;
+  }
+  for (; i < n; i++) if (b[i] !== BLANK) { fieldState.bad = true; return NaN; }
+  if (digits === 0) { fieldState.bad = true; return NaN; }
+  return neg ? -v : v;
+}

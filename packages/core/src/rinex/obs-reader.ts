@@ -7,6 +7,12 @@
  * Garbled or truncated epochs are reported as warnings naming the file and line and skipped; reading
  * resumes at the next recognisable epoch record.
  *
+ * Lines are read from bytes (byte-lines.ts): given openText's own text of a plain file, the reader
+ * takes its bytes instead (compress/byte-text.ts); any other text is copied into bytes chunk by chunk.
+ * Epoch records and observation fields are parsed from the bytes (an observation line of the usual
+ * layout in one pass, obs-fields.ts parseObsLineBytes); header lines, the header records of events and
+ * lines skipped to resynchronise are read as text.
+ *
  * Given openText's own text of a compact RINEX file, the reader claims its observation records
  * (compress/observation-records.ts): the values then come as numbers beside placeholder lines, the
  * same values the text would give, and every other line is read as text.
@@ -18,10 +24,12 @@ import type { Warning, WarningSink } from '../errors.js';
 import { daysFromCivil, toGpsS } from '../time/index.js';
 import type { TimeSystem } from '../time/index.js';
 import type { AntennaOffset, HeaderEvent, ObsEpoch, ObsHeader, ObsStream, SatObservations } from '../gnss/index.js';
-import { LineCursor, SPAN_END, SPAN_FILL } from './text-lines.js';
-import { digitAt, digitIn, fieldState, parseF14p3In, parseFixed, parseIntField } from './obs-fields.js';
+import { ByteLineCursor, SPAN_END, SPAN_FILL } from './byte-lines.js';
+import {
+  digitInBytes, fieldState, NOT_USUAL_LAYOUT, parseF14p3Bytes, parseFixedBytes, parseFixedIn, parseIntBytes, parseObsLineBytes,
+} from './obs-fields.js';
 import { ObsHeaderBuilder, headerLabel, parseVersionLine } from './obs-header.js';
-import { claimObservationRecords } from '../compress/index.js';
+import { claimObservationRecords, claimTextBytes } from '../compress/index.js';
 import type { ObservationRecords } from '../compress/index.js';
 
 export interface ReadObsOptions {
@@ -47,7 +55,8 @@ const EVENT_KINDS: Readonly<Record<number, HeaderEvent['kind']>> = {
 export async function readObsStream(file: string, text: AsyncIterable<string>, opts?: ReadObsOptions): Promise<ObsStream> {
   const warn: WarningSink = opts?.onWarning ?? (() => {});
   const records = claimObservationRecords(text);
-  const cur = new LineCursor(text, file);
+  const bytes = records === null ? claimTextBytes(text) : null;
+  const cur = bytes !== null ? new ByteLineCursor(bytes.chunks, file, bytes.decode, true) : new ByteLineCursor(text, file);
   let first = await cur.next();
   if (first === null) throw new FormatError(file, 0, `${file} is empty, not a RINEX observation file`);
   if (first.charCodeAt(0) === 0xfeff) first = first.slice(1);
@@ -61,7 +70,7 @@ export async function readObsStream(file: string, text: AsyncIterable<string>, o
     if (label === 'END OF HEADER') break;
     if (label === '' && (v.version >= 3 ? line.charCodeAt(0) === 62 : looksLikeR2Epoch(line))) {
       warn({ file, line: cur.lineNumber, code: 'missing-header-record', message: "the header has no 'END OF HEADER' record: data assumed to start here" });
-      cur.unread(line);
+      cur.unread();
       break;
     }
     hb.line(line, cur.lineNumber);
@@ -84,16 +93,33 @@ export async function collectEpochs(stream: ObsStream): Promise<ObsEpoch[]> {
  * (F14.3 fields of 16 columns) have no point in column 19.
  */
 export function looksLikeR2Epoch(line: string): boolean {
-  return looksLikeR2EpochIn(line, 0, line.length);
+  if (line.length < 29) return false;
+  const f = line.charCodeAt(28);
+  if (f < 48 || f > 54 || line.charCodeAt(26) !== 32 || line.charCodeAt(27) !== 32) return false;
+  if (line.charCodeAt(18) === 46) return line.charCodeAt(0) === 32;
+  return f >= 50 && f <= 53 && isBlank(line, 0, 26);
 }
 
-/** looksLikeR2Epoch on the line s[a, e) (a span of a chunk, see LineCursor.takeSpan). */
-function looksLikeR2EpochIn(s: string, a: number, e: number): boolean {
+/** looksLikeR2Epoch on the line bytes[a, e) of the cursor (see ByteLineCursor.takeSpan). */
+function looksLikeR2EpochBytes(cur: ByteLineCursor, a: number, e: number): boolean {
   if (e - a < 29) return false;
-  const f = s.charCodeAt(a + 28);
-  if (f < 48 || f > 54 || s.charCodeAt(a + 26) !== 32 || s.charCodeAt(a + 27) !== 32) return false;
-  if (s.charCodeAt(a + 18) === 46) return s.charCodeAt(a) === 32;
-  return f >= 50 && f <= 53 && isBlank(s, a, a + 26);
+  const b = cur.bytes;
+  const f = b[a + 28]!;
+  if (f < 48 || f > 54 || b[a + 26] !== 32 || b[a + 27] !== 32) return false;
+  if (b[a + 18] === 46) return b[a] === 32;
+  return f >= 50 && f <= 53 && isBlankBytes(cur, a, a + 26);
+}
+
+/** isBlank on bytes[from, to) of the cursor: any byte other than a blank or an ASCII letter, digit or sign is judged on the text. */
+function isBlankBytes(cur: ByteLineCursor, from: number, to: number): boolean {
+  const b = cur.bytes;
+  for (let i = from; i < to; i++) {
+    const c = b[i]!;
+    if (c === 32) continue;
+    if ((c > 13 && c < 0x7f) || c < 9) return false;
+    return isBlank(cur.textOf(from, to), 0, to - from);
+  }
+  return true;
 }
 
 /** s.slice(from, to).trim() === '' without making the slice (ECMA-262 WhiteSpace + LineTerminator). */
@@ -112,9 +138,8 @@ function isBlank(s: string, from: number, to: number): boolean {
 const OK = 0;
 const SKIPPED = 1;
 const RESYNC = 2;
-const EVENT = 3;
 const NEED_MORE = 4;
-/** Text kept buffered ahead of an epoch record so that most epochs parse without waiting (common practice: a few epochs). */
+/** Bytes kept buffered ahead of an epoch record so that most epochs parse without waiting (common practice: a few epochs). */
 const LOOKAHEAD_CHARS = 1 << 14;
 
 const ignoreWarning: WarningSink = () => {};
@@ -144,6 +169,8 @@ class EpochParser {
   private headTagWasBlank = false;
   private headClockS: number | null = null;
   private headSats: SatId[] | null = null;
+  /** The text of the RINEX 2 continuation line being read when it is a record's placeholder (see satList2), else null. */
+  private continuationText: string | null = null;
   /** Where and why the epoch loop resynchronises after a RESYNC result. */
   private resyncFrom = 0;
   private resyncReason = '';
@@ -151,7 +178,7 @@ class EpochParser {
   constructor(
     private readonly file: string,
     private readonly header: ObsHeader,
-    private readonly cur: LineCursor,
+    private readonly cur: ByteLineCursor,
     private warnSink: WarningSink,
     /** Observation values that come as numbers (compact RINEX 3 through openText), or null. */
     private records: ObservationRecords | null,
@@ -203,42 +230,64 @@ class EpochParser {
   }
 
   /**
-   * The epoch loop. Each epoch is parsed synchronously from the buffered text (epochSync); the loop
-   * awaits only to pull more text: before an epoch when less than LOOKAHEAD_CHARS are buffered, and
-   * when an epoch turns out longer than what is buffered (NEED_MORE: the cursor is put back to the
-   * epoch's second line and the epoch parsed again with more text). Resynchronisation and the header
-   * records of event epochs, both rare, read line by line asynchronously.
+   * The text of the line just taken as a span when it is the placeholder of a record that came as
+   * numbers (see textOf); null for any other line (read its bytes).
+   */
+  private recordLineText(): string | null {
+    if (this.records === null) return null;
+    const rec = this.records.find(this.cur.lineNumber);
+    if (rec < 0) return null;
+    const cur = this.cur;
+    return this.records.lineText(rec, this.r3 ? cur.textOf(cur.lineStart, Math.min(cur.lineStart + 3, cur.lineEnd)) : '');
+  }
+
+  /**
+   * The epoch loop. Each epoch record is parsed from its line's bytes (head2/head3), then the rest of
+   * the epoch synchronously from the buffered bytes (epochBody); the loop awaits only to pull more
+   * input: before an epoch when less than LOOKAHEAD_CHARS are buffered, and when an epoch turns out
+   * longer than what is buffered (NEED_MORE: the cursor is put back to the epoch's second line and the
+   * rest parsed again with more input). Resynchronisation and the header records of event epochs, both
+   * rare, read line by line asynchronously.
    */
   async *epochs(): AsyncGenerator<ObsEpoch> {
     const cur = this.cur;
     try {
       for (;;) {
         if (!cur.hasAhead(LOOKAHEAD_CHARS)) await cur.ensureAhead(LOOKAHEAD_CHARS);
-        let l = cur.take();
-        if (l === undefined) l = await cur.next();
-        if (l === null) return;
-        l = this.textOf(l);
+        let span = cur.takeSpan();
+        if (span === SPAN_FILL) span = await cur.nextSpan();
+        if (span === SPAN_END) return;
         const lineNo = cur.lineNumber;
         this.records?.dropBefore(lineNo);
-        const isEpoch = this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l);
+        const a = cur.lineStart, e = cur.lineEnd;
+        // an observation record that came as numbers is no epoch record (its text is the usual layout)
+        const recordText = this.recordLineText();
+        const isEpoch = recordText === null && (this.r3 ? e > a && cur.bytes[a] === 62 : looksLikeR2EpochBytes(cur, a, e));
         if (!isEpoch) {
-          if (l.trim() === '') continue; // blank lines between epochs: tolerated
+          if (recordText === null ? isBlankBytes(cur, a, e) : recordText.trim() === '') continue; // blank lines between epochs: tolerated
           await this.resync(lineNo, `expected an epoch record${this.r3 ? " starting with '>'" : ' (RINEX 2 epoch line)'}`);
           continue;
         }
+        const h = this.r3 ? this.head3(a, e, lineNo) : this.head2(a, e, lineNo);
+        if (h === RESYNC) {
+          await this.resync(this.resyncFrom, this.resyncReason);
+          continue;
+        }
+        if (this.headFlag >= 2 && this.headFlag <= 5) {
+          const ev = await this.eventEpoch(lineNo);
+          if (ev !== null) yield ev;
+          continue;
+        }
         let markPos = cur.markPos();
-        let r = this.epochSync(l, lineNo);
+        let r = this.epochBody(lineNo);
         while (r === NEED_MORE) {
           cur.rewind(markPos, lineNo);
           await cur.ensureAhead(2 * cur.ahead() + LOOKAHEAD_CHARS);
-          markPos = cur.markPos(); // ensureAhead moved the text: the epoch's second line now starts here
-          r = this.epochSync(l, lineNo);
+          markPos = cur.markPos(); // ensureAhead moved the bytes: the epoch's second line now starts here
+          r = this.epochBody(lineNo);
         }
         if (r === RESYNC) await this.resync(this.resyncFrom, this.resyncReason);
-        else if (r === EVENT) {
-          const e = await this.eventEpoch(lineNo);
-          if (e !== null) yield e;
-        } else if (r !== SKIPPED) yield r as ObsEpoch;
+        else if (r !== SKIPPED) yield r as ObsEpoch;
       }
     } catch (err) {
       if (err instanceof RefdeltaError) throw err;
@@ -272,7 +321,7 @@ class EpochParser {
       const l = await this.line();
       if (l === null) break;
       this.records?.dropBefore(this.cur.lineNumber); // a long stretch skipped holds no records
-      if (this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l)) { this.cur.unread(l); break; }
+      if (this.r3 ? l.charCodeAt(0) === 62 : looksLikeR2Epoch(l)) { this.cur.unread(); break; }
       last = this.cur.lineNumber;
     }
     const span = last > fromLine ? `lines ${fromLine}-${last}` : `line ${fromLine}`;
@@ -300,16 +349,16 @@ class EpochParser {
   }
 
   /**
-   * One epoch from its record line `l` (already taken) and the lines after it, synchronously:
-   * the epoch, or SKIPPED (warned), RESYNC (see requestResync), EVENT (flags 2-5: the epoch fields are
-   * in this.head*, eventEpoch reads its header records) or NEED_MORE (the buffered text ends inside
+   * The lines of an epoch after its record line (parsed by head2/head3 into this.head*), synchronously:
+   * the epoch, or SKIPPED (warned), RESYNC (see requestResync) or NEED_MORE (the buffered bytes end inside
    * the epoch; nothing was reported).
    */
-  private epochSync(l: string, lineNo: number): ObsEpoch | number {
-    const r = this.r3 ? this.head3(l, lineNo) : this.head2(l, lineNo);
-    if (r !== OK) return r;
+  private epochBody(lineNo: number): ObsEpoch | number {
     const flag = this.headFlag;
-    if (flag >= 2 && flag <= 5) return EVENT;
+    if (!this.r3) {
+      const r = this.satList2(lineNo);
+      if (r !== OK) return r;
+    }
     const sats: SatObservations[] = [];
     const ok = this.r3 ? this.sats3(lineNo, this.headCount, sats) : this.sats2(lineNo, this.headSats!, sats);
     if (ok !== OK) return ok;
@@ -320,24 +369,24 @@ class EpochParser {
   }
 
   /** RINEX 3/4 epoch record: '>', 1X, I4, 4(1X, I2.2), F11.7, 2X, I1, I3, 6X, F15.12 (RINEX 3.05 table A3). */
-  private head3(l: string, lineNo: number): number {
+  private head3(a: number, e: number, lineNo: number): number {
     fieldState.bad = false;
-    const flag = digitAt(l, 31);
-    const n = parseIntField(l, 32, 35);
+    const flag = digitInBytes(this.cur.bytes, a + 31, e);
+    const n = this.intAt(a, e, 32, 35);
     if (flag < 0 || flag > 6 || fieldState.bad || !(n >= 0)) {
       return this.requestResync(lineNo, `garbled epoch record: expected flag 0-6 in column 32 and a satellite count (I3) in columns 33-35`);
     }
-    const blank = l.slice(1, 29).trim() === '';
+    const blank = isBlankBytes(this.cur, Math.min(a + 1, e), Math.min(a + 29, e));
     let tagGpsS = this.prevTagGpsS;
     if (!blank || flag < 2 || flag > 5) {
-      const y = parseIntField(l, 2, 6), mo = parseIntField(l, 7, 9), d = parseIntField(l, 10, 12);
-      const h = parseIntField(l, 13, 15), mi = parseIntField(l, 16, 18), s = parseFixed(l, 18, 29);
+      const y = this.intAt(a, e, 2, 6), mo = this.intAt(a, e, 7, 9), d = this.intAt(a, e, 10, 12);
+      const h = this.intAt(a, e, 13, 15), mi = this.intAt(a, e, 16, 18), s = this.fixedAt(a, e, 18, 29);
       if (!this.validDate(y, mo, d, h, mi, s)) {
         return this.requestResync(lineNo, 'garbled epoch record: expected year, month, day, hour, minute (I4, 4 I2) and seconds (F11.7) in columns 3-29');
       }
       tagGpsS = this.tag(y, mo, d, h, mi, s);
     }
-    const clk = parseFixed(l, 35, 80);
+    const clk = this.fixedAt(a, e, 35, 80);
     if (fieldState.bad) {
       return this.requestResync(lineNo, 'garbled epoch record: expected the receiver clock offset (F15.12) in columns 42-56');
     }
@@ -346,18 +395,18 @@ class EpochParser {
   }
 
   /** RINEX 2 epoch line: 1X, I2.2, 4(1X, I2), F11.7, 2X, I1, I3, 12(A1, I2), F12.9 (RINEX 2.11 table A2). */
-  private head2(l: string, lineNo: number): number {
+  private head2(a: number, e: number, lineNo: number): number {
     fieldState.bad = false;
-    const flag = digitAt(l, 28);
-    const n = parseIntField(l, 29, 32);
+    const flag = digitInBytes(this.cur.bytes, a + 28, e);
+    const n = this.intAt(a, e, 29, 32);
     if (flag < 0 || flag > 6 || fieldState.bad || !(n >= 0)) {
       return this.requestResync(lineNo, 'garbled epoch line: expected flag 0-6 in column 29 and a satellite count (I3) in columns 30-32');
     }
-    const blank = l.slice(0, 26).trim() === '';
+    const blank = isBlankBytes(this.cur, a, Math.min(a + 26, e));
     let tagGpsS = this.prevTagGpsS;
     if (!blank || flag < 2 || flag > 5) {
-      const yy = parseIntField(l, 1, 3), mo = parseIntField(l, 4, 6), d = parseIntField(l, 7, 9);
-      const h = parseIntField(l, 10, 12), mi = parseIntField(l, 13, 15), s = parseFixed(l, 15, 26);
+      const yy = this.intAt(a, e, 1, 3), mo = this.intAt(a, e, 4, 6), d = this.intAt(a, e, 7, 9);
+      const h = this.intAt(a, e, 10, 12), mi = this.intAt(a, e, 13, 15), s = this.fixedAt(a, e, 15, 26);
       // RINEX 2.11 section 6.5: two-digit years 80-99 are 1980-1999, 00-79 are 2000-2079
       const y = yy >= 80 ? 1900 + yy : 2000 + yy;
       if (!(yy >= 0 && yy <= 99) || !this.validDate(y, mo, d, h, mi, s)) {
@@ -365,36 +414,72 @@ class EpochParser {
       }
       tagGpsS = this.tag(y, mo, d, h, mi, s);
     }
-    const clk = parseFixed(l, 68, 80);
+    const clk = this.fixedAt(a, e, 68, 80);
     if (fieldState.bad) {
       return this.requestResync(lineNo, 'garbled epoch line: expected the receiver clock offset (F12.9) in columns 69-80');
     }
     let sats: SatId[] | null = null;
     if (flag < 2 || flag > 5) {
+      // the satellites of the epoch line itself; those of its continuation lines are read by satList2
       sats = [];
-      let cl = l;
-      for (let i = 0; i < n; i++) {
-        const k = i % 12;
-        if (i > 0 && k === 0) {
-          const next = this.textOf(this.cur.take());
-          if (next === undefined) return NEED_MORE;
-          // continuation lines: 32X, 12(A1, I2) (RINEX 2.11 table A2)
-          if (next === null || looksLikeR2Epoch(next) || next.slice(0, 32).trim() !== '') {
-            if (next !== null) this.cur.unread(next);
-            this.warn(lineNo, 'bad-epoch-skipped', `epoch announces ${n} satellites but its satellite list continuation line is missing; epoch skipped`);
-            return SKIPPED;
-          }
-          cl = next;
-        }
-        const sat = satIdIn(cl, 32 + 3 * k, cl.length, true);
-        if (sat === null) {
-          return this.requestResync(lineNo, `garbled satellite list: expected ${n} satellites (A1, I2 each) from column 33`);
-        }
+      for (let i = 0; i < n && i < 12; i++) {
+        const sat = satIdInBytes(this.cur.bytes, a + 32 + 3 * i, e, true);
+        if (sat === null) return this.requestResync(lineNo, this.garbledSatList(n));
         sats.push(sat);
       }
     }
     this.setHead(flag, n, tagGpsS, blank && flag >= 2 && flag <= 5, Number.isFinite(clk) ? clk : null, sats);
     return OK;
+  }
+
+  private garbledSatList(n: number): string {
+    return `garbled satellite list: expected ${n} satellites (A1, I2 each) from column 33`;
+  }
+
+  /**
+   * The continuation lines of a RINEX 2 epoch line announcing more than 12 satellites: 32X, 12(A1, I2)
+   * (RINEX 2.11 table A2), their satellites appended to this.headSats after the epoch line's 12.
+   * OK, SKIPPED (warned), RESYNC or NEED_MORE.
+   */
+  private satList2(lineNo: number): number {
+    const n = this.headCount, sats = this.headSats!, cur = this.cur;
+    sats.length = n < 12 ? n : 12;
+    for (let i = 12; i < n; i++) {
+      const k = i % 12;
+      if (k === 0) {
+        const r = cur.takeSpan();
+        if (r === SPAN_FILL) return NEED_MORE;
+        const text = r === SPAN_END ? null : this.recordLineText();
+        const notContinuation =
+          r === SPAN_END ||
+          (text !== null
+            ? looksLikeR2Epoch(text) || text.slice(0, 32).trim() !== ''
+            : looksLikeR2EpochBytes(cur, cur.lineStart, cur.lineEnd) || !isBlankBytes(cur, cur.lineStart, Math.min(cur.lineStart + 32, cur.lineEnd)));
+        if (notContinuation) {
+          if (r !== SPAN_END) cur.unread();
+          this.warn(lineNo, 'bad-epoch-skipped', `epoch announces ${n} satellites but its satellite list continuation line is missing; epoch skipped`);
+          return SKIPPED;
+        }
+        this.continuationText = text;
+      }
+      const t = this.continuationText;
+      const sat = t !== null ? satIdIn(t, 32 + 3 * k, t.length, true) : satIdInBytes(cur.bytes, cur.lineStart + 32 + 3 * k, cur.lineEnd, true);
+      if (sat === null) return this.requestResync(lineNo, this.garbledSatList(n));
+      sats.push(sat);
+    }
+    return OK;
+  }
+
+  /** Integer field at columns [from, to) of the line bytes[a, e) (see parseIntField). */
+  private intAt(a: number, e: number, from: number, to: number): number {
+    return parseIntBytes(this.cur.bytes, a + from, e < a + to ? e : a + to);
+  }
+
+  /** Number at columns [from, to) of the line bytes[a, e) (see parseFixed); an exponent is read from its text. */
+  private fixedAt(a: number, e: number, from: number, to: number): number {
+    const start = a + from, end = e < a + to ? e : a + to;
+    const v = parseFixedBytes(this.cur.bytes, start, end);
+    return v === NOT_USUAL_LAYOUT ? parseFixedIn(this.cur.textOf(start, end), 0, end - start) : v;
   }
 
   private setHead(flag: number, n: number, tagGpsS: number, tagWasBlank: boolean, clockS: number | null, sats: SatId[] | null): void {
@@ -423,17 +508,33 @@ class EpochParser {
   private sats3(epochLine: number, n: number, sats: SatObservations[]): number {
     const cur = this.cur;
     for (let i = 0; i < n; i++) {
+      // the usual layout, read in one pass (parseObsLineBytes); anything else as a span below, into the same arrays
+      let into: SatObservations | null = null;
+      if (this.records === null) {
+        const b = cur.bytes, a = cur.pos, sc = b[a]!;
+        const codes = sc < 128 ? this.codesBy[sc] : undefined;
+        const sat = codes !== undefined && this.wantedBy[sc] ? satIdInBytes(b, a, cur.end, false) : null;
+        if (sat !== null) {
+          into = this.slab.sat(sat, codes!);
+          const nl = parseObsLineBytes(b, a + 3, 0, codes!.length, into.values, into.lli, into.ssi, this.divBy[sc]!);
+          if (nl >= 0) {
+            cur.tookLine(nl);
+            sats.push(into);
+            continue;
+          }
+        }
+      }
       const r = cur.takeSpan();
       if (r === SPAN_FILL) return NEED_MORE;
-      const src = cur.src, a = cur.lineStart, e = cur.lineEnd;
-      if (r === SPAN_END || (e > a && src.charCodeAt(a) === 62)) {
-        if (r !== SPAN_END) cur.unreadSpan();
+      const src = cur.bytes, a = cur.lineStart, e = cur.lineEnd;
+      if (r === SPAN_END || (e > a && src[a] === 62)) {
+        if (r !== SPAN_END) cur.unread();
         this.warn(epochLine, 'bad-epoch-skipped', `epoch announces ${n} satellites but ${i} observation records follow${r === SPAN_END ? ' (file ends)' : ''}; epoch skipped`);
         return SKIPPED;
       }
-      const sat = satIdIn(src, a, e, false);
+      const sat = satIdInBytes(src, a, e, false);
       if (sat === null) return this.requestResync(cur.lineNumber, 'garbled observation record: expected a satellite id (A1, I2) in columns 1-3');
-      const sc = src.charCodeAt(a);
+      const sc = src[a]!;
       const codes = this.codesBy[sc];
       if (codes === undefined) {
         this.noTypes(sat.charAt(0), sat);
@@ -445,7 +546,7 @@ class EpochParser {
       }
       const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
       const div = this.divBy[sc]!;
-      const out = rec < 0 ? this.values(src, a + 3, e, codes, div, sat, 0, codes.length, null) : this.recordValues(rec, codes, div, sat, 0, codes.length, null);
+      const out = rec < 0 ? this.values(a + 3, e, codes, div, sat, 0, codes.length, into) : this.recordValues(rec, codes, div, sat, 0, codes.length, null);
       if (out === null) return this.requestResync(cur.lineNumber, `garbled observation record of ${sat}: expected F14.3 values with LLI and SSI digits`);
       sats.push(out);
     }
@@ -485,11 +586,21 @@ class EpochParser {
       const wanted = this.wantedBy[sc]!;
       let out: SatObservations | null = null;
       for (let j = 0; j < nLines; j++) {
+        const from = j * 5, to = from + 5 < nCodes ? from + 5 : nCodes;
+        if (wanted && this.records === null && nCodes > 0) {
+          // the usual layout, read in one pass (parseObsLineBytes); anything else as a span below
+          out ??= this.slab.sat(sat, codes!);
+          const nl = parseObsLineBytes(cur.bytes, cur.pos, from, to, out.values, out.lli, out.ssi, div);
+          if (nl >= 0) {
+            cur.tookLine(nl);
+            continue;
+          }
+        }
         const r = cur.takeSpan();
         if (r === SPAN_FILL) return NEED_MORE;
-        const src = cur.src, a = cur.lineStart, e = cur.lineEnd;
-        if (r === SPAN_END || looksLikeR2EpochIn(src, a, e)) {
-          if (r !== SPAN_END) cur.unreadSpan();
+        const a = cur.lineStart, e = cur.lineEnd;
+        if (r === SPAN_END || looksLikeR2EpochBytes(cur, a, e)) {
+          if (r !== SPAN_END) cur.unread();
           this.warn(epochLine, 'bad-epoch-skipped', `epoch's observation records end early at ${sat}${r === SPAN_END ? ' (file ends)' : ''}; epoch skipped`);
           return SKIPPED;
         }
@@ -498,9 +609,8 @@ class EpochParser {
           out ??= this.blankSat(sat, sc, codes);
           continue; // its lines are taken (and told from an epoch line) but not parsed
         }
-        const from = j * 5, to = from + 5 < nCodes ? from + 5 : nCodes;
         const rec = this.records === null ? -1 : this.records.find(cur.lineNumber);
-        out = rec < 0 ? this.values(src, a, e, codes, div, sat, from, to, out) : this.recordValues(rec, codes, div, sat, from, to, out);
+        out = rec < 0 ? this.values(a, e, codes, div, sat, from, to, out) : this.recordValues(rec, codes, div, sat, from, to, out);
         if (out === null) return this.requestResync(cur.lineNumber, `garbled observation line of ${sat}: expected 5 fields of F14.3 + LLI + SSI`);
       }
       if (out !== null) sats.push(out);
@@ -509,21 +619,27 @@ class EpochParser {
   }
 
   /**
-   * Parses fields [from, to) of a satellite's list from the line src[c0, end) (a span of a chunk),
-   * 16 columns each: F14.3, LLI I1, SSI I1. null = garbled.
+   * Parses fields [from, to) of a satellite's list from the line bytes[c0, end) of the cursor,
+   * 16 columns each: F14.3, LLI I1, SSI I1. null = garbled. A field not in the usual layout is parsed
+   * from its text (parseFixedIn).
    */
   private values(
-    src: string, c0: number, end: number, codes: readonly string[], div: Float64Array | null, sat: SatId, from: number, to: number,
+    c0: number, end: number, codes: readonly string[], div: Float64Array | null, sat: SatId, from: number, to: number,
     into: SatObservations | null,
   ): SatObservations | null {
     const r = into ?? this.slab.sat(sat, codes);
     const values = r.values, lli = r.lli, ssi = r.ssi;
+    const cur = this.cur, src = cur.bytes;
     fieldState.bad = false;
     // a non-digit LLI/SSI is -1: OR-ed into `digits`, checked once for the line with fieldState.bad
     let digits = 0;
     for (let k = from, c = c0; k < to && c < end; k++, c += 16) {
-      const v = parseF14p3In(src, c, end);
-      const a = digitIn(src, c + 14, end), b = digitIn(src, c + 15, end);
+      let v = parseF14p3Bytes(src, c, end);
+      if (v === NOT_USUAL_LAYOUT) {
+        const fe = end < c + 14 ? end : c + 14;
+        v = parseFixedIn(cur.textOf(c, fe), 0, fe - c);
+      }
+      const a = digitInBytes(src, c + 14, end), b = digitInBytes(src, c + 15, end);
       digits |= a | b;
       values[k] = div !== null ? v / div[k]! : v;
       lli[k] = a;
@@ -550,7 +666,7 @@ class EpochParser {
     for (let i = 0; i < n; i++) {
       const l = await this.line();
       if (l === null || (this.r3 && l.charCodeAt(0) === 62) || (!this.r3 && looksLikeR2Epoch(l) && headerLabel(l) === '')) {
-        if (l !== null) this.cur.unread(l);
+        if (l !== null) this.cur.unread();
         this.warn(lineNo, 'bad-epoch-skipped', `event (flag ${flag}) announces ${n} header records but only ${i} follow; event skipped`);
         return null;
       }
@@ -627,8 +743,25 @@ class ObsSlab {
   }
 }
 
-/** Satellite ids by system letter char code, then number 0-99; null = not a system letter (filled on first use). */
-const SAT_IDS: (SatId[] | null | undefined)[] = new Array<SatId[] | null | undefined>(128).fill(undefined);
+/**
+ * Satellite ids by system letter char code (below 128), then number 0-99; null = not a system letter.
+ * Made whole at load (a few arrays of 100 strings), so the lookup meets one kind of element.
+ */
+const SAT_IDS: (SatId[] | null)[] = Array.from({ length: 128 }, (_, c0) => {
+  const sys = String.fromCharCode(c0);
+  return isGnssSystem(sys) ? Array.from({ length: 100 }, (_, k) => `${sys}${String(k).padStart(2, '0')}`) : null;
+});
+
+/** satIdIn on bytes. */
+function satIdInBytes(b: Uint8Array, i: number, end: number, blankIsGps: boolean): SatId | null {
+  if (i + 3 > end) return null;
+  let c0 = b[i]!;
+  if (c0 === 32 && blankIsGps) c0 = 71;
+  const t1 = b[i + 1]!;
+  const d1 = t1 === 32 ? 0 : t1 - 48, d2 = b[i + 2]! - 48;
+  if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || c0 > 127) return null;
+  return satIdOf(c0, 10 * d1 + d2);
+}
 
 /**
  * Satellite id at s[i, i+3) of a line ending at `end` (A1, I2; RINEX 3.05 table A3 / 2.11 table A2):
@@ -642,11 +775,11 @@ function satIdIn(s: string, i: number, end: number, blankIsGps: boolean): SatId 
   const t1 = s.charCodeAt(i + 1);
   const d1 = t1 === 32 ? 0 : t1 - 48, d2 = s.charCodeAt(i + 2) - 48;
   if (d1 < 0 || d1 > 9 || d2 < 0 || d2 > 9 || c0 > 127) return null;
-  let ids = SAT_IDS[c0];
-  if (ids === undefined) {
-    const sys = String.fromCharCode(c0);
-    ids = isGnssSystem(sys) ? Array.from({ length: 100 }, (_, k) => `${sys}${String(k).padStart(2, '0')}`) : null;
-    SAT_IDS[c0] = ids;
-  }
-  return ids === null ? null : ids[10 * d1 + d2]!;
+  return satIdOf(c0, 10 * d1 + d2);
+}
+
+/** The satellite id of system letter code `c0` (below 128) and number 0-99; null when not a system letter. */
+function satIdOf(c0: number, prn: number): SatId | null {
+  const ids = SAT_IDS[c0]!;
+  return ids === null ? null : ids[prn]!;
 }

@@ -7,8 +7,8 @@
  * reader awaits only at chunk boundaries. CRLF and CR-less final lines are handled; line numbers are
  * 1-based (the number of the line last returned).
  *
- * Hot loops use `takeSpan()` instead: the line is then `src` from `lineStart` to `lineEnd` (end
- * exclusive, CR removed), read with charCodeAt on the chunk itself, and no line string is made.
+ * The observation reader reads bytes instead (byte-lines.ts, whose lines are these); this cursor is
+ * the plain text one (textLines), and the reference its tests hold the byte cursor to.
  */
 import { InputError } from '../errors.js';
 import { lineTooLongReason, MAX_LINE_CHARS } from './header-limits.js';
@@ -22,95 +22,55 @@ export class LineCursor {
   private it: AsyncIterator<string>;
   /** 1-based number of the line most recently returned by take() (0 before the first). */
   lineNumber = 0;
-  /** A line put back with unread() / unreadSpan(): returned again by the next take() or takeSpan(). */
-  private pending = false;
-  private pendingSrc = '';
-  private pendingStart = 0;
-  private pendingEnd = 0;
-  /** The line last returned by takeSpan(): src.slice(lineStart, lineEnd). */
-  src = '';
-  lineStart = 0;
-  lineEnd = 0;
+  /** A line put back with unread(): returned again by the next take(). */
+  private pending: string | null = null;
 
   /** `file` names the input in the error for a line over MAX_LINE_CHARS. */
   constructor(source: AsyncIterable<string>, private readonly file = 'the input') {
     this.it = source[Symbol.asyncIterator]();
   }
 
-  /**
-   * Next line as a span of `src` (see the class comment), without making a string.
-   * Returns SPAN_LINE (a line is in src/lineStart/lineEnd), SPAN_FILL (call fill()) or SPAN_END.
-   */
-  takeSpan(): number {
-    if (this.pending) {
-      this.pending = false;
-      this.src = this.pendingSrc;
-      this.lineStart = this.pendingStart;
-      this.lineEnd = this.pendingEnd;
-      this.pendingSrc = '';
+  /** Next line without its end-of-line; undefined = need fill(); null = end of text. */
+  take(): string | null | undefined {
+    if (this.pending !== null) {
+      const l = this.pending;
+      this.pending = null;
       this.lineNumber++;
-      return SPAN_LINE;
+      return l;
     }
     const buf = this.buf;
     const pos = this.pos;
     const nl = buf.indexOf('\n', pos);
     if (nl < 0) {
-      if (!this.ended) return SPAN_FILL;
-      if (pos >= buf.length && this.carry === '') return SPAN_END;
+      if (!this.ended) return undefined;
+      if (pos >= buf.length && this.carry === '') return null;
       this.pos = buf.length;
       this.lineNumber++;
-      this.spanOfJoined(this.carry + buf.slice(pos));
+      const last = this.joined(this.carry + buf.slice(pos));
       this.carry = '';
-      return SPAN_LINE;
+      return last;
     }
     this.pos = nl + 1;
     this.lineNumber++;
     if (this.carry !== '') {
       // a line split across chunks (rare): joined once
-      this.spanOfJoined(this.carry + buf.slice(pos, nl));
+      const line = this.joined(this.carry + buf.slice(pos, nl));
       this.carry = '';
-      return SPAN_LINE;
+      return line;
     }
-    this.src = buf;
-    this.lineStart = pos;
-    this.lineEnd = nl > pos && buf.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
-    return SPAN_LINE;
+    const end = nl > pos && buf.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
+    return pos === 0 && end === buf.length ? buf : buf.slice(pos, end);
   }
 
-  private spanOfJoined(line: string): void {
+  /** A line joined from chunks, held to MAX_LINE_CHARS, without a final CR. */
+  private joined(line: string): string {
     if (line.length > MAX_LINE_CHARS) throw new InputError(this.file, this.lineNumber, lineTooLongReason(this.lineNumber));
-    this.src = line;
-    this.lineStart = 0;
-    this.lineEnd = line.charCodeAt(line.length - 1) === 13 ? line.length - 1 : line.length;
-  }
-
-  /** Next line without its end-of-line; undefined = need fill(); null = end of text. */
-  take(): string | null | undefined {
-    const r = this.takeSpan();
-    if (r === SPAN_LINE) return this.lineStart === 0 && this.lineEnd === this.src.length ? this.src : this.src.slice(this.lineStart, this.lineEnd);
-    return r === SPAN_FILL ? undefined : null;
-  }
-
-  /** The line last returned by takeSpan() as a string. */
-  spanText(): string {
-    return this.src.slice(this.lineStart, this.lineEnd);
+    return line.charCodeAt(line.length - 1) === 13 ? line.slice(0, -1) : line;
   }
 
   /** Puts the line just taken back, so the next take() returns it again (one line deep). */
   unread(line: string): void {
-    this.pending = true;
-    this.pendingSrc = line;
-    this.pendingStart = 0;
-    this.pendingEnd = line.length;
-    this.lineNumber--;
-  }
-
-  /** Puts the span just taken back (one line deep), like unread(). */
-  unreadSpan(): void {
-    this.pending = true;
-    this.pendingSrc = this.src;
-    this.pendingStart = this.lineStart;
-    this.pendingEnd = this.lineEnd;
+    this.pending = line;
     this.lineNumber--;
   }
 
@@ -139,71 +99,6 @@ export class LineCursor {
     return true;
   }
 
-  /**
-   * True when at least `chars` characters are buffered after the current position in one string (or
-   * the text is over), so a synchronous parser can take that many without waiting.
-   */
-  hasAhead(chars: number): boolean {
-    return this.carry === '' && (this.ended || this.buf.length - this.pos >= chars);
-  }
-
-  /** Characters buffered after the current position (in the current string). */
-  ahead(): number {
-    return this.buf.length - this.pos;
-  }
-
-  /**
-   * Pulls chunks until hasAhead(chars) holds. Unlike fill(), the unread text and the new chunk are
-   * joined into one string (one copy of at most `chars` + a chunk), so spans stay within one string.
-   */
-  async ensureAhead(chars: number): Promise<void> {
-    while (!this.ended && (this.carry !== '' || this.buf.length - this.pos < chars)) {
-      const r = await this.it.next();
-      const rest = this.pos < this.buf.length ? this.buf.slice(this.pos) : '';
-      if (r.done) {
-        this.ended = true;
-        this.buf = flatJoin(this.carry, rest, '');
-      } else {
-        const chunk = typeof r.value === 'string' ? r.value : String(r.value);
-        this.buf = flatJoin(this.carry, rest, chunk);
-      }
-      this.carry = '';
-      this.pos = 0;
-      this.checkTrailingLine();
-    }
-    if (this.carry !== '') {
-      this.buf = flatJoin(this.carry, this.buf.slice(this.pos), '');
-      this.carry = '';
-      this.pos = 0;
-    }
-  }
-
-  /** Throws when the unfinished last line of the buffer is longer than MAX_LINE_CHARS (it would be joined without end). */
-  private checkTrailingLine(): void {
-    const lastNl = this.buf.lastIndexOf('\n');
-    if (this.buf.length - (lastNl + 1) <= MAX_LINE_CHARS) return;
-    let n = this.lineNumber + 1;
-    for (let i = this.buf.indexOf('\n', this.pos); i >= 0 && i <= lastNl; i = this.buf.indexOf('\n', i + 1)) n++;
-    throw new InputError(this.file, n, lineTooLongReason(n));
-  }
-
-  /** Position after the line just taken, for rewind(); valid until the next fill/ensureAhead. */
-  markPos(): number {
-    return this.pos;
-  }
-
-  /**
-   * Goes back to a position from markPos() (no fill/ensureAhead since), `lineNumber` being the
-   * number of the line taken just before it. Lines split across chunks must not lie in between
-   * (true after ensureAhead, which leaves no carried line).
-   */
-  rewind(pos: number, lineNumber: number): void {
-    this.pos = pos;
-    this.lineNumber = lineNumber;
-    this.pending = false;
-    this.pendingSrc = '';
-  }
-
   /** Next line, awaiting more chunks as needed; null at the end. */
   async next(): Promise<string | null> {
     for (;;) {
@@ -211,32 +106,6 @@ export class LineCursor {
       if (l !== undefined) return l;
       await this.fill();
     }
-  }
-
-  /** Next span, awaiting more chunks as needed: SPAN_LINE or SPAN_END. */
-  async nextSpan(): Promise<number> {
-    for (;;) {
-      const r = this.takeSpan();
-      if (r !== SPAN_FILL) return r;
-      await this.fill();
-    }
-  }
-
-  /**
-   * Drops the buffered text and the source once reading is over, so a cursor kept alive after use
-   * (see obs-reader.ts, keepShapes) holds no text. The cursor then reads as ended.
-   */
-  release(): void {
-    this.ended = true;
-    this.buf = '';
-    this.carry = '';
-    this.pos = 0;
-    this.src = '';
-    this.lineStart = 0;
-    this.lineEnd = 0;
-    this.pending = false;
-    this.pendingSrc = '';
-    this.it = ENDED_SOURCE;
   }
 
   /** Stops the source early (e.g. the consumer broke out of a loop). */
@@ -249,30 +118,7 @@ export class LineCursor {
   }
 }
 
-/**
- * a + b + c as one flat string. In V8, `+` makes a cons string: after its first search it is
- * flattened but stays an indirection that every charCodeAt follows (about 15 % slower parsing,
- * measured with bench/run.mjs Part 1); Array.prototype.join copies the parts into one sequential
- * string (common practice for V8). An empty part is skipped so a lone chunk is handed back as is.
- */
-function flatJoin(a: string, b: string, c: string): string {
-  if (a === '') {
-    if (b === '') return c;
-    if (c === '') return b;
-    return [b, c].join('');
-  }
-  return b === '' && c === '' ? a : [a, b, c].join('');
-}
-
-/** A source that is over (what a released cursor points to). */
-const ENDED_SOURCE: AsyncIterator<string> = { next: async () => ({ done: true, value: undefined }) };
-
-/** takeSpan() results. */
-export const SPAN_LINE = 1;
-export const SPAN_FILL = 0;
-export const SPAN_END = -1;
-
-/** Async iterable over the lines of the text (convenience; the readers use LineCursor directly). */
+/** Async iterable over the lines of the text. */
 export async function* textLines(source: AsyncIterable<string>): AsyncIterable<string> {
   const c = new LineCursor(source);
   for (;;) {
