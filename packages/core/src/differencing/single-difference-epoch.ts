@@ -36,7 +36,7 @@ export interface DifferencingContext {
   /** Constellations in use. */
   readonly systems: readonly GnssSystem[];
   /** Why a satellite of a constellation not in use is left out. */
-  readonly systemReason: (system: GnssSystem) => string;
+  readonly leftOut: { reasonFor(system: GnssSystem): string };
   readonly corrections: ReferenceCorrections;
   readonly iono: IonosphereCoefficients;
   readonly glonassChannels: ReadonlyMap<number, number>;
@@ -138,7 +138,7 @@ export class SingleDifferenceEpoch {
   private prepare(s: ObsEpoch['sats'][number], smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, bracket: Bracket): void {
     const ctx = this.ctx;
     const system = satSystem(s.sat);
-    if (!ctx.systems.includes(system)) { this.reasons.set(s.sat, { signal: '', reason: ctx.systemReason(system) }); return; }
+    if (!ctx.systems.includes(system)) { this.reasons.set(s.sat, { signal: '', reason: ctx.leftOut.reasonFor(system) }); return; }
     const roverCodes = primaryCodes(system, s);
     if (roverCodes.length === 0) { this.reasons.set(s.sat, { signal: '', reason: 'no pseudorange on the primary band' }); return; }
     const tag = this.epoch.tagGpsS;

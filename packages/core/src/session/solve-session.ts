@@ -14,7 +14,7 @@ import { dopplerVelocity } from '../velocity/index.js';
 import { ReceiverSmoother, type SmoothingArcs } from '../smoothing/index.js';
 import type { SessionOptions } from './options.js';
 import type { EpochSolution, SessionSummary } from './solution-types.js';
-import { codeVarianceOf, prepareSession, systemLeftOutReason, type SessionSetup } from './setup.js';
+import { codeVarianceOf, LeftOutSystems, prepareSession, type SessionSetup } from './setup.js';
 import { ReferenceFeed } from './reference-feed.js';
 import { RoverState } from './rover-state.js';
 import { SessionTally } from './session-tally.js';
@@ -62,7 +62,7 @@ class DopplerSpeed {
 function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: SessionOptions, corrections: ReferenceCorrections, records: RecordContext, tally: SessionTally, offsets: CodeOffsetSource | null, roverHeader: ObsHeader, offsetSurvey: CodeOffsetSurvey, speed: DopplerSpeed): CodeSolverContext {
   return {
     differencing: {
-      store: setup.store, systems: setup.systems, systemReason: (s) => systemLeftOutReason(s, options, setup.navSystems), corrections,
+      store: setup.store, systems: setup.systems, leftOut: new LeftOutSystems(options, setup.navSystems), corrections,
       iono: inputs.nav.ionosphere, glonassChannels: setup.glonassChannels, maskRad: setup.maskRad, maxAgeS: options.maxCorrectionAgeS,
       codeVarianceM2: codeVarianceOf(setup), offsets,
     },
