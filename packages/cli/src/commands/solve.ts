@@ -233,7 +233,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   // Which of the systems listed and allowed have satellites in the rover's epochs (none seen: the no-epoch
   // sentence comes later).
   const listed = (Object.keys(roverProbe.header.obsCodes) as GnssSystem[]).filter((s) => base.systems.includes(s) && (roverProbe.header.obsCodes[s]?.length ?? 0) > 0);
-  const seen = await systemsSeen(a.rover, listed);
+  // The probe's epochs are still unread: its stream is read, not the file opened again.
+  const seen = await systemsSeen(roverProbe, listed);
   const usableSystems = requireNavigation(nav, a.nav, roverProbe.header, base.systems, roverSpan, rep.warn, seen.size ? seen : undefined);
 
   // 3. The reference coordinate with its frame and epoch.
