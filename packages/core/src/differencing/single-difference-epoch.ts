@@ -43,7 +43,7 @@ export interface DifferencingContext {
   readonly maskRad: number;
   readonly maxAgeS: number;
   /** One receiver's code variance (m^2) at an elevation and signal strength (solve/weights.ts). */
-  readonly codeVarianceM2: (elevationRad: number, cn0DbHz: number) => number;
+  readonly codeVariance: { varianceM2(elevationRad: number, cn0DbHz: number): number };
   readonly offsets: CodeOffsetSource | null;
 }
 
@@ -189,10 +189,10 @@ export class SingleDifferenceEpoch {
     if (l) return l;
     const look = lookFrom(this.lookAt!, this.lookGeodetic!, p.satPos, p.system, p.frequencyHz, this.ctx.iono, this.epoch.tagGpsS, this.doy, this.ctx.maskRad);
     const el = look.elevationRad;
-    const v = this.ctx.codeVarianceM2;
+    const v = this.ctx.codeVariance;
     l = {
       look, el, az: look.azimuthRad,
-      varianceM2: el >= this.ctx.maskRad ? v(el, p.cn0DbHz) * p.varianceFactorRover + v(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) * p.varianceFactorRef : NaN,
+      varianceM2: el >= this.ctx.maskRad ? v.varianceM2(el, p.cn0DbHz) * p.varianceFactorRover + v.varianceM2(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) * p.varianceFactorRef : NaN,
     };
     this.looks.set(p.sat, l);
     return l;

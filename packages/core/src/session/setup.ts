@@ -127,8 +127,20 @@ export function prepareSession(rover: ObsStream, references: readonly ObsStream[
 }
 
 /** One receiver's code variance (m^2): elevation model times the signal-strength factor when enabled (solve/weights.ts). */
-export function codeVarianceOf(setup: SessionSetup): (elRad: number, cn0DbHz: number) => number {
-  return (elRad, cn0) => elevationVarianceM2(elRad, setup.weighting, cn0);
+/**
+ * One receiver's code variance with the session's weighting. An object with a method, not a closure made
+ * per session: asked for every satellite of every epoch, it is one call target for every session.
+ */
+export class CodeVariance {
+  constructor(private readonly weighting: ElevationWeightParams) {}
+
+  varianceM2(elevationRad: number, cn0DbHz: number): number {
+    return elevationVarianceM2(elevationRad, this.weighting, cn0DbHz);
+  }
+}
+
+export function codeVarianceOf(setup: SessionSetup): CodeVariance {
+  return new CodeVariance(setup.weighting);
 }
 
 function referenceCoordinate(roverHeader: ObsHeader, reference: ObsStream, options: SessionOptions, warn: WarningSink): { mark: EcefM; frame: FrameEpoch; source: string; notes: string[] } {

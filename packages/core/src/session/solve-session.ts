@@ -64,7 +64,7 @@ function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: Sess
     differencing: {
       store: setup.store, systems: setup.systems, leftOut: new LeftOutSystems(options, setup.navSystems), corrections,
       iono: inputs.nav.ionosphere, glonassChannels: setup.glonassChannels, maskRad: setup.maskRad, maxAgeS: options.maxCorrectionAgeS,
-      codeVarianceM2: codeVarianceOf(setup), offsets,
+      codeVariance: codeVarianceOf(setup), offsets,
     },
     records, tally, fixOptions: setup.fixOptions, maxPdop: options.quality.maxPdop,
     kind: options.smoothing.enabled ? 'smoothed' : 'differential', roverHeader,

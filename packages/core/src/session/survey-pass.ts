@@ -52,7 +52,7 @@ export async function surveySession(setup: SessionSetup, rover: ObsStream, refer
   const differencing: DifferencingContext = {
     store: setup.store, systems: setup.systems, leftOut: new LeftOutSystems(options, setup.navSystems), corrections,
     iono: nav.ionosphere, glonassChannels: setup.glonassChannels, maskRad: setup.maskRad, maxAgeS: options.maxCorrectionAgeS,
-    codeVarianceM2: codeVarianceOf(setup), offsets: null,
+    codeVariance: codeVarianceOf(setup), offsets: null,
   };
   let position: EcefM | null = null;
   let clockM = NaN;
