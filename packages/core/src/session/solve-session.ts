@@ -110,13 +110,22 @@ function smootherOf(session: CodeSession, intervalS: number | null, arcs: Smooth
     : null;
 }
 
+/** What the solving pass reads and solves with: the streams (opened afresh after a first pass), the smoother and the reference feed. */
+interface SolvingPass {
+  readonly rover: ObsStream;
+  readonly references: readonly ObsStream[];
+  readonly roverSmoother: ReceiverSmoother | null;
+  readonly feed: ReferenceFeed;
+  readonly solver: CodeSolverContext;
+}
+
 /**
- * The session's epochs: the first pass when it learns something, then every rover epoch solved. A
- * module-level generator (not one made per session): its generator objects share one hidden class, so
- * the optimised code of the loops that consume them serves every session of a batch.
+ * The first pass when it learns something, then the solving pass set up. A function of its own, called
+ * once per session: the callbacks it calls (reopen) are the session's own closures, which would tie the
+ * optimised code of the epoch loop to one session if they were called there.
  */
-async function* sessionEpochs(session: CodeSession): AsyncIterable<EpochSolution> {
-  const { inputs, options, setup, state, tally, records, corrections, warn } = session;
+async function solvingPass(session: CodeSession): Promise<SolvingPass> {
+  const { inputs, options, setup, corrections, records, tally, warn } = session;
   let rover = inputs.rover, references = inputs.references;
   if (inputs.reopen && firstPassLearns(setup, options)) {
     session.survey = await surveySession(setup, rover, references, inputs.nav, options, session.offsetSurvey);
@@ -125,9 +134,20 @@ async function* sessionEpochs(session: CodeSession): AsyncIterable<EpochSolution
   }
   const survey = session.survey;
   const roverSmoother = smootherOf(session, rover.header.intervalS, survey?.roverArcs ?? null);
-  const f = new ReferenceFeed(references, corrections, setup.refMark, setup.refAntenna, options.reference.antenna !== undefined,
+  const feed = new ReferenceFeed(references, corrections, setup.refMark, setup.refAntenna, options.reference.antenna !== undefined,
     smootherOf(session, references[0].header.intervalS, survey?.referenceArcs ?? null), options.maxCorrectionAgeS, setup.notes, warn);
   const solver = codeSolverFor(setup, inputs, options, corrections, records, tally, survey?.offsets ?? null, rover.header, session.offsetSurvey, session.speed);
+  return { rover, references, roverSmoother, feed, solver };
+}
+
+/**
+ * The session's epochs: every rover epoch solved. A module-level generator (not one made per session):
+ * its generator objects share one hidden class, so the optimised code of the loops that consume them
+ * serves every session of a batch; the loop calls no closure of the session's (solvingPass).
+ */
+async function* sessionEpochs(session: CodeSession): AsyncIterable<EpochSolution> {
+  const { options, state, tally, records, corrections } = session;
+  const { rover, references, roverSmoother, feed: f, solver } = await solvingPass(session);
   for await (const e of rover.epochs) {
     if (e.event) {
       state.applyEvent(e);
@@ -144,15 +164,20 @@ async function* sessionEpochs(session: CodeSession): AsyncIterable<EpochSolution
     try {
       sol = e.sats.length === 0 ? noSolution(records, e, 'no satellites in the epoch', []) : solveCodeEpoch(solver, e, smoothed, roverSmoother?.factors, f.arpM);
     } catch (err) {
-      const msg = err instanceof Error ? err.message : String(err);
-      warn({ file: rover.file, line: e.line, code: 'epoch-failed', message: `epoch at line ${e.line} could not be solved: ${msg}` });
-      sol = noSolution(records, e, `could not be solved: ${msg}`, []);
+      sol = failedEpoch(session, rover.file, e, err);
     }
     state.pendingEvent = null;
     tally.epochOut(sol);
     yield sol;
   }
   if (tally.roverEpochs > 0 && tally.epochsInReach === 0) throwWithoutCorrections(session, f, references);
+}
+
+/** An epoch whose solving threw: warned about, and handed out without a solution. */
+function failedEpoch(session: CodeSession, file: string, e: ObsEpoch, err: unknown): EpochSolution {
+  const msg = err instanceof Error ? err.message : String(err);
+  session.warn({ file, line: e.line, code: 'epoch-failed', message: `epoch at line ${e.line} could not be solved: ${msg}` });
+  return noSolution(session.records, e, `could not be solved: ${msg}`, []);
 }
 
 /** Why no rover epoch had a reference correction: no reference epoch, no ephemeris, or no overlap in time. */
