@@ -25,7 +25,7 @@ async function load(rel: string): Promise<NavData> {
 
 /** The rule of the module comment as a plain scan of every record within the window. */
 function plainSelect(list: readonly Ephemeris[], t: number, opts: SelectOptions): Selection {
-  if (list.length === 0) return { eph: null, reason: 'no-ephemeris' };
+  if (list.length === 0) return { eph: null, reason: 'no-ephemeris', ageS: NaN };
   const window = validityS(list[0]) + (opts.marginS ?? 300);
   let best: Ephemeris | null = null;
   let bestScore = Infinity;
@@ -40,8 +40,8 @@ function plainSelect(list: readonly Ephemeris[], t: number, opts: SelectOptions)
     if (eph.kind === 'kepler' && eph.system === 'E' && isGalileoFnav(eph) !== (opts.galileoClock === 'FNAV')) score += 1e8;
     if (score <= bestScore) { best = eph; bestScore = score; }
   }
-  if (best !== null) return { eph: best, ageS: t - referenceTimeGpsS(best) };
-  if (sawValid) return { eph: null, reason: 'unhealthy' };
+  if (best !== null) return { eph: best, reason: undefined, ageS: t - referenceTimeGpsS(best) };
+  if (sawValid) return { eph: null, reason: 'unhealthy', ageS: NaN };
   let ageS = Infinity;
   for (const eph of list) ageS = Math.min(ageS, Math.abs(t - referenceTimeGpsS(eph)));
   return { eph: null, reason: 'too-old', ageS };
@@ -75,7 +75,7 @@ describeShared('EphemerisStore.select on real navigation files agrees with a who
           for (const opts of OPTION_SETS) {
             const got = store.select(sat, t, opts);
             const want = plainSelect(list, t, opts);
-            if (got.eph !== want.eph || got.reason !== want.reason || got.ageS !== want.ageS) {
+            if (got.eph !== want.eph || got.reason !== want.reason || !Object.is(got.ageS, want.ageS)) {
               expect({ sat, t, opts, got: got.eph?.line ?? got.reason, ageS: got.ageS }).toEqual({ sat, t, opts, got: want.eph?.line ?? want.reason, ageS: want.ageS });
             }
             compared++;

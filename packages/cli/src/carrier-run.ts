@@ -73,40 +73,58 @@ export async function runCarrierSession(
     recordStore.close();
     throw e;
   }
-  let n = 0, none = 0, first = NaN, last = NaN;
-  const reasons = new Map<string, number>();
-  const systems = new Set<GnssSystem>();
-  async function* epochs(): AsyncIterable<EpochSolution> {
-    for await (const s of run.epochs) {
-      n++;
-      if (Number.isNaN(first)) first = s.tagGpsS;
-      last = s.tagGpsS;
-      if (s.kind === 'none') { none++; reasons.set(s.reason, (reasons.get(s.reason) ?? 0) + 1); }
-      for (const x of s.satellites) if (x.used) systems.add(x.sat[0] as GnssSystem);
-      yield asEpochSolution(s);
-    }
-  }
+  const tally = new CarrierEpochTally();
   return {
-    epochs: epochs(),
+    epochs: tallied(run.epochs, tally),
     carrierSummary: () => run.summary(),
     summary: (): SessionSummary => {
       const c = run.summary();
       return {
         frame: c.frame, referencePosition: c.referencePosition, referencePositionSource: c.referencePositionSource,
-        epochsRover: n,
+        epochsRover: tally.epochs,
         // The carrier kinds alongside the code ones (the union of kinds is widened here for the outputs).
-        epochsByKind: { differential: 0, smoothed: 0, standalone: 0, none, fixed: c.combined.fixed, float: c.combined.float },
+        epochsByKind: { differential: 0, smoothed: 0, standalone: 0, none: tally.none, fixed: c.combined.fixed, float: c.combined.float },
         epochsWithoutCorrections: 0,
         satelliteRejections: [],
-        epochRejections: [...reasons].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
-        systemsUsed: [...systems],
+        epochRejections: [...tally.reasons].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
+        systemsUsed: [...tally.systems],
         notes: [...c.notes, carrierSharesSentence(c)],
-        firstGpsS: first, lastGpsS: last,
+        firstGpsS: tally.firstGpsS, lastGpsS: tally.lastGpsS,
         // The carrier engine estimates no code offsets; it reads the inputs once (forward and backward passes run on its records).
         codeOffsets: [], passes: 1,
       };
     },
   };
+}
+
+/** What the code summary needs from a carrier run's epochs, counted as they pass. */
+class CarrierEpochTally {
+  epochs = 0;
+  none = 0;
+  firstGpsS = NaN;
+  lastGpsS = NaN;
+  readonly reasons = new Map<string, number>();
+  readonly systems = new Set<GnssSystem>();
+
+  add(s: CarrierEpochSolution): void {
+    this.epochs++;
+    if (Number.isNaN(this.firstGpsS)) this.firstGpsS = s.tagGpsS;
+    this.lastGpsS = s.tagGpsS;
+    if (s.kind === 'none') { this.none++; this.reasons.set(s.reason, (this.reasons.get(s.reason) ?? 0) + 1); }
+    for (const x of s.satellites) if (x.used) this.systems.add(x.sat[0] as GnssSystem);
+  }
+}
+
+/**
+ * The run's epochs, counted. A module-level generator, not one made per run: the generator objects of
+ * one function share their hidden class, so the consumer's optimised code serves every session of a
+ * batch (each closure's generators have a class of their own, and the consumer would deoptimise).
+ */
+async function* tallied(epochs: AsyncIterable<CarrierEpochSolution>, tally: CarrierEpochTally): AsyncIterable<EpochSolution> {
+  for await (const s of epochs) {
+    tally.add(s);
+    yield asEpochSolution(s);
+  }
 }
 
 /** The carrier kinds are among the solution kinds: the epoch is handed on as it is (a copy by spread is slow in V8 and fills its old generation). */

@@ -1,7 +1,7 @@
 /** Checks made before processing: time overlap of the files, navigation data for the systems observed. */
 import {
   ProcessingError, SYSTEM_NAMES, satSystem, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds,
-  type GnssSystem, type NavData, type ObsHeader, type WarningSink,
+  type GnssSystem, type NavData, type ObsHeader, type ObsStream, type WarningSink,
 } from '@refdelta/core';
 import { openObs } from './node-io.js';
 
@@ -31,10 +31,10 @@ export async function obsTimeSpan(path: string, header: ObsHeader, onWarning: Wa
  * The systems whose satellites appear in the file's epochs (a header may list codes of a system never
  * tracked), as far as `asked` is concerned: reading stops once every system of `asked` is seen (usually
  * in the first epoch), so the set may lack systems outside `asked`; a system of `asked` never tracked
- * makes it read the whole file.
+ * makes it read the whole file. `s` is a stream of the file not read yet (a header probe's: the file is
+ * not opened again).
  */
-export async function systemsSeen(path: string, asked: readonly GnssSystem[]): Promise<Set<GnssSystem>> {
-  const s = await openObs(path, () => {});
+export async function systemsSeen(s: ObsStream, asked: readonly GnssSystem[]): Promise<Set<GnssSystem>> {
   const seen = new Set<GnssSystem>();
   const allSeen = () => asked.every((x) => seen.has(x));
   if (asked.length === 0) return seen;

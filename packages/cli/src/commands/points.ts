@@ -34,11 +34,16 @@ export interface PointsArgs extends SolveArgs {
 
 export const POINTS_FILE_NAMES = { csv: 'points.csv', geojson: 'points.geojson', prj: 'points.prj' } as const;
 
-interface Collected {
-  readonly epochs: PointEpoch[];
-  readonly marks: EpochMark[];
-  frame: FrameEpoch | null;
-  pointReference: PointReference;
+/** What a points run keeps of every epoch solution (the run's epoch sink). */
+class Collected {
+  readonly epochs: PointEpoch[] = [];
+  readonly marks: EpochMark[] = [];
+  frame: FrameEpoch | null = null;
+  constructor(public pointReference: PointReference) {}
+
+  add(s: EpochSolution): void {
+    collect(this, s);
+  }
 }
 
 function collect(c: Collected, s: EpochSolution): void {
@@ -140,9 +145,9 @@ export interface PointsSessionOutcome {
  * are thrown (InputError, ProcessingError) as by solve.
  */
 export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Reporter, command = 'points'): Promise<PointsSessionOutcome> {
-  const c: Collected = { epochs: [], marks: [], frame: null, pointReference: a.atAntenna === true ? 'antenna-reference-point' : 'ground-mark' };
+  const c = new Collected(a.atAntenna === true ? 'antenna-reference-point' : 'ground-mark');
   const st = await stageSolve(a, rep, {
-    command, onEpoch: (s) => collect(c, s), extraOutputNames: Object.values(POINTS_FILE_NAMES),
+    command, epochSink: c, extraOutputNames: Object.values(POINTS_FILE_NAMES),
     beforeRun: async (refEcef) => {
       // The geoid grid is read, and must cover the survey area, before the run (not after it).
       const g = await cfg.geoid();

@@ -110,7 +110,12 @@ export async function sqliteFactory(): Promise<() => SqliteDatabase> {
 export interface SolveHooks {
   /** Command name for the 'start' event (default 'solve'). */
   readonly command?: string;
-  readonly onEpoch?: (s: EpochSolution) => void;
+  /**
+   * Every epoch solution is handed to its add(). An object with a method, not a callback closure: a
+   * closure made per session is a new call target each time, and the epoch loop's optimised code would
+   * be discarded at every session of a batch.
+   */
+  readonly epochSink?: { add(s: EpochSolution): void };
   /** File names the caller adds to the output folder (checked against the inputs before the run). */
   readonly extraOutputNames?: readonly string[];
   /** Other input files the caller reads (never overwritten by an output). */
@@ -161,7 +166,7 @@ async function writeEpochs(
   for await (const s of epochs) {
     n++;
     await outputs.add(s);
-    hooks.onEpoch?.(s);
+    hooks.epochSink?.add(s);
     if (s.position && (s.kind === 'differential' || s.kind === 'smoothed' || isCarrierKind(s.kind))) positions.push(s.position.ecef);
     else if (s.position && s.kind === 'standalone') standalone.push(s.position.ecef);
     rep.progress(n, (s.tagGpsS - roverSpan.firstGpsS) / spanS);
@@ -228,7 +233,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   // Which of the systems listed and allowed have satellites in the rover's epochs (none seen: the no-epoch
   // sentence comes later).
   const listed = (Object.keys(roverProbe.header.obsCodes) as GnssSystem[]).filter((s) => base.systems.includes(s) && (roverProbe.header.obsCodes[s]?.length ?? 0) > 0);
-  const seen = await systemsSeen(a.rover, listed);
+  // The probe's epochs are still unread: its stream is read, not the file opened again.
+  const seen = await systemsSeen(roverProbe, listed);
   const usableSystems = requireNavigation(nav, a.nav, roverProbe.header, base.systems, roverSpan, rep.warn, seen.size ? seen : undefined);
 
   // 3. The reference coordinate with its frame and epoch.

@@ -13,26 +13,52 @@
  */
 const NODES = 720;
 
-export function probabilityWithinRadius(radiusM: number, sigmaXM: number, sigmaYM: number): number {
-  if (sigmaXM <= 0 && sigmaYM <= 0) return radiusM >= 0 ? 1 : 0;
+/** cos u and sin u at the trapezoid nodes u = 2 pi (i + 1/2) / NODES (the same for every call). */
+const NODE_COS = new Float64Array(NODES);
+const NODE_SIN = new Float64Array(NODES);
+for (let i = 0; i < NODES; i++) {
+  const u = (2 * Math.PI * (i + 0.5)) / NODES;
+  NODE_COS[i] = Math.cos(u);
+  NODE_SIN[i] = Math.sin(u);
+}
+
+/** b(u)^2 at the nodes for one pair of standard deviations. */
+function nodeVariances(sigmaXM: number, sigmaYM: number): Float64Array {
+  const b2 = new Float64Array(NODES);
+  for (let i = 0; i < NODES; i++) {
+    const c = NODE_COS[i]!, s = NODE_SIN[i]!;
+    b2[i] = sigmaXM * sigmaXM * c * c + sigmaYM * sigmaYM * s * s;
+  }
+  return b2;
+}
+
+/** P(R) by the trapezoid rule over the nodes' b(u)^2. */
+function probabilityAtNodes(radiusM: number, b2: Float64Array): number {
   let sum = 0;
   for (let i = 0; i < NODES; i++) {
-    const u = (2 * Math.PI * (i + 0.5)) / NODES;
-    const c = Math.cos(u), s = Math.sin(u);
-    const b2 = sigmaXM * sigmaXM * c * c + sigmaYM * sigmaYM * s * s;
-    sum += b2 > 0 ? -Math.expm1(-(radiusM * radiusM) / (2 * b2)) : 1;
+    const v = b2[i]!;
+    sum += v > 0 ? -Math.expm1(-(radiusM * radiusM) / (2 * v)) : 1;
   }
   return sum / NODES;
+}
+
+export function probabilityWithinRadius(radiusM: number, sigmaXM: number, sigmaYM: number): number {
+  if (sigmaXM <= 0 && sigmaYM <= 0) return radiusM >= 0 ? 1 : 0;
+  return probabilityAtNodes(radiusM, nodeVariances(sigmaXM, sigmaYM));
 }
 
 export function circularErrorRadiusM(p: number, sigmaXM: number, sigmaYM: number): number {
   if (!(p > 0 && p < 1)) throw new RangeError(`probability ${p} must be between 0 and 1`);
   const big = Math.max(sigmaXM, sigmaYM);
   if (big <= 0) return 0;
+  // b(u)^2 does not depend on R: computed once for the whole bisection.
+  const b2 = nodeVariances(sigmaXM, sigmaYM);
   let lo = 0, hi = 4 * big; // 4 sigma_max holds > 99.99 % in any case
   for (let i = 0; i < 100; i++) {
     const mid = (lo + hi) / 2;
-    if (probabilityWithinRadius(mid, sigmaXM, sigmaYM) < p) lo = mid; else hi = mid;
+    // lo and hi adjacent doubles: every further step would leave them as they are.
+    if (mid <= lo || mid >= hi) break;
+    if (probabilityAtNodes(mid, b2) < p) lo = mid; else hi = mid;
   }
   return (lo + hi) / 2;
 }

@@ -78,6 +78,12 @@ export interface ReferenceContext {
 }
 
 
+/** A reference satellite's first primary code of an epoch, with the issue it is modelled with. */
+interface FirstCode { readonly sat: SatId; readonly system: GnssSystem; readonly code: string; readonly p: number; readonly eph: Ephemeris }
+
+/** A first code modelled at the reference: residual (receiver clock not removed) and elevation. */
+interface ModelledCode { readonly sat: SatId; readonly code: string; readonly eph: Ephemeris; readonly m: { residualM: number; elevationRad: number } }
+
 function cacheCorrection(cache: Map<Ephemeris, Map<string, CorrectionValue>>, eph: Ephemeris, code: string, v: CorrectionValue): void {
   let byCode = cache.get(eph);
   if (!byCode) { byCode = new Map(); cache.set(eph, byCode); }
@@ -124,8 +130,8 @@ export class ReferenceCorrections {
     // The receiver clock enters the Earth-rotation term (positioning/satellite-for-tag.ts): model with the
     // previous epoch's clock, and again with the new one when it moved by more than 30 m (a step).
     const guessM = Number.isFinite(this.lastClockM) ? this.lastClockM : 0;
-    const modelled: Array<{ sat: SatId; code: string; eph: Ephemeris; m: { residualM: number; elevationRad: number } }> = [];
-    const firsts: Array<{ sat: SatId; system: GnssSystem; code: string; p: number; eph: Ephemeris }> = [];
+    const modelled: ModelledCode[] = [];
+    const firsts: FirstCode[] = [];
     for (const s of epoch.sats) {
       const system = satSystem(s.sat);
       if (!this.ctx.systems.includes(system)) continue;
@@ -144,19 +150,8 @@ export class ReferenceCorrections {
       if (sel.eph === null) continue;
       firsts.push({ sat: s.sat, system, code: first, p: codes.get(first)!, eph: sel.eph });
     }
-    const run = (clockGuessM: number): number => {
-      modelled.length = 0;
-      const samples: number[] = [];
-      for (const f of firsts) {
-        const m = this.model(f.eph, f.sat, f.system, f.code, f.p, epoch.tagGpsS, clockGuessM, arpM, geodetic, doy);
-        if (m === null) continue;
-        modelled.push({ sat: f.sat, code: f.code, eph: f.eph, m });
-        if (m.elevationRad > 0.1) samples.push(m.residualM);
-      }
-      return median(samples);
-    };
-    let clockM = run(guessM);
-    if (Number.isFinite(clockM) && Math.abs(clockM - guessM) > 30) clockM = run(clockM);
+    let clockM = this.modelFirsts(firsts, modelled, epoch.tagGpsS, guessM, arpM, geodetic, doy);
+    if (Number.isFinite(clockM) && Math.abs(clockM - guessM) > 30) clockM = this.modelFirsts(firsts, modelled, epoch.tagGpsS, clockM, arpM, geodetic, doy);
     if (!Number.isFinite(clockM)) {
       this.unusableEpochs++;
       return false;
@@ -171,6 +166,25 @@ export class ReferenceCorrections {
       clockM, sats, arpM, geodetic, cache,
     });
     return true;
+  }
+
+  /**
+   * Models each satellite's first code with a receiver clock guess into `modelled` (emptied first) and
+   * returns the median residual over satellites above 0.1 rad: the receiver clock (m). A method rather
+   * than a closure made per epoch, so its optimised code is kept from epoch to epoch.
+   */
+  private modelFirsts(
+    firsts: readonly FirstCode[], modelled: ModelledCode[], tagGpsS: number, clockGuessM: number, arpM: EcefM, geodetic: GeodeticRad, doy: number,
+  ): number {
+    modelled.length = 0;
+    const samples: number[] = [];
+    for (const f of firsts) {
+      const m = this.model(f.eph, f.sat, f.system, f.code, f.p, tagGpsS, clockGuessM, arpM, geodetic, doy);
+      if (m === null) continue;
+      modelled.push({ sat: f.sat, code: f.code, eph: f.eph, m });
+      if (m.elevationRad > 0.1) samples.push(m.residualM);
+    }
+    return median(samples);
   }
 
   /** P - rho + c dt_sv - T - I at the reference (m), receiver clock not removed; null if not computable. */

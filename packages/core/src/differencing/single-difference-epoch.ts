@@ -36,14 +36,14 @@ export interface DifferencingContext {
   /** Constellations in use. */
   readonly systems: readonly GnssSystem[];
   /** Why a satellite of a constellation not in use is left out. */
-  readonly systemReason: (system: GnssSystem) => string;
+  readonly leftOut: { reasonFor(system: GnssSystem): string };
   readonly corrections: ReferenceCorrections;
   readonly iono: IonosphereCoefficients;
   readonly glonassChannels: ReadonlyMap<number, number>;
   readonly maskRad: number;
   readonly maxAgeS: number;
   /** One receiver's code variance (m^2) at an elevation and signal strength (solve/weights.ts). */
-  readonly codeVarianceM2: (elevationRad: number, cn0DbHz: number) => number;
+  readonly codeVariance: { varianceM2(elevationRad: number, cn0DbHz: number): number };
   readonly offsets: CodeOffsetSource | null;
 }
 
@@ -138,7 +138,7 @@ export class SingleDifferenceEpoch {
   private prepare(s: ObsEpoch['sats'][number], smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, bracket: Bracket): void {
     const ctx = this.ctx;
     const system = satSystem(s.sat);
-    if (!ctx.systems.includes(system)) { this.reasons.set(s.sat, { signal: '', reason: ctx.systemReason(system) }); return; }
+    if (!ctx.systems.includes(system)) { this.reasons.set(s.sat, { signal: '', reason: ctx.leftOut.reasonFor(system) }); return; }
     const roverCodes = primaryCodes(system, s);
     if (roverCodes.length === 0) { this.reasons.set(s.sat, { signal: '', reason: 'no pseudorange on the primary band' }); return; }
     const tag = this.epoch.tagGpsS;
@@ -189,10 +189,10 @@ export class SingleDifferenceEpoch {
     if (l) return l;
     const look = lookFrom(this.lookAt!, this.lookGeodetic!, p.satPos, p.system, p.frequencyHz, this.ctx.iono, this.epoch.tagGpsS, this.doy, this.ctx.maskRad);
     const el = look.elevationRad;
-    const v = this.ctx.codeVarianceM2;
+    const v = this.ctx.codeVariance;
     l = {
       look, el, az: look.azimuthRad,
-      varianceM2: el >= this.ctx.maskRad ? v(el, p.cn0DbHz) * p.varianceFactorRover + v(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) * p.varianceFactorRef : NaN,
+      varianceM2: el >= this.ctx.maskRad ? v.varianceM2(el, p.cn0DbHz) * p.varianceFactorRover + v.varianceM2(Number.isFinite(p.elevationRefRad) ? p.elevationRefRad : el, p.cn0RefDbHz) * p.varianceFactorRef : NaN,
     };
     this.looks.set(p.sat, l);
     return l;

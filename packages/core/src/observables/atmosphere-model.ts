@@ -11,8 +11,15 @@ import { calendarFromSeconds, gpsToUtcS, daysFromCivil } from '../time/index.js'
 
 export function dayOfYear(gpsS: number): number {
   const c = calendarFromSeconds(gpsToUtcS(gpsS));
-  return daysFromCivil(c.year, c.month, c.day) - daysFromCivil(c.year, 1, 1) + 1 + c.hour / 24;
+  return daysFromCivil(c.year, c.month, c.day) - daysFromCivil(c.year, 1, 1) + 1 + (HOUR_FRACTIONS[c.hour] ?? c.hour / 24);
 }
+
+/**
+ * h / 24 for the hours of a day, the same doubles as the division. Read from an array of doubles, the
+ * fraction is a double from the first epoch on: V8 would otherwise take the integer results of hour 0
+ * (a day file's first hour) as integer arithmetic and deoptimise every function holding it at hour 1.
+ */
+const HOUR_FRACTIONS: readonly number[] = Array.from({ length: 24 }, (_, h) => h / 24);
 
 /** L1-band (or the given frequency's) slant ionospheric group delay (m); 0 when no coefficients. */
 export function ionosphereDelayM(

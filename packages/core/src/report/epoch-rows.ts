@@ -37,40 +37,51 @@ export function epochColumns(systems: readonly GnssSystem[]): string[] {
   return [...LEADING_COLUMNS, ...ordered.map(relativeClockColumn), ...TRAILING_COLUMNS];
 }
 
+/*
+ * The numeric cells are written by one loop calling fixed() from one place: the row was a list of two
+ * dozen fixed() calls, each inlined by V8's optimising compiler, which made the function slow to compile
+ * (and it is compiled again whenever it deoptimises). The values go through a scratch array of doubles.
+ */
+
+/** Decimals of the position cells: latitude, longitude (1e-9 deg is 0.1 mm: more than the data hold, so
+ * the CSV never limits precision), height, ECEF x y z, baseline east north up, baseline length. */
+const POSITION_DECIMALS = [9, 9, 4, 4, 4, 4, 4, 4, 4, 4] as const;
+/** Decimals of the cells after satellites_used: pdop hdop vdop, sigma e n u, variance factor, chi-square
+ * and its critical value, correction age, speed, antenna height. */
+const QUALITY_DECIMALS = [2, 2, 2, 4, 4, 4, 4, 4, 4, 3, 3, 4] as const;
+const cellValues = new Float64Array(Math.max(POSITION_DECIMALS.length, QUALITY_DECIMALS.length));
+
+/** Appends fixed(cellValues[i], decimals[i]) for every i of `decimals`. */
+function pushFixedCells(row: string[], decimals: readonly number[]): void {
+  for (let i = 0; i < decimals.length; i++) row.push(fixed(cellValues[i], decimals[i]!));
+}
+
 /** One epoch as CSV cells aligned with epochColumns(systems). */
 export function epochRow(s: EpochSolution, systems: readonly GnssSystem[]): string[] {
   const t = weekTowFromGpsS(s.timeGpsS);
   const tag = weekTowFromGpsS(s.tagGpsS);
+  const row: string[] = [String(t.week), fixed(t.towS, 3), isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'), fixed(tag.towS, 3), s.pointName, s.kind];
+  // A missing value (null, undefined) is NaN here: fixed() writes the same empty cell for both.
+  const v = cellValues;
   const g = s.geodetic;
   const p = s.position?.ecef ?? null;
   const b = s.baselineEcef;
   const e = s.baselineEnu;
-  const q = s.quality;
-  const ordered = GNSS_SYSTEMS.filter((x) => systems.includes(x));
-  return [
-    String(t.week),
-    fixed(t.towS, 3),
-    isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'),
-    fixed(tag.towS, 3),
-    s.pointName,
-    s.kind,
-    // 1e-9 deg is 0.1 mm: more than the data hold, so the CSV never limits precision.
-    g ? fixed(radToDeg(g.latRad), 9) : '',
-    g ? fixed(radToDeg(g.lonRad), 9) : '',
-    g ? fixed(g.heightM, 4) : '',
-    p ? fixed(p.x, 4) : '', p ? fixed(p.y, 4) : '', p ? fixed(p.z, 4) : '',
-    e ? fixed(e.e, 4) : '', e ? fixed(e.n, 4) : '', e ? fixed(e.u, 4) : '',
-    b ? fixed(Math.hypot(b.x, b.y, b.z), 4) : '',
-    ...ordered.map((x) => fixed(s.relativeClockM[x], 4)),
-    String(s.satellitesUsed),
-    fixed(s.dops?.pdop, 2), fixed(s.dops?.hdop, 2), fixed(s.dops?.vdop, 2),
-    fixed(s.sigmaEnuM?.e, 4), fixed(s.sigmaEnuM?.n, 4), fixed(s.sigmaEnuM?.u, 4),
-    fixed(q?.varianceFactor, 4), fixed(q?.chiSquare, 4), fixed(q?.critical, 4),
-    fixed(s.correctionAgeS, 3),
-    fixed(s.speedMS, 3),
-    fixed(s.antennaHeightM, 4),
-    s.reason,
-  ];
+  v[0] = g ? radToDeg(g.latRad) : NaN; v[1] = g ? radToDeg(g.lonRad) : NaN; v[2] = g?.heightM ?? NaN;
+  v[3] = p?.x ?? NaN; v[4] = p?.y ?? NaN; v[5] = p?.z ?? NaN;
+  v[6] = e?.e ?? NaN; v[7] = e?.n ?? NaN; v[8] = e?.u ?? NaN;
+  v[9] = b ? Math.hypot(b.x, b.y, b.z) : NaN;
+  pushFixedCells(row, POSITION_DECIMALS);
+  for (const x of GNSS_SYSTEMS) if (systems.includes(x)) row.push(fixed(s.relativeClockM[x], 4));
+  row.push(String(s.satellitesUsed));
+  const d = s.dops, se = s.sigmaEnuM, q = s.quality;
+  v[0] = d?.pdop ?? NaN; v[1] = d?.hdop ?? NaN; v[2] = d?.vdop ?? NaN;
+  v[3] = se?.e ?? NaN; v[4] = se?.n ?? NaN; v[5] = se?.u ?? NaN;
+  v[6] = q?.varianceFactor ?? NaN; v[7] = q?.chiSquare ?? NaN; v[8] = q?.critical ?? NaN;
+  v[9] = s.correctionAgeS ?? NaN; v[10] = s.speedMS ?? NaN; v[11] = s.antennaHeightM ?? NaN;
+  pushFixedCells(row, QUALITY_DECIMALS);
+  row.push(s.reason);
+  return row;
 }
 
 /** Systems that carry a relative clock in any of the solutions. */

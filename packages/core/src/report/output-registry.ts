@@ -94,20 +94,74 @@ function geographicPrj(kind: string, fileName: string, ctx: SolveOutputContext):
   return w ? [{ kind: `${kind}-prj`, fileName, text: w + '\n' }] : [];
 }
 
+/*
+ * The streamed writers are classes, not object literals of closures made per run: one class's epoch()
+ * is one function whatever the run, so the optimised code of the loop calling it (and of epoch() itself)
+ * serves every session of a batch. A closure made per run is a new call target each session, and the
+ * code that had it inlined is thrown away when the run ends.
+ */
+
+/** epochs.csv: each epoch's row as text at once (the CLI buffers the bytes): rows held back for a batch
+ * would outlive the collector's young generation and be copied into its old one. */
+class EpochsCsvWriter implements EpochOutputWriter {
+  constructor(private readonly ctx: SolveOutputContext) {}
+  start(): OutputChunk { return this.ctx.csv([epochTableColumns(this.ctx.systems)]); }
+  epoch(s: EpochSolution): OutputChunk { return this.ctx.csv([epochTableRow(s, this.ctx.systems)]); }
+  end(): OutputChunk { return ''; }
+}
+
+/** residuals.csv: one row per satellite per epoch. */
+class ResidualsCsvWriter implements EpochOutputWriter {
+  constructor(private readonly ctx: SolveOutputContext) {}
+  start(): OutputChunk { return this.ctx.csv([[...RESIDUAL_COLUMNS]]); }
+  epoch(s: EpochSolution): OutputChunk { return this.ctx.csv(residualRowsOf(s)); }
+  end(): OutputChunk { return ''; }
+}
+
+/** The frame of a feature without a position of its own. */
+const UNSTATED_FRAME: FrameEpoch = { name: 'unstated', epochYear: NaN };
+
+/** positions.geojson: the features array streamed, the collection written around it. */
+class GeojsonWriter implements EpochOutputWriter {
+  private features = 0;
+  constructor(private readonly ctx: SolveOutputContext) {}
+  start(): OutputChunk {
+    const ctx = this.ctx;
+    const head = {
+      type: 'FeatureCollection',
+      refdelta: { frame: ctx.frame.name, frame_epoch: jsonNumber(ctx.frame.epochYear, 4), point_reference: pointReferenceWords(ctx.pointReference), note: geojsonNote(ctx.frame) },
+    };
+    // The features array is streamed: the collection is written as its members, then the array.
+    return JSON.stringify(head).slice(0, -1) + ',"features":[\n';
+  }
+  epoch(s: EpochSolution): OutputChunk {
+    // Each feature carries its own row's frame (standalone rows: the broadcast orbits' frame).
+    const f = epochFeature(s, s.position?.frame ?? UNSTATED_FRAME);
+    return f ? (this.features++ ? ',\n' : '') + JSON.stringify(f) : '';
+  }
+  end(): OutputChunk { return '\n]}\n'; }
+}
+
+/** positions.kml: one placemark per epoch with a position. */
+class KmlWriter implements EpochOutputWriter {
+  constructor(private readonly ctx: SolveOutputContext) {}
+  start(): OutputChunk { return kmlStart('refdelta epoch positions', this.ctx.frame); }
+  epoch(s: EpochSolution): OutputChunk {
+    if (!s.geodetic || s.kind === 'none') return '';
+    const f = epochFeature(s, s.position?.frame ?? this.ctx.frame);
+    if (!f) return '';
+    return kmlPlacemark(isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'), radToDeg(s.geodetic.lonRad), radToDeg(s.geodetic.latRad), s.geodetic.heightM,
+      { ...f.properties, height_m: jsonNumber(s.geodetic.heightM, 4) });
+  }
+  end(): OutputChunk { return kmlEnd(); }
+}
+
 const EPOCHS: SolveOutputFormat = {
   kind: 'epochs',
   fileName: 'epochs.csv',
   defaultOn: true,
   description: 'one row per rover epoch: position, baseline, clocks, precision, tests',
-  open(ctx) {
-    // Each epoch's text at once (the CLI buffers the bytes): rows held back for a batch would outlive
-    // the collector's young generation and be copied into its old one.
-    return {
-      start: () => ctx.csv([epochTableColumns(ctx.systems)]),
-      epoch: (s) => ctx.csv([epochTableRow(s, ctx.systems)]),
-      end: () => '',
-    };
-  },
+  open: (ctx) => new EpochsCsvWriter(ctx),
   sidecars(ctx) {
     return [...geographicPrj('epochs', 'epochs.prj', ctx), { kind: 'epochs-csvt', fileName: 'epochs.csvt', text: csvtText(epochTableColumns(ctx.systems)) }, metaSidecar('epochs', 'epochs.csv', tableMetadata({
       file: 'epochs.csv',
@@ -131,13 +185,7 @@ const RESIDUALS: SolveOutputFormat = {
   fileName: 'residuals.csv',
   defaultOn: true,
   description: 'one row per satellite per rover epoch (long form): residual, weight, w-test, used or rejected with the reason',
-  open(ctx) {
-    return {
-      start: () => ctx.csv([[...RESIDUAL_COLUMNS]]),
-      epoch: (s) => ctx.csv(residualRowsOf(s)),
-      end: () => '',
-    };
-  },
+  open: (ctx) => new ResidualsCsvWriter(ctx),
   sidecars(ctx) {
     return [{ kind: 'residuals-csvt', fileName: 'residuals.csvt', text: csvtText(RESIDUAL_COLUMNS) }, metaSidecar('residuals', 'residuals.csv', tableMetadata({
       file: 'residuals.csv',
@@ -158,25 +206,7 @@ const GEOJSON: SolveOutputFormat = {
   fileName: 'positions.geojson',
   defaultOn: true,
   description: 'RFC 7946 FeatureCollection of the epoch positions; the actual frame in the member "refdelta" and each feature',
-  open(ctx) {
-    let n = 0;
-    return {
-      start: () => {
-        const head = {
-          type: 'FeatureCollection',
-          refdelta: { frame: ctx.frame.name, frame_epoch: jsonNumber(ctx.frame.epochYear, 4), point_reference: pointReferenceWords(ctx.pointReference), note: geojsonNote(ctx.frame) },
-        };
-        // The features array is streamed: the collection is written as its members, then the array.
-        return JSON.stringify(head).slice(0, -1) + ',"features":[\n';
-      },
-      epoch: (s) => {
-        // Each feature carries its own row's frame (standalone rows: the broadcast orbits' frame).
-        const f = epochFeature(s, s.position?.frame ?? { name: 'unstated', epochYear: NaN });
-        return f ? (n++ ? ',\n' : '') + JSON.stringify(f) : '';
-      },
-      end: () => '\n]}\n',
-    };
-  },
+  open: (ctx) => new GeojsonWriter(ctx),
   sidecars: () => [],
 };
 
@@ -185,19 +215,7 @@ const KML: SolveOutputFormat = {
   fileName: 'positions.kml',
   defaultOn: false,
   description: 'KML 2.2 of the epoch positions (points: also points.kml); the actual frame stated in the document',
-  open(ctx) {
-    return {
-      start: () => kmlStart('refdelta epoch positions', ctx.frame),
-      epoch: (s) => {
-        if (!s.geodetic || s.kind === 'none') return '';
-        const f = epochFeature(s, s.position?.frame ?? ctx.frame);
-        if (!f) return '';
-        return kmlPlacemark(isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'), radToDeg(s.geodetic.lonRad), radToDeg(s.geodetic.latRad), s.geodetic.heightM,
-          { ...f.properties, height_m: jsonNumber(s.geodetic.heightM, 4) });
-      },
-      end: () => kmlEnd(),
-    };
-  },
+  open: (ctx) => new KmlWriter(ctx),
   sidecars: () => [],
 };
 

@@ -26,7 +26,7 @@ export interface CodeSolverContext {
   /** Null: no standalone fallback. */
   readonly standalone: StandaloneContext | null;
   /** Rover speed (m/s) from Doppler, reusing the satellites already computed. */
-  readonly speedAt: (e: ObsEpoch, arpM: EcefM, sd: SingleDifferenceEpoch) => number;
+  readonly speed: { speedAt(e: ObsEpoch, arpM: EcefM, sd: SingleDifferenceEpoch): number };
   /** Samples the satellites' code offsets from the epochs' fixes (reported only). */
   readonly offsetSurvey?: CodeOffsetSurvey;
 }
@@ -120,5 +120,5 @@ export function solveCodeEpoch(
   rover.lastPosition = fix.positionM;
   rover.lastClockM = fix.clocksM.values().next().value ?? sd.codeClockM;
   for (const s of fix.clocksM.keys()) ctx.tally.systemsUsed.add(s);
-  return differentialRecord(ctx.records, e, fix, ctx.kind, refArp, satellites, sd.maxAgeS, ctx.speedAt(e, fix.positionM, sd), sd.referenceClockM);
+  return differentialRecord(ctx.records, e, fix, ctx.kind, refArp, satellites, sd.maxAgeS, ctx.speed.speedAt(e, fix.positionM, sd), sd.referenceClockM);
 }

@@ -16,8 +16,12 @@ export interface RecordContext {
   readonly reduceToMark: boolean;
   readonly frame: FrameEpoch;
   readonly refMark: EcefM;
-  /** Rover speed over ground (m/s) from Doppler at a position; NaN without Doppler. */
-  readonly speedAt: (e: ObsEpoch, arpM: EcefM) => number;
+  readonly speed: RoverSpeed;
+}
+
+/** Rover speed over ground (m/s) from Doppler at a position; NaN without Doppler. */
+export interface RoverSpeed {
+  speedAt(e: ObsEpoch, arpM: EcefM): number;
 }
 
 export function noSolutionSatellite(sat: SatId, reason: string): SatelliteResidual {
@@ -65,7 +69,7 @@ export function standaloneRecord(ctx: RecordContext, e: ObsEpoch, fix: PositionF
     baselineEcef: null, baselineEnu: null, relativeClockM: {}, satellitesUsed: fix.used.length,
     dops: fix.dops, sigmaEnuM: fix.sigmaEnuM, quality: qualityOf(fix),
     correctionAgeS: ageS, satellites,
-    speedMS: ctx.speedAt(e, arp), occupationEvent: ctx.rover.pendingEvent, antennaHeightM: ctx.rover.antenna.heightM,
+    speedMS: ctx.speed.speedAt(e, arp), occupationEvent: ctx.rover.pendingEvent, antennaHeightM: ctx.rover.antenna.heightM,
   };
 }
 

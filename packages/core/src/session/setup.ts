@@ -55,6 +55,19 @@ export function systemLeftOutReason(system: GnssSystem, options: SessionOptions,
   return !options.systems.includes(system) ? 'constellation not selected' : !navSystems.has(system) ? 'no ephemeris for this constellation' : 'GLONASS excluded by option';
 }
 
+/**
+ * systemLeftOutReason for one session, as an object with a method: asked for every satellite of a system
+ * left out, at every epoch, it is one call target for every session of a batch (a closure made per
+ * session would be a new one each time, and the optimised code calling it would be discarded).
+ */
+export class LeftOutSystems {
+  constructor(private readonly options: SessionOptions, private readonly navSystems: ReadonlySet<GnssSystem>) {}
+
+  reasonFor(system: GnssSystem): string {
+    return systemLeftOutReason(system, this.options, this.navSystems);
+  }
+}
+
 export function prepareSession(rover: ObsStream, references: readonly ObsStream[], nav: NavData, options: SessionOptions, warn: WarningSink, wholeSession: boolean): SessionSetup {
   if (references.length === 0) throw new ProcessingError('no reference observation file was given');
   const store = new EphemerisStore(nav);
@@ -114,8 +127,20 @@ export function prepareSession(rover: ObsStream, references: readonly ObsStream[
 }
 
 /** One receiver's code variance (m^2): elevation model times the signal-strength factor when enabled (solve/weights.ts). */
-export function codeVarianceOf(setup: SessionSetup): (elRad: number, cn0DbHz: number) => number {
-  return (elRad, cn0) => elevationVarianceM2(elRad, setup.weighting, cn0);
+/**
+ * One receiver's code variance with the session's weighting. An object with a method, not a closure made
+ * per session: asked for every satellite of every epoch, it is one call target for every session.
+ */
+export class CodeVariance {
+  constructor(private readonly weighting: ElevationWeightParams) {}
+
+  varianceM2(elevationRad: number, cn0DbHz: number): number {
+    return elevationVarianceM2(elevationRad, this.weighting, cn0DbHz);
+  }
+}
+
+export function codeVarianceOf(setup: SessionSetup): CodeVariance {
+  return new CodeVariance(setup.weighting);
 }
 
 function referenceCoordinate(roverHeader: ObsHeader, reference: ObsStream, options: SessionOptions, warn: WarningSink): { mark: EcefM; frame: FrameEpoch; source: string; notes: string[] } {

@@ -14,7 +14,7 @@ import { dopplerVelocity } from '../velocity/index.js';
 import { ReceiverSmoother, type SmoothingArcs } from '../smoothing/index.js';
 import type { SessionOptions } from './options.js';
 import type { EpochSolution, SessionSummary } from './solution-types.js';
-import { codeVarianceOf, prepareSession, systemLeftOutReason, type SessionSetup } from './setup.js';
+import { codeVarianceOf, LeftOutSystems, prepareSession, type SessionSetup } from './setup.js';
 import { ReferenceFeed } from './reference-feed.js';
 import { RoverState } from './rover-state.js';
 import { SessionTally } from './session-tally.js';
@@ -43,23 +43,28 @@ export interface SessionRun {
   summary(): SessionSummary;
 }
 
-/** Horizontal speed from the epoch's Doppler at the solved position (NaN without Doppler). */
-function speedFor(setup: SessionSetup) {
-  return (e: ObsEpoch, at: EcefM, sd?: SingleDifferenceEpoch): number => {
+/**
+ * Horizontal speed from the epoch's Doppler at the solved position (NaN without Doppler). An object with
+ * a method rather than a closure made per session, so the call sites stay monomorphic across sessions.
+ */
+class DopplerSpeed {
+  constructor(private readonly setup: SessionSetup) {}
+
+  speedAt(e: ObsEpoch, at: EcefM, sd?: SingleDifferenceEpoch): number {
+    const setup = this.setup;
     const satellites = sd ? new Map(sd.prepared.map((p) => [p.sat, p.at] as const)) : undefined;
     const v = dopplerVelocity(e, at, setup.store, { systems: setup.systems, elevationMaskRad: setup.maskRad, glonassChannels: setup.glonassChannels, ...(satellites ? { satellites } : {}) });
     return v ? v.speedMS : NaN;
-  };
+  }
 }
 
 /** The code epoch solver's context for the second (or only) pass. */
-function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: SessionOptions, corrections: ReferenceCorrections, records: RecordContext, tally: SessionTally, offsets: CodeOffsetSource | null, roverHeader: ObsHeader, offsetSurvey: CodeOffsetSurvey): CodeSolverContext {
-  const speed = speedFor(setup);
+function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: SessionOptions, corrections: ReferenceCorrections, records: RecordContext, tally: SessionTally, offsets: CodeOffsetSource | null, roverHeader: ObsHeader, offsetSurvey: CodeOffsetSurvey, speed: DopplerSpeed): CodeSolverContext {
   return {
     differencing: {
-      store: setup.store, systems: setup.systems, systemReason: (s) => systemLeftOutReason(s, options, setup.navSystems), corrections,
+      store: setup.store, systems: setup.systems, leftOut: new LeftOutSystems(options, setup.navSystems), corrections,
       iono: inputs.nav.ionosphere, glonassChannels: setup.glonassChannels, maskRad: setup.maskRad, maxAgeS: options.maxCorrectionAgeS,
-      codeVarianceM2: codeVarianceOf(setup), offsets,
+      codeVariance: codeVarianceOf(setup), offsets,
     },
     records, tally, fixOptions: setup.fixOptions, maxPdop: options.quality.maxPdop,
     kind: options.smoothing.enabled ? 'smoothed' : 'differential', roverHeader,
@@ -67,80 +72,134 @@ function codeSolverFor(setup: SessionSetup, inputs: SessionInputs, options: Sess
       store: setup.store, iono: inputs.nav.ionosphere, systems: options.systems.filter((s) => setup.navSystems.has(s)), elevationMaskRad: setup.maskRad,
       weighting: setup.weighting, frequencyMode: 'auto', glonassChannels: setup.glonassChannels,
     } : null,
-    speedAt: speed,
+    speed,
     offsetSurvey,
   };
 }
 
-export async function solveSession(inputs: SessionInputs, options: SessionOptions): Promise<SessionRun> {
-  const warn: WarningSink = inputs.onWarning ?? (() => undefined);
-  const setup = prepareSession(inputs.rover, inputs.references, inputs.nav, options, warn, inputs.reopen !== undefined);
-  const state = new RoverState(inputs.rover.header.markerName, setup.roverAntenna, options.roverAntenna !== undefined);
-  const tally = new SessionTally();
-  const speed = speedFor(setup);
-  const records: RecordContext = { rover: state, reduceToMark: options.reduceToMark, frame: setup.frame, refMark: setup.refMark, speedAt: (e, at) => speed(e, at) };
-  const corrections = new ReferenceCorrections({ store: setup.store, iono: inputs.nav.ionosphere, systems: setup.systems, glonassChannels: setup.glonassChannels });
-  const offsetSurvey = codeOffsetSurvey(setup);
-  let survey: SurveyResult | null = null;
-  let passes = 1;
-  let feed: ReferenceFeed | null = null;
+/** What a code session's loop and its summary share. */
+class CodeSession {
+  survey: SurveyResult | null = null;
+  passes = 1;
+  readonly warn: WarningSink;
+  readonly setup: SessionSetup;
+  readonly state: RoverState;
+  readonly tally = new SessionTally();
+  readonly speed: DopplerSpeed;
+  readonly records: RecordContext;
+  readonly corrections: ReferenceCorrections;
+  readonly offsetSurvey: CodeOffsetSurvey;
 
-  async function* run(): AsyncIterable<EpochSolution> {
-    let rover = inputs.rover, references = inputs.references;
-    if (inputs.reopen && firstPassLearns(setup, options)) {
-      survey = await surveySession(setup, rover, references, inputs.nav, options, offsetSurvey);
-      ({ rover, references } = await inputs.reopen());
-      passes = 2;
-    }
-    const sm = options.smoothing;
-    // Without a first pass the reference has no arcs: it is smoothed only with the rover, forwards.
-    const smoother = (intervalS: number | null, arcs: SmoothingArcs | null) => (sm.enabled || arcs
-      ? new ReceiverSmoother(intervalS ?? 1, sm.timeConstantS, setup.systems, setup.glonassChannels, sm.maxGapS, arcs ? 'combined' : 'forward', arcs)
-      : null);
-    const roverSmoother = smoother(rover.header.intervalS, survey?.roverArcs ?? null);
-    const f = feed = new ReferenceFeed(references, corrections, setup.refMark, setup.refAntenna, options.reference.antenna !== undefined,
-      smoother(references[0].header.intervalS, survey?.referenceArcs ?? null), options.maxCorrectionAgeS, setup.notes, warn);
-    const solver = codeSolverFor(setup, inputs, options, corrections, records, tally, survey?.offsets ?? null, rover.header, offsetSurvey);
-    for await (const e of rover.epochs) {
-      if (e.event) {
-        state.applyEvent(e);
-        if (e.flag === 1) roverSmoother?.reset();
-      }
-      if (e.flag === 6) roverSmoother?.slipsReported(e);
-      if (e.flag !== 0 && e.flag !== 1) continue;
-      if (e.sats.length === 0 && e.event) continue;
-      tally.epochSeen(e.tagGpsS);
-      await f.pullUntil(e.tagGpsS + f.lookaheadS);
-      corrections.prune(e.tagGpsS, options.maxCorrectionAgeS + 2);
-      const smoothed = roverSmoother?.update(e);
-      let sol: EpochSolution;
-      try {
-        sol = e.sats.length === 0 ? noSolution(records, e, 'no satellites in the epoch', []) : solveCodeEpoch(solver, e, smoothed, roverSmoother?.factors, f.arpM);
-      } catch (err) {
-        const msg = err instanceof Error ? err.message : String(err);
-        warn({ file: rover.file, line: e.line, code: 'epoch-failed', message: `epoch at line ${e.line} could not be solved: ${msg}` });
-        sol = noSolution(records, e, `could not be solved: ${msg}`, []);
-      }
-      state.pendingEvent = null;
-      tally.epochOut(sol);
-      yield sol;
-    }
-    if (tally.roverEpochs > 0 && tally.epochsInReach === 0) {
-      const span = (a: number, b: number) => (Number.isNaN(a) ? 'no epochs' : `${isoFromSeconds(a, ' GPST')} to ${isoFromSeconds(b, ' GPST')}`);
-      if (Number.isNaN(f.firstGpsS)) throw new ProcessingError(`the reference file${references.length > 1 ? 's' : ''} ${references.map((x) => x.file).join(', ')} gave no readable observation epoch (see the warnings)`);
-      const ageS = options.maxCorrectionAgeS;
-      if (f.firstGpsS <= tally.lastGpsS + ageS && f.lastGpsS >= tally.firstGpsS - ageS) {
-        // The times overlap, yet no reference epoch gave a correction: the orbits are what is missing.
-        throw new ProcessingError(`the rover and reference observations overlap in time (rover ${span(tally.firstGpsS, tally.lastGpsS)}, reference ${span(f.firstGpsS, f.lastGpsS)}) but no reference epoch gave a correction: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for these times (stale, for another day, or damaged)`);
-      }
-      throw new ProcessingError(`the rover and reference observations do not overlap in time (rover ${span(tally.firstGpsS, tally.lastGpsS)}, reference ${span(f.firstGpsS, f.lastGpsS)}, correction age limit ${options.maxCorrectionAgeS} s)`);
-    }
+  constructor(readonly inputs: SessionInputs, readonly options: SessionOptions) {
+    this.warn = inputs.onWarning ?? (() => undefined);
+    const setup = this.setup = prepareSession(inputs.rover, inputs.references, inputs.nav, options, this.warn, inputs.reopen !== undefined);
+    this.state = new RoverState(inputs.rover.header.markerName, setup.roverAntenna, options.roverAntenna !== undefined);
+    this.speed = new DopplerSpeed(setup);
+    this.records = { rover: this.state, reduceToMark: options.reduceToMark, frame: setup.frame, refMark: setup.refMark, speed: this.speed };
+    this.corrections = new ReferenceCorrections({ store: setup.store, iono: inputs.nav.ionosphere, systems: setup.systems, glonassChannels: setup.glonassChannels });
+    this.offsetSurvey = codeOffsetSurvey(setup);
   }
+}
 
+/** The session's receiver smoother, or null when nothing is smoothed. Without a first pass the reference has no arcs: it is smoothed only with the rover, forwards. */
+function smootherOf(session: CodeSession, intervalS: number | null, arcs: SmoothingArcs | null): ReceiverSmoother | null {
+  const sm = session.options.smoothing;
+  const setup = session.setup;
+  return sm.enabled || arcs
+    ? new ReceiverSmoother(intervalS ?? 1, sm.timeConstantS, setup.systems, setup.glonassChannels, sm.maxGapS, arcs ? 'combined' : 'forward', arcs)
+    : null;
+}
+
+/** What the solving pass reads and solves with: the streams (opened afresh after a first pass), the smoother and the reference feed. */
+interface SolvingPass {
+  readonly rover: ObsStream;
+  readonly references: readonly ObsStream[];
+  readonly roverSmoother: ReceiverSmoother | null;
+  readonly feed: ReferenceFeed;
+  readonly solver: CodeSolverContext;
+}
+
+/**
+ * The first pass when it learns something, then the solving pass set up. A function of its own, called
+ * once per session: the callbacks it calls (reopen) are the session's own closures, which would tie the
+ * optimised code of the epoch loop to one session if they were called there.
+ */
+async function solvingPass(session: CodeSession): Promise<SolvingPass> {
+  const { inputs, options, setup, corrections, records, tally, warn } = session;
+  let rover = inputs.rover, references = inputs.references;
+  if (inputs.reopen && firstPassLearns(setup, options)) {
+    session.survey = await surveySession(setup, rover, references, inputs.nav, options, session.offsetSurvey);
+    ({ rover, references } = await inputs.reopen());
+    session.passes = 2;
+  }
+  const survey = session.survey;
+  const roverSmoother = smootherOf(session, rover.header.intervalS, survey?.roverArcs ?? null);
+  const feed = new ReferenceFeed(references, corrections, setup.refMark, setup.refAntenna, options.reference.antenna !== undefined,
+    smootherOf(session, references[0].header.intervalS, survey?.referenceArcs ?? null), options.maxCorrectionAgeS, setup.notes, warn);
+  const solver = codeSolverFor(setup, inputs, options, corrections, records, tally, survey?.offsets ?? null, rover.header, session.offsetSurvey, session.speed);
+  return { rover, references, roverSmoother, feed, solver };
+}
+
+/**
+ * The session's epochs: every rover epoch solved. A module-level generator (not one made per session):
+ * its generator objects share one hidden class, so the optimised code of the loops that consume them
+ * serves every session of a batch; the loop calls no closure of the session's (solvingPass).
+ */
+async function* sessionEpochs(session: CodeSession): AsyncIterable<EpochSolution> {
+  const { options, state, tally, records, corrections } = session;
+  const { rover, references, roverSmoother, feed: f, solver } = await solvingPass(session);
+  for await (const e of rover.epochs) {
+    if (e.event) {
+      state.applyEvent(e);
+      if (e.flag === 1) roverSmoother?.reset();
+    }
+    if (e.flag === 6) roverSmoother?.slipsReported(e);
+    if (e.flag !== 0 && e.flag !== 1) continue;
+    if (e.sats.length === 0 && e.event) continue;
+    tally.epochSeen(e.tagGpsS);
+    await f.pullUntil(e.tagGpsS + f.lookaheadS);
+    corrections.prune(e.tagGpsS, options.maxCorrectionAgeS + 2);
+    const smoothed = roverSmoother?.update(e);
+    let sol: EpochSolution;
+    try {
+      sol = e.sats.length === 0 ? noSolution(records, e, 'no satellites in the epoch', []) : solveCodeEpoch(solver, e, smoothed, roverSmoother?.factors, f.arpM);
+    } catch (err) {
+      sol = failedEpoch(session, rover.file, e, err);
+    }
+    state.pendingEvent = null;
+    tally.epochOut(sol);
+    yield sol;
+  }
+  if (tally.roverEpochs > 0 && tally.epochsInReach === 0) throwWithoutCorrections(session, f, references);
+}
+
+/** An epoch whose solving threw: warned about, and handed out without a solution. */
+function failedEpoch(session: CodeSession, file: string, e: ObsEpoch, err: unknown): EpochSolution {
+  const msg = err instanceof Error ? err.message : String(err);
+  session.warn({ file, line: e.line, code: 'epoch-failed', message: `epoch at line ${e.line} could not be solved: ${msg}` });
+  return noSolution(session.records, e, `could not be solved: ${msg}`, []);
+}
+
+/** Why no rover epoch had a reference correction: no reference epoch, no ephemeris, or no overlap in time. */
+function throwWithoutCorrections(session: CodeSession, f: ReferenceFeed, references: readonly ObsStream[]): never {
+  const { tally, options, inputs } = session;
+  const span = (a: number, b: number) => (Number.isNaN(a) ? 'no epochs' : `${isoFromSeconds(a, ' GPST')} to ${isoFromSeconds(b, ' GPST')}`);
+  if (Number.isNaN(f.firstGpsS)) throw new ProcessingError(`the reference file${references.length > 1 ? 's' : ''} ${references.map((x) => x.file).join(', ')} gave no readable observation epoch (see the warnings)`);
+  const ageS = options.maxCorrectionAgeS;
+  if (f.firstGpsS <= tally.lastGpsS + ageS && f.lastGpsS >= tally.firstGpsS - ageS) {
+    // The times overlap, yet no reference epoch gave a correction: the orbits are what is missing.
+    throw new ProcessingError(`the rover and reference observations overlap in time (rover ${span(tally.firstGpsS, tally.lastGpsS)}, reference ${span(f.firstGpsS, f.lastGpsS)}) but no reference epoch gave a correction: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for these times (stale, for another day, or damaged)`);
+  }
+  throw new ProcessingError(`the rover and reference observations do not overlap in time (rover ${span(tally.firstGpsS, tally.lastGpsS)}, reference ${span(f.firstGpsS, f.lastGpsS)}, correction age limit ${options.maxCorrectionAgeS} s)`);
+}
+
+export async function solveSession(inputs: SessionInputs, options: SessionOptions): Promise<SessionRun> {
+  const session = new CodeSession(inputs, options);
+  const { setup, tally, corrections, offsetSurvey } = session;
   return {
-    epochs: run(),
+    epochs: sessionEpochs(session),
     summary: (): SessionSummary => {
-      const offsets = ((survey as SurveyResult | null)?.offsets ?? new SessionCodeOffsets(offsetSurvey, false, options.quality.alphaLocal)).reports;
+      const offsets = (session.survey?.offsets ?? new SessionCodeOffsets(offsetSurvey, false, options.quality.alphaLocal)).reports;
       const channelNote = offsets.some((r) => r.key.startsWith('R channel'))
         ? [`GLONASS per-channel code offsets about their mean (channel: m): ${offsets.filter((r) => r.key.startsWith('R channel')).map((r) => `${r.key.slice(10)}: ${(r.relativeToChannelMeanM ?? 0).toFixed(2)} +- ${r.sigmaM.toFixed(2)}`).join(', ')}`]
         : [];
@@ -158,7 +217,7 @@ export async function solveSession(inputs: SessionInputs, options: SessionOption
         notes: [...setup.notes, ...channelNote, ...satNote, ...(corrections.unusableEpochs > 0 ? [`${corrections.unusableEpochs} reference epochs had no satellite with an ephemeris and were not used`] : [])],
         firstGpsS: tally.firstGpsS, lastGpsS: tally.lastGpsS,
         codeOffsets: offsets,
-        passes,
+        passes: session.passes,
       };
     },
   };

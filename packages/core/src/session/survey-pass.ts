@@ -11,7 +11,7 @@ import type { EcefM, NavData, ObsStream } from '../gnss/index.js';
 import { ReferenceCorrections, SingleDifferenceEpoch, type DifferencingContext } from '../differencing/index.js';
 import { ReceiverSmoother, SmoothingArcs } from '../smoothing/index.js';
 import type { SessionOptions } from './options.js';
-import { codeVarianceOf, systemLeftOutReason, type SessionSetup } from './setup.js';
+import { codeVarianceOf, LeftOutSystems, type SessionSetup } from './setup.js';
 import { ReferenceFeed } from './reference-feed.js';
 import { CodeOffsetSurvey, SessionCodeOffsets } from './code-offsets.js';
 
@@ -50,9 +50,9 @@ export async function surveySession(setup: SessionSetup, rover: ObsStream, refer
     options.maxCorrectionAgeS, [], () => undefined);
   const roverRecorder = recorder(rover.header.intervalS, roverArcs);
   const differencing: DifferencingContext = {
-    store: setup.store, systems: setup.systems, systemReason: (s) => systemLeftOutReason(s, options, setup.navSystems), corrections,
+    store: setup.store, systems: setup.systems, leftOut: new LeftOutSystems(options, setup.navSystems), corrections,
     iono: nav.ionosphere, glonassChannels: setup.glonassChannels, maskRad: setup.maskRad, maxAgeS: options.maxCorrectionAgeS,
-    codeVarianceM2: codeVarianceOf(setup), offsets: null,
+    codeVariance: codeVarianceOf(setup), offsets: null,
   };
   let position: EcefM | null = null;
   let clockM = NaN;

@@ -71,8 +71,13 @@ export class ReceiverSmoother {
   private readonly jumpsM = new Map<string, number>();
   /** The arc each satellite is in, per code (code -> sat -> arc). */
   private readonly current = new Map<string, Map<SatId, SmoothingArc | undefined>>();
-  /** Variance factor of the last update's outputs: sat -> code -> factor. */
+  /**
+   * Variance factor of the last update's outputs: sat -> code -> factor. A satellite's map is kept from
+   * epoch to epoch and emptied (a satellite without values this epoch has an empty one).
+   */
   readonly factors = new Map<SatId, Map<string, number>>();
+  /** The last update's smoothed values, kept and emptied as `factors` (update() returns it). */
+  private readonly smoothed = new Map<SatId, Map<string, number>>();
   restarts = 0;
   /** The inputs per code, in the order the codes first came in this epoch (inputsOf). */
   private readonly inputs: CodeInputs[] = [];
@@ -123,10 +128,14 @@ export class ReceiverSmoother {
     }
   }
 
-  /** Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value). */
-  update(epoch: ObsEpoch): Map<SatId, Map<string, number>> {
-    const out = new Map<SatId, Map<string, number>>();
-    this.factors.clear();
+  /**
+   * Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value), valid until
+   * the next update. The maps are reused, not made per satellite and epoch.
+   */
+  update(epoch: ObsEpoch): ReadonlyMap<SatId, ReadonlyMap<string, number>> {
+    const out = this.smoothed;
+    for (const m of out.values()) m.clear();
+    for (const m of this.factors.values()) m.clear();
     const t = epoch.tagGpsS;
     this.inputsOf(epoch);
     for (const { code, list } of this.inputs) {

@@ -43,6 +43,14 @@ export function autocorrelation(x: ArrayLike<number>, maxLag: number): Float64Ar
   return rho;
 }
 
+/** rho_k of the centred series d with lag-0 sum c0 (a module-level function: one compiled code for every call). */
+function lagCorrelation(d: Float64Array, c0: number, k: number): number {
+  const n = d.length;
+  let c = 0;
+  for (let i = 0; i + k < n; i++) c += d[i]! * d[i + k]!;
+  return c / c0;
+}
+
 /**
  * Integrated autocorrelation time tau and n_eff = n / tau (Geyer 1992 initial positive sequence). The
  * autocorrelation is computed lag by lag only until the sequence stops, so the cost is n times the
@@ -53,15 +61,10 @@ export function effectiveSampleSize(x: ArrayLike<number>): { nEff: number; tau: 
   if (n < 4) return { nEff: n, tau: 1 };
   const { d, c0 } = centred(x);
   if (c0 === 0) return { nEff: n, tau: 1 };
-  const rhoAt = (k: number): number => {
-    let c = 0;
-    for (let i = 0; i + k < n; i++) c += d[i]! * d[i + k]!;
-    return c / c0;
-  };
   // Geyer (1992) 3.3: tau = -1 + 2 sum_m Gamma_m, Gamma_m = rho_2m + rho_2m+1 while Gamma_m > 0.
   let sum = 0;
   for (let m = 0; 2 * m + 1 <= n - 1; m++) {
-    const g = (m === 0 ? 1 : rhoAt(2 * m)) + rhoAt(2 * m + 1);
+    const g = (m === 0 ? 1 : lagCorrelation(d, c0, 2 * m)) + lagCorrelation(d, c0, 2 * m + 1);
     if (!(g > 0)) break;
     sum += g;
   }

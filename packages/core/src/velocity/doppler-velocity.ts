@@ -118,6 +118,13 @@ function pseudorangeFor(s: SatObservations, dopplerCode: string): number | null 
   return v > 1e6 && v < 1e9 ? v : null;
 }
 
+/** The 1-sigma of one ENU axis from the ECEF velocity covariance q (n x n, first 3 x 3 used), its rows rotated by `rot`, scaled by f. */
+function enuSigmaMS(rot: readonly EnuM[], q: Float64Array, n: number, f: number, axis: 'e' | 'n' | 'u'): number {
+  let s = 0;
+  for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) s += rot[a]![axis] * q[a * n + b]! * rot[b]![axis];
+  return Math.sqrt(Math.max(s, 0) * f);
+}
+
 export function dopplerVelocity(epoch: ObsEpoch, positionM: EcefM, store: EphemerisStore, opts: DopplerVelocityOptions): DopplerVelocity | null {
   const g = ecefToGeodetic(positionM);
   const rows: Row[] = [];
@@ -192,18 +199,13 @@ export function dopplerVelocity(epoch: ObsEpoch, positionM: EcefM, store: Epheme
       ecefDeltaToEnu({ x: 0, y: 1, z: 0 }, g.latRad, g.lonRad),
       ecefDeltaToEnu({ x: 0, y: 0, z: 1 }, g.latRad, g.lonRad),
     ];
-    const comp = (pick: (u: EnuM) => number): number => {
-      let s = 0;
-      for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) s += pick(rot[a]) * q[a * n + b] * pick(rot[b]);
-      return Math.sqrt(Math.max(s, 0) * f);
-    };
     const clockDriftMS: Partial<Record<GnssSystem, number>> = {};
     systems.forEach((s, i) => { clockDriftMS[s] = sol.x[3 + i]; });
     return {
       velocityEnuMS: enu,
       velocityEcefMS: v,
       speedMS: Math.hypot(enu.e, enu.n),
-      sigmaEnuMS: { e: comp((u) => u.e), n: comp((u) => u.n), u: comp((u) => u.u) },
+      sigmaEnuMS: { e: enuSigmaMS(rot, q, n, f, 'e'), n: enuSigmaMS(rot, q, n, f, 'n'), u: enuSigmaMS(rot, q, n, f, 'u') },
       sigma0,
       clockDriftMS,
       satellitesUsed: m,
