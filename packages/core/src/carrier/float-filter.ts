@@ -38,6 +38,7 @@ import type { CarrierOptions } from './options.js';
 import type { EpochRecords } from './epoch-records.js';
 import type { GnssSystem, SatId } from '../gnss/index.js';
 import { ionosphereObliquity, type IonosphereWeighting } from './ionosphere-weighting.js';
+import { keepShape } from './kept-shapes.js';
 
 /** One entry of the signal table: a satellite's signal on one band (the primary band, or a further one). */
 export interface SatelliteInfo {
@@ -86,6 +87,10 @@ export class EpochResult {
    */
   residualM = new Float32Array(64);
 
+  constructor() {
+    keepShape(this);
+  }
+
   /** Clears the result for an epoch of `entries` record entries. */
   start(entries: number): void {
     this.kind = 0; this.ratio = NaN; this.fixedAmbiguities = 0; this.satellitesUsed = 0;
@@ -130,6 +135,7 @@ class KalmanState {
     this.x = new Float64Array(this.cap);
     this.p = new Float64Array(this.cap * this.cap);
     this.ph = new Float64Array(this.cap);
+    keepShape(this);
   }
 
   private grow(): void {
@@ -315,6 +321,13 @@ function nominalIntervalS(rec: EpochRecords): number {
   return d.length ? median(d) : 1;
 }
 
+/** The median of the first n values of v (sorted in place). */
+function medianInPlace(v: Float64Array, n: number): number {
+  const s = v.subarray(0, n).sort();
+  const m = n >> 1;
+  return n % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
 function median(v: number[]): number {
   const s = [...v].sort((a, b) => a - b);
   const m = s.length >> 1;
@@ -377,6 +390,7 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
   const runner = new PassRunner(rec, setup);
   const outputs: PassCounts[] = [];
   for (const pass of passes) outputs.push(runner.run(pass));
+  runner.dropPassState();
   return outputs;
 }
 
@@ -451,8 +465,10 @@ class PassRunner {
   private fixQs = new Float64Array(0);
   private fixQxa: Float64Array[] = [];
   private fixRhs: Float64Array[] = [];
-  // Per-epoch scratch: the clock samples, the arcs of this epoch and of the previous one.
-  private readonly samples: number[] = [];
+  // Per-epoch scratch: the clock samples (a typed array: a plain one started each pass as an array of small
+  // integers, and its first fraction changed its shape under the optimised code), the arcs of this epoch
+  // and of the previous one.
+  private samples = new Float64Array(64);
   private arcsNow = new Set<number>();
   private arcsBefore = new Set<number>();
 
@@ -489,6 +505,18 @@ class PassRunner {
     this.iono = setup.ionosphere ?? null;
     this.ionoNow = new Int32Array(satIds.length).fill(-1);
     this.st = new KalmanState(this.fixedSlots);
+    keepShape(this);
+  }
+
+  /** Drops the last pass's state and scratch (the runner itself is kept: kept-shapes.ts). */
+  dropPassState(): void {
+    this.st = new KalmanState(0);
+    this.onFix = undefined;
+    this.arcSlot.clear(); this.arcSeen.clear(); this.pivots.clear(); this.holdCount.clear(); this.holdSeen.clear();
+    this.ionoSlot.clear(); this.ionoSeen.clear();
+    this.conditioned = new Float64Array(0);
+    this.fixA = new Float64Array(0); this.fixD = new Float64Array(0); this.fixQ = new Float64Array(0); this.fixQs = new Float64Array(0);
+    this.fixQxa = []; this.fixRhs = [];
   }
 
   /** One pass from a fresh state: its epochs' results to its consumer, its fixes to its onFix. */
@@ -605,20 +633,21 @@ class PassRunner {
     }
     // Clocks: free every epoch, started at the median code difference of the constellation.
     const dx = st.x[0] - x0x, dy = st.x[1] - x0y, dz = st.x[2] - x0z;
+    if (this.samples.length < j1 - j0) this.samples = new Float64Array(2 * (j1 - j0));
     const samples = this.samples, clockOfEntry = this.clockOfEntry, phaseClockOfEntry = this.phaseClockOfEntry;
     for (const [sys, slot] of this.clockSlot) {
-      samples.length = 0;
-      for (let j = j0; j < j1; j++) if (clockOfEntry[rec.sat[j]] === slot && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - this.geometry(j, dx, dy, dz));
-      st.reset(slot, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
+      let ns = 0;
+      for (let j = j0; j < j1; j++) if (clockOfEntry[rec.sat[j]] === slot && Number.isFinite(rec.codeM[j])) samples[ns++] = rec.codeM[j] - this.geometry(j, dx, dy, dz);
+      st.reset(slot, ns ? medianInPlace(samples, ns) : 0, CLOCK_VAR_M2);
       const ps = this.phaseClockSlot.get(sys)!;
       if (ps === slot) continue;
-      samples.length = 0;
+      ns = 0;
       for (let j = j0; j < j1; j++) {
         if (clockOfEntry[rec.sat[j]] !== slot || !Number.isFinite(rec.phaseM[j])) continue;
         const a = arcSlot.get(rec.arc[j]);
-        if (a !== undefined) samples.push(rec.phaseM[j] - this.geometry(j, dx, dy, dz) - sats[rec.sat[j]].wavelengthM * st.x[a] + this.ionoTerm(j, st.x));
+        if (a !== undefined) samples[ns++] = rec.phaseM[j] - this.geometry(j, dx, dy, dz) - sats[rec.sat[j]].wavelengthM * st.x[a] + this.ionoTerm(j, st.x);
       }
-      st.reset(ps, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
+      st.reset(ps, ns ? medianInPlace(samples, ns) : 0, CLOCK_VAR_M2);
     }
     let used = 0;
     const usedSys = this.usedSys;
@@ -753,7 +782,8 @@ class PassRunner {
     const dd: DoubleDifference[] = [];
     for (const [sys, list] of bySys) {
       if (list.length < 2) continue;
-      const prevPivot = this.pivots.get(sys);
+      // -1 when none: arcs are numbered from 1 (and the comparison below stays one of small integers).
+      const prevPivot = this.pivots.get(sys) ?? -1;
       let piv: FixableArc | undefined;
       for (const q of list) if (q.arc === prevPivot) { piv = q; break; }
       if (!piv) {

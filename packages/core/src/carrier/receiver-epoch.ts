@@ -109,6 +109,19 @@ export function placeSatellite(s: ReceiverSat, tagGpsS: number, clockM: number):
 }
 
 /**
+ * The receiver clock (m): the median code residual of the satellites placed for the clock `clk` (m) at the
+ * position `atM`.
+ */
+function receiverClockM(sats: readonly ReceiverSat[], tagGpsS: number, atM: EcefM, clk: number): number {
+  const samples: number[] = [];
+  for (const s of sats) {
+    placeSatellite(s, tagGpsS, clk);
+    samples.push(s.codeM - Math.hypot(s.posM.x - atM.x, s.posM.y - atM.y, s.posM.z - atM.z) + s.satClockM);
+  }
+  return median(samples);
+}
+
+/**
  * Prepares an epoch at an approximate position (within a few km: the clock is a median of code
  * residuals). `clockGuessM` is the previous epoch's clock (0 at first).
  */
@@ -143,18 +156,10 @@ export function prepareReceiverEpoch(e: ObsEpoch, ctx: ReceiverContext, atM: Ece
       wavelengthM, more, eph: sel.eph, posM: atM, satClockM: 0,
     });
   }
-  const clockOf = (clk: number): number => {
-    const samples: number[] = [];
-    for (const s of sats) {
-      placeSatellite(s, e.tagGpsS, clk);
-      samples.push(s.codeM - Math.hypot(s.posM.x - atM.x, s.posM.y - atM.y, s.posM.z - atM.z) + s.satClockM);
-    }
-    return median(samples);
-  };
   const guess = Number.isFinite(clockGuessM) ? clockGuessM : 0;
-  let clockM = clockOf(guess);
+  let clockM = receiverClockM(sats, e.tagGpsS, atM, guess);
   // A clock far from the guess (first epoch, a millisecond step): redo the Earth rotation with it.
-  if (Number.isFinite(clockM) && Math.abs(clockM - guess) > 30) clockM = clockOf(clockM);
+  if (Number.isFinite(clockM) && Math.abs(clockM - guess) > 30) clockM = receiverClockM(sats, e.tagGpsS, atM, clockM);
   const timeGpsS = e.tagGpsS - (Number.isFinite(clockM) ? clockM / SPEED_OF_LIGHT_MS : 0);
   return { tagGpsS: e.tagGpsS, timeGpsS, clockM, sats };
 }

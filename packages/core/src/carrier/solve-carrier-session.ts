@@ -52,11 +52,12 @@ import { combineEpoch } from './combine-passes.js';
 import { PassResults } from './pass-results.js';
 import type { CarrierOptions } from './options.js';
 import { antennaCorrectionM, findAntenna, type AntennaCalibration, type AntexData } from './antex.js';
-import { codeFixPosition } from './code-fix.js';
+import { codeFixPosition, type CodeRow } from './code-fix.js';
 import { furtherBandGroup } from './further-bands.js';
 import { GeometryFreeMonitor } from './geometry-free.js';
 import { ionosphereFactor, ionosphereWeighting } from './ionosphere-weighting.js';
 import { findTimeDifferencedSlips, type TimeDifferencedPhase } from './time-differenced-slips.js';
+import { keepShape } from './kept-shapes.js';
 
 export interface CarrierInputs {
   readonly rover: ObsStream;
@@ -315,11 +316,18 @@ interface ReaderSetup {
   readonly x0: EcefM;
 }
 
+/** An iterator of no reference epochs. */
+const NO_REFERENCE_EPOCHS: AsyncIterator<{ readonly epoch: ObsEpoch }> = { next: () => Promise.resolve({ done: true, value: undefined }) };
+
 /** Shares of a pass's epochs by kind. */
 class Shares implements PassShares {
   fixed = 0;
   float = 0;
   none = 0;
+
+  constructor() {
+    keepShape(this);
+  }
 
   count(kind: number): void {
     if (kind === 2) this.fixed++; else if (kind === 1) this.float++; else this.none++;
@@ -380,7 +388,7 @@ class RoverReader {
   private readonly roverAntennaGiven: boolean;
   // Reference feed.
   private readonly refBuffer: ReferencePhaseBuffer;
-  private readonly refIter: AsyncIterator<{ readonly epoch: ObsEpoch }>;
+  private refIter: AsyncIterator<{ readonly epoch: ObsEpoch }>;
   private refDone = false;
   private refClockM = NaN;
   private pendingEvent: EpochContext['event'] = null;
@@ -424,6 +432,7 @@ class RoverReader {
     this.roverAntenna = s.roverAntenna;
     this.pointName = s.pointName;
     this.x0 = s.x0;
+    keepShape(this);
   }
 
   /** Reads the rover's epochs into the records, with their contexts (occupations and events). */
@@ -461,6 +470,9 @@ class RoverReader {
       }
     }
     if (this.dynamics === 'auto' && this.firstEvent === 'start-moving') rec.staticBefore(this.firstMovingRecord);
+    // The reference files are not read further (nor held: the reader is kept, kept-shapes.ts).
+    this.refIter = NO_REFERENCE_EPOCHS;
+    this.refDone = true;
   }
 
   /** The signal table's entry of a satellite's signal (added when new): the primary band's, or a further band's (`further`). */
@@ -545,15 +557,19 @@ class RoverReader {
     if (!al) { rec.beginEpoch(t, e.tagGpsS, this.x0, isStatic, NaN, context); return `no reference epoch within ${this.maxReferenceAgeS} s`; }
     this.epochsWithReference++;
     const both = [];
+    // The code differences for the linearisation point, in an array built by push (an array from map
+    // could come in another shape, and the optimised code of codeFixPosition was thrown away for it).
+    const rows: CodeRow[] = [];
     for (const s of ep.sats) {
       const ra = al.sats.get(s.sat);
       if (!ra) continue;
       // The same broadcast issue at both ends, so the satellite clock cancels exactly.
       if (ra.eph !== s.eph) { s.eph = ra.eph; placeSatellite(s, ep.tagGpsS, ep.clockM); }
       both.push({ s, ra });
+      rows.push({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM });
     }
     const doy = dayOfYear(t);
-    const fix = codeFixPosition(both.map(({ s, ra }) => ({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM })), this.x0, maskRad, doy);
+    const fix = codeFixPosition(rows, this.x0, maskRad, doy);
     if (fix) this.x0 = fix;
     const x0 = this.x0;
     const g0 = ecefToGeodetic(x0);
@@ -702,7 +718,9 @@ function applyAntenna(ep: ReceiverEpoch, at: EcefM, g: GeodeticRad, cal: Antenna
 class ForwardConsumer implements EpochConsumer {
   readonly shares = new Shares();
 
-  constructor(private readonly results: PassResults) {}
+  constructor(private readonly results: PassResults) {
+    keepShape(this);
+  }
 
   epoch(k: number, r: EpochResult): void {
     this.shares.count(r.kind);
@@ -718,11 +736,12 @@ class ForwardConsumer implements EpochConsumer {
 class BackwardConsumer implements EpochConsumer {
   readonly shares = new Shares();
   readonly combinedShares = new Shares();
-  private readonly lengths: Float64Array;
+  private lengths: Float64Array;
   private solvedCount = 0;
 
   constructor(private readonly rec: EpochRecords, private readonly results: PassResults, private readonly agreementM: number, private readonly refArp: EcefM) {
     this.lengths = new Float64Array(rec.count);
+    keepShape(this);
   }
 
   epoch(k: number, r: EpochResult): void {
@@ -735,11 +754,13 @@ class BackwardConsumer implements EpochConsumer {
     if (results.kind[i] !== 0) this.lengths[this.solvedCount++] = Math.hypot(results.position[3 * i] - refArp.x, results.position[3 * i + 1] - refArp.y, results.position[3 * i + 2] - refArp.z);
   }
 
-  /** Median antenna-to-antenna distance of the solved epochs (m); NaN when none was solved. */
+  /** Median antenna-to-antenna distance of the solved epochs (m); NaN when none was solved. Called once: the distances are released. */
   medianLengthM(): number {
     const n = this.solvedCount;
     const solvedLengths = this.lengths.subarray(0, n).sort();
-    return n ? solvedLengths[n >> 1] : NaN;
+    const median = n ? solvedLengths[n >> 1] : NaN;
+    this.lengths = new Float64Array(0);
+    return median;
   }
 }
 
@@ -798,6 +819,7 @@ class SolutionWriter {
     this.refArp = s.refArp;
     this.frame = s.frame;
     this.gRef = ecefToGeodetic(s.refMark);
+    keepShape(this);
   }
 
   /** The solution of record k (read from the combined results). */
