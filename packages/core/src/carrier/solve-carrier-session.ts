@@ -44,7 +44,7 @@ import { dopplerVelocity } from '../velocity/index.js';
 import { dilutionOfPrecision } from '../solve/index.js';
 import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '../session/index.js';
 import { ArcTracker, type ArcInput } from './arc-tracker.js';
-import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
+import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch, type ReceiverSat, type ReceiverSignal } from './receiver-epoch.js';
 import { ReferencePhaseBuffer, reduceReferenceEpoch, type BandArcs } from './reference-phase.js';
 import { EpochRecords, MemoryRecordStore, type RecordStore } from './epoch-records.js';
 import { codeVarianceScale, runPasses, singleDifferenceVarianceM2, type EpochConsumer, type EpochResult, type FixedDoubleDifference, type SatelliteInfo } from './float-filter.js';
@@ -350,6 +350,8 @@ class RoverReader {
   /** Signal table: a satellite's primary-band signal (group: its constellation) and each further-band signal pair (group: further-bands.ts) is one entry of the records. */
   readonly satellites: SatelliteInfo[] = [];
   private readonly satIndex = new Map<string, number>();
+  /** Per primary-band entry of the signal table, the entries of its further-band signal pairs (furtherIndexOf). */
+  private readonly furtherEntries: { readonly band: string; readonly code: string; readonly refCode: string; readonly entry: number }[][] = [];
   /** Contexts of the records (EpochRecords.context): one per occupation or event, not per epoch. */
   readonly contexts: EpochContext[] = [];
   /** Why epochs cannot be solved: the records keep an index into this table (EpochRecords.reason). */
@@ -486,6 +488,20 @@ class RoverReader {
       this.satIndex.set(key, i);
     }
     return i;
+  }
+
+  /**
+   * The signal table's entry of a further band's signal pair (rover signal m, reference code) of the
+   * satellite s whose primary band is entry `primary`: indexOf's, found once per pair (no key strings per
+   * satellite and epoch).
+   */
+  private furtherIndexOf(primary: number, s: ReceiverSat, m: ReceiverSignal, refCode: string): number {
+    let list = this.furtherEntries[primary];
+    if (!list) this.furtherEntries[primary] = list = [];
+    for (const f of list) if (f.band === m.band && f.code === m.code && f.refCode === refCode) return f.entry;
+    const entry = this.indexOf(s.sat, m.wavelengthM, m.code, { group: furtherBandGroup(s.system, m.band, m.code, refCode), primaryWavelengthM: s.wavelengthM });
+    list.push({ band: m.band, code: m.code, refCode, entry });
+    return entry;
   }
 
   /** Arcs of the further-band signals of an epoch, per band. */
@@ -635,7 +651,7 @@ class RoverReader {
         const b = roverFurther.get(m.band);
         const mArc = b?.arcs.get(s.sat) ?? 0;
         const mPhase = mArc > 0 && rm.arc > 0 && Number.isFinite(rm.phaseM);
-        const mEntry = this.indexOf(s.sat, m.wavelengthM, m.code, { group: furtherBandGroup(s.system, m.band, m.code, rm.code), primaryWavelengthM: s.wavelengthM });
+        const mEntry = this.furtherIndexOf(entry, s, m, rm.code);
         rec.addSatellite(k, mEntry, mPhase ? this.sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0,
           mPhase ? m.phaseCycles * m.wavelengthM + roverTracker.codeClockStepsM - model - rm.phaseM : NaN,
           Number.isFinite(m.codeM) ? m.codeM - model - rm.codeM : NaN,
