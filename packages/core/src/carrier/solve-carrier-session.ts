@@ -910,10 +910,12 @@ function enuSigma(c: ArrayLike<number>, lat: number, lon: number): { e: number; 
   const sl = Math.sin(lat), cl = Math.cos(lat), so = Math.sin(lon), co = Math.cos(lon);
   const rows = [[-so, co, 0], [-sl * co, -sl * so, cl], [cl * co, cl * so, sl]];
   const m = [[c[0], c[1], c[2]], [c[1], c[3], c[4]], [c[2], c[4], c[5]]];
-  const v = rows.map((r) => {
-    let s = 0;
-    for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) s += r[i] * m[i][j] * r[j];
-    return Math.sqrt(Math.max(s, 0));
-  });
-  return { e: v[0], n: v[1], u: v[2] };
+  return { e: axisSigma(rows[0], m), n: axisSigma(rows[1], m), u: axisSigma(rows[2], m) };
+}
+
+/** Standard deviation along the unit vector r of a 3 x 3 covariance m: sqrt(r' m r). */
+function axisSigma(r: readonly number[], m: readonly (readonly number[])[]): number {
+  let s = 0;
+  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) s += r[i] * m[i][j] * r[j];
+  return Math.sqrt(Math.max(s, 0));
 }
