@@ -471,6 +471,9 @@ class PassRunner {
   private samples = new Float64Array(64);
   private arcsNow = new Set<number>();
   private arcsBefore = new Set<number>();
+  /** The epoch's sum of normalised squared phase innovations of arcs already known, and their number (updatePhase). */
+  private nisSum = 0;
+  private nisDof = 0;
 
   constructor(rec: EpochRecords, setup: PassSetup) {
     const opt = setup.options;
@@ -570,71 +573,113 @@ class PassRunner {
     return -(los[3 * j] * dx + los[3 * j + 1] * dy + los[3 * j + 2] * dz);
   }
 
-  /** One epoch of the pass: prediction, clocks, code and phase updates, the epoch's test, float and fixed solutions. */
+  /**
+   * One epoch of the pass: prediction, clocks, code and phase updates, the epoch's test, float and fixed
+   * solutions. In steps of their own: each is optimised on its own, so a deoptimisation in one (a branch met
+   * for the first time) has only that step compiled again.
+   */
   private epochStep(k: number): void {
-    const rec = this.rec, sats = this.sats, maskRad = this.maskRad, st = this.st, out = this.out;
-    const arcSlot = this.arcSlot, arcSeen = this.arcSeen, idx = this.idx, val = this.val;
+    const rec = this.rec, st = this.st, out = this.out;
     const e = rec.visit(k);
     const t = rec.timeGpsS[e];
-    const x0x = rec.x0[3 * e], x0y = rec.x0[3 * e + 1], x0z = rec.x0[3 * e + 2];
-    const prev = this.prev;
-    // Position prediction.
-    if (prev < 0) {
+    this.predictPosition(e, t);
+    this.dropUnseenArcs(t);
+    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
+    out.start(j1 - j0);
+    if (this.iono) this.predictIonosphere(e, t, j0, j1);
+    this.startClocks(e, j0, j1);
+    const used = this.updateCode(e, j0, j1);
+    this.updatePhase(e, t, j0, j1);
+    // Sequential innovations are independent: their normalised squares sum to a chi-square with one degree
+    // of freedom each (the normalised innovation squared test, e.g. Bar-Shalom et al. 2001, 5.4). An epoch
+    // that fails it at 0.1 % holds a disturbance the slip tests did not catch: no fix is tried in it.
+    const turned = this.arcTurnover(j0, j1);
+    const disturbed = turned || (this.nisDof > 0 && this.nisSum > chiSquareQuantile(0.999, this.nisDof));
+    if (disturbed) this.disturbedEpochs++;
+    out.satellitesUsed = used;
+    if (used < 4 + this.usedSys.size) { this.remember(k, e); return; }
+    // Float solution.
+    const c = st.cap;
+    out.kind = 1;
+    out.position[0] = st.x[0]; out.position[1] = st.x[1]; out.position[2] = st.x[2];
+    out.covariance[0] = st.p[0]; out.covariance[1] = st.p[1]; out.covariance[2] = st.p[2];
+    out.covariance[3] = st.p[c + 1]; out.covariance[4] = st.p[c + 2]; out.covariance[5] = st.p[2 * c + 2];
+    out.floatPosition.set(out.position);
+    out.floatCovariance.set(out.covariance);
+    if (!disturbed) this.fixEpoch(k, e);
+    // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
+    this.writeResiduals(e, out.kind === 2 ? this.conditioned : st.x);
+    this.remember(k, e);
+  }
+
+  /** Position prediction to epoch record e at time t (file comment: process model). */
+  private predictPosition(e: number, t: number): void {
+    const rec = this.rec, st = this.st;
+    if (this.prev < 0) {
       for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
-    } else {
-      const dt = t - this.prevTimeS;
-      const staticPair = rec.isStatic[e] === 1 && this.prevStatic === 1;
-      if (!staticPair) {
-        const v0 = this.prevVelocity, v1 = 4 * e;
-        if (Number.isFinite(v0[0]) && Number.isFinite(rec.velocity[v1]) && Math.abs(dt) <= 5) {
-          const sig = Math.max(v0[3], rec.velocity[v1 + 3]);
-          const q = ((Number.isFinite(sig) ? sig : 0.1) + 0.05) ** 2 * dt * dt;
-          for (let i = 0; i < 3; i++) {
-            // The mean of the two velocities times the interval (trapezoid rule) misses the displacement by up
-            // to half the velocity change times the interval when the change is not uniform in the interval
-            // (an antenna that starts or stops within it): that bound is added to the process noise per axis.
-            const dv = 0.5 * (rec.velocity[v1 + i] - v0[i]) * dt;
-            st.x[i] += 0.5 * (v0[i] + rec.velocity[v1 + i]) * dt;
-            st.p[i * st.cap + i] += q + dv * dv;
-          }
-        } else {
-          for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
-        }
-      }
+      return;
     }
-    // Drop ambiguity states of arcs not met for a while.
+    const dt = t - this.prevTimeS;
+    const staticPair = rec.isStatic[e] === 1 && this.prevStatic === 1;
+    if (staticPair) return;
+    const v0 = this.prevVelocity, v1 = 4 * e;
+    if (Number.isFinite(v0[0]) && Number.isFinite(rec.velocity[v1]) && Math.abs(dt) <= 5) {
+      const sig = Math.max(v0[3], rec.velocity[v1 + 3]);
+      const q = ((Number.isFinite(sig) ? sig : 0.1) + 0.05) ** 2 * dt * dt;
+      for (let i = 0; i < 3; i++) {
+        // The mean of the two velocities times the interval (trapezoid rule) misses the displacement by up
+        // to half the velocity change times the interval when the change is not uniform in the interval
+        // (an antenna that starts or stops within it): that bound is added to the process noise per axis.
+        const dv = 0.5 * (rec.velocity[v1 + i] - v0[i]) * dt;
+        st.x[i] += 0.5 * (v0[i] + rec.velocity[v1 + i]) * dt;
+        st.p[i * st.cap + i] += q + dv * dv;
+      }
+    } else {
+      for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
+    }
+  }
+
+  /** Drops the ambiguity states of arcs not met for a while. */
+  private dropUnseenArcs(t: number): void {
+    const arcSlot = this.arcSlot, arcSeen = this.arcSeen;
     for (const [arc, seen] of arcSeen) {
       if (Math.abs(t - seen) > DROP_AFTER_S) { const slot = arcSlot.get(arc)!; arcSlot.delete(arc); arcSeen.delete(arc); this.release(slot); }
     }
-    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
-    out.start(j1 - j0);
-    const iono = this.iono;
-    if (iono) {
-      // Random walk since the previous epoch; states not met for a while dropped; new ones at their prior.
-      const ionoSlot = this.ionoSlot, ionoSeen = this.ionoSeen;
-      const dtS = prev < 0 ? 0 : Math.abs(t - this.prevTimeS);
-      for (const [sat, slot] of ionoSlot) {
-        if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { ionoSlot.delete(sat); ionoSeen.delete(sat); this.release(slot); continue; }
-        st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
-      }
-      this.ionoNow.fill(-1);
-      for (let j = j0; j < j1; j++) {
-        const info = sats[rec.sat[j]];
-        if (info.primary || rec.elevationRad[j] < maskRad) continue;
-        let slot = ionoSlot.get(info.id);
-        if (slot === undefined) {
-          const sig = iono.verticalSigmaM * ionosphereObliquity(rec.elevationRad[j]);
-          slot = st.allocate(0, sig * sig);
-          ionoSlot.set(info.id, slot);
-        }
-        ionoSeen.set(info.id, t);
-        this.ionoNow[this.satOfEntry[rec.sat[j]]] = slot;
-      }
+  }
+
+  /**
+   * The ionosphere states: a random walk since the previous epoch; states not met for a while dropped; new
+   * ones at their prior; the states of the epoch's satellites (ionoNow).
+   */
+  private predictIonosphere(e: number, t: number, j0: number, j1: number): void {
+    const rec = this.rec, sats = this.sats, st = this.st, iono = this.iono!;
+    const ionoSlot = this.ionoSlot, ionoSeen = this.ionoSeen;
+    const dtS = this.prev < 0 ? 0 : Math.abs(t - this.prevTimeS);
+    for (const [sat, slot] of ionoSlot) {
+      if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { ionoSlot.delete(sat); ionoSeen.delete(sat); this.release(slot); continue; }
+      st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
     }
-    // Clocks: free every epoch, started at the median code difference of the constellation.
-    const dx = st.x[0] - x0x, dy = st.x[1] - x0y, dz = st.x[2] - x0z;
+    this.ionoNow.fill(-1);
+    for (let j = j0; j < j1; j++) {
+      const info = sats[rec.sat[j]];
+      if (info.primary || rec.elevationRad[j] < this.maskRad) continue;
+      let slot = ionoSlot.get(info.id);
+      if (slot === undefined) {
+        const sig = iono.verticalSigmaM * ionosphereObliquity(rec.elevationRad[j]);
+        slot = st.allocate(0, sig * sig);
+        ionoSlot.set(info.id, slot);
+      }
+      ionoSeen.set(info.id, t);
+      this.ionoNow[this.satOfEntry[rec.sat[j]]] = slot;
+    }
+  }
+
+  /** Clocks: free every epoch, started at the median code (and phase) difference of their group. */
+  private startClocks(e: number, j0: number, j1: number): void {
+    const rec = this.rec, sats = this.sats, st = this.st, arcSlot = this.arcSlot;
+    const dx = st.x[0] - rec.x0[3 * e], dy = st.x[1] - rec.x0[3 * e + 1], dz = st.x[2] - rec.x0[3 * e + 2];
     if (this.samples.length < j1 - j0) this.samples = new Float64Array(2 * (j1 - j0));
-    const samples = this.samples, clockOfEntry = this.clockOfEntry, phaseClockOfEntry = this.phaseClockOfEntry;
+    const samples = this.samples, clockOfEntry = this.clockOfEntry;
     for (const [sys, slot] of this.clockSlot) {
       let ns = 0;
       for (let j = j0; j < j1; j++) if (clockOfEntry[rec.sat[j]] === slot && Number.isFinite(rec.codeM[j])) samples[ns++] = rec.codeM[j] - this.geometry(j, dx, dy, dz);
@@ -649,15 +694,19 @@ class PassRunner {
       }
       st.reset(ps, ns ? medianInPlace(samples, ns) : 0, CLOCK_VAR_M2);
     }
+  }
+
+  /** The code updates of the epoch's entries; returns the satellites used (their constellations: usedSys). */
+  private updateCode(e: number, j0: number, j1: number): number {
+    const rec = this.rec, sats = this.sats, st = this.st, idx = this.idx, val = this.val, maskRad = this.maskRad;
+    const x0x = rec.x0[3 * e], x0y = rec.x0[3 * e + 1], x0z = rec.x0[3 * e + 2];
+    const usedSys = this.usedSys, codeR = this.codeScale;
     let used = 0;
-    const usedSys = this.usedSys;
     usedSys.clear();
-    // Code.
-    const codeR = this.codeScale;
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
       if (el < maskRad || !Number.isFinite(rec.codeM[j])) continue;
-      const cs = clockOfEntry[rec.sat[j]];
+      const cs = this.clockOfEntry[rec.sat[j]];
       idx[0] = 0; idx[1] = 1; idx[2] = 2; idx[3] = cs;
       val[0] = -rec.los[3 * j]; val[1] = -rec.los[3 * j + 1]; val[2] = -rec.los[3 * j + 2]; val[3] = 1;
       let nh = 4;
@@ -667,20 +716,30 @@ class PassRunner {
       const v = rec.codeM[j] - pred;
       const r = codeR * singleDifferenceVarianceM2(this.codeAM, this.codeBM, el);
       const s = st.innovationVariance(idx, val, nh, r);
-      if (v * v > 25 * s && prev >= 0) { this.codeOutliers++; continue; }
+      if (v * v > 25 * s && this.prev >= 0) { this.codeOutliers++; continue; }
       st.update(idx, val, nh, v, r);
       // Satellites used and their constellations: counted on the primary band.
       if (!sats[rec.sat[j]].primary) continue;
       used++;
       usedSys.add(sats[rec.sat[j]].system);
     }
-    // Phase. The normalised innovations of arcs already known are summed for the epoch's test.
+    return used;
+  }
+
+  /**
+   * The phase updates of the epoch's entries (new arcs get a state; an unflagged slip starts its arc's
+   * again). The normalised innovations of arcs already known are summed for the epoch's test (nisSum, nisDof).
+   */
+  private updatePhase(e: number, t: number, j0: number, j1: number): void {
+    const rec = this.rec, sats = this.sats, st = this.st, idx = this.idx, val = this.val, maskRad = this.maskRad;
+    const arcSlot = this.arcSlot, arcSeen = this.arcSeen;
+    const x0x = rec.x0[3 * e], x0y = rec.x0[3 * e + 1], x0z = rec.x0[3 * e + 2];
     let nis = 0, nisDof = 0;
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
       if (el < maskRad || !Number.isFinite(rec.phaseM[j])) continue;
       const info = sats[rec.sat[j]];
-      const cs = phaseClockOfEntry[rec.sat[j]];
+      const cs = this.phaseClockOfEntry[rec.sat[j]];
       const lam = info.wavelengthM;
       const arc = rec.arc[j];
       // Geometry less the ionosphere (which delays the code and advances the phase).
@@ -708,36 +767,25 @@ class PassRunner {
       } else if (st.p[slot * st.cap + slot] < 0.0625) { nis += (v * v) / s; nisDof++; }
       st.update(idx, val, nh, v, r);
     }
-    // Sequential innovations are independent: their normalised squares sum to a chi-square with one degree
-    // of freedom each (the normalised innovation squared test, e.g. Bar-Shalom et al. 2001, 5.4). An epoch
-    // that fails it at 0.1 % holds a disturbance the slip tests did not catch: no fix is tried in it.
-    // Arc turnover: when more than half of the arcs start or end at once, the receiver's tracking was
-    // disturbed as a whole (shock, power, a shaded sky) and the arcs that kept lock are suspect too.
-    const arcsNow = this.arcsNow, arcsBefore = this.arcsBefore;
+    this.nisSum = nis;
+    this.nisDof = nisDof;
+  }
+
+  /**
+   * Arc turnover: when more than half of the arcs start or end at once, the receiver's tracking was
+   * disturbed as a whole (shock, power, a shaded sky) and the arcs that kept lock are suspect too.
+   */
+  private arcTurnover(j0: number, j1: number): boolean {
+    const rec = this.rec, arcsNow = this.arcsNow, arcsBefore = this.arcsBefore;
     arcsNow.clear();
-    for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= maskRad) arcsNow.add(rec.arc[j]);
+    for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= this.maskRad) arcsNow.add(rec.arc[j]);
     let turnover = 0;
     for (const a of arcsNow) if (!arcsBefore.has(a)) turnover++;
     for (const a of arcsBefore) if (!arcsNow.has(a)) turnover++;
     const turned = arcsBefore.size > 0 && turnover > 0.5 * Math.max(arcsBefore.size, arcsNow.size);
     this.arcsBefore = arcsNow;
     this.arcsNow = arcsBefore;
-    const disturbed = turned || (nisDof > 0 && nis > chiSquareQuantile(0.999, nisDof));
-    if (disturbed) this.disturbedEpochs++;
-    out.satellitesUsed = used;
-    if (used < 4 + usedSys.size) { this.remember(k, e); return; }
-    // Float solution.
-    const c = st.cap;
-    out.kind = 1;
-    out.position[0] = st.x[0]; out.position[1] = st.x[1]; out.position[2] = st.x[2];
-    out.covariance[0] = st.p[0]; out.covariance[1] = st.p[1]; out.covariance[2] = st.p[2];
-    out.covariance[3] = st.p[c + 1]; out.covariance[4] = st.p[c + 2]; out.covariance[5] = st.p[2 * c + 2];
-    out.floatPosition.set(out.position);
-    out.floatCovariance.set(out.covariance);
-    if (!disturbed) this.fixEpoch(k, e);
-    // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
-    this.writeResiduals(e, out.kind === 2 ? this.conditioned : st.x);
-    this.remember(k, e);
+    return turned;
   }
 
   /** An arc started again: the held double differences it is part of (as satellite or pivot) are forgotten. */
