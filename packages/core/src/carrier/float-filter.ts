@@ -815,32 +815,8 @@ class PassRunner {
 
   /** Double differences of the epoch's fixable arcs, LAMBDA with partial fixing, conditioning and hold. */
   private fixEpoch(k: number, e: number): void {
-    const rec = this.rec, sats = this.sats, st = this.st, out = this.out;
-    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
-    const bySys = new Map<string, FixableArc[]>();
-    for (let j = j0; j < j1; j++) {
-      const info = sats[rec.sat[j]];
-      if (!this.fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < this.ambMask) continue;
-      const slot = this.arcSlot.get(rec.arc[j]);
-      if (slot === undefined) continue;
-      let l = bySys.get(info.group);
-      if (!l) bySys.set(info.group, (l = []));
-      l.push({ slot, arc: rec.arc[j], el: rec.elevationRad[j], sat: rec.sat[j] });
-    }
-    const dd: DoubleDifference[] = [];
-    for (const [sys, list] of bySys) {
-      if (list.length < 2) continue;
-      // -1 when none: arcs are numbered from 1 (and the comparison below stays one of small integers).
-      const prevPivot = this.pivots.get(sys) ?? -1;
-      let piv: FixableArc | undefined;
-      for (const q of list) if (q.arc === prevPivot) { piv = q; break; }
-      if (!piv) {
-        piv = list[0];
-        for (const q of list) if (q.el > piv.el) piv = q;
-      }
-      this.pivots.set(sys, piv.arc);
-      for (const q of list) if (q !== piv) dd.push({ i: q.slot, p: piv.slot, arcI: q.arc, arcP: piv.arc, el: q.el, satI: q.sat, satP: piv.sat });
-    }
+    const st = this.st, out = this.out;
+    const dd = this.doubleDifferences(e);
     const m = dd.length;
     if (m < this.minFixedAmbiguities) return;
     const x = st.x;
@@ -868,12 +844,21 @@ class PassRunner {
     const fix = fixAroundHeld(a, q, m, order, fixOptions) ?? fixPartially(a, q, m, order, fixOptions);
     out.ratio = fix.ratio;
     if (!('integers' in fix)) return;
-    const sub = fix.indices;
+    this.conditionOnFixed(k, dd, m, fix.indices, fix.integers);
+  }
+
+  /**
+   * The epoch's solution conditioned on the integers fixed for the double differences `sub` (indices into
+   * dd, of which m were searched): position and covariance (Teunissen 1995, eq. 2.8), the conditioned state
+   * for the residuals, and the hold.
+   */
+  private conditionOnFixed(k: number, dd: readonly DoubleDifference[], m: number, sub: readonly number[], integers: Float64Array): void {
+    const sats = this.sats, st = this.st, out = this.out, x = st.x, a = this.fixA, q = this.fixQ;
     const ns = sub.length;
     const qs = this.fixQs;
     for (let u = 0; u < ns; u++) for (let w = 0; w < ns; w++) qs[u * ns + w] = q[sub[u] * m + sub[w]];
     const d = this.fixD;
-    for (let u = 0; u < ns; u++) d[u] = a[sub[u]] - fix.integers[u];
+    for (let u = 0; u < ns; u++) d[u] = a[sub[u]] - integers[u];
     // Q_xa: covariance of position with the fixed double differences.
     const qxa = this.fixQxa, fixRhs = this.fixRhs;
     for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) qxa[r][u] = st.cov(r, dd[sub[u]].i) - st.cov(r, dd[sub[u]].p);
@@ -891,7 +876,7 @@ class PassRunner {
     out.kind = 2;
     out.fixedAmbiguities = ns;
     const onFix = this.onFix;
-    if (onFix) onFix(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
+    if (onFix) onFix(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: integers[w] })));
     // Residuals at the fixed solution (written by the caller): every state conditioned on the fixed integers,
     // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).
     // Q_sa Q_a^-1 (a - z) for every slot s, summed over the fixed double differences in order.
@@ -901,7 +886,38 @@ class PassRunner {
     conditioned.fill(0, 0, nst);
     for (let u = 0; u < ns; u++) st.addColumnDifference(conditioned, dd[sub[u]].i, dd[sub[u]].p, rhs[0][u]);
     for (let slot = 0; slot < nst; slot++) conditioned[slot] = x[slot] - conditioned[slot];
-    this.hold(dd, sub, fix.integers);
+    this.hold(dd, sub, integers);
+  }
+
+  /** Double differences of the ambiguities of epoch record e's fixable arcs, per clock group against a pivot (file comment). */
+  private doubleDifferences(e: number): DoubleDifference[] {
+    const rec = this.rec, sats = this.sats;
+    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
+    const bySys = new Map<string, FixableArc[]>();
+    for (let j = j0; j < j1; j++) {
+      const info = sats[rec.sat[j]];
+      if (!this.fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < this.ambMask) continue;
+      const slot = this.arcSlot.get(rec.arc[j]);
+      if (slot === undefined) continue;
+      let l = bySys.get(info.group);
+      if (!l) bySys.set(info.group, (l = []));
+      l.push({ slot, arc: rec.arc[j], el: rec.elevationRad[j], sat: rec.sat[j] });
+    }
+    const dd: DoubleDifference[] = [];
+    for (const [sys, list] of bySys) {
+      if (list.length < 2) continue;
+      // -1 when none: arcs are numbered from 1 (and the comparison below stays one of small integers).
+      const prevPivot = this.pivots.get(sys) ?? -1;
+      let piv: FixableArc | undefined;
+      for (const q of list) if (q.arc === prevPivot) { piv = q; break; }
+      if (!piv) {
+        piv = list[0];
+        for (const q of list) if (q.el > piv.el) piv = q;
+      }
+      this.pivots.set(sys, piv.arc);
+      for (const q of list) if (q !== piv) dd.push({ i: q.slot, p: piv.slot, arcI: q.arc, arcP: piv.arc, el: q.el, satI: q.sat, satP: piv.sat });
+    }
+    return dd;
   }
 
   /**

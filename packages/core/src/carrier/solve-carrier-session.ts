@@ -45,7 +45,7 @@ import { dilutionOfPrecision } from '../solve/index.js';
 import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '../session/index.js';
 import { ArcTracker, type ArcInput } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch, type ReceiverSat, type ReceiverSignal } from './receiver-epoch.js';
-import { ReferencePhaseBuffer, reduceReferenceEpoch, type BandArcs } from './reference-phase.js';
+import { ReferencePhaseBuffer, reduceReferenceEpoch, type AlignedReference, type AlignedReferenceSat, type BandArcs } from './reference-phase.js';
 import { EpochRecords, MemoryRecordStore, type RecordStore } from './epoch-records.js';
 import { codeVarianceScale, runPasses, singleDifferenceVarianceM2, type EpochConsumer, type EpochResult, type FixedDoubleDifference, type SatelliteInfo } from './float-filter.js';
 import { combineEpoch } from './combine-passes.js';
@@ -554,9 +554,12 @@ class RoverReader {
     return id;
   }
 
-  /** Prepares one rover epoch into the records; returns why it cannot be solved ('' when it can). */
+  /**
+   * Prepares one rover epoch into the records; returns why it cannot be solved ('' when it can). In steps
+   * of their own (each optimised on its own: a branch met late has only its step compiled again).
+   */
   private async prepareRoverEpoch(e: ObsEpoch, isStatic: boolean, context: number): Promise<string> {
-    const rec = this.rec, roverSeen = this.roverSeen, roverTracker = this.roverTracker, maskRad = this.maskRad;
+    const rec = this.rec, roverSeen = this.roverSeen, roverTracker = this.roverTracker;
     if (Number.isNaN(roverSeen.firstGpsS)) roverSeen.firstGpsS = e.tagGpsS;
     roverSeen.lastGpsS = e.tagGpsS;
     const ep = prepareReceiverEpoch(e, this.ctx, this.x0, this.roverClockM);
@@ -572,28 +575,27 @@ class RoverReader {
     const al = this.refBuffer.align(t, ep.sats.some((s) => s.more.length > 0));
     if (!al) { rec.beginEpoch(t, e.tagGpsS, this.x0, isStatic, NaN, context); return `no reference epoch within ${this.maxReferenceAgeS} s`; }
     this.epochsWithReference++;
-    const both = [];
-    // The code differences for the linearisation point, in an array built by push (an array from map
-    // could come in another shape, and the optimised code of codeFixPosition was thrown away for it).
-    const rows: CodeRow[] = [];
-    for (const s of ep.sats) {
-      const ra = al.sats.get(s.sat);
-      if (!ra) continue;
-      // The same broadcast issue at both ends, so the satellite clock cancels exactly.
-      if (ra.eph !== s.eph) { s.eph = ra.eph; placeSatellite(s, ep.tagGpsS, ep.clockM); }
-      both.push({ s, ra });
-      rows.push({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM });
-    }
+    const both = commonSatellites(ep, al);
     const doy = dayOfYear(t);
-    const fix = codeFixPosition(rows, this.x0, maskRad, doy);
+    const fix = codeFixPosition(codeRows(both), this.x0, this.maskRad, doy);
     if (fix) this.x0 = fix;
     const x0 = this.x0;
-    const g0 = ecefToGeodetic(x0);
     const k = rec.beginEpoch(t, e.tagGpsS, x0, isStatic, al.ageS, context);
     const refArp = this.refArp;
     this.maxBaselineM = Math.max(this.maxBaselineM, Math.hypot(x0.x - refArp.x, x0.y - refArp.y, x0.z - refArp.z));
-    // The geometry-free test on the single differences (geometry-free.ts): the primary band against the
-    // first further band both receivers have, within the arcs of both bands at both receivers.
+    this.testGeometryFree(t, both, arcs, roverFurther);
+    this.restartWithOtherBands(both, arcs, roverFurther);
+    this.addEntries(k, both, arcs, roverFurther, x0, doy);
+    this.restartTimeDifferencedSlips(k);
+    if (!isStatic) this.setVelocity(e, k, x0);
+    return rec.satCount[rec.indexOf(k)] === 0 ? 'no satellite common to rover and reference' : '';
+  }
+
+  /**
+   * The geometry-free test on the single differences (geometry-free.ts): the primary band against the
+   * first further band both receivers have, within the arcs of both bands at both receivers.
+   */
+  private testGeometryFree(t: number, both: readonly CommonSat[], arcs: ReadonlyMap<SatId, number>, roverFurther: ReadonlyMap<string, BandArcs>): void {
     const gfSlips = this.gfSlips;
     const gfItems: { key: string; gfM: number; sat: SatId }[] = [];
     for (const { s, ra } of both) {
@@ -613,10 +615,15 @@ class RoverReader {
       const jumped = this.geometryFree.update(t, gfItems);
       for (const it of gfItems) if (jumped.has(it.key)) { gfSlips.set(it.sat, (gfSlips.get(it.sat) ?? 0) + 1); this.geometryFreeSlips++; }
     }
-    // A slip found on one band at either receiver (an arc followed by another, not a blank) restarts every
-    // band of the satellite: tracking loops of one satellite share their carrier, so a slip on one band
-    // often comes with a smaller one on another that its own tests miss (common practice).
-    const receiverArcs = this.receiverArcs;
+  }
+
+  /**
+   * A slip found on one band at either receiver (an arc followed by another, not a blank) restarts every
+   * band of the satellite: tracking loops of one satellite share their carrier, so a slip on one band
+   * often comes with a smaller one on another that its own tests miss (common practice).
+   */
+  private restartWithOtherBands(both: readonly CommonSat[], arcs: ReadonlyMap<SatId, number>, roverFurther: ReadonlyMap<string, BandArcs>): void {
+    const receiverArcs = this.receiverArcs, gfSlips = this.gfSlips;
     for (const { s, ra } of both) {
       if (s.more.length === 0) continue;
       const now = [arcs.get(s.sat) ?? 0, ra.arc];
@@ -628,6 +635,12 @@ class RoverReader {
       receiverArcs.set(s.sat, now);
       if (before && before.length === now.length && now.some((a, i) => a > 0 && before[i] > 0 && a !== before[i]) && now.some((a, i) => a > 0 && a === before[i])) gfSlips.set(s.sat, (gfSlips.get(s.sat) ?? 0) + 1);
     }
+  }
+
+  /** The record entries of epoch k: per common satellite its primary band and its further bands, at the linearisation point x0. */
+  private addEntries(k: number, both: readonly CommonSat[], arcs: ReadonlyMap<SatId, number>, roverFurther: ReadonlyMap<string, BandArcs>, x0: EcefM, doy: number): void {
+    const rec = this.rec, roverTracker = this.roverTracker;
+    const g0 = ecefToGeodetic(x0);
     for (const { s, ra } of both) {
       const dx = s.posM.x - x0.x, dy = s.posM.y - x0.y, dz = s.posM.z - x0.z;
       const rho = Math.sqrt(dx * dx + dy * dy + dz * dz);
@@ -658,15 +671,15 @@ class RoverReader {
           dx / rho, dy / rho, dz / rho, el, !((b?.halfCycle(s.sat) ?? false) || rm.halfCycle));
       }
     }
-    this.restartTimeDifferencedSlips(k);
-    if (!isStatic) {
-      const v = dopplerVelocity(e, x0, this.store, { systems: this.systems, elevationMaskRad: maskRad, glonassChannels: this.glonassChannels });
-      if (v) {
-        const sig = Math.max(v.sigmaEnuMS.e, v.sigmaEnuMS.n, v.sigmaEnuMS.u);
-        rec.setVelocity(k, v.velocityEcefMS.x, v.velocityEcefMS.y, v.velocityEcefMS.z, Number.isFinite(sig) ? sig : 0.1);
-      }
+  }
+
+  /** The rover's Doppler velocity at epoch k (a moving epoch), when it can be found. */
+  private setVelocity(e: ObsEpoch, k: number, x0: EcefM): void {
+    const v = dopplerVelocity(e, x0, this.store, { systems: this.systems, elevationMaskRad: this.maskRad, glonassChannels: this.glonassChannels });
+    if (v) {
+      const sig = Math.max(v.sigmaEnuMS.e, v.sigmaEnuMS.n, v.sigmaEnuMS.u);
+      this.rec.setVelocity(k, v.velocityEcefMS.x, v.velocityEcefMS.y, v.velocityEcefMS.z, Number.isFinite(sig) ? sig : 0.1);
     }
-    return rec.satCount[rec.indexOf(k)] === 0 ? 'no satellite common to rover and reference' : '';
   }
 
   /**
@@ -713,6 +726,37 @@ class RoverReader {
       }
     }
   }
+}
+
+/** A satellite of a rover epoch with the reference's values carried to the epoch. */
+interface CommonSat {
+  readonly s: ReceiverSat;
+  readonly ra: AlignedReferenceSat;
+}
+
+/**
+ * The rover epoch's satellites the reference has, each placed anew from the reference's broadcast issue
+ * when the rover's differs (the same issue at both ends, so the satellite clock cancels exactly).
+ */
+function commonSatellites(ep: ReceiverEpoch, al: AlignedReference): CommonSat[] {
+  const both: CommonSat[] = [];
+  for (const s of ep.sats) {
+    const ra = al.sats.get(s.sat);
+    if (!ra) continue;
+    if (ra.eph !== s.eph) { s.eph = ra.eph; placeSatellite(s, ep.tagGpsS, ep.clockM); }
+    both.push({ s, ra });
+  }
+  return both;
+}
+
+/**
+ * The code differences for the linearisation point (code-fix.ts), in an array built by push (an array from
+ * map could come in another shape, and the optimised code of codeFixPosition was thrown away for it).
+ */
+function codeRows(both: readonly CommonSat[]): CodeRow[] {
+  const rows: CodeRow[] = [];
+  for (const { s, ra } of both) rows.push({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM });
+  return rows;
 }
 
 /** Phase-centre offset and variation turned into a correction of the phase (cycles) to the antenna reference point. */
