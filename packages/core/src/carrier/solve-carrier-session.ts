@@ -211,12 +211,11 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   // Reading: one pass over the rover, building the records (RoverReader).
   const recordStore = inputs.recordStore ?? new MemoryRecordStore();
   const reader = new RoverReader({
-    ctx, carrier, maskRad, refArp, refGeo, refCal, roverCal,
-    references: joinReferenceStreams(inputs.references)[Symbol.asyncIterator](), refIntervalS: refHeader.intervalS,
+    carrier, maskRad, refArp, refGeo, refCal, roverCal, refIntervalS: refHeader.intervalS,
     recordStore, roverAntenna: options.roverAntenna ?? rover.header.antennaOffset, roverAntennaGiven: Boolean(options.roverAntenna),
     pointName: rover.header.markerName.trim(), x0: rover.header.approxPosition ?? refArp,
   });
-  await reader.read(rover.epochs);
+  await reader.read(rover.epochs, { ctx, references: joinReferenceStreams(inputs.references)[Symbol.asyncIterator]() });
   const rec = reader.rec;
   const satellites = reader.satellites;
   const maxBaselineM = reader.maxBaselineM;
@@ -292,9 +291,14 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   };
 }
 
+/** What a RoverReader reads from: the receivers' context, and the reference's epochs (joined files), read as far as the rover needs. */
+interface ReaderFeed {
+  readonly ctx: ReceiverContext;
+  readonly references: AsyncIterator<{ readonly epoch: ObsEpoch }>;
+}
+
 /** What a RoverReader is given. */
 interface ReaderSetup {
-  readonly ctx: ReceiverContext;
   readonly carrier: CarrierOptions;
   readonly maskRad: number;
   /** The reference's antenna reference point and its geodetic coordinates. */
@@ -303,8 +307,6 @@ interface ReaderSetup {
   /** Antenna calibrations of the two receivers, when given and found. */
   readonly refCal: AntennaCalibration | null;
   readonly roverCal: AntennaCalibration | null;
-  /** The reference's epochs (joined files), read as far as the rover needs. */
-  readonly references: AsyncIterator<{ readonly epoch: ObsEpoch }>;
   readonly refIntervalS: number | null;
   readonly recordStore: RecordStore;
   /** The rover's antenna offset at the start; given by the user (events then do not change it). */
@@ -315,9 +317,6 @@ interface ReaderSetup {
   /** The rover's first linearisation point. */
   readonly x0: EcefM;
 }
-
-/** An iterator of no reference epochs. */
-const NO_REFERENCE_EPOCHS: AsyncIterator<{ readonly epoch: ObsEpoch }> = { next: () => Promise.resolve({ done: true, value: undefined }) };
 
 /** Shares of a pass's epochs by kind. */
 class Shares implements PassShares {
@@ -373,10 +372,6 @@ class RoverReader {
   timeDifferencedSlips = 0;
   epochsWithReference = 0;
 
-  private readonly ctx: ReceiverContext;
-  private readonly store: EphemerisStore;
-  private readonly systems: readonly GnssSystem[];
-  private readonly glonassChannels: ReadonlyMap<number, number>;
   private readonly maskRad: number;
   // The options used per epoch, read once.
   private readonly dynamics: CarrierOptions['dynamics'];
@@ -390,7 +385,6 @@ class RoverReader {
   private readonly roverAntennaGiven: boolean;
   // Reference feed.
   private readonly refBuffer: ReferencePhaseBuffer;
-  private refIter: AsyncIterator<{ readonly epoch: ObsEpoch }>;
   private refDone = false;
   private refClockM = NaN;
   private pendingEvent: EpochContext['event'] = null;
@@ -414,10 +408,6 @@ class RoverReader {
   private firstMovingRecord = 0;
 
   constructor(s: ReaderSetup) {
-    this.ctx = s.ctx;
-    this.store = s.ctx.store;
-    this.systems = s.ctx.systems;
-    this.glonassChannels = s.ctx.glonassChannels;
     this.maskRad = s.maskRad;
     this.dynamics = s.carrier.dynamics;
     this.maxReferenceAgeS = s.carrier.maxReferenceAgeS;
@@ -429,7 +419,6 @@ class RoverReader {
     this.roverCal = s.roverCal;
     this.roverAntennaGiven = s.roverAntennaGiven;
     this.refBuffer = new ReferencePhaseBuffer(s.carrier.maxReferenceAgeS, s.refIntervalS);
-    this.refIter = s.references;
     this.rec = new EpochRecords(s.recordStore);
     this.roverAntenna = s.roverAntenna;
     this.pointName = s.pointName;
@@ -437,8 +426,12 @@ class RoverReader {
     keepShape(this);
   }
 
-  /** Reads the rover's epochs into the records, with their contexts (occupations and events). */
-  async read(epochs: AsyncIterable<ObsEpoch>): Promise<void> {
+  /**
+   * Reads the rover's epochs into the records, with their contexts (occupations and events). The feed is
+   * handed from method to method, not kept: the reader is kept beyond its session (kept-shapes.ts), and
+   * the ephemerides of a day can take tens of megabytes.
+   */
+  async read(epochs: AsyncIterable<ObsEpoch>, feed: ReaderFeed): Promise<void> {
     const rec = this.rec, contexts = this.contexts;
     for await (const e of epochs) {
       if (e.event) {
@@ -461,7 +454,7 @@ class RoverReader {
       const context = contexts.length - 1;
       this.pendingEvent = null;
       const isStatic = this.dynamics === 'static' || (this.dynamics === 'auto' && this.occupied);
-      const reason = await this.prepareRoverEpoch(e, isStatic, context);
+      const reason = await this.prepareRoverEpoch(e, isStatic, context, feed);
       if (reason) {
         const reasons = this.reasons;
         let r = reasons.indexOf(reason);
@@ -472,9 +465,6 @@ class RoverReader {
       }
     }
     if (this.dynamics === 'auto' && this.firstEvent === 'start-moving') rec.staticBefore(this.firstMovingRecord);
-    // The reference files are not read further (nor held: the reader is kept, kept-shapes.ts).
-    this.refIter = NO_REFERENCE_EPOCHS;
-    this.refDone = true;
   }
 
   /** The signal table's entry of a satellite's signal (added when new): the primary band's, or a further band's (`further`). */
@@ -525,16 +515,16 @@ class RoverReader {
   }
 
   /** Reads reference epochs into the buffer until one is later than the given time (or the files end). */
-  private async pullReference(untilGpsS: number): Promise<void> {
+  private async pullReference(untilGpsS: number, feed: ReaderFeed): Promise<void> {
     const refBuffer = this.refBuffer, refSeen = this.refSeen, refTracker = this.refTracker;
     while (!this.refDone && refBuffer.latestTimeGpsS <= untilGpsS) {
-      const r = await this.refIter.next();
+      const r = await feed.references.next();
       if (r.done) { this.refDone = true; break; }
       const e = r.value.epoch;
       if (e.flag > 1 || e.sats.length === 0) continue;
       if (Number.isNaN(refSeen.firstGpsS)) refSeen.firstGpsS = e.tagGpsS;
       refSeen.lastGpsS = e.tagGpsS;
-      const ep = prepareReceiverEpoch(e, this.ctx, this.refArp, this.refClockM);
+      const ep = prepareReceiverEpoch(e, feed.ctx, this.refArp, this.refClockM);
       if (!Number.isFinite(ep.clockM)) continue;
       refSeen.positioned++;
       this.refClockM = ep.clockM;
@@ -558,11 +548,11 @@ class RoverReader {
    * Prepares one rover epoch into the records; returns why it cannot be solved ('' when it can). In steps
    * of their own (each optimised on its own: a branch met late has only its step compiled again).
    */
-  private async prepareRoverEpoch(e: ObsEpoch, isStatic: boolean, context: number): Promise<string> {
+  private async prepareRoverEpoch(e: ObsEpoch, isStatic: boolean, context: number, feed: ReaderFeed): Promise<string> {
     const rec = this.rec, roverSeen = this.roverSeen, roverTracker = this.roverTracker;
     if (Number.isNaN(roverSeen.firstGpsS)) roverSeen.firstGpsS = e.tagGpsS;
     roverSeen.lastGpsS = e.tagGpsS;
-    const ep = prepareReceiverEpoch(e, this.ctx, this.x0, this.roverClockM);
+    const ep = prepareReceiverEpoch(e, feed.ctx, this.x0, this.roverClockM);
     if (!Number.isFinite(ep.clockM)) { rec.beginEpoch(e.tagGpsS, e.tagGpsS, this.x0, isStatic, NaN, context); return 'no usable satellite'; }
     this.roverClockM = ep.clockM;
     roverSeen.positioned++;
@@ -570,7 +560,7 @@ class RoverReader {
     if (this.roverCal) applyAntenna(ep, this.x0, ecefToGeodetic(this.x0), this.roverCal);
     const arcs = roverTracker.update(t, ep.sats);
     const roverFurther = this.furtherArcs(this.roverBandTrackers, ep);
-    await this.pullReference(t);
+    await this.pullReference(t, feed);
     this.refBuffer.prune(t);
     const al = this.refBuffer.align(t, ep.sats.some((s) => s.more.length > 0));
     if (!al) { rec.beginEpoch(t, e.tagGpsS, this.x0, isStatic, NaN, context); return `no reference epoch within ${this.maxReferenceAgeS} s`; }
@@ -587,7 +577,7 @@ class RoverReader {
     this.restartWithOtherBands(both, arcs, roverFurther);
     this.addEntries(k, both, arcs, roverFurther, x0, doy);
     this.restartTimeDifferencedSlips(k);
-    if (!isStatic) this.setVelocity(e, k, x0);
+    if (!isStatic) this.setVelocity(e, k, x0, feed.ctx);
     return rec.satCount[rec.indexOf(k)] === 0 ? 'no satellite common to rover and reference' : '';
   }
 
@@ -674,8 +664,8 @@ class RoverReader {
   }
 
   /** The rover's Doppler velocity at epoch k (a moving epoch), when it can be found. */
-  private setVelocity(e: ObsEpoch, k: number, x0: EcefM): void {
-    const v = dopplerVelocity(e, x0, this.store, { systems: this.systems, elevationMaskRad: this.maskRad, glonassChannels: this.glonassChannels });
+  private setVelocity(e: ObsEpoch, k: number, x0: EcefM, ctx: ReceiverContext): void {
+    const v = dopplerVelocity(e, x0, ctx.store, { systems: ctx.systems, elevationMaskRad: this.maskRad, glonassChannels: ctx.glonassChannels });
     if (v) {
       const sig = Math.max(v.sigmaEnuMS.e, v.sigmaEnuMS.n, v.sigmaEnuMS.u);
       this.rec.setVelocity(k, v.velocityEcefMS.x, v.velocityEcefMS.y, v.velocityEcefMS.z, Number.isFinite(sig) ? sig : 0.1);
