@@ -25,6 +25,7 @@
  * differences keep their integer nature only with the code clock, float-filter.ts).
  */
 import type { SatId } from '../gnss/index.js';
+import { keepShape } from './kept-shapes.js';
 
 interface ArcState {
   arc: number;
@@ -55,7 +56,9 @@ export class ArcTracker {
   /** Sum of the code clock steps not followed by the phase (m; see the file comment). */
   codeClockStepsM = 0;
 
-  constructor(private readonly maxGapS: number) {}
+  constructor(private readonly maxGapS: number) {
+    keepShape(this);
+  }
 
   /**
    * Arc number per satellite for one epoch (0 for a satellite without usable phase). `tGpsS` is the

@@ -40,6 +40,22 @@ function solveNormal(n: number, a: Float64Array, b: Float64Array): boolean {
   return true;
 }
 
+/** Ascending order of numbers (one function for every sort of the module). */
+const ascending = (p: number, q: number): number => p - q;
+
+/** The median of the values (sorted in place). */
+function medianInPlace(v: number[]): number {
+  v.sort(ascending);
+  const m = v.length >> 1;
+  return v.length % 2 ? v[m] : 0.5 * (v[m - 1] + v[m]);
+}
+
+/** Whether every row with a code is kept. */
+function allKept(rows: readonly CodeRow[], keep: readonly boolean[]): boolean {
+  for (let i = 0; i < rows.length; i++) if (!keep[i] && Number.isFinite(rows[i].codeM)) return false;
+  return true;
+}
+
 export function codeFixPosition(rows: readonly CodeRow[], start: EcefM, maskRad: number, doy: number): EcefM | null {
   const systems: GnssSystem[] = [];
   // Each row's clock (index into systems) and whether it is kept.
@@ -106,21 +122,19 @@ export function codeFixPosition(rows: readonly CodeRow[], start: EcefM, maskRad:
     if (converged || iter === 4) {
       screened = true;
       // Drop residuals beyond 5 robust sigma about the median (per constellation clocks are in the median's spread).
-      const bySys = new Map<GnssSystem, number[]>();
-      for (let q = 0; q < res.length; q++) {
-        const s = rows[resIdx[q]].system;
-        let l = bySys.get(s);
-        if (!l) bySys.set(s, (l = []));
-        l.push(res[q]);
-      }
-      const med = (v: number[]) => { const s = [...v].sort((p, q) => p - q); const m = s.length >> 1; return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]); };
-      for (const [s, l] of bySys) {
+      for (let si = 0; si < systems.length; si++) {
+        const l: number[] = [];
+        for (let q = 0; q < res.length; q++) if (clockOf[resIdx[q]] === si) l.push(res[q]);
         if (l.length < 3) continue;
-        const m = med(l);
-        const mad = Math.max(1, 1.4826 * med(l.map((v) => Math.abs(v - m))));
-        for (let q = 0; q < res.length; q++) if (rows[resIdx[q]].system === s && Math.abs(res[q] - m) > 5 * mad) keep[resIdx[q]] = false;
+        const m = medianInPlace(l);
+        const deviations: number[] = [];
+        for (let q = 0; q < l.length; q++) deviations.push(Math.abs(l[q] - m));
+        const mad = Math.max(1, 1.4826 * medianInPlace(deviations));
+        // Written for every residual of the constellation (a store met only at an outlier left the optimised
+        // code without feedback for it, and that code was entered again and again).
+        for (let q = 0; q < res.length; q++) if (clockOf[resIdx[q]] === si) keep[resIdx[q]] = !(Math.abs(res[q] - m) > 5 * mad);
       }
-      if (converged && keep.every((k, i) => k || !Number.isFinite(rows[i].codeM))) return x;
+      if (converged && allKept(rows, keep)) return x;
     }
   }
   return x;

@@ -68,7 +68,8 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
   const bFloat: Solution = { position: b.floatPosition, covariance: b.floatCovariance, i: 0 };
   const trace = (s: Solution): number => s.covariance[6 * s.i] + s.covariance[6 * s.i + 3] + s.covariance[6 * s.i + 5];
   const from = kf === 2 && kb === 2 ? 0 : kf === 2 ? 2 : kb === 2 ? 1 : trace(f) <= trace(bFixed) ? 1 : 2;
-  const d = [0, 1, 2].map((a) => r.position[3 * i + a] - b.position[a]);
+  // Arrays written out, not made by map: one array shape at each use for the optimised code.
+  const d = [r.position[3 * i] - b.position[0], r.position[3 * i + 1] - b.position[1], r.position[3 * i + 2] - b.position[2]];
   if (kf === 2 && kb === 2 && Math.hypot(d[0], d[1], d[2]) <= agreementM) {
     // Kind and covariance (when the mean has none) stay the forward pass's.
     r.fixedAmbiguities[i] = Math.max(r.fixedAmbiguities[i], b.fixedAmbiguities);
@@ -83,8 +84,7 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
   }
   if (kf !== kb) {
     const [fx, fl] = kf === 2 ? [f, bFloat] : [bFixed, fFloat];
-    const ok = [0, 1, 2].every((a) => Math.abs(fx.position[3 * fx.i + a] - fl.position[3 * fl.i + a]) <= 3 * Math.sqrt(fl.covariance[6 * fl.i + [0, 3, 5][a]]) + agreementM);
-    if (ok) {
+    if (insideBox(fx, fl, agreementM)) {
       if (kf !== 2) { set(2, b.position, b.covariance, 0, 0); r.fixedAmbiguities[i] = b.fixedAmbiguities; }
       return kf === 2 ? 1 : 2;
     }
@@ -97,6 +97,17 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
   return from;
 }
 
+/** Offsets of the variances xx, yy, zz in a covariance (xx, xy, xz, yy, yz, zz). */
+const DIAGONAL = [0, 3, 5];
+
+/** Whether the fixed position is inside the float solution's 3-sigma box (per ECEF axis) plus the agreement distance. */
+function insideBox(fx: Solution, fl: Solution, agreementM: number): boolean {
+  for (let a = 0; a < 3; a++) {
+    if (!(Math.abs(fx.position[3 * fx.i + a] - fl.position[3 * fl.i + a]) <= 3 * Math.sqrt(fl.covariance[6 * fl.i + DIAGONAL[a]]) + agreementM)) return false;
+  }
+  return true;
+}
+
 /**
  * Covariance-weighted mean of two passes' positions at epoch k, with its covariance (null when a
  * covariance is singular). Both passes hold the epoch's own measurements, so the covariance is somewhat
@@ -106,10 +117,10 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
 function weightedMean(f: Solution, b: Solution): { x: number[]; c: number[] } | null {
   const wf = inv3(f.covariance, 6 * f.i), wb = inv3(b.covariance, 6 * b.i);
   if (!wf || !wb) return null;
-  const c = inv3(wf.map((v, i) => v + wb[i]), 0);
+  const c = inv3([wf[0] + wb[0], wf[1] + wb[1], wf[2] + wb[2], wf[3] + wb[3], wf[4] + wb[4], wf[5] + wb[5]], 0);
   if (!c) return null;
-  const xf = [0, 1, 2].map((a) => f.position[3 * f.i + a]);
-  const xb = [0, 1, 2].map((a) => b.position[3 * b.i + a]);
+  const xf = [f.position[3 * f.i], f.position[3 * f.i + 1], f.position[3 * f.i + 2]];
+  const xb = [b.position[3 * b.i], b.position[3 * b.i + 1], b.position[3 * b.i + 2]];
   const s1 = mulSym(wf, xf), s2 = mulSym(wb, xb);
   return { x: mulSym(c, [s1[0] + s2[0], s1[1] + s2[1], s1[2] + s2[2]]), c };
 }

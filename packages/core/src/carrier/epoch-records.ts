@@ -19,6 +19,7 @@
  * returns e. Epoch k's satellites are then the entries satStart[e] to satStart[e] + satCount[e] - 1 of the
  * per-satellite arrays (sat, arc, phaseM...). The first visit ends the recording.
  */
+import { keepShape } from './kept-shapes.js';
 
 /** Where the chunks of per-satellite records wait for the passes: blocks of bytes written once, read back any number of times. */
 export interface RecordStore {
@@ -36,6 +37,9 @@ export interface RecordStore {
 /** The blocks kept in memory (browsers, tests; no copy on reading back). */
 export class MemoryRecordStore implements RecordStore {
   private blocks: Uint8Array[] = [];
+  constructor() {
+    keepShape(this);
+  }
   put(bytes: Uint8Array): number {
     this.blocks.push(bytes.slice());
     return this.blocks.length - 1;
@@ -144,7 +148,9 @@ export class EpochRecords {
   /** Epochs before this one are static (staticBefore). */
   private staticUntil = 0;
 
-  constructor(private readonly store: RecordStore = new MemoryRecordStore()) {}
+  constructor(private readonly store: RecordStore = new MemoryRecordStore()) {
+    keepShape(this);
+  }
 
   /** Room for `need` epochs in the chunk being recorded. */
   private growEpochs(need: number): void {
@@ -302,10 +308,7 @@ export class EpochRecords {
       if (this.loaded.length < src.length) this.loaded = new Uint8Array(src.length);
       this.loaded.set(src);
       const span = this.chunkSpan(c);
-      const v = chunkViews(this.loaded, span.entries, span.epochs);
-      this.phaseM = v.phaseM; this.codeM = v.codeM; this.los = v.los; this.elevationRad = v.elevationRad; this.arc = v.arc; this.sat = v.sat; this.fixable = v.fixable;
-      this.timeGpsS = v.timeGpsS; this.tagGpsS = v.tagGpsS; this.x0 = v.x0; this.velocity = v.velocity; this.referenceAgeS = v.referenceAgeS;
-      this.satStart = v.satStart; this.context = v.context; this.satCount = v.satCount; this.isStatic = v.isStatic; this.reason = v.reason;
+      this.useViews(chunkViews(this.loaded, span.entries, span.epochs));
       const staticEnd = Math.min(this.staticUntil - span.firstEpoch, span.epochs);
       if (staticEnd > 0) this.isStatic.fill(1, 0, staticEnd);
       this.current = c;
@@ -321,10 +324,19 @@ export class EpochRecords {
     this.packed = new Uint8Array(0);
   }
 
-  /** Releases the store (the records cannot be visited afterwards). */
+  /** The arrays of a chunk made current. */
+  private useViews(v: ReturnType<typeof chunkViews>): void {
+    this.phaseM = v.phaseM; this.codeM = v.codeM; this.los = v.los; this.elevationRad = v.elevationRad; this.arc = v.arc; this.sat = v.sat; this.fixable = v.fixable;
+    this.timeGpsS = v.timeGpsS; this.tagGpsS = v.tagGpsS; this.x0 = v.x0; this.velocity = v.velocity; this.referenceAgeS = v.referenceAgeS;
+    this.satStart = v.satStart; this.context = v.context; this.satCount = v.satCount; this.isStatic = v.isStatic; this.reason = v.reason;
+  }
+
+  /** Releases the store and the arrays (the records cannot be visited afterwards; `count` and `satTotal` stay). */
   close(): void {
     this.store.close();
     this.current = -1;
     this.loaded = new Uint8Array(0);
+    this.packed = new Uint8Array(0);
+    this.useViews(chunkViews(this.loaded, 0, 0));
   }
 }

@@ -38,6 +38,7 @@ import type { CarrierOptions } from './options.js';
 import type { EpochRecords } from './epoch-records.js';
 import type { GnssSystem, SatId } from '../gnss/index.js';
 import { ionosphereObliquity, type IonosphereWeighting } from './ionosphere-weighting.js';
+import { keepShape } from './kept-shapes.js';
 
 /** One entry of the signal table: a satellite's signal on one band (the primary band, or a further one). */
 export interface SatelliteInfo {
@@ -86,6 +87,10 @@ export class EpochResult {
    */
   residualM = new Float32Array(64);
 
+  constructor() {
+    keepShape(this);
+  }
+
   /** Clears the result for an epoch of `entries` record entries. */
   start(entries: number): void {
     this.kind = 0; this.ratio = NaN; this.fixedAmbiguities = 0; this.satellitesUsed = 0;
@@ -130,6 +135,7 @@ class KalmanState {
     this.x = new Float64Array(this.cap);
     this.p = new Float64Array(this.cap * this.cap);
     this.ph = new Float64Array(this.cap);
+    keepShape(this);
   }
 
   private grow(): void {
@@ -315,6 +321,13 @@ function nominalIntervalS(rec: EpochRecords): number {
   return d.length ? median(d) : 1;
 }
 
+/** The median of the first n values of v (sorted in place). */
+function medianInPlace(v: Float64Array, n: number): number {
+  const s = v.subarray(0, n).sort();
+  const m = n >> 1;
+  return n % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
 function median(v: number[]): number {
   const s = [...v].sort((a, b) => a - b);
   const m = s.length >> 1;
@@ -348,236 +361,389 @@ function pairKey(arcI: number, arcP: number): number {
   return arcI * 67_108_864 + arcP;
 }
 
-/** A pass of runPasses: its direction, its fixes' listener, and the consumer of its epochs' results. */
-export interface PassSpec {
-  readonly direction: 1 | -1;
-  readonly onFix?: FixListener;
+/** Takes each epoch's result of a pass as the epoch ends. */
+export interface EpochConsumer {
   /**
    * Given each epoch's result as the epoch ends (the same object refilled for the next epoch: valid during
    * the call), with the epoch's records current (EpochRecords.visit).
    */
-  readonly onEpoch: (k: number, result: EpochResult) => void;
+  epoch(k: number, result: EpochResult): void;
+}
+
+/** A pass of runPasses: its direction, its fixes' listener, and the consumer of its epochs' results. */
+export interface PassSpec {
+  readonly direction: 1 | -1;
+  readonly onFix?: FixListener;
+  readonly consumer: EpochConsumer;
 }
 
 /**
  * Runs the filter over the records once per pass given, forwards (direction 1) or backwards (-1), each from
- * a fresh state, in order, each handing its epochs' results to its onEpoch and its fixes to its onFix. The
- * passes share their functions: the second starts with the code the first had the engine optimise, where
- * functions made anew for it would have to be optimised again (and calls between them sent the shared
- * optimised code back at every epoch).
+ * a fresh state, in order, each handing its epochs' results to its consumer and its fixes to its onFix.
+ *
+ * The work is done by methods of a PassRunner, not by functions made anew for each call: the engine's
+ * optimised code of a method serves every pass and every session of the process, where optimised code of
+ * a per-call closure is bound to that call's objects and thrown away with them (so each session, and
+ * sometimes each pass, had it compiled again).
  */
 export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly PassSpec[]): PassCounts[] {
-  // The setup's fields read once: the objects handed in differ in shape from call to call (spread), and
-  // reading them in the epoch loop made the optimised code start over at every new shape.
-  const opt = setup.options;
-  const sats = setup.satellites;
-  const maskRad = setup.elevationMaskRad;
-  const fixableSystems = setup.fixableSystems;
-  let onFix: FixListener | undefined;
-  // One code clock per group (SatelliteInfo.group: a constellation, or a constellation's further band).
-  const systems = [...new Set(sats.map((s) => s.group))];
-  const groupSystem = new Map<string, GnssSystem>(sats.map((s) => [s.group, s.system]));
-  const clockSlot = new Map<string, number>(systems.map((s, i) => [s, 3 + i]));
-  // CDMA systems get a phase clock of their own (free every epoch, so still exactly double differences):
-  // some receivers step the code clock by milliseconds while the phase runs on. GLONASS phase keeps the
-  // code clock (see the file comment).
-  const cdma = systems.filter((s) => groupSystem.get(s) !== 'R');
-  const phaseClockSlot = new Map<string, number>(cdma.map((s, i) => [s, 3 + systems.length + i]));
-  for (const g of systems) if (groupSystem.get(g) === 'R') phaseClockSlot.set(g, clockSlot.get(g)!);
+  const runner = new PassRunner(rec, setup);
+  const outputs: PassCounts[] = [];
+  for (const pass of passes) outputs.push(runner.run(pass));
+  runner.dropPassState();
+  return outputs;
+}
+
+/** The filter of runPasses: what the passes share (signal table, clock slots, options), and the state of the current pass. */
+class PassRunner {
+  private readonly rec: EpochRecords;
+  private readonly sats: readonly SatelliteInfo[];
+  private readonly maskRad: number;
+  /** Elevation mask of the fixable ambiguities (rad). */
+  private readonly ambMask: number;
+  private readonly fixableSystems: ReadonlySet<GnssSystem>;
+  // The options used per epoch, read once: the objects handed in differ in shape from call to call
+  // (spread), and reading them in the epoch loop made the optimised code start over at every new shape.
+  private readonly codeAM: number;
+  private readonly codeBM: number;
+  private readonly phaseAM: number;
+  private readonly phaseBM: number;
+  private readonly minFixedAmbiguities: number;
+  private readonly holdAfterEpochs: number;
+  private readonly fixOptions: { ratioThreshold: number; minFixed: number; minSuccessRate: number };
+  /** Code errors correlated over codeCorrelationTimeS: the variance of each epoch's code is scaled up by the number of epochs in a correlation time (options.ts). */
+  private readonly codeScale: number;
+  /** Code clock slot per group (SatelliteInfo.group), and phase clock slot (the code clock's for GLONASS). */
+  private readonly clockSlot: Map<string, number>;
+  private readonly phaseClockSlot: Map<string, number>;
+  /** Slots of the position and clocks (the states every pass starts with). */
+  private readonly fixedSlots: number;
   // Per entry of the signal table: its code and phase clock slots, and its satellite's index (the
   // ionosphere state is the satellite's, shared by its bands).
-  const clockOfEntry = Int32Array.from(sats, (s) => clockSlot.get(s.group)!);
-  const phaseClockOfEntry = Int32Array.from(sats, (s) => phaseClockSlot.get(s.group)!);
-  const satIds = [...new Set(sats.map((s) => s.id))];
-  const satOfEntry = Int32Array.from(sats, (s) => satIds.indexOf(s.id));
+  private readonly clockOfEntry: Int32Array;
+  private readonly phaseClockOfEntry: Int32Array;
+  private readonly satOfEntry: Int32Array;
+  /** Differential ionosphere per satellite with further bands (ionosphere-weighting.ts); null: neglected. */
+  private readonly iono: IonosphereWeighting | null;
+
   // The state of a pass (set again at the start of each).
-  let st = new KalmanState(3 + systems.length + cdma.length);
-  const arcSlot = new Map<number, number>();
-  const arcSeen = new Map<number, number>();
-  const out = new EpochResult();
-  const ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
-  const pivots = new Map<string, number>();
-  const holdCount = new Map<number, { value: number; count: number }>();
-  const holdSeen = new Set<number>();
-  const fixOptions = { ratioThreshold: opt.ratioThreshold, minFixed: opt.minFixedAmbiguities, minSuccessRate: opt.minSuccessRate };
+  private st: KalmanState;
+  private onFix: FixListener | undefined = undefined;
+  private readonly arcSlot = new Map<number, number>();
+  private readonly arcSeen = new Map<number, number>();
+  private readonly out = new EpochResult();
+  private readonly pivots = new Map<string, number>();
+  private readonly holdCount = new Map<number, { value: number; count: number }>();
+  private readonly holdSeen = new Set<number>();
   /** Constellations of the satellites used in the current epoch. */
-  const usedSys = new Set<GnssSystem>();
-  let unflaggedSlips = 0, codeOutliers = 0, disturbedEpochs = 0;
-  let arcsBefore = new Set<number>();
+  private readonly usedSys = new Set<GnssSystem>();
+  private unflaggedSlips = 0;
+  private codeOutliers = 0;
+  private disturbedEpochs = 0;
   /** The previous epoch's index (-1 before the first), time, static flag and velocity (its chunk may be gone). */
-  let prev = -1, prevTimeS = NaN, prevStatic = 0;
-  const prevVelocity = new Float64Array(4);
-  const remember = (k: number, e: number): void => {
-    prev = k; prevTimeS = rec.timeGpsS[e]; prevStatic = rec.isStatic[e];
-    for (let i = 0; i < 4; i++) prevVelocity[i] = rec.velocity[4 * e + i];
-  };
+  private prev = -1;
+  private prevTimeS = NaN;
+  private prevStatic = 0;
+  private readonly prevVelocity = new Float64Array(4);
   // The sparse row of a measurement: slots and coefficients (position, clock, ambiguity, ionosphere).
-  const idx = new Int32Array(6);
-  const val = new Float64Array(6);
-  const holdIdx = new Int32Array(2);
-  const holdVal = Float64Array.of(1, -1);
-  const varOf = singleDifferenceVarianceM2;
-  // Code errors correlated over codeCorrelationTimeS: the variance of each epoch's code is scaled up by the
-  // number of epochs in a correlation time (options.ts).
-  const codeScale = codeVarianceScale(rec, opt);
-  // Differential ionosphere per satellite with further bands (ionosphere-weighting.ts): its state, when last
-  // met, and the states of the current epoch's satellites.
-  const iono = setup.ionosphere ?? null;
-  const ionoSlot = new Map<SatId, number>();
-  const ionoSeen = new Map<SatId, number>();
-  /** The ionosphere state of each satellite (satIds) at the current epoch; -1: none. */
-  const ionoNow = new Int32Array(satIds.length).fill(-1);
-  /** The ionosphere's part of entry j's single difference on the code (phase: minus it), at the state xs (by slot). */
-  const ionoTerm = (j: number, xs: Float64Array): number => {
-    const io = ionoNow[satOfEntry[rec.sat[j]]];
-    return io < 0 ? 0 : sats[rec.sat[j]].ionoFactor * xs[io];
-  };
+  private readonly idx = new Int32Array(6);
+  private readonly val = new Float64Array(6);
+  private readonly holdIdx = new Int32Array(2);
+  private readonly holdVal = Float64Array.of(1, -1);
+  // The ionosphere states: their slots, when last met, and the states of the current epoch's satellites.
+  private readonly ionoSlot = new Map<SatId, number>();
+  private readonly ionoSeen = new Map<SatId, number>();
+  /** The ionosphere state of each satellite (satOfEntry) at the current epoch; -1: none. */
+  private readonly ionoNow: Int32Array;
   /** The state conditioned on the fixed integers (fixEpoch), by slot. */
-  let conditioned = new Float64Array(0);
+  private conditioned = new Float64Array(0);
   // fixEpoch's scratch: double-difference ambiguities and covariance, the fixed subset's covariance and
   // misfit, the position's covariance with it and its copies solved in place.
-  let fixA = new Float64Array(0), fixD = new Float64Array(0), fixQ = new Float64Array(0), fixQs = new Float64Array(0);
-  let fixQxa: Float64Array[] = [], fixRhs: Float64Array[] = [];
-  // Per-epoch scratch: the clock samples, the arcs of this epoch and of the previous one.
-  const samples: number[] = [];
-  let arcsNow = new Set<number>();
-  /** Removes a state and renumbers the slots after it (KalmanState.remove). */
-  const release = (slot: number): void => {
-    st.remove(slot);
-    for (const [key, s] of arcSlot) if (s > slot) arcSlot.set(key, s - 1);
-    for (const [key, s] of ionoSlot) if (s > slot) ionoSlot.set(key, s - 1);
-  };
+  private fixA = new Float64Array(0);
+  private fixD = new Float64Array(0);
+  private fixQ = new Float64Array(0);
+  private fixQs = new Float64Array(0);
+  private fixQxa: Float64Array[] = [];
+  private fixRhs: Float64Array[] = [];
+  // Per-epoch scratch: the clock samples (a typed array: a plain one started each pass as an array of small
+  // integers, and its first fraction changed its shape under the optimised code), the arcs of this epoch
+  // and of the previous one.
+  private samples = new Float64Array(64);
+  private arcsNow = new Set<number>();
+  private arcsBefore = new Set<number>();
+  /** The epoch's sum of normalised squared phase innovations of arcs already known, and their number (updatePhase). */
+  private nisSum = 0;
+  private nisDof = 0;
 
-  const outputs: PassCounts[] = [];
-  for (const pass of passes) {
-    st = new KalmanState(3 + systems.length + cdma.length);
-    arcSlot.clear(); arcSeen.clear(); pivots.clear(); holdCount.clear();
-    ionoSlot.clear(); ionoSeen.clear(); ionoNow.fill(-1);
-    unflaggedSlips = 0; codeOutliers = 0; disturbedEpochs = 0;
-    arcsBefore = new Set<number>(); arcsNow = new Set<number>();
-    prev = -1; prevTimeS = NaN; prevStatic = 0; prevVelocity.fill(NaN);
-    onFix = pass.onFix;
-    // The epoch's work in a function of its own: called once per epoch, it is optimised like any function
+  constructor(rec: EpochRecords, setup: PassSetup) {
+    const opt = setup.options;
+    const sats = setup.satellites;
+    this.rec = rec;
+    this.sats = sats;
+    this.maskRad = setup.elevationMaskRad;
+    this.ambMask = opt.ambiguityMaskDeg * Math.PI / 180;
+    this.fixableSystems = setup.fixableSystems;
+    this.codeAM = opt.codeAM; this.codeBM = opt.codeBM; this.phaseAM = opt.phaseAM; this.phaseBM = opt.phaseBM;
+    this.minFixedAmbiguities = opt.minFixedAmbiguities;
+    this.holdAfterEpochs = opt.holdAfterEpochs;
+    this.fixOptions = { ratioThreshold: opt.ratioThreshold, minFixed: opt.minFixedAmbiguities, minSuccessRate: opt.minSuccessRate };
+    this.codeScale = codeVarianceScale(rec, opt);
+    // One code clock per group (SatelliteInfo.group: a constellation, or a constellation's further band).
+    const systems = [...new Set(sats.map((s) => s.group))];
+    const groupSystem = new Map<string, GnssSystem>(sats.map((s) => [s.group, s.system]));
+    const clockSlot = new Map<string, number>(systems.map((s, i) => [s, 3 + i]));
+    // CDMA systems get a phase clock of their own (free every epoch, so still exactly double differences):
+    // some receivers step the code clock by milliseconds while the phase runs on. GLONASS phase keeps the
+    // code clock (see the file comment).
+    const cdma = systems.filter((s) => groupSystem.get(s) !== 'R');
+    const phaseClockSlot = new Map<string, number>(cdma.map((s, i) => [s, 3 + systems.length + i]));
+    for (const g of systems) if (groupSystem.get(g) === 'R') phaseClockSlot.set(g, clockSlot.get(g)!);
+    this.clockSlot = clockSlot;
+    this.phaseClockSlot = phaseClockSlot;
+    this.fixedSlots = 3 + systems.length + cdma.length;
+    this.clockOfEntry = Int32Array.from(sats, (s) => clockSlot.get(s.group)!);
+    this.phaseClockOfEntry = Int32Array.from(sats, (s) => phaseClockSlot.get(s.group)!);
+    const satIds = [...new Set(sats.map((s) => s.id))];
+    this.satOfEntry = Int32Array.from(sats, (s) => satIds.indexOf(s.id));
+    this.iono = setup.ionosphere ?? null;
+    this.ionoNow = new Int32Array(satIds.length).fill(-1);
+    this.st = new KalmanState(this.fixedSlots);
+    keepShape(this);
+  }
+
+  /** Drops the last pass's state and scratch (the runner itself is kept: kept-shapes.ts). */
+  dropPassState(): void {
+    this.st = new KalmanState(0);
+    this.onFix = undefined;
+    this.arcSlot.clear(); this.arcSeen.clear(); this.pivots.clear(); this.holdCount.clear(); this.holdSeen.clear();
+    this.ionoSlot.clear(); this.ionoSeen.clear();
+    this.conditioned = new Float64Array(0);
+    this.fixA = new Float64Array(0); this.fixD = new Float64Array(0); this.fixQ = new Float64Array(0); this.fixQs = new Float64Array(0);
+    this.fixQxa = []; this.fixRhs = [];
+  }
+
+  /** One pass from a fresh state: its epochs' results to its consumer, its fixes to its onFix. */
+  run(pass: PassSpec): PassCounts {
+    const rec = this.rec;
+    this.st = new KalmanState(this.fixedSlots);
+    this.arcSlot.clear(); this.arcSeen.clear(); this.pivots.clear(); this.holdCount.clear();
+    this.ionoSlot.clear(); this.ionoSeen.clear(); this.ionoNow.fill(-1);
+    this.unflaggedSlips = 0; this.codeOutliers = 0; this.disturbedEpochs = 0;
+    this.arcsBefore = new Set<number>(); this.arcsNow = new Set<number>();
+    this.prev = -1; this.prevTimeS = NaN; this.prevStatic = 0; this.prevVelocity.fill(NaN);
+    this.onFix = pass.onFix;
+    // The epoch's work in a method of its own: called once per epoch, it is optimised like any function
     // (the epoch loop alone would wait for on-stack replacement, and start over at each deoptimisation).
     // The pass's consumer is called here, not in epochStep: each pass has its own, and a call inlined in
     // epochStep's optimised code would be deoptimised at every epoch of the next pass.
-    const onEpoch = pass.onEpoch;
+    const consumer = pass.consumer;
+    const out = this.out;
     for (let n = 0; n < rec.count; n++) {
       const k = pass.direction === 1 ? n : rec.count - 1 - n;
-      epochStep(k);
-      onEpoch(k, out);
+      this.epochStep(k);
+      consumer.epoch(k, out);
     }
-    outputs.push({ unflaggedSlips, codeOutliers, disturbedEpochs });
+    return { unflaggedSlips: this.unflaggedSlips, codeOutliers: this.codeOutliers, disturbedEpochs: this.disturbedEpochs };
   }
-  return outputs;
 
-  /** One epoch of the pass: prediction, clocks, code and phase updates, the epoch's test, float and fixed solutions. */
-  function epochStep(k: number): void {
+  /** Keeps what the next epoch's prediction needs of epoch k (record e). */
+  private remember(k: number, e: number): void {
+    const rec = this.rec;
+    this.prev = k; this.prevTimeS = rec.timeGpsS[e]; this.prevStatic = rec.isStatic[e];
+    for (let i = 0; i < 4; i++) this.prevVelocity[i] = rec.velocity[4 * e + i];
+  }
+
+  /** The ionosphere's part of entry j's single difference on the code (phase: minus it), at the state xs (by slot). */
+  private ionoTerm(j: number, xs: Float64Array): number {
+    const s = this.rec.sat[j];
+    const io = this.ionoNow[this.satOfEntry[s]];
+    return io < 0 ? 0 : this.sats[s].ionoFactor * xs[io];
+  }
+
+  /** Removes a state and renumbers the slots after it (KalmanState.remove). */
+  private release(slot: number): void {
+    this.st.remove(slot);
+    for (const [key, s] of this.arcSlot) if (s > slot) this.arcSlot.set(key, s - 1);
+    for (const [key, s] of this.ionoSlot) if (s > slot) this.ionoSlot.set(key, s - 1);
+  }
+
+  /** The geometric part of entry j's single difference for a position change (dx, dy, dz) from the linearisation point. */
+  private geometry(j: number, dx: number, dy: number, dz: number): number {
+    const los = this.rec.los;
+    return -(los[3 * j] * dx + los[3 * j + 1] * dy + los[3 * j + 2] * dz);
+  }
+
+  /**
+   * One epoch of the pass: prediction, clocks, code and phase updates, the epoch's test, float and fixed
+   * solutions. In steps of their own: each is optimised on its own, so a deoptimisation in one (a branch met
+   * for the first time) has only that step compiled again.
+   */
+  private epochStep(k: number): void {
+    const rec = this.rec, st = this.st, out = this.out;
     const e = rec.visit(k);
     const t = rec.timeGpsS[e];
-    const x0x = rec.x0[3 * e], x0y = rec.x0[3 * e + 1], x0z = rec.x0[3 * e + 2];
-    // Position prediction.
-    if (prev < 0) {
-      for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
-    } else {
-      const dt = t - prevTimeS;
-      const staticPair = rec.isStatic[e] === 1 && prevStatic === 1;
-      if (!staticPair) {
-        const v0 = prevVelocity, v1 = 4 * e;
-        if (Number.isFinite(v0[0]) && Number.isFinite(rec.velocity[v1]) && Math.abs(dt) <= 5) {
-          const sig = Math.max(v0[3], rec.velocity[v1 + 3]);
-          const q = ((Number.isFinite(sig) ? sig : 0.1) + 0.05) ** 2 * dt * dt;
-          for (let i = 0; i < 3; i++) {
-            // The mean of the two velocities times the interval (trapezoid rule) misses the displacement by up
-            // to half the velocity change times the interval when the change is not uniform in the interval
-            // (an antenna that starts or stops within it): that bound is added to the process noise per axis.
-            const dv = 0.5 * (rec.velocity[v1 + i] - v0[i]) * dt;
-            st.x[i] += 0.5 * (v0[i] + rec.velocity[v1 + i]) * dt;
-            st.p[i * st.cap + i] += q + dv * dv;
-          }
-        } else {
-          for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
-        }
-      }
-    }
-    // Drop ambiguity states of arcs not met for a while.
-    for (const [arc, seen] of arcSeen) {
-      if (Math.abs(t - seen) > DROP_AFTER_S) { const slot = arcSlot.get(arc)!; arcSlot.delete(arc); arcSeen.delete(arc); release(slot); }
-    }
+    this.predictPosition(e, t);
+    this.dropUnseenArcs(t);
     const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
     out.start(j1 - j0);
-    if (iono) {
-      // Random walk since the previous epoch; states not met for a while dropped; new ones at their prior.
-      const dtS = prev < 0 ? 0 : Math.abs(t - prevTimeS);
-      for (const [sat, slot] of ionoSlot) {
-        if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { ionoSlot.delete(sat); ionoSeen.delete(sat); release(slot); continue; }
-        st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
-      }
-      ionoNow.fill(-1);
-      for (let j = j0; j < j1; j++) {
-        const info = sats[rec.sat[j]];
-        if (info.primary || rec.elevationRad[j] < maskRad) continue;
-        let slot = ionoSlot.get(info.id);
-        if (slot === undefined) {
-          const sig = iono.verticalSigmaM * ionosphereObliquity(rec.elevationRad[j]);
-          slot = st.allocate(0, sig * sig);
-          ionoSlot.set(info.id, slot);
-        }
-        ionoSeen.set(info.id, t);
-        ionoNow[satOfEntry[rec.sat[j]]] = slot;
-      }
+    if (this.iono) this.predictIonosphere(e, t, j0, j1);
+    this.startClocks(e, j0, j1);
+    const used = this.updateCode(e, j0, j1);
+    this.updatePhase(e, t, j0, j1);
+    // Sequential innovations are independent: their normalised squares sum to a chi-square with one degree
+    // of freedom each (the normalised innovation squared test, e.g. Bar-Shalom et al. 2001, 5.4). An epoch
+    // that fails it at 0.1 % holds a disturbance the slip tests did not catch: no fix is tried in it.
+    const turned = this.arcTurnover(j0, j1);
+    const disturbed = turned || (this.nisDof > 0 && this.nisSum > chiSquareQuantile(0.999, this.nisDof));
+    if (disturbed) this.disturbedEpochs++;
+    out.satellitesUsed = used;
+    if (used < 4 + this.usedSys.size) { this.remember(k, e); return; }
+    // Float solution.
+    const c = st.cap;
+    out.kind = 1;
+    out.position[0] = st.x[0]; out.position[1] = st.x[1]; out.position[2] = st.x[2];
+    out.covariance[0] = st.p[0]; out.covariance[1] = st.p[1]; out.covariance[2] = st.p[2];
+    out.covariance[3] = st.p[c + 1]; out.covariance[4] = st.p[c + 2]; out.covariance[5] = st.p[2 * c + 2];
+    out.floatPosition.set(out.position);
+    out.floatCovariance.set(out.covariance);
+    if (!disturbed) this.fixEpoch(k, e);
+    // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
+    this.writeResiduals(e, out.kind === 2 ? this.conditioned : st.x);
+    this.remember(k, e);
+  }
+
+  /** Position prediction to epoch record e at time t (file comment: process model). */
+  private predictPosition(e: number, t: number): void {
+    const rec = this.rec, st = this.st;
+    if (this.prev < 0) {
+      for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
+      return;
     }
-    // Clocks: free every epoch, started at the median code difference of the constellation.
-    const dx = st.x[0] - x0x, dy = st.x[1] - x0y, dz = st.x[2] - x0z;
-    const geo = (j: number): number => -(rec.los[3 * j] * dx + rec.los[3 * j + 1] * dy + rec.los[3 * j + 2] * dz);
-    for (const [sys, slot] of clockSlot) {
-      samples.length = 0;
-      for (let j = j0; j < j1; j++) if (clockOfEntry[rec.sat[j]] === slot && Number.isFinite(rec.codeM[j])) samples.push(rec.codeM[j] - geo(j));
-      st.reset(slot, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
-      const ps = phaseClockSlot.get(sys)!;
+    const dt = t - this.prevTimeS;
+    const staticPair = rec.isStatic[e] === 1 && this.prevStatic === 1;
+    if (staticPair) return;
+    const v0 = this.prevVelocity, v1 = 4 * e;
+    if (Number.isFinite(v0[0]) && Number.isFinite(rec.velocity[v1]) && Math.abs(dt) <= 5) {
+      const sig = Math.max(v0[3], rec.velocity[v1 + 3]);
+      const q = ((Number.isFinite(sig) ? sig : 0.1) + 0.05) ** 2 * dt * dt;
+      for (let i = 0; i < 3; i++) {
+        // The mean of the two velocities times the interval (trapezoid rule) misses the displacement by up
+        // to half the velocity change times the interval when the change is not uniform in the interval
+        // (an antenna that starts or stops within it): that bound is added to the process noise per axis.
+        const dv = 0.5 * (rec.velocity[v1 + i] - v0[i]) * dt;
+        st.x[i] += 0.5 * (v0[i] + rec.velocity[v1 + i]) * dt;
+        st.p[i * st.cap + i] += q + dv * dv;
+      }
+    } else {
+      for (let i = 0; i < 3; i++) st.reset(i, rec.x0[3 * e + i], INITIAL_POSITION_VAR_M2);
+    }
+  }
+
+  /** Drops the ambiguity states of arcs not met for a while. */
+  private dropUnseenArcs(t: number): void {
+    const arcSlot = this.arcSlot, arcSeen = this.arcSeen;
+    for (const [arc, seen] of arcSeen) {
+      if (Math.abs(t - seen) > DROP_AFTER_S) { const slot = arcSlot.get(arc)!; arcSlot.delete(arc); arcSeen.delete(arc); this.release(slot); }
+    }
+  }
+
+  /**
+   * The ionosphere states: a random walk since the previous epoch; states not met for a while dropped; new
+   * ones at their prior; the states of the epoch's satellites (ionoNow).
+   */
+  private predictIonosphere(e: number, t: number, j0: number, j1: number): void {
+    const rec = this.rec, sats = this.sats, st = this.st, iono = this.iono!;
+    const ionoSlot = this.ionoSlot, ionoSeen = this.ionoSeen;
+    const dtS = this.prev < 0 ? 0 : Math.abs(t - this.prevTimeS);
+    for (const [sat, slot] of ionoSlot) {
+      if (Math.abs(t - ionoSeen.get(sat)!) > DROP_AFTER_S) { ionoSlot.delete(sat); ionoSeen.delete(sat); this.release(slot); continue; }
+      st.p[slot * st.cap + slot] += iono.randomWalkM2PerS * dtS;
+    }
+    this.ionoNow.fill(-1);
+    for (let j = j0; j < j1; j++) {
+      const info = sats[rec.sat[j]];
+      if (info.primary || rec.elevationRad[j] < this.maskRad) continue;
+      let slot = ionoSlot.get(info.id);
+      if (slot === undefined) {
+        const sig = iono.verticalSigmaM * ionosphereObliquity(rec.elevationRad[j]);
+        slot = st.allocate(0, sig * sig);
+        ionoSlot.set(info.id, slot);
+      }
+      ionoSeen.set(info.id, t);
+      this.ionoNow[this.satOfEntry[rec.sat[j]]] = slot;
+    }
+  }
+
+  /** Clocks: free every epoch, started at the median code (and phase) difference of their group. */
+  private startClocks(e: number, j0: number, j1: number): void {
+    const rec = this.rec, sats = this.sats, st = this.st, arcSlot = this.arcSlot;
+    const dx = st.x[0] - rec.x0[3 * e], dy = st.x[1] - rec.x0[3 * e + 1], dz = st.x[2] - rec.x0[3 * e + 2];
+    if (this.samples.length < j1 - j0) this.samples = new Float64Array(2 * (j1 - j0));
+    const samples = this.samples, clockOfEntry = this.clockOfEntry;
+    for (const [sys, slot] of this.clockSlot) {
+      let ns = 0;
+      for (let j = j0; j < j1; j++) if (clockOfEntry[rec.sat[j]] === slot && Number.isFinite(rec.codeM[j])) samples[ns++] = rec.codeM[j] - this.geometry(j, dx, dy, dz);
+      st.reset(slot, ns ? medianInPlace(samples, ns) : 0, CLOCK_VAR_M2);
+      const ps = this.phaseClockSlot.get(sys)!;
       if (ps === slot) continue;
-      samples.length = 0;
+      ns = 0;
       for (let j = j0; j < j1; j++) {
         if (clockOfEntry[rec.sat[j]] !== slot || !Number.isFinite(rec.phaseM[j])) continue;
         const a = arcSlot.get(rec.arc[j]);
-        if (a !== undefined) samples.push(rec.phaseM[j] - geo(j) - sats[rec.sat[j]].wavelengthM * st.x[a] + ionoTerm(j, st.x));
+        if (a !== undefined) samples[ns++] = rec.phaseM[j] - this.geometry(j, dx, dy, dz) - sats[rec.sat[j]].wavelengthM * st.x[a] + this.ionoTerm(j, st.x);
       }
-      st.reset(ps, samples.length ? median(samples) : 0, CLOCK_VAR_M2);
+      st.reset(ps, ns ? medianInPlace(samples, ns) : 0, CLOCK_VAR_M2);
     }
+  }
+
+  /** The code updates of the epoch's entries; returns the satellites used (their constellations: usedSys). */
+  private updateCode(e: number, j0: number, j1: number): number {
+    const rec = this.rec, sats = this.sats, st = this.st, idx = this.idx, val = this.val, maskRad = this.maskRad;
+    const x0x = rec.x0[3 * e], x0y = rec.x0[3 * e + 1], x0z = rec.x0[3 * e + 2];
+    const usedSys = this.usedSys, codeR = this.codeScale;
     let used = 0;
     usedSys.clear();
-    // Code.
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
       if (el < maskRad || !Number.isFinite(rec.codeM[j])) continue;
-      const cs = clockOfEntry[rec.sat[j]];
+      const cs = this.clockOfEntry[rec.sat[j]];
       idx[0] = 0; idx[1] = 1; idx[2] = 2; idx[3] = cs;
       val[0] = -rec.los[3 * j]; val[1] = -rec.los[3 * j + 1]; val[2] = -rec.los[3 * j + 2]; val[3] = 1;
       let nh = 4;
-      const io = ionoNow[satOfEntry[rec.sat[j]]];
+      const io = this.ionoNow[this.satOfEntry[rec.sat[j]]];
       if (io >= 0) { idx[nh] = io; val[nh++] = sats[rec.sat[j]].ionoFactor; }
-      const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs] + ionoTerm(j, st.x);
+      const pred = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) + st.x[cs] + this.ionoTerm(j, st.x);
       const v = rec.codeM[j] - pred;
-      const r = codeScale * varOf(opt.codeAM, opt.codeBM, el);
+      const r = codeR * singleDifferenceVarianceM2(this.codeAM, this.codeBM, el);
       const s = st.innovationVariance(idx, val, nh, r);
-      if (v * v > 25 * s && prev >= 0) { codeOutliers++; continue; }
+      if (v * v > 25 * s && this.prev >= 0) { this.codeOutliers++; continue; }
       st.update(idx, val, nh, v, r);
       // Satellites used and their constellations: counted on the primary band.
       if (!sats[rec.sat[j]].primary) continue;
       used++;
       usedSys.add(sats[rec.sat[j]].system);
     }
-    // Phase. The normalised innovations of arcs already known are summed for the epoch's test.
+    return used;
+  }
+
+  /**
+   * The phase updates of the epoch's entries (new arcs get a state; an unflagged slip starts its arc's
+   * again). The normalised innovations of arcs already known are summed for the epoch's test (nisSum, nisDof).
+   */
+  private updatePhase(e: number, t: number, j0: number, j1: number): void {
+    const rec = this.rec, sats = this.sats, st = this.st, idx = this.idx, val = this.val, maskRad = this.maskRad;
+    const arcSlot = this.arcSlot, arcSeen = this.arcSeen;
+    const x0x = rec.x0[3 * e], x0y = rec.x0[3 * e + 1], x0z = rec.x0[3 * e + 2];
     let nis = 0, nisDof = 0;
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
       if (el < maskRad || !Number.isFinite(rec.phaseM[j])) continue;
       const info = sats[rec.sat[j]];
-      const cs = phaseClockOfEntry[rec.sat[j]];
+      const cs = this.phaseClockOfEntry[rec.sat[j]];
       const lam = info.wavelengthM;
       const arc = rec.arc[j];
       // Geometry less the ionosphere (which delays the code and advances the phase).
-      const geoNow = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) - ionoTerm(j, st.x);
+      const geoNow = -(rec.los[3 * j] * (st.x[0] - x0x) + rec.los[3 * j + 1] * (st.x[1] - x0y) + rec.los[3 * j + 2] * (st.x[2] - x0z)) - this.ionoTerm(j, st.x);
       let slot = arcSlot.get(arc);
       const n0 = (rec.phaseM[j] - geoNow - st.x[cs]) / lam;
       if (slot === undefined) {
@@ -588,101 +754,80 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
       idx[0] = 0; idx[1] = 1; idx[2] = 2; idx[3] = cs; idx[4] = slot;
       val[0] = -rec.los[3 * j]; val[1] = -rec.los[3 * j + 1]; val[2] = -rec.los[3 * j + 2]; val[3] = 1; val[4] = lam;
       let nh = 5;
-      const io = ionoNow[satOfEntry[rec.sat[j]]];
+      const io = this.ionoNow[this.satOfEntry[rec.sat[j]]];
       if (io >= 0) { idx[nh] = io; val[nh++] = -info.ionoFactor; }
-      const r = varOf(opt.phaseAM, opt.phaseBM, el);
+      const r = singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, el);
       let v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
       const s = st.innovationVariance(idx, val, nh, r);
       if (v * v > 25 * s && st.p[slot * st.cap + slot] < 0.0625) {
-        unflaggedSlips++;
+        this.unflaggedSlips++;
         st.reset(slot, n0, (AMBIGUITY_SIGMA_M / lam) ** 2);
-        for (const key of [...holdCount.keys()]) if (Math.floor(key / 67_108_864) === arc || key % 67_108_864 === arc) holdCount.delete(key);
+        this.forgetHeldPairsOf(arc);
         v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
       } else if (st.p[slot * st.cap + slot] < 0.0625) { nis += (v * v) / s; nisDof++; }
       st.update(idx, val, nh, v, r);
     }
-    // Sequential innovations are independent: their normalised squares sum to a chi-square with one degree
-    // of freedom each (the normalised innovation squared test, e.g. Bar-Shalom et al. 2001, 5.4). An epoch
-    // that fails it at 0.1 % holds a disturbance the slip tests did not catch: no fix is tried in it.
-    // Arc turnover: when more than half of the arcs start or end at once, the receiver's tracking was
-    // disturbed as a whole (shock, power, a shaded sky) and the arcs that kept lock are suspect too.
+    this.nisSum = nis;
+    this.nisDof = nisDof;
+  }
+
+  /**
+   * Arc turnover: when more than half of the arcs start or end at once, the receiver's tracking was
+   * disturbed as a whole (shock, power, a shaded sky) and the arcs that kept lock are suspect too.
+   */
+  private arcTurnover(j0: number, j1: number): boolean {
+    const rec = this.rec, arcsNow = this.arcsNow, arcsBefore = this.arcsBefore;
     arcsNow.clear();
-    for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= maskRad) arcsNow.add(rec.arc[j]);
+    for (let j = j0; j < j1; j++) if (rec.arc[j] > 0 && rec.elevationRad[j] >= this.maskRad) arcsNow.add(rec.arc[j]);
     let turnover = 0;
     for (const a of arcsNow) if (!arcsBefore.has(a)) turnover++;
     for (const a of arcsBefore) if (!arcsNow.has(a)) turnover++;
     const turned = arcsBefore.size > 0 && turnover > 0.5 * Math.max(arcsBefore.size, arcsNow.size);
-    const spare = arcsBefore;
-    arcsBefore = arcsNow;
-    arcsNow = spare;
-    const disturbed = turned || (nisDof > 0 && nis > chiSquareQuantile(0.999, nisDof));
-    if (disturbed) disturbedEpochs++;
-    out.satellitesUsed = used;
-    if (used < 4 + usedSys.size) { remember(k, e); return; }
-    // Float solution.
-    const c = st.cap;
-    out.kind = 1;
-    out.position[0] = st.x[0]; out.position[1] = st.x[1]; out.position[2] = st.x[2];
-    out.covariance[0] = st.p[0]; out.covariance[1] = st.p[1]; out.covariance[2] = st.p[2];
-    out.covariance[3] = st.p[c + 1]; out.covariance[4] = st.p[c + 2]; out.covariance[5] = st.p[2 * c + 2];
-    out.floatPosition.set(out.position);
-    out.floatCovariance.set(out.covariance);
-    if (!disturbed) fixEpoch(k, e);
-    // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
-    writeResiduals(e, out.kind === 2 ? conditioned : st.x);
-    remember(k, e);
+    this.arcsBefore = arcsNow;
+    this.arcsNow = arcsBefore;
+    return turned;
+  }
+
+  /** An arc started again: the held double differences it is part of (as satellite or pivot) are forgotten. */
+  private forgetHeldPairsOf(arc: number): void {
+    const holdCount = this.holdCount;
+    for (const key of [...holdCount.keys()]) if (Math.floor(key / 67_108_864) === arc || key % 67_108_864 === arc) holdCount.delete(key);
   }
 
   /** Post-fit residuals of an epoch's entries at the state given by X (EpochResult.residualM). */
-  function writeResiduals(e: number, xs: Float64Array): void {
+  private writeResiduals(e: number, xs: Float64Array): void {
+    const rec = this.rec, out = this.out;
     const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
     const px = xs[0] - rec.x0[3 * e], py = xs[1] - rec.x0[3 * e + 1], pz = xs[2] - rec.x0[3 * e + 2];
     for (let j = j0; j < j1; j++) {
-      if (rec.elevationRad[j] < maskRad) continue;
-      const info = sats[rec.sat[j]];
+      if (rec.elevationRad[j] < this.maskRad) continue;
+      const info = this.sats[rec.sat[j]];
       const geoNow = -(rec.los[3 * j] * px + rec.los[3 * j + 1] * py + rec.los[3 * j + 2] * pz);
-      const slot = arcSlot.get(rec.arc[j]);
-      const ionoM = ionoTerm(j, xs);
+      const slot = this.arcSlot.get(rec.arc[j]);
+      const ionoM = this.ionoTerm(j, xs);
       if (Number.isFinite(rec.phaseM[j]) && slot !== undefined) {
-        out.residualM[j - j0] = rec.phaseM[j] - (geoNow - ionoM + xs[phaseClockOfEntry[rec.sat[j]]] + info.wavelengthM * xs[slot]);
+        out.residualM[j - j0] = rec.phaseM[j] - (geoNow - ionoM + xs[this.phaseClockOfEntry[rec.sat[j]]] + info.wavelengthM * xs[slot]);
       } else if (Number.isFinite(rec.codeM[j])) {
-        out.residualM[j - j0] = rec.codeM[j] - (geoNow + ionoM + xs[clockOfEntry[rec.sat[j]]]);
+        out.residualM[j - j0] = rec.codeM[j] - (geoNow + ionoM + xs[this.clockOfEntry[rec.sat[j]]]);
       }
     }
   }
 
   /** Double differences of the epoch's fixable arcs, LAMBDA with partial fixing, conditioning and hold. */
-  function fixEpoch(k: number, e: number): void {
-    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
-    const bySys = new Map<string, { slot: number; arc: number; el: number; sat: number }[]>();
-    for (let j = j0; j < j1; j++) {
-      const info = sats[rec.sat[j]];
-      if (!fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < ambMask) continue;
-      const slot = arcSlot.get(rec.arc[j]);
-      if (slot === undefined) continue;
-      let l = bySys.get(info.group);
-      if (!l) bySys.set(info.group, (l = []));
-      l.push({ slot, arc: rec.arc[j], el: rec.elevationRad[j], sat: rec.sat[j] });
-    }
-    const dd: { i: number; p: number; arcI: number; arcP: number; el: number; satI: number; satP: number }[] = [];
-    for (const [sys, list] of bySys) {
-      if (list.length < 2) continue;
-      const prevPivot = pivots.get(sys);
-      let piv = list.find((q) => q.arc === prevPivot);
-      if (!piv) {
-        piv = list[0];
-        for (const q of list) if (q.el > piv.el) piv = q;
-      }
-      pivots.set(sys, piv.arc);
-      for (const q of list) if (q !== piv) dd.push({ i: q.slot, p: piv.slot, arcI: q.arc, arcP: piv.arc, el: q.el, satI: q.sat, satP: piv.sat });
-    }
+  private fixEpoch(k: number, e: number): void {
+    const st = this.st, out = this.out;
+    const dd = this.doubleDifferences(e);
     const m = dd.length;
-    if (m < opt.minFixedAmbiguities) return;
+    if (m < this.minFixedAmbiguities) return;
     const x = st.x;
     // Scratch arrays of the pass, grown as needed (larger than needed: every reader indexes with m or ns).
-    if (fixA.length < m) { fixA = new Float64Array(2 * m); fixD = new Float64Array(2 * m); fixQxa = [0, 1, 2].map(() => new Float64Array(2 * m)); fixRhs = [0, 1, 2].map(() => new Float64Array(2 * m)); }
-    if (fixQ.length < m * m) { fixQ = new Float64Array(4 * m * m); fixQs = new Float64Array(4 * m * m); }
-    const a = fixA, q = fixQ;
+    if (this.fixA.length < m) {
+      this.fixA = new Float64Array(2 * m); this.fixD = new Float64Array(2 * m);
+      this.fixQxa = [new Float64Array(2 * m), new Float64Array(2 * m), new Float64Array(2 * m)];
+      this.fixRhs = [new Float64Array(2 * m), new Float64Array(2 * m), new Float64Array(2 * m)];
+    }
+    if (this.fixQ.length < m * m) { this.fixQ = new Float64Array(4 * m * m); this.fixQs = new Float64Array(4 * m * m); }
+    const a = this.fixA, q = this.fixQ;
     for (let u = 0; u < m; u++) {
       a[u] = x[dd[u].i] - x[dd[u].p];
       for (let w = 0; w <= u; w++) {
@@ -690,18 +835,32 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
         q[u * m + w] = v; q[w * m + u] = v;
       }
     }
-    const order = dd.map((_, u) => u).sort((u, w) => dd[u].el - dd[w].el);
+    // Lowest first (the order in which partial fixing leaves ambiguities float). Built with push: an array
+    // of one shape for the sort call (an array from map had a shape the optimised code did not expect).
+    const order: number[] = [];
+    for (let u = 0; u < m; u++) order.push(u);
+    order.sort((u, w) => dd[u].el - dd[w].el);
+    const fixOptions = this.fixOptions;
     const fix = fixAroundHeld(a, q, m, order, fixOptions) ?? fixPartially(a, q, m, order, fixOptions);
     out.ratio = fix.ratio;
     if (!('integers' in fix)) return;
-    const sub = fix.indices;
+    this.conditionOnFixed(k, dd, m, fix.indices, fix.integers);
+  }
+
+  /**
+   * The epoch's solution conditioned on the integers fixed for the double differences `sub` (indices into
+   * dd, of which m were searched): position and covariance (Teunissen 1995, eq. 2.8), the conditioned state
+   * for the residuals, and the hold.
+   */
+  private conditionOnFixed(k: number, dd: readonly DoubleDifference[], m: number, sub: readonly number[], integers: Float64Array): void {
+    const sats = this.sats, st = this.st, out = this.out, x = st.x, a = this.fixA, q = this.fixQ;
     const ns = sub.length;
-    const qs = fixQs;
+    const qs = this.fixQs;
     for (let u = 0; u < ns; u++) for (let w = 0; w < ns; w++) qs[u * ns + w] = q[sub[u] * m + sub[w]];
-    const d = fixD;
-    for (let u = 0; u < ns; u++) d[u] = a[sub[u]] - fix.integers[u];
+    const d = this.fixD;
+    for (let u = 0; u < ns; u++) d[u] = a[sub[u]] - integers[u];
     // Q_xa: covariance of position with the fixed double differences.
-    const qxa = fixQxa;
+    const qxa = this.fixQxa, fixRhs = this.fixRhs;
     for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) qxa[r][u] = st.cov(r, dd[sub[u]].i) - st.cov(r, dd[sub[u]].p);
     for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) fixRhs[r][u] = qxa[r][u];
     const rhs = [d, fixRhs[0], fixRhs[1], fixRhs[2]];
@@ -711,45 +870,111 @@ export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly 
       for (let u = 0; u < ns; u++) s += qxa[r][u] * rhs[0][u];
       out.position[r] = x[r] - s;
     }
-    const cov = (r: number, s: number): number => {
-      let t = 0;
-      for (let u = 0; u < ns; u++) t += qxa[r][u] * rhs[1 + s][u];
-      return st.cov(r, s) - t;
-    };
-    out.covariance[0] = cov(0, 0); out.covariance[1] = cov(0, 1); out.covariance[2] = cov(0, 2);
-    out.covariance[3] = cov(1, 1); out.covariance[4] = cov(1, 2); out.covariance[5] = cov(2, 2);
+    out.covariance[0] = conditionedCovariance(st, qxa, rhs, ns, 0, 0); out.covariance[1] = conditionedCovariance(st, qxa, rhs, ns, 0, 1);
+    out.covariance[2] = conditionedCovariance(st, qxa, rhs, ns, 0, 2); out.covariance[3] = conditionedCovariance(st, qxa, rhs, ns, 1, 1);
+    out.covariance[4] = conditionedCovariance(st, qxa, rhs, ns, 1, 2); out.covariance[5] = conditionedCovariance(st, qxa, rhs, ns, 2, 2);
     out.kind = 2;
     out.fixedAmbiguities = ns;
-    onFix?.(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: fix.integers[w] })));
+    const onFix = this.onFix;
+    if (onFix) onFix(k, sub.map((u, w) => ({ sat: sats[dd[u].satI].id, pivot: sats[dd[u].satP].id, signal: sats[dd[u].satI].phaseCode, cycles: integers[w] })));
     // Residuals at the fixed solution (written by the caller): every state conditioned on the fixed integers,
     // x_s|a = x_s - Q_sa Q_a^-1 (a - z) (Teunissen 1995, eq. 2.8), rhs[0] holding Q_a^-1 (a - z).
     // Q_sa Q_a^-1 (a - z) for every slot s, summed over the fixed double differences in order.
     const nst = st.n;
-    if (conditioned.length < nst) conditioned = new Float64Array(st.cap);
+    if (this.conditioned.length < nst) this.conditioned = new Float64Array(st.cap);
+    const conditioned = this.conditioned;
     conditioned.fill(0, 0, nst);
     for (let u = 0; u < ns; u++) st.addColumnDifference(conditioned, dd[sub[u]].i, dd[sub[u]].p, rhs[0][u]);
     for (let slot = 0; slot < nst; slot++) conditioned[slot] = x[slot] - conditioned[slot];
-    // Fix-and-hold.
+    this.hold(dd, sub, integers);
+  }
+
+  /** Double differences of the ambiguities of epoch record e's fixable arcs, per clock group against a pivot (file comment). */
+  private doubleDifferences(e: number): DoubleDifference[] {
+    const rec = this.rec, sats = this.sats;
+    const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
+    const bySys = new Map<string, FixableArc[]>();
+    for (let j = j0; j < j1; j++) {
+      const info = sats[rec.sat[j]];
+      if (!this.fixableSystems.has(info.system) || rec.fixable[j] !== 1 || !Number.isFinite(rec.phaseM[j]) || rec.elevationRad[j] < this.ambMask) continue;
+      const slot = this.arcSlot.get(rec.arc[j]);
+      if (slot === undefined) continue;
+      let l = bySys.get(info.group);
+      if (!l) bySys.set(info.group, (l = []));
+      l.push({ slot, arc: rec.arc[j], el: rec.elevationRad[j], sat: rec.sat[j] });
+    }
+    const dd: DoubleDifference[] = [];
+    for (const [sys, list] of bySys) {
+      if (list.length < 2) continue;
+      // -1 when none: arcs are numbered from 1 (and the comparison below stays one of small integers).
+      const prevPivot = this.pivots.get(sys) ?? -1;
+      let piv: FixableArc | undefined;
+      for (const q of list) if (q.arc === prevPivot) { piv = q; break; }
+      if (!piv) {
+        piv = list[0];
+        for (const q of list) if (q.el > piv.el) piv = q;
+      }
+      this.pivots.set(sys, piv.arc);
+      for (const q of list) if (q !== piv) dd.push({ i: q.slot, p: piv.slot, arcI: q.arc, arcP: piv.arc, el: q.el, satI: q.sat, satP: piv.sat });
+    }
+    return dd;
+  }
+
+  /**
+   * Fix-and-hold: a double difference fixed to the same integer for holdAfterEpochs epochs in a row is
+   * added as a measurement of HOLD_VAR_CYCLES2 (unless the filter already holds it that well).
+   */
+  private hold(dd: readonly DoubleDifference[], sub: readonly number[], integers: Float64Array): void {
+    const st = this.st, holdCount = this.holdCount, holdSeen = this.holdSeen;
     holdSeen.clear();
-    for (let u = 0; u < ns; u++) {
+    for (let u = 0; u < sub.length; u++) {
       const e = dd[sub[u]];
       const key = pairKey(e.arcI, e.arcP);
       holdSeen.add(key);
       let h = holdCount.get(key);
-      const value = fix.integers[u];
+      const value = integers[u];
       if (h && h.value === value) h.count++;
       else if (h) { h.value = value; h.count = 1; }
       else holdCount.set(key, (h = { value, count: 1 }));
       const count = h.count;
-      if (count >= opt.holdAfterEpochs) {
+      if (count >= this.holdAfterEpochs) {
         // Already held to well below the constraint's precision: nothing to add.
         const v2 = st.cov(e.i, e.i) - 2 * st.cov(e.i, e.p) + st.cov(e.p, e.p);
         const miss = value - (st.x[e.i] - st.x[e.p]);
         if (v2 < 10 * HOLD_VAR_CYCLES2 && Math.abs(miss) < 0.005) continue;
-        holdIdx[0] = e.i; holdIdx[1] = e.p;
-        st.update(holdIdx, holdVal, 2, miss, HOLD_VAR_CYCLES2);
+        this.holdIdx[0] = e.i; this.holdIdx[1] = e.p;
+        st.update(this.holdIdx, this.holdVal, 2, miss, HOLD_VAR_CYCLES2);
       }
     }
     for (const key of holdCount.keys()) if (!holdSeen.has(key)) holdCount.delete(key);
   }
+}
+
+/** An arc of the epoch that may be fixed: its ambiguity's slot, arc number, elevation and signal table entry. */
+interface FixableArc {
+  readonly slot: number;
+  readonly arc: number;
+  readonly el: number;
+  readonly sat: number;
+}
+
+/** A double difference of two arcs' ambiguities (slots i - p), with the arcs, the satellite's elevation and the entries. */
+interface DoubleDifference {
+  readonly i: number;
+  readonly p: number;
+  readonly arcI: number;
+  readonly arcP: number;
+  readonly el: number;
+  readonly satI: number;
+  readonly satP: number;
+}
+
+/**
+ * Position covariance (r, s) conditioned on the fixed double differences: Q_rs - Q_ra Q_a^-1 Q_as, with
+ * rhs[1 + s] holding Q_a^-1 Q_as (Teunissen 1995, eq. 2.8).
+ */
+function conditionedCovariance(st: KalmanState, qxa: readonly Float64Array[], rhs: readonly Float64Array[], ns: number, r: number, s: number): number {
+  let t = 0;
+  for (let u = 0; u < ns; u++) t += qxa[r][u] * rhs[1 + s][u];
+  return st.cov(r, s) - t;
 }

@@ -15,13 +15,17 @@
  * cancel (9 cycles on L1 and 7 on L2: 4 mm) pass unseen: the other tests remain.
  */
 
+import { keepShape } from './kept-shapes.js';
+
 interface GfState { tGpsS: number; gfM: number }
 
 export class GeometryFreeMonitor {
   private readonly state = new Map<string, GfState>();
   private calls = 0;
 
-  constructor(private readonly maxGapS: number) {}
+  constructor(private readonly maxGapS: number) {
+    keepShape(this);
+  }
 
   /**
    * The keys whose GF jumped in an epoch (a slip on one of the two bands). A key names a satellite, its

@@ -15,6 +15,7 @@
  */
 import type { EpochRecords, RecordStore } from './epoch-records.js';
 import type { EpochResult } from './float-filter.js';
+import { keepShape } from './kept-shapes.js';
 
 /** Bytes of a chunk's columns for n epochs and m entries (widest first, so each view is aligned). */
 const chunkBytes = (n: number, m: number): number => 144 * n + 4 * n + 4 * m + 4 * n + 3 * n;
@@ -45,7 +46,9 @@ export class PassResults {
   /** The current chunk's first epoch. */
   private firstEpoch = 0;
 
-  constructor(private readonly rec: EpochRecords, private readonly store: RecordStore) {}
+  constructor(private readonly rec: EpochRecords, private readonly store: RecordStore) {
+    keepShape(this);
+  }
 
   /**
    * Makes epoch k's chunk current for a stage (the records of epoch k current already, EpochRecords.visit);

@@ -67,16 +67,52 @@ function lliOf(s: SatObservations, code: string): number {
   return i < 0 ? 0 : s.lli[i];
 }
 
-/** The first code of the primary band with both a pseudorange and a phase (priority order of rinex/obs-codes.ts). */
-function chooseSignal(system: GnssSystem, s: SatObservations): string | null {
-  const band = PRIMARY_BAND[system];
-  const tried = [...pseudorangePriority(system, band), ...s.codes.filter((c) => c[0] === 'C' && c[1] === band)];
+/** A candidate pseudorange code and where it and its companions (same band and attribute) are in a list of observation codes (-1: not listed). */
+interface SignalSlots {
+  readonly code: string;
+  readonly codeIndex: number;
+  readonly phaseIndex: number;
+  readonly dopplerIndex: number;
+  readonly strengthIndex: number;
+}
+
+/**
+ * Per list of observation codes (one array object per system and file, gnss/obs-types.ts) and system: the
+ * primary band's pseudorange codes in the order chooseSignal tries them (priority order of
+ * rinex/obs-codes.ts, then the band's other codes in file order), with their slots. Found once per list,
+ * not per satellite and epoch.
+ */
+const PRIMARY_CANDIDATES = new WeakMap<readonly string[], Map<GnssSystem, readonly SignalSlots[]>>();
+
+function primaryCandidates(system: GnssSystem, codes: readonly string[]): readonly SignalSlots[] {
+  let bySystem = PRIMARY_CANDIDATES.get(codes);
+  if (!bySystem) PRIMARY_CANDIDATES.set(codes, (bySystem = new Map()));
+  let list = bySystem.get(system);
+  if (!list) {
+    const band = PRIMARY_BAND[system];
+    const tried = [...pseudorangePriority(system, band), ...codes.filter((c) => c[0] === 'C' && c[1] === band)];
+    list = tried.map((c) => {
+      const tail = c.slice(1);
+      return { code: c, codeIndex: codes.indexOf(c), phaseIndex: codes.indexOf('L' + tail), dopplerIndex: codes.indexOf('D' + tail), strengthIndex: codes.indexOf('S' + tail) };
+    });
+    bySystem.set(system, list);
+  }
+  return list;
+}
+
+function valueAt(s: SatObservations, i: number): number {
+  return i < 0 ? NaN : s.values[i];
+}
+
+/** The first code of the primary band with both a pseudorange and a phase, else with a pseudorange (primaryCandidates' order). */
+function chooseSignal(system: GnssSystem, s: SatObservations): SignalSlots | null {
+  const tried = primaryCandidates(system, s.codes);
   for (const c of tried) {
-    const p = value(s, c);
-    if (p > 1e6 && p < 1e9 && s.codes.includes('L' + c.slice(1))) return c;
+    const p = valueAt(s, c.codeIndex);
+    if (p > 1e6 && p < 1e9 && c.phaseIndex >= 0) return c;
   }
   for (const c of tried) {
-    const p = value(s, c);
+    const p = valueAt(s, c.codeIndex);
     if (p > 1e6 && p < 1e9) return c;
   }
   return null;
@@ -109,6 +145,19 @@ export function placeSatellite(s: ReceiverSat, tagGpsS: number, clockM: number):
 }
 
 /**
+ * The receiver clock (m): the median code residual of the satellites placed for the clock `clk` (m) at the
+ * position `atM`.
+ */
+function receiverClockM(sats: readonly ReceiverSat[], tagGpsS: number, atM: EcefM, clk: number): number {
+  const samples: number[] = [];
+  for (const s of sats) {
+    placeSatellite(s, tagGpsS, clk);
+    samples.push(s.codeM - Math.hypot(s.posM.x - atM.x, s.posM.y - atM.y, s.posM.z - atM.z) + s.satClockM);
+  }
+  return median(samples);
+}
+
+/**
  * Prepares an epoch at an approximate position (within a few km: the clock is a median of code
  * residuals). `clockGuessM` is the previous epoch's clock (0 at first).
  */
@@ -117,8 +166,9 @@ export function prepareReceiverEpoch(e: ObsEpoch, ctx: ReceiverContext, atM: Ece
   for (const s of e.sats) {
     const system = satSystem(s.sat);
     if (!ctx.systems.includes(system)) continue;
-    const code = chooseSignal(system, s);
-    if (code === null) continue;
+    const sig = chooseSignal(system, s);
+    if (sig === null) continue;
+    const code = sig.code;
     const k = system === 'R' ? ctx.glonassChannels.get(Number(s.sat.slice(1))) : undefined;
     const wavelengthM = carrierWavelengthM(system, code, k);
     if (!Number.isFinite(wavelengthM)) continue;
@@ -134,27 +184,18 @@ export function prepareReceiverEpoch(e: ObsEpoch, ctx: ReceiverContext, atM: Ece
       }
       if (found.length) more = found;
     }
-    const tail = code.slice(1);
-    const phase = value(s, 'L' + tail);
+    const phase = valueAt(s, sig.phaseIndex);
     sats.push({
-      sat: s.sat, system, band: code[1], code, codeM: value(s, code),
+      sat: s.sat, system, band: code[1], code, codeM: valueAt(s, sig.codeIndex),
       phaseCycles: Number.isFinite(phase) && phase !== 0 ? phase : NaN,
-      dopplerHz: value(s, 'D' + tail), lli: lliOf(s, 'L' + tail), cn0DbHz: value(s, 'S' + tail),
+      dopplerHz: valueAt(s, sig.dopplerIndex), lli: sig.phaseIndex < 0 ? 0 : s.lli[sig.phaseIndex], cn0DbHz: valueAt(s, sig.strengthIndex),
       wavelengthM, more, eph: sel.eph, posM: atM, satClockM: 0,
     });
   }
-  const clockOf = (clk: number): number => {
-    const samples: number[] = [];
-    for (const s of sats) {
-      placeSatellite(s, e.tagGpsS, clk);
-      samples.push(s.codeM - Math.hypot(s.posM.x - atM.x, s.posM.y - atM.y, s.posM.z - atM.z) + s.satClockM);
-    }
-    return median(samples);
-  };
   const guess = Number.isFinite(clockGuessM) ? clockGuessM : 0;
-  let clockM = clockOf(guess);
+  let clockM = receiverClockM(sats, e.tagGpsS, atM, guess);
   // A clock far from the guess (first epoch, a millisecond step): redo the Earth rotation with it.
-  if (Number.isFinite(clockM) && Math.abs(clockM - guess) > 30) clockM = clockOf(clockM);
+  if (Number.isFinite(clockM) && Math.abs(clockM - guess) > 30) clockM = receiverClockM(sats, e.tagGpsS, atM, clockM);
   const timeGpsS = e.tagGpsS - (Number.isFinite(clockM) ? clockM / SPEED_OF_LIGHT_MS : 0);
   return { tagGpsS: e.tagGpsS, timeGpsS, clockM, sats };
 }

@@ -21,6 +21,7 @@ import type { ReceiverEpoch } from './receiver-epoch.js';
 import { azimuthElevation } from '../geodesy/index.js';
 import { dayOfYear, troposphereDelayM } from '../observables/index.js';
 import type { EcefM } from '../gnss/index.js';
+import { keepShape } from './kept-shapes.js';
 
 /** z values of a signal on a further band (further-bands.ts): its code and phase, arc and half-cycle state. */
 export interface ReferenceSignal {
@@ -122,6 +123,7 @@ export class ReferencePhaseBuffer {
 
   constructor(private readonly maxAgeS: number, headerIntervalS: number | null) {
     if (headerIntervalS && headerIntervalS > 0) this.nominalS = headerIntervalS;
+    keepShape(this);
   }
 
   get latestTimeGpsS(): number {

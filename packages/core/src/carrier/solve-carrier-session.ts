@@ -31,7 +31,7 @@
  * biases of FDMA signals then cancel, e.g. Wanninger 2012, GPS Solutions 16:439-448); between unlike
  * receivers they stay float (they still help the float solution).
  */
-import type { EcefM, FrameEpoch, FramedEcef, GnssSystem, SatId } from '../gnss/index.js';
+import type { EcefM, FrameEpoch, FramedEcef, GeodeticRad, GnssSystem, SatId } from '../gnss/index.js';
 import { satSystem, SYSTEM_NAMES } from '../gnss/index.js';
 import type { AntennaOffset, ObsEpoch, ObsStream } from '../gnss/index.js';
 import type { NavData } from '../gnss/index.js';
@@ -44,19 +44,20 @@ import { dopplerVelocity } from '../velocity/index.js';
 import { dilutionOfPrecision } from '../solve/index.js';
 import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '../session/index.js';
 import { ArcTracker, type ArcInput } from './arc-tracker.js';
-import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch } from './receiver-epoch.js';
-import { ReferencePhaseBuffer, reduceReferenceEpoch, type BandArcs } from './reference-phase.js';
+import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch, type ReceiverSat, type ReceiverSignal } from './receiver-epoch.js';
+import { ReferencePhaseBuffer, reduceReferenceEpoch, type AlignedReference, type AlignedReferenceSat, type BandArcs } from './reference-phase.js';
 import { EpochRecords, MemoryRecordStore, type RecordStore } from './epoch-records.js';
-import { codeVarianceScale, runPasses, singleDifferenceVarianceM2, type FixedDoubleDifference, type SatelliteInfo } from './float-filter.js';
+import { codeVarianceScale, runPasses, singleDifferenceVarianceM2, type EpochConsumer, type EpochResult, type FixedDoubleDifference, type SatelliteInfo } from './float-filter.js';
 import { combineEpoch } from './combine-passes.js';
 import { PassResults } from './pass-results.js';
 import type { CarrierOptions } from './options.js';
-import { antennaCorrectionM, findAntenna, type AntexData } from './antex.js';
-import { codeFixPosition } from './code-fix.js';
+import { antennaCorrectionM, findAntenna, type AntennaCalibration, type AntexData } from './antex.js';
+import { codeFixPosition, type CodeRow } from './code-fix.js';
 import { furtherBandGroup } from './further-bands.js';
 import { GeometryFreeMonitor } from './geometry-free.js';
 import { ionosphereFactor, ionosphereWeighting } from './ionosphere-weighting.js';
 import { findTimeDifferencedSlips, type TimeDifferencedPhase } from './time-differenced-slips.js';
+import { keepShape } from './kept-shapes.js';
 
 export interface CarrierInputs {
   readonly rover: ObsStream;
@@ -207,31 +208,294 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   const ctx: ReceiverContext = { store, systems, glonassChannels, frequencies: carrier.frequencies };
   const maskRad = options.elevationMaskDeg * DEG;
 
-  // Signal table: a satellite's primary-band signal (group: its constellation) and each further-band signal
-  // pair (group: further-bands.ts) is one entry of the records.
-  const satIndex = new Map<string, number>();
-  const satellites: SatelliteInfo[] = [];
-  const indexOf = (sat: SatId, wavelengthM: number, code: string, further: { group: string; primaryWavelengthM: number } | null = null): number => {
+  // Reading: one pass over the rover, building the records (RoverReader).
+  const recordStore = inputs.recordStore ?? new MemoryRecordStore();
+  const reader = new RoverReader({
+    carrier, maskRad, refArp, refGeo, refCal, roverCal, refIntervalS: refHeader.intervalS,
+    recordStore, roverAntenna: options.roverAntenna ?? rover.header.antennaOffset, roverAntennaGiven: Boolean(options.roverAntenna),
+    pointName: rover.header.markerName.trim(), x0: rover.header.approxPosition ?? refArp,
+  });
+  await reader.read(rover.epochs, { ctx, references: joinReferenceStreams(inputs.references)[Symbol.asyncIterator]() });
+  const rec = reader.rec;
+  const satellites = reader.satellites;
+  const maxBaselineM = reader.maxBaselineM;
+  if (rec.count > 0 && reader.epochsWithReference === 0) {
+    const files = (xs: readonly { file: string }[]) => xs.map((x) => x.file).join(', ');
+    const roverSeen = reader.roverSeen, refSeen = reader.refSeen;
+    if (roverSeen.positioned === 0) {
+      throw new ProcessingError(`no rover epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the rover's satellites at its times (${isoFromSeconds(roverSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(roverSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged), or ${rover.file} holds no usable pseudorange`);
+    }
+    if (Number.isNaN(refSeen.firstGpsS)) throw new ProcessingError(`the reference file${inputs.references.length > 1 ? 's' : ''} ${files(inputs.references)} gave no readable observation epoch (see the warnings)`);
+    if (refSeen.positioned === 0) {
+      // Reference epochs were read but none could be used: the orbits are what is missing, not the overlap.
+      throw new ProcessingError(`no reference epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the reference's times (${isoFromSeconds(refSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(refSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged)`);
+    }
+    throw new ProcessingError(`the rover and reference observations do not overlap in time (no reference epoch within ${carrier.maxReferenceAgeS} s of any rover epoch)`);
+  }
+  if (maxBaselineM > 10_000) {
+    const msg = `baseline up to ${(maxBaselineM / 1000).toFixed(1)} km: the differential ionosphere can reach several centimetres per double difference beyond about 10 km (neglected with one frequency, estimated with a prior when further frequencies are used), and ambiguities may then be fixed wrongly or not at all`;
+    notes.push(msg);
+    warn({ file: rover.file, code: 'long-baseline', message: msg });
+  }
+
+  // Forward and backward passes, then their combination.
+  notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)`);
+  // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
+  const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
+  if (ionosphere) notes.push(`${reader.geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
+  if (ionosphere) notes.push(`further frequencies used (${[...new Set(satellites.filter((x) => !x.primary).map((x) => x.phaseCode.slice(0, 2) + ' ' + SYSTEM_NAMES[x.system]))].join(', ')}): the differential ionosphere is estimated per satellite, prior ${(1000 * ionosphere.verticalSigmaM).toFixed(1)} mm at zenith for a ${(maxBaselineM / 1000).toFixed(1)} km baseline`);
+  const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier, ionosphere };
+  const sink = inputs.onFixedAmbiguities;
+  const onFix = (pass: 'forward' | 'backward') => sink ? (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[rec.indexOf(k)], ambiguities }) : undefined;
+  // The forward pass's results wait in the record store, chunk by chunk; the backward pass combines each
+  // epoch with them as it goes (pass-results.ts): no pass holds a whole session's results.
+  const results = new PassResults(rec, recordStore);
+  const forward = new ForwardConsumer(results);
+  const backward = new BackwardConsumer(rec, results, carrier.passAgreementM, refArp);
+  const [fwd, bwd] = runPasses(rec, setup, [
+    { direction: 1, onFix: onFix('forward'), consumer: forward },
+    { direction: -1, onFix: onFix('backward'), consumer: backward },
+  ]);
+  results.finish();
+  notes.push(`filter: ${fwd.unflaggedSlips + bwd.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
+
+  const writer = new SolutionWriter({
+    rec, results, satellites, contexts: reader.contexts, reasons: reader.reasons,
+    lastContext: { pointName: reader.pointName, event: null, antenna: reader.roverAntenna },
+    maskRad, carrier, codeScale: codeVarianceScale(rec, carrier), reduceToMark: options.reduceToMark,
+    refMark, refArp, frame,
+  });
+
+  async function* run(): AsyncIterable<CarrierEpochSolution> {
+    try {
+      for (let k = 0; k < rec.count; k++) yield writer.solutionAt(k);
+    } finally {
+      results.release();
+      rec.close();
+    }
+  }
+
+  const recordBytes = rec.count * 80 + rec.satTotal * 40;
+  const baselineLengthM = backward.medianLengthM();
+  const roverTracker = reader.roverTracker, refTracker = reader.refTracker;
+  const roverBandTrackers = reader.roverBandTrackers, refBandTrackers = reader.refBandTrackers;
+  const forwardShares = forward.shares, backwardShares = backward.shares, combinedShares = backward.combinedShares;
+  return {
+    epochs: run(),
+    summary: (): CarrierSummary => ({
+      frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
+      epochsRover: rec.count, forward: forwardShares.plain(), backward: backwardShares.plain(), combined: combinedShares.plain(),
+      fixableSystems: [...fixable], signals: [...new Set(satellites.map((x) => `${x.system} ${x.phaseCode}`))], slips: { rover: allCauses(roverTracker, roverBandTrackers), reference: allCauses(refTracker, refBandTrackers) },
+      baselineLengthM, notes, recordBytes,
+    }),
+  };
+}
+
+/** What a RoverReader reads from: the receivers' context, and the reference's epochs (joined files), read as far as the rover needs. */
+interface ReaderFeed {
+  readonly ctx: ReceiverContext;
+  readonly references: AsyncIterator<{ readonly epoch: ObsEpoch }>;
+}
+
+/** What a RoverReader is given. */
+interface ReaderSetup {
+  readonly carrier: CarrierOptions;
+  readonly maskRad: number;
+  /** The reference's antenna reference point and its geodetic coordinates. */
+  readonly refArp: EcefM;
+  readonly refGeo: GeodeticRad;
+  /** Antenna calibrations of the two receivers, when given and found. */
+  readonly refCal: AntennaCalibration | null;
+  readonly roverCal: AntennaCalibration | null;
+  readonly refIntervalS: number | null;
+  readonly recordStore: RecordStore;
+  /** The rover's antenna offset at the start; given by the user (events then do not change it). */
+  readonly roverAntenna: AntennaOffset;
+  readonly roverAntennaGiven: boolean;
+  /** The rover's point name at the start (its marker name). */
+  readonly pointName: string;
+  /** The rover's first linearisation point. */
+  readonly x0: EcefM;
+}
+
+/** Shares of a pass's epochs by kind. */
+class Shares implements PassShares {
+  fixed = 0;
+  float = 0;
+  none = 0;
+
+  constructor() {
+    keepShape(this);
+  }
+
+  count(kind: number): void {
+    if (kind === 2) this.fixed++; else if (kind === 1) this.float++; else this.none++;
+  }
+
+  /** The counts as a plain object (for the summary). */
+  plain(): PassShares {
+    return { fixed: this.fixed, float: this.float, none: this.none };
+  }
+}
+
+/**
+ * Reads the rover once, with the reference as far as each rover epoch needs, and prepares every epoch
+ * into the records (file comment, step 1). A class, not closures of solveCarrierSession: the engine's
+ * optimised code of its methods serves every session of the process, where that of per-session closures
+ * was thrown away with the session (and compiled again for the next).
+ */
+class RoverReader {
+  readonly rec: EpochRecords;
+  /** Signal table: a satellite's primary-band signal (group: its constellation) and each further-band signal pair (group: further-bands.ts) is one entry of the records. */
+  readonly satellites: SatelliteInfo[] = [];
+  private readonly satIndex = new Map<string, number>();
+  /** Per primary-band entry of the signal table, the entries of its further-band signal pairs (furtherIndexOf). */
+  private readonly furtherEntries: { readonly band: string; readonly code: string; readonly refCode: string; readonly entry: number }[][] = [];
+  /** Contexts of the records (EpochRecords.context): one per occupation or event, not per epoch. */
+  readonly contexts: EpochContext[] = [];
+  /** Why epochs cannot be solved: the records keep an index into this table (EpochRecords.reason). */
+  readonly reasons: string[] = [''];
+  // The trackers of arcs: the primary band's at each receiver, and per band digit of the further bands
+  // (each band's own slip tests).
+  readonly refTracker = new ArcTracker(30);
+  readonly roverTracker = new ArcTracker(30);
+  readonly refBandTrackers = new Map<string, ArcTracker>();
+  readonly roverBandTrackers = new Map<string, ArcTracker>();
+  /** Span of the reference epochs read, and how many could be positioned (for the sentence when none is in reach). */
+  readonly refSeen = { firstGpsS: NaN, lastGpsS: NaN, positioned: 0 };
+  readonly roverSeen = { firstGpsS: NaN, lastGpsS: NaN, positioned: 0 };
+  /** The rover's antenna and point name as last set (by the header, the user or an event). */
+  roverAntenna: AntennaOffset;
+  pointName: string;
+  maxBaselineM = 0;
+  geometryFreeSlips = 0;
+  timeDifferencedSlips = 0;
+  epochsWithReference = 0;
+
+  private readonly maskRad: number;
+  // The options used per epoch, read once.
+  private readonly dynamics: CarrierOptions['dynamics'];
+  private readonly maxReferenceAgeS: number;
+  private readonly phaseAM: number;
+  private readonly phaseBM: number;
+  private readonly refArp: EcefM;
+  private readonly refGeo: GeodeticRad;
+  private readonly refCal: AntennaCalibration | null;
+  private readonly roverCal: AntennaCalibration | null;
+  private readonly roverAntennaGiven: boolean;
+  // Reference feed.
+  private readonly refBuffer: ReferencePhaseBuffer;
+  private refDone = false;
+  private refClockM = NaN;
+  private pendingEvent: EpochContext['event'] = null;
+  private occupied = false;
+  /** The rover's linearisation point (the last code fix) and clock. */
+  private x0: EcefM;
+  private roverClockM = NaN;
+  /**
+   * Single-difference arc per record entry (signal table index): a new one whenever either receiver's arc
+   * changes, or the geometry-free test across bands finds a slip on the satellite (its count in `gfSlips`).
+   */
+  private readonly sdArcs = new Map<number, { r: number; b: number; g: number; id: number }>();
+  private readonly gfSlips = new Map<SatId, number>();
+  /** Per satellite with further bands, the arcs of every band at both receivers at its last epoch. */
+  private readonly receiverArcs = new Map<SatId, number[]>();
+  private readonly geometryFree = new GeometryFreeMonitor(30);
+  private nextArc = 1;
+  /** The last record with satellites (the time-differenced slip test's previous epoch). */
+  private previousRecord = -1;
+  private firstEvent: 'start-moving' | 'new-occupation' | null = null;
+  private firstMovingRecord = 0;
+
+  constructor(s: ReaderSetup) {
+    this.maskRad = s.maskRad;
+    this.dynamics = s.carrier.dynamics;
+    this.maxReferenceAgeS = s.carrier.maxReferenceAgeS;
+    this.phaseAM = s.carrier.phaseAM;
+    this.phaseBM = s.carrier.phaseBM;
+    this.refArp = s.refArp;
+    this.refGeo = s.refGeo;
+    this.refCal = s.refCal;
+    this.roverCal = s.roverCal;
+    this.roverAntennaGiven = s.roverAntennaGiven;
+    this.refBuffer = new ReferencePhaseBuffer(s.carrier.maxReferenceAgeS, s.refIntervalS);
+    this.rec = new EpochRecords(s.recordStore);
+    this.roverAntenna = s.roverAntenna;
+    this.pointName = s.pointName;
+    this.x0 = s.x0;
+    keepShape(this);
+  }
+
+  /**
+   * Reads the rover's epochs into the records, with their contexts (occupations and events). The feed is
+   * handed from method to method, not kept: the reader is kept beyond its session (kept-shapes.ts), and
+   * the ephemerides of a day can take tens of megabytes.
+   */
+  async read(epochs: AsyncIterable<ObsEpoch>, feed: ReaderFeed): Promise<void> {
+    const rec = this.rec, contexts = this.contexts;
+    for await (const e of epochs) {
+      if (e.event) {
+        const ev = e.event;
+        if (ev.kind === 'new-occupation') { this.pointName = (ev.markerName ?? '').trim() || this.pointName; this.pendingEvent = 'new-occupation'; this.occupied = true; }
+        if (ev.kind === 'start-moving') {
+          this.pointName = ''; this.pendingEvent = 'start-moving'; this.occupied = false;
+          // RINEX 3.05 6.4: the antenna starts moving at flag 2, so it stood still before the first one.
+          if (this.firstEvent === null) { this.firstEvent = 'start-moving'; this.firstMovingRecord = rec.count; }
+        }
+        if (ev.kind === 'new-occupation' && this.firstEvent === null) this.firstEvent = 'new-occupation';
+        if (ev.antennaOffset && !this.roverAntennaGiven) this.roverAntenna = ev.antennaOffset;
+      }
+      if (e.flag !== 0 && e.flag !== 1) continue;
+      if (e.sats.length === 0) continue;
+      // Consecutive epochs share their context (one object per occupation or event, not per epoch).
+      const last = contexts[contexts.length - 1];
+      const same = last !== undefined && last.pointName === this.pointName && last.event === this.pendingEvent && last.antenna === this.roverAntenna;
+      if (!same) contexts.push({ pointName: this.pointName, event: this.pendingEvent, antenna: this.roverAntenna });
+      const context = contexts.length - 1;
+      this.pendingEvent = null;
+      const isStatic = this.dynamics === 'static' || (this.dynamics === 'auto' && this.occupied);
+      const reason = await this.prepareRoverEpoch(e, isStatic, context, feed);
+      if (reason) {
+        const reasons = this.reasons;
+        let r = reasons.indexOf(reason);
+        if (r < 0) { r = reasons.length; reasons.push(reason); }
+        // A few fixed sentences (prepareRoverEpoch).
+        if (r > 255) throw new Error('more than 255 reasons for unsolved epochs');
+        rec.reason[rec.indexOf(rec.count - 1)] = r;
+      }
+    }
+    if (this.dynamics === 'auto' && this.firstEvent === 'start-moving') rec.staticBefore(this.firstMovingRecord);
+  }
+
+  /** The signal table's entry of a satellite's signal (added when new): the primary band's, or a further band's (`further`). */
+  private indexOf(sat: SatId, wavelengthM: number, code: string, further: { group: string; primaryWavelengthM: number } | null): number {
     const key = further ? `${sat}/${further.group}` : sat;
-    let i = satIndex.get(key);
+    let i = this.satIndex.get(key);
     if (i === undefined) {
       const system = satSystem(sat);
-      i = satellites.length;
-      satellites.push({ id: sat, system, wavelengthM, group: further ? further.group : system, primary: further === null, code, phaseCode: 'L' + code.slice(1), ionoFactor: further ? ionosphereFactor(wavelengthM, further.primaryWavelengthM) : 1 });
-      satIndex.set(key, i);
+      i = this.satellites.length;
+      this.satellites.push({ id: sat, system, wavelengthM, group: further ? further.group : system, primary: further === null, code, phaseCode: 'L' + code.slice(1), ionoFactor: further ? ionosphereFactor(wavelengthM, further.primaryWavelengthM) : 1 });
+      this.satIndex.set(key, i);
     }
     return i;
-  };
+  }
 
-  // Reference feed.
-  const refBuffer = new ReferencePhaseBuffer(carrier.maxReferenceAgeS, refHeader.intervalS);
-  const refTracker = new ArcTracker(30);
-  const roverTracker = new ArcTracker(30);
-  // Further bands: one tracker per band digit at each receiver (each band's own slip tests).
-  const refBandTrackers = new Map<string, ArcTracker>();
-  const roverBandTrackers = new Map<string, ArcTracker>();
+  /**
+   * The signal table's entry of a further band's signal pair (rover signal m, reference code) of the
+   * satellite s whose primary band is entry `primary`: indexOf's, found once per pair (no key strings per
+   * satellite and epoch).
+   */
+  private furtherIndexOf(primary: number, s: ReceiverSat, m: ReceiverSignal, refCode: string): number {
+    let list = this.furtherEntries[primary];
+    if (!list) this.furtherEntries[primary] = list = [];
+    for (const f of list) if (f.band === m.band && f.code === m.code && f.refCode === refCode) return f.entry;
+    const entry = this.indexOf(s.sat, m.wavelengthM, m.code, { group: furtherBandGroup(s.system, m.band, m.code, refCode), primaryWavelengthM: s.wavelengthM });
+    list.push({ band: m.band, code: m.code, refCode, entry });
+    return entry;
+  }
+
   /** Arcs of the further-band signals of an epoch, per band. */
-  function furtherArcs(trackers: Map<string, ArcTracker>, ep: ReceiverEpoch): Map<string, BandArcs> {
+  private furtherArcs(trackers: Map<string, ArcTracker>, ep: ReceiverEpoch): Map<string, BandArcs> {
     const byBand = new Map<string, ArcInput[]>();
     for (const s of ep.sats) {
       for (const m of s.more) {
@@ -249,165 +513,80 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     }
     return out;
   }
-  const refIter = joinReferenceStreams(inputs.references)[Symbol.asyncIterator]();
-  let refDone = false;
-  let refClockM = NaN;
-  /** Span of the reference epochs read, and how many could be positioned (for the sentence when none is in reach). */
-  const refSeen = { firstGpsS: NaN, lastGpsS: NaN, positioned: 0 };
-  const roverSeen = { firstGpsS: NaN, lastGpsS: NaN, positioned: 0 };
-  async function pullReference(untilGpsS: number): Promise<void> {
-    while (!refDone && refBuffer.latestTimeGpsS <= untilGpsS) {
-      const r = await refIter.next();
-      if (r.done) { refDone = true; break; }
+
+  /** Reads reference epochs into the buffer until one is later than the given time (or the files end). */
+  private async pullReference(untilGpsS: number, feed: ReaderFeed): Promise<void> {
+    const refBuffer = this.refBuffer, refSeen = this.refSeen, refTracker = this.refTracker;
+    while (!this.refDone && refBuffer.latestTimeGpsS <= untilGpsS) {
+      const r = await feed.references.next();
+      if (r.done) { this.refDone = true; break; }
       const e = r.value.epoch;
       if (e.flag > 1 || e.sats.length === 0) continue;
       if (Number.isNaN(refSeen.firstGpsS)) refSeen.firstGpsS = e.tagGpsS;
       refSeen.lastGpsS = e.tagGpsS;
-      const ep = prepareReceiverEpoch(e, ctx, refArp, refClockM);
+      const ep = prepareReceiverEpoch(e, feed.ctx, this.refArp, this.refClockM);
       if (!Number.isFinite(ep.clockM)) continue;
       refSeen.positioned++;
-      refClockM = ep.clockM;
-      if (refCal) applyAntenna(ep, refArp, refGeo, refCal);
+      this.refClockM = ep.clockM;
+      if (this.refCal) applyAntenna(ep, this.refArp, this.refGeo, this.refCal);
       const arcs = refTracker.update(ep.timeGpsS, ep.sats);
-      refBuffer.add(reduceReferenceEpoch(ep, refArp, refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat), refTracker.codeClockStepsM, furtherArcs(refBandTrackers, ep)));
+      refBuffer.add(reduceReferenceEpoch(ep, this.refArp, this.refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat), refTracker.codeClockStepsM, this.furtherArcs(this.refBandTrackers, ep)));
     }
   }
 
-  /** Phase-centre offset and variation turned into a correction of the phase (cycles) to the antenna reference point. */
-  function applyAntenna(ep: ReceiverEpoch, at: EcefM, g: ReturnType<typeof ecefToGeodetic>, cal: NonNullable<typeof roverCal>): void {
-    for (const s of ep.sats) {
-      if (!Number.isFinite(s.phaseCycles)) continue;
-      const ae = azimuthElevation(at, s.posM, g.latRad, g.lonRad);
-      const c = antennaCorrectionM(cal, s.system, s.code[1], ae.elevationRad, ae.azimuthRad);
-      // The phase centre is nearer the satellite by the correction: add it back to refer to the ARP.
-      (s as { phaseCycles: number }).phaseCycles += c / s.wavelengthM;
-      // Each further band with its own calibration (ANTEX frequency of the same band).
-      for (const m of s.more) {
-        if (Number.isFinite(m.phaseCycles)) (m as { phaseCycles: number }).phaseCycles += antennaCorrectionM(cal, s.system, m.band, ae.elevationRad, ae.azimuthRad) / m.wavelengthM;
-      }
-    }
-  }
-
-  // Reading: one pass over the rover, building the records.
-  const recordStore = inputs.recordStore ?? new MemoryRecordStore();
-  const rec = new EpochRecords(recordStore);
-  const contexts: EpochContext[] = [];
-  /** Why epochs cannot be solved: the records keep an index into this table (EpochRecords.reason). */
-  const reasons: string[] = [''];
-  let roverAntenna: AntennaOffset = options.roverAntenna ?? rover.header.antennaOffset;
-  let pointName = rover.header.markerName.trim();
-  let pendingEvent: EpochContext['event'] = null;
-  let occupied = false;
-  let x0: EcefM = rover.header.approxPosition ?? refArp;
-  let roverClockM = NaN;
-  /**
-   * Single-difference arc per record entry (signal table index): a new one whenever either receiver's arc
-   * changes, or the geometry-free test across bands finds a slip on the satellite (its count in `gfSlips`).
-   */
-  const sdArcs = new Map<number, { r: number; b: number; g: number; id: number }>();
-  const gfSlips = new Map<SatId, number>();
-  /** Per satellite with further bands, the arcs of every band at both receivers at its last epoch. */
-  const receiverArcs = new Map<SatId, number[]>();
-  const geometryFree = new GeometryFreeMonitor(30);
-  const sdArcOf = (entry: number, rArc: number, bArc: number, sat: SatId): number => {
-    const g = gfSlips.get(sat) ?? 0;
-    const prev = sdArcs.get(entry);
+  /** The single-difference arc of a record entry for the receivers' arcs and the satellite's geometry-free slips (sdArcs). */
+  private sdArcOf(entry: number, rArc: number, bArc: number, sat: SatId): number {
+    const g = this.gfSlips.get(sat) ?? 0;
+    const prev = this.sdArcs.get(entry);
     if (prev && prev.r === rArc && prev.b === bArc && prev.g === g) return prev.id;
-    const id = nextArc++;
-    sdArcs.set(entry, { r: rArc, b: bArc, g, id });
+    const id = this.nextArc++;
+    this.sdArcs.set(entry, { r: rArc, b: bArc, g, id });
     return id;
-  };
-  let nextArc = 1;
-  let maxBaselineM = 0;
-  let geometryFreeSlips = 0;
-  let timeDifferencedSlips = 0;
-  /** The last record with satellites (the time-differenced slip test's previous epoch). */
-  let previousRecord = -1;
-  let epochsWithReference = 0;
-  let firstEvent: 'start-moving' | 'new-occupation' | null = null;
-  let firstMovingRecord = 0;
-
-  for await (const e of rover.epochs) {
-    if (e.event) {
-      const ev = e.event;
-      if (ev.kind === 'new-occupation') { pointName = (ev.markerName ?? '').trim() || pointName; pendingEvent = 'new-occupation'; occupied = true; }
-      if (ev.kind === 'start-moving') {
-        pointName = ''; pendingEvent = 'start-moving'; occupied = false;
-        // RINEX 3.05 6.4: the antenna starts moving at flag 2, so it stood still before the first one.
-        if (firstEvent === null) { firstEvent = 'start-moving'; firstMovingRecord = rec.count; }
-      }
-      if (ev.kind === 'new-occupation' && firstEvent === null) firstEvent = 'new-occupation';
-      if (ev.antennaOffset && !options.roverAntenna) roverAntenna = ev.antennaOffset;
-    }
-    if (e.flag !== 0 && e.flag !== 1) continue;
-    if (e.sats.length === 0) continue;
-    // Consecutive epochs share their context (one object per occupation or event, not per epoch).
-    const last = contexts[contexts.length - 1];
-    const same = last !== undefined && last.pointName === pointName && last.event === pendingEvent && last.antenna === roverAntenna;
-    if (!same) contexts.push({ pointName, event: pendingEvent, antenna: roverAntenna });
-    const context = contexts.length - 1;
-    pendingEvent = null;
-    const isStatic = carrier.dynamics === 'static' || (carrier.dynamics === 'auto' && occupied);
-    const reason = await prepareRoverEpoch(e, isStatic, context);
-    if (reason) {
-      let r = reasons.indexOf(reason);
-      if (r < 0) { r = reasons.length; reasons.push(reason); }
-      // A few fixed sentences (prepareRoverEpoch).
-      if (r > 255) throw new Error('more than 255 reasons for unsolved epochs');
-      rec.reason[rec.indexOf(rec.count - 1)] = r;
-    }
-  }
-  if (carrier.dynamics === 'auto' && firstEvent === 'start-moving') rec.staticBefore(firstMovingRecord);
-  if (rec.count > 0 && epochsWithReference === 0) {
-    const files = (xs: readonly { file: string }[]) => xs.map((x) => x.file).join(', ');
-    if (roverSeen.positioned === 0) {
-      throw new ProcessingError(`no rover epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the rover's satellites at its times (${isoFromSeconds(roverSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(roverSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged), or ${rover.file} holds no usable pseudorange`);
-    }
-    if (Number.isNaN(refSeen.firstGpsS)) throw new ProcessingError(`the reference file${inputs.references.length > 1 ? 's' : ''} ${files(inputs.references)} gave no readable observation epoch (see the warnings)`);
-    if (refSeen.positioned === 0) {
-      // Reference epochs were read but none could be used: the orbits are what is missing, not the overlap.
-      throw new ProcessingError(`no reference epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the reference's times (${isoFromSeconds(refSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(refSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged)`);
-    }
-    throw new ProcessingError(`the rover and reference observations do not overlap in time (no reference epoch within ${carrier.maxReferenceAgeS} s of any rover epoch)`);
-  }
-  if (maxBaselineM > 10_000) {
-    const msg = `baseline up to ${(maxBaselineM / 1000).toFixed(1)} km: the differential ionosphere can reach several centimetres per double difference beyond about 10 km (neglected with one frequency, estimated with a prior when further frequencies are used), and ambiguities may then be fixed wrongly or not at all`;
-    notes.push(msg);
-    warn({ file: rover.file, code: 'long-baseline', message: msg });
   }
 
-  async function prepareRoverEpoch(e: ObsEpoch, isStatic: boolean, context: number): Promise<string> {
+  /**
+   * Prepares one rover epoch into the records; returns why it cannot be solved ('' when it can). In steps
+   * of their own (each optimised on its own: a branch met late has only its step compiled again).
+   */
+  private async prepareRoverEpoch(e: ObsEpoch, isStatic: boolean, context: number, feed: ReaderFeed): Promise<string> {
+    const rec = this.rec, roverSeen = this.roverSeen, roverTracker = this.roverTracker;
     if (Number.isNaN(roverSeen.firstGpsS)) roverSeen.firstGpsS = e.tagGpsS;
     roverSeen.lastGpsS = e.tagGpsS;
-    const ep = prepareReceiverEpoch(e, ctx, x0, roverClockM);
-    if (!Number.isFinite(ep.clockM)) { rec.beginEpoch(e.tagGpsS, e.tagGpsS, x0, isStatic, NaN, context); return 'no usable satellite'; }
-    roverClockM = ep.clockM;
+    const ep = prepareReceiverEpoch(e, feed.ctx, this.x0, this.roverClockM);
+    if (!Number.isFinite(ep.clockM)) { rec.beginEpoch(e.tagGpsS, e.tagGpsS, this.x0, isStatic, NaN, context); return 'no usable satellite'; }
+    this.roverClockM = ep.clockM;
     roverSeen.positioned++;
     const t = ep.timeGpsS;
-    if (roverCal) applyAntenna(ep, x0, ecefToGeodetic(x0), roverCal);
+    if (this.roverCal) applyAntenna(ep, this.x0, ecefToGeodetic(this.x0), this.roverCal);
     const arcs = roverTracker.update(t, ep.sats);
-    const roverFurther = furtherArcs(roverBandTrackers, ep);
-    await pullReference(t);
-    refBuffer.prune(t);
-    const al = refBuffer.align(t, ep.sats.some((s) => s.more.length > 0));
-    if (!al) { rec.beginEpoch(t, e.tagGpsS, x0, isStatic, NaN, context); return `no reference epoch within ${carrier.maxReferenceAgeS} s`; }
-    epochsWithReference++;
-    const both = [];
-    for (const s of ep.sats) {
-      const ra = al.sats.get(s.sat);
-      if (!ra) continue;
-      // The same broadcast issue at both ends, so the satellite clock cancels exactly.
-      if (ra.eph !== s.eph) { s.eph = ra.eph; placeSatellite(s, ep.tagGpsS, ep.clockM); }
-      both.push({ s, ra });
-    }
+    const roverFurther = this.furtherArcs(this.roverBandTrackers, ep);
+    await this.pullReference(t, feed);
+    this.refBuffer.prune(t);
+    const al = this.refBuffer.align(t, ep.sats.some((s) => s.more.length > 0));
+    if (!al) { rec.beginEpoch(t, e.tagGpsS, this.x0, isStatic, NaN, context); return `no reference epoch within ${this.maxReferenceAgeS} s`; }
+    this.epochsWithReference++;
+    const both = commonSatellites(ep, al);
     const doy = dayOfYear(t);
-    const fix = codeFixPosition(both.map(({ s, ra }) => ({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM })), x0, maskRad, doy);
-    if (fix) x0 = fix;
-    const g0 = ecefToGeodetic(x0);
+    const fix = codeFixPosition(codeRows(both), this.x0, this.maskRad, doy);
+    if (fix) this.x0 = fix;
+    const x0 = this.x0;
     const k = rec.beginEpoch(t, e.tagGpsS, x0, isStatic, al.ageS, context);
-    maxBaselineM = Math.max(maxBaselineM, Math.hypot(x0.x - refArp.x, x0.y - refArp.y, x0.z - refArp.z));
-    // The geometry-free test on the single differences (geometry-free.ts): the primary band against the
-    // first further band both receivers have, within the arcs of both bands at both receivers.
+    const refArp = this.refArp;
+    this.maxBaselineM = Math.max(this.maxBaselineM, Math.hypot(x0.x - refArp.x, x0.y - refArp.y, x0.z - refArp.z));
+    this.testGeometryFree(t, both, arcs, roverFurther);
+    this.restartWithOtherBands(both, arcs, roverFurther);
+    this.addEntries(k, both, arcs, roverFurther, x0, doy);
+    this.restartTimeDifferencedSlips(k);
+    if (!isStatic) this.setVelocity(e, k, x0, feed.ctx);
+    return rec.satCount[rec.indexOf(k)] === 0 ? 'no satellite common to rover and reference' : '';
+  }
+
+  /**
+   * The geometry-free test on the single differences (geometry-free.ts): the primary band against the
+   * first further band both receivers have, within the arcs of both bands at both receivers.
+   */
+  private testGeometryFree(t: number, both: readonly CommonSat[], arcs: ReadonlyMap<SatId, number>, roverFurther: ReadonlyMap<string, BandArcs>): void {
+    const gfSlips = this.gfSlips;
     const gfItems: { key: string; gfM: number; sat: SatId }[] = [];
     for (const { s, ra } of both) {
       const rArc = arcs.get(s.sat) ?? 0;
@@ -423,12 +602,18 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       }
     }
     if (gfItems.length) {
-      const jumped = geometryFree.update(t, gfItems);
-      for (const it of gfItems) if (jumped.has(it.key)) { gfSlips.set(it.sat, (gfSlips.get(it.sat) ?? 0) + 1); geometryFreeSlips++; }
+      const jumped = this.geometryFree.update(t, gfItems);
+      for (const it of gfItems) if (jumped.has(it.key)) { gfSlips.set(it.sat, (gfSlips.get(it.sat) ?? 0) + 1); this.geometryFreeSlips++; }
     }
-    // A slip found on one band at either receiver (an arc followed by another, not a blank) restarts every
-    // band of the satellite: tracking loops of one satellite share their carrier, so a slip on one band
-    // often comes with a smaller one on another that its own tests miss (common practice).
+  }
+
+  /**
+   * A slip found on one band at either receiver (an arc followed by another, not a blank) restarts every
+   * band of the satellite: tracking loops of one satellite share their carrier, so a slip on one band
+   * often comes with a smaller one on another that its own tests miss (common practice).
+   */
+  private restartWithOtherBands(both: readonly CommonSat[], arcs: ReadonlyMap<SatId, number>, roverFurther: ReadonlyMap<string, BandArcs>): void {
+    const receiverArcs = this.receiverArcs, gfSlips = this.gfSlips;
     for (const { s, ra } of both) {
       if (s.more.length === 0) continue;
       const now = [arcs.get(s.sat) ?? 0, ra.arc];
@@ -440,6 +625,12 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       receiverArcs.set(s.sat, now);
       if (before && before.length === now.length && now.some((a, i) => a > 0 && before[i] > 0 && a !== before[i]) && now.some((a, i) => a > 0 && a === before[i])) gfSlips.set(s.sat, (gfSlips.get(s.sat) ?? 0) + 1);
     }
+  }
+
+  /** The record entries of epoch k: per common satellite its primary band and its further bands, at the linearisation point x0. */
+  private addEntries(k: number, both: readonly CommonSat[], arcs: ReadonlyMap<SatId, number>, roverFurther: ReadonlyMap<string, BandArcs>, x0: EcefM, doy: number): void {
+    const rec = this.rec, roverTracker = this.roverTracker;
+    const g0 = ecefToGeodetic(x0);
     for (const { s, ra } of both) {
       const dx = s.posM.x - x0.x, dy = s.posM.y - x0.y, dz = s.posM.z - x0.z;
       const rho = Math.sqrt(dx * dx + dy * dy + dz * dz);
@@ -448,8 +639,8 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       const model = rho - s.satClockM + troposphereDelayM(g0, ae.elevationRad, doy);
       const rArc = arcs.get(s.sat) ?? 0;
       const withPhase = rArc > 0 && ra.arc > 0 && Number.isFinite(ra.phaseM);
-      const entry = indexOf(s.sat, s.wavelengthM, s.code);
-      const arc = withPhase ? sdArcOf(entry, rArc, ra.arc, s.sat) : 0;
+      const entry = this.indexOf(s.sat, s.wavelengthM, s.code, null);
+      const arc = withPhase ? this.sdArcOf(entry, rArc, ra.arc, s.sat) : 0;
       const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle;
       const el = Math.min(ae.elevationRad, ra.elevationRad);
       rec.addSatellite(k, entry, arc,
@@ -463,33 +654,34 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
         const b = roverFurther.get(m.band);
         const mArc = b?.arcs.get(s.sat) ?? 0;
         const mPhase = mArc > 0 && rm.arc > 0 && Number.isFinite(rm.phaseM);
-        const mEntry = indexOf(s.sat, m.wavelengthM, m.code, { group: furtherBandGroup(s.system, m.band, m.code, rm.code), primaryWavelengthM: s.wavelengthM });
-        rec.addSatellite(k, mEntry, mPhase ? sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0,
+        const mEntry = this.furtherIndexOf(entry, s, m, rm.code);
+        rec.addSatellite(k, mEntry, mPhase ? this.sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0,
           mPhase ? m.phaseCycles * m.wavelengthM + roverTracker.codeClockStepsM - model - rm.phaseM : NaN,
           Number.isFinite(m.codeM) ? m.codeM - model - rm.codeM : NaN,
           dx / rho, dy / rho, dz / rho, el, !((b?.halfCycle(s.sat) ?? false) || rm.halfCycle));
       }
     }
-    restartTimeDifferencedSlips(k);
-    if (!isStatic) {
-      const v = dopplerVelocity(e, x0, store, { systems, elevationMaskRad: maskRad, glonassChannels });
-      if (v) {
-        const sig = Math.max(v.sigmaEnuMS.e, v.sigmaEnuMS.n, v.sigmaEnuMS.u);
-        rec.setVelocity(k, v.velocityEcefMS.x, v.velocityEcefMS.y, v.velocityEcefMS.z, Number.isFinite(sig) ? sig : 0.1);
-      }
+  }
+
+  /** The rover's Doppler velocity at epoch k (a moving epoch), when it can be found. */
+  private setVelocity(e: ObsEpoch, k: number, x0: EcefM, ctx: ReceiverContext): void {
+    const v = dopplerVelocity(e, x0, ctx.store, { systems: ctx.systems, elevationMaskRad: this.maskRad, glonassChannels: ctx.glonassChannels });
+    if (v) {
+      const sig = Math.max(v.sigmaEnuMS.e, v.sigmaEnuMS.n, v.sigmaEnuMS.u);
+      this.rec.setVelocity(k, v.velocityEcefMS.x, v.velocityEcefMS.y, v.velocityEcefMS.z, Number.isFinite(sig) ? sig : 0.1);
     }
-    return rec.satCount[rec.indexOf(k)] === 0 ? 'no satellite common to rover and reference' : '';
   }
 
   /**
    * The time-differenced test (time-differenced-slips.ts) of an epoch's phase single differences against the
    * previous epoch's of the same arcs: a slipped one starts a new arc, with every band of its satellite.
    */
-  function restartTimeDifferencedSlips(k: number): void {
-    const p = previousRecord;
+  private restartTimeDifferencedSlips(k: number): void {
+    const rec = this.rec, satellites = this.satellites;
+    const p = this.previousRecord;
     const e = rec.indexOf(k);
     if (rec.satCount[e] === 0) return;
-    previousRecord = k;
+    this.previousRecord = k;
     if (p < 0) return;
     // The previous epoch with satellites is still in the chunk being recorded (EpochRecords.beginEpoch).
     const q = rec.indexOf(p);
@@ -503,72 +695,191 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     const obs: TimeDifferencedPhase[] = [];
     for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
       const i = before.get(rec.sat[j]);
-      if (i === undefined || rec.arc[j] <= 0 || rec.arc[i] !== rec.arc[j] || rec.elevationRad[j] < maskRad || !Number.isFinite(rec.phaseM[j]) || !Number.isFinite(rec.phaseM[i])) continue;
+      if (i === undefined || rec.arc[j] <= 0 || rec.arc[i] !== rec.arc[j] || rec.elevationRad[j] < this.maskRad || !Number.isFinite(rec.phaseM[j]) || !Number.isFinite(rec.phaseM[i])) continue;
       const info = satellites[rec.sat[j]];
       const carriedM = rec.phaseM[i] + rec.los[3 * i] * ddx + rec.los[3 * i + 1] * ddy + rec.los[3 * i + 2] * ddz;
       js.push(j);
       obs.push({
         changeM: rec.phaseM[j] - carriedM, ux: rec.los[3 * j], uy: rec.los[3 * j + 1], uz: rec.los[3 * j + 2], group: info.group,
-        varianceM2: 2 * singleDifferenceVarianceM2(carrier.phaseAM, carrier.phaseBM, rec.elevationRad[j]), wavelengthM: info.wavelengthM,
+        varianceM2: 2 * singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]), wavelengthM: info.wavelengthM,
       });
     }
     for (const o of findTimeDifferencedSlips(obs)) {
-      timeDifferencedSlips++;
+      this.timeDifferencedSlips++;
       const sat = satellites[rec.sat[js[o]]].id;
       for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
         if (rec.arc[j] <= 0 || satellites[rec.sat[j]].id !== sat) continue;
-        const id = nextArc++;
+        const id = this.nextArc++;
         rec.arc[j] = id;
-        const s = sdArcs.get(rec.sat[j]);
+        const s = this.sdArcs.get(rec.sat[j]);
         if (s) s.id = id;
       }
     }
   }
+}
 
-  // Forward and backward passes, then their combination.
-  notes.push(`${timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)`);
-  // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
-  const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
-  if (ionosphere) notes.push(`${geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
-  if (ionosphere) notes.push(`further frequencies used (${[...new Set(satellites.filter((x) => !x.primary).map((x) => x.phaseCode.slice(0, 2) + ' ' + SYSTEM_NAMES[x.system]))].join(', ')}): the differential ionosphere is estimated per satellite, prior ${(1000 * ionosphere.verticalSigmaM).toFixed(1)} mm at zenith for a ${(maxBaselineM / 1000).toFixed(1)} km baseline`);
-  const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier, ionosphere };
-  const sink = inputs.onFixedAmbiguities;
-  const onFix = (pass: 'forward' | 'backward') => sink ? (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[rec.indexOf(k)], ambiguities }) : undefined;
-  // The forward pass's results wait in the record store, chunk by chunk; the backward pass combines each
-  // epoch with them as it goes (pass-results.ts): no pass holds a whole session's results.
-  const results = new PassResults(rec, recordStore);
-  const forwardShares = { fixed: 0, float: 0, none: 0 }, backwardShares = { fixed: 0, float: 0, none: 0 }, combinedShares = { fixed: 0, float: 0, none: 0 };
-  const count = (shares: { fixed: number; float: number; none: number }, kind: number): void => {
-    if (kind === 2) shares.fixed++; else if (kind === 1) shares.float++; else shares.none++;
-  };
-  // Antenna-to-antenna distances of the solved epochs (their median goes into the summary).
-  const lengths = new Float64Array(rec.count);
-  let solvedCount = 0;
-  const [fwd, bwd] = runPasses(rec, setup, [
-    { direction: 1, onFix: onFix('forward'), onEpoch: (k, r) => { count(forwardShares, r.kind); results.putForward(k, r); } },
-    {
-      direction: -1, onFix: onFix('backward'), onEpoch: (k, r) => {
-        count(backwardShares, r.kind);
-        const i = results.at(k, 'combine');
-        const e = rec.indexOf(k);
-        combineEpoch(results, i, rec.satStart[e], rec.satCount[e], r, carrier.passAgreementM);
-        count(combinedShares, results.kind[i]);
-        if (results.kind[i] !== 0) lengths[solvedCount++] = Math.hypot(results.position[3 * i] - refArp.x, results.position[3 * i + 1] - refArp.y, results.position[3 * i + 2] - refArp.z);
-      },
-    },
-  ]);
-  results.finish();
-  const codeScale = codeVarianceScale(rec, carrier);
-  notes.push(`filter: ${fwd.unflaggedSlips + bwd.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
+/** A satellite of a rover epoch with the reference's values carried to the epoch. */
+interface CommonSat {
+  readonly s: ReceiverSat;
+  readonly ra: AlignedReferenceSat;
+}
 
-  const gRef = ecefToGeodetic(refMark);
-  const broadcastFrame = frame;
-  function solutionAt(k: number): CarrierEpochSolution {
+/**
+ * The rover epoch's satellites the reference has, each placed anew from the reference's broadcast issue
+ * when the rover's differs (the same issue at both ends, so the satellite clock cancels exactly).
+ */
+function commonSatellites(ep: ReceiverEpoch, al: AlignedReference): CommonSat[] {
+  const both: CommonSat[] = [];
+  for (const s of ep.sats) {
+    const ra = al.sats.get(s.sat);
+    if (!ra) continue;
+    if (ra.eph !== s.eph) { s.eph = ra.eph; placeSatellite(s, ep.tagGpsS, ep.clockM); }
+    both.push({ s, ra });
+  }
+  return both;
+}
+
+/**
+ * The code differences for the linearisation point (code-fix.ts), in an array built by push (an array from
+ * map could come in another shape, and the optimised code of codeFixPosition was thrown away for it).
+ */
+function codeRows(both: readonly CommonSat[]): CodeRow[] {
+  const rows: CodeRow[] = [];
+  for (const { s, ra } of both) rows.push({ system: s.system, satM: s.posM, satClockM: s.satClockM, codeM: s.codeM - ra.codeM });
+  return rows;
+}
+
+/** Phase-centre offset and variation turned into a correction of the phase (cycles) to the antenna reference point. */
+function applyAntenna(ep: ReceiverEpoch, at: EcefM, g: GeodeticRad, cal: AntennaCalibration): void {
+  for (const s of ep.sats) {
+    if (!Number.isFinite(s.phaseCycles)) continue;
+    const ae = azimuthElevation(at, s.posM, g.latRad, g.lonRad);
+    const c = antennaCorrectionM(cal, s.system, s.code[1], ae.elevationRad, ae.azimuthRad);
+    // The phase centre is nearer the satellite by the correction: add it back to refer to the ARP.
+    (s as { phaseCycles: number }).phaseCycles += c / s.wavelengthM;
+    // Each further band with its own calibration (ANTEX frequency of the same band).
+    for (const m of s.more) {
+      if (Number.isFinite(m.phaseCycles)) (m as { phaseCycles: number }).phaseCycles += antennaCorrectionM(cal, s.system, m.band, ae.elevationRad, ae.azimuthRad) / m.wavelengthM;
+    }
+  }
+}
+
+/** The forward pass's consumer: counts its kinds and keeps its results for the backward pass (pass-results.ts). */
+class ForwardConsumer implements EpochConsumer {
+  readonly shares = new Shares();
+
+  constructor(private readonly results: PassResults) {
+    keepShape(this);
+  }
+
+  epoch(k: number, r: EpochResult): void {
+    this.shares.count(r.kind);
+    this.results.putForward(k, r);
+  }
+}
+
+/**
+ * The backward pass's consumer: combines each epoch with the forward pass's result (combine-passes.ts),
+ * counts the kinds, and keeps the antenna-to-antenna distance of each solved epoch (their median goes into
+ * the summary).
+ */
+class BackwardConsumer implements EpochConsumer {
+  readonly shares = new Shares();
+  readonly combinedShares = new Shares();
+  private lengths: Float64Array;
+  private solvedCount = 0;
+
+  constructor(private readonly rec: EpochRecords, private readonly results: PassResults, private readonly agreementM: number, private readonly refArp: EcefM) {
+    this.lengths = new Float64Array(rec.count);
+    keepShape(this);
+  }
+
+  epoch(k: number, r: EpochResult): void {
+    const rec = this.rec, results = this.results, refArp = this.refArp;
+    this.shares.count(r.kind);
+    const i = results.at(k, 'combine');
+    const e = rec.indexOf(k);
+    combineEpoch(results, i, rec.satStart[e], rec.satCount[e], r, this.agreementM);
+    this.combinedShares.count(results.kind[i]);
+    if (results.kind[i] !== 0) this.lengths[this.solvedCount++] = Math.hypot(results.position[3 * i] - refArp.x, results.position[3 * i + 1] - refArp.y, results.position[3 * i + 2] - refArp.z);
+  }
+
+  /** Median antenna-to-antenna distance of the solved epochs (m); NaN when none was solved. Called once: the distances are released. */
+  medianLengthM(): number {
+    const n = this.solvedCount;
+    const solvedLengths = this.lengths.subarray(0, n).sort();
+    const median = n ? solvedLengths[n >> 1] : NaN;
+    this.lengths = new Float64Array(0);
+    return median;
+  }
+}
+
+/** What a SolutionWriter is given. */
+interface WriterSetup {
+  readonly rec: EpochRecords;
+  readonly results: PassResults;
+  readonly satellites: readonly SatelliteInfo[];
+  readonly contexts: readonly EpochContext[];
+  readonly reasons: readonly string[];
+  /** The context of records without one (the rover's point and antenna as last set). */
+  readonly lastContext: EpochContext;
+  readonly maskRad: number;
+  readonly carrier: CarrierOptions;
+  readonly codeScale: number;
+  readonly reduceToMark: boolean;
+  readonly refMark: EcefM;
+  readonly refArp: EcefM;
+  readonly frame: FrameEpoch;
+}
+
+/** Turns the combined results of the records into the epochs' solutions, one at a time (file comment, step 3). */
+class SolutionWriter {
+  private readonly rec: EpochRecords;
+  private readonly results: PassResults;
+  private readonly satellites: readonly SatelliteInfo[];
+  private readonly contexts: readonly EpochContext[];
+  private readonly reasons: readonly string[];
+  private readonly lastContext: EpochContext;
+  private readonly maskRad: number;
+  private readonly phaseAM: number;
+  private readonly phaseBM: number;
+  private readonly codeAM: number;
+  private readonly codeBM: number;
+  private readonly codeScale: number;
+  private readonly reduceToMark: boolean;
+  private readonly refMark: EcefM;
+  private readonly refArp: EcefM;
+  private readonly frame: FrameEpoch;
+  /** The reference mark's geodetic coordinates: ENU axes of the look angles, DOPs and baselines. */
+  private readonly gRef: GeodeticRad;
+
+  constructor(s: WriterSetup) {
+    this.rec = s.rec;
+    this.results = s.results;
+    this.satellites = s.satellites;
+    this.contexts = s.contexts;
+    this.reasons = s.reasons;
+    this.lastContext = s.lastContext;
+    this.maskRad = s.maskRad;
+    this.phaseAM = s.carrier.phaseAM; this.phaseBM = s.carrier.phaseBM;
+    this.codeAM = s.carrier.codeAM; this.codeBM = s.carrier.codeBM;
+    this.codeScale = s.codeScale;
+    this.reduceToMark = s.reduceToMark;
+    this.refMark = s.refMark;
+    this.refArp = s.refArp;
+    this.frame = s.frame;
+    this.gRef = ecefToGeodetic(s.refMark);
+    keepShape(this);
+  }
+
+  /** The solution of record k (read from the combined results). */
+  solutionAt(k: number): CarrierEpochSolution {
+    const rec = this.rec, results = this.results, satellites = this.satellites, maskRad = this.maskRad, gRef = this.gRef;
     const e = rec.visit(k);
     const i = results.at(k, 'read');
-    const c = contexts[rec.context[e]] ?? { pointName, event: null, antenna: roverAntenna };
+    const c = this.contexts[rec.context[e]] ?? this.lastContext;
     const kind = KIND[results.kind[i]];
-    const pointReference = options.reduceToMark ? 'ground-mark' as const : 'antenna-reference-point' as const;
+    const pointReference = this.reduceToMark ? 'ground-mark' as const : 'antenna-reference-point' as const;
     const j0 = rec.satStart[e], j1 = j0 + rec.satCount[e];
     const sats = [];
     // Look angles and DOPs from the recorded lines of sight (ENU at the reference: a short baseline).
@@ -589,7 +900,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       const info = satellites[rec.sat[j]];
       const withPhase = Number.isFinite(rec.phaseM[j]);
       const residualM = results.residualM[j];
-      const variance = withPhase ? singleDifferenceVarianceM2(carrier.phaseAM, carrier.phaseBM, rec.elevationRad[j]) : codeScale * singleDifferenceVarianceM2(carrier.codeAM, carrier.codeBM, rec.elevationRad[j]);
+      const variance = withPhase ? singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]) : this.codeScale * singleDifferenceVarianceM2(this.codeAM, this.codeBM, rec.elevationRad[j]);
       sats.push({
         sat: info.id, signal: withPhase ? info.phaseCode : info.code, elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: az,
         residualM, weight: 1 / variance, wTest: NaN, used: rec.elevationRad[j] >= maskRad && kind !== 'none',
@@ -600,8 +911,8 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     // path that allocates in the old generation, which made the heap of a long session grow several-fold.
     const solved = kind !== 'none';
     const arp = { x: results.position[3 * i], y: results.position[3 * i + 1], z: results.position[3 * i + 2] };
-    const pos = solved && options.reduceToMark ? arpToMark(arp, c.antenna) : arp;
-    const refPoint = options.reduceToMark ? refMark : refArp;
+    const pos = solved && this.reduceToMark ? arpToMark(arp, c.antenna) : arp;
+    const refPoint = this.reduceToMark ? this.refMark : this.refArp;
     const baselineEcef = solved ? { x: pos.x - refPoint.x, y: pos.y - refPoint.y, z: pos.z - refPoint.z } : null;
     const cv = results.covariance.subarray(6 * i, 6 * i + 6);
     const g = solved ? ecefToGeodetic(pos) : null;
@@ -613,34 +924,12 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       forwardKind: KIND[results.forwardKind[i]], backwardKind: KIND[results.backwardKind[i]],
       ratio: results.ratio[i] > 0 ? results.ratio[i] : NaN, fixedAmbiguities: results.fixedAmbiguities[i],
       kind,
-      reason: !solved ? reasons[rec.reason[e]] || 'too few satellites for a solution' : kind === 'float' && results.forwardKind[i] === 2 && results.backwardKind[i] === 2 ? 'forward and backward fixes disagree' : '',
-      position: solved ? { ecef: pos, frame: broadcastFrame } : null, geodetic: g,
+      reason: !solved ? this.reasons[rec.reason[e]] || 'too few satellites for a solution' : kind === 'float' && results.forwardKind[i] === 2 && results.backwardKind[i] === 2 ? 'forward and backward fixes disagree' : '',
+      position: solved ? { ecef: pos, frame: this.frame } : null, geodetic: g,
       baselineEcef, baselineEnu: baselineEcef ? ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad) : null,
       satellitesUsed: solved ? results.satellitesUsed[i] : 0, sigmaEnuM: g ? enuSigma(cv, g.latRad, g.lonRad) : null, sigma3dM: solved ? Math.sqrt(cv[0] + cv[3] + cv[5]) : NaN,
     };
   }
-
-  async function* run(): AsyncIterable<CarrierEpochSolution> {
-    try {
-      for (let k = 0; k < rec.count; k++) yield solutionAt(k);
-    } finally {
-      results.release();
-      rec.close();
-    }
-  }
-
-  const recordBytes = rec.count * 80 + rec.satTotal * 40;
-  const solvedLengths = lengths.subarray(0, solvedCount).sort();
-  const baselineLengthM = solvedCount ? solvedLengths[solvedCount >> 1] : NaN;
-  return {
-    epochs: run(),
-    summary: (): CarrierSummary => ({
-      frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
-      epochsRover: rec.count, forward: forwardShares, backward: backwardShares, combined: combinedShares,
-      fixableSystems: [...fixable], signals: [...new Set(satellites.map((x) => `${x.system} ${x.phaseCode}`))], slips: { rover: allCauses(roverTracker, roverBandTrackers), reference: allCauses(refTracker, refBandTrackers) },
-      baselineLengthM, notes, recordBytes,
-    }),
-  };
 }
 
 /** Arcs started per cause, over every band's tracker of a receiver. */
@@ -655,10 +944,12 @@ function enuSigma(c: ArrayLike<number>, lat: number, lon: number): { e: number; 
   const sl = Math.sin(lat), cl = Math.cos(lat), so = Math.sin(lon), co = Math.cos(lon);
   const rows = [[-so, co, 0], [-sl * co, -sl * so, cl], [cl * co, cl * so, sl]];
   const m = [[c[0], c[1], c[2]], [c[1], c[3], c[4]], [c[2], c[4], c[5]]];
-  const v = rows.map((r) => {
-    let s = 0;
-    for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) s += r[i] * m[i][j] * r[j];
-    return Math.sqrt(Math.max(s, 0));
-  });
-  return { e: v[0], n: v[1], u: v[2] };
+  return { e: axisSigma(rows[0], m), n: axisSigma(rows[1], m), u: axisSigma(rows[2], m) };
+}
+
+/** Standard deviation along the unit vector r of a 3 x 3 covariance m: sqrt(r' m r). */
+function axisSigma(r: readonly number[], m: readonly (readonly number[])[]): number {
+  let s = 0;
+  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) s += r[i] * m[i][j] * r[j];
+  return Math.sqrt(Math.max(s, 0));
 }

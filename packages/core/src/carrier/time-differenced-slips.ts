@@ -49,36 +49,43 @@ export const SLIP_MIN_CYCLES = 0.5;
  * they were found. Fewer than 3 + groups + 2 observations: none can be tested.
  */
 export function findTimeDifferencedSlips(obs: readonly TimeDifferencedPhase[]): number[] {
-  const active = obs.map((_, i) => i);
+  // Plain loops and arrays built by push (not map or forEach): one array shape at each use for the
+  // optimised code of this function, called every epoch.
+  const active: number[] = [];
+  for (let i = 0; i < obs.length; i++) active.push(i);
   const slipped: number[] = [];
   for (;;) {
-    const groups = [...new Set(active.map((i) => obs[i].group))];
+    // The clock groups, in order of first appearance.
+    const groups: string[] = [];
+    for (const i of active) if (!groups.includes(obs[i].group)) groups.push(obs[i].group);
     const nu = 3 + groups.length;
     if (active.length - nu < 2) return slipped;
     // Normal equations N = A' W A, b = A' W y.
     const n = new Float64Array(nu * nu), b = new Float64Array(nu);
-    const rows = active.map((i) => {
+    const rows: Float64Array[] = [];
+    for (const i of active) {
       const o = obs[i];
       const a = new Float64Array(nu);
       a[0] = -o.ux; a[1] = -o.uy; a[2] = -o.uz; a[3 + groups.indexOf(o.group)] = 1;
-      return a;
-    });
-    active.forEach((i, r) => {
+      rows.push(a);
+    }
+    for (let r = 0; r < active.length; r++) {
+      const i = active[r];
       const a = rows[r], w = 1 / obs[i].varianceM2;
       for (let p = 0; p < nu; p++) {
         if (a[p] === 0) continue;
         b[p] += a[p] * w * obs[i].changeM;
         for (let q = 0; q < nu; q++) n[p * nu + q] += a[p] * w * a[q];
       }
-    });
+    }
     const inv = invertSymmetric(n, nu);
     if (!inv) return slipped;
     const x = new Float64Array(nu);
     for (let p = 0; p < nu; p++) for (let q = 0; q < nu; q++) x[p] += inv[p * nu + q] * b[q];
     // Residuals, their variances Q_e = Q_y - A N^-1 A', the w-test and the estimated jump.
     let worst = -1, worstW = 0;
-    active.forEach((i, r) => {
-      const a = rows[r], o = obs[i];
+    for (let r = 0; r < active.length; r++) {
+      const a = rows[r], o = obs[active[r]];
       let fit = 0, qa = 0;
       for (let p = 0; p < nu; p++) {
         if (a[p] === 0) continue;
@@ -88,10 +95,10 @@ export function findTimeDifferencedSlips(obs: readonly TimeDifferencedPhase[]): 
       const e = o.changeM - fit;
       const qe = o.varianceM2 - qa;
       const redundancy = qe / o.varianceM2;
-      if (!(redundancy > 0.01)) return;
+      if (!(redundancy > 0.01)) continue;
       const w = Math.abs(e) / Math.sqrt(qe);
       if (w > SLIP_W_CRITICAL && Math.abs(e / redundancy) >= SLIP_MIN_CYCLES * o.wavelengthM && w > worstW) { worst = r; worstW = w; }
-    });
+    }
     if (worst < 0) return slipped;
     slipped.push(active[worst]);
     active.splice(worst, 1);
