@@ -389,8 +389,12 @@ export interface PassSpec {
 export function runPasses(rec: EpochRecords, setup: PassSetup, passes: readonly PassSpec[]): PassCounts[] {
   const runner = new PassRunner(rec, setup);
   const outputs: PassCounts[] = [];
-  for (const pass of passes) outputs.push(runner.run(pass));
-  runner.dropPassState();
+  try {
+    for (const pass of passes) outputs.push(runner.run(pass));
+  } finally {
+    // The runner is kept beyond the session (kept-shapes.ts): its state goes, whether the passes ended or failed.
+    runner.dropPassState();
+  }
   return outputs;
 }
 

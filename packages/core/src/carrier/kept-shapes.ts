@@ -9,8 +9,9 @@
  * Between two sessions of a batch no object of the filter's classes may be alive for many collections (the
  * outputs of one session are written, the next is read): each session then had its hot functions compiled
  * again from nothing. One object kept per class keeps the shapes, and so the code, from one session to the
- * next. The classes release their session's data when it ends (EpochRecords.close, PassResults.release and
- * the like), and the rover reader is handed its inputs (ephemerides, reference files) rather than keeping
+ * next. The classes release their session's data when it ends, whether it ended well or failed
+ * (EpochRecords.close, PassResults.release, PassRunner.dropPassState; a run whose epochs are never
+ * iterated keeps its records until the next session: CarrierRun.epochs), and the rover reader is handed its inputs (ephemerides, reference files) rather than keeping
  * them, so what stays is small (about 1 MB after a day of BELE00BRA with a day's multi-GNSS broadcast file).
  */
 

@@ -117,6 +117,11 @@ export interface CarrierSummary {
 }
 
 export interface CarrierRun {
+  /**
+   * The epochs' solutions, in order. Iterate it to its end (or stop iterating it, which returns it): that
+   * releases the session's records and results. A run whose epochs are never iterated keeps them until
+   * the next carrier session starts (kept-shapes.ts).
+   */
   readonly epochs: AsyncIterable<CarrierEpochSolution>;
   summary(): CarrierSummary;
 }
@@ -215,80 +220,90 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     recordStore, roverAntenna: options.roverAntenna ?? rover.header.antennaOffset, roverAntennaGiven: Boolean(options.roverAntenna),
     pointName: rover.header.markerName.trim(), x0: rover.header.approxPosition ?? refArp,
   });
-  await reader.read(rover.epochs, { ctx, references: joinReferenceStreams(inputs.references)[Symbol.asyncIterator]() });
-  const rec = reader.rec;
-  const satellites = reader.satellites;
-  const maxBaselineM = reader.maxBaselineM;
-  if (rec.count > 0 && reader.epochsWithReference === 0) {
-    const files = (xs: readonly { file: string }[]) => xs.map((x) => x.file).join(', ');
-    const roverSeen = reader.roverSeen, refSeen = reader.refSeen;
-    if (roverSeen.positioned === 0) {
-      throw new ProcessingError(`no rover epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the rover's satellites at its times (${isoFromSeconds(roverSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(roverSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged), or ${rover.file} holds no usable pseudorange`);
+  // The reader, the records and the results are kept beyond the session (kept-shapes.ts): a session that
+  // fails from here on releases what it holds before the error goes on (a finished one releases it in run()).
+  let passResults: PassResults | null = null;
+  try {
+    await reader.read(rover.epochs, { ctx, references: joinReferenceStreams(inputs.references)[Symbol.asyncIterator]() });
+    const rec = reader.rec;
+    const satellites = reader.satellites;
+    const maxBaselineM = reader.maxBaselineM;
+    if (rec.count > 0 && reader.epochsWithReference === 0) {
+      const files = (xs: readonly { file: string }[]) => xs.map((x) => x.file).join(', ');
+      const roverSeen = reader.roverSeen, refSeen = reader.refSeen;
+      if (roverSeen.positioned === 0) {
+        throw new ProcessingError(`no rover epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the rover's satellites at its times (${isoFromSeconds(roverSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(roverSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged), or ${rover.file} holds no usable pseudorange`);
+      }
+      if (Number.isNaN(refSeen.firstGpsS)) throw new ProcessingError(`the reference file${inputs.references.length > 1 ? 's' : ''} ${files(inputs.references)} gave no readable observation epoch (see the warnings)`);
+      if (refSeen.positioned === 0) {
+        // Reference epochs were read but none could be used: the orbits are what is missing, not the overlap.
+        throw new ProcessingError(`no reference epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the reference's times (${isoFromSeconds(refSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(refSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged)`);
+      }
+      throw new ProcessingError(`the rover and reference observations do not overlap in time (no reference epoch within ${carrier.maxReferenceAgeS} s of any rover epoch)`);
     }
-    if (Number.isNaN(refSeen.firstGpsS)) throw new ProcessingError(`the reference file${inputs.references.length > 1 ? 's' : ''} ${files(inputs.references)} gave no readable observation epoch (see the warnings)`);
-    if (refSeen.positioned === 0) {
-      // Reference epochs were read but none could be used: the orbits are what is missing, not the overlap.
-      throw new ProcessingError(`no reference epoch could be used: the navigation files ${inputs.nav.files.join(', ')} hold no usable ephemeris for the reference's times (${isoFromSeconds(refSeen.firstGpsS, ' GPST')} to ${isoFromSeconds(refSeen.lastGpsS, ' GPST')}; stale, for another day, unhealthy or damaged)`);
+    if (maxBaselineM > 10_000) {
+      const msg = `baseline up to ${(maxBaselineM / 1000).toFixed(1)} km: the differential ionosphere can reach several centimetres per double difference beyond about 10 km (neglected with one frequency, estimated with a prior when further frequencies are used), and ambiguities may then be fixed wrongly or not at all`;
+      notes.push(msg);
+      warn({ file: rover.file, code: 'long-baseline', message: msg });
     }
-    throw new ProcessingError(`the rover and reference observations do not overlap in time (no reference epoch within ${carrier.maxReferenceAgeS} s of any rover epoch)`);
-  }
-  if (maxBaselineM > 10_000) {
-    const msg = `baseline up to ${(maxBaselineM / 1000).toFixed(1)} km: the differential ionosphere can reach several centimetres per double difference beyond about 10 km (neglected with one frequency, estimated with a prior when further frequencies are used), and ambiguities may then be fixed wrongly or not at all`;
-    notes.push(msg);
-    warn({ file: rover.file, code: 'long-baseline', message: msg });
-  }
 
-  // Forward and backward passes, then their combination.
-  notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)`);
-  // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
-  const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
-  if (ionosphere) notes.push(`${reader.geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
-  if (ionosphere) notes.push(`further frequencies used (${[...new Set(satellites.filter((x) => !x.primary).map((x) => x.phaseCode.slice(0, 2) + ' ' + SYSTEM_NAMES[x.system]))].join(', ')}): the differential ionosphere is estimated per satellite, prior ${(1000 * ionosphere.verticalSigmaM).toFixed(1)} mm at zenith for a ${(maxBaselineM / 1000).toFixed(1)} km baseline`);
-  const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier, ionosphere };
-  const sink = inputs.onFixedAmbiguities;
-  const onFix = (pass: 'forward' | 'backward') => sink ? (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[rec.indexOf(k)], ambiguities }) : undefined;
-  // The forward pass's results wait in the record store, chunk by chunk; the backward pass combines each
-  // epoch with them as it goes (pass-results.ts): no pass holds a whole session's results.
-  const results = new PassResults(rec, recordStore);
-  const forward = new ForwardConsumer(results);
-  const backward = new BackwardConsumer(rec, results, carrier.passAgreementM, refArp);
-  const [fwd, bwd] = runPasses(rec, setup, [
-    { direction: 1, onFix: onFix('forward'), consumer: forward },
-    { direction: -1, onFix: onFix('backward'), consumer: backward },
-  ]);
-  results.finish();
-  notes.push(`filter: ${fwd.unflaggedSlips + bwd.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
+    // Forward and backward passes, then their combination.
+    notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)`);
+    // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
+    const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
+    if (ionosphere) notes.push(`${reader.geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
+    if (ionosphere) notes.push(`further frequencies used (${[...new Set(satellites.filter((x) => !x.primary).map((x) => x.phaseCode.slice(0, 2) + ' ' + SYSTEM_NAMES[x.system]))].join(', ')}): the differential ionosphere is estimated per satellite, prior ${(1000 * ionosphere.verticalSigmaM).toFixed(1)} mm at zenith for a ${(maxBaselineM / 1000).toFixed(1)} km baseline`);
+    const setup = { satellites, fixableSystems: fixable, elevationMaskRad: maskRad, options: carrier, ionosphere };
+    const sink = inputs.onFixedAmbiguities;
+    const onFix = (pass: 'forward' | 'backward') => sink ? (k: number, ambiguities: readonly FixedDoubleDifference[]) => sink({ pass, tagGpsS: rec.tagGpsS[rec.indexOf(k)], ambiguities }) : undefined;
+    // The forward pass's results wait in the record store, chunk by chunk; the backward pass combines each
+    // epoch with them as it goes (pass-results.ts): no pass holds a whole session's results.
+    const results = new PassResults(rec, recordStore);
+    passResults = results;
+    const forward = new ForwardConsumer(results);
+    const backward = new BackwardConsumer(rec, results, carrier.passAgreementM, refArp);
+    const [fwd, bwd] = runPasses(rec, setup, [
+      { direction: 1, onFix: onFix('forward'), consumer: forward },
+      { direction: -1, onFix: onFix('backward'), consumer: backward },
+    ]);
+    results.finish();
+    notes.push(`filter: ${fwd.unflaggedSlips + bwd.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
 
-  const writer = new SolutionWriter({
-    rec, results, satellites, contexts: reader.contexts, reasons: reader.reasons,
-    lastContext: { pointName: reader.pointName, event: null, antenna: reader.roverAntenna },
-    maskRad, carrier, codeScale: codeVarianceScale(rec, carrier), reduceToMark: options.reduceToMark,
-    refMark, refArp, frame,
-  });
+    const writer = new SolutionWriter({
+      rec, results, satellites, contexts: reader.contexts, reasons: reader.reasons,
+      lastContext: { pointName: reader.pointName, event: null, antenna: reader.roverAntenna },
+      maskRad, carrier, codeScale: codeVarianceScale(rec, carrier), reduceToMark: options.reduceToMark,
+      refMark, refArp, frame,
+    });
 
-  async function* run(): AsyncIterable<CarrierEpochSolution> {
-    try {
-      for (let k = 0; k < rec.count; k++) yield writer.solutionAt(k);
-    } finally {
-      results.release();
-      rec.close();
+    async function* run(): AsyncIterable<CarrierEpochSolution> {
+      try {
+        for (let k = 0; k < rec.count; k++) yield writer.solutionAt(k);
+      } finally {
+        results.release();
+        rec.close();
+      }
     }
-  }
 
-  const recordBytes = rec.count * 80 + rec.satTotal * 40;
-  const baselineLengthM = backward.medianLengthM();
-  const roverTracker = reader.roverTracker, refTracker = reader.refTracker;
-  const roverBandTrackers = reader.roverBandTrackers, refBandTrackers = reader.refBandTrackers;
-  const forwardShares = forward.shares, backwardShares = backward.shares, combinedShares = backward.combinedShares;
-  return {
-    epochs: run(),
-    summary: (): CarrierSummary => ({
-      frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
-      epochsRover: rec.count, forward: forwardShares.plain(), backward: backwardShares.plain(), combined: combinedShares.plain(),
-      fixableSystems: [...fixable], signals: [...new Set(satellites.map((x) => `${x.system} ${x.phaseCode}`))], slips: { rover: allCauses(roverTracker, roverBandTrackers), reference: allCauses(refTracker, refBandTrackers) },
-      baselineLengthM, notes, recordBytes,
-    }),
-  };
+    const recordBytes = rec.count * 80 + rec.satTotal * 40;
+    const baselineLengthM = backward.medianLengthM();
+    const roverTracker = reader.roverTracker, refTracker = reader.refTracker;
+    const roverBandTrackers = reader.roverBandTrackers, refBandTrackers = reader.refBandTrackers;
+    const forwardShares = forward.shares, backwardShares = backward.shares, combinedShares = backward.combinedShares;
+    return {
+      epochs: run(),
+      summary: (): CarrierSummary => ({
+        frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
+        epochsRover: rec.count, forward: forwardShares.plain(), backward: backwardShares.plain(), combined: combinedShares.plain(),
+        fixableSystems: [...fixable], signals: [...new Set(satellites.map((x) => `${x.system} ${x.phaseCode}`))], slips: { rover: allCauses(roverTracker, roverBandTrackers), reference: allCauses(refTracker, refBandTrackers) },
+        baselineLengthM, notes, recordBytes,
+      }),
+    };
+  } catch (e) {
+    passResults?.release();
+    reader.rec.close();
+    throw e;
+  }
 }
 
 /** What a RoverReader reads from: the receivers' context, and the reference's epochs (joined files), read as far as the rover needs. */
