@@ -208,13 +208,18 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   });
   // The probes' warnings are kept: a file with no readable epoch is reported with its first problem.
   const roverProbeWarnings: Warning[] = [];
-  const roverProbe = await openObs(a.rover, (w) => roverProbeWarnings.push(w));
+  // Kept only until the rover's time span is known: the probe's stream is read further (systemsSeen),
+  // and the solve reports the epochs' problems itself.
+  let keepRoverProbeWarnings = true;
+  const roverProbe = await openObs(a.rover, (w) => { if (keepRoverProbeWarnings) roverProbeWarnings.push(w); });
   const refProbes: OpenedObs[] = [];
   const refProbeWarnings: Warning[] = [];
   for (const p of referencePaths) refProbes.push(await openObs(p, (w) => refProbeWarnings.push(w)));
   const roverSpan = await obsTimeSpan(a.rover, roverProbe.header, (w) => roverProbeWarnings.push(w));
   // A data problem, not a usage one: exit 1 with one sentence.
   if (!roverSpan) throw new InputError(a.rover, 0, noEpochSentence(a.rover, roverProbeWarnings));
+  keepRoverProbeWarnings = false;
+  roverProbeWarnings.length = 0;
   const refSpans: { path: string; span: TimeSpan }[] = [];
   for (let i = 0; i < referencePaths.length; i++) {
     const sp = await obsTimeSpan(referencePaths[i]!, refProbes[i]!.header, (w) => refProbeWarnings.push(w));

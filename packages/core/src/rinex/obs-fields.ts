@@ -66,10 +66,9 @@ export function parseF14p3(line: string, c: number): number {
 }
 
 /**
- * parseF14p3 on a line that ends at `end` (exclusive) inside `s` (a chunk holding many lines).
- * Kept small so that V8 inlines it into the reader's loop (its bytecode under the inlining limit,
- * --max-inlined-bytecode-size, 460 bytes): the rare layouts (ten integer digits, no digit before the
- * point, other characters) go to parseFixedIn, which gives the same value.
+ * parseF14p3 on a line that ends at `end` (exclusive) inside `s` (a chunk holding many lines); the
+ * observation reader parses the same fields from bytes (parseF14p3Bytes). The rare layouts (ten integer
+ * digits, no digit before the point, other characters) go to parseFixedIn, which gives the same value.
  */
 export function parseF14p3In(s: string, c: number, end: number): number {
   const point = c + 10;
@@ -122,20 +121,6 @@ export function parseIntField(line: string, start: number, end: number): number 
   return neg ? -v : v;
 }
 
-/** A single digit at column `col` (LLI, SSI, flag): 0 for blank or absent; -1 for a non-digit. */
-export function digitAt(line: string, col: number): number {
-  return digitIn(line, col, line.length);
-}
-
-/** digitAt on a line that ends at `end` (exclusive) inside `s`. */
-export function digitIn(s: string, col: number, end: number): number {
-  if (col >= end) return 0;
-  const c = s.charCodeAt(col);
-  if (c === 32) return 0;
-  if (c >= 48 && c <= 57) return c - 48;
-  return -1;
-}
-
 /** Columns [start, end) trimmed (header text fields). */
 export function textField(line: string, start: number, end: number): string {
   return line.slice(start, end).trim();
@@ -182,7 +167,7 @@ export function parseF14p3Bytes(b: Uint8Array, c: number, end: number): number {
   return neg ? -v : v;
 }
 
-/** digitIn on bytes: the LLI/SSI digit at `col` of a line ending at `end`; 0 blank or absent; -1 not a digit. */
+/** The single digit (LLI, SSI, flag) at `col` of a line ending at `end` (exclusive): 0 blank or absent; -1 not a digit. */
 export function digitInBytes(b: Uint8Array, col: number, end: number): number {
   if (col >= end) return 0;
   const c = b[col]!;
@@ -200,7 +185,8 @@ export function digitInBytes(b: Uint8Array, col: number, end: number): number {
  * '\n' is returned. -1 when the line is anything else (a CR, another layout, garbled, the buffer ends):
  * then read it as a span with parseF14p3Bytes and digitInBytes, which give the same values for the
  * fields written here. Needs 16 readable bytes after any position before the line's end (byte-lines.ts
- * PADDING_BYTES). Columns after field `to` are not read, as in the span reading.
+ * PADDING_BYTES). The line must end ('\n') within or right after field `to - 1`: a line with more
+ * columns returns -1 and is read as a span, which gives the same values.
  */
 export function parseObsLineBytes(
   b: Uint8Array, c: number, from: number, to: number, values: Float64Array, lli: Uint8Array, ssi: Uint8Array, div: Float64Array | null,
