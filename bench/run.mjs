@@ -19,6 +19,10 @@ import { loadCore, ROOT } from './load-core.mjs';
 import { benchParse, SOLVE_SYSTEMS } from './parse-throughput.mjs';
 import { benchWholeProcess } from './whole-process.mjs';
 import { fmt, printTable } from './stats.mjs';
+import { YOUNG_SEMI_SPACE_MIB } from '../packages/cli/bin/heap-growth.js';
+
+// Engine jobs run with the young-generation bound the command starts with (packages/cli/bin/refdelta.js).
+const ENGINE_NODE_FLAGS = ['--expose-gc', `--max-semi-space-size=${YOUNG_SEMI_SPACE_MIB}`];
 
 const args = process.argv.slice(2);
 const only = args.includes('--part1') ? 1 : args.includes('--part2') ? 2 : args.includes('--part3') ? 3 : args.includes('--part4') ? 4 : args.includes('--part5') ? 5 : 0;
@@ -72,7 +76,7 @@ if (only === 0 || only === 1) {
 /** Runs one engine job in a fresh process and returns what it sends back. */
 function job(mode, hours) {
   return new Promise((resolveJob, reject) => {
-    const child = fork(resolve(ROOT, 'bench/engine-run.mjs'), [mode, String(hours)], { execArgv: ['--expose-gc'], stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
+    const child = fork(resolve(ROOT, 'bench/engine-run.mjs'), [mode, String(hours)], { execArgv: ENGINE_NODE_FLAGS, stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
     let result = null;
     child.on('message', (m) => { result = m; });
     child.on('error', reject);
@@ -118,7 +122,7 @@ if (only !== 1 && only !== 4 && only !== 5 && !args.includes('--no-carrier')) {
   const carrierHours = cIdx >= 0 ? Number(args[cIdx + 1]) : 24;
   console.log(`== Part 3: carrier phase on a simulated session (${carrierHours} h, rover 1 Hz, reference 30 s, GPS + GLONASS) ==`);
   const c = await new Promise((res, rej) => {
-    const child = fork(resolve(ROOT, 'bench/carrier-run.mjs'), [String(carrierHours)], { execArgv: ['--expose-gc'], stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
+    const child = fork(resolve(ROOT, 'bench/carrier-run.mjs'), [String(carrierHours)], { execArgv: ENGINE_NODE_FLAGS, stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
     let out = null;
     child.on('message', (m) => { out = m; });
     child.on('error', rej);

@@ -11,13 +11,17 @@
 import { spawn, spawnSync } from 'node:child_process';
 import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { delimiter, dirname, join, resolve } from 'node:path';
 import { gunzipSync } from 'node:zlib';
 import { ROOT } from './load-core.mjs';
 import { benchScenarioSpec, scenarioTexts } from './scenario.mjs';
 import { median } from './stats.mjs';
 
+// The command is run as the installed command runs: the file itself, whose first line starts node with
+// the command's V8 settings (a bound on the young generation: packages/cli/bin/heap-growth.js). Its
+// `env node` finds the node running the bench first.
 const CLI = resolve(ROOT, 'packages/cli/bin/refdelta.js');
+process.env.PATH = `${dirname(process.execPath)}${delimiter}${process.env.PATH ?? ''}`;
 const FLOOR = resolve(ROOT, 'bench/floor-solve.mjs');
 const TIME = '/usr/bin/time';
 
@@ -91,7 +95,7 @@ function headerXyz(path) {
 }
 
 const solveArgs = (rover, reference, nav, xyz, out, extra = []) => [
-  CLI, 'solve', '--rover', rover, '--reference', reference, '--nav', ...nav, '--ref-coord', xyz, '--ref-frame', 'WGS84', '--ref-epoch', '2024.0',
+  'solve', '--rover', rover, '--reference', reference, '--nav', ...nav, '--ref-coord', xyz, '--ref-frame', 'WGS84', '--ref-epoch', '2024.0',
   '--out', out, '--quiet', ...extra,
 ];
 
@@ -99,8 +103,8 @@ const solveArgs = (rover, reference, nav, xyz, out, extra = []) => [
 function solveCase(name, rover, reference, nav, xyz, work, runs, extra = ['--systems', 'G'], withSummary = true) {
   const full = join(work, `${name}-full`), summary = join(work, `${name}-summary`), floorOut = join(work, `${name}-floor`);
   mkdirSync(floorOut, { recursive: true });
-  const fullRun = [process.execPath, solveArgs(rover, reference, nav, xyz, full, extra)];
-  const [a, s = null] = measureInTurns(withSummary ? [fullRun, [process.execPath, solveArgs(rover, reference, nav, xyz, summary, [...extra, '--outputs', 'summary'])]] : [fullRun], runs);
+  const fullRun = [CLI, solveArgs(rover, reference, nav, xyz, full, extra)];
+  const [a, s = null] = measureInTurns(withSummary ? [fullRun, [CLI, solveArgs(rover, reference, nav, xyz, summary, [...extra, '--outputs', 'summary'])]] : [fullRun], runs);
   // The floor writes the bytes refdelta wrote (its outputs but the summary, which the summary-only run also writes).
   const like = join(work, `${name}-like`);
   mkdirSync(like, { recursive: true });
@@ -136,7 +140,7 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
   try {
     // Start-up.
     const node0 = measure(process.execPath, ['-e', '0'], Math.max(runs, 7));
-    const version = measure(process.execPath, [CLI, '--version'], Math.max(runs, 7));
+    const version = measure(CLI, ['--version'], Math.max(runs, 7));
     row('refdelta --version', version, 'node -e 0', node0, '<= 3x');
     verdicts.push(['start-up: refdelta --version / node -e 0 (CPU)', `${ratio(version.cpuS, node0.cpuS).toFixed(2)}x`, '<= 3x', ratio(version.cpuS, node0.cpuS) <= 3]);
 
@@ -162,7 +166,7 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
       writeFileSync(nav, gunzipSync(readFileSync(ss('BRDC00IGS_R_20240100000_01D_MN.rnx.gz'))));
       const c = solveCase('bele', plain, plain, [nav], headerXyz(plain), work, runs);
       cases.push(['BELE day vs itself (plain RINEX 3), GPS', c, false]);
-      c.crx = measure(process.execPath, solveArgs(bele, bele, [nav], headerXyz(plain), join(work, 'bele-crx'), ['--systems', 'G']), runs);
+      c.crx = measure(CLI, solveArgs(bele, bele, [nav], headerXyz(plain), join(work, 'bele-crx'), ['--systems', 'G']), runs);
     }
     const sr = join(dataDir, 'cors-and-rover-2018-277');
     if (existsSync(join(sr, 'static-run/rover.obs'))) {
@@ -180,7 +184,7 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
     const hour = await writeScenario(core, simDir('sim-hour'), hourSpec);
     const likeSpec = { ...benchScenarioSpec(core, 2 * 3600), reference: { ...hourSpec.reference, intervalS: 1 } };
     const like = await writeScenario(core, simDir('sim-like'), likeSpec);
-    const likeRun = measure(process.execPath, solveArgs(like.rover, like.reference, [like.nav], ecefText(core, likeSpec), join(work, 'like-all')), runs);
+    const likeRun = measure(CLI, solveArgs(like.rover, like.reference, [like.nav], ecefText(core, likeSpec), join(work, 'like-all')), runs);
     const likeCase = solveCase('like', like.rover, like.reference, [like.nav], ecefText(core, likeSpec), work, runs);
     cases.push(['real-like 2 h (rover and ref 1 Hz, GPS+Galileo), GPS', likeCase, false]);
 
@@ -196,19 +200,27 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
     row('real-like 2 h, GPS+Galileo (both systems solved)', likeRun, 'floor (GPS)', likeCase.floor);
 
     // Memory: whole-process peak RSS of the 24 h simulated run against the 1 h one (all outputs).
-    const hourRun = measure(process.execPath, solveArgs(hour.rover, hour.reference, [hour.nav], ecefText(core, hourSpec), join(work, 'hour-full'), ['--systems', 'G']), runs);
+    const hourRun = measure(CLI, solveArgs(hour.rover, hour.reference, [hour.nav], ecefText(core, hourSpec), join(work, 'hour-full'), ['--systems', 'G']), runs);
     const rssRatio = cases.find((c) => c[1].name === 'simday')[1].full.rssMB / hourRun.rssMB;
     rows.push([`peak RSS ${simHours} h / 1 h simulated (whole process)`, '', '', `${cases.find((c) => c[1].name === 'simday')[1].full.rssMB.toFixed(0)} / ${hourRun.rssMB.toFixed(0)}`, '', '', `${rssRatio.toFixed(2)}x`, '<= 1.3x']);
     verdicts.push([`peak RSS ${simHours} h / 1 h (whole process, median of ${runs})`, `${rssRatio.toFixed(2)}x`, '<= 1.3x', rssRatio <= 1.3]);
+    // The same two runs started as `node bin/refdelta.js`, without the command's first line: V8's default
+    // young generation (information: what a caller that runs the file with node gets).
+    const plainRuns = Math.min(runs, 3);
+    const [dayPlain, hourPlain] = measureInTurns([
+      [process.execPath, [CLI, ...solveArgs(day.rover, day.reference, [day.nav], ecefText(core, daySpec), join(work, 'simday-plain'), ['--systems', 'G'])]],
+      [process.execPath, [CLI, ...solveArgs(hour.rover, hour.reference, [hour.nav], ecefText(core, hourSpec), join(work, 'hour-plain'), ['--systems', 'G'])]],
+    ], plainRuns);
+    rows.push([`  same, started as node bin/refdelta.js (V8's default young generation, median of ${plainRuns})`, `${dayPlain.cpuS.toFixed(2)} / ${hourPlain.cpuS.toFixed(2)}`, '', `${dayPlain.rssMB.toFixed(0)} / ${hourPlain.rssMB.toFixed(0)}`, '', '', `${(dayPlain.rssMB / hourPlain.rssMB).toFixed(2)}x`, '(info)']);
 
     // Batch: 8 sessions (the demo rover, 1387 epochs each) with 1 and 2 workers.
     const demo = (f) => resolve(ROOT, 'fixtures/demo', f);
     const sessions = simDir('batch-sessions');
     for (let i = 1; i <= 8; i++) copyFileSync(demo('rover-1s.obs'), join(sessions, `walk-${i}.obs`));
-    const batchArgs = (jobs) => [CLI, 'batch', '--sessions', sessions, '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
+    const batchArgs = (jobs) => ['batch', '--sessions', sessions, '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
       '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--jobs', String(jobs), '--out', join(work, `batch-${jobs}`), '--quiet'];
     const clear = (jobs) => () => rmSync(join(work, `batch-${jobs}`), { recursive: true, force: true });
-    const [b1, b2] = measureInTurns([[process.execPath, batchArgs(1), clear(1)], [process.execPath, batchArgs(2), clear(2)]], runs);
+    const [b1, b2] = measureInTurns([[CLI, batchArgs(1), clear(1)], [CLI, batchArgs(2), clear(2)]], runs);
     const speedup = b1.wallS / b2.wallS;
     rows.push(['batch of 8 sessions, --jobs 2 (wall s)', b2.cpuS.toFixed(2), b2.wallS.toFixed(2), b2.rssMB.toFixed(0), '--jobs 1 (wall s)', b1.wallS.toFixed(2), `${speedup.toFixed(2)}x faster`, '>= 1.7x']);
     // Same bytes but the summaries (their creation times differ from run to run).
@@ -224,8 +236,8 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
     // its busiest thread's). The ratio of these floors is the speed-up two free cores would give.
     const threads1 = [], threads2 = [];
     for (let i = 0; i < runs; i++) {
-      threads1.push(await threadCpu(process.execPath, batchArgs(1), clear(1)));
-      threads2.push(await threadCpu(process.execPath, batchArgs(2), clear(2)));
+      threads1.push(await threadCpu(CLI, batchArgs(1), clear(1)));
+      threads2.push(await threadCpu(CLI, batchArgs(2), clear(2)));
     }
     let threadNote = '';
     if (threads1[0]) {

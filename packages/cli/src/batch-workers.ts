@@ -23,6 +23,13 @@ export function parseJobs(value: unknown): number {
   return n;
 }
 
+/**
+ * Young generation of one worker (MiB): three semi-spaces of the size the command's first line gives the
+ * main thread (bin/heap-growth.js, YOUNG_SEMI_SPACE_MIB), so that a worker's memory does not grow with
+ * the length of its sessions any more than the main thread's.
+ */
+export const WORKER_YOUNG_GENERATION_MIB = 3 * 8;
+
 /** Heap limit of one worker (MiB): a share of the memory, at most V8's usual 4 GiB old space. */
 export function workerHeapMiB(jobs: number): number {
   return Math.max(512, Math.min(4096, Math.floor(totalmem() / 2 ** 20 / (jobs + 1))));
@@ -85,7 +92,7 @@ export async function runBatchSessions(
   /** One worker thread taking jobs until none is left; a dead worker is replaced for the next job. */
   const lane = async (): Promise<void> => {
     while (nextToStart < all.length && stopped === null) {
-      const worker = new Worker(workerScript(), { workerData: setup, resourceLimits: { maxOldGenerationSizeMb: heapMiB }, stdout: false, stderr: false });
+      const worker = new Worker(workerScript(), { workerData: setup, resourceLimits: { maxOldGenerationSizeMb: heapMiB, maxYoungGenerationSizeMb: WORKER_YOUNG_GENERATION_MIB }, stdout: false, stderr: false });
       try {
         while (nextToStart < all.length && stopped === null) {
           const job = all[nextToStart++]!;
