@@ -20,10 +20,13 @@
  *  - ambiguities: constant within an arc (no process noise); a new arc starts a new state at the value
  *    implied by the code, sigma 5 m; a state not met for longer than 30 s is dropped.
  * Measurement noise per receiver sigma^2 = a^2 + b^2 / sin^2(el), doubled for the single difference.
- * Outliers: a code innovation beyond 5 sigma is not used; a phase innovation beyond 5 sigma on an arc whose
- * ambiguity is already known to better than 0.25 cycle is a slip the receivers did not flag: the arc's
- * ambiguity is started again. No fix is tried in a disturbed epoch: one whose phase innovations fail their
- * test, or in which more than half of the arcs start or end.
+ * Outliers: a code innovation beyond 5 sigma is not used. Phase innovations are not tested here: slips the
+ * receivers did not flag are found before the filter (arc-tracker.ts, time-differenced-slips.ts). A test of
+ * a phase innovation against its variance cannot see a slip in this filter's first phase update of a group
+ * (that variance holds the free clock's), and where it can, on the real static run and the base against the
+ * CORS it also failed on arcs with no slip (model errors of the reference's phase carried to the rover's
+ * epochs), restarting them, and the fixes of the base against the CORS went wrong. No fix is tried in a
+ * disturbed epoch: one in which more than half of the arcs start or end.
  *
  * Integer ambiguities: double differences per constellation against a pivot (the previous pivot while it
  * stays above the ambiguity mask, else the highest satellite), fixed with LAMBDA and the ratio test,
@@ -33,7 +36,6 @@
  * keeps it (fix-and-hold within arcs).
  */
 import { fixPartially } from '../ambiguity/index.js';
-import { chiSquareQuantile } from '../solve/index.js';
 import type { CarrierOptions } from './options.js';
 import type { EpochRecords } from './epoch-records.js';
 import type { GnssSystem, SatId } from '../gnss/index.js';
@@ -101,9 +103,8 @@ export class EpochResult {
 }
 
 export interface PassCounts {
-  readonly unflaggedSlips: number;
   readonly codeOutliers: number;
-  /** Epochs whose phase innovations failed their test (left float). */
+  /** Epochs in which more than half of the arcs started or ended (left float: arcTurnover). */
   readonly disturbedEpochs: number;
 }
 
@@ -441,7 +442,6 @@ class PassRunner {
   private readonly holdSeen = new Set<number>();
   /** Constellations of the satellites used in the current epoch. */
   private readonly usedSys = new Set<GnssSystem>();
-  private unflaggedSlips = 0;
   private codeOutliers = 0;
   private disturbedEpochs = 0;
   /** The previous epoch's index (-1 before the first), time, static flag and velocity (its chunk may be gone). */
@@ -475,9 +475,6 @@ class PassRunner {
   private samples = new Float64Array(64);
   private arcsNow = new Set<number>();
   private arcsBefore = new Set<number>();
-  /** The epoch's sum of normalised squared phase innovations of arcs already known, and their number (updatePhase). */
-  private nisSum = 0;
-  private nisDof = 0;
 
   constructor(rec: EpochRecords, setup: PassSetup) {
     const opt = setup.options;
@@ -532,7 +529,7 @@ class PassRunner {
     this.st = new KalmanState(this.fixedSlots);
     this.arcSlot.clear(); this.arcSeen.clear(); this.pivots.clear(); this.holdCount.clear();
     this.ionoSlot.clear(); this.ionoSeen.clear(); this.ionoNow.fill(-1);
-    this.unflaggedSlips = 0; this.codeOutliers = 0; this.disturbedEpochs = 0;
+    this.codeOutliers = 0; this.disturbedEpochs = 0;
     this.arcsBefore = new Set<number>(); this.arcsNow = new Set<number>();
     this.prev = -1; this.prevTimeS = NaN; this.prevStatic = 0; this.prevVelocity.fill(NaN);
     this.onFix = pass.onFix;
@@ -547,7 +544,7 @@ class PassRunner {
       this.epochStep(k);
       consumer.epoch(k, out);
     }
-    return { unflaggedSlips: this.unflaggedSlips, codeOutliers: this.codeOutliers, disturbedEpochs: this.disturbedEpochs };
+    return { codeOutliers: this.codeOutliers, disturbedEpochs: this.disturbedEpochs };
   }
 
   /** Keeps what the next epoch's prediction needs of epoch k (record e). */
@@ -594,11 +591,7 @@ class PassRunner {
     this.startClocks(e, j0, j1);
     const used = this.updateCode(e, j0, j1);
     this.updatePhase(e, t, j0, j1);
-    // Sequential innovations are independent: their normalised squares sum to a chi-square with one degree
-    // of freedom each (the normalised innovation squared test, e.g. Bar-Shalom et al. 2001, 5.4). An epoch
-    // that fails it at 0.1 % holds a disturbance the slip tests did not catch: no fix is tried in it.
-    const turned = this.arcTurnover(j0, j1);
-    const disturbed = turned || (this.nisDof > 0 && this.nisSum > chiSquareQuantile(0.999, this.nisDof));
+    const disturbed = this.arcTurnover(j0, j1);
     if (disturbed) this.disturbedEpochs++;
     out.satellitesUsed = used;
     if (used < 4 + this.usedSys.size) { this.remember(k, e); return; }
@@ -730,15 +723,11 @@ class PassRunner {
     return used;
   }
 
-  /**
-   * The phase updates of the epoch's entries (new arcs get a state; an unflagged slip starts its arc's
-   * again). The normalised innovations of arcs already known are summed for the epoch's test (nisSum, nisDof).
-   */
+  /** The phase updates of the epoch's entries (new arcs get a state; file comment: phase innovations are not tested). */
   private updatePhase(e: number, t: number, j0: number, j1: number): void {
     const rec = this.rec, sats = this.sats, st = this.st, idx = this.idx, val = this.val, maskRad = this.maskRad;
     const arcSlot = this.arcSlot, arcSeen = this.arcSeen;
     const x0x = rec.x0[3 * e], x0y = rec.x0[3 * e + 1], x0z = rec.x0[3 * e + 2];
-    let nis = 0, nisDof = 0;
     for (let j = j0; j < j1; j++) {
       const el = rec.elevationRad[j];
       if (el < maskRad || !Number.isFinite(rec.phaseM[j])) continue;
@@ -761,18 +750,9 @@ class PassRunner {
       const io = this.ionoNow[this.satOfEntry[rec.sat[j]]];
       if (io >= 0) { idx[nh] = io; val[nh++] = -info.ionoFactor; }
       const r = singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, el);
-      let v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
-      const s = st.innovationVariance(idx, val, nh, r);
-      if (v * v > 25 * s && st.p[slot * st.cap + slot] < 0.0625) {
-        this.unflaggedSlips++;
-        st.reset(slot, n0, (AMBIGUITY_SIGMA_M / lam) ** 2);
-        this.forgetHeldPairsOf(arc);
-        v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
-      } else if (st.p[slot * st.cap + slot] < 0.0625) { nis += (v * v) / s; nisDof++; }
+      const v = rec.phaseM[j] - (geoNow + st.x[cs] + lam * st.x[slot]);
       st.update(idx, val, nh, v, r);
     }
-    this.nisSum = nis;
-    this.nisDof = nisDof;
   }
 
   /**
@@ -790,12 +770,6 @@ class PassRunner {
     this.arcsBefore = arcsNow;
     this.arcsNow = arcsBefore;
     return turned;
-  }
-
-  /** An arc started again: the held double differences it is part of (as satellite or pivot) are forgotten. */
-  private forgetHeldPairsOf(arc: number): void {
-    const holdCount = this.holdCount;
-    for (const key of [...holdCount.keys()]) if (Math.floor(key / 67_108_864) === arc || key % 67_108_864 === arc) holdCount.delete(key);
   }
 
   /** Post-fit residuals of an epoch's entries at the state given by X (EpochResult.residualM). */

@@ -267,7 +267,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       { direction: -1, onFix: onFix('backward'), consumer: backward },
     ]);
     results.finish();
-    notes.push(`filter: ${fwd.unflaggedSlips + bwd.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
+    notes.push(`filter: ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because more than half of their arcs started or ended (both passes)`);
 
     const writer = new SolutionWriter({
       rec, results, satellites, contexts: reader.contexts, reasons: reader.reasons,
