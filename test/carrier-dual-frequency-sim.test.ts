@@ -59,8 +59,8 @@ describe('simulator + carrier-phase engine, dual-frequency receivers (self-consi
     const base = exampleScenarioSpec(ERRORS, 22);
     const sim = simulateScenario({ ...base, rover: { ...base.rover, dualFrequency: true } });
     // One session, not a guarantee: with other seeds some unflagged slips still pass (one cycle on each band
-    // moves GF by 5.4 cm, at the limit, and Doppler sees less than its 1.2-cycle limit), and the filter's
-    // innovation test does not catch them either; fixes then go wrong by centimetres.
+    // moves GF by 5.4 cm, at the limit, and Doppler sees less than its 1.2-cycle limit), and the filter does
+    // not test phase innovations; fixes then go wrong by centimetres.
     const dual = await solveSim(sim, {}, true);
     const single = await solveSim(sim, { frequencies: 'single' }, true);
     console.log(`unflagged slips, fixed integers: ${dual.fixes.L1} on L1/E1, ${dual.fixes.L2} on L2, wrong ${dual.wrongFixes.length} (${dual.wrongFixes.join('; ')}); L1 alone: wrong ${single.wrongFixes.length} of ${single.fixes.L1}`);

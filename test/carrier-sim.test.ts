@@ -76,6 +76,35 @@ describe('simulator + carrier-phase engine (self-consistency, known integers)', 
     }
   });
 
+  it('the epochs\' innovation test: every solved epoch has its chi-square, degrees of freedom and critical value; the variance factor is that of the simulated phase noise against the filter\'s phase variance', async () => {
+    // Simulated phase noise per receiver: sigma = p (1 + 1 / sin el) / 2 (packages/sim observations.ts), p =
+    // 3 mm for the low-cost rover and 1 mm for the geodetic reference; the filter's single-difference variance:
+    // 2 (a^2 + b^2 / sin^2 el), a = b = 3 mm (options.ts). The simulated variance is 0.28 of the filter's at the
+    // zenith, 0.25 at 30 deg and 0.19 at 11.5 deg; each innovation's variance also holds the state's own
+    // (the same in both), which moves the factor towards 1. So a median between 0.18 and 0.4: far below 1
+    // because the filter's phase variance is that of a noisier receiver than simulated.
+    const base = exampleScenarioSpec(ERRORS, STATIC_SEEDS[0]);
+    const spec: ScenarioSpec = { ...base, rover: { ...base.rover, plan: [{ kind: 'static', point: 'A', durationS: 480, antennaHeightM: 1.5 }] } };
+    const { sols } = await solveSim(simulateScenario(spec), { ...CARRIER, dynamics: 'static' });
+    const factors: number[] = [];
+    let failed = 0;
+    for (const s of sols) {
+      if (s.kind === 'none') { expect(s.quality).toBeNull(); continue; }
+      const q = s.quality!;
+      expect(q.dof).toBeGreaterThan(0);
+      expect(q.varianceFactor).toBeCloseTo(q.chiSquare / q.dof, 6);
+      expect(q.critical).toBeGreaterThan(q.dof);
+      factors.push(q.varianceFactor);
+      if (!q.passed) failed++;
+    }
+    const median = percentile(factors, 0.5);
+    console.log(`innovation test: ${factors.length} epochs, variance factor median ${median.toFixed(3)}, 95 % ${percentile(factors, 0.95).toFixed(3)}; ${failed} failed`);
+    expect(factors.length).toBeGreaterThan(400);
+    expect(median).toBeGreaterThan(0.18);
+    expect(median).toBeLessThan(0.4);
+    expect(failed).toBeLessThanOrEqual(0.01 * factors.length);
+  });
+
   it('a moving rover (occupation, walk, occupation) with slips, eight sessions: every fixed integer equals the truth; a geodetic-grade rover within 0.01 m (3-D) while static and 0.01 m horizontally while moving; the low-cost rover within 0.01 m while static (its moving errors printed)', async () => {
     for (const seed of MOVING_SEEDS) {
       for (const profile of ['geodetic', 'low-cost'] as const) {

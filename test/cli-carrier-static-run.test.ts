@@ -53,6 +53,29 @@ describeShared('refdelta solve with carrier phase on the real static run', () =>
     expect(nearestRank(h, 0.95)).toBeLessThanOrEqual(0.03);
   });
 
+  it('epochs.csv: every solved carrier row has the filter\'s innovation test (variance_factor, chi_square, chi_square_critical)', () => {
+    const ep = parseCsv(readFileSync(join(out, 'epochs.csv'), 'utf8'));
+    const factors: number[] = [];
+    let failed = 0;
+    for (const r of ep.rows) {
+      if (r.solution === 'none') { expect(r.chi_square).toBe(''); continue; }
+      const vf = Number(r.variance_factor), chi = Number(r.chi_square), crit = Number(r.chi_square_critical);
+      expect(r.chi_square_critical, r.gps_tow_s).not.toBe('');
+      expect(chi).toBeGreaterThanOrEqual(0);
+      expect(crit).toBeGreaterThan(0);
+      factors.push(vf);
+      if (chi > crit) failed++;
+    }
+    // The phase variance of the filter (3 mm + 3 mm / sin el per receiver, options.ts) is larger than these
+    // receivers' scatter at the epochs close to a reference epoch; the factor grows with the correction age
+    // (the reference's phase carried to the rover's epoch over up to 12 s of the base's irregular epochs).
+    console.log(`carrier innovation test: ${factors.length} epochs, variance factor median ${nearestRank(factors, 0.5).toFixed(3)}, 95 % ${nearestRank(factors, 0.95).toFixed(3)}; ${failed} beyond the critical value`);
+    expect(factors.length).toBe(ep.rows.filter((r) => r.solution !== 'none').length);
+    expect(nearestRank(factors, 0.5)).toBeGreaterThan(0.1);
+    expect(nearestRank(factors, 0.5)).toBeLessThan(1);
+    expect(failed).toBeLessThan(0.1 * factors.length);
+  });
+
   it('summary.json gives the fix shares of the forward, backward and combined passes', () => {
     const s = JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8'));
     const p = s.carrier_phase.passes;

@@ -15,7 +15,7 @@
  *    epoch's satellites (a clock step applied to the code only is common to all; the code noise and the
  *    divergence of a few cm/s cannot reach the limit; common practice).
  * The test of the single differences between epochs against geometry is done on both receivers together
- * (time-differenced-slips.ts), and the phase innovation test by the filter (float-filter.ts).
+ * (time-differenced-slips.ts); the filter does not test phase innovations (float-filter.ts says why).
  *
  * Code clock steps: many receivers steer their clock by whole milliseconds applied to the code (and the
  * epoch tag) while the phase runs on. The median change of code minus phase over the satellites is then

@@ -6,7 +6,8 @@
  *  - otherwise float: the two float solutions weighted by their covariances (the combination of a
  *    forward and a backward filter, Fraser & Potter 1969, shares only the epoch's own measurements);
  *  - one pass only: that pass's solution.
- * An epoch's residuals (EpochResult.residualM) come from the pass whose solution it carries: forward when
+ * An epoch's residuals (EpochResult.residualM) and innovation test (chiSquare, dof) come from the pass whose
+ * solution it carries: forward when
  * both fixed and agree; for a float combination, the float pass with the smaller formal variance (none
  * when both passes fixed and disagree: neither pass's residuals belong to the combined float position).
  */
@@ -37,15 +38,15 @@ interface Solution {
 /**
  * Combines the backward pass's result `b` at an epoch with the forward pass's, at index i of `r` (its
  * columns as the forward pass wrote them), writing the combination there in place: kind, position,
- * covariance, ratio, fixed ambiguities, satellites used, the backward kind and the epoch's residuals (its
+ * covariance, ratio, fixed ambiguities, satellites used, the backward kind, the epoch's innovation test and residuals (its
  * `entries` entries from `entry` in r.residualM: the forward pass's stay, or the backward pass's replace
  * them, or none, NaN). Every forward value is read before it is overwritten.
  */
 export function combineEpoch(r: PassResults, i: number, entry: number, entries: number, b: EpochResult, agreementM: number): void {
   const from = combine(r, i, b, agreementM);
   r.backwardKind[i] = b.kind;
-  if (from === 2) r.residualM.set(b.residualM.subarray(0, entries), entry);
-  else if (from === 0) r.residualM.fill(NaN, entry, entry + entries);
+  if (from === 2) { r.residualM.set(b.residualM.subarray(0, entries), entry); r.chiSquare[i] = b.chiSquare; r.dof[i] = b.dof; }
+  else if (from === 0) { r.residualM.fill(NaN, entry, entry + entries); r.chiSquare[i] = NaN; r.dof[i] = 0; }
 }
 
 /** Returns whose residuals the epoch carries: 0 none, 1 forward, 2 backward. */

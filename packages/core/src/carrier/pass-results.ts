@@ -9,16 +9,16 @@
  * forward results, then the combined ones), in a temporary file with the command line's store.
  *
  * Columns of a chunk of n epochs and m satellite entries: position, covariance (xx, xy, xz, yy, yz, zz),
- * floatPosition, floatCovariance (f64); ratio, residualM (f32, per entry, indexed like the records'
- * per-satellite arrays: EpochRecords.satStart[e] + i); fixedAmbiguities, satellitesUsed (u16); kind,
- * forwardKind, backwardKind (u8: 0 none, 1 float, 2 fixed). 155 n + 4 m bytes.
+ * floatPosition, floatCovariance (f64); ratio, chiSquare, residualM (f32, per entry, indexed like the
+ * records' per-satellite arrays: EpochRecords.satStart[e] + i); fixedAmbiguities, satellitesUsed, dof (u16);
+ * kind, forwardKind, backwardKind (u8: 0 none, 1 float, 2 fixed). 161 n + 4 m bytes.
  */
 import type { EpochRecords, RecordStore } from './epoch-records.js';
 import type { EpochResult } from './float-filter.js';
 import { keepShape } from './kept-shapes.js';
 
 /** Bytes of a chunk's columns for n epochs and m entries (widest first, so each view is aligned). */
-const chunkBytes = (n: number, m: number): number => 144 * n + 4 * n + 4 * m + 4 * n + 3 * n;
+const chunkBytes = (n: number, m: number): number => 144 * n + 8 * n + 4 * m + 6 * n + 3 * n;
 
 /** The stage whose columns are current: what a change of chunk stores and loads. */
 type Stage = 'forward' | 'combine' | 'read';
@@ -29,9 +29,12 @@ export class PassResults {
   floatPosition = new Float64Array(0);
   floatCovariance = new Float64Array(0);
   ratio = new Float32Array(0);
+  /** The epoch's innovation test (EpochResult.chiSquare, dof) of the pass whose residuals it carries. */
+  chiSquare = new Float32Array(0);
   residualM = new Float32Array(0);
   fixedAmbiguities = new Uint16Array(0);
   satellitesUsed = new Uint16Array(0);
+  dof = new Uint16Array(0);
   kind = new Uint8Array(0);
   forwardKind = new Uint8Array(0);
   backwardKind = new Uint8Array(0);
@@ -69,7 +72,7 @@ export class PassResults {
       if (stage === 'forward') {
         // No solution until the pass says otherwise (EpochResult.start).
         this.position.fill(NaN); this.covariance.fill(NaN); this.floatPosition.fill(NaN); this.floatCovariance.fill(NaN);
-        this.ratio.fill(NaN); this.residualM.fill(NaN); this.fixedAmbiguities.fill(0); this.satellitesUsed.fill(0);
+        this.ratio.fill(NaN); this.chiSquare.fill(NaN); this.residualM.fill(NaN); this.fixedAmbiguities.fill(0); this.satellitesUsed.fill(0); this.dof.fill(0);
         this.kind.fill(0); this.forwardKind.fill(0); this.backwardKind.fill(0);
       }
       this.current = c;
@@ -91,6 +94,8 @@ export class PassResults {
     this.ratio[i] = r.ratio;
     this.fixedAmbiguities[i] = r.fixedAmbiguities;
     this.satellitesUsed[i] = r.satellitesUsed;
+    this.chiSquare[i] = r.chiSquare;
+    this.dof[i] = r.dof;
     const e = this.rec.indexOf(k);
     this.residualM.set(r.residualM.subarray(0, this.rec.satCount[e]), this.rec.satStart[e]);
   }
@@ -122,9 +127,11 @@ export class PassResults {
     this.floatPosition = next((p) => new Float64Array(b, p, 3 * n), 24 * n);
     this.floatCovariance = next((p) => new Float64Array(b, p, 6 * n), 48 * n);
     this.ratio = next((p) => new Float32Array(b, p, n), 4 * n);
+    this.chiSquare = next((p) => new Float32Array(b, p, n), 4 * n);
     this.residualM = next((p) => new Float32Array(b, p, m), 4 * m);
     this.fixedAmbiguities = next((p) => new Uint16Array(b, p, n), 2 * n);
     this.satellitesUsed = next((p) => new Uint16Array(b, p, n), 2 * n);
+    this.dof = next((p) => new Uint16Array(b, p, n), 2 * n);
     this.kind = next((p) => new Uint8Array(b, p, n), n);
     this.forwardKind = next((p) => new Uint8Array(b, p, n), n);
     this.backwardKind = next((p) => new Uint8Array(b, p, n), n);

@@ -41,8 +41,8 @@ import { arpToMark, azimuthElevation, ecefDeltaToEnu, ecefToGeodetic, markToArp 
 import { decimalYearFromGpsS, isoFromSeconds } from '../time/index.js';
 import { dayOfYear, troposphereDelayM } from '../observables/index.js';
 import { dopplerVelocity } from '../velocity/index.js';
-import { dilutionOfPrecision } from '../solve/index.js';
-import { joinReferenceStreams, type EpochSolution, type SessionOptions } from '../session/index.js';
+import { bMethodGlobalAlpha, chiSquareQuantile, dilutionOfPrecision } from '../solve/index.js';
+import { joinReferenceStreams, type EpochSolution, type QualityTest, type SessionOptions } from '../session/index.js';
 import { ArcTracker, type ArcInput } from './arc-tracker.js';
 import { placeSatellite, prepareReceiverEpoch, type ReceiverContext, type ReceiverEpoch, type ReceiverSat, type ReceiverSignal } from './receiver-epoch.js';
 import { ReferencePhaseBuffer, reduceReferenceEpoch, type AlignedReference, type AlignedReferenceSat, type BandArcs } from './reference-phase.js';
@@ -267,13 +267,13 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       { direction: -1, onFix: onFix('backward'), consumer: backward },
     ]);
     results.finish();
-    notes.push(`filter: ${fwd.unflaggedSlips + bwd.unflaggedSlips} unflagged slips found by the phase innovation test, ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because their phase innovations failed the test (both passes)`);
+    notes.push(`filter: ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because more than half of their arcs started or ended (both passes)`);
 
     const writer = new SolutionWriter({
       rec, results, satellites, contexts: reader.contexts, reasons: reader.reasons,
       lastContext: { pointName: reader.pointName, event: null, antenna: reader.roverAntenna },
       maskRad, carrier, codeScale: codeVarianceScale(rec, carrier), reduceToMark: options.reduceToMark,
-      refMark, refArp, frame,
+      refMark, refArp, frame, quality: options.quality,
     });
 
     async function* run(): AsyncIterable<CarrierEpochSolution> {
@@ -845,6 +845,8 @@ interface WriterSetup {
   readonly refMark: EcefM;
   readonly refArp: EcefM;
   readonly frame: FrameEpoch;
+  /** The levels of the code epochs' global test, given to the carrier epochs' test (SolutionWriter.quality). */
+  readonly quality: SessionOptions['quality'];
 }
 
 /** Turns the combined results of the records into the epochs' solutions, one at a time (file comment, step 3). */
@@ -867,6 +869,11 @@ class SolutionWriter {
   private readonly frame: FrameEpoch;
   /** The reference mark's geodetic coordinates: ENU axes of the look angles, DOPs and baselines. */
   private readonly gRef: GeodeticRad;
+  private readonly alphaGlobal: number;
+  private readonly alphaLocal: number;
+  private readonly bMethod: boolean;
+  /** Critical values of the epochs' test by degrees of freedom (NaN: not computed yet). */
+  private critical = new Float64Array(0);
 
   constructor(s: WriterSetup) {
     this.rec = s.rec;
@@ -884,7 +891,39 @@ class SolutionWriter {
     this.refArp = s.refArp;
     this.frame = s.frame;
     this.gRef = ecefToGeodetic(s.refMark);
+    this.alphaGlobal = s.quality.alphaGlobal;
+    this.alphaLocal = s.quality.alphaLocal;
+    this.bMethod = s.quality.testLevels === 'b-method';
     keepShape(this);
+  }
+
+  /**
+   * The epoch's test from the filter's innovations (EpochResult.chiSquare): chi-square, its degrees of
+   * freedom, the variance factor chi-square / dof, and the critical value at the level of the code epochs'
+   * global test (Baarda's B-method from the w-test's level for these degrees of freedom, or the global level
+   * as set: session options, quality). Null without a solution.
+   */
+  private quality(i: number, solved: boolean): QualityTest | null {
+    if (!solved) return null;
+    const chiSquare = this.results.chiSquare[i], dof = this.results.dof[i];
+    const critical = this.criticalValue(dof);
+    return { varianceFactor: dof > 0 ? chiSquare / dof : NaN, chiSquare, dof, critical, passed: dof > 0 ? chiSquare <= critical : null };
+  }
+
+  /** The chi-square quantile for `dof` degrees of freedom at the global test's level (NaN for none), kept per dof. */
+  private criticalValue(dof: number): number {
+    if (!(dof > 0)) return NaN;
+    if (this.critical.length <= dof) {
+      const grown = new Float64Array(Math.max(2 * dof, 64)).fill(NaN);
+      grown.set(this.critical);
+      this.critical = grown;
+    }
+    let c = this.critical[dof];
+    if (Number.isNaN(c)) {
+      const alpha = this.bMethod ? bMethodGlobalAlpha(this.alphaLocal, dof) : this.alphaGlobal;
+      c = this.critical[dof] = chiSquareQuantile(1 - alpha, dof);
+    }
+    return c;
   }
 
   /** The solution of record k (read from the combined results). */
@@ -933,7 +972,7 @@ class SolutionWriter {
     const g = solved ? ecefToGeodetic(pos) : null;
     return {
       tagGpsS: rec.tagGpsS[e], timeGpsS: rec.timeGpsS[e], pointName: c.pointName, pointReference,
-      relativeClockM: {}, dops: dilutionOfPrecision({ lineOfSight: used, frame: 'ecef', receiver: gRef, clockIndex }), quality: null, correctionAgeS: rec.referenceAgeS[e], satellites: sats,
+      relativeClockM: {}, dops: dilutionOfPrecision({ lineOfSight: used, frame: 'ecef', receiver: gRef, clockIndex }), quality: this.quality(i, solved), correctionAgeS: rec.referenceAgeS[e], satellites: sats,
       speedMS: Number.isFinite(rec.velocity[4 * e]) ? Math.hypot(rec.velocity[4 * e], rec.velocity[4 * e + 1], rec.velocity[4 * e + 2]) : NaN,
       occupationEvent: c.event, antennaHeightM: c.antenna.heightM,
       forwardKind: KIND[results.forwardKind[i]], backwardKind: KIND[results.backwardKind[i]],
