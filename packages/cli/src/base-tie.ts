@@ -7,7 +7,7 @@
  * coordinate's own uncertainty.
  */
 import type { EcefM, EnuM, NavData, ReferenceSigma, SessionOptions } from '@refdelta/core';
-import { chooseEpochs, carrierPointFloor, ecefDeltaToEnu, ecefToGeodetic, solveSession, summarisePoint } from '@refdelta/core';
+import { chooseEpochs, carrierPointFloor, ecefDeltaToEnu, ecefToGeodetic, sigmaRescaleFactor, solveSession, summarisePoint } from '@refdelta/core';
 import { openObs, type OpenedObs } from './node-io.js';
 import { parseCarrierChoice, runCarrierSession } from './carrier-run.js';
 import type { ResolvedReference } from './reference-choice.js';
@@ -55,10 +55,11 @@ export async function tieBaseToCors(
   for await (const s of run.epochs) {
     all++;
     if (!s.position) continue;
+    const vf = sigmaRescaleFactor(s.kind, s.quality);
     epochs.push({
       kind: s.kind, ecef: s.position.ecef, tGpsS: s.tagGpsS,
       ...(s.baselineEcef ? { baselineM: Math.hypot(s.baselineEcef.x, s.baselineEcef.y, s.baselineEcef.z) } : {}),
-      ...(s.sigmaEnuM ? { sigmaEnuM: s.sigmaEnuM } : {}), ...(s.quality ? { varianceFactor: s.quality.varianceFactor } : {}),
+      ...(s.sigmaEnuM ? { sigmaEnuM: s.sigmaEnuM } : {}), ...(vf !== undefined ? { varianceFactor: vf } : {}),
     });
   }
   const { chosen, basis } = chooseEpochs(epochs, 10);

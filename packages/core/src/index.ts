@@ -17,7 +17,7 @@ export { loadEgm96, looksLikeIsg, looksLikeTiff, parseGeoTiffGeoid, parseIsgGrid
 export { makeProjection, resolveProjectionSpec } from './projection/index.js';
 export { broadcastOrbitFrame, solveStandaloneEpoch, solveStandaloneSession } from './standalone/index.js';
 export { openText } from './compress/index.js';
-export { DEFAULT_OPTIONS, solveSession, withDefaults } from './session/index.js';
+export { DEFAULT_OPTIONS, sigmaRescaleFactor, solveSession, withDefaults } from './session/index.js';
 export { DEFAULT_MATCH_RADIUS_M, parseControlCsv, parseMarksFile, splitCsvLine } from './control/index.js';
 export { parseOccupationCsv } from './points/occupation-csv.js';
 export { summarisePoint } from './points/summarise-point.js';

@@ -13,7 +13,7 @@ import {
   InputError, loadEgm96, looksLikeIsg, looksLikeTiff, makeProjection, parseGeoTiffGeoid, parseIsgGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
   crsOfFrame, csvtText, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
-  type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad,
+  type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad, sigmaRescaleFactor,
 } from '@refdelta/core';
 import { requireFile } from '../node-io.js';
 import { epsgLookup, epsgWkt } from '../epsg-lookup.js';
@@ -48,7 +48,8 @@ class Collected {
 
 function collect(c: Collected, s: EpochSolution): void {
   if (s.position && s.kind !== 'none') {
-    c.epochs.push({ tagGpsS: s.tagGpsS, ecef: s.position.ecef, kind: s.kind, pdop: s.dops?.pdop ?? NaN, ...(s.baselineEcef ? { baselineM: Math.hypot(s.baselineEcef.x, s.baselineEcef.y, s.baselineEcef.z) } : {}), antennaHeightM: s.antennaHeightM, frame: s.position.frame, ...(s.sigmaEnuM ? { sigmaEnuM: s.sigmaEnuM } : {}), ...(s.quality ? { varianceFactor: s.quality.varianceFactor } : {}) });
+    const vf = sigmaRescaleFactor(s.kind, s.quality);
+    c.epochs.push({ tagGpsS: s.tagGpsS, ecef: s.position.ecef, kind: s.kind, pdop: s.dops?.pdop ?? NaN, ...(s.baselineEcef ? { baselineM: Math.hypot(s.baselineEcef.x, s.baselineEcef.y, s.baselineEcef.z) } : {}), antennaHeightM: s.antennaHeightM, frame: s.position.frame, ...(s.sigmaEnuM ? { sigmaEnuM: s.sigmaEnuM } : {}), ...(vf !== undefined ? { varianceFactor: vf } : {}) });
     if (!c.frame && s.kind !== 'standalone') c.frame = s.position.frame;
   }
   c.pointReference = s.pointReference;

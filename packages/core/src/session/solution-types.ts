@@ -17,6 +17,16 @@ export function isRelativeKind(kind: SolutionKind): boolean {
   return kind === 'differential' || kind === 'smoothed' || kind === 'fixed' || kind === 'float';
 }
 
+/**
+ * The a-posteriori variance factor an epoch's formal position sigma may be rescaled by (points, base
+ * tie): a code epoch's (its residuals against the weights of that epoch's least squares). A carrier
+ * epoch's factor comes from the filter's innovations, which judge the prediction from earlier epochs as
+ * well as the epoch's own data: it is a test statistic there, and the filter's sigma is used as it is.
+ */
+export function sigmaRescaleFactor(kind: SolutionKind, quality: { readonly varianceFactor: number } | null | undefined): number | undefined {
+  return kind === 'fixed' || kind === 'float' ? undefined : quality?.varianceFactor;
+}
+
 /** Which physical point a coordinate refers to. */
 export type PointReference = 'antenna-reference-point' | 'ground-mark';
 
