@@ -17,6 +17,7 @@ import type { BatchArgs } from './commands/batch.js';
 import { defineCarrierOptions } from './carrier-option-definitions.js';
 import { defineProcessingOptions, definePointsOptions, defineSolveOptions, pointsArgsFrom, solveArgsFrom } from './solve-option-definitions.js';
 import { describeFailure } from './failure-sentence.js';
+import { unknownOptionSentence } from './option-suggestion.js';
 import { EXIT_OK, EXIT_USAGE } from './exit-codes.js';
 import { Reporter } from './reporter.js';
 import { UsageError } from './usage-error.js';
@@ -84,7 +85,7 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
 
   const y = yargs([...argv])
     .scriptName('refdelta')
-    .usage('$0 <command> [options]\n\nDifferential GNSS pseudorange positioning from RINEX files against a reference receiver at a known point.')
+    .usage('$0 <command> [options]\n\nDifferential GNSS positioning from RINEX files against a reference receiver at a known point: code (metres) and carrier phase with integer ambiguities (centimetres).')
     .option('quiet', { type: 'boolean', default: false, describe: 'print nothing but the failure sentence' })
     .option('json-lines', { type: 'boolean', default: false, describe: 'machine-readable progress, warnings and events: one JSON object per line on stdout' })
     .option('debug', { type: 'boolean', default: false, describe: 'print stack traces on failure' })
@@ -198,6 +199,17 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
     .example(`refdelta inspect --text ${D}/rover-1s.obs`, 'what a RINEX file holds')
     .demandCommand(1, 'give a command: solve, points, batch, check, report or inspect')
     .strict()
+    .middleware((argv) => {
+      // An option that takes one value given twice: yargs would hand on both as a list.
+      const o = (y as unknown as { getOptions(): { array: string[]; key: Record<string, unknown> } }).getOptions();
+      const lists = new Set(o.array);
+      for (const name of Object.keys(o.key)) {
+        const v = argv[name];
+        if (Array.isArray(v) && !lists.has(name) && name.length > 1 && !/[A-Z]/.test(name)) {
+          throw new UsageError(`--${name} was given ${v.length} times (${v.map((x) => `'${String(x)}'`).join(', ')}): give it once`);
+        }
+      }
+    }, true)
     .version(SOFTWARE.version)
     .help()
     .alias('h', 'help')
@@ -205,7 +217,8 @@ export async function main(rawArgv: readonly string[]): Promise<number> {
     .wrap(Math.min(110, process.stdout.columns || 100))
     .fail((msg, err) => {
       if (err) throw err;
-      throw new UsageError(msg ?? 'wrong command line');
+      const known = Object.keys((y as unknown as { getOptions(): { key: Record<string, unknown> } }).getOptions().key);
+      throw new UsageError(unknownOptionSentence(msg, known, argv) ?? msg ?? 'wrong command line');
     });
 
   skipHelpCaching(y);

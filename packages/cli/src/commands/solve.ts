@@ -339,7 +339,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     for (const p of allPaths) inputs.push({ path: resolve(p), sha256: await sha256File(p), kind: kindOf(p), bytes: sizes.get(p), layers: layersOf(p) });
     if (choice?.mode === 'mark') inputs.push({ path: resolve(choice.marksFile), sha256: await sha256File(choice.marksFile), kind: 'control' });
     const scatter = positions.length
-      ? { over: 'differential and smoothed epochs', stats: seriesScatter(positions) }
+      ? { over: summary.epochsByKind.fixed + summary.epochsByKind.float > 0 ? 'fixed and float epochs' : 'differential and smoothed epochs', stats: seriesScatter(positions) }
       : standalone.length ? { over: 'standalone epochs (no differential epoch)', stats: seriesScatter(standalone) } : undefined;
     const solvedEpochs = summary.epochsRover - summary.epochsByKind.none;
     const top = summary.epochRejections[0]?.reason;

@@ -28,7 +28,7 @@ export function obsInspectionText(r: ObsInspection): string {
   } else {
     out.push(kv('time span', 'no epochs'));
   }
-  out.push(kv('interval', `nominal ${r.interval.nominal_s ?? 'not stated'} s, detected ${r.interval.detected_s ?? '-'} s`));
+  out.push(kv('interval', `nominal ${r.interval.nominal_s === null || r.interval.nominal_s === undefined ? 'not stated' : `${r.interval.nominal_s} s`}, detected ${r.interval.detected_s === null || r.interval.detected_s === undefined ? '-' : `${r.interval.detected_s} s`}`));
   out.push(kv('epochs', `${r.epochs.observation} with observations; by flag ${Object.entries(r.epochs.by_flag).map(([f, n]) => `${f}:${n}`).join(' ')}`));
   out.push(kv('gaps', `${r.gaps.count} longer than ${r.gaps.threshold_s ?? '-'} s, ${r.gaps.total_s} s in all`));
   for (const g of r.gaps.list.slice(0, 20)) out.push(kv('', `${g.start.gps} -> ${g.end.gps} (${g.length_s} s)`));

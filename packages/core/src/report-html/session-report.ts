@@ -15,7 +15,7 @@ import { checkTables, factsHtml, inputsTable, pointsTable, table } from './table
 
 /** The cautions printed on every page when the run's summary gives none (README "Cautions"). */
 export const REPORT_CAUTIONS: readonly string[] = [
-  'Results are for mapping-grade work (decimetres to a metre or two with low-cost receivers), not for boundary, engineering or geodetic control surveys.',
+  'Results are for mapping-grade work (code: decimetres to a metre or two with low-cost receivers; carrier phase: centimetres when every integer is right), not for boundary, engineering or geodetic control surveys.',
   'Verify them on known control points before use.',
   'Defer to local codes and to licensed surveyors wherever positions are used to dig, build or draw boundaries.',
 ];

@@ -51,7 +51,7 @@ export interface SummaryExtras {
 }
 
 export const CAUTIONS: readonly string[] = [
-  'Code-differential results are for mapping-grade work (decimetre to metre level), not for boundary, engineering or geodetic control surveys.',
+  'Results are for mapping-grade work, not for boundary, engineering or geodetic control surveys: code-differential positions are at the decimetre to metre level; carrier-phase fixed positions can reach centimetres, but a wrong integer fix moves them by decimetres or more without a sign in the data.',
   'Verify results by occupying known control points and comparing; report accuracy against them.',
   'A wrong reference coordinate, frame or antenna height moves every result by the same amount and cannot be detected from the data alone.',
   'Defer to local codes, regulations and licensed surveyors for any work with legal or safety consequences.',
