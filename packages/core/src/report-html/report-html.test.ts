@@ -5,6 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { buildBatchIndexHtml, buildSessionReportHtml, decimatedIndices, decimationStride, ELLIPSE_95_SCALE, syntheticSessionReportData } from './index.js';
 import { ordinal } from './decimate.js';
+import { occupationChart, occupationEpochs } from './chart-occupation.js';
 import { esc, niceTicks } from './svg-kit.js';
 
 describe('report-html builders', () => {
@@ -28,6 +29,19 @@ describe('report-html builders', () => {
 
   it('ordinals in the decimation note follow English usage', () => {
     expect([1, 2, 3, 4, 11, 12, 13, 21, 22, 58, 101, 112].map(ordinal)).toEqual(['1st', '2nd', '3rd', '4th', '11th', '12th', '13th', '21st', '22nd', '58th', '101st', '112th']);
+  });
+
+  it("an occupation's scatter says how many of its epochs the point averages when that is not all of them", () => {
+    const n = 40;
+    const epochs = {
+      timeGpsS: Array.from({ length: n }, (_, i) => 1e9 + i), eastM: Array.from({ length: n }, (_, i) => 0.01 * (i % 5)), northM: Array.from({ length: n }, (_, i) => 0.01 * (i % 3)),
+      upM: new Array<number>(n).fill(0), satellitesUsed: new Array<number>(n).fill(8), pdop: new Array<number>(n).fill(1.5),
+      kind: Array.from({ length: n }, (_, i) => (i < 36 ? 'fixed' : 'float')), point: new Array<string>(n).fill('A'),
+    };
+    const p = { ...syntheticSessionReportData(8).points[0], name: 'A', epochs: n, startGpsS: 1e9, endGpsS: 1e9 + n - 1 };
+    expect(occupationEpochs(epochs, p)).toHaveLength(n);
+    expect(occupationChart(epochs, p)).not.toMatch(/averages/);
+    expect(occupationChart(epochs, { ...p, epochs: 36, solutionKinds: 'fixed:36' })).toContain('The point&#39;s coordinate averages 36 of these epochs (fixed:36).');
   });
 
   it('axis ticks: 1-2-5 steps, at least two inside any range (common practice)', () => {
