@@ -152,15 +152,15 @@ export class ByteLineCursor {
   }
 
   /**
-   * Marks the line bytes[pos, nl) (nl: its '\n', found by the caller's own parse) as taken, as
-   * takeSpan() would have. Only for a line that holds no CR and ends inside the buffer.
+   * Marks the line bytes[pos, nl) as taken, as takeSpan() would have: `nl` is its end found by the
+   * caller's own parse, a '\n' or the CR of CR LF (obs-fields.ts parseObsLineBytes), inside the buffer.
    */
   tookLine(nl: number): void {
     this.lineNumber++;
     this.lastPos = this.pos;
     this.lineStart = this.pos;
     this.lineEnd = nl;
-    this.pos = nl + 1;
+    this.pos = this.bytes[nl] === CR ? nl + 2 : nl + 1;
   }
 
   /** Next line as text without its end-of-line; undefined = need fill(); null = end of the input. */

@@ -133,6 +133,7 @@ export function textField(line: string, start: number, end: number): string {
  */
 
 const LF = 10;
+const CR = 13;
 const BLANK = 32;
 const MINUS = 45;
 const POINT = 46;
@@ -180,20 +181,22 @@ export function digitInBytes(b: Uint8Array, col: number, end: number): number {
  * An observation line in the usual layout read in one pass, its end found on the way: fields
  * [from, to) from column `c` on, 16 columns each (F14.3, LLI I1, SSI I1: RINEX 3.05 table A3, RINEX 2.11
  * table A2), each either a value in the usual layout (see parseF14p3Bytes) or 14 blank columns, with
- * blank or digit flags; the line may end ('\n') before a field or after its value or LLI. The fields are
- * written to values/lli/ssi (value divided by div[k] when div is given) and the position of the line's
- * '\n' is returned. -1 when the line is anything else (a CR, another layout, garbled, the buffer ends):
- * then read it as a span with parseF14p3Bytes and digitInBytes, which give the same values for the
- * fields written here. Needs 16 readable bytes after any position before the line's end (byte-lines.ts
- * PADDING_BYTES). The line must end ('\n') within or right after field `to - 1`: a line with more
- * columns returns -1 and is read as a span, which gives the same values.
+ * blank or digit flags; the line may end ('\n' or CR LF) before a field or after its value or LLI. The
+ * fields are written to values/lli/ssi (value divided by div[k] when div is given) and the position of
+ * the line's end (its '\n', or the CR of CR LF) is returned. -1 when the line is anything else (a lone
+ * CR, another layout, garbled, the buffer ends): then read it as a span with parseF14p3Bytes and
+ * digitInBytes, which give the same values for the fields written here. Needs 16 readable bytes after
+ * any position before the line's end (byte-lines.ts PADDING_BYTES). The line must end within or right
+ * after field `to - 1`: a line with more columns returns -1 and is read as a span, which gives the same
+ * values.
  */
 export function parseObsLineBytes(
   b: Uint8Array, c: number, from: number, to: number, values: Float64Array, lli: Uint8Array, ssi: Uint8Array, div: Float64Array | null,
 ): number {
   for (let k = from; k < to; k++, c += 16) {
     let ch = b[c]!;
-    if (ch === LF) return c;
+    // '\n' and CR are the only bytes below 14 a line of the usual layout holds (one test for both)
+    if (ch <= CR) return lineEndAt(b, c);
     const point = c + 10;
     let i = c;
     while (ch === BLANK && i < point) ch = b[++i]!;
@@ -219,17 +222,28 @@ export function parseObsLineBytes(
     }
     values[k] = div !== null ? v / div[k]! : v;
     const f1 = b[c + 14]!;
-    if (f1 === LF) { lli[k] = 0; ssi[k] = 0; return c + 14; }
+    if (f1 <= CR) { lli[k] = 0; ssi[k] = 0; return lineEndAt(b, c + 14); }
     const a = f1 === BLANK ? 0 : f1 - 48;
     if (a < 0 || a > 9) return -1;
     lli[k] = a;
     const f2 = b[c + 15]!;
-    if (f2 === LF) { ssi[k] = 0; return c + 15; }
+    if (f2 <= CR) { ssi[k] = 0; return lineEndAt(b, c + 15); }
     const s = f2 === BLANK ? 0 : f2 - 48;
     if (s < 0 || s > 9) return -1;
     ssi[k] = s;
   }
-  return b[c] === LF ? c : -1;
+  return lineEndAt(b, c);
+}
+
+/**
+ * `i` when a line ends at b[i]: '\n', or CR LF (the CR is left out of the line, as byte-lines.ts and
+ * text-lines.ts leave it); -1 otherwise (a lone CR, whose meaning depends on the source, is left to the
+ * span reading). The LF after a CR is read from the buffer, whose zero padding is no LF: a CR last in
+ * the buffer is no line end here.
+ */
+function lineEndAt(b: Uint8Array, i: number): number {
+  const ch = b[i]!;
+  return ch === LF || (ch === CR && b[i + 1] === LF) ? i : -1;
 }
 
 /**
