@@ -61,6 +61,8 @@ export class ByteLineCursor {
   bytes: Uint8Array = EMPTY;
   /** `bytes` as 32-bit words (its buffer is ours, a whole number of words long). */
   private words: Uint32Array = new Uint32Array(EMPTY.buffer);
+  /** `bytes` as a DataView, for parsers that read several columns at once (obs-fields.ts parseObsLineBytes). */
+  view: DataView = new DataView(EMPTY.buffer);
   /** Length of the data in `bytes`. */
   end = 0;
   /** Position of the next line in `bytes`. */
@@ -203,6 +205,7 @@ export class ByteLineCursor {
       // a whole number of 32-bit words, seen as words too (lineEndFrom)
       b = new Uint8Array((Math.max(need, 2 * b.length, MIN_BUFFER_BYTES) + 3) & ~3);
       this.words = new Uint32Array(b.buffer);
+      this.view = new DataView(b.buffer);
       b.set(this.bytes.subarray(this.pos, this.end), 0);
     } else if (this.pos > 0) b.copyWithin(0, this.pos, this.end);
     if (typeof chunk === 'string') {
@@ -290,6 +293,7 @@ export class ByteLineCursor {
     this.ended = true;
     this.bytes = EMPTY;
     this.words = new Uint32Array(EMPTY.buffer);
+    this.view = new DataView(EMPTY.buffer);
     this.text = null;
     this.end = 0;
     this.pos = 0;
