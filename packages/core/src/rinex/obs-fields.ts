@@ -178,6 +178,10 @@ export function digitInBytes(b: Uint8Array, col: number, end: number): number {
  * load of 2 or 4 bytes costs about what a Uint8Array load of one does: over the observation lines of
  * dgar0100.24o and BELE00BRA 2024-01-10, 20-30 % less time than the column by column reading, measured
  * on this machine). A negative value takes the column by column reading (f14p3At).
+ *
+ * The function is too large for V8 to inline into its callers (about 900 bytes of bytecode; node 20
+ * inlines up to 460, --max-inlined-bytecode-size): compiled on its own with the value reading written
+ * in it, the values stay unboxed doubles from the columns to the Float64Array.
  */
 export function parseObsLineBytes(
   b: Uint8Array, view: DataView, c: number, from: number, to: number, values: Float64Array, lli: Uint8Array, ssi: Uint8Array,
@@ -190,8 +194,28 @@ export function parseObsLineBytes(
     const cols11to12 = view.getUint16(c + 10, true), cols13to16 = view.getInt32(c + 12, true);
     let v: number;
     if ((cols11to12 & 0xff) === POINT) {
-      v = unsignedF14p3(view, c, cols1to2, cols11to12, cols13to16);
-      if (v < 0) {
+      // F14.3 without a sign: columns 1-10 blanks then digits, the point in column 11, three digits in
+      // columns 12-14 (RINEX 3.05 table A3, RINEX 2.11 table A2), read by pairs of columns. Ten blanks
+      // read as 0 before the point, as parseFixedIn reads them, and ten integer digits are read too:
+      // value * 1000 is then below 10^13, still an exact integer in a double, so the value is the one
+      // parseFixedIn gives (see parseF14p3Bytes). Written here rather than in a function of its own:
+      // V8 did not inline that function where this one was inlined into the reader, and a call that
+      // returns a double allocates a heap number for it.
+      const p0 = COLUMN_PAIRS[cols1to2]!, p1 = COLUMN_PAIRS[view.getUint16(c + 2, true)]!, p2 = COLUMN_PAIRS[view.getUint16(c + 4, true)]!;
+      const p3 = COLUMN_PAIRS[view.getUint16(c + 6, true)]!, p4 = COLUMN_PAIRS[view.getUint16(c + 8, true)]!;
+      const frac12 = DIGIT[cols11to12 >> 8]!, frac34 = COLUMN_PAIRS[cols13to16 & 0xffff]!;
+      // every pair valid (no sign bit); after a pair that holds a digit only pairs of two digits (the
+      // blanks lead: HOLDS_DIGIT shifted onto NOT_TWO_DIGITS of the next pair); the fraction digits
+      const bad = ((p0 | p1 | p2 | p3 | p4 | frac12 | frac34) & BAD_PAIR) |
+        ((((p0 >> 1) & p1) | ((p1 >> 1) & p2) | ((p2 >> 1) & p3) | ((p3 >> 1) & p4) | frac34) & NOT_TWO_DIGITS);
+      if (bad === 0) {
+        // value * 1000 as an integer: integer digits 1-6, then digits 7-10 and the fraction (each part
+        // exact), divided once by 1000: the value parseF14p3In gives (see there)
+        const high = ((p0 & 0xff) * 100 + (p1 & 0xff)) * 100 + (p2 & 0xff);
+        const low = ((p3 & 0xff) * 100 + (p4 & 0xff)) * 1000 + frac12 * 100 + (frac34 & 0xff);
+        v = (high * 1e7 + low) / 1000;
+      } else {
+        // a sign, or another layout: column by column
         v = f14p3At(b, c);
         if (v === NOT_USUAL_LAYOUT) return -1;
       }
@@ -253,29 +277,6 @@ COLUMN_PAIRS[BLANK2] = NOT_TWO_DIGITS;
 for (let first = 0; first < 10; first++) {
   COLUMN_PAIRS[((48 + first) << 8) | BLANK] = first | NOT_TWO_DIGITS | HOLDS_DIGIT;
   for (let second = 0; second < 10; second++) COLUMN_PAIRS[((48 + second) << 8) | (48 + first)] = (10 * first + second) | HOLDS_DIGIT;
-}
-
-/**
- * The value of an F14.3 field in the usual layout without a sign: columns 1-10 blanks then digits,
- * the point in column 11 (checked by the caller), three digits in columns 12-14 (RINEX 3.05 table A3,
- * RINEX 2.11 table A2); -1 for any other field. Ten blanks read as 0 before the point, as parseFixedIn
- * reads them, and ten integer digits are read too: value * 1000 is then below 10^13, still an exact
- * integer in a double, so the value is the one parseFixedIn gives (see parseF14p3Bytes).
- */
-function unsignedF14p3(view: DataView, c: number, cols1to2: number, cols11to12: number, cols13to16: number): number {
-  const p0 = COLUMN_PAIRS[cols1to2]!, p1 = COLUMN_PAIRS[view.getUint16(c + 2, true)]!, p2 = COLUMN_PAIRS[view.getUint16(c + 4, true)]!;
-  const p3 = COLUMN_PAIRS[view.getUint16(c + 6, true)]!, p4 = COLUMN_PAIRS[view.getUint16(c + 8, true)]!;
-  const frac12 = DIGIT[cols11to12 >> 8]!, frac34 = COLUMN_PAIRS[cols13to16 & 0xffff]!;
-  // every pair valid (no sign bit); after a pair that holds a digit only pairs of two digits (the
-  // blanks lead: HOLDS_DIGIT shifted onto NOT_TWO_DIGITS of the next pair); the fraction digits
-  const bad = ((p0 | p1 | p2 | p3 | p4 | frac12 | frac34) & BAD_PAIR) |
-    ((((p0 >> 1) & p1) | ((p1 >> 1) & p2) | ((p2 >> 1) & p3) | ((p3 >> 1) & p4) | frac34) & NOT_TWO_DIGITS);
-  if (bad !== 0) return -1;
-  // value * 1000 as an integer: integer digits 1-6, then digits 7-10 and the fraction (each part exact)
-  const high = ((p0 & 0xff) * 100 + (p1 & 0xff)) * 100 + (p2 & 0xff);
-  const low = ((p3 & 0xff) * 100 + (p4 & 0xff)) * 1000 + frac12 * 100 + (frac34 & 0xff);
-  // integer thousandths divided once by 1000: the value parseF14p3In gives (see there)
-  return (high * 1e7 + low) / 1000;
 }
 
 /**
