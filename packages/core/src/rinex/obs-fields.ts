@@ -176,12 +176,15 @@ export function digitInBytes(b: Uint8Array, col: number, end: number): number {
  * the low byte) and looked up in tables (COLUMN_PAIRS, FLAG_DIGIT): no branch on the number of leading
  * blanks, which varies from field to field, and fewer loads than column by column (in V8 a DataView
  * load of 2 or 4 bytes costs about what a Uint8Array load of one does: over the observation lines of
- * dgar0100.24o and BELE00BRA 2024-01-10, 20-30 % less time than the column by column reading, measured
- * on this machine). A negative value takes the column by column reading (f14p3At).
+ * dgar0100.24o and BELE00BRA 2024-01-10 alone, about a third less time than the column by column
+ * reading, node 20, measured on this machine). A negative value takes the column by column reading
+ * (f14p3At).
  *
- * The function is too large for V8 to inline into its callers (about 900 bytes of bytecode; node 20
- * inlines up to 460, --max-inlined-bytecode-size): compiled on its own with the value reading written
- * in it, the values stay unboxed doubles from the columns to the Float64Array.
+ * The value reading is written in this function, which makes it larger than V8 inlines (about 900
+ * bytes of bytecode; node 20 inlines up to 460, --max-inlined-bytecode-size): it is compiled on its own,
+ * and the reader's loops that call it (obs-reader.ts sats2, sats3) keep their small calls inlined
+ * (ObsSlab.sat, ByteLineCursor.tookLine), which this function inlined into them crowded out (seen with
+ * --trace-turbo-inlining; the whole reader on dgar0100.24o about 5 % faster for it).
  */
 export function parseObsLineBytes(
   b: Uint8Array, view: DataView, c: number, from: number, to: number, values: Float64Array, lli: Uint8Array, ssi: Uint8Array,
@@ -199,8 +202,7 @@ export function parseObsLineBytes(
       // read as 0 before the point, as parseFixedIn reads them, and ten integer digits are read too:
       // value * 1000 is then below 10^13, still an exact integer in a double, so the value is the one
       // parseFixedIn gives (see parseF14p3Bytes). Written here rather than in a function of its own:
-      // V8 did not inline that function where this one was inlined into the reader, and a call that
-      // returns a double allocates a heap number for it.
+      // see the function comment on inlining.
       const p0 = COLUMN_PAIRS[cols1to2]!, p1 = COLUMN_PAIRS[view.getUint16(c + 2, true)]!, p2 = COLUMN_PAIRS[view.getUint16(c + 4, true)]!;
       const p3 = COLUMN_PAIRS[view.getUint16(c + 6, true)]!, p4 = COLUMN_PAIRS[view.getUint16(c + 8, true)]!;
       const frac12 = DIGIT[cols11to12 >> 8]!, frac34 = COLUMN_PAIRS[cols13to16 & 0xffff]!;
