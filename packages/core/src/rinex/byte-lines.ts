@@ -61,6 +61,8 @@ export class ByteLineCursor {
   bytes: Uint8Array = EMPTY;
   /** `bytes` as 32-bit words (its buffer is ours, a whole number of words long). */
   private words: Uint32Array = new Uint32Array(EMPTY.buffer);
+  /** `bytes` as a DataView, for parsers that read several columns at once (obs-fields.ts parseObsLineBytes). */
+  view: DataView = new DataView(EMPTY.buffer);
   /** Length of the data in `bytes`. */
   end = 0;
   /** Position of the next line in `bytes`. */
@@ -152,15 +154,15 @@ export class ByteLineCursor {
   }
 
   /**
-   * Marks the line bytes[pos, nl) (nl: its '\n', found by the caller's own parse) as taken, as
-   * takeSpan() would have. Only for a line that holds no CR and ends inside the buffer.
+   * Marks the line bytes[pos, nl) as taken, as takeSpan() would have: `nl` is its end found by the
+   * caller's own parse, a '\n' or the CR of CR LF (obs-fields.ts parseObsLineBytes), inside the buffer.
    */
   tookLine(nl: number): void {
     this.lineNumber++;
     this.lastPos = this.pos;
     this.lineStart = this.pos;
     this.lineEnd = nl;
-    this.pos = nl + 1;
+    this.pos = this.bytes[nl] === CR ? nl + 2 : nl + 1;
   }
 
   /** Next line as text without its end-of-line; undefined = need fill(); null = end of the input. */
@@ -203,6 +205,7 @@ export class ByteLineCursor {
       // a whole number of 32-bit words, seen as words too (lineEndFrom)
       b = new Uint8Array((Math.max(need, 2 * b.length, MIN_BUFFER_BYTES) + 3) & ~3);
       this.words = new Uint32Array(b.buffer);
+      this.view = new DataView(b.buffer);
       b.set(this.bytes.subarray(this.pos, this.end), 0);
     } else if (this.pos > 0) b.copyWithin(0, this.pos, this.end);
     if (typeof chunk === 'string') {
@@ -290,6 +293,7 @@ export class ByteLineCursor {
     this.ended = true;
     this.bytes = EMPTY;
     this.words = new Uint32Array(EMPTY.buffer);
+    this.view = new DataView(EMPTY.buffer);
     this.text = null;
     this.end = 0;
     this.pos = 0;

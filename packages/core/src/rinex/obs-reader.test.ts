@@ -11,6 +11,7 @@ import { collectEpochs, readObsStream } from './obs-reader.js';
 import type { ObsEpoch } from '../gnss/obs-types.js';
 import { FormatError, InputError } from '../errors.js';
 import type { Warning } from '../errors.js';
+import { openText } from '../compress/index.js';
 
 const FIX = resolve(dirname(fileURLToPath(import.meta.url)), '../../../../fixtures/rinex');
 const fixture = (name: string) => readFileSync(resolve(FIX, name), 'utf8');
@@ -224,6 +225,33 @@ describe('wrong and damaged input', () => {
         }
       },
     ), { numRuns: 300 });
+  });
+
+  it('property: CR LF line ends read as LF ones, damaged or not: the same epochs, values, warnings and line numbers', async () => {
+    const texts = [fixture('r2-events.24o'), fixture('r3-scale-events.rnx'), fixture('r4-obs.rnx')].map((t) => t.replace(/\r\n/g, '\n'));
+    /** Epochs and warnings as read from the file's bytes through openText (the reader then parses the bytes). */
+    const readBytes = async (t: string, chunk: number) => {
+      const bytes = new Uint8Array(Buffer.from(t, 'latin1'));
+      const opened = await openText('f.obs', (async function* () { for (let i = 0; i < bytes.length; i += chunk) yield bytes.subarray(i, i + chunk); })());
+      const warnings: Warning[] = [];
+      try {
+        const stream = await readObsStream('f.obs', opened.text, { onWarning: (w) => warnings.push(w) });
+        const epochs = (await collectEpochs(stream)).map((e) => ({ ...e, sats: e.sats.map((x) => ({ ...x, values: [...x.values], lli: [...x.lli], ssi: [...x.ssi] })) }));
+        return { epochs, warnings };
+      } catch (e) {
+        return { error: (e as Error).message, warnings };
+      }
+    };
+    await fc.assert(fc.asyncProperty(
+      fc.integer({ min: 0, max: 2 }),
+      fc.array(fc.tuple(fc.nat(), fc.nat(20), fc.string({ maxLength: 20, unit: fc.constantFrom(' ', '1', '.', '-', 'x', '\n', 'G', '>') })), { maxLength: 4 }),
+      fc.integer({ min: 1, max: 300 }),
+      async (which, edits, chunk) => {
+        let t = texts[which]!;
+        for (const [at, del, ins] of edits) { const p = at % (t.length + 1); t = t.slice(0, p) + ins + t.slice(p + del); }
+        expect(await readBytes(t.replace(/\n/g, '\r\n'), chunk)).toEqual(await readBytes(t, chunk));
+      },
+    ), { numRuns: 200 });
   });
 
   it('property: arbitrary text after a valid header is read without throwing', async () => {

@@ -516,7 +516,7 @@ class EpochParser {
         const sat = codes !== undefined && this.wantedBy[sc] ? satIdInBytes(b, a, cur.end, false) : null;
         if (sat !== null) {
           into = this.slab.sat(sat, codes!);
-          const nl = parseObsLineBytes(b, a + 3, 0, codes!.length, into.values, into.lli, into.ssi, this.divBy[sc]!);
+          const nl = parseObsLineBytes(b, cur.view, a + 3, 0, codes!.length, into.values, into.lli, into.ssi, this.divBy[sc]!);
           if (nl >= 0) {
             cur.tookLine(nl);
             sats.push(into);
@@ -590,7 +590,7 @@ class EpochParser {
         if (wanted && this.records === null && nCodes > 0) {
           // the usual layout, read in one pass (parseObsLineBytes); anything else as a span below
           out ??= this.slab.sat(sat, codes!);
-          const nl = parseObsLineBytes(cur.bytes, cur.pos, from, to, out.values, out.lli, out.ssi, div);
+          const nl = parseObsLineBytes(cur.bytes, cur.view, cur.pos, from, to, out.values, out.lli, out.ssi, div);
           if (nl >= 0) {
             cur.tookLine(nl);
             continue;
