@@ -18,6 +18,7 @@ import { referenceSigmaOf } from '../reference-sigma.js';
 import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie.js';
 import type { ReferenceSigma } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
+import { checkReferencePosition } from '../reference-position.js';
 import {
   OUTPUT_FILE_NAMES, parseAntennaHeights, parseOutputs, parseSessionOptions, withHeight,
   type OutputKind, type SolveOptionArgs,
@@ -260,6 +261,14 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     ref = referenceFromHeader(choice, tieFiles.length ? (await openObs(from, () => {})).header : refProbes[0].header, from, roverSpan.firstGpsS, rep.warn);
   } else {
     ref = await referenceFromMark(choice, roverSpan.firstGpsS, rep.warn, a.allowUnknownFrame === true);
+  }
+  if (choice && choice.mode !== 'header') {
+    // A coordinate given is compared with where the station says it is (with a tie, the CORS's file).
+    const station = tieFiles.length ? tieFiles[0]! : referencePaths[0]!;
+    await checkReferencePosition({
+      file: station, header: tieFiles.length ? (await openObs(station, () => {})).header : refProbes[0]!.header, given: ref.position.ecef,
+      givenWords: choice.mode === 'mark' ? `mark ${choice.markName} of ${choice.marksFile}` : '--ref-coord', nav, options: base, warn: rep.warn,
+    });
   }
   let tie: BaseTie | null = null;
   if (tieFiles.length) {
