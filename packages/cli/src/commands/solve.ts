@@ -19,6 +19,7 @@ import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie
 import type { ReferenceSigma } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
 import { checkReferencePosition } from '../reference-position.js';
+import { completenessJson, dataLost, roverEndsEarly, unsolvedEpochs, type DataLost, type Unsolved } from '../run-completeness.js';
 import {
   OUTPUT_FILE_NAMES, parseAntennaHeights, parseOutputs, parseSessionOptions, withHeight,
   type OutputKind, type SolveOptionArgs,
@@ -150,6 +151,10 @@ export interface StagedSolve {
   readonly summaryDoc: (outputs: readonly OutputFileRecord[]) => Record<string, unknown>;
   /** The reference coordinate's own uncertainty (reference-sigma.ts). */
   readonly referenceSigma: ReferenceSigma;
+  /** Observations lost while reading the inputs (run-completeness.ts), else null. */
+  readonly dataLost: DataLost | null;
+  /** Rover epochs without a solution and why. */
+  readonly unsolved: Unsolved;
 }
 
 /**
@@ -340,6 +345,11 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
 
   // 5. What the summary needs, computed once (input hashes) and assembled when the outputs are known.
   const summary = run.summary();
+  const endsEarly = roverEndsEarly(a.rover, rover.header.lastObsGpsS, rover.header.intervalS, summary.lastGpsS);
+  if (endsEarly) rep.warn(endsEarly);
+  const unsolved = unsolvedEpochs(summary, roverSpan, singleReceiver ? null : refSpans.map((r) => r.span));
+  if (unsolved.large && summary.epochsByKind.none < summary.epochsRover) rep.warn({ file: a.rover, line: 0, code: 'many-epochs-unsolved', message: unsolved.sentence });
+  const lost = dataLost(rep.warnings, rep.warningTally);
   try {
     const inputs: InputFileRecord[] = [];
     const kindOf = (p: string): InputFileRecord['kind'] => (p === a.rover ? 'rover' : referencePaths.includes(p) ? 'reference' : tieFiles.includes(p) ? 'tie-station' : 'navigation');
@@ -366,11 +376,12 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
         };
       return {
         ...doc, ...mode, crs: crsStatement(frame), point_reference: pointReferenceWords(pointReference),
-        ...(carrierRun && carrier ? { carrier_phase: carrierSummaryJson(carrierRun.carrierSummary(), carrier.options) } : {}), warnings: warningsSummary(rep),
+        ...(carrierRun && carrier ? { carrier_phase: carrierSummaryJson(carrierRun.carrierSummary(), carrier.options) } : {}),
+        completeness: completenessJson(lost, unsolved), warnings: warningsSummary(rep),
       };
     };
     const carrierShares = carrierRun ? carrierSharesSentence(carrierRun.carrierSummary()) : null;
-    return { outDir, set, kinds, summary, carrierShares, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma, extras: {}, outputs };
+    return { outDir, set, kinds, summary, carrierShares, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma, dataLost: lost, unsolved, extras: {}, outputs };
   } catch (e) {
     await set.abort();
     throw e;
@@ -418,6 +429,8 @@ export function reportSolveCounts(st: StagedSolve, rep: Reporter): void {
   rep.warningTail(st.kinds.includes('summary') ? join(st.outDir, OUTPUT_FILE_NAMES.summary) : 'the warnings above');
   if (st.carrierShares) rep.info(`${st.summary.epochsRover} rover epochs: ${st.carrierShares}; ${k.none} without a solution`);
   else rep.info(`${st.summary.epochsRover} rover epochs: ${k.differential} differential, ${k.smoothed} smoothed, ${k.standalone} standalone, ${k.none} without a solution`);
+  if (st.unsolved.sentence) rep.info(st.unsolved.sentence);
+  if (st.dataLost) rep.info(`incomplete input: ${st.dataLost.sentence}; the results cover only the observations read`);
   rep.info(`frame: ${st.frame.name} epoch ${frameEpochText(st.frame.epochYear)}; positions refer to the ${pointReferenceWords(st.pointReference)}`);
 }
 
