@@ -8,7 +8,7 @@
  * Exit: 0 all sessions ok, 4 some failed (EXIT_BATCH_PARTIAL), 1 none could be processed, 2 usage.
  */
 import { lstat, readdir, rm, stat } from 'node:fs/promises';
-import { prepareOutputFolder } from '../output-folder.js';
+import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence } from '../input-sanity.js';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
@@ -301,11 +301,13 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
       rep.info(`note: the folder name of ${file} would clash with another session's: its outputs go to ${join(outDir, names[i])}`);
     }
   }
-  await prepareOutputFolder({
+  const folder = await prepareOutputFolder({
     dir: outDir, inputs: [...sessionFiles, ...refFiles, ...navFiles],
     outputNames: [...Object.values(BATCH_FILE_NAMES), ...names.flatMap((n) => ['epochs.csv', 'residuals.csv', 'positions.geojson', 'summary.json', 'points.csv', 'points.geojson'].map((f) => join(n, f)))],
     estimatedBytes: 0,
   });
+  const beside = inputsInsideWarning(outDir, folder.inputsInside);
+  if (beside) rep.warn(beside);
   // The batch index describes the session folders of one run: it goes before the first of them changes,
   // and the new one is committed at the end.
   for (const f of [...Object.values(BATCH_FILE_NAMES), REPORT_FILE_NAME]) await rm(join(outDir, f), { force: true });

@@ -10,7 +10,7 @@ import {
   type PointReference, type SessionOptions, type SessionSummary, type Warning,
 } from '@refdelta/core';
 import { AtomicFile, OutputSet, openNav, openObs, requireFile, sha256File, type OpenedObs } from '../node-io.js';
-import { prepareOutputFolder } from '../output-folder.js';
+import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence, requireObservationTypes } from '../input-sanity.js';
 import { obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
@@ -204,7 +204,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   const allPaths = [a.rover, ...referencePaths, ...tieFiles, ...a.nav];
   const sizes = new Map<string, number>();
   for (const p of allPaths) sizes.set(p, await requireFile(p));
-  await prepareOutputFolder({
+  const folder = await prepareOutputFolder({
     dir: outDir,
     inputs: [...allPaths, ...(choice?.mode === 'mark' ? [choice.marksFile] : []), ...(hooks.extraInputs ?? [])],
     outputNames: [...Object.values(OUTPUT_FILE_NAMES), ...SOLVE_OUTPUT_FORMATS.map((f) => f.fileName), ...(hooks.extraOutputNames ?? [])],
@@ -240,6 +240,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   }
 
   rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: referencePaths, nav: a.nav, out: outDir, mode: singleReceiver ? 'standalone' : 'differential' });
+  const beside = inputsInsideWarning(outDir, folder.inputsInside);
+  if (beside) rep.warn(beside);
   const { nav, layers: navLayers } = await openNav(a.nav, rep.warn);
   // Which of the systems listed and allowed have satellites in the rover's epochs (none seen: the no-epoch
   // sentence comes later).
