@@ -65,7 +65,7 @@ describe('refdelta batch on a folder of demo sessions', () => {
     expect(t.rows.map((r) => `${r.session}:${r.name}`)).toEqual([...NAMES.map((n) => `walk-a:${n}`), ...NAMES.map((n) => `walk-b:${n}`)]);
     expect(t.rows.every((r) => r.frame === 'WGS84')).toBe(true);
     const s = JSON.parse(readFileSync(join(out, 'batch-summary.json'), 'utf8'));
-    expect(s.counts).toEqual({ sessions: 3, ok: 2, failed: 1, skipped_files: 1, points: 8 });
+    expect(s.counts).toEqual({ sessions: 3, ok: 2, incomplete_input: 0, failed: 1, skipped_files: 1, points: 8 });
     expect(s.sessions.map((x: { name: string; status: string }) => `${x.name}:${x.status}`)).toEqual(['broken:failed', 'walk-a:ok', 'walk-b:ok']);
     expect(s.sessions[0].reason).toMatch(/broken\.24o/);
     expect(s.skipped_files[0].file).toMatch(/broadcast-mixed\.nav$/);

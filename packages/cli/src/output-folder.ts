@@ -5,8 +5,8 @@
  */
 import { constants as FS, realpathSync } from 'node:fs';
 import { access, mkdir, open, rm, stat, statfs } from 'node:fs/promises';
-import { dirname, join, resolve, sep } from 'node:path';
-import { ProcessingError } from '@refdelta/core';
+import { basename, dirname, join, resolve, sep } from 'node:path';
+import { ProcessingError, type Warning } from '@refdelta/core';
 import { recoverOutputFolder, registerTemporary, releaseTemporary } from './output-commit.js';
 
 /** Kernel file systems where Node's recursive mkdir can loop (it retries on an ENOENT that never clears). */
@@ -76,8 +76,34 @@ export interface OutputFolderCheck {
   readonly option?: string;
 }
 
-/** Checks (and makes) the output folder; finishes or removes what an interrupted earlier run left there. */
-export async function prepareOutputFolder(c: OutputFolderCheck): Promise<void> {
+/** What the check found that the caller should tell the user. */
+export interface OutputFolderFindings {
+  /** Inputs inside the output folder (or its subfolders): the outputs go beside them. */
+  readonly inputsInside: readonly string[];
+}
+
+/** The inputs whose real path lies inside `dir` (an existing folder). */
+export function inputsInsideFolder(dir: string, inputs: readonly string[]): string[] {
+  const root = realOrSelf(dir);
+  const prefix = root.endsWith(sep) ? root : root + sep;
+  return [...new Set(inputs)].filter((p) => realOrSelf(p).startsWith(prefix));
+}
+
+/** The warning for outputs written beside inputs (none is overwritten: that is refused earlier). */
+export function inputsInsideWarning(dir: string, inside: readonly string[], option = '--out'): Warning | null {
+  if (!inside.length) return null;
+  const names = inside.slice(0, 5).map((p) => basename(p)).join(', ') + (inside.length > 5 ? `, ... (${inside.length} in all)` : '');
+  return {
+    code: 'outputs-beside-inputs',
+    message: `the output folder ${dir} (${option}) holds input file${inside.length > 1 ? 's' : ''} (${names}): the outputs are written beside ${inside.length > 1 ? 'them' : 'it'} (no input is overwritten); choose a folder of its own to keep outputs and inputs apart`,
+  };
+}
+
+/**
+ * Checks (and makes) the output folder; finishes or removes what an interrupted earlier run left there.
+ * An output that would replace an input is refused; inputs merely inside the folder are returned.
+ */
+export async function prepareOutputFolder(c: OutputFolderCheck): Promise<OutputFolderFindings> {
   const dir = resolve(c.dir);
   const option = c.option ?? '--out';
   if (KERNEL_FOLDERS.some((k) => dir === k || dir.startsWith(k + sep))) {
@@ -134,4 +160,5 @@ export async function prepareOutputFolder(c: OutputFolderCheck): Promise<void> {
     if (e instanceof ProcessingError) throw e;
     // statfs not supported here: the writes themselves report a full disk
   }
+  return { inputsInside: st ? inputsInsideFolder(dir, c.inputs) : [] };
 }

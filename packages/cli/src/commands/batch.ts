@@ -8,7 +8,7 @@
  * Exit: 0 all sessions ok, 4 some failed (EXIT_BATCH_PARTIAL), 1 none could be processed, 2 usage.
  */
 import { lstat, readdir, rm, stat } from 'node:fs/promises';
-import { prepareOutputFolder } from '../output-folder.js';
+import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence } from '../input-sanity.js';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
@@ -26,6 +26,7 @@ import { UsageError } from '../usage-error.js';
 import { SOFTWARE } from '../software.js';
 import { parsePointsConfig, runPointsSession, type PointsArgs, type PointsConfig } from './points.js';
 import { parseJobs, runBatchSessions } from '../batch-workers.js';
+import { dataLost } from '../run-completeness.js';
 
 export interface BatchArgs extends Omit<PointsArgs, 'rover' | 'reference' | 'nav'> {
   readonly sessions: unknown;
@@ -43,7 +44,8 @@ export const BATCH_FILE_NAMES = { summary: 'batch-summary.json', points: 'batch-
 export interface SessionRecord {
   readonly name: string;
   readonly file: string;
-  readonly status: 'ok' | 'failed';
+  /** 'incomplete-input': processed, but observations of its inputs were lost while reading (the reason says which). */
+  readonly status: 'ok' | 'incomplete-input' | 'failed';
   readonly reason: string | null;
   readonly roverEpochs: number | null;
   readonly solvedEpochs: number | null;
@@ -173,7 +175,7 @@ export function batchTable(records: readonly SessionRecord[]): string {
   const rows = records.map((r) => [
     r.name, r.roverEpochs === null ? '-' : String(r.roverEpochs),
     r.roverEpochs ? ((100 * (r.solvedEpochs ?? 0)) / r.roverEpochs).toFixed(1) : '-',
-    String(r.points), r.status === 'ok' ? 'ok' : `failed: ${r.reason}`,
+    String(r.points), r.status === 'ok' ? 'ok' : `${r.status}: ${r.reason}`,
   ]);
   const head = ['session', 'epochs', 'solved %', 'points', 'status'];
   const w = head.map((h, i) => Math.max(h.length, ...rows.map((r) => (i < 4 ? r[i].length : 0))));
@@ -233,9 +235,12 @@ export async function runBatchSession(job: BatchSessionJob, ctx: BatchSessionCon
     const r = await runPointsSession({ ...a, rover: file, reference: references, nav: navs, out: join(resolve(a.out), name) }, cfg, srep, 'batch-session');
     if (r.failure) throw new ProcessingError(r.failure);
     const rows = r.rows.map((row) => ({ session: name, cells: Object.fromEntries(r.columns.map((c, k) => [c, row[k] ?? ''])) }));
-    srep.event('session', { status: 'ok', file, epochs: r.roverEpochs, solved_epochs: r.solvedEpochs, points: r.points.length, out: r.outDir });
+    // A session whose inputs lost observations in reading is processed, but says so in its status.
+    const lost = dataLost(srep.warnings, srep.warningTally);
+    const status = lost ? 'incomplete-input' : 'ok';
+    srep.event('session', { status, file, epochs: r.roverEpochs, solved_epochs: r.solvedEpochs, points: r.points.length, out: r.outDir, ...(lost ? { reason: lost.sentence } : {}) });
     return {
-      record: { name, file, status: 'ok', reason: null, roverEpochs: r.roverEpochs, solvedEpochs: r.solvedEpochs, points: r.points.length, out: r.outDir, referenceFiles: references, navFiles: navs },
+      record: { name, file, status, reason: lost ? lost.sentence : null, roverEpochs: r.roverEpochs, solvedEpochs: r.solvedEpochs, points: r.points.length, out: r.outDir, referenceFiles: references, navFiles: navs },
       columns: r.columns, rows, problem: null,
     };
   } catch (e) {
@@ -296,11 +301,13 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
       rep.info(`note: the folder name of ${file} would clash with another session's: its outputs go to ${join(outDir, names[i])}`);
     }
   }
-  await prepareOutputFolder({
+  const folder = await prepareOutputFolder({
     dir: outDir, inputs: [...sessionFiles, ...refFiles, ...navFiles],
     outputNames: [...Object.values(BATCH_FILE_NAMES), ...names.flatMap((n) => ['epochs.csv', 'residuals.csv', 'positions.geojson', 'summary.json', 'points.csv', 'points.geojson'].map((f) => join(n, f)))],
     estimatedBytes: 0,
   });
+  const beside = inputsInsideWarning(outDir, folder.inputsInside);
+  if (beside) rep.warn(beside);
   // The batch index describes the session folders of one run: it goes before the first of them changes,
   // and the new one is committed at the end.
   for (const f of [...Object.values(BATCH_FILE_NAMES), REPORT_FILE_NAME]) await rm(join(outDir, f), { force: true });
@@ -311,16 +318,17 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   const jobs = sessionFiles.map((file, index) => ({ index, name: names[index], file }));
   await runBatchSessions(jobs, context, cfg, rep, parseJobs(a.jobs), (r) => {
     records.push(r.record);
-    if (r.record.status === 'ok') columns ??= [...r.columns];
+    if (r.record.status !== 'failed') columns ??= [...r.columns];
     batchRows.push(...r.rows);
     if (r.problem) rep.problem(r.problem);
   });
 
   // 4. The table; the batch files as one set (summary last), unless no session could be processed.
-  const ok = records.filter((r) => r.status === 'ok');
+  const processed = records.filter((r) => r.status !== 'failed');
+  const incomplete = records.filter((r) => r.status === 'incomplete-input');
   const failed = records.filter((r) => r.status === 'failed');
   rep.result(batchTable(records));
-  if (ok.length === 0) {
+  if (processed.length === 0) {
     rep.failure(`none of the ${records.length} session(s) in ${sessionsDir} could be processed; nothing was written to ${outDir}`, EXIT_PROCESSING);
     rep.event('done', { exit_code: EXIT_PROCESSING });
     return EXIT_PROCESSING;
@@ -343,7 +351,7 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   try {
     const p = await pointsFile.seal();
     const index = outputKinds.includes('report')
-      ? await (await set.add('batch-report', join(outDir, REPORT_FILE_NAME), [batchIndexHtml(outDir, basename(outDir), records, (r) => r.status === 'ok')])).seal()
+      ? await (await set.add('batch-report', join(outDir, REPORT_FILE_NAME), [batchIndexHtml(outDir, basename(outDir), records, (r) => r.status !== 'failed')])).seal()
       : null;
     const given = Object.fromEntries(ECHOED_OPTIONS.filter((k) => (a as unknown as Record<string, unknown>)[k] !== undefined).map((k) => [k, (a as unknown as Record<string, unknown>)[k]]));
     const doc = {
@@ -352,7 +360,7 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
       reference: refDir ? { folder: refDir, picked: 'per session: the observation files whose time span overlaps it (widened by --max-age)' } : { files: refFiles.map((f) => resolve(f)) },
       navigation: navDir ? { folder: navDir, picked: 'per session: the navigation files with ephemerides within 4 h of its span' } : { files: navFiles.map((f) => resolve(f)) },
       options: given,
-      counts: { sessions: records.length, ok: ok.length, failed: failed.length, skipped_files: skipped.length, points: batchRows.length },
+      counts: { sessions: records.length, ok: processed.length - incomplete.length, incomplete_input: incomplete.length, failed: failed.length, skipped_files: skipped.length, points: batchRows.length },
       sessions: records.map((r) => ({
         name: r.name, file: r.file, status: r.status, reason: r.reason, rover_epochs: r.roverEpochs, solved_epochs: r.solvedEpochs,
         solved_percent: r.roverEpochs ? Math.round((1000 * (r.solvedEpochs ?? 0)) / r.roverEpochs) / 10 : null, points: r.points,
@@ -372,7 +380,8 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
     await set.abort();
     throw e;
   }
-  rep.info(`${ok.length} of ${records.length} session(s) processed; ${batchRows.length} point(s) in ${pointsPath}; summary in ${summaryPath}`);
+  rep.info(`${processed.length} of ${records.length} session(s) processed; ${batchRows.length} point(s) in ${pointsPath}; summary in ${summaryPath}`);
+  if (incomplete.length) rep.info(`${incomplete.length} session(s) with incomplete input (observations lost while reading; results cover only what was read): ${incomplete.map((r) => r.name).join(', ')}`);
   if (failed.length) {
     rep.failure(`${failed.length} of ${records.length} session(s) failed: ${failed.map((r) => r.name).join(', ')} (reasons above and in ${summaryPath})`, EXIT_BATCH_PARTIAL);
     rep.event('done', { exit_code: EXIT_BATCH_PARTIAL, summary: summaryPath });

@@ -10,7 +10,7 @@ import {
   type PointReference, type SessionOptions, type SessionSummary, type Warning,
 } from '@refdelta/core';
 import { AtomicFile, OutputSet, openNav, openObs, requireFile, sha256File, type OpenedObs } from '../node-io.js';
-import { prepareOutputFolder } from '../output-folder.js';
+import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence, requireObservationTypes } from '../input-sanity.js';
 import { obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
@@ -18,6 +18,8 @@ import { referenceSigmaOf } from '../reference-sigma.js';
 import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie.js';
 import type { ReferenceSigma } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
+import { checkReferencePosition } from '../reference-position.js';
+import { completenessJson, dataLost, roverEndsEarly, unsolvedEpochs, type DataLost, type Unsolved } from '../run-completeness.js';
 import {
   OUTPUT_FILE_NAMES, parseAntennaHeights, parseOutputs, parseSessionOptions, withHeight,
   type OutputKind, type SolveOptionArgs,
@@ -149,6 +151,10 @@ export interface StagedSolve {
   readonly summaryDoc: (outputs: readonly OutputFileRecord[]) => Record<string, unknown>;
   /** The reference coordinate's own uncertainty (reference-sigma.ts). */
   readonly referenceSigma: ReferenceSigma;
+  /** Observations lost while reading the inputs (run-completeness.ts), else null. */
+  readonly dataLost: DataLost | null;
+  /** Rover epochs without a solution and why. */
+  readonly unsolved: Unsolved;
 }
 
 /**
@@ -198,7 +204,7 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   const allPaths = [a.rover, ...referencePaths, ...tieFiles, ...a.nav];
   const sizes = new Map<string, number>();
   for (const p of allPaths) sizes.set(p, await requireFile(p));
-  await prepareOutputFolder({
+  const folder = await prepareOutputFolder({
     dir: outDir,
     inputs: [...allPaths, ...(choice?.mode === 'mark' ? [choice.marksFile] : []), ...(hooks.extraInputs ?? [])],
     outputNames: [...Object.values(OUTPUT_FILE_NAMES), ...SOLVE_OUTPUT_FORMATS.map((f) => f.fileName), ...(hooks.extraOutputNames ?? [])],
@@ -234,6 +240,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
   }
 
   rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: referencePaths, nav: a.nav, out: outDir, mode: singleReceiver ? 'standalone' : 'differential' });
+  const beside = inputsInsideWarning(outDir, folder.inputsInside);
+  if (beside) rep.warn(beside);
   const { nav, layers: navLayers } = await openNav(a.nav, rep.warn);
   // Which of the systems listed and allowed have satellites in the rover's epochs (none seen: the no-epoch
   // sentence comes later).
@@ -260,6 +268,14 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
     ref = referenceFromHeader(choice, tieFiles.length ? (await openObs(from, () => {})).header : refProbes[0].header, from, roverSpan.firstGpsS, rep.warn);
   } else {
     ref = await referenceFromMark(choice, roverSpan.firstGpsS, rep.warn, a.allowUnknownFrame === true);
+  }
+  if (choice && choice.mode !== 'header') {
+    // A coordinate given is compared with where the station says it is (with a tie, the CORS's file).
+    const station = tieFiles.length ? tieFiles[0]! : referencePaths[0]!;
+    await checkReferencePosition({
+      file: station, header: tieFiles.length ? (await openObs(station, () => {})).header : refProbes[0]!.header, given: ref.position.ecef,
+      givenWords: choice.mode === 'mark' ? `mark ${choice.markName} of ${choice.marksFile}` : '--ref-coord', nav, options: base, warn: rep.warn,
+    });
   }
   let tie: BaseTie | null = null;
   if (tieFiles.length) {
@@ -331,6 +347,11 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
 
   // 5. What the summary needs, computed once (input hashes) and assembled when the outputs are known.
   const summary = run.summary();
+  const endsEarly = roverEndsEarly(a.rover, rover.header.lastObsGpsS, rover.header.intervalS, summary.lastGpsS);
+  if (endsEarly) rep.warn(endsEarly);
+  const unsolved = unsolvedEpochs(summary, roverSpan, singleReceiver ? null : refSpans.map((r) => r.span));
+  if (unsolved.large && summary.epochsByKind.none < summary.epochsRover) rep.warn({ file: a.rover, line: 0, code: 'many-epochs-unsolved', message: unsolved.sentence });
+  const lost = dataLost(rep.warnings, rep.warningTally);
   try {
     const inputs: InputFileRecord[] = [];
     const kindOf = (p: string): InputFileRecord['kind'] => (p === a.rover ? 'rover' : referencePaths.includes(p) ? 'reference' : tieFiles.includes(p) ? 'tie-station' : 'navigation');
@@ -357,11 +378,12 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
         };
       return {
         ...doc, ...mode, crs: crsStatement(frame), point_reference: pointReferenceWords(pointReference),
-        ...(carrierRun && carrier ? { carrier_phase: carrierSummaryJson(carrierRun.carrierSummary(), carrier.options) } : {}), warnings: warningsSummary(rep),
+        ...(carrierRun && carrier ? { carrier_phase: carrierSummaryJson(carrierRun.carrierSummary(), carrier.options) } : {}),
+        completeness: completenessJson(lost, unsolved), warnings: warningsSummary(rep),
       };
     };
     const carrierShares = carrierRun ? carrierSharesSentence(carrierRun.carrierSummary()) : null;
-    return { outDir, set, kinds, summary, carrierShares, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma, extras: {}, outputs };
+    return { outDir, set, kinds, summary, carrierShares, frame, pointReference, roverHeader: rover.header, solvedEpochs, failure, summaryDoc, referenceSigma, dataLost: lost, unsolved, extras: {}, outputs };
   } catch (e) {
     await set.abort();
     throw e;
@@ -409,6 +431,8 @@ export function reportSolveCounts(st: StagedSolve, rep: Reporter): void {
   rep.warningTail(st.kinds.includes('summary') ? join(st.outDir, OUTPUT_FILE_NAMES.summary) : 'the warnings above');
   if (st.carrierShares) rep.info(`${st.summary.epochsRover} rover epochs: ${st.carrierShares}; ${k.none} without a solution`);
   else rep.info(`${st.summary.epochsRover} rover epochs: ${k.differential} differential, ${k.smoothed} smoothed, ${k.standalone} standalone, ${k.none} without a solution`);
+  if (st.unsolved.sentence) rep.info(st.unsolved.sentence);
+  if (st.dataLost) rep.info(`incomplete input: ${st.dataLost.sentence}; the results cover only the observations read`);
   rep.info(`frame: ${st.frame.name} epoch ${frameEpochText(st.frame.epochYear)}; positions refer to the ${pointReferenceWords(st.pointReference)}`);
 }
 

@@ -1,0 +1,127 @@
+/**
+ * How complete a run is, in words for its summary lines, summary.json and a batch's session status:
+ * observations lost while reading the inputs (a file cut off mid-record, a damaged compressed stream),
+ * and rover epochs left without a solution, with their main reason and the share of the rover's span
+ * the reference files cover.
+ */
+import { formatWarning, gpsToUtcS, isoFromSeconds, type RejectionCount, type SessionSummary, type Warning } from '@refdelta/core';
+import type { TimeSpan } from './input-checks.js';
+import type { WarningTally } from './reporter.js';
+
+/**
+ * Reader warning codes that mean observations of a file were lost: an epoch skipped (cut off or
+ * damaged), a compact RINEX or compressed stream damaged or truncated, the epochs ending before the
+ * header's TIME OF LAST OBS (ROVER_ENDS_EARLY_CODE).
+ */
+export const ROVER_ENDS_EARLY_CODE = 'rover-ends-early';
+export const DATA_LOST_CODES: ReadonlySet<string> = new Set([
+  'bad-epoch-skipped', 'crx-truncated', 'crx-damaged', 'crx-unrecovered', 'gzip-damaged', 'unix-compress-damaged', ROVER_ENDS_EARLY_CODE,
+]);
+
+/** A share of rover epochs without a solution above which the run warns (our choice: a fifth of the session). */
+export const UNSOLVED_WARNING_SHARE = 0.2;
+
+/** Below this share of the rover's span covered by the reference files, the summary names the coverage. */
+const FULL_COVERAGE = 0.995;
+
+function when(gpsS: number): string {
+  return `${isoFromSeconds(gpsToUtcS(gpsS), '').replace('T', ' ').slice(0, 19)} UTC`;
+}
+
+/** Observations lost while reading: how many reader warnings say so and the first of them; null when none. */
+export interface DataLost {
+  readonly count: number;
+  readonly first: Warning | null;
+  readonly sentence: string;
+}
+
+/** From a run's warnings (the kept ones for the first; the tally counts all). */
+export function dataLost(warnings: readonly Warning[], tally: WarningTally): DataLost | null {
+  let count = 0;
+  for (const code of DATA_LOST_CODES) count += tally.byCode[code] ?? 0;
+  if (count === 0) return null;
+  const first = warnings.find((w) => DATA_LOST_CODES.has(w.code)) ?? null;
+  const sentence = `observations were lost while reading${first ? `: ${formatWarning(first)}` : ''}${count > 1 ? ` (${count} such problems)` : ''}`;
+  return { count, first, sentence };
+}
+
+/**
+ * The rover's epochs end well before its header's TIME OF LAST OBS: the file was cut off (at a record
+ * boundary no reader warning says so). More than two intervals (or 2 s without INTERVAL) is a gap, not rounding.
+ */
+export function roverEndsEarly(file: string, headerLastGpsS: number | null, intervalS: number | null, lastEpochGpsS: number): Warning | null {
+  if (headerLastGpsS === null || !Number.isFinite(lastEpochGpsS)) return null;
+  const gapS = headerLastGpsS - lastEpochGpsS;
+  if (gapS <= Math.max(2 * (intervalS ?? 1), 2)) return null;
+  return {
+    file, line: 0, code: ROVER_ENDS_EARLY_CODE,
+    message: `the file's epochs end at ${when(lastEpochGpsS)}, ${(gapS / 60).toFixed(1)} min before its header's TIME OF LAST OBS (${when(headerLastGpsS)}): the file looks cut off and the rest of the session is missing`,
+  };
+}
+
+/** The share of `span` that the union of `covers` overlaps (0..1); a zero-length span is covered when a cover contains it. */
+export function coveredShare(span: TimeSpan, covers: readonly TimeSpan[]): number {
+  const lengthS = span.lastGpsS - span.firstGpsS;
+  const parts = covers
+    .map((c) => ({ a: Math.max(c.firstGpsS, span.firstGpsS), b: Math.min(c.lastGpsS, span.lastGpsS) }))
+    .filter((p) => p.b >= p.a)
+    .sort((x, y) => x.a - y.a);
+  if (lengthS <= 0) return parts.length ? 1 : 0;
+  let total = 0, end = -Infinity;
+  for (const p of parts) {
+    const from = Math.max(p.a, end);
+    if (p.b > from) total += p.b - from;
+    end = Math.max(end, p.b);
+  }
+  return total / lengthS;
+}
+
+/** Rover epochs without a solution and why. */
+export interface Unsolved {
+  readonly epochs: number;
+  readonly roverEpochs: number;
+  readonly share: number;
+  readonly mainReasons: readonly RejectionCount[];
+  /** Share of the rover's span (its epochs' first to last) the reference files cover; null in a single-receiver run. */
+  readonly referenceCoverage: number | null;
+  /** One sentence for the summary line (empty when every epoch was solved). */
+  readonly sentence: string;
+  /** More than UNSOLVED_WARNING_SHARE of the epochs unsolved. */
+  readonly large: boolean;
+}
+
+export function unsolvedEpochs(summary: SessionSummary, roverSpan: TimeSpan, referenceSpans: readonly TimeSpan[] | null): Unsolved {
+  const n = summary.epochsByKind.none;
+  const total = summary.epochsRover;
+  const share = total ? n / total : 0;
+  const span = Number.isFinite(summary.firstGpsS) && Number.isFinite(summary.lastGpsS) ? { firstGpsS: summary.firstGpsS, lastGpsS: summary.lastGpsS } : roverSpan;
+  const coverage = referenceSpans ? coveredShare(span, referenceSpans) : null;
+  const mainReasons = summary.epochRejections.slice(0, 3);
+  let sentence = '';
+  if (n > 0) {
+    const top = mainReasons[0];
+    sentence = `${n} of ${total} rover epochs (${(100 * share).toFixed(1)} %) have no solution` +
+      (top ? `, ${top.count === n ? 'all' : `${top.count}`} because of "${top.reason}"` : '');
+    if (coverage !== null && coverage < FULL_COVERAGE) {
+      const refs = referenceSpans!;
+      const first = Math.min(...refs.map((r) => r.firstGpsS));
+      const last = Math.max(...refs.map((r) => r.lastGpsS));
+      sentence += `; the reference covers only ${(100 * coverage).toFixed(0)} % of the rover's span (rover ${when(span.firstGpsS)} to ${when(span.lastGpsS)}, reference ${when(first)} to ${when(last)})`;
+    }
+  }
+  return { epochs: n, roverEpochs: total, share, mainReasons, referenceCoverage: coverage, sentence, large: share > UNSOLVED_WARNING_SHARE };
+}
+
+/** summary.json's `completeness` member. */
+export function completenessJson(lost: DataLost | null, u: Unsolved): Record<string, unknown> {
+  return {
+    input_complete: lost === null,
+    input_problems: lost ? lost.count : 0,
+    input_problem: lost ? lost.sentence : null,
+    unsolved_epochs: u.epochs,
+    unsolved_percent: Math.round(1000 * u.share) / 10,
+    unsolved_main_reasons: u.mainReasons.map((r) => ({ reason: r.reason, count: r.count })),
+    reference_covers_percent: u.referenceCoverage === null ? null : Math.round(1000 * u.referenceCoverage) / 10,
+    unsolved_sentence: u.sentence || null,
+  };
+}
