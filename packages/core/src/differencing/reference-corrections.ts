@@ -16,7 +16,7 @@
  * is used on both sides: corrections are computed per issue on demand and cached, so a change of issue is
  * never interpolated across.
  */
-import type { EcefM, Ephemeris, GeodeticRad, GnssSystem, IonosphereCoefficients, ObsEpoch, SatId } from '../gnss/index.js';
+import type { EcefM, Ephemeris, GeodeticRad, GnssSystem, IonosphereCoefficients, ObsEpoch, SatId, CodeValuesBySat } from '../gnss/index.js';
 import { carrierFrequencyHz, satSystem } from '../gnss/index.js';
 import { EphemerisStore, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
@@ -123,7 +123,7 @@ export class ReferenceCorrections {
    * Adds one reference epoch. `codesOverride` gives smoothed pseudoranges (sat -> code -> m) when
    * carrier smoothing is on. Returns false when no receiver clock could be estimated.
    */
-  addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>, cn0Override?: ReadonlyMap<SatId, number>, factorsOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>): boolean {
+  addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: CodeValuesBySat, cn0Override?: ReadonlyMap<SatId, number>, factorsOverride?: CodeValuesBySat): boolean {
     const geodetic = ecefToGeodetic(arpM);
     const sats = new Map<SatId, ReferenceSatellite>();
     const doy = dayOfYear(epoch.tagGpsS);

@@ -10,7 +10,7 @@
  * position only through metres-scale changes of the look angles).
  * Source of the model: Misra & Enge (2011) 7.1, eqs. 7.3-7.6 (see reference-corrections.ts).
  */
-import type { EcefM, GeodeticRad, GnssSystem, SatId } from '../gnss/index.js';
+import type { EcefM, GeodeticRad, GnssSystem, SatId, CodeValuesBySat } from '../gnss/index.js';
 import { carrierFrequencyHz, satSystem, type Ephemeris, type IonosphereCoefficients, type ObsEpoch } from '../gnss/index.js';
 import { SPEED_OF_LIGHT_MS, type EphemerisStore, type SatelliteAtTransmission } from '../orbit/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
@@ -106,8 +106,8 @@ export class SingleDifferenceEpoch {
   constructor(
     readonly epoch: ObsEpoch,
     private readonly ctx: DifferencingContext,
-    smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
-    private readonly smoothedFactors: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
+    smoothed: CodeValuesBySat | undefined,
+    private readonly smoothedFactors: CodeValuesBySat | undefined,
     startM: EcefM,
     previousClockM: number,
   ) {
@@ -135,7 +135,7 @@ export class SingleDifferenceEpoch {
     this.maxAgeS = maxAge;
   }
 
-  private prepare(s: ObsEpoch['sats'][number], smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, bracket: Bracket): void {
+  private prepare(s: ObsEpoch['sats'][number], smoothed: CodeValuesBySat | undefined, bracket: Bracket): void {
     const ctx = this.ctx;
     const system = satSystem(s.sat);
     if (!ctx.systems.includes(system)) { this.reasons.set(s.sat, { signal: '', reason: ctx.leftOut.reasonFor(system) }); return; }

@@ -4,7 +4,7 @@
  * global test and data snooping (solve/position-fix.ts); a standalone fix instead when asked for and no
  * differential one is possible.
  */
-import type { EcefM, ObsEpoch, ObsHeader, SatId } from '../gnss/index.js';
+import type { EcefM, ObsEpoch, ObsHeader, SatId, CodeValuesBySat } from '../gnss/index.js';
 import { solvePositionFix, type FixOptions, type PositionFix, type Rejection, type RowOutcome, type SatelliteResidual } from '../solve/index.js';
 import { SingleDifferenceEpoch, type DifferencingContext, type SingleDifference } from '../differencing/index.js';
 import { solveStandaloneEpoch, type StandaloneContext } from '../standalone/index.js';
@@ -86,8 +86,8 @@ function satelliteList(ctx: CodeSolverContext, e: ObsEpoch, sd: SingleDifference
 
 /** One rover epoch solved from its single differences. */
 export function solveCodeEpoch(
-  ctx: CodeSolverContext, e: ObsEpoch, smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
-  smoothedFactors: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, refArp: EcefM,
+  ctx: CodeSolverContext, e: ObsEpoch, smoothed: CodeValuesBySat | undefined,
+  smoothedFactors: CodeValuesBySat | undefined, refArp: EcefM,
 ): EpochSolution {
   const d = ctx.differencing;
   const nearestS = d.corrections.nearestEpochS(e.tagGpsS);

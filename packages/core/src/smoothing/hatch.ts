@@ -91,6 +91,11 @@ class SmootherScratch {
   minusCycles = new Float64Array(0);
   deviations = new Float64Array(0);
   sorted = new Float64Array(0);
+  /** The epoch's outputs per satellite (CarrierSmoother.step): smoothed code (m), filter length, restart flag, reason. */
+  smoothedM = new Float64Array(0);
+  length = new Float64Array(0);
+  restarted = new Uint8Array(0);
+  reasons: (string | undefined)[] = [];
 
   /** Ready for n satellites: the per-satellite arrays hold NaN (no value) and 0 (no flag) throughout. */
   reset(n: number): void {
@@ -102,6 +107,7 @@ class SmootherScratch {
       this.dopplerPrevHz = new Float64Array(c); this.dopplerHz = new Float64Array(c); this.dtS = new Float64Array(c);
       this.index = new Int32Array(c); this.plusCycles = new Float64Array(c); this.minusCycles = new Float64Array(c);
       this.deviations = new Float64Array(c); this.sorted = new Float64Array(c);
+      this.smoothedM = new Float64Array(c); this.length = new Float64Array(c); this.restarted = new Uint8Array(c);
     }
     this.continuing.fill(0); this.slip.fill(0);
     this.cmcChangeM.fill(NaN); this.dPhaseCycles.fill(NaN);
@@ -210,6 +216,29 @@ export class CarrierSmoother {
   }
 
   update(epochTimeS: number, sats: readonly SmootherInput[]): SmootherOutput[] {
+    const count = this.step(epochTimeS, sats);
+    const r = this.scratch;
+    const out: SmootherOutput[] = new Array(count);
+    for (let i = 0; i < count; i++) {
+      const reason = r.reasons[i];
+      const restarted = r.restarted[i] === 1;
+      out[i] = reason === undefined
+        ? { sat: sats[i].sat, smoothedM: r.smoothedM[i], n: r.length[i], restarted }
+        : { sat: sats[i].sat, smoothedM: r.smoothedM[i], n: r.length[i], restarted, reason };
+    }
+    return out;
+  }
+
+  /** The last step's outputs: smoothedM, length (n), restarted (1) and reasons of its first `count` satellites. */
+  get outputs(): { readonly smoothedM: Float64Array; readonly length: Float64Array; readonly restarted: Uint8Array; readonly reasons: readonly (string | undefined)[] } {
+    return this.scratch;
+  }
+
+  /**
+   * update() without an object per satellite: the outputs are written to `outputs` (valid until the next
+   * step), for callers that run the filter every epoch. Returns the number of satellites.
+   */
+  step(epochTimeS: number, sats: readonly SmootherInput[]): number {
     const count = sats.length;
     const scratch = this.scratch;
     scratch.reset(count);
@@ -233,14 +262,15 @@ export class CarrierSmoother {
     const jump = detectMillisecondClockJump(scratch.cmcChangeM.subarray(0, count), this.jumpOptions);
     this.lastClockJump = jump;
     // 3. per satellite
-    const out: SmootherOutput[] = new Array(count);
+    const { smoothedM: outM, length: outN, restarted: outRestarted, reasons: outReasons } = scratch;
+    outReasons.length = count;
     for (let i = 0; i < count; i++) {
       const o = sats[i];
       const st = this.states.get(o.sat);
       const phaseM = o.phaseCycles * o.wavelengthM;
       if (!Number.isFinite(o.codeM)) {
         this.states.delete(o.sat);
-        out[i] = { sat: o.sat, smoothedM: NaN, n: 0, restarted: true, reason: 'no code pseudorange' };
+        outM[i] = NaN; outN[i] = 0; outRestarted[i] = 1; outReasons[i] = 'no code pseudorange';
         continue;
       }
       let reason: string | undefined;
@@ -276,16 +306,16 @@ export class CarrierSmoother {
           st.lli = o.lli; st.dopplerHz = o.dopplerHz ?? NaN;
           // Reported filter length: the effective number of epochs averaged, 1 / w.
           const length = Math.round(1 / w);
-          out[i] = note ? { sat: o.sat, smoothedM, n: length, restarted: false, reason: note } : { sat: o.sat, smoothedM, n: length, restarted: false };
+          outM[i] = smoothedM; outN[i] = length; outRestarted[i] = 0; outReasons[i] = note;
           continue;
         }
       }
       this.states.set(o.sat, { sat: o.sat, n: 1, smoothedM: o.codeM, codeM: o.codeM, phaseM, timeS: epochTimeS, lli: o.lli, dopplerHz: o.dopplerHz ?? NaN });
-      out[i] = { sat: o.sat, smoothedM: o.codeM, n: 1, restarted: true, reason };
+      outM[i] = o.codeM; outN[i] = 1; outRestarted[i] = 1; outReasons[i] = reason;
     }
     // 4. bounded memory: satellites silent for long restart anyway; kept a while so the restart can say "gap"
     const forgetS = Math.max(10 * this.gapThresholdS, 600);
     for (const st of this.states.values()) if (epochTimeS - st.timeS > forgetS) this.states.delete(st.sat);
-    return out;
+    return count;
   }
 }
