@@ -239,11 +239,15 @@ export class ReferenceCorrections {
   /** The reference receiver clock (m) at GPS time t, interpolated between the bracketing epochs (NaN without). */
   clockAt(tGpsS: number, bracket: Bracket): number {
     const { before, after } = bracket;
-    if (before && after && after.timeGpsS > before.timeGpsS) {
+    const first = before !== null ? before : after;
+    if (first === null) return NaN;
+    // Read on every path: a bracket of one epoch, first met late in a run, needs no new type feedback.
+    const firstClockM = first.clockM;
+    if (before !== null && after !== null && after.timeGpsS > before.timeGpsS) {
       const w = (tGpsS - before.timeGpsS) / (after.timeGpsS - before.timeGpsS);
-      return before.clockM + w * (after.clockM - before.clockM);
+      return firstClockM + w * (after.clockM - firstClockM);
     }
-    return (before ?? after)?.clockM ?? NaN;
+    return firstClockM;
   }
 
   /** Codes the reference has for a satellite near a time: from the bracketing epochs, else from the nearest epochs holding it. */
