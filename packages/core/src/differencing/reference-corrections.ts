@@ -266,6 +266,28 @@ export class ReferenceCorrections {
   }
 
   /**
+   * The first of `roverCodes` that codesNear(sat, t, maxAgeS, bracket) holds, without building that set
+   * (matchCode's choice); null when there is none (codesNear and matchCode then say why).
+   */
+  commonCode(sat: SatId, roverCodes: readonly string[], tGpsS: number, maxAgeS: number, bracket: Bracket): string | null {
+    // A satellite held by an epoch has at least one code (addEpoch), so the bracket's set is empty exactly
+    // when neither bracketing epoch holds the satellite.
+    const before = bracket.before?.sats.get(sat);
+    const after = bracket.after?.sats.get(sat);
+    if (before !== undefined || after !== undefined) {
+      for (const c of roverCodes) if (before?.codes.has(c) || after?.codes.has(c)) return c;
+      return null;
+    }
+    for (const c of roverCodes) {
+      for (const e of this.epochs) {
+        if (Math.abs(e.timeGpsS - tGpsS) > maxAgeS) continue;
+        if (e.sats.get(sat)?.codes.has(c)) return c;
+      }
+    }
+    return null;
+  }
+
+  /**
    * The correction for (sat, code, issue) at GPS time t: linear interpolation between the bracketing
    * reference epochs (bracketAt) when both hold the satellite, the one that does when only one does, and
    * otherwise between the nearest epochs before and after t that hold it; no epoch farther than maxAgeS.
