@@ -109,7 +109,19 @@ export class ReferenceCorrections {
   unusableEpochs = 0;
   private lastClockM = NaN;
 
+  /** The reference antenna's geodetic coordinates, kept while it stays where it is (every epoch, as a rule). */
+  private lastArpM: EcefM = { x: NaN, y: NaN, z: NaN };
+  private lastGeodetic: GeodeticRad | null = null;
+
   constructor(private readonly ctx: ReferenceContext) {}
+
+  private geodeticOf(arpM: EcefM): GeodeticRad {
+    const last = this.lastArpM;
+    if (this.lastGeodetic !== null && arpM.x === last.x && arpM.y === last.y && arpM.z === last.z) return this.lastGeodetic;
+    this.lastArpM = { x: arpM.x, y: arpM.y, z: arpM.z };
+    this.lastGeodetic = ecefToGeodetic(arpM);
+    return this.lastGeodetic;
+  }
 
   get size(): number {
     return this.epochs.length;
@@ -124,7 +136,7 @@ export class ReferenceCorrections {
    * carrier smoothing is on. Returns false when no receiver clock could be estimated.
    */
   addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: CodeValuesBySat, cn0Override?: ReadonlyMap<SatId, number>, factorsOverride?: CodeValuesBySat): boolean {
-    const geodetic = ecefToGeodetic(arpM);
+    const geodetic = this.geodeticOf(arpM);
     const sats = new Map<SatId, ReferenceSatellite>();
     const doy = dayOfYear(epoch.tagGpsS);
     // The receiver clock enters the Earth-rotation term (positioning/satellite-for-tag.ts): model with the
