@@ -209,6 +209,20 @@ export class SingleDifferenceEpoch {
     this.satellitesClockM = rxClockM;
   }
 
+  /** The satellite at transmission of a prepared satellite (the last one listed, as a Map of `prepared` would give), or undefined. */
+  get(sat: SatId): SatelliteAtTransmission | undefined {
+    const prepared = this.prepared;
+    for (let i = prepared.length - 1; i >= 0; i--) if (prepared[i].sat === sat) return prepared[i].at;
+    return undefined;
+  }
+
+  /** The prepared single difference of a satellite (the last one listed, as a Map of `prepared` would give), or undefined. */
+  preparedOf(sat: SatId): SingleDifference | undefined {
+    const prepared = this.prepared;
+    for (let i = prepared.length - 1; i >= 0; i--) if (prepared[i].sat === sat) return prepared[i];
+    return undefined;
+  }
+
   /** The clock (m) the satellites' Earth rotation was last computed with. */
   get clockUsedM(): number {
     return this.satellitesClockM;
