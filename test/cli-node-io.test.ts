@@ -33,6 +33,19 @@ describe('input digests taken while reading (sha256File after fileChunks)', () =
     utimesSync(p, new Date(2001, 0, 1), new Date(2001, 0, 1));
     expect(await sha256File(p)).toBe(createHash('sha256').update('abcd').digest('hex'));
   });
+
+  it('two readings at once (the rover file as reference too), in chunks of different sizes, one left behind, give the digest of the file', async () => {
+    const p = join(dir(), 'twice.obs');
+    const text = 'the quick brown fox jumps over the lazy dog';
+    writeFileSync(p, text);
+    const a = fileChunks(p, 3)[Symbol.asyncIterator]();
+    const b = fileChunks(p, 5)[Symbol.asyncIterator]();
+    // a leads, b catches up and overtakes it, a is left unfinished.
+    for (let i = 0; i < 4; i++) await a.next();
+    for (;;) if ((await b.next()).done) break;
+    await a.next();
+    expect(await sha256File(p)).toBe(createHash('sha256').update(text).digest('hex'));
+  });
 });
 
 describe('writeFileAtomic', () => {

@@ -31,18 +31,63 @@ async function fileVersion(path: string): Promise<{ sizeBytes: number; mtimeMs: 
 }
 
 /**
+ * A file's SHA-256 being computed by the readings of it in progress, each adding the bytes past those
+ * already added (readings of one file hold the same bytes at the same offsets): a file read twice at once,
+ * as when the rover's file is the reference's too, is hashed once; a reading left unfinished (a header
+ * probe) leaves the rest to the others.
+ */
+class SharedDigest {
+  private readonly hash = createHash('sha256');
+  /** Bytes hashed: the file's first `bytes` bytes. */
+  bytes = 0;
+  private done = false;
+
+  constructor(readonly version: { readonly sizeBytes: number; readonly mtimeMs: number }) {}
+
+  /** Adds the part of a chunk read at `offset` that extends what is hashed (a reading's chunks start at or before `bytes`). */
+  add(chunk: Uint8Array, offset: number): void {
+    const end = offset + chunk.byteLength;
+    if (this.done || end <= this.bytes || offset > this.bytes) return;
+    this.hash.update(offset === this.bytes ? chunk : chunk.subarray(this.bytes - offset));
+    this.bytes = end;
+  }
+
+  digest(): string {
+    this.done = true;
+    return this.hash.digest('hex');
+  }
+}
+
+/** Per path, the digest the readings in progress are computing (until one reading completes it). */
+const digestsInProgress = new Map<string, SharedDigest>();
+
+/** The digest a new reading of `path` adds to: the one in progress for this version of the file, or a new one. */
+function sharedDigestFor(path: string, version: { sizeBytes: number; mtimeMs: number }): SharedDigest {
+  const now = digestsInProgress.get(path);
+  if (now && now.version.sizeBytes === version.sizeBytes && now.version.mtimeMs === version.mtimeMs) return now;
+  const fresh = new SharedDigest(version);
+  digestsInProgress.set(path, fresh);
+  return fresh;
+}
+
+/**
  * The file's bytes as chunks (what the core readers take); the first complete reading records the file's
- * SHA-256. Every reading started before that hashes (a reading may be left unfinished, as by a header
- * probe, and cannot be waited for): a file read twice at once is hashed twice, once.
+ * SHA-256. Readings started before that add to one digest (SharedDigest): a reading may be left
+ * unfinished, as by a header probe, and cannot be waited for.
  */
 export async function* fileChunks(path: string, chunkBytes = 1 << 16): AsyncIterable<Uint8Array> {
   const version = digestsRead.has(path) ? null : await fileVersion(path);
-  const h = version ? createHash('sha256') : null;
+  const digest = version ? sharedDigestFor(path, version) : null;
+  let offset = 0;
   for await (const c of createReadStream(path, { highWaterMark: chunkBytes })) {
-    h?.update(c as Uint8Array);
+    digest?.add(c as Uint8Array, offset);
+    offset += (c as Uint8Array).byteLength;
     yield c as Uint8Array;
   }
-  if (h && version && !digestsRead.has(path)) digestsRead.set(path, { ...version, sha256: h.digest('hex') });
+  if (digest && !digestsRead.has(path) && digest.bytes === offset) {
+    digestsRead.set(path, { ...digest.version, sha256: digest.digest() });
+    if (digestsInProgress.get(path) === digest) digestsInProgress.delete(path);
+  }
 }
 
 /** Throws one clear InputError when `path` is not a readable regular file. */

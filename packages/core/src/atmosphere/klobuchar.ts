@@ -49,7 +49,8 @@ export function klobucharDelayM(
   let per = beta[0] + phiM * (beta[1] + phiM * (beta[2] + phiM * beta[3]));
   if (per < 72000) per = 72000;
   const x = (2 * GPS_PI * (t - 50400)) / per; // radians
-  const delayS = Math.abs(x) < 1.57 ? f * (5e-9 + amp * (1 - (x * x) / 2 + (x * x * x * x) / 24)) : f * 5e-9;
+  // One product for day and night (the night branch, first met late in a run, then needs no new type feedback).
+  const delayS = f * (Math.abs(x) < 1.57 ? 5e-9 + amp * (1 - (x * x) / 2 + (x * x * x * x) / 24) : 5e-9);
   return delayS * SPEED_OF_LIGHT_MS;
 }
 

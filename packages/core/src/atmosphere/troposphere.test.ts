@@ -64,3 +64,16 @@ describe('troposphere', () => {
     expect(d10 / dz).toBeLessThan(6.5);
   });
 });
+
+describe('slant delay with the receiver parts kept from the last call', () => {
+  it('gives the very doubles of slantTroposphere for receivers, days and elevations in turn', () => {
+    const receivers = [[0.7, 120], [-0.3, 15], [0.7, 120.5], [1.2, -600], [0, 9500]] as const;
+    for (let k = 0; k < 200; k++) {
+      const [lat, h] = receivers[k % receivers.length];
+      const doy = 1 + (k % 7) * 53.25;
+      for (const el of [-0.1, 0.01, 0.2, 0.9, 1.5]) {
+        expect(slantTroposphereM(lat, h, el, doy)).toBe(slantTroposphere(lat, h, el, doy).slantM);
+      }
+    }
+  });
+});

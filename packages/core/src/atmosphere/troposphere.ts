@@ -137,7 +137,60 @@ export function slantTroposphere(latRad: number, heightM: number, elevationRad: 
   return { slantM: zenithHydrostaticM * mapping.hydrostatic + zenithWetM * mapping.wet, zenithHydrostaticM, zenithWetM, mapping };
 }
 
-/** Slant tropospheric delay (m) at a receiver (geodetic latitude rad, height m) for one elevation and day of year. */
+/**
+ * The parts of slantTroposphere that depend on the receiver and the day alone (zenith delays, the mapping
+ * coefficients at its latitude and season), for the last receiver asked about: an epoch's satellites are
+ * modelled one after the other from one receiver, so these are computed once per receiver epoch.
+ */
+class ReceiverTroposphere {
+  latRad = NaN;
+  heightM = NaN;
+  dayOfYear = NaN;
+  zenithHydrostaticM = NaN;
+  zenithWetM = NaN;
+  hydrostaticA = NaN;
+  hydrostaticB = NaN;
+  hydrostaticC = NaN;
+  wetA = NaN;
+  wetB = NaN;
+  wetC = NaN;
+  clampedHeightM = NaN;
+
+  /** Computes the parts for a receiver and day unless they are the last ones (the same expressions as slantTroposphere and niellMapping). */
+  at(latRad: number, heightM: number, dayOfYear: number): void {
+    if (latRad === this.latRad && heightM === this.heightM && dayOfYear === this.dayOfYear) return;
+    const atm = standardAtmosphere(heightM);
+    const h = Math.min(MAX_HEIGHT_M, Math.max(MIN_HEIGHT_M, heightM));
+    this.zenithHydrostaticM = saastamoinenZenithHydrostaticM(atm.pressureHPa, latRad, h);
+    this.zenithWetM = saastamoinenZenithWetM(atm.temperatureK, atm.waterVapourHPa);
+    const absLatDeg = (Math.abs(latRad) * 180) / Math.PI;
+    const doy = latRad < 0 ? dayOfYear + 365.25 / 2 : dayOfYear;
+    const season = Math.cos((2 * Math.PI * (doy - 28)) / 365.25);
+    this.hydrostaticA = interpolate(NMF_H_AVG, absLatDeg, 0) - interpolate(NMF_H_AMP, absLatDeg, 0) * season;
+    this.hydrostaticB = interpolate(NMF_H_AVG, absLatDeg, 1) - interpolate(NMF_H_AMP, absLatDeg, 1) * season;
+    this.hydrostaticC = interpolate(NMF_H_AVG, absLatDeg, 2) - interpolate(NMF_H_AMP, absLatDeg, 2) * season;
+    this.wetA = interpolate(NMF_W, absLatDeg, 0);
+    this.wetB = interpolate(NMF_W, absLatDeg, 1);
+    this.wetC = interpolate(NMF_W, absLatDeg, 2);
+    this.clampedHeightM = h;
+    this.latRad = latRad;
+    this.heightM = heightM;
+    this.dayOfYear = dayOfYear;
+  }
+}
+
+const lastReceiver = new ReceiverTroposphere();
+
+/**
+ * Slant tropospheric delay (m) at a receiver (geodetic latitude rad, height m) for one elevation and day of
+ * year: slantTroposphere(...).slantM, the same double, with the receiver's parts kept from the last call.
+ */
 export function slantTroposphereM(latRad: number, heightM: number, elevationRad: number, dayOfYear: number): number {
-  return slantTroposphere(latRad, heightM, elevationRad, dayOfYear).slantM;
+  const r = lastReceiver;
+  r.at(latRad, heightM, dayOfYear);
+  const sinE = Math.sin(Math.max(elevationRad, MIN_ELEVATION_RAD));
+  const dmdh = 1 / sinE - marini(sinE, NMF_HT[0], NMF_HT[1], NMF_HT[2]);
+  const hydrostatic = marini(sinE, r.hydrostaticA, r.hydrostaticB, r.hydrostaticC) + dmdh * (r.clampedHeightM / 1000);
+  const wet = marini(sinE, r.wetA, r.wetB, r.wetC);
+  return r.zenithHydrostaticM * hydrostatic + r.zenithWetM * wet;
 }

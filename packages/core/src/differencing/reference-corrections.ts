@@ -16,7 +16,7 @@
  * is used on both sides: corrections are computed per issue on demand and cached, so a change of issue is
  * never interpolated across.
  */
-import type { EcefM, Ephemeris, GeodeticRad, GnssSystem, IonosphereCoefficients, ObsEpoch, SatId } from '../gnss/index.js';
+import type { EcefM, Ephemeris, GeodeticRad, GnssSystem, IonosphereCoefficients, ObsEpoch, SatId, CodeValuesBySat } from '../gnss/index.js';
 import { carrierFrequencyHz, satSystem } from '../gnss/index.js';
 import { EphemerisStore, SPEED_OF_LIGHT_MS } from '../orbit/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
@@ -109,7 +109,19 @@ export class ReferenceCorrections {
   unusableEpochs = 0;
   private lastClockM = NaN;
 
+  /** The reference antenna's geodetic coordinates, kept while it stays where it is (every epoch, as a rule). */
+  private lastArpM: EcefM = { x: NaN, y: NaN, z: NaN };
+  private lastGeodetic: GeodeticRad | null = null;
+
   constructor(private readonly ctx: ReferenceContext) {}
+
+  private geodeticOf(arpM: EcefM): GeodeticRad {
+    const last = this.lastArpM;
+    if (this.lastGeodetic !== null && arpM.x === last.x && arpM.y === last.y && arpM.z === last.z) return this.lastGeodetic;
+    this.lastArpM = { x: arpM.x, y: arpM.y, z: arpM.z };
+    this.lastGeodetic = ecefToGeodetic(arpM);
+    return this.lastGeodetic;
+  }
 
   get size(): number {
     return this.epochs.length;
@@ -123,8 +135,8 @@ export class ReferenceCorrections {
    * Adds one reference epoch. `codesOverride` gives smoothed pseudoranges (sat -> code -> m) when
    * carrier smoothing is on. Returns false when no receiver clock could be estimated.
    */
-  addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>, cn0Override?: ReadonlyMap<SatId, number>, factorsOverride?: ReadonlyMap<SatId, ReadonlyMap<string, number>>): boolean {
-    const geodetic = ecefToGeodetic(arpM);
+  addEpoch(epoch: ObsEpoch, arpM: EcefM, codesOverride?: CodeValuesBySat, cn0Override?: ReadonlyMap<SatId, number>, factorsOverride?: CodeValuesBySat): boolean {
+    const geodetic = this.geodeticOf(arpM);
     const sats = new Map<SatId, ReferenceSatellite>();
     const doy = dayOfYear(epoch.tagGpsS);
     // The receiver clock enters the Earth-rotation term (positioning/satellite-for-tag.ts): model with the
@@ -239,11 +251,15 @@ export class ReferenceCorrections {
   /** The reference receiver clock (m) at GPS time t, interpolated between the bracketing epochs (NaN without). */
   clockAt(tGpsS: number, bracket: Bracket): number {
     const { before, after } = bracket;
-    if (before && after && after.timeGpsS > before.timeGpsS) {
+    const first = before !== null ? before : after;
+    if (first === null) return NaN;
+    // Read on every path: a bracket of one epoch, first met late in a run, needs no new type feedback.
+    const firstClockM = first.clockM;
+    if (before !== null && after !== null && after.timeGpsS > before.timeGpsS) {
       const w = (tGpsS - before.timeGpsS) / (after.timeGpsS - before.timeGpsS);
-      return before.clockM + w * (after.clockM - before.clockM);
+      return firstClockM + w * (after.clockM - firstClockM);
     }
-    return (before ?? after)?.clockM ?? NaN;
+    return firstClockM;
   }
 
   /** Codes the reference has for a satellite near a time: from the bracketing epochs, else from the nearest epochs holding it. */
@@ -259,6 +275,28 @@ export class ReferenceCorrections {
       if (rs) for (const c of rs.codes.keys()) out.add(c);
     }
     return out;
+  }
+
+  /**
+   * The first of `roverCodes` that codesNear(sat, t, maxAgeS, bracket) holds, without building that set
+   * (matchCode's choice); null when there is none (codesNear and matchCode then say why).
+   */
+  commonCode(sat: SatId, roverCodes: readonly string[], tGpsS: number, maxAgeS: number, bracket: Bracket): string | null {
+    // A satellite held by an epoch has at least one code (addEpoch), so the bracket's set is empty exactly
+    // when neither bracketing epoch holds the satellite.
+    const before = bracket.before?.sats.get(sat);
+    const after = bracket.after?.sats.get(sat);
+    if (before !== undefined || after !== undefined) {
+      for (const c of roverCodes) if (before?.codes.has(c) || after?.codes.has(c)) return c;
+      return null;
+    }
+    for (const c of roverCodes) {
+      for (const e of this.epochs) {
+        if (Math.abs(e.timeGpsS - tGpsS) > maxAgeS) continue;
+        if (e.sats.get(sat)?.codes.has(c)) return c;
+      }
+    }
+    return null;
   }
 
   /**

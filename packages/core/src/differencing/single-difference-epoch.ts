@@ -10,7 +10,7 @@
  * position only through metres-scale changes of the look angles).
  * Source of the model: Misra & Enge (2011) 7.1, eqs. 7.3-7.6 (see reference-corrections.ts).
  */
-import type { EcefM, GeodeticRad, GnssSystem, SatId } from '../gnss/index.js';
+import type { EcefM, GeodeticRad, GnssSystem, SatId, CodeValuesBySat } from '../gnss/index.js';
 import { carrierFrequencyHz, satSystem, type Ephemeris, type IonosphereCoefficients, type ObsEpoch } from '../gnss/index.js';
 import { SPEED_OF_LIGHT_MS, type EphemerisStore, type SatelliteAtTransmission } from '../orbit/index.js';
 import { ecefToGeodetic } from '../geodesy/index.js';
@@ -78,6 +78,38 @@ function median(v: number[]): number {
   return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
 }
 
+/** Why a satellite has no code in common with the reference (SingleDifferenceEpoch.prepare). */
+function noCommonCodeReason(corrections: ReferenceCorrections, sat: SatId, roverCodes: readonly string[], tagGpsS: number, maxAgeS: number, bracket: Bracket): string {
+  const refCodes = corrections.codesNear(sat, tagGpsS, maxAgeS, bracket);
+  if (refCodes.size === 0) return 'not tracked by the reference';
+  const match = matchCode(roverCodes, refCodes);
+  return match.code === null ? match.reason : 'no common code type';
+}
+
+/** Receiver clocks of an epoch's satellites (m), sorted for their median: kept from epoch to epoch. */
+let clockSamples = new Float64Array(64);
+
+/**
+ * Median receiver clock (m) from the code at x0: P - |sat - x0| + c dt_sv over the satellites, as
+ * median() of those values would give it (sorted as numbers; with a NaN among them, median() itself).
+ */
+function codeClockMedianM(prepared: readonly SingleDifference[], x0: EcefM): number {
+  const n = prepared.length;
+  if (n === 0) return NaN;
+  if (n > clockSamples.length) clockSamples = new Float64Array(2 * n);
+  const v = clockSamples;
+  for (let i = 0; i < n; i++) {
+    const p = prepared[i];
+    const x = p.codeM - Math.hypot(p.satPos.x - x0.x, p.satPos.y - x0.y, p.satPos.z - x0.z) + p.satClockM;
+    // A NaN has no place in a numeric order: median()'s own sort decides where it goes.
+    if (Number.isNaN(x)) return median(prepared.map((q) => q.codeM - Math.hypot(q.satPos.x - x0.x, q.satPos.y - x0.y, q.satPos.z - x0.z) + q.satClockM));
+    v[i] = x;
+  }
+  const s = v.subarray(0, n).sort();
+  const m = n >> 1;
+  return n % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
 export class SingleDifferenceEpoch {
   /** Satellites with a code, an ephemeris and a reference tracking the same code. */
   readonly prepared: SingleDifference[] = [];
@@ -106,8 +138,8 @@ export class SingleDifferenceEpoch {
   constructor(
     readonly epoch: ObsEpoch,
     private readonly ctx: DifferencingContext,
-    smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
-    private readonly smoothedFactors: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
+    smoothed: CodeValuesBySat | undefined,
+    private readonly smoothedFactors: CodeValuesBySat | undefined,
     startM: EcefM,
     previousClockM: number,
   ) {
@@ -118,7 +150,7 @@ export class SingleDifferenceEpoch {
     // Time alignment: the rover clock from its own code at the start position, so corrections are taken
     // at the epoch's estimated GPS time rather than at its receiver-time tag.
     const x0 = startM;
-    this.codeClockM = median(this.prepared.map((p) => p.codeM - Math.hypot(p.satPos.x - x0.x, p.satPos.y - x0.y, p.satPos.z - x0.z) + p.satClockM));
+    this.codeClockM = codeClockMedianM(this.prepared, x0);
     this.timeGpsS = epoch.tagGpsS - (Number.isFinite(this.codeClockM) ? this.codeClockM / SPEED_OF_LIGHT_MS : 0);
     // The clock moved (first epoch, or a millisecond step): redo the Earth rotation with the new estimate.
     if (Number.isFinite(this.codeClockM) && Math.abs(this.codeClockM - this.satellitesClockM) > 30) this.recomputeSatellites(this.codeClockM);
@@ -135,7 +167,7 @@ export class SingleDifferenceEpoch {
     this.maxAgeS = maxAge;
   }
 
-  private prepare(s: ObsEpoch['sats'][number], smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, bracket: Bracket): void {
+  private prepare(s: ObsEpoch['sats'][number], smoothed: CodeValuesBySat | undefined, bracket: Bracket): void {
     const ctx = this.ctx;
     const system = satSystem(s.sat);
     if (!ctx.systems.includes(system)) { this.reasons.set(s.sat, { signal: '', reason: ctx.leftOut.reasonFor(system) }); return; }
@@ -147,11 +179,9 @@ export class SingleDifferenceEpoch {
       this.reasons.set(s.sat, { signal: roverCodes[0], reason: sel.reason === 'too-old' ? `ephemeris too old (${Math.round((sel.ageS ?? 0) / 60)} min)` : sel.reason === 'unhealthy' ? 'unhealthy ephemeris' : 'no ephemeris' });
       return;
     }
-    const refCodes = ctx.corrections.codesNear(s.sat, tag, ctx.maxAgeS + 1, bracket);
-    if (refCodes.size === 0) { this.reasons.set(s.sat, { signal: roverCodes[0], reason: 'not tracked by the reference' }); return; }
-    const match = matchCode(roverCodes, refCodes);
-    if (match.code === null) { this.reasons.set(s.sat, { signal: roverCodes[0], reason: match.reason }); return; }
-    const code = match.code;
+    // The reference's codes as a set (and the match as an object) only to say why there is no common one.
+    const code = ctx.corrections.commonCode(s.sat, roverCodes, tag, ctx.maxAgeS + 1, bracket);
+    if (code === null) { this.reasons.set(s.sat, { signal: roverCodes[0], reason: noCommonCodeReason(ctx.corrections, s.sat, roverCodes, tag, ctx.maxAgeS + 1, bracket) }); return; }
     const codeM = smoothed?.get(s.sat)?.get(code) ?? pseudorangeOf(s, code);
     if (!Number.isFinite(codeM)) { this.reasons.set(s.sat, { signal: code, reason: 'smoothing filter not ready' }); return; }
     const at = satelliteForTag(sel.eph, tag, codeM, this.satellitesClockM, null, clockSignal(system, code[1]));
@@ -177,6 +207,20 @@ export class SingleDifferenceEpoch {
       p.satClockM = SPEED_OF_LIGHT_MS * at.clock.offsetS;
     }
     this.satellitesClockM = rxClockM;
+  }
+
+  /** The satellite at transmission of a prepared satellite (the last one listed, as a Map of `prepared` would give), or undefined. */
+  get(sat: SatId): SatelliteAtTransmission | undefined {
+    const prepared = this.prepared;
+    for (let i = prepared.length - 1; i >= 0; i--) if (prepared[i].sat === sat) return prepared[i].at;
+    return undefined;
+  }
+
+  /** The prepared single difference of a satellite (the last one listed, as a Map of `prepared` would give), or undefined. */
+  preparedOf(sat: SatId): SingleDifference | undefined {
+    const prepared = this.prepared;
+    for (let i = prepared.length - 1; i >= 0; i--) if (prepared[i].sat === sat) return prepared[i];
+    return undefined;
   }
 
   /** The clock (m) the satellites' Earth rotation was last computed with. */

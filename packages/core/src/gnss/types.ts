@@ -19,6 +19,14 @@ export function isGnssSystem(c: string): c is GnssSystem {
 }
 
 /** Earth-centred, Earth-fixed Cartesian coordinates in metres. */
+/**
+ * Values per satellite and code of one epoch (e.g. a receiver's carrier-smoothed pseudoranges, m), as
+ * read by the stages that use them: a Map of Maps is one, and so is the smoother's own store.
+ */
+export interface CodeValuesBySat {
+  get(sat: SatId): { get(code: string): number | undefined; has(code: string): boolean } | undefined;
+}
+
 export interface EcefM {
   readonly x: number;
   readonly y: number;

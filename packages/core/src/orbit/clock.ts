@@ -101,6 +101,23 @@ export function groupDelayS(eph: KeplerEphemeris, signal: SignalKind): number {
   }
 }
 
+/**
+ * satelliteClock(eph, t, signal).offsetS without the object (the same arithmetic, so the same double): the
+ * transmission time's first step needs the offset alone.
+ */
+export function satelliteClockOffsetS(eph: Ephemeris, tGpsS: number, signal?: SignalKind): number {
+  if (eph.kind !== 'kepler') return satelliteClock(eph, tGpsS, signal).offsetS;
+  const sig = signal ?? defaultSignal(eph);
+  const c = keplerConstantsFor(eph.system);
+  const dt = tGpsS - eph.tocGpsS;
+  const A = eph.sqrtA * eph.sqrtA;
+  const n = Math.sqrt(c.muM3S2 / (A * A * A)) + eph.deltaN;
+  const E = solveKepler(eph.m0 + n * (tGpsS - eph.toeGpsS), eph.e);
+  const rel = c.relativisticF * eph.e * eph.sqrtA * Math.sin(E);
+  const gd = groupDelayS(eph, sig);
+  return eph.af0 + eph.af1 * dt + eph.af2 * dt * dt + rel - gd;
+}
+
 /** Satellite clock offset and drift at GPS time t (s) for the signal (default: the system's primary one). */
 export function satelliteClock(eph: Ephemeris, tGpsS: number, signal?: SignalKind): SatelliteClock {
   const sig = signal ?? defaultSignal(eph);

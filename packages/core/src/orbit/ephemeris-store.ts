@@ -233,8 +233,8 @@ function chooseIssue(index: SatelliteIssues, tGpsS: number, marginS: number, all
     for (let i = 0; i < refGpsS.length; i++) ageS = Math.min(ageS, Math.abs(tGpsS - refGpsS[i]!));
     return failedSelection('too-old', ageS);
   }
-  const pick = (i: number): Selection => ({ eph: list[i]!, reason: undefined, ageS: tGpsS - refGpsS[i]! });
   // Nearest record without penalty, walking out from t; the penalties exceed any distance in the window.
+  let chosen = -1;
   if (window < NOT_YET_TRANSMITTED_S / 2) {
     const mid = firstAfter(refGpsS, tGpsS, lo, hi);
     let left = mid - 1, right = mid;
@@ -254,17 +254,26 @@ function chooseIssue(index: SatelliteIssues, tGpsS: number, marginS: number, all
         right++;
       }
     }
-    if (found >= 0) return pick(found);
+    chosen = found;
   }
-  let best = -1;
-  let bestScore = Infinity;
-  for (let i = lo; i < hi; i++) {
-    const p = penaltyS(list[i]!, tGpsS, allowUnhealthy, wantFnav);
-    if (p < 0) continue;
-    const score = Math.abs(tGpsS - refGpsS[i]!) + p;
-    if (score <= bestScore) { best = i; bestScore = score; }
+  if (chosen < 0) {
+    let bestScore = Infinity;
+    for (let i = lo; i < hi; i++) {
+      const p = penaltyS(list[i]!, tGpsS, allowUnhealthy, wantFnav);
+      if (p < 0) continue;
+      const score = Math.abs(tGpsS - refGpsS[i]!) + p;
+      if (score <= bestScore) { chosen = i; bestScore = score; }
+    }
   }
-  return best >= 0 ? pick(best) : failedSelection('unhealthy', NaN);
+  // One call site for both searches and for no usable record: a path first met late in a run then needs
+  // no new type feedback here (a deoptimisation and a recompilation).
+  return selectionOf(list, refGpsS, chosen, tGpsS);
+}
+
+/** The selection of record i, or none usable (unhealthy) when i < 0: a module-level function, no closure made per selection. */
+function selectionOf(list: readonly Ephemeris[], refGpsS: Float64Array, i: number, tGpsS: number): Selection {
+  const found = i >= 0;
+  return { eph: found ? list[i]! : null, reason: found ? undefined : 'unhealthy', ageS: found ? tGpsS - refGpsS[i]! : NaN } as Selection;
 }
 
 /** First index i >= from with a[i] >= x (a sorted ascending). */
@@ -272,7 +281,11 @@ function firstAtOrAfter(a: Float64Array, x: number, from: number): number {
   let lo = from, hi = a.length;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
-    if (a[mid]! < x) lo = mid + 1; else hi = mid;
+    // Both bounds written every step: a branch first taken late would need type feedback it lacks.
+    const below = a[mid]! < x;
+    const next = mid + 1;
+    lo = below ? next : lo;
+    hi = below ? hi : mid;
   }
   return lo;
 }
@@ -282,7 +295,10 @@ function firstAfter(a: Float64Array, x: number, from: number, to: number): numbe
   let lo = from, hi = to;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
-    if (a[mid]! <= x) lo = mid + 1; else hi = mid;
+    const atOrBelow = a[mid]! <= x;
+    const next = mid + 1;
+    lo = atOrBelow ? next : lo;
+    hi = atOrBelow ? hi : mid;
   }
   return lo;
 }

@@ -48,7 +48,22 @@ function derived(eph: KeplerEphemeris): KeplerDerived {
  * Solves Kepler's equation M = E - e sin E by Newton iteration (IS-GPS-200 table 20-IV, "may be
  * solved by iteration"), to |dE| < 1e-13 rad.
  */
+/** The last solveKepler call: a satellite's clock and its orbit are wanted at the same instant (orbit/transmit.ts). */
+let lastMeanAnomalyRad = NaN;
+let lastEccentricity = NaN;
+let lastEccentricAnomalyRad = NaN;
+
 export function solveKepler(meanAnomalyRad: number, e: number): number {
+  // The same arguments give the same result: the clock and the state at one transmission time solve once.
+  if (meanAnomalyRad === lastMeanAnomalyRad && e === lastEccentricity) return lastEccentricAnomalyRad;
+  const E = iterateKepler(meanAnomalyRad, e);
+  lastMeanAnomalyRad = meanAnomalyRad;
+  lastEccentricity = e;
+  lastEccentricAnomalyRad = E;
+  return E;
+}
+
+function iterateKepler(meanAnomalyRad: number, e: number): number {
   let E = meanAnomalyRad;
   for (let k = 0; k < 30; k++) {
     const dE = (E - e * Math.sin(E) - meanAnomalyRad) / (1 - e * Math.cos(E));

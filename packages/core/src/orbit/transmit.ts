@@ -12,7 +12,7 @@
 import type { Ephemeris } from '../gnss/index.js';
 import type { EcefM } from '../gnss/index.js';
 import { SPEED_OF_LIGHT_MS, earthRotationRadS } from './constants.js';
-import { satelliteClock, type SatelliteClock, type SignalKind } from './clock.js';
+import { satelliteClock, satelliteClockOffsetS, type SatelliteClock, type SignalKind } from './clock.js';
 import { satelliteStateInto } from './state.js';
 
 export interface SatelliteAtTransmission {
@@ -68,8 +68,7 @@ export function satelliteAtTransmission(
   if (pseudorangeM !== null) {
     tauS = pseudorangeM / SPEED_OF_LIGHT_MS;
     // One fixed-point step suffices: dt_sv changes by drift * dt_sv ~ 1e-11 * 1e-3 s between passes.
-    clock = satelliteClock(eph, rxTimeGpsS - tauS, signal);
-    tauS = pseudorangeM / SPEED_OF_LIGHT_MS + clock.offsetS;
+    tauS = pseudorangeM / SPEED_OF_LIGHT_MS + satelliteClockOffsetS(eph, rxTimeGpsS - tauS, signal);
     clock = satelliteClock(eph, rxTimeGpsS - tauS, signal);
     satelliteStateInto(eph, rxTimeGpsS - tauS, buf);
     rotateZ(we * tauS, buf);

@@ -14,13 +14,19 @@ export function residualRowsOf(s: EpochSolution): string[][] {
   const t = weekTowFromGpsS(s.timeGpsS);
   const week = String(t.week);
   const tow = fixed(t.towS, 3);
-  return s.satellites.map((r) => [
-    week, tow, r.sat, r.signal,
-    fixed(r.elevationDeg, 2), fixed(r.azimuthDeg, 2),
-    fixed(r.residualM, 4), r.used ? fixed(r.weight, 4) : '', fixed(r.wTest, 3),
-    r.used ? 'used' : 'rejected',
-    r.reason,
-  ]);
+  // Rows pushed, not made by Array.prototype.map: the builtin's result array and the one of map inlined in
+  // optimised code differ in elements kind, which deoptimised the CSV writer's readers ("wrong map").
+  const rows: string[][] = [];
+  for (const r of s.satellites) {
+    rows.push([
+      week, tow, r.sat, r.signal,
+      fixed(r.elevationDeg, 2), fixed(r.azimuthDeg, 2),
+      fixed(r.residualM, 4), r.used ? fixed(r.weight, 4) : '', fixed(r.wTest, 3),
+      r.used ? 'used' : 'rejected',
+      r.reason,
+    ]);
+  }
+  return rows;
 }
 
 export function residualRows(solutions: readonly EpochSolution[]): CsvTable {

@@ -112,7 +112,9 @@ export function positionScatter(positions: readonly EcefM[]): ScatterStats {
  * generation.
  */
 export class PositionSeries {
-  private xyz = new Float64Array(3 * 1024);
+  // Small at first: the growth is met (and its type feedback recorded) in the first epochs, before push()
+  // and its callers are optimised, so a growth later in a run does not deoptimise them.
+  private xyz = new Float64Array(3 * 16);
   length = 0;
 
   push(p: EcefM): void {

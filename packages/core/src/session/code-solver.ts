@@ -4,9 +4,9 @@
  * global test and data snooping (solve/position-fix.ts); a standalone fix instead when asked for and no
  * differential one is possible.
  */
-import type { EcefM, ObsEpoch, ObsHeader, SatId } from '../gnss/index.js';
+import type { EcefM, ObsEpoch, ObsHeader, SatId, CodeValuesBySat } from '../gnss/index.js';
 import { solvePositionFix, type FixOptions, type PositionFix, type Rejection, type RowOutcome, type SatelliteResidual } from '../solve/index.js';
-import { SingleDifferenceEpoch, type DifferencingContext, type SingleDifference } from '../differencing/index.js';
+import { SingleDifferenceEpoch, type DifferencingContext } from '../differencing/index.js';
 import { solveStandaloneEpoch, type StandaloneContext } from '../standalone/index.js';
 import type { EpochSolution, SolutionKind } from './solution-types.js';
 import { differentialRecord, noSolution, noSolutionSatellite, standaloneRecord, type RecordContext } from './epoch-records.js';
@@ -55,21 +55,30 @@ export function fixSingleDifferences(sd: SingleDifferenceEpoch, start: EcefM, op
   return fix;
 }
 
+/** The outcome of a satellite's row in a fix (the last listed), or undefined. */
+function usedOf(used: readonly RowOutcome[], sat: SatId): RowOutcome | undefined {
+  for (let i = used.length - 1; i >= 0; i--) if (used[i].row.sat === sat) return used[i];
+  return undefined;
+}
+
+/** A satellite's rejection in a fix (the last listed), or undefined. */
+function rejectionOf(rejected: readonly Rejection[], sat: SatId): Rejection | undefined {
+  for (let i = rejected.length - 1; i >= 0; i--) if (rejected[i].sat === sat) return rejected[i];
+  return undefined;
+}
+
 /** Every satellite of the epoch with its residual or the reason it was not used. */
 function satelliteList(ctx: CodeSolverContext, e: ObsEpoch, sd: SingleDifferenceEpoch, fix: ReturnType<typeof solvePositionFix> | null): SatelliteResidual[] {
-  const usedBySat = new Map<SatId, RowOutcome>();
-  if (fix && fix.ok) for (const u of fix.used) usedBySat.set(u.row.sat, u);
-  const rejBySat = new Map<SatId, Rejection>();
-  if (fix) for (const r of fix.rejected) rejBySat.set(r.sat, r);
-  const preparedBySat = new Map<SatId, SingleDifference>();
-  for (const q of sd.prepared) preparedBySat.set(q.sat, q);
+  // A dozen satellites: looked up by scanning (the last one listed wins, as in a Map), no Map per epoch.
+  const used = fix && fix.ok ? fix.used : null;
+  const rejected = fix ? fix.rejected : null;
   const out: SatelliteResidual[] = [];
   for (const s of e.sats) {
     const pre = sd.reasons.get(s.sat);
-    const p = preparedBySat.get(s.sat);
+    const p = sd.preparedOf(s.sat);
     const geo = sd.geometry.get(s.sat);
-    const u = usedBySat.get(s.sat);
-    const rej = rejBySat.get(s.sat);
+    const u = used !== null ? usedOf(used, s.sat) : undefined;
+    const rej = rejected !== null ? rejectionOf(rejected, s.sat) : undefined;
     const maskReason = sd.belowMask.has(s.sat) && geo ? `below elevation mask (${(geo.el / DEG).toFixed(1)} deg)`
       : sd.belowMaskRef.has(s.sat) && p ? `below elevation mask at the reference (${(p.elevationRefRad / DEG).toFixed(1)} deg)` : undefined;
     const reason = pre?.reason ?? maskReason ?? rej?.reason ?? (u ? '' : fix && !fix.ok ? `no solution (${fix.reason})` : 'not used');
@@ -86,8 +95,8 @@ function satelliteList(ctx: CodeSolverContext, e: ObsEpoch, sd: SingleDifference
 
 /** One rover epoch solved from its single differences. */
 export function solveCodeEpoch(
-  ctx: CodeSolverContext, e: ObsEpoch, smoothed: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined,
-  smoothedFactors: ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined, refArp: EcefM,
+  ctx: CodeSolverContext, e: ObsEpoch, smoothed: CodeValuesBySat | undefined,
+  smoothedFactors: CodeValuesBySat | undefined, refArp: EcefM,
 ): EpochSolution {
   const d = ctx.differencing;
   const nearestS = d.corrections.nearestEpochS(e.tagGpsS);

@@ -4,7 +4,7 @@
  * their first epoch, a reference that moves refused, and the window of epochs kept bounded by the
  * correction age limit.
  */
-import type { AntennaOffset, EcefM, ObsEpoch, ObsHeader, ObsStream, SatId } from '../gnss/index.js';
+import type { AntennaOffset, EcefM, ObsEpoch, ObsHeader, ObsStream, SatId, CodeValuesBySat } from '../gnss/index.js';
 import { ProcessingError, type WarningSink } from '../errors.js';
 import { isoFromSeconds } from '../time/index.js';
 import type { ReferenceCorrections } from '../differencing/index.js';
@@ -13,11 +13,11 @@ import { markToArp } from '../geodesy/index.js';
 
 /** A per-receiver filter the reference epochs pass through (carrier smoothing), if any. */
 export interface ReferenceFilter {
-  update(epoch: SourcedEpoch['epoch']): ReadonlyMap<SatId, ReadonlyMap<string, number>> | undefined;
+  update(epoch: SourcedEpoch['epoch']): CodeValuesBySat | undefined;
   /** Satellites of a flag-6 epoch (cycle-slip records) restart. */
   slipsReported?(epoch: SourcedEpoch['epoch']): void;
   /** Variance factors of the last update's values (sat -> code -> factor). */
-  readonly factors?: ReadonlyMap<SatId, ReadonlyMap<string, number>>;
+  readonly factors?: CodeValuesBySat;
   reset(): void;
 }
 

@@ -52,8 +52,10 @@ class DopplerSpeed {
 
   speedAt(e: ObsEpoch, at: EcefM, sd?: SingleDifferenceEpoch): number {
     const setup = this.setup;
-    const satellites = sd ? new Map(sd.prepared.map((p) => [p.sat, p.at] as const)) : undefined;
-    const v = dopplerVelocity(e, at, setup.store, { systems: setup.systems, elevationMaskRad: setup.maskRad, glonassChannels: setup.glonassChannels, ...(satellites ? { satellites } : {}) });
+    // The epoch's satellites looked up in the single differences themselves (SingleDifferenceEpoch.get), no Map per epoch.
+    const v = dopplerVelocity(e, at, setup.store, sd
+      ? { systems: setup.systems, elevationMaskRad: setup.maskRad, glonassChannels: setup.glonassChannels, satellites: sd }
+      : { systems: setup.systems, elevationMaskRad: setup.maskRad, glonassChannels: setup.glonassChannels });
     return v ? v.speedMS : NaN;
   }
 }

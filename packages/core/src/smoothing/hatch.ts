@@ -69,12 +69,52 @@ interface SatState {
   dopplerHz: number;
 }
 
+/**
+ * Why a filter restarted (or a note on a continuing one), as CarrierSmoother.step records it: module-level
+ * constants (a property of a constants object would be a load needing type feedback in the step).
+ */
+const REASON_NONE = 0;
+const REASON_NO_CODE = 1;
+const REASON_START = 2;
+const REASON_NO_PHASE = 3;
+const REASON_PHASE_RESUMED = 4;
+const REASON_LOST_LOCK = 5;
+const REASON_HALF_CYCLE = 6;
+const REASON_NOT_AFTER = 7;
+const REASON_GAP = 8;
+const REASON_DOPPLER_SLIP = 9;
+const REASON_CODE_CARRIER_JUMP = 10;
+const REASON_CLOCK_JUMP_REPAIRED = 11;
+
+/** The text of a reason code; `value` is the previous epoch's time (not after, gap) or the innovation (m, code-carrier jump). */
+function reasonText(code: number, value: number, epochTimeS: number, jump: ClockJump | null): string | undefined {
+  switch (code) {
+    case REASON_NO_CODE: return 'no code pseudorange';
+    case REASON_START: return 'start';
+    case REASON_NO_PHASE: return 'no carrier phase';
+    case REASON_PHASE_RESUMED: return 'carrier phase resumed';
+    case REASON_LOST_LOCK: return 'loss of lock (LLI bit 0)';
+    case REASON_HALF_CYCLE: return 'half-cycle flag changed (LLI bit 1)';
+    case REASON_NOT_AFTER: return `epoch time not after the previous one (${epochTimeS} <= ${value})`;
+    case REASON_GAP: return `data gap of ${(epochTimeS - value).toFixed(3)} s`;
+    case REASON_DOPPLER_SLIP: return 'carrier change not explained by the Doppler (cycle slip)';
+    case REASON_CODE_CARRIER_JUMP: return `code-minus-carrier jump of ${value.toFixed(2)} m (cycle slip)`;
+    case REASON_CLOCK_JUMP_REPAIRED: return `receiver clock jump of ${jump!.milliseconds} ms repaired`;
+    default: return undefined;
+  }
+}
+
 const LLI_LOST_LOCK_BIT = 1; // RINEX 2.11 5.1 / RINEX 3.05 5.3: bit 0 = lost lock, bit 1 = half cycle
 const LLI_HALF_CYCLE_BIT = 2;
 
+/** Satellites per filter the working arrays hold before they grow (a filter is per code: all of one system's satellites in view, or more). */
+const SCRATCH_START_CAPACITY = 64;
+
 /**
- * Working arrays of one epoch's satellites (CarrierSmoother.update, dopplerSlipFlags), kept from epoch to
- * epoch and grown when an epoch has more satellites: the filter runs every epoch of every receiver.
+ * Working arrays of one epoch's satellites (CarrierSmoother.step, dopplerSlipFlags), kept from epoch to
+ * epoch and grown when an epoch has more satellites: the filter runs every epoch of every receiver. They
+ * start large enough for any usual epoch, so the growth (a branch first met late in a run would cost a
+ * deoptimisation of the step) is rare.
  */
 class SmootherScratch {
   capacity = 0;
@@ -91,21 +131,37 @@ class SmootherScratch {
   minusCycles = new Float64Array(0);
   deviations = new Float64Array(0);
   sorted = new Float64Array(0);
+  /**
+   * The epoch's outputs per satellite (CarrierSmoother.step): smoothed code (m), filter length, restart
+   * flag, and the reason as a code with its number (the text is made only by update(), from reasonText).
+   */
+  smoothedM = new Float64Array(0);
+  length = new Float64Array(0);
+  restarted = new Uint8Array(0);
+  reason = new Uint8Array(0);
+  reasonValue = new Float64Array(0);
 
-  /** Ready for n satellites: the per-satellite arrays hold NaN (no value) and 0 (no flag) throughout. */
+  constructor(capacity = SCRATCH_START_CAPACITY) {
+    this.grow(capacity);
+  }
+
+  private grow(c: number): void {
+    this.capacity = c;
+    this.continuing = new Uint8Array(c); this.slip = new Uint8Array(c);
+    this.cmcChangeM = new Float64Array(c); this.dPhaseCycles = new Float64Array(c);
+    this.dopplerPrevHz = new Float64Array(c); this.dopplerHz = new Float64Array(c); this.dtS = new Float64Array(c);
+    this.index = new Int32Array(c); this.plusCycles = new Float64Array(c); this.minusCycles = new Float64Array(c);
+    this.deviations = new Float64Array(c); this.sorted = new Float64Array(c);
+    this.smoothedM = new Float64Array(c); this.length = new Float64Array(c); this.restarted = new Uint8Array(c);
+    this.reason = new Uint8Array(c); this.reasonValue = new Float64Array(c);
+  }
+
+  /** Ready for n satellites: the first n of the per-satellite arrays hold NaN (no value) and 0 (no flag); nothing reads past n. */
   reset(n: number): void {
-    if (n > this.capacity) {
-      const c = Math.max(n, 2 * this.capacity, 16);
-      this.capacity = c;
-      this.continuing = new Uint8Array(c); this.slip = new Uint8Array(c);
-      this.cmcChangeM = new Float64Array(c); this.dPhaseCycles = new Float64Array(c);
-      this.dopplerPrevHz = new Float64Array(c); this.dopplerHz = new Float64Array(c); this.dtS = new Float64Array(c);
-      this.index = new Int32Array(c); this.plusCycles = new Float64Array(c); this.minusCycles = new Float64Array(c);
-      this.deviations = new Float64Array(c); this.sorted = new Float64Array(c);
-    }
-    this.continuing.fill(0); this.slip.fill(0);
-    this.cmcChangeM.fill(NaN); this.dPhaseCycles.fill(NaN);
-    this.dopplerPrevHz.fill(NaN); this.dopplerHz.fill(NaN); this.dtS.fill(NaN);
+    if (n > this.capacity) this.grow(Math.max(n, 2 * this.capacity));
+    this.continuing.fill(0, 0, n); this.slip.fill(0, 0, n);
+    this.cmcChangeM.fill(NaN, 0, n); this.dPhaseCycles.fill(NaN, 0, n);
+    this.dopplerPrevHz.fill(NaN, 0, n); this.dopplerHz.fill(NaN, 0, n); this.dtS.fill(NaN, 0, n);
   }
 }
 
@@ -140,7 +196,7 @@ function madAbout(values: Float64Array, count: number, m: number, deviations: Fl
  */
 export function dopplerSlipFlags(dPhaseCycles: ArrayLike<number>, dopplerPrevHz: ArrayLike<number>, dopplerHz: ArrayLike<number>, dtS: ArrayLike<number>): boolean[] {
   const n = dPhaseCycles.length;
-  const w = new SmootherScratch();
+  const w = new SmootherScratch(Math.max(n, 1));
   w.reset(n);
   for (let i = 0; i < n; i++) {
     w.dPhaseCycles[i] = dPhaseCycles[i]; w.dopplerPrevHz[i] = dopplerPrevHz[i]; w.dopplerHz[i] = dopplerHz[i]; w.dtS[i] = dtS[i];
@@ -210,6 +266,29 @@ export class CarrierSmoother {
   }
 
   update(epochTimeS: number, sats: readonly SmootherInput[]): SmootherOutput[] {
+    const count = this.step(epochTimeS, sats);
+    const r = this.scratch;
+    const out: SmootherOutput[] = new Array(count);
+    for (let i = 0; i < count; i++) {
+      const reason = reasonText(r.reason[i], r.reasonValue[i], epochTimeS, this.lastClockJump);
+      const restarted = r.restarted[i] === 1;
+      out[i] = reason === undefined
+        ? { sat: sats[i].sat, smoothedM: r.smoothedM[i], n: r.length[i], restarted }
+        : { sat: sats[i].sat, smoothedM: r.smoothedM[i], n: r.length[i], restarted, reason };
+    }
+    return out;
+  }
+
+  /** The last step's outputs: smoothedM, length (n) and restarted (1) of its first `count` satellites. */
+  get outputs(): { readonly smoothedM: Float64Array; readonly length: Float64Array; readonly restarted: Uint8Array } {
+    return this.scratch;
+  }
+
+  /**
+   * update() without an object per satellite: the outputs are written to `outputs` (valid until the next
+   * step), for callers that run the filter every epoch. Returns the number of satellites.
+   */
+  step(epochTimeS: number, sats: readonly SmootherInput[]): number {
     const count = sats.length;
     const scratch = this.scratch;
     scratch.reset(count);
@@ -233,37 +312,41 @@ export class CarrierSmoother {
     const jump = detectMillisecondClockJump(scratch.cmcChangeM.subarray(0, count), this.jumpOptions);
     this.lastClockJump = jump;
     // 3. per satellite
-    const out: SmootherOutput[] = new Array(count);
+    const { smoothedM: outM, length: outN, restarted: outRestarted, reason: outReason, reasonValue: outValue } = scratch;
     for (let i = 0; i < count; i++) {
       const o = sats[i];
       const st = this.states.get(o.sat);
       const phaseM = o.phaseCycles * o.wavelengthM;
       if (!Number.isFinite(o.codeM)) {
         this.states.delete(o.sat);
-        out[i] = { sat: o.sat, smoothedM: NaN, n: 0, restarted: true, reason: 'no code pseudorange' };
+        outM[i] = NaN; outN[i] = 0; outRestarted[i] = 1; outReason[i] = REASON_NO_CODE; outValue[i] = NaN;
         continue;
       }
-      let reason: string | undefined;
-      if (!st) reason = 'start';
-      else if (!Number.isFinite(phaseM)) reason = 'no carrier phase';
-      else if (!Number.isFinite(st.phaseM)) reason = 'carrier phase resumed';
-      else if ((o.lli & LLI_LOST_LOCK_BIT) !== 0) reason = 'loss of lock (LLI bit 0)';
-      else if ((o.lli & LLI_HALF_CYCLE_BIT) !== (st.lli & LLI_HALF_CYCLE_BIT)) reason = 'half-cycle flag changed (LLI bit 1)';
-      else if (!(epochTimeS - st.timeS > 0)) reason = `epoch time not after the previous one (${epochTimeS} <= ${st.timeS})`;
-      else if (epochTimeS - st.timeS > this.gapThresholdS) reason = `data gap of ${(epochTimeS - st.timeS).toFixed(3)} s`;
-      else if (scratch.slip[i] === 1) reason = 'carrier change not explained by the Doppler (cycle slip)';
-      let note: string | undefined;
-      if (reason === undefined && st) {
+      // Reasons as codes (and a number), their text made by update() alone: a reason first met late in a
+      // run then needs no new type feedback in this per-epoch step (a deoptimisation and a recompilation).
+      let reason: number = REASON_NONE;
+      let reasonValue = NaN;
+      if (!st) reason = REASON_START;
+      else if (!Number.isFinite(phaseM)) reason = REASON_NO_PHASE;
+      else if (!Number.isFinite(st.phaseM)) reason = REASON_PHASE_RESUMED;
+      else if ((o.lli & LLI_LOST_LOCK_BIT) !== 0) reason = REASON_LOST_LOCK;
+      else if ((o.lli & LLI_HALF_CYCLE_BIT) !== (st.lli & LLI_HALF_CYCLE_BIT)) reason = REASON_HALF_CYCLE;
+      else if (!(epochTimeS - st.timeS > 0)) { reason = REASON_NOT_AFTER; reasonValue = st.timeS; }
+      else if (epochTimeS - st.timeS > this.gapThresholdS) { reason = REASON_GAP; reasonValue = st.timeS; }
+      else if (scratch.slip[i] === 1) reason = REASON_DOPPLER_SLIP;
+      let note: number = REASON_NONE;
+      if (reason === REASON_NONE && st) {
         let history = st.smoothedM;
         if (jump && scratch.continuing[i] === 1 && Math.abs(scratch.cmcChangeM[i] - jump.jumpM) <= this.clockJumpToleranceM) {
           history += jump.jumpM;
-          note = `receiver clock jump of ${jump.milliseconds} ms repaired`;
+          note = REASON_CLOCK_JUMP_REPAIRED;
         }
         // Hatch 1982 / Navipedia: prediction R_{k-1} + lambda (Phi_k - Phi_{k-1})
         const predicted = history + (phaseM - st.phaseM);
         const innovation = o.codeM - predicted;
         if (Math.abs(innovation) > this.codeCarrierJumpM) {
-          reason = `code-minus-carrier jump of ${innovation.toFixed(2)} m (cycle slip)`;
+          reason = REASON_CODE_CARRIER_JUMP;
+          reasonValue = innovation;
         } else {
           // Weight of the new code: 1/n while the filter fills, then dt/tau, so the time constant is in
           // seconds whatever the logging interval (irregular epochs included): R = w P + (1 - w) prediction.
@@ -276,16 +359,16 @@ export class CarrierSmoother {
           st.lli = o.lli; st.dopplerHz = o.dopplerHz ?? NaN;
           // Reported filter length: the effective number of epochs averaged, 1 / w.
           const length = Math.round(1 / w);
-          out[i] = note ? { sat: o.sat, smoothedM, n: length, restarted: false, reason: note } : { sat: o.sat, smoothedM, n: length, restarted: false };
+          outM[i] = smoothedM; outN[i] = length; outRestarted[i] = 0; outReason[i] = note; outValue[i] = NaN;
           continue;
         }
       }
       this.states.set(o.sat, { sat: o.sat, n: 1, smoothedM: o.codeM, codeM: o.codeM, phaseM, timeS: epochTimeS, lli: o.lli, dopplerHz: o.dopplerHz ?? NaN });
-      out[i] = { sat: o.sat, smoothedM: o.codeM, n: 1, restarted: true, reason };
+      outM[i] = o.codeM; outN[i] = 1; outRestarted[i] = 1; outReason[i] = reason; outValue[i] = reasonValue;
     }
     // 4. bounded memory: satellites silent for long restart anyway; kept a while so the restart can say "gap"
     const forgetS = Math.max(10 * this.gapThresholdS, 600);
     for (const st of this.states.values()) if (epochTimeS - st.timeS > forgetS) this.states.delete(st.sat);
-    return out;
+    return count;
   }
 }

@@ -26,6 +26,46 @@ export class SmoothingArcs {
 }
 
 /**
+ * One satellite's values of an epoch per code, read as a map (get, has, size). Emptied and refilled
+ * every epoch without allocating: a Map's clear() gives it a new table, and a double set into a Map is
+ * a new heap number, per satellite and epoch of every smoothed receiver. A handful of codes: linear search.
+ */
+export class CodeValues {
+  private readonly codes: string[] = [];
+  private values = new Float64Array(4);
+  private count = 0;
+
+  get size(): number {
+    return this.count;
+  }
+
+  get(code: string): number | undefined {
+    for (let i = 0; i < this.count; i++) if (this.codes[i] === code) return this.values[i];
+    return undefined;
+  }
+
+  has(code: string): boolean {
+    for (let i = 0; i < this.count; i++) if (this.codes[i] === code) return true;
+    return false;
+  }
+
+  set(code: string, value: number): void {
+    for (let i = 0; i < this.count; i++) if (this.codes[i] === code) { this.values[i] = value; return; }
+    if (this.count === this.values.length) {
+      const grown = new Float64Array(2 * this.count);
+      grown.set(this.values);
+      this.values = grown;
+    }
+    this.codes[this.count] = code;
+    this.values[this.count++] = value;
+  }
+
+  clear(): void {
+    this.count = 0;
+  }
+}
+
+/**
  * A primary-band pseudorange of a code list with its carrier phase and Doppler (companionCodes), as
  * indices in the list.
  */
@@ -75,15 +115,17 @@ export class ReceiverSmoother {
    * Variance factor of the last update's outputs: sat -> code -> factor. A satellite's map is kept from
    * epoch to epoch and emptied (a satellite without values this epoch has an empty one).
    */
-  readonly factors = new Map<SatId, Map<string, number>>();
+  readonly factors = new Map<SatId, CodeValues>();
   /** The last update's smoothed values, kept and emptied as `factors` (update() returns it). */
-  private readonly smoothed = new Map<SatId, Map<string, number>>();
+  private readonly smoothed = new Map<SatId, CodeValues>();
   restarts = 0;
   /** The inputs per code, in the order the codes first came in this epoch (inputsOf). */
   private readonly inputs: CodeInputs[] = [];
   private readonly inputsByCode = new Map<string, CodeInputs>();
   /** The last arcValue: smoothed value (m) and its variance factor. */
   private readonly value = { m: NaN, factor: 1 };
+  /** The arc's two-sided value at the epoch (SmoothingArc.atInto). */
+  private readonly arcPoint = { cmcM: NaN, varianceFactor: 1 };
 
   constructor(
     private readonly intervalS: number,
@@ -132,7 +174,7 @@ export class ReceiverSmoother {
    * Smoothed pseudoranges of the epoch: sat -> code -> m (only where the filter had a value), valid until
    * the next update. The maps are reused, not made per satellite and epoch.
    */
-  update(epoch: ObsEpoch): ReadonlyMap<SatId, ReadonlyMap<string, number>> {
+  update(epoch: ObsEpoch): ReadonlyMap<SatId, CodeValues> {
     const out = this.smoothed;
     for (const m of out.values()) m.clear();
     for (const m of this.factors.values()) m.clear();
@@ -141,19 +183,23 @@ export class ReceiverSmoother {
     for (const { code, list } of this.inputs) {
       let f = this.filters.get(code);
       if (!f) { f = new CarrierSmoother({ intervalS: this.intervalS, timeConstantS: this.timeConstantS, gapThresholdS: Math.max(this.maxGapS, 2 * this.intervalS + 1e-3) }); this.filters.set(code, f); }
-      const results = f.update(t, list);
-      const jumpM = (this.jumpsM.get(code) ?? 0) + (f.clockJump?.jumpM ?? 0);
-      this.jumpsM.set(code, jumpM);
-      for (let i = 0; i < results.length; i++) {
-        const r = results[i], row = list[i];
-        if (r.restarted && r.n <= 1) this.restarts++;
-        const value = this.arcValue(code, t, row, r.restarted, jumpM, r.smoothedM, r.n);
+      const count = f.step(t, list);
+      const { smoothedM, length, restarted } = f.outputs;
+      const jump = f.clockJump;
+      let jumpM = this.jumpsM.get(code) ?? 0;
+      // A Map holds a double as a new heap number: set only when a jump changed it.
+      if (jump !== null) { jumpM += jump.jumpM; this.jumpsM.set(code, jumpM); }
+      for (let i = 0; i < count; i++) {
+        const row = list[i];
+        const isRestart = restarted[i] === 1;
+        if (isRestart && length[i] <= 1) this.restarts++;
+        const value = this.arcValue(code, t, row, isRestart, jumpM, smoothedM[i], length[i]);
         if (!Number.isFinite(value.m)) continue;
-        let m = out.get(r.sat);
-        if (!m) { m = new Map(); out.set(r.sat, m); }
+        let m = out.get(row.sat);
+        if (!m) { m = new CodeValues(); out.set(row.sat, m); }
         m.set(code, value.m);
-        let fm = this.factors.get(r.sat);
-        if (!fm) { fm = new Map(); this.factors.set(r.sat, fm); }
+        let fm = this.factors.get(row.sat);
+        if (!fm) { fm = new CodeValues(); this.factors.set(row.sat, fm); }
         fm.set(code, value.factor);
       }
     }
@@ -176,8 +222,8 @@ export class ReceiverSmoother {
       const arc = current.get(row.sat);
       if (this.mode === 'record') arc?.add(t, row.codeM - phaseM - jumpM);
       else {
-        const v = Number.isFinite(phaseM) ? arc?.at(t) : null;
-        if (v && Number.isFinite(v.cmcM)) { value.m = phaseM + jumpM + v.cmcM; value.factor = v.varianceFactor; return value; }
+        const v = this.arcPoint;
+        if (Number.isFinite(phaseM) && arc !== undefined && arc.atInto(t, v) && Number.isFinite(v.cmcM)) { value.m = phaseM + jumpM + v.cmcM; value.factor = v.varianceFactor; return value; }
         value.m = row.codeM; value.factor = 1;
         return value;
       }

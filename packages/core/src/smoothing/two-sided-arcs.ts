@@ -94,8 +94,14 @@ export class SmoothingArc {
 
   /** Two-sided CMC average at time t and its variance factor relative to one raw code; null before finish(). */
   at(tS: number): { cmcM: number; varianceFactor: number } | null {
+    const out = { cmcM: NaN, varianceFactor: NaN };
+    return this.atInto(tS, out) ? out : null;
+  }
+
+  /** at() written into `out` (no object per call); false where at() gives null. */
+  atInto(tS: number, out: { cmcM: number; varianceFactor: number }): boolean {
     const ts = this.twoSided;
-    if (!ts || ts.value.length === 0) return null;
+    if (!ts || ts.value.length === 0) return false;
     const j = Math.min(Math.max(Math.floor((tS - this.startS) / this.binS), 0), ts.value.length - 1);
     const here = ts.weight[j] > 0 ? ts.value[j] / ts.weight[j] : NaN;
     // Interpolate towards the neighbouring bin on t's side of this bin's mean time.
@@ -109,6 +115,8 @@ export class SmoothingArc {
     const nEff = Math.max(1, ts.weight[j]);
     const windowS = Number.isFinite(this.intervalS) ? nEff * this.intervalS : 0;
     const factor = Math.min(1, Math.max(1 / nEff, windowS > 0 ? CODE_ERROR_CORRELATION_S / windowS : 1));
-    return { cmcM: cmc, varianceFactor: factor };
+    out.cmcM = cmc;
+    out.varianceFactor = factor;
+    return true;
   }
 }

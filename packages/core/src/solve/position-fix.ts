@@ -233,7 +233,10 @@ function finish(a: Assembled, x: EcefM, test: GlobalTestResult, iterations: numb
   const s = a.solution;
   const n = s.n;
   const snoopAll = dataSnoopingValues(s, a.variances);
-  const used: RowOutcome[] = a.rows.map((row, i) => ({ row, residualM: s.residuals[i], wTest: snoopAll[i] }));
+  // Built by push, not Array.prototype.map: the builtin's result array and the one of map inlined in optimised
+  // code differ in elements kind, and the readers of `used` were deoptimised ("wrong map") once finish() was.
+  const used: RowOutcome[] = [];
+  for (let i = 0; i < a.rows.length; i++) used.push({ row: a.rows[i], residualM: s.residuals[i], wTest: snoopAll[i] });
   const cov = new Float64Array(9);
   for (let j = 0; j < 3; j++) for (let k = 0; k < 3; k++) cov[j * 3 + k] = s.qxx[j * n + k];
   const clocksM = new Map<GnssSystem, number>();

@@ -34,7 +34,7 @@ import { PRIMARY_BAND, clockSignal } from '../observables/index.js';
 
 export interface DopplerVelocityOptions {
   /** Satellites already computed for this epoch (position, velocity, clock at transmission), reused when present. */
-  readonly satellites?: ReadonlyMap<SatId, SatelliteAtTransmission>;
+  readonly satellites?: { get(sat: SatId): SatelliteAtTransmission | undefined };
   readonly systems: readonly GnssSystem[];
   readonly elevationMaskRad: number;
   /** GLONASS slot -> frequency channel k (for the FDMA wavelength). */
