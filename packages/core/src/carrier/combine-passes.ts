@@ -1,8 +1,13 @@
 /**
  * Forward and backward passes combined per epoch:
  *  - both fixed and within `agreementM` (3-D) of each other: fixed, at their covariance-weighted mean;
- *  - one fixed, the other float with the fixed position inside its 3-sigma box (plus the agreement
- *    distance): fixed, at the fixed position (the float pass has not converged yet, and does not object);
+ *  - one fixed, the other float, and the fixed position consistent with the float one: the difference
+ *    d = fixed - float passes d' (C_float + C_fixed)^-1 d <= chi-square(3 dof) at FIX_FLOAT_ALPHA: fixed, at
+ *    the fixed position (the float pass has not converged yet, and does not object). A test of the whole
+ *    3-D difference against the full covariance, not of each axis against its own sigma: the float
+ *    solution's errors are correlated between the axes (a box per axis, 3 sigma plus the agreement
+ *    distance, let GLONASS-only fixes 1 m off through while the other pass's float put them at chi-square
+ *    20 to 90 on the real static run);
  *  - otherwise float: the two float solutions weighted by their covariances (the combination of a
  *    forward and a backward filter, Fraser & Potter 1969, shares only the epoch's own measurements);
  *  - one pass only: that pass's solution.
@@ -11,8 +16,18 @@
  * both fixed and agree; for a float combination, the float pass with the smaller formal variance (none
  * when both passes fixed and disagree: neither pass's residuals belong to the combined float position).
  */
+import { chiSquareQuantile } from '../solve/index.js';
 import type { EpochResult } from './float-filter.js';
 import type { PassResults } from './pass-results.js';
+
+/**
+ * Significance level of the test of one pass's fixed position against the other pass's float: 0.1 %, the
+ * failure rate the integer search itself is held to (options.ts minSuccessRate 0.999) and the default level
+ * of the code epochs' global test (session/options.ts).
+ */
+const FIX_FLOAT_ALPHA = 0.001;
+/** chi-square(3 dof) quantile at 1 - FIX_FLOAT_ALPHA (16.27). */
+const FIX_FLOAT_CRITICAL = chiSquareQuantile(1 - FIX_FLOAT_ALPHA, 3);
 
 function inv3(c: ArrayLike<number>, o: number): number[] | null {
   const a = c[o], b = c[o + 1], d = c[o + 2], e = c[o + 3], f = c[o + 4], g = c[o + 5];
@@ -85,7 +100,7 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
   }
   if (kf !== kb) {
     const [fx, fl] = kf === 2 ? [f, bFloat] : [bFixed, fFloat];
-    if (insideBox(fx, fl, agreementM)) {
+    if (consistentWithFloat(fx, fl)) {
       if (kf !== 2) { set(2, b.position, b.covariance, 0, 0); r.fixedAmbiguities[i] = b.fixedAmbiguities; }
       return kf === 2 ? 1 : 2;
     }
@@ -98,15 +113,19 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
   return from;
 }
 
-/** Offsets of the variances xx, yy, zz in a covariance (xx, xy, xz, yy, yz, zz). */
-const DIAGONAL = [0, 3, 5];
-
-/** Whether the fixed position is inside the float solution's 3-sigma box (per ECEF axis) plus the agreement distance. */
-function insideBox(fx: Solution, fl: Solution, agreementM: number): boolean {
-  for (let a = 0; a < 3; a++) {
-    if (!(Math.abs(fx.position[3 * fx.i + a] - fl.position[3 * fl.i + a]) <= 3 * Math.sqrt(fl.covariance[6 * fl.i + DIAGONAL[a]]) + agreementM)) return false;
-  }
-  return true;
+/**
+ * Whether a fixed position is consistent with the other pass's float one: the squared Mahalanobis distance
+ * of their difference with the sum of their covariances within chi-square(3 dof) at FIX_FLOAT_ALPHA. The
+ * two passes share the epoch's own measurements only, so the sum is close to the difference's covariance.
+ */
+function consistentWithFloat(fx: Solution, fl: Solution): boolean {
+  const o = 6 * fx.i, p = 6 * fl.i;
+  const w = inv3([fx.covariance[o] + fl.covariance[p], fx.covariance[o + 1] + fl.covariance[p + 1], fx.covariance[o + 2] + fl.covariance[p + 2],
+    fx.covariance[o + 3] + fl.covariance[p + 3], fx.covariance[o + 4] + fl.covariance[p + 4], fx.covariance[o + 5] + fl.covariance[p + 5]], 0);
+  if (!w) return false;
+  const d = [fx.position[3 * fx.i] - fl.position[3 * fl.i], fx.position[3 * fx.i + 1] - fl.position[3 * fl.i + 1], fx.position[3 * fx.i + 2] - fl.position[3 * fl.i + 2]];
+  const wd = mulSym(w, d);
+  return d[0] * wd[0] + d[1] * wd[1] + d[2] * wd[2] <= FIX_FLOAT_CRITICAL;
 }
 
 /**

@@ -201,3 +201,21 @@ describe('summarisePoint', () => {
     expect(summarisePoint(samples, { horizontalToleranceM: 0.1 }).toleranceFlag).toBe('scatter-exceeds-tolerance');
   });
 });
+
+describe('summarisePoint: errors that persist over the occupation', () => {
+  it('does not reduce the formal sigma by the number of correlation times when the epochs\' errors persist (float carrier epochs)', () => {
+    const origin = geodeticToEcef({ latRad: degToRad(53.28), lonRad: degToRad(-9.06), heightM: 68 });
+    // 1200 s of positions scattered by 1 mm with a formal sigma of 0.1 m: the formal sigma decides.
+    const g = ecefToGeodetic(origin);
+    const z = normals(7, 3 * 1200);
+    const samples = Array.from({ length: 1200 }, (_, i) => {
+      const d = enuToEcefDelta({ e: 0.001 * z[3 * i], n: 0.001 * z[3 * i + 1], u: 0.001 * z[3 * i + 2] }, g.latRad, g.lonRad);
+      return { ecef: { x: origin.x + d.x, y: origin.y + d.y, z: origin.z + d.z }, tGpsS: i, sigmaEnuM: { e: 0.1, n: 0.1, u: 0.2 } };
+    });
+    const averaged = summarisePoint(samples);
+    const persisting = summarisePoint(samples, { formalErrorsPersist: true });
+    expect(averaged.sigmaMeanEastM).toBeCloseTo(0.1 / Math.sqrt(1199 / 300), 6);
+    expect(persisting.sigmaMeanEastM).toBeCloseTo(0.1, 6);
+    expect(persisting.sigmaMeanUpM).toBeCloseTo(0.2, 6);
+  });
+});

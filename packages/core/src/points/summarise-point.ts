@@ -41,6 +41,13 @@ export interface SummariseOptions {
   readonly referenceSigma?: ReferenceSigma;
   /** Smallest sigma of the mean (m, per horizontal axis and vertical), for errors the epochs cannot show. */
   readonly sigmaFloor?: ReferenceSigma;
+  /**
+   * The epochs' errors persist over the whole occupation, so their formal sigma is not reduced by the number
+   * of correlation times it lasted: float carrier-phase epochs, whose errors come from the float
+   * ambiguities shared by every epoch of their arcs (and the filter's sigma of a float epoch is already
+   * that of an estimate from many epochs). Default false.
+   */
+  readonly formalErrorsPersist?: boolean;
 }
 
 /** How well the reference coordinate itself is known (1 sigma, m). */
@@ -123,7 +130,7 @@ export function summarisePoint(samples: readonly PointSample[], opts: SummariseO
   const formal = sig.length > 0
     ? { e: scale * median(sig.map((x) => x.e)), n: scale * median(sig.map((x) => x.n)), u: scale * median(sig.map((x) => x.u)) }
     : { e: 0, n: 0, u: 0 };
-  const nCorrelation = Math.max(1, (Number.isFinite(durationS) ? durationS : 0) / (opts.correlationTimeS ?? 300));
+  const nCorrelation = opts.formalErrorsPersist ? 1 : Math.max(1, (Number.isFinite(durationS) ? durationS : 0) / (opts.correlationTimeS ?? 300));
   const minEpochs = opts.minEpochs ?? 10;
   const tol = opts.horizontalToleranceM ?? 1.0;
   const floorH = opts.sigmaFloor?.horizontalM ?? 0, floorV = opts.sigmaFloor?.verticalM ?? 0;
