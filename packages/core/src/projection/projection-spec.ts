@@ -1,14 +1,15 @@
 /**
  * Turns a user's projection name into a PROJ string. Supported EPSG codes (parameters from the EPSG
  * dataset definitions, written out here: common practice):
- * - EPSG:4326 WGS 84 geographic (degrees), EPSG:3857 WGS 84 / Pseudo-Mercator (spherical formulas on
- *   a = 6378137 m applied to geodetic latitude);
+ * - EPSG:4326 WGS 84 geographic (degrees: `units` 'deg'; `points` refuses a geographic CRS, the marks
+ *   reader too), EPSG:3857 WGS 84 / Pseudo-Mercator (spherical formulas on a = 6378137 m applied to
+ *   geodetic latitude);
  * - EPSG:32601..32660 / 32701..32760 WGS 84 / UTM zone N / S;
  * - EPSG:25828..25838 ETRS89 / UTM zone 28N..38N (GRS80);
  * - EPSG:26901..26923 NAD83 / UTM zone 1N..23N (GRS80);
  * - 'utm': the zone of a given point (utm-zone.ts), in the points' frame: the EPSG UTM CRS of that frame
- *   where the dataset has one (WGS 84 32601..32760, ETRS89 25828..25837 (25838 is deprecated), NAD83 26901..26923, GDA94 / MGA
- *   28348..28358, GDA2020 / MGA 7846..7859), else the UTM parameters alone (`parametersOnly`: the
+ *   where the dataset has one (WGS 84 32601..32760, ETRS89 25828..25837 (25838 is deprecated),
+ *   NAD83 26901..26923, GDA94 / MGA 28348..28358, GDA2020 / MGA 7846..7859), else the UTM parameters alone (`parametersOnly`: the
  *   coordinates are labelled with the points' own frame, report/grid-crs.ts);
  * - any '+proj=...' PROJ string as given.
  * The strings carry an ellipsoid only, never a datum shift: coordinates are expected to be in the

@@ -5,7 +5,8 @@
  * top-level foreign member "refdelta" (RFC 7946 section 6.1).
  *
  * Projection: applied to latitude/longitude in the points' own frame (projection/projection.ts never
- * shifts datums): easting/northing are in that frame too. Orthometric heights: H = h - N with the
+ * shifts datums): easting/northing are in that frame too, and the CRS stated for them follows it
+ * (grid-crs.ts), not the code asked for. Orthometric heights: H = h - N with the
  * chosen geoid (geoid/geoid-model.ts); EGM96 is a global model, not a national vertical datum.
  */
 import type { FrameEpoch } from '../gnss/index.js';
