@@ -7,6 +7,7 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { fixturePath } from './support/shared.js';
+import proj4 from 'proj4';
 import { expectOneSentence, parseCsv, requireBuiltCli, runCli, tempDir } from './cli-support.js';
 
 const DEMO = (f: string) => fixturePath(`demo/${f}`);
@@ -132,4 +133,52 @@ describe.skipIf(!HAVE)('refdelta check on the demo scenario', () => {
     expect(rows.length).toBe(4);
     for (const x of rows) expect(Number(x.three_d_m)).toBeLessThan(1e-3);
   });
+
+  it('marks in any EPSG grid the points command accepts (EPSG:2056 here) give the same differences as the same marks in latitude/longitude', () => {
+    const o = tempDir('rd-check-demo-grid-');
+    // The marks' latitude/longitude through the LV95 formulas (the EPSG dataset's parameters, no datum shift:
+    // the reader inverts them the same way), written as grid marks with the same frame, epoch and accuracy.
+    const lv95 = '+proj=somerc +lat_0=46.9524055555556 +lon_0=7.43958333333333 +k_0=1 +x_0=2600000 +y_0=1200000 +ellps=bessel +units=m +no_defs';
+    const marks = parseCsv(readFileSync(DEMO('control-marks.csv'), 'utf8')).rows;
+    const grid = ['name,easting_m,northing_m,h_m,projection,frame,epoch,accuracy_h_m,accuracy_v_m', ...marks.map((m) => {
+      const [e, n] = proj4('+proj=longlat +ellps=bessel +no_defs', lv95).forward([Number(m.lon_deg), Number(m.lat_deg)]) as number[];
+      return [m.name, e!.toFixed(5), n!.toFixed(5), m.h_m, 'EPSG:2056', m.frame, m.epoch, m.accuracy_h_m, m.accuracy_v_m].join(',');
+    })];
+    writeFileSync(join(o, 'grid-marks.csv'), grid.join('\n') + '\n');
+    const r = runCli(['check', '--points', pts, '--marks', join(o, 'grid-marks.csv'), '--out', join(o, 'grid')]);
+    expect(r.status, r.stderr).toBe(0);
+    const r0 = runCli(['check', '--points', pts, '--marks', DEMO('control-marks.csv'), '--out', join(o, 'geo')]);
+    expect(r0.status, r0.stderr).toBe(0);
+    const a = parseCsv(readFileSync(join(o, 'grid', 'control-check.csv'), 'utf8')).rows;
+    const b = parseCsv(readFileSync(join(o, 'geo', 'control-check.csv'), 'utf8')).rows;
+    expect(a.map((x) => x.mark)).toEqual(b.map((x) => x.mark));
+    for (const [i, x] of a.entries()) {
+      for (const c of ['d_east_m', 'd_north_m', 'd_up_m']) expect(Math.abs(Number(x[c]) - Number(b[i]![c])), `${x.mark} ${c}`).toBeLessThan(1e-3);
+    }
+  });
+
+  it("difference test: with carrier-phase points (sigma about 1 cm) WELLHEAD's planted 3 cm is rejected at 95 %, the true marks accepted; pass/fail and the exit code stay the tolerance's", () => {
+    const o = tempDir('rd-check-demo-carrier-');
+    const rp = runCli(['points', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'),
+      '--ref-coord', 'KFRD', '--marks', DEMO('control-marks.csv'), '--carrier-phase', 'on', '--outputs', 'summary', '--out', join(o, 'pts')]);
+    expect(rp.status, rp.stderr).toBe(0);
+    const r = runCli(['check', '--points', join(o, 'pts', 'points.csv'), '--marks', DEMO('control-marks.csv'), '--out', join(o, 'chk')]);
+    expect(r.status, r.stderr).toBe(0);
+    const rows = parseCsv(readFileSync(join(o, 'chk', 'control-check.csv'), 'utf8')).rows;
+    expect(rows.map((x) => [x.mark, x.pass, x.difference_test])).toEqual([
+      ['MILLSTONE', 'pass', 'accepted'], ['ELMCORNER', 'pass', 'accepted'], ['WELLHEAD', 'pass', 'rejected-horizontal'],
+    ]);
+    // The statistic recomputed from the table: (d_e/s_e)^2 + (d_n/s_n)^2, s = sqrt(sigma_mean^2 + accuracy_h^2 / 2).
+    const pts2 = parseCsv(readFileSync(join(o, 'pts', 'points.csv'), 'utf8')).rows;
+    for (const x of rows) {
+      const p = pts2.find((q) => q.name === x.point)!;
+      const se = Math.sqrt(Number(p.sigma_mean_east_m) ** 2 + 0.01 ** 2 / 2), sn = Math.sqrt(Number(p.sigma_mean_north_m) ** 2 + 0.01 ** 2 / 2);
+      expect(Number(x.sigma_d_east_m)).toBeCloseTo(se, 4);
+      expect(Number(x.chi2_h)).toBeCloseTo((Number(x.d_east_m) / se) ** 2 + (Number(x.d_north_m) / sn) ** 2, 1);
+    }
+    expect(r.stderr).toMatch(/WELLHEAD vs mark WELLHEAD: the difference is larger than the point's precision and the mark's accuracy explain \(rejected at 95 %\)/);
+    const j = JSON.parse(readFileSync(join(o, 'chk', 'control-check.json'), 'utf8'));
+    expect(j.difference_test).toMatchObject({ level: 0.95, critical_h: 5.991, critical_v: 3.841, tested: 3, rejected: 1, decides_pass: false });
+    expect(j.all_pass).toBe(true);
+  }, 120_000);
 });

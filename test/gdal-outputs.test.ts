@@ -51,20 +51,34 @@ if (!HAVE_GDAL) console.warn('[skip] outputs read with GDAL: ogrinfo/ogr2ogr/cs2
 describe.skipIf(!HAVE_GDAL)('outputs read with GDAL, projected coordinates against PROJ (demo scenario, simulated)', () => {
   let out = '';
   let out2 = '';
+  let out3 = '';
+  let out4 = '';
   let chk = '';
   beforeAll(() => {
     requireBuiltCli();
     out = tempDir('rd-gdal-');
-    const r = runCli(['points', ...RUN, ...ALL_OUTPUTS, '--smooth', '100', '--projection', 'EPSG:2157', '--geoid', 'egm96', '--out', out]);
+    // The demo's frame is WGS84: 'utm' is WGS 84 / UTM zone 32N (EPSG:32632).
+    const r = runCli(['points', ...RUN, ...ALL_OUTPUTS, '--smooth', '100', '--projection', 'utm', '--geoid', 'egm96', '--out', out]);
     expect(r.status, r.stderr).toBe(0);
-    // A second national grid: the Swiss LV95 (EPSG:2056), on another datum (CH1903+): projected as given, with a warning.
+    expect(r.stderr).not.toMatch(/projection-datum|on a datum other than/);
+    // National grids on other datums: the Swiss LV95 (EPSG:2056, CH1903+ on Bessel 1841) and the Irish ITM
+    // (EPSG:2157, IRENET95 on GRS80): projected as given, with a warning, and labelled as what they are.
     out2 = tempDir('rd-gdal2-');
     const r2 = runCli(['points', ...RUN, '--outputs', 'summary', '--projection', 'EPSG:2056', '--out', out2]);
     expect(r2.status, r2.stderr).toBe(0);
     expect(r2.stderr).toMatch(/CH1903\+ \/ LV95 \(EPSG:2056\) is on a datum other than the points' frame WGS84/);
+    out3 = tempDir('rd-gdal3-');
+    const r3 = runCli(['points', ...RUN, '--outputs', 'summary', '--projection', 'EPSG:2157', '--out', out3]);
+    expect(r3.status, r3.stderr).toBe(0);
+    expect(r3.stderr).toMatch(/IRENET95 \/ Irish Transverse Mercator \(EPSG:2157\) is on a datum other than the points' frame WGS84/);
+    // The reference coordinate from the file header: its frame is unstated.
+    out4 = tempDir('rd-gdal4-');
+    const r4 = runCli(['points', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'), '--ref-coord', 'header', '--outputs', 'summary', '--projection', 'utm', '--out', out4]);
+    expect(r4.status, r4.stderr).toBe(0);
+    expect(r4.stderr).toMatch(/frame is not stated \('unstated'\): easting\/northing are UTM zone 32N grid coordinates on an unknown datum/);
     chk = tempDir('rd-gdal-chk-');
-    const r3 = runCli(['check', '--points', join(out, 'points.csv'), '--marks', DEMO('control-marks.csv'), '--outputs', 'gpkg', '--out', chk]);
-    expect([0, 3]).toContain(r3.status);
+    const rc = runCli(['check', '--points', join(out, 'points.csv'), '--marks', DEMO('control-marks.csv'), '--outputs', 'gpkg', '--out', chk]);
+    expect([0, 3]).toContain(rc.status);
   }, 240_000);
 
   it('epochs.csv: one feature per epoch, geometry on every positioned row, CRS from epochs.prj (WGS84 frame -> EPSG:4326)', () => {
@@ -85,8 +99,8 @@ describe.skipIf(!HAVE_GDAL)('outputs read with GDAL, projected coordinates again
     const pts = readLayer(join(out, 'points.csv'), undefined, CSV_EN);
     expect(pts.features.length).toBe(4);
     expect(pts.features.every((f) => f.geometry?.type === 'Point')).toBe(true);
-    // CRS as stated: points.prj is the EPSG dataset's WKT of the projection asked for.
-    expect(pts.crs).toBe('urn:ogc:def:crs:EPSG::2157');
+    // CRS as stated: points.prj is the EPSG dataset's WKT of the projection asked for (same datum as the points).
+    expect(pts.crs).toBe('urn:ogc:def:crs:EPSG::32632');
   });
 
   it('GeoPackage: epochs, residuals and points layers; counts, geometry and the frame CRS', () => {
@@ -136,17 +150,42 @@ describe.skipIf(!HAVE_GDAL)('outputs read with GDAL, projected coordinates again
     }
   });
 
-  it('projected coordinates within 1 mm of PROJ (cs2cs) for EPSG:2157 and EPSG:2056, from the base geographic CRS named in the .prj', () => {
-    for (const dir of [out, out2]) {
-      const prj = readFileSync(join(dir, 'points.prj'), 'utf8');
-      const projected = /AUTHORITY\["EPSG","(\d+)"\]\]\s*$/.exec(prj)![1];
-      // GEOGCS[...,AUTHORITY["EPSG","4173"]]: the base geographic CRS; no datum shift between the two.
-      const base = /GEOGCS\[.*?AUTHORITY\["EPSG","(\d+)"\]\],PROJECTION/.exec(prj.replace(/\n/g, ''))![1];
+  it('points.prj as GDAL reads it: the EPSG CRS when the datum is the points\' frame, else the grid on the points\' datum or an unknown one, never the code asked for', () => {
+    const info = (dir: string) => tool('ogrinfo', ['-so', ...CSV_EN.flatMap((o) => ['-oo', o]), join(dir, 'points.csv'), 'points']);
+    expect(layerEpsg(join(out, 'points.csv'), 'points', CSV_EN)).toBe(32632);
+    // EPSG:2157 on WGS 84 points: the ITM parameters on WGS 84 (GRS80 and WGS 84 agree to 0.1 mm); not EPSG:2157.
+    expect(info(out3)).toMatch(/PROJCRS\["WGS 84 \/ Irish Transverse Mercator parameters \(not EPSG:2157\)"[\s\S]*DATUM\["World Geodetic System 1984"/);
+    expect(layerEpsg(join(out3, 'points.csv'), 'points', CSV_EN)).not.toBe(2157);
+    // EPSG:2056 (Bessel 1841) on WGS 84 points: an unknown datum on Bessel 1841.
+    expect(info(out2)).toMatch(/DATUM\["unknown"[\s\S]*ELLIPSOID\["Bessel 1841"/);
+    expect(info(out2)).not.toMatch(/CH1903/);
+    // Unstated frame: an unknown datum, and no EPSG code anywhere in the CRS.
+    expect(info(out4)).toMatch(/PROJCRS\["unknown datum \/ UTM zone 32N"[\s\S]*DATUM\["unknown"/);
+    expect(layerEpsg(join(out4, 'points.csv'), 'points', CSV_EN)).toBe(9001);
+    const meta = JSON.parse(readFileSync(join(out4, 'points.csv.meta.json'), 'utf8'));
+    expect(meta.projection).toMatchObject({ epsg: null, name: 'unknown datum / UTM zone 32N' });
+    expect(meta.projection.definition).not.toMatch(/datum|towgs84/);
+    const gj = JSON.parse(readFileSync(join(out4, 'points.geojson'), 'utf8'));
+    expect(gj.refdelta.projection_epsg).toBeNull();
+    expect(gj.refdelta.projection).not.toMatch(/WGS ?84/);
+  });
+
+  it('projected coordinates within 1 mm of PROJ (cs2cs) from the base geographic CRS of points.prj to points.prj itself', () => {
+    for (const dir of [out, out2, out3, out4]) {
+      const prj = readFileSync(join(dir, 'points.prj'), 'utf8').trim();
+      // The base geographic CRS of the .prj (its GEOGCS element): no datum shift between the two.
+      const start = prj.indexOf('GEOGCS[');
+      let depth = 0, end = start;
+      for (let i = start; i < prj.length; i++) {
+        if (prj[i] === '[') depth++;
+        else if (prj[i] === ']' && --depth === 0) { end = i + 1; break; }
+      }
       const row = parseCsv(readFileSync(join(dir, 'points.csv'), 'utf8')).rows[0]!;
-      // EPSG axis order of a geographic CRS: latitude, longitude.
-      const [e, n] = tool('cs2cs', ['-f', '%.6f', `EPSG:${base}`, `EPSG:${projected}`], `${row.latitude_deg} ${row.longitude_deg}\n`).trim().split(/\s+/).map(Number);
-      expect(Math.abs(Number(row.easting_m) - e!), `${projected} easting`).toBeLessThan(1e-3);
-      expect(Math.abs(Number(row.northing_m) - n!), `${projected} northing`).toBeLessThan(1e-3);
+      // Without its EPSG code PROJ reads a WKT 1 geographic CRS as longitude, latitude (with it, in the EPSG order).
+      const base = prj.slice(start, end).replace(/,AUTHORITY\["EPSG","\d+"\]\]$/, ']');
+      const [e, n] = tool('cs2cs', ['-f', '%.6f', base, prj], `${row.longitude_deg} ${row.latitude_deg}\n`).trim().split(/\s+/).map(Number);
+      expect(Math.abs(Number(row.easting_m) - e!), `${dir} easting`).toBeLessThan(1e-3);
+      expect(Math.abs(Number(row.northing_m) - n!), `${dir} northing`).toBeLessThan(1e-3);
     }
   });
 

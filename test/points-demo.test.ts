@@ -95,4 +95,14 @@ describe.skipIf(!HAVE)('refdelta points on the demo scenario', () => {
     for (const [i, x] of rows.entries()) expect(x.antenna_height_m).toBe(Number(truthWindows()[i].h).toFixed(4));
     for (const e of horizontalErrors(text).values()) { expect(e.h).toBeLessThan(1.0); expect(Math.abs(e.u)).toBeLessThan(1.5); }
   });
+
+  it('a geographic CRS is refused as --projection, with one sentence, before any run', () => {
+    for (const spec of ['EPSG:4326', '+proj=longlat +ellps=GRS80 +no_defs']) {
+      const o = tempDir('rd-points-demo-geog-');
+      const r = runCli(['points', ...RUN, '--projection', spec, '--out', o]);
+      expect(r.status).toBe(2);
+      expect(r.stderr).toMatch(/is a geographic CRS, not a map projection \(latitude_deg and longitude_deg already hold geographic coordinates\): give a projected CRS/);
+      expect(existsSync(join(o, 'points.csv'))).toBe(false);
+    }
+  });
 });

@@ -2,6 +2,7 @@
 import { readFile } from 'node:fs/promises';
 import { decimalYearFromGpsS, parseMarksFile, type FrameEpoch, type Warning } from '@refdelta/core';
 import { requireFile } from './node-io.js';
+import { epsgLookup } from './epsg-lookup.js';
 import type { ReferenceChoice, ResolvedReference } from './reference-choice.js';
 import { UsageError } from './usage-error.js';
 import { requireKnownFrame } from './frame-check.js';
@@ -14,7 +15,7 @@ export async function referenceFromMark(
 ): Promise<ResolvedReference> {
   await requireFile(choice.marksFile);
   const text = await readFile(choice.marksFile, 'utf8');
-  const marks = parseMarksFile(choice.marksFile, text, warn);
+  const marks = parseMarksFile(choice.marksFile, text, warn, epsgLookup);
   const wanted = choice.markName.trim().toLowerCase();
   const mark = marks.find((m) => m.name.trim().toLowerCase() === wanted);
   if (!mark) {

@@ -65,7 +65,7 @@ export function definePointsOptions<T>(c: Argv<T>): Argv<T> {
   return c.option('windows', { type: 'string', describe: 'occupation CSV: name,start,end[,antenna_height_m,height_kind] (takes precedence over event flags and Doppler)', group: 'Points:' })
     .option('tolerance-h', { type: 'number', default: DEFAULT_POINT_TOLERANCE_H_M, describe: 'flag points whose horizontal scatter exceeds this (m)', group: 'Points:' })
     .option('tolerance-v', { type: 'number', default: DEFAULT_POINT_TOLERANCE_V_M, describe: 'flag points whose vertical scatter exceeds this (m)', group: 'Points:' })
-    .option('projection', { type: 'string', describe: "grid coordinates: EPSG:xxxx, a '+proj=...' string, or utm (zone of the first point)", group: 'Points:' })
+    .option('projection', { type: 'string', describe: "grid coordinates: EPSG:xxxx of a projected CRS, a '+proj=...' string, or utm (zone of the first point, in the points' frame); labelled by the points' frame", group: 'Points:' })
     .option('geoid', { type: 'string', describe: 'orthometric heights: egm96, or a geoid grid FILE in the ISG format or as a GeoTIFF (as PROJ distributes them)', group: 'Points:' }) as Argv<T>;
 }
 

@@ -7,13 +7,13 @@ import { readFile } from 'node:fs/promises';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
 import {
-  CHECK_OUTPUT_FORMATS, CONTROL_CHECK_COLUMNS, checkAgainstControl, csvtText, controlCheckJson, controlCheckNotes, controlCheckRows, fixed, metadataFileName, tableMetadata,
-  looksLikeTransformationName, parseMarksFile, parseHelmertJson, parsePointsCsv, shippedTransformation, type HelmertParams,
+  CHECK_OUTPUT_FORMATS, CONTROL_CHECK_COLUMNS, differenceTestWord, checkAgainstControl, csvtText, controlCheckJson, controlCheckNotes, controlCheckRows, fixed, metadataFileName, tableMetadata,
+  looksLikeTransformationName, parseMarksFile, parseHelmertJson, parsePointsCsv, shippedTransformation, type DifferenceTest, type HelmertParams,
 } from '@refdelta/core';
 import { OutputSet, requireFile } from '../node-io.js';
 import { prepareOutputFolder } from '../output-folder.js';
 import { parseChoiceList, parseNumber } from '../parse-values.js';
-import { epsgWkt } from '../epsg-lookup.js';
+import { epsgLookup, epsgWkt } from '../epsg-lookup.js';
 import { sqliteFactory } from './solve.js';
 import { Reporter } from '../reporter.js';
 import { EXIT_CHECK_FAILED, EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
@@ -59,6 +59,14 @@ async function text(path: string): Promise<string> {
   return readFile(path, 'utf8');
 }
 
+/** '; difference test accepted (chi2_h 0.52, chi2_v 0.10)' for the per-pair line, '' when not tested. */
+function testWords(t: DifferenceTest): string {
+  const word = differenceTestWord(t);
+  if (word === '') return '';
+  const stats = [...(Number.isNaN(t.chi2Horizontal) ? [] : [`chi2_h ${fixed(t.chi2Horizontal, 2)}`]), ...(Number.isNaN(t.chi2Vertical) ? [] : [`chi2_v ${fixed(t.chi2Vertical, 2)}`])];
+  return `; difference test ${word} (${stats.join(', ')})`;
+}
+
 export async function runCheck(a: CheckArgs, rep: Reporter): Promise<number> {
   if (a.points === undefined || a.marks === undefined || a.out === undefined) throw new UsageError('give --points FILE, --marks FILE and --out DIR');
   const radiusM = a.radius === undefined ? undefined : parseNumber('radius', a.radius, 0, 10000);
@@ -71,7 +79,7 @@ export async function runCheck(a: CheckArgs, rep: Reporter): Promise<number> {
     outputNames: Object.values(CHECK_FILE_NAMES), estimatedBytes: 0,
   });
   const points = parsePointsCsv(pointsFile, await text(pointsFile));
-  const marks = parseMarksFile(marksFile, await text(marksFile), rep.warn);
+  const marks = parseMarksFile(marksFile, await text(marksFile), rep.warn, epsgLookup);
   const allowUnknown = a.allowUnknownFrame === true;
   for (const p of points) requireKnownFrame(p.position.frame.name, `${pointsFile} line ${p.line}`, allowUnknown);
   for (const m of marks) requireKnownFrame(m.position.frame.name, `${marksFile} line ${m.line}`, allowUnknown);
@@ -115,7 +123,11 @@ export async function runCheck(a: CheckArgs, rep: Reporter): Promise<number> {
 
   for (const p of r.pairs) {
     rep.info(`${p.session ? `${p.session}/` : ''}${p.pointName} vs ${p.markName} (${p.by}): dE ${fixed(p.comparison.dE, 3)} dN ${fixed(p.comparison.dN, 3)} dU ${fixed(p.comparison.dU, 3)} m, ` +
-      `horizontal ${fixed(p.comparison.horizontalM, 3)} m: ${p.comparison.pass ? 'pass' : 'FAIL'}`);
+      `horizontal ${fixed(p.comparison.horizontalM, 3)} m: ${p.comparison.pass ? 'pass' : 'FAIL'}${testWords(p.test)}`);
+  }
+  if (r.tested > 0) {
+    const rejected = r.pairs.filter((p) => p.test.rejectedHorizontal || p.test.rejectedVertical).map((p) => `${p.session ? `${p.session}/` : ''}${p.pointName}`);
+    rep.info(`difference test at 95 %: ${r.rejected} of ${r.tested} difference(s) larger than the point's precision and the mark's accuracy explain${rejected.length ? ` (${rejected.join(', ')})` : ''}; pass/fail is the tolerance's`);
   }
   if (r.nssda) rep.info(`NSSDA over ${r.nssda.n} check point(s): horizontal ${fixed(r.nssda.horizontal95M, 3)} m, vertical ${fixed(r.nssda.vertical95M, 3)} m at 95 %`);
   rep.info(`outputs in ${outDir}: ${written.map((w) => basename(w.written.path)).join(', ')}`);

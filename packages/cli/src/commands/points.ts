@@ -11,7 +11,7 @@ import { csvText } from '../csv-text.js';
 import {
   DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE,
   InputError, loadEgm96, looksLikeIsg, looksLikeTiff, makeProjection, parseGeoTiffGeoid, parseIsgGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
-  crsOfFrame, csvtText, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
+  crsOfFrame, csvtText, gridCrsOf, type GridCrs, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
   type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad, sigmaRescaleFactor,
 } from '@refdelta/core';
@@ -100,7 +100,10 @@ export async function parsePointsConfig(a: PointsArgs): Promise<PointsConfig> {
   const toleranceVM = a.toleranceV === undefined ? DEFAULT_POINT_TOLERANCE_V_M : parseNumber('tolerance-v', a.toleranceV, 0, 1000);
   const projectionSpec = a.projection === undefined ? undefined : String(a.projection);
   if (projectionSpec !== undefined) {
-    try { resolveProjectionSpec(projectionSpec, { latDeg: 0, lonDeg: 0 }, epsgLookup); } catch (e) { throw new UsageError(`--projection ${projectionSpec}: ${e instanceof Error ? e.message : String(e)}`); }
+    let spec;
+    try { spec = resolveProjectionSpec(projectionSpec, { latDeg: 0, lonDeg: 0 }, epsgLookup); } catch (e) { throw new UsageError(`--projection ${projectionSpec}: ${e instanceof Error ? e.message : String(e)}`); }
+    // Latitude/longitude are already in every output: a geographic CRS would put degrees into easting_m.
+    if (spec.units !== 'm') throw new UsageError(`--projection ${projectionSpec}: ${spec.name} is a geographic CRS, not a map projection (latitude_deg and longitude_deg already hold geographic coordinates): give a projected CRS, e.g. utm or the EPSG code of a grid`);
   }
   const geoidSpec = a.geoid === undefined ? undefined : String(a.geoid);
   if (geoidSpec !== undefined && geoidSpec.toLowerCase() !== 'egm96') await requireFile(geoidSpec);
@@ -194,11 +197,15 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
 
     // Projection and geoid.
     let projection: Projection | undefined;
+    let grid: GridCrs | undefined;
     if (cfg.projectionSpec !== undefined) {
       const g = outcome.points[0].summary.meanGeodetic;
-      projection = makeProjection(cfg.projectionSpec, { latDeg: radToDeg(g.latRad), lonDeg: radToDeg(g.lonRad) }, epsgLookup);
+      projection = makeProjection(cfg.projectionSpec, { latDeg: radToDeg(g.latRad), lonDeg: radToDeg(g.lonRad) }, epsgLookup, frame.name);
+      grid = gridCrsOf(projection, frame, (code) => epsgWkt(code));
+      if (grid.warning) rep.warn({ code: grid.datum === 'unstated' ? 'projection-datum-unstated' : 'projection-datum', message: grid.warning });
     }
-    if (projection && /\+(towgs84=(?!0,0,0(,0,0,0,0)?\b)|nadgrids=)/.test(projection.projString)) {
+    // A PROJ string's own datum shift is not applied either.
+    if (projection && grid?.datum === 'as-given' && /\+(towgs84=(?!0,0,0(,0,0,0,0)?\b)|nadgrids=)/.test(projection.projString)) {
       rep.warn({ code: 'projection-datum', message: `${projection.name} is on a datum other than the points' frame ${frame.name}: latitude/longitude are projected as they are, without a datum shift (transform the points into that datum first for true grid coordinates)` });
     }
     const geoid = await cfg.geoid();
@@ -206,7 +213,7 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     // The files, added to the solve run's set and committed with it (summary.json last).
     const table = {
       frame, horizontalToleranceM: cfg.toleranceHM, verticalToleranceM: cfg.toleranceVM,
-      ...(projection ? { projection } : {}), ...(geoid ? { geoid } : {}),
+      ...(projection ? { projection } : {}), ...(grid ? { grid } : {}), ...(geoid ? { geoid } : {}),
       notes: [`occupations from ${occupations[0].source === 'windows' ? `the windows file ${cfg.windowsFile}` : occupations[0].source === 'events' ? 'the RINEX event flags of the rover file' : 'static detection on the Doppler speed'}`],
     };
     const columns = pointsColumns(table);
@@ -220,9 +227,10 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     await st.set.add('points', join(st.outDir, POINTS_FILE_NAMES.csv), [csvText([columns, ...rows])]);
     await st.set.add('points-csvt', join(st.outDir, 'points.csvt'), [csvtText(columns)]);
     await st.set.add('points-metadata', join(st.outDir, metadataFileName(POINTS_FILE_NAMES.csv)), [JSON.stringify(pointsMetadata(table), null, 2) + '\n']);
-    // The .prj states the CRS of the grid coordinates with a projection, else the frame's geographic CRS.
+    // The .prj states the CRS the grid coordinates are in (grid-crs.ts) with a projection, else the frame's
+    // geographic CRS; none for an unstated frame without a projection (never WGS 84 by default).
     const frameCrs = crsOfFrame(frame.name);
-    const prj = projection ? epsgWkt(projection.epsg) : frameCrs ? epsgWkt(frameCrs.geographic2d) : null;
+    const prj = grid ? grid.wkt : frameCrs ? epsgWkt(frameCrs.geographic2d) : null;
     if (prj) await st.set.add('points-prj', join(st.outDir, POINTS_FILE_NAMES.prj), [prj + '\n']);
     else if (projection) rep.warn({ code: 'no-prj', message: `no .prj written for the projection ${projection.name}: its WKT is not known (give an EPSG code)` });
     await st.set.add('points-geojson', join(st.outDir, POINTS_FILE_NAMES.geojson), [JSON.stringify(pointsGeoJson(outcome.points, table), null, 1) + '\n']);

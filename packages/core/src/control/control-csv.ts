@@ -5,11 +5,15 @@
  *   lat_deg, lon_deg, h_m                      geodetic (h_m ellipsoidal height), or
  *   x_m, y_m, z_m                              ECEF, or
  *   easting_m, northing_m, h_m, projection     grid coordinates: projection is an EPSG code or a PROJ
- *                                              string (see projection/), h_m ellipsoidal height
+ *                                              string (see projection/; every EPSG code through the
+ *                                              caller's EpsgLookup, as for points), h_m ellipsoidal height
  *   frame                                      optional; blank or absent -> 'unstated'
  *   epoch                                      decimal year; optional (blank -> epoch unknown: NaN,
  *                                              no epoch check can be made, a warning says so)
- *   accuracy_h_m, accuracy_v_m                 optional, the mark's own accuracy (1 sigma or as published)
+ *   accuracy_h_m, accuracy_v_m                 optional, the mark's own 1-sigma accuracy: accuracy_h_m the
+ *                                              horizontal standard error sqrt(sd_e^2 + sd_n^2) (as a points
+ *                                              table's sigma_mean_* give it, marks-file.ts), accuracy_v_m
+ *                                              the vertical one
  *
  * A row may use any one coordinate form for which it has all values (so one file can mix forms).
  * Geodetic and grid coordinates are converted to ECEF on GRS80, or on WGS 84 when the frame is WGS84
@@ -21,7 +25,7 @@ import type { FramedEcef } from '../gnss/index.js';
 import { InputError, type WarningSink } from '../errors.js';
 import { degToRad, geodeticToEcef, GRS80, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { normaliseFrameName } from '../frames/index.js';
-import { makeProjection, type Projection } from '../projection/index.js';
+import { makeProjection, type EpsgLookup, type Projection } from '../projection/index.js';
 import { csvRecords } from '../csv/index.js';
 
 export interface ControlMark {
@@ -42,7 +46,8 @@ export function ellipsoidForFrame(frameName: string): Ellipsoid {
 
 const KNOWN = ['name', 'lat_deg', 'lon_deg', 'h_m', 'x_m', 'y_m', 'z_m', 'easting_m', 'northing_m', 'projection', 'frame', 'epoch', 'accuracy_h_m', 'accuracy_v_m'];
 
-export function parseControlCsv(file: string, text: string, onWarning?: WarningSink): ControlMark[] {
+/** `lookup`: the EPSG dataset for grid coordinates (the command line gives the one `points --projection` uses). */
+export function parseControlCsv(file: string, text: string, onWarning?: WarningSink, lookup?: EpsgLookup): ControlMark[] {
   let header: string[] | undefined;
   let headerLine = 0;
   const marks: ControlMark[] = [];
@@ -96,7 +101,7 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
       let proj = projections.get(spec);
       if (!proj) {
         try {
-          proj = makeProjection(spec);
+          proj = makeProjection(spec, undefined, lookup);
         } catch (e) {
           throw new InputError(file, lineNo, `column projection: ${e instanceof Error ? e.message : String(e)}`);
         }

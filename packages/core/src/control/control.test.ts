@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { InputError, ProcessingError, type Warning } from '../errors.js';
 import { distanceM, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import { DEFAULT_HELMERT_SETS } from '../frames/index.js';
-import { compareToMark, matchPointsToMarks, parseControlCsv } from './index.js';
+import { CHI2_1_95, CHI2_2_95, compareToMark, differenceTestWord, matchPointsToMarks, parseControlCsv, testDifference } from './index.js';
 
 const FIXTURE = resolve(__dirname, '../../../../fixtures/geo/control-marks.csv');
 const text = readFileSync(FIXTURE, 'utf8');
@@ -95,5 +95,25 @@ describe('matching and comparison', () => {
     const lantern = marks[3]!;
     compareToMark({ ecef: lantern.position.ecef, frame: { name: 'WGS84', epochYear: 2018.76 } }, lantern, { onWarning: (x) => w.push(x) });
     expect(w.map((x) => x.code).sort()).toEqual(['control-not-accurate-enough', 'frame-unstated']);
+  });
+});
+
+describe('difference test against the combined uncertainty', () => {
+  it('critical values: chi-square(2) 95 % is -2 ln 0.05 (an exponential distribution), chi-square(1) 95 % is 1.96^2', () => {
+    expect(CHI2_2_95).toBeCloseTo(-2 * Math.log(0.05), 3);
+    expect(CHI2_1_95).toBeCloseTo(1.959964 ** 2, 3);
+  });
+  it('statistics from the point sigmas and the mark accuracy (horizontal split between east and north); untested without either', () => {
+    const t = testDifference({ dE: 0, dN: -0.031, dU: -0.007 }, { sigmaMeanEastM: 0.009, sigmaMeanNorthM: 0.009, sigmaMeanUpM: 0.017 }, { accuracyHorizontalM: 0.01, accuracyVerticalM: 0.02 });
+    const s = Math.sqrt(0.009 ** 2 + 0.01 ** 2 / 2);
+    expect(t.sigmaNorthM).toBeCloseTo(s, 12);
+    expect(t.chi2Horizontal).toBeCloseTo((0.031 / s) ** 2, 10);
+    expect(t.chi2Vertical).toBeCloseTo(0.007 ** 2 / (0.017 ** 2 + 0.02 ** 2), 10);
+    expect(differenceTestWord(t)).toBe('rejected-horizontal');
+    const none = testDifference({ dE: 1, dN: 1, dU: 1 }, {}, { accuracyHorizontalM: 0.01 });
+    expect(Number.isNaN(none.chi2Horizontal) && Number.isNaN(none.chi2Vertical)).toBe(true);
+    expect(differenceTestWord(none)).toBe('');
+    const v = testDifference({ dE: 0.01, dN: 0, dU: 0.5 }, { sigmaMeanEastM: 0.1, sigmaMeanNorthM: 0.1, sigmaMeanUpM: 0.1 }, { accuracyHorizontalM: 0.1, accuracyVerticalM: 0.1 });
+    expect(differenceTestWord(v)).toBe('rejected-vertical');
   });
 });

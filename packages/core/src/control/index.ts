@@ -4,3 +4,4 @@ export * from './match-marks.js';
 export * from './compare-to-mark.js';
 export * from './match-every-point.js';
 export * from './marks-file.js';
+export * from './difference-test.js';

@@ -7,6 +7,7 @@
 import type { WarningSink } from '../errors.js';
 import { csvRecords } from '../csv/index.js';
 import { parsePointsCsv } from '../report/points-csv.js';
+import type { EpsgLookup } from '../projection/index.js';
 import { parseControlCsv, type ControlMark } from './control-csv.js';
 
 /** True when the first record of the text is a points-table header (ecef_x_m, frame_epoch...). */
@@ -17,8 +18,8 @@ export function isPointsTable(text: string): boolean {
   return ['name', 'ecef_x_m', 'ecef_y_m', 'ecef_z_m', 'frame', 'frame_epoch'].every((c) => h.includes(c));
 }
 
-export function parseMarksFile(file: string, text: string, onWarning?: WarningSink): ControlMark[] {
-  if (!isPointsTable(text)) return parseControlCsv(file, text, onWarning);
+export function parseMarksFile(file: string, text: string, onWarning?: WarningSink, lookup?: EpsgLookup): ControlMark[] {
+  if (!isPointsTable(text)) return parseControlCsv(file, text, onWarning, lookup);
   return parsePointsCsv(file, text).map((p) => ({
     name: p.name, position: p.position, file, line: p.line,
     ...(p.sigmaMeanHorizontalM !== undefined ? { accuracyHorizontalM: p.sigmaMeanHorizontalM } : {}),

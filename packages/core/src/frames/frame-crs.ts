@@ -76,3 +76,9 @@ export function isKnownFrameName(name: string): boolean {
   const n = normaliseFrameName(name.replace(/\s*\(broadcast orbits\)\s*$/i, ''));
   return n === UNSTATED_FRAME || BY_FRAME.has(n);
 }
+
+/** The frame whose geographic 2-D EPSG CRS has this code, or null (e.g. a national datum not in the list). */
+export function frameOfGeographicEpsg(code: number): FrameCrs | null {
+  for (const c of BY_FRAME.values()) if (c.geographic2d === code) return c;
+  return null;
+}

@@ -3,3 +3,4 @@ export * from './utm-zone.js';
 export * from './projection-spec.js';
 export * from './projection.js';
 export * from './grid-factors.js';
+export * from './wkt1.js';

@@ -1,12 +1,16 @@
 /**
  * Turns a user's projection name into a PROJ string. Supported EPSG codes (parameters from the EPSG
  * dataset definitions, written out here: common practice):
- * - EPSG:4326 WGS 84 geographic (degrees), EPSG:3857 WGS 84 / Pseudo-Mercator (spherical formulas on
- *   a = 6378137 m applied to geodetic latitude);
+ * - EPSG:4326 WGS 84 geographic (degrees: `units` 'deg'; `points` refuses a geographic CRS, the marks
+ *   reader too), EPSG:3857 WGS 84 / Pseudo-Mercator (spherical formulas on a = 6378137 m applied to
+ *   geodetic latitude);
  * - EPSG:32601..32660 / 32701..32760 WGS 84 / UTM zone N / S;
  * - EPSG:25828..25838 ETRS89 / UTM zone 28N..38N (GRS80);
  * - EPSG:26901..26923 NAD83 / UTM zone 1N..23N (GRS80);
- * - 'utm': the zone of a given point (utm-zone.ts), on WGS 84;
+ * - 'utm': the zone of a given point (utm-zone.ts), in the points' frame: the EPSG UTM CRS of that frame
+ *   where the dataset has one (WGS 84 32601..32760, ETRS89 25828..25837 (25838 is deprecated),
+ *   NAD83 26901..26923, GDA94 / MGA 28348..28358, GDA2020 / MGA 7846..7859), else the UTM parameters alone (`parametersOnly`: the
+ *   coordinates are labelled with the points' own frame, report/grid-crs.ts);
  * - any '+proj=...' PROJ string as given.
  * The strings carry an ellipsoid only, never a datum shift: coordinates are expected to be in the
  * projection's frame already (see frames/ for frame transformations).
@@ -17,6 +21,8 @@
  * from it, with its WKT for .prj files; the built-in codes remain for callers without one.
  */
 import { utmZoneFor } from './utm-zone.js';
+import { geogcsOf, ownEpsgCode } from './wkt1.js';
+import { normaliseFrameName } from '../frames/index.js';
 
 /** One EPSG CRS definition as a dataset gives it. */
 export interface EpsgDefinition {
@@ -40,6 +46,10 @@ export interface ProjectionSpec {
   readonly wkt: string | null;
   /** 'deg' for geographic output (EPSG:4326: easting = longitude, northing = latitude in degrees). */
   readonly units: 'm' | 'deg';
+  /** EPSG code of the CRS's base geographic CRS (its datum), when known. */
+  readonly baseGeographicEpsg: number | null;
+  /** True when only the projection's parameters are meant, not its datum ('utm' in a frame without an EPSG UTM CRS). */
+  readonly parametersOnly: boolean;
 }
 
 export interface NearPoint {
@@ -57,39 +67,72 @@ function fromLookup(code: number, lookup: EpsgLookup): ProjectionSpec {
     throw new RangeError(`EPSG:${code} (${d.name}) is a ${d.kind.replace(/^CRS-/, '').toLowerCase()} CRS: give a projected (grid) CRS or a geographic 2-D one`);
   }
   if (!/\+(ellps|datum|a)=/.test(d.proj4)) throw new RangeError(`EPSG:${code} (${d.name}) has no PROJ definition with an ellipsoid in the EPSG dataset`);
-  return { name: `${d.name} (EPSG:${code})`, projString: d.proj4, epsg: code, wkt: d.wkt, units: d.kind === 'CRS-GEOGCRS' ? 'deg' : 'm' };
+  const geographic = d.kind === 'CRS-GEOGCRS';
+  const base = geographic ? code : d.wkt ? ownEpsgCode(geogcsOf(d.wkt) ?? '') : null;
+  return { name: `${d.name} (EPSG:${code})`, projString: d.proj4, epsg: code, wkt: d.wkt, units: geographic ? 'deg' : 'm', baseGeographicEpsg: base, parametersOnly: false };
 }
 
-export function resolveProjectionSpec(spec: string, near?: NearPoint, lookup?: EpsgLookup): ProjectionSpec {
+/**
+ * The EPSG UTM CRS of a frame for a zone, or null when the EPSG dataset has none (codes: EPSG dataset,
+ * checked against epsg-index in projection.test.ts). MGA zones are the UTM zones of Australia.
+ */
+export function utmEpsgOfFrame(frameName: string, zone: number, south: boolean): number | null {
+  switch (normaliseFrameName(frameName)) {
+    case 'WGS84': return (south ? 32700 : 32600) + zone;
+    case 'ETRS89': return !south && zone >= 28 && zone <= 37 ? 25800 + zone : null;
+    case 'NAD83': return !south && zone >= 1 && zone <= 23 ? 26900 + zone : null;
+    case 'GDA94': return south && zone >= 48 && zone <= 58 ? 28300 + zone : null;
+    case 'GDA2020': return south && zone >= 46 && zone <= 59 ? 7800 + zone : null;
+    default: return null;
+  }
+}
+
+/** The built-in codes' base geographic CRS (their datum). */
+function builtInBase(family: number): number | null {
+  if (family === 326 || family === 327) return 4326;
+  if (family === 258) return 4258;
+  if (family === 269) return 4269;
+  return null;
+}
+
+/**
+ * `frameName`: the frame of the points to project ('utm' takes that frame's UTM CRS); without it, 'utm'
+ * is WGS 84 UTM.
+ */
+export function resolveProjectionSpec(spec: string, near?: NearPoint, lookup?: EpsgLookup, frameName = 'WGS84'): ProjectionSpec {
   const s = spec.trim();
   if (s.includes('+proj=')) {
-    return { name: s, projString: s, epsg: null, wkt: null, units: /\+proj=(longlat|latlong|lonlat|latlon)\b/.test(s) ? 'deg' : 'm' };
+    return { name: s, projString: s, epsg: null, wkt: null, units: /\+proj=(longlat|latlong|lonlat|latlon)\b/.test(s) ? 'deg' : 'm', baseGeographicEpsg: null, parametersOnly: false };
   }
   if (s.toLowerCase() === 'utm') {
     if (!near) throw new RangeError("projection 'utm' chooses the zone from a point: give the point's latitude and longitude");
     const z = utmZoneFor(near.latDeg, near.lonDeg);
-    const code = (z.south ? 32700 : 32600) + z.zone;
-    if (lookup) return fromLookup(code, lookup);
-    return { name: `WGS 84 / UTM zone ${z.zone}${z.south ? 'S' : 'N'} (EPSG:${code})`, projString: utm(z.zone, z.south, 'WGS84'), epsg: code, wkt: null, units: 'm' };
+    const own = utmEpsgOfFrame(frameName, z.zone, z.south);
+    if (own !== null && lookup) return fromLookup(own, lookup);
+    if (own !== null && builtInBase(Math.floor(own / 100)) !== null) return resolveProjectionSpec(`EPSG:${own}`);
+    // No UTM CRS of the frame: the WGS 84 UTM parameters (GRS80 and WGS 84 grids agree within 0.1 mm), labelled with the frame.
+    const wgs = (z.south ? 32700 : 32600) + z.zone;
+    const w = lookup ? fromLookup(wgs, lookup) : resolveProjectionSpec(`EPSG:${wgs}`);
+    return { ...w, name: `UTM zone ${z.zone}${z.south ? 'S' : 'N'}`, epsg: null, parametersOnly: true };
   }
   const m = /^EPSG:(\d+)$/i.exec(s);
   if (!m) throw new RangeError(`unknown projection '${s}': give an EPSG code (e.g. EPSG:32633), 'utm', or a PROJ string starting with +proj=`);
   const code = Number(m[1]);
   if (lookup) return fromLookup(code, lookup);
-  if (code === 4326) return { name: 'WGS 84 (EPSG:4326)', projString: '+proj=longlat +ellps=WGS84 +no_defs', epsg: code, wkt: null, units: 'deg' };
+  if (code === 4326) return { name: 'WGS 84 (EPSG:4326)', projString: '+proj=longlat +ellps=WGS84 +no_defs', epsg: code, wkt: null, units: 'deg', baseGeographicEpsg: 4326, parametersOnly: false };
   if (code === 3857) {
-    return { name: 'WGS 84 / Pseudo-Mercator (EPSG:3857)', projString: '+proj=merc +a=6378137 +b=6378137 +lat_ts=0 +lon_0=0 +x_0=0 +y_0=0 +k=1 +units=m +no_defs', epsg: code, wkt: null, units: 'm' };
+    return { name: 'WGS 84 / Pseudo-Mercator (EPSG:3857)', projString: '+proj=merc +a=6378137 +b=6378137 +lat_ts=0 +lon_0=0 +x_0=0 +y_0=0 +k=1 +units=m +no_defs', epsg: code, wkt: null, units: 'm', baseGeographicEpsg: 4326, parametersOnly: false };
   }
   const zz = code % 100;
   const family = Math.floor(code / 100);
   if ((family === 326 || family === 327) && zz >= 1 && zz <= 60) {
-    return { name: `WGS 84 / UTM zone ${zz}${family === 327 ? 'S' : 'N'} (EPSG:${code})`, projString: utm(zz, family === 327, 'WGS84'), epsg: code, wkt: null, units: 'm' };
+    return { name: `WGS 84 / UTM zone ${zz}${family === 327 ? 'S' : 'N'} (EPSG:${code})`, projString: utm(zz, family === 327, 'WGS84'), epsg: code, wkt: null, units: 'm', baseGeographicEpsg: builtInBase(family), parametersOnly: false };
   }
   if (family === 258 && zz >= 28 && zz <= 38) {
-    return { name: `ETRS89 / UTM zone ${zz}N (EPSG:${code})`, projString: utm(zz, false, 'GRS80'), epsg: code, wkt: null, units: 'm' };
+    return { name: `ETRS89 / UTM zone ${zz}N (EPSG:${code})`, projString: utm(zz, false, 'GRS80'), epsg: code, wkt: null, units: 'm', baseGeographicEpsg: builtInBase(family), parametersOnly: false };
   }
   if (family === 269 && zz >= 1 && zz <= 23) {
-    return { name: `NAD83 / UTM zone ${zz}N (EPSG:${code})`, projString: utm(zz, false, 'GRS80'), epsg: code, wkt: null, units: 'm' };
+    return { name: `NAD83 / UTM zone ${zz}N (EPSG:${code})`, projString: utm(zz, false, 'GRS80'), epsg: code, wkt: null, units: 'm', baseGeographicEpsg: builtInBase(family), parametersOnly: false };
   }
   throw new RangeError(`EPSG:${code} is not built in (no EPSG dataset was given): give its definition as a PROJ string (+proj=... with +ellps=...)`);
 }

@@ -21,6 +21,10 @@ export interface Projection {
   readonly epsg: number | null;
   readonly wkt: string | null;
   readonly units: 'm' | 'deg';
+  /** EPSG code of the base geographic CRS (the datum the parameters belong to), when known. */
+  readonly baseGeographicEpsg: number | null;
+  /** True when only the parameters are meant, not the datum (projection-spec.ts, 'utm'). */
+  readonly parametersOnly: boolean;
   forward(latDeg: number, lonDeg: number): ProjectedM;
   inverse(eastingM: number, northingM: number): { latDeg: number; lonDeg: number };
   /** Semi-major axis and first eccentricity squared of the projection's ellipsoid. */
@@ -52,8 +56,8 @@ export function sameEllipsoidLongLat(projString: string): string {
   return ['+proj=longlat', ...tokens, '+no_defs'].join(' ');
 }
 
-export function makeProjection(spec: string, near?: NearPoint, lookup?: EpsgLookup): Projection {
-  const r = resolveProjectionSpec(spec, near, lookup);
+export function makeProjection(spec: string, near?: NearPoint, lookup?: EpsgLookup, frameName?: string): Projection {
+  const r = resolveProjectionSpec(spec, near, lookup, frameName);
   let conv: Converter;
   let aM: number;
   let e2: number;
@@ -73,6 +77,8 @@ export function makeProjection(spec: string, near?: NearPoint, lookup?: EpsgLook
     epsg: r.epsg,
     wkt: r.wkt,
     units: r.units,
+    baseGeographicEpsg: r.baseGeographicEpsg,
+    parametersOnly: r.parametersOnly,
     ellipsoid: { aM, e2 },
     forward(latDeg, lonDeg) {
       const [x, y] = conv.forward([lonDeg, latDeg]);

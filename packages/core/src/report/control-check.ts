@@ -7,7 +7,7 @@
  */
 import type { Warning, WarningSink } from '../errors.js';
 import type { HelmertParams } from '../frames/index.js';
-import { compareToMark, DEFAULT_MATCH_RADIUS_M, matchEveryPoint, type ControlMark, type MarkComparison, type NamedPoint } from '../control/index.js';
+import { CHI2_1_95, CHI2_2_95, compareToMark, DEFAULT_MATCH_RADIUS_M, matchEveryPoint, testDifference, type ControlMark, type DifferenceTest, type MarkComparison, type NamedPoint, type PointPrecision } from '../control/index.js';
 import { bringToFrameOf } from '../frames/index.js';
 import type { FramedEcef } from '../gnss/index.js';
 import { nssdaAccuracy, type NssdaResult } from '../accuracy/index.js';
@@ -31,6 +31,8 @@ export interface ControlCheckPair {
   readonly by: 'name' | 'proximity';
   readonly matchDistanceM: number;
   readonly comparison: MarkComparison;
+  /** The difference tested against the point's precision and the mark's accuracy (control/difference-test.ts). */
+  readonly test: DifferenceTest;
 }
 
 export interface ControlCheckResult {
@@ -43,12 +45,15 @@ export interface ControlCheckResult {
   readonly toleranceHorizontalM: number;
   readonly toleranceVerticalM: number;
   readonly allPass: boolean;
+  /** Pairs whose difference the test rejects at 95 %, and pairs tested (horizontal or vertical). */
+  readonly rejected: number;
+  readonly tested: number;
 }
 
 import { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M } from './tolerances.js';
 export { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M };
 
-export function checkAgainstControl(points: readonly (NamedPoint & { readonly session?: string })[], marks: readonly ControlMark[], opts: ControlCheckOptions = {}): ControlCheckResult {
+export function checkAgainstControl(points: readonly (NamedPoint & PointPrecision & { readonly session?: string })[], marks: readonly ControlMark[], opts: ControlCheckOptions = {}): ControlCheckResult {
   const radiusM = opts.radiusM ?? DEFAULT_MATCH_RADIUS_M;
   const tolH = opts.toleranceHorizontalM ?? DEFAULT_CHECK_TOLERANCE_H_M;
   const tolV = opts.toleranceVerticalM ?? DEFAULT_CHECK_TOLERANCE_V_M;
@@ -61,7 +66,7 @@ export function checkAgainstControl(points: readonly (NamedPoint & { readonly se
   const inMarkFrame = (p: FramedEcef, m: ControlMark): FramedEcef => {
     try { return bringToFrameOf(p, m.position, { transformations: opts.transformations ?? [] }); } catch { return p; }
   };
-  const pairs: ControlCheckPair[] = matches.map((m) => ({
+  const pairs: ControlCheckPair[] = matches.map((m) => withTest({
     session: m.point.session ?? '',
     pointName: m.point.name,
     pointPosition: inMarkFrame(m.point.position, m.mark),
@@ -75,7 +80,20 @@ export function checkAgainstControl(points: readonly (NamedPoint & { readonly se
       ...(opts.onWarning ? { onWarning: opts.onWarning } : {}),
       context: `point ${m.point.name} vs mark ${m.mark.name}`,
     }),
-  }));
+  }, m.point, m.mark));
+  for (const p of pairs) {
+    const t = p.test;
+    if (!t.rejectedHorizontal && !t.rejectedVertical) continue;
+    const what = [
+      ...(t.rejectedHorizontal ? [`horizontal ${p.comparison.horizontalM.toFixed(3)} m, chi-square ${t.chi2Horizontal.toFixed(2)} > ${CHI2_2_95} (2 degrees of freedom; sigma east/north ${t.sigmaEastM.toFixed(3)}/${t.sigmaNorthM.toFixed(3)} m)`] : []),
+      ...(t.rejectedVertical ? [`up ${p.comparison.dU.toFixed(3)} m, chi-square ${t.chi2Vertical.toFixed(2)} > ${CHI2_1_95} (1 degree of freedom; sigma up ${t.sigmaUpM.toFixed(3)} m)`] : []),
+    ];
+    opts.onWarning?.({
+      code: 'control-difference-significant',
+      message: `${p.session ? `${p.session}/` : ''}${p.pointName} vs mark ${p.markName}: the difference is larger than the point's precision and the mark's accuracy explain (rejected at 95 %): ${what.join('; ')}` +
+        `${p.comparison.pass ? '; it is within the tolerance' : ''}: check the mark's published coordinate and the occupation`,
+    });
+  }
   const matchedP = new Set(matches.map((m) => m.point));
   const matchedM = new Set(matches.map((m) => m.mark));
   let nssda: NssdaResult | null = null;
@@ -89,5 +107,11 @@ export function checkAgainstControl(points: readonly (NamedPoint & { readonly se
     unmatchedMarks: marks.filter((m) => !matchedM.has(m)).map((m) => m.name),
     nssda, radiusM, toleranceHorizontalM: tolH, toleranceVerticalM: tolV,
     allPass: pairs.every((p) => p.comparison.pass),
+    rejected: pairs.filter((p) => p.test.rejectedHorizontal || p.test.rejectedVertical).length,
+    tested: pairs.filter((p) => !Number.isNaN(p.test.chi2Horizontal) || !Number.isNaN(p.test.chi2Vertical)).length,
   };
+}
+
+function withTest(p: Omit<ControlCheckPair, 'test'>, point: PointPrecision, mark: ControlMark): ControlCheckPair {
+  return { ...p, test: testDifference(p.comparison, point, mark) };
 }

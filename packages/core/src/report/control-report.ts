@@ -5,11 +5,13 @@ import type { FramedEcef } from '../gnss/index.js';
 import { ecefToGeodetic, radToDeg } from '../geodesy/index.js';
 import { ellipsoidForFrame } from '../control/index.js';
 import type { ControlCheckResult } from './control-check.js';
+import { CHI2_1_95, CHI2_2_95, DIFFERENCE_TEST_LEVEL, differenceTestWord } from '../control/index.js';
 
 export const CONTROL_CHECK_COLUMNS = [
   'session', 'point', 'mark', 'matched_by', 'match_distance_m', 'frame', 'frame_epoch',
   'latitude_deg', 'longitude_deg', 'height_m', 'mark_latitude_deg', 'mark_longitude_deg', 'mark_height_m',
   'd_east_m', 'd_north_m', 'd_up_m', 'horizontal_m', 'three_d_m', 'tolerance_h_m', 'tolerance_v_m', 'pass',
+  'sigma_d_east_m', 'sigma_d_north_m', 'sigma_d_up_m', 'chi2_h', 'chi2_v', 'difference_test',
 ] as const;
 
 /** Geodetic latitude, longitude (deg) and ellipsoidal height of a framed point, on the frame's ellipsoid. */
@@ -25,6 +27,7 @@ export function controlCheckRows(r: ControlCheckResult): string[][] {
     fixed(p.comparison.dE, 4), fixed(p.comparison.dN, 4), fixed(p.comparison.dU, 4),
     fixed(p.comparison.horizontalM, 4), fixed(p.comparison.threeDM, 4),
     fixed(r.toleranceHorizontalM, 3), fixed(r.toleranceVerticalM, 3), p.comparison.pass ? 'pass' : 'fail',
+    fixed(p.test.sigmaEastM, 4), fixed(p.test.sigmaNorthM, 4), fixed(p.test.sigmaUpM, 4), fixed(p.test.chi2Horizontal, 2), fixed(p.test.chi2Vertical, 2), differenceTestWord(p.test),
   ]);
 }
 
@@ -34,6 +37,11 @@ export function controlCheckNotes(r: ControlCheckResult): string[] {
     'computed point minus published mark, east/north/up at the mark, in the mark\'s frame; every point is compared, so a mark occupied several times has a row per occupation',
     'latitude/longitude/height: the point in the frame of the comparison (after any transformation); mark_*: the mark; match_distance_m is measured after the transformation',
     `matching: by name (case-insensitive), else nearest within ${r.radiusM} m horizontally; pass = horizontal <= tolerance_h_m and |d_up| <= tolerance_v_m`,
+    `difference_test (beside pass, which it does not change): each difference against its 1-sigma sigma_d_* = sqrt(point sigma_mean_*^2 + mark accuracy^2), the mark's accuracy_h_m split equally between east and north; ` +
+      `chi2_h = (d_east/sigma_d_east)^2 + (d_north/sigma_d_north)^2 against ${CHI2_2_95} (chi-square, 2 degrees of freedom), chi2_v = (d_up/sigma_d_up)^2 against ${CHI2_1_95} (1 degree of freedom), ` +
+      `both at ${DIFFERENCE_TEST_LEVEL * 100} % (NIST/SEMATECH e-Handbook of Statistical Methods, chi-square critical values); empty where the point's sigma or the mark's accuracy is not given; ` +
+      "the reference coordinate's own uncertainty is left out (it shifts every point of the run alike)",
+    `difference test: ${r.rejected} of ${r.tested} tested comparison(s) rejected at ${DIFFERENCE_TEST_LEVEL * 100} %`,
   ];
   if (r.nssda) {
     const n = r.nssda;
@@ -61,7 +69,17 @@ export function controlCheckJson(r: ControlCheckResult, extras: { readonly point
       point: p.pointName, mark: p.markName, matched_by: p.by, match_distance_m: jsonNumber(p.matchDistanceM, 3), frame: p.comparison.frame,
       d_east_m: jsonNumber(p.comparison.dE, 4), d_north_m: jsonNumber(p.comparison.dN, 4), d_up_m: jsonNumber(p.comparison.dU, 4),
       horizontal_m: jsonNumber(p.comparison.horizontalM, 4), three_d_m: jsonNumber(p.comparison.threeDM, 4), pass: p.comparison.pass,
+      sigma_d_east_m: jsonNumber(p.test.sigmaEastM, 4), sigma_d_north_m: jsonNumber(p.test.sigmaNorthM, 4), sigma_d_up_m: jsonNumber(p.test.sigmaUpM, 4),
+      chi2_h: jsonNumber(p.test.chi2Horizontal, 2), chi2_v: jsonNumber(p.test.chi2Vertical, 2), difference_test: differenceTestWord(p.test) || null,
     })),
+    difference_test: {
+      method: "chi-square test of each difference against sqrt(point sigma_mean^2 + mark accuracy^2); the mark's accuracy_h_m split equally between east and north; the reference coordinate's uncertainty left out",
+      level: DIFFERENCE_TEST_LEVEL,
+      critical_h: CHI2_2_95, degrees_of_freedom_h: 2, critical_v: CHI2_1_95, degrees_of_freedom_v: 1,
+      source: 'NIST/SEMATECH e-Handbook of Statistical Methods, critical values of the chi-square distribution',
+      tested: r.tested, rejected: r.rejected,
+      decides_pass: false,
+    },
     unmatched_points: r.unmatchedPoints,
     unmatched_marks: r.unmatchedMarks,
     nssda: n ? {

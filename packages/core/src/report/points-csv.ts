@@ -16,6 +16,9 @@ export interface LoggedPoint {
   /** Precision of the mean, when the table gives it: sqrt(sigma_mean_east^2 + sigma_mean_north^2) and sigma_mean_up. */
   readonly sigmaMeanHorizontalM?: number;
   readonly sigmaMeanUpM?: number;
+  /** sigma_mean_east and sigma_mean_north, when the table gives both. */
+  readonly sigmaMeanEastM?: number;
+  readonly sigmaMeanNorthM?: number;
 }
 
 const REQUIRED = ['name', 'ecef_x_m', 'ecef_y_m', 'ecef_z_m', 'frame', 'frame_epoch'];
@@ -54,7 +57,7 @@ export function parsePointsCsv(file: string, text: string): LoggedPoint[] {
     out.push({
       name, position: { ecef, frame: { name: get('frame') || 'unstated', epochYear } }, line: lineNo,
       ...(header.includes('session') ? { session: get('session') } : {}),
-      ...(se !== undefined && sn !== undefined ? { sigmaMeanHorizontalM: Math.hypot(se, sn) } : {}),
+      ...(se !== undefined && sn !== undefined ? { sigmaMeanHorizontalM: Math.hypot(se, sn), sigmaMeanEastM: se, sigmaMeanNorthM: sn } : {}),
       ...(su !== undefined ? { sigmaMeanUpM: su } : {}),
     });
   }

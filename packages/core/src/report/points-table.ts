@@ -5,13 +5,14 @@
  * top-level foreign member "refdelta" (RFC 7946 section 6.1).
  *
  * Projection: applied to latitude/longitude in the points' own frame (projection/projection.ts never
- * shifts datums): easting/northing are in that frame too. Orthometric heights: H = h - N with the
+ * shifts datums): easting/northing are in that frame too, and the CRS stated for them follows it
+ * (grid-crs.ts), not the code asked for. Orthometric heights: H = h - N with the
  * chosen geoid (geoid/geoid-model.ts); EGM96 is a global model, not a national vertical datum.
  */
 import type { FrameEpoch } from '../gnss/index.js';
 import { gpsToUtcS, isoFromSeconds, weekTowFromGpsS } from '../time/index.js';
 import { radToDeg } from '../geodesy/index.js';
-import type { Projection } from '../projection/index.js';
+import { withoutDatumShift, type Projection } from '../projection/index.js';
 import { orthometricHeightM, type GeoidModel } from '../geoid/index.js';
 import { fixed, jsonNumber } from './format.js';
 import { frameEpochCell } from './epoch-table.js';
@@ -19,10 +20,23 @@ import { tableMetadata } from './table-metadata.js';
 import { frameWords, pointReferenceWords } from './point-reference.js';
 import { geojsonNote } from './geojson.js';
 import type { PointResult } from './points-summary.js';
+import type { GridCrs } from './grid-crs.js';
+
+/** What the outputs say the grid coordinates are: the grid CRS when known, else the projection as asked. */
+function gridLabel(o: Pick<PointsTableOptions, 'projection' | 'grid'>): { readonly epsg: number | null; readonly name: string; readonly definition: string; readonly datum?: string } | undefined {
+  if (!o.projection) return undefined;
+  // Outside the projection's own datum only its parameters are meant: the definition carries no datum.
+  const definition = o.grid && o.grid.datum !== 'same' && o.grid.datum !== 'as-given' ? withoutDatumShift(o.projection.projString) : o.projection.projString;
+  return o.grid
+    ? { epsg: o.grid.epsg, name: o.grid.name, definition, datum: o.grid.datumNote }
+    : { epsg: o.projection.epsg, name: o.projection.name, definition: o.projection.projString };
+}
 
 export interface PointsTableOptions {
   readonly frame: FrameEpoch;
   readonly projection?: Projection;
+  /** The CRS the grid coordinates are actually in (grid-crs.ts); with a projection, what outputs state. */
+  readonly grid?: GridCrs;
   readonly geoid?: GeoidModel;
   readonly horizontalToleranceM: number;
   readonly verticalToleranceM: number;
@@ -94,7 +108,7 @@ export function pointsMetadata(o: PointsTableOptions, file = 'points.csv', colum
     title: 'refdelta points: one row per occupation',
     columns,
     frame: o.frame,
-    ...(o.projection ? { projection: { epsg: o.projection.epsg, name: o.projection.name, definition: o.projection.projString } } : {}),
+    ...(o.projection ? { projection: gridLabel(o)! } : {}),
     heights: `height_m is ellipsoidal${o.geoid ? `; orthometric_height_m = height_m - N above ${o.geoid.heightReference} (${o.geoid.name})` : '; orthometric_height_m is empty (no --geoid)'}`,
     notes: [
       'ecef_*, latitude/longitude/height and easting/northing are all in the frame of each row (frame, frame_epoch)',
@@ -131,8 +145,9 @@ export function pointsGeoJson(points: readonly PointResult[], o: PointsTableOpti
     refdelta: {
       frame: o.frame.name,
       frame_epoch: jsonNumber(o.frame.epochYear, 4),
-      projection: o.projection ? `${o.projection.name} (${o.projection.projString})` : 'none',
-      projection_epsg: o.projection?.epsg ?? null,
+      projection: o.projection ? `${gridLabel(o)!.name} (${gridLabel(o)!.definition})` : 'none',
+      projection_epsg: gridLabel(o)?.epsg ?? null,
+      ...(o.grid ? { projection_datum: o.grid.datumNote } : {}),
       height_reference: o.geoid ? `ellipsoidal (height_m); orthometric_height_m above ${o.geoid.heightReference} (${o.geoid.name})` : 'ellipsoidal',
       ...(o.geoid && /egm96/i.test(o.geoid.name + o.geoid.heightReference) ? { vertical_datum_note: EGM96_NOT_A_DATUM_NOTE } : {}),
       precision_note: 'sigma_mean_* = max(sd / sqrt(n_eff), median formal epoch sigma x sqrt(median variance factor) / sqrt(max(1, duration / 300 s))); n_eff from the autocorrelation of each component (initial positive sequence estimator)',

@@ -20,7 +20,7 @@ export interface TableMetadataInput {
   readonly frame: FrameEpoch | null;
   readonly pointReference?: string;
   /** Projected coordinates: EPSG code (or null when given as a PROJ string) and description. */
-  readonly projection?: { readonly epsg: number | null; readonly name: string; readonly definition: string };
+  readonly projection?: { readonly epsg: number | null; readonly name: string; readonly definition: string; readonly datum?: string };
   readonly heights?: string;
   readonly notes?: readonly string[];
 }
@@ -55,7 +55,7 @@ export function tableMetadata(m: TableMetadataInput): Record<string, unknown> {
       ? { frame: m.frame.name, frame_epoch: jsonNumber(m.frame.epochYear, 4), crs: crsStatement(m.frame) }
       : {}),
     ...(m.pointReference ? { point_reference: m.pointReference } : {}),
-    ...(m.projection ? { projection: { epsg: m.projection.epsg, name: m.projection.name, definition: m.projection.definition, applied: 'to latitude/longitude in the frame above, without any datum shift' } } : {}),
+    ...(m.projection ? { projection: { epsg: m.projection.epsg, name: m.projection.name, definition: m.projection.definition, applied: 'to latitude/longitude in the frame above, without any datum shift', ...(m.projection.datum ? { datum: m.projection.datum } : {}) } } : {}),
     ...(m.heights ? { heights: m.heights } : {}),
     notes: [...(m.notes ?? [])],
     columns: columnsDescribed(m.columns),
