@@ -11,17 +11,16 @@
 import { spawn, spawnSync } from 'node:child_process';
 import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { delimiter, dirname, join, resolve } from 'node:path';
+import { join, resolve } from 'node:path';
 import { gunzipSync } from 'node:zlib';
 import { ROOT } from './load-core.mjs';
 import { benchScenarioSpec, scenarioTexts } from './scenario.mjs';
 import { median } from './stats.mjs';
 
-// The command is run as the installed command runs: the file itself, whose first line starts node with
-// the command's V8 settings (a bound on the young generation: packages/cli/bin/heap-growth.js). Its
-// `env node` finds the node running the bench first.
+// The command as `node packages/cli/bin/refdelta.js`: a command working on files runs in a child node with
+// the young-generation bound the command gives itself (packages/cli/bin/heap-growth.js); the CPU time and
+// peak RSS of a run include that child (/usr/bin/time counts waited-for descendants).
 const CLI = resolve(ROOT, 'packages/cli/bin/refdelta.js');
-process.env.PATH = `${dirname(process.execPath)}${delimiter}${process.env.PATH ?? ''}`;
 const FLOOR = resolve(ROOT, 'bench/floor-solve.mjs');
 const TIME = '/usr/bin/time';
 
@@ -57,11 +56,14 @@ export function measureInTurns(cases, runs) {
 }
 
 /**
- * CPU time per thread of a command (Linux: utime + stime of /proc/PID/task/TID/stat, fields 14 and 15,
- * read every 20 ms until the command exits; each thread keeps its last reading, so a thread's last
- * 20 ms may be missed). The process's first thread is the main JavaScript thread; the others are worker
- * threads and V8's helpers (optimising compiler, garbage collector), which a single-threaded program
- * also runs on other cores. Returns { mainS, largestS (the busiest thread), totalS } or null without /proc.
+ * CPU time per thread of a command and of the processes it starts (Linux: utime + stime of
+ * /proc/PID/task/TID/stat, fields 14 and 15, read every 20 ms until the command exits, descendants found
+ * through /proc/PID/task/TID/children; each thread keeps its last reading, so a thread's last 20 ms may be
+ * missed). The main JavaScript thread is the first thread of the last process started (the refdelta
+ * command runs in a child node of its own: packages/cli/bin/heap-growth.js); the other threads are
+ * worker threads and V8's helpers (optimising compiler, garbage collector), which a single-threaded
+ * program also runs on other cores. Returns { mainS, largestS (the busiest thread), totalS } or null
+ * without /proc.
  */
 export async function threadCpu(cmd, args, before = () => {}) {
   if (!existsSync('/proc/self/task')) return null;
@@ -69,23 +71,28 @@ export async function threadCpu(cmd, args, before = () => {}) {
   const tickS = 1 / Number(spawnSync('getconf', ['CLK_TCK'], { encoding: 'utf8' }).stdout.trim() || 100);
   const child = spawn(cmd, args, { stdio: 'ignore' });
   const last = new Map();
-  const poll = () => {
+  let commandPid = String(child.pid);
+  const visit = (pid) => {
     let tids;
-    try { tids = readdirSync(`/proc/${child.pid}/task`); } catch { return; }
+    try { tids = readdirSync(`/proc/${pid}/task`); } catch { return; }
     for (const tid of tids) {
       try {
-        const stat = readFileSync(`/proc/${child.pid}/task/${tid}/stat`, 'latin1');
+        const stat = readFileSync(`/proc/${pid}/task/${tid}/stat`, 'latin1');
         const f = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
-        last.set(tid, (Number(f[11]) + Number(f[12])) * tickS);
+        last.set(`${pid}/${tid}`, (Number(f[11]) + Number(f[12])) * tickS);
       } catch { /* the thread has ended */ }
+      let children = [];
+      try { children = readFileSync(`/proc/${pid}/task/${tid}/children`, 'latin1').trim().split(/\s+/).filter(Boolean); } catch { /* none */ }
+      for (const c of children) { commandPid = c; visit(c); }
     }
   };
+  const poll = () => visit(child.pid);
   const timer = setInterval(poll, 20);
   const code = await new Promise((done) => child.on('exit', done));
   clearInterval(timer);
   if (code !== 0) throw new Error(`${cmd} ${args.join(' ')} exited ${code}`);
   const values = [...last.values()];
-  return { mainS: last.get(String(child.pid)) ?? NaN, largestS: Math.max(...values), totalS: values.reduce((a, b) => a + b, 0) };
+  return { mainS: last.get(`${commandPid}/${commandPid}`) ?? NaN, largestS: Math.max(...values), totalS: values.reduce((a, b) => a + b, 0) };
 }
 
 /** APPROX POSITION XYZ of a RINEX observation header, as 'X,Y,Z'. */
@@ -95,7 +102,7 @@ function headerXyz(path) {
 }
 
 const solveArgs = (rover, reference, nav, xyz, out, extra = []) => [
-  'solve', '--rover', rover, '--reference', reference, '--nav', ...nav, '--ref-coord', xyz, '--ref-frame', 'WGS84', '--ref-epoch', '2024.0',
+  CLI, 'solve', '--rover', rover, '--reference', reference, '--nav', ...nav, '--ref-coord', xyz, '--ref-frame', 'WGS84', '--ref-epoch', '2024.0',
   '--out', out, '--quiet', ...extra,
 ];
 
@@ -103,8 +110,8 @@ const solveArgs = (rover, reference, nav, xyz, out, extra = []) => [
 function solveCase(name, rover, reference, nav, xyz, work, runs, extra = ['--systems', 'G'], withSummary = true) {
   const full = join(work, `${name}-full`), summary = join(work, `${name}-summary`), floorOut = join(work, `${name}-floor`);
   mkdirSync(floorOut, { recursive: true });
-  const fullRun = [CLI, solveArgs(rover, reference, nav, xyz, full, extra)];
-  const [a, s = null] = measureInTurns(withSummary ? [fullRun, [CLI, solveArgs(rover, reference, nav, xyz, summary, [...extra, '--outputs', 'summary'])]] : [fullRun], runs);
+  const fullRun = [process.execPath, solveArgs(rover, reference, nav, xyz, full, extra)];
+  const [a, s = null] = measureInTurns(withSummary ? [fullRun, [process.execPath, solveArgs(rover, reference, nav, xyz, summary, [...extra, '--outputs', 'summary'])]] : [fullRun], runs);
   // The floor writes the bytes refdelta wrote (its outputs but the summary, which the summary-only run also writes).
   const like = join(work, `${name}-like`);
   mkdirSync(like, { recursive: true });
@@ -140,7 +147,7 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
   try {
     // Start-up.
     const node0 = measure(process.execPath, ['-e', '0'], Math.max(runs, 7));
-    const version = measure(CLI, ['--version'], Math.max(runs, 7));
+    const version = measure(process.execPath, [CLI, '--version'], Math.max(runs, 7));
     row('refdelta --version', version, 'node -e 0', node0, '<= 3x');
     verdicts.push(['start-up: refdelta --version / node -e 0 (CPU)', `${ratio(version.cpuS, node0.cpuS).toFixed(2)}x`, '<= 3x', ratio(version.cpuS, node0.cpuS) <= 3]);
 
@@ -166,7 +173,7 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
       writeFileSync(nav, gunzipSync(readFileSync(ss('BRDC00IGS_R_20240100000_01D_MN.rnx.gz'))));
       const c = solveCase('bele', plain, plain, [nav], headerXyz(plain), work, runs);
       cases.push(['BELE day vs itself (plain RINEX 3), GPS', c, false]);
-      c.crx = measure(CLI, solveArgs(bele, bele, [nav], headerXyz(plain), join(work, 'bele-crx'), ['--systems', 'G']), runs);
+      c.crx = measure(process.execPath, solveArgs(bele, bele, [nav], headerXyz(plain), join(work, 'bele-crx'), ['--systems', 'G']), runs);
     }
     const sr = join(dataDir, 'cors-and-rover-2018-277');
     if (existsSync(join(sr, 'static-run/rover.obs'))) {
@@ -184,7 +191,7 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
     const hour = await writeScenario(core, simDir('sim-hour'), hourSpec);
     const likeSpec = { ...benchScenarioSpec(core, 2 * 3600), reference: { ...hourSpec.reference, intervalS: 1 } };
     const like = await writeScenario(core, simDir('sim-like'), likeSpec);
-    const likeRun = measure(CLI, solveArgs(like.rover, like.reference, [like.nav], ecefText(core, likeSpec), join(work, 'like-all')), runs);
+    const likeRun = measure(process.execPath, solveArgs(like.rover, like.reference, [like.nav], ecefText(core, likeSpec), join(work, 'like-all')), runs);
     const likeCase = solveCase('like', like.rover, like.reference, [like.nav], ecefText(core, likeSpec), work, runs);
     cases.push(['real-like 2 h (rover and ref 1 Hz, GPS+Galileo), GPS', likeCase, false]);
 
@@ -200,27 +207,27 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
     row('real-like 2 h, GPS+Galileo (both systems solved)', likeRun, 'floor (GPS)', likeCase.floor);
 
     // Memory: whole-process peak RSS of the 24 h simulated run against the 1 h one (all outputs).
-    const hourRun = measure(CLI, solveArgs(hour.rover, hour.reference, [hour.nav], ecefText(core, hourSpec), join(work, 'hour-full'), ['--systems', 'G']), runs);
+    const hourRun = measure(process.execPath, solveArgs(hour.rover, hour.reference, [hour.nav], ecefText(core, hourSpec), join(work, 'hour-full'), ['--systems', 'G']), runs);
     const rssRatio = cases.find((c) => c[1].name === 'simday')[1].full.rssMB / hourRun.rssMB;
     rows.push([`peak RSS ${simHours} h / 1 h simulated (whole process)`, '', '', `${cases.find((c) => c[1].name === 'simday')[1].full.rssMB.toFixed(0)} / ${hourRun.rssMB.toFixed(0)}`, '', '', `${rssRatio.toFixed(2)}x`, '<= 1.3x']);
     verdicts.push([`peak RSS ${simHours} h / 1 h (whole process, median of ${runs})`, `${rssRatio.toFixed(2)}x`, '<= 1.3x', rssRatio <= 1.3]);
-    // The same two runs started as `node bin/refdelta.js`, without the command's first line: V8's default
-    // young generation (information: what a caller that runs the file with node gets).
+    // The same two runs with node's default young generation (node given a flag of its own: the command
+    // then runs in this process, without the bound it gives itself; information).
     const plainRuns = Math.min(runs, 3);
     const [dayPlain, hourPlain] = measureInTurns([
-      [process.execPath, [CLI, ...solveArgs(day.rover, day.reference, [day.nav], ecefText(core, daySpec), join(work, 'simday-plain'), ['--systems', 'G'])]],
-      [process.execPath, [CLI, ...solveArgs(hour.rover, hour.reference, [hour.nav], ecefText(core, hourSpec), join(work, 'hour-plain'), ['--systems', 'G'])]],
+      [process.execPath, ['--max-semi-space-size=16', ...solveArgs(day.rover, day.reference, [day.nav], ecefText(core, daySpec), join(work, 'simday-plain'), ['--systems', 'G'])]],
+      [process.execPath, ['--max-semi-space-size=16', ...solveArgs(hour.rover, hour.reference, [hour.nav], ecefText(core, hourSpec), join(work, 'hour-plain'), ['--systems', 'G'])]],
     ], plainRuns);
-    rows.push([`  same, started as node bin/refdelta.js (V8's default young generation, median of ${plainRuns})`, `${dayPlain.cpuS.toFixed(2)} / ${hourPlain.cpuS.toFixed(2)}`, '', `${dayPlain.rssMB.toFixed(0)} / ${hourPlain.rssMB.toFixed(0)}`, '', '', `${(dayPlain.rssMB / hourPlain.rssMB).toFixed(2)}x`, '(info)']);
+    rows.push([`  same, node --max-semi-space-size=16 (node 20's default young generation, median of ${plainRuns})`, `${dayPlain.cpuS.toFixed(2)} / ${hourPlain.cpuS.toFixed(2)}`, '', `${dayPlain.rssMB.toFixed(0)} / ${hourPlain.rssMB.toFixed(0)}`, '', '', `${(dayPlain.rssMB / hourPlain.rssMB).toFixed(2)}x`, '(info)']);
 
     // Batch: 8 sessions (the demo rover, 1387 epochs each) with 1 and 2 workers.
     const demo = (f) => resolve(ROOT, 'fixtures/demo', f);
     const sessions = simDir('batch-sessions');
     for (let i = 1; i <= 8; i++) copyFileSync(demo('rover-1s.obs'), join(sessions, `walk-${i}.obs`));
-    const batchArgs = (jobs) => ['batch', '--sessions', sessions, '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
+    const batchArgs = (jobs) => [CLI, 'batch', '--sessions', sessions, '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
       '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--jobs', String(jobs), '--out', join(work, `batch-${jobs}`), '--quiet'];
     const clear = (jobs) => () => rmSync(join(work, `batch-${jobs}`), { recursive: true, force: true });
-    const [b1, b2] = measureInTurns([[CLI, batchArgs(1), clear(1)], [CLI, batchArgs(2), clear(2)]], runs);
+    const [b1, b2] = measureInTurns([[process.execPath, batchArgs(1), clear(1)], [process.execPath, batchArgs(2), clear(2)]], runs);
     const speedup = b1.wallS / b2.wallS;
     rows.push(['batch of 8 sessions, --jobs 2 (wall s)', b2.cpuS.toFixed(2), b2.wallS.toFixed(2), b2.rssMB.toFixed(0), '--jobs 1 (wall s)', b1.wallS.toFixed(2), `${speedup.toFixed(2)}x faster`, '>= 1.7x']);
     // Same bytes but the summaries (their creation times differ from run to run).
@@ -236,8 +243,8 @@ export async function benchWholeProcess(core, dataDir, { runs = 5, simHours = 24
     // its busiest thread's). The ratio of these floors is the speed-up two free cores would give.
     const threads1 = [], threads2 = [];
     for (let i = 0; i < runs; i++) {
-      threads1.push(await threadCpu(CLI, batchArgs(1), clear(1)));
-      threads2.push(await threadCpu(CLI, batchArgs(2), clear(2)));
+      threads1.push(await threadCpu(process.execPath, batchArgs(1), clear(1)));
+      threads2.push(await threadCpu(process.execPath, batchArgs(2), clear(2)));
     }
     let threadNote = '';
     if (threads1[0]) {

@@ -1,9 +1,15 @@
-#!/usr/bin/env -S node --max-semi-space-size=8
+#!/usr/bin/env node
 // The refdelta command: runs the built CLI as one bundled file (npm install builds it; see the root
-// package.json "build"), which starts about twice as fast as loading its modules one by one. The first
-// line bounds V8's young generation (heap-growth.js: YOUNG_SEMI_SPACE_MIB, which must match it); run as
-// `node bin/refdelta.js` the command works the same with V8's default young generation.
-import { limitHeapGrowth } from './heap-growth.js';
+// package.json "build"), which starts about twice as fast as loading its modules one by one. A command
+// that works on files runs in a child node whose young generation is bounded (heap-growth.js), so that
+// a long session's peak memory stays near a short one's.
+import { fileURLToPath } from 'node:url';
+import { limitHeapGrowth, needsBoundedChild, runWithYoungGenerationBound } from './heap-growth.js';
 
-limitHeapGrowth();
-await import('../dist/refdelta.mjs');
+const args = process.argv.slice(2);
+if (needsBoundedChild(process.execArgv, process.env.NODE_OPTIONS, args)) {
+  runWithYoungGenerationBound(fileURLToPath(import.meta.url), args);
+} else {
+  limitHeapGrowth();
+  await import('../dist/refdelta.mjs');
+}

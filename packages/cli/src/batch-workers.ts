@@ -24,9 +24,9 @@ export function parseJobs(value: unknown): number {
 }
 
 /**
- * Young generation of one worker (MiB): three semi-spaces of the size the command's first line gives the
- * main thread (bin/heap-growth.js, YOUNG_SEMI_SPACE_MIB), so that a worker's memory does not grow with
- * the length of its sessions any more than the main thread's.
+ * Young generation of one worker (MiB): three semi-spaces of the size the command gives its main thread
+ * (bin/heap-growth.js, YOUNG_SEMI_SPACE_MIB), so that a worker's memory does not grow with the length of
+ * its sessions any more than the main thread's.
  */
 export const WORKER_YOUNG_GENERATION_MIB = 3 * 8;
 
