@@ -1,5 +1,5 @@
 /** The Node adapter: atomic writes, hashes, overlap rule. */
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, utimesSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -38,12 +38,19 @@ describe('input digests taken while reading (sha256File after fileChunks)', () =
     const p = join(dir(), 'twice.obs');
     const text = 'the quick brown fox jumps over the lazy dog';
     writeFileSync(p, text);
+    utimesSync(p, 1_000_000_000, 1_000_000_000);
     const a = fileChunks(p, 3)[Symbol.asyncIterator]();
     const b = fileChunks(p, 5)[Symbol.asyncIterator]();
     // a leads, b catches up and overtakes it, a is left unfinished.
     for (let i = 0; i < 4; i++) await a.next();
     for (;;) if ((await b.next()).done) break;
     await a.next();
+    // The digest comes from the readings, not from hashing the file again: the same bytes count and times
+    // with other content still give the digest of what was read.
+    // (the file's times were set to a whole second before the readings, so they can be set back exactly)
+    writeFileSync(p, text.toUpperCase());
+    utimesSync(p, 1_000_000_000, 1_000_000_000);
+    expect(statSync(p).mtimeMs).toBe(1e12);
     expect(await sha256File(p)).toBe(createHash('sha256').update(text).digest('hex'));
   });
 });

@@ -65,7 +65,8 @@ export async function tieBaseToCors(
   const { chosen, basis } = chooseEpochs(epochs, 10);
   if (chosen.length === 0 || basis === 'standalone') throw new UsageError(`the base ${baseFiles[0]} could not be tied to ${corsFiles.join(', ')}: no differential epoch`);
   const carrier = basis === 'fixed' || basis === 'fixed+float';
-  const p = summarisePoint(chosen, carrier ? { sigmaFloor: carrierPointFloor(chosen) } : {});
+  // Float ambiguity errors last through their arcs: a fixed+float tie keeps its float epochs' formal sigma (as points do).
+  const p = summarisePoint(chosen, { ...(carrier ? { sigmaFloor: carrierPointFloor(chosen) } : {}), ...(basis === 'fixed+float' ? { formalErrorsPersist: true } : {}) });
   const g = ecefToGeodetic(cors.position.ecef);
   const d = { x: p.meanEcef.x - cors.position.ecef.x, y: p.meanEcef.y - cors.position.ecef.y, z: p.meanEcef.z - cors.position.ecef.z };
   return {

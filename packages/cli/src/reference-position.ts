@@ -15,7 +15,7 @@ import { openObs } from './node-io.js';
  * Farther than this from the header position (or from the station's own standalone position), the
  * coordinate is flagged. Header positions are usually a receiver's standalone fix (RINEX 3.04 calls the
  * record approximate): GPS SPS accuracy is 9 m horizontal / 15 m vertical at 95 % on the global
- * average and 17 m / 37 m at the worst site (GPS SPS Performance Standard 2008, 3.4; from memory), and
+ * average and 17 m / 37 m at the worst site (GPS SPS Performance Standard, 4th edition 2008; figures from memory), and
  * a header written from a receiver's first fix is at most some tens of metres off (common practice).
  * 100 m is beyond that with a margin, and well below a neighbouring station's coordinate given by mistake.
  */
@@ -25,7 +25,10 @@ export const REFERENCE_HEADER_TOLERANCE_M = 100;
  * Farther than this from where the station's own standalone position puts it, the coordinate cannot be
  * the station's: a standalone fix is good to tens of metres, not kilometres. Such a coordinate (latitude
  * and longitude swapped, a lost sign, another station's coordinate) would move every position by as much,
- * so the run stops. A header alone does not stop a run: it may be a stale one from an earlier site.
+ * so the run stops. 10 km rather than nearer: the stop must be certain even where the standalone
+ * position is itself poor (few satellites, old ephemerides: hundreds of metres), so that its sentence may
+ * say the coordinate cannot be the station's; between 100 m and 10 km the warning gives both distances and
+ * the run goes on. A header alone does not stop a run: it may be a stale one from an earlier site.
  */
 export const REFERENCE_ABSURD_DISTANCE_M = 10_000;
 

@@ -72,7 +72,7 @@ export function occupationChart(ep: EpochSeries, p: ReportPoint, mark: ReportChe
     caption: [
       Number.isFinite(r95) ? `Red circle: 95 % radius ${r95.toFixed(3)} m of the per-epoch scatter (sd east ${p.sdEastM.toFixed(3)} m, north ${p.sdNorthM.toFixed(3)} m).` : 'No scatter figures for this point.',
       ...(mark ? [`Triangle: published mark ${mark.mark}, ${mark.horizontalM.toFixed(3)} m horizontally from the point (${mark.pass ? 'pass' : 'FAIL'}).`] : []),
-      // Carrier-phase points average their fixed epochs only (float ones when too few are fixed): the dots are every epoch of the occupation.
+      // A carrier-phase point averages its fixed epochs alone when they are enough (report/points-summary.ts, chooseEpochs): the dots are every epoch of the occupation.
       ...(p.epochs > 0 && p.epochs !== all.length ? [`The point's coordinate averages ${p.epochs.toLocaleString('en-US')} of these epochs${p.solutionKinds ? ` (${p.solutionKinds})` : ''}.`] : []),
       `${decimationNote(idx.length, all.length, stride, 'epochs')}.`,
     ],
