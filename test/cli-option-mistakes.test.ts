@@ -1,10 +1,13 @@
 /**
- * Command-line mistakes users make, each answered with one sentence and exit code 2: a mistyped option
- * names the option meant; an option of one value given twice is refused rather than turned into a list.
+ * Command-line mistakes users make, each answered with one sentence: a mistyped option names the option
+ * meant and an option of one value given twice is refused rather than turned into a list (exit 2); a
+ * --systems that names none of the rover's systems is said so (exit 1).
  * The contract is our own; the edit distance is the optimal string alignment distance (Navarro 2001).
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { editDistance, unknownOptionSentence } from '../packages/cli/src/option-suggestion.js';
+import { join } from 'node:path';
+import { REPO_ROOT } from './support/shared.js';
 import { expectOneSentence, requireBuiltCli, runCli, tempDir } from './cli-support.js';
 
 beforeAll(requireBuiltCli);
@@ -28,6 +31,14 @@ describe('option mistakes', () => {
     const r = runCli(['solve', '--rover', 'r.obs', '--nav', 'n.nav', '--out', tempDir('rd-opt-'), '--ref-cord', 'header']);
     expect(r.status).toBe(2);
     expect(expectOneSentence(r)).toMatch(/unknown option --ref-cord \(did you mean --ref-coord\?\)/);
+  });
+
+  it("--systems naming none of the rover's systems is said so, not blamed on the header (exit 1)", () => {
+    const demo = (f: string) => join(REPO_ROOT, 'fixtures/demo', f);
+    const r = runCli(['solve', '--rover', demo('rover-1s.obs'), '--reference', demo('KFRD-reference-5s.obs'), '--nav', demo('broadcast-mixed.nav'),
+      '--ref-coord', 'KFRD', '--marks', demo('control-marks.csv'), '--systems', 'C', '--out', tempDir('rd-opt-sys-')]);
+    expect(r.status).toBe(1);
+    expect(expectOneSentence(r)).toMatch(/rover-1s\.obs holds observations of .* only, and the systems allowed \(C, --systems\) are none of them: give --systems with one of/);
   });
 
   it('refuses an option of one value given twice, naming both values (exit 2)', () => {

@@ -17,6 +17,7 @@ export function requireObservationTypes(path: string, header: ObsHeader, systems
   const given = (Object.keys(header.obsCodes) as GnssSystem[]).filter((s) => (header.obsCodes[s]?.length ?? 0) > 0);
   if (given.some((s) => systems.includes(s))) return;
   const label = header.version < 3 ? '# / TYPES OF OBSERV' : 'SYS / # / OBS TYPES';
-  const what = given.length === 0 ? 'gives no observation types' : `gives observation types only for ${given.map((s) => SYSTEM_NAMES[s]).join(', ')}, none of the systems allowed`;
-  throw new InputError(path, 0, `the header of ${path} ${what}: its '${label}' records are missing or damaged (or --systems excludes them)`);
+  if (given.length === 0) throw new InputError(path, 0, `the header of ${path} gives no observation types: its '${label}' records are missing or damaged`);
+  // Systems in the header, none of them allowed: most often --systems names others (e.g. E for a GPS + GLONASS file).
+  throw new InputError(path, 0, `${path} holds observations of ${given.map((s) => SYSTEM_NAMES[s]).join(', ')} only, and the systems allowed (${systems.join('')}, --systems) are none of them: give --systems with one of ${given.join(', ')}, or check the header's '${label}' records`);
 }
