@@ -45,7 +45,8 @@ export async function systemsSeen(s: ObsStream, asked: readonly GnssSystem[]): P
   return seen;
 }
 
-function when(gpsS: number): string {
+/** A GPS time as UTC to the second for messages: '2018-10-04 12:37:50 UTC'. */
+export function utcSecondText(gpsS: number): string {
   return `${isoFromSeconds(gpsToUtcS(gpsS), '').replace('T', ' ').slice(0, 19)} UTC`;
 }
 
@@ -57,8 +58,8 @@ export function requireOverlap(rover: { path: string; span: TimeSpan }, referenc
   const r = rover.span;
   const overlapping = references.filter((x) => x.span.firstGpsS <= r.lastGpsS && x.span.lastGpsS >= r.firstGpsS);
   if (overlapping.length === 0) {
-    const refs = references.map((x) => `${x.path} (${when(x.span.firstGpsS)} to ${when(x.span.lastGpsS)})`).join(', ');
-    throw new ProcessingError(`the files do not overlap in time: rover ${rover.path} runs ${when(r.firstGpsS)} to ${when(r.lastGpsS)}, reference ${refs}`);
+    const refs = references.map((x) => `${x.path} (${utcSecondText(x.span.firstGpsS)} to ${utcSecondText(x.span.lastGpsS)})`).join(', ');
+    throw new ProcessingError(`the files do not overlap in time: rover ${rover.path} runs ${utcSecondText(r.firstGpsS)} to ${utcSecondText(r.lastGpsS)}, reference ${refs}`);
   }
 }
 
@@ -81,7 +82,7 @@ export function requireNavigation(nav: NavData, navPaths: readonly string[], rov
   const usable = observed.filter((s) => covered.has(s));
   if (usable.length === 0) {
     const obsNames = observed.map((s) => SYSTEM_NAMES[s]).join(', ') || 'no allowed system';
-    const spanText = span ? ` between ${when(span.firstGpsS - NAV_WINDOW_S)} and ${when(span.lastGpsS + NAV_WINDOW_S)}` : '';
+    const spanText = span ? ` between ${utcSecondText(span.firstGpsS - NAV_WINDOW_S)} and ${utcSecondText(span.lastGpsS + NAV_WINDOW_S)}` : '';
     throw new ProcessingError(`no navigation data for the satellites observed: the rover observed ${obsNames}, but ${navPaths.join(', ')} ${navPaths.length > 1 ? 'hold' : 'holds'} no ephemeris for ${observed.length > 1 ? 'these systems' : 'it'}${spanText}`);
   }
   for (const s of observed) {

@@ -4,8 +4,8 @@
  * and rover epochs left without a solution, with their main reason and the share of the rover's span
  * the reference files cover.
  */
-import { formatWarning, gpsToUtcS, isoFromSeconds, type RejectionCount, type SessionSummary, type Warning } from '@refdelta/core';
-import type { TimeSpan } from './input-checks.js';
+import { formatWarning, type RejectionCount, type SessionSummary, type Warning } from '@refdelta/core';
+import { utcSecondText, type TimeSpan } from './input-checks.js';
 import type { WarningTally } from './reporter.js';
 
 /**
@@ -28,9 +28,6 @@ export const UNSOLVED_WARNING_SHARE = 0.2;
 /** Below this share of the rover's span covered by the reference files, the summary names the coverage. */
 const FULL_COVERAGE = 0.995;
 
-function when(gpsS: number): string {
-  return `${isoFromSeconds(gpsToUtcS(gpsS), '').replace('T', ' ').slice(0, 19)} UTC`;
-}
 
 /** Observations lost while reading: how many reader warnings say so and the first of them; null when none. */
 export interface DataLost {
@@ -59,7 +56,7 @@ export function roverEndsEarly(file: string, headerLastGpsS: number | null, inte
   if (gapS <= Math.max(2 * (intervalS ?? 1), 2)) return null;
   return {
     file, line: 0, code: ROVER_ENDS_EARLY_CODE,
-    message: `the file's epochs end at ${when(lastEpochGpsS)}, ${(gapS / 60).toFixed(1)} min before its header's TIME OF LAST OBS (${when(headerLastGpsS)}): the file looks cut off and the rest of the session is missing`,
+    message: `the file's epochs end at ${utcSecondText(lastEpochGpsS)}, ${(gapS / 60).toFixed(1)} min before its header's TIME OF LAST OBS (${utcSecondText(headerLastGpsS)}): the file looks cut off and the rest of the session is missing`,
   };
 }
 
@@ -110,7 +107,7 @@ export function unsolvedEpochs(summary: SessionSummary, roverSpan: TimeSpan, ref
       const refs = referenceSpans!;
       const first = Math.min(...refs.map((r) => r.firstGpsS));
       const last = Math.max(...refs.map((r) => r.lastGpsS));
-      sentence += `; the reference covers only ${(100 * coverage).toFixed(0)} % of the rover's span (rover ${when(span.firstGpsS)} to ${when(span.lastGpsS)}, reference ${when(first)} to ${when(last)})`;
+      sentence += `; the reference covers only ${(100 * coverage).toFixed(0)} % of the rover's span (rover ${utcSecondText(span.firstGpsS)} to ${utcSecondText(span.lastGpsS)}, reference ${utcSecondText(first)} to ${utcSecondText(last)})`;
     }
   }
   return { epochs: n, roverEpochs: total, share, mainReasons, referenceCoverage: coverage, sentence, large: share > UNSOLVED_WARNING_SHARE };

@@ -12,9 +12,9 @@ import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence } from '../input-sanity.js';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
-import { InputError, ProcessingError, ephemerisTimeGpsS, gpsToUtcS, isoFromSeconds, csvtText, metadataFileName, tableMetadata, type Warning } from '@refdelta/core';
+import { InputError, ProcessingError, ephemerisTimeGpsS, csvtText, metadataFileName, tableMetadata, type Warning } from '@refdelta/core';
 import { OutputSet, openNav, openObs } from '../node-io.js';
-import { NAV_WINDOW_S, obsTimeSpan, type TimeSpan } from '../input-checks.js';
+import { NAV_WINDOW_S, obsTimeSpan, utcSecondText, type TimeSpan } from '../input-checks.js';
 import { looksLikeObservationName, rinexKindOfFile, type RinexKind } from '../rinex-kind.js';
 import { parseReferenceChoice } from '../reference-choice.js';
 import { parseAntennaHeights, parseOutputs, parseSessionOptions } from '../solve-options.js';
@@ -103,9 +103,6 @@ export function sessionNames(paths: readonly string[]): string[] {
   });
 }
 
-function when(gpsS: number): string {
-  return `${isoFromSeconds(gpsToUtcS(gpsS), '').replace('T', ' ').slice(0, 19)} UTC`;
-}
 
 /** Reference observation files of a folder with their spans and station names (read once). */
 export interface ReferenceCandidate { readonly path: string; readonly span: TimeSpan; readonly marker: string }
@@ -153,7 +150,7 @@ const overlaps = (a: TimeSpan, b: TimeSpan, marginS: number) => a.firstGpsS <= b
 /** The reference files of --reference-dir for one session: overlapping its span (widened by the correction age limit), of one station. */
 function pickReferences(all: readonly ReferenceCandidate[], span: TimeSpan, maxAgeS: number, dir: string): string[] {
   const hit = all.filter((r) => overlaps(r.span, span, maxAgeS)).sort((x, y) => x.span.firstGpsS - y.span.firstGpsS);
-  if (hit.length === 0) throw new ProcessingError(`no reference observation file in ${dir} overlaps the session's time span ${when(span.firstGpsS)} to ${when(span.lastGpsS)}`);
+  if (hit.length === 0) throw new ProcessingError(`no reference observation file in ${dir} overlaps the session's time span ${utcSecondText(span.firstGpsS)} to ${utcSecondText(span.lastGpsS)}`);
   const stations = [...new Set(hit.map((r) => r.marker))];
   if (stations.length > 1) throw new ProcessingError(`reference files of several stations (${stations.join(', ')}) in ${dir} overlap the session: keep one station per --reference-dir`);
   return hit.map((r) => r.path);
@@ -162,7 +159,7 @@ function pickReferences(all: readonly ReferenceCandidate[], span: TimeSpan, maxA
 /** The navigation files of --nav-dir whose ephemerides are within the usable window of the session (input-checks.ts NAV_WINDOW_S). */
 function pickNav(all: readonly NavCandidate[], span: TimeSpan, dir: string): string[] {
   const hit = all.filter((n) => overlaps(n.span, span, NAV_WINDOW_S));
-  if (hit.length === 0) throw new ProcessingError(`no navigation file in ${dir} has ephemerides for the session's time span ${when(span.firstGpsS)} to ${when(span.lastGpsS)}`);
+  if (hit.length === 0) throw new ProcessingError(`no navigation file in ${dir} has ephemerides for the session's time span ${utcSecondText(span.firstGpsS)} to ${utcSecondText(span.lastGpsS)}`);
   return hit.map((n) => n.path);
 }
 
