@@ -1,6 +1,7 @@
 // `npm run bench`: throughput and memory figures of the built engine (packages/core/dist), with targets.
 //   Part 1: observation-reader MB/s on real day files (DGAR RINEX 2.11, BELE RINEX 3.05 after compact-RINEX
-//           decode) against a bare line scan of the same text, and the compact-RINEX decode MB/s.
+//           decode) against a bare line scan of the same text, and the compact-RINEX decode MB/s; run in
+//           --reader-processes fresh processes (default 3), medians over them (bench/parse-run.mjs).
 //   Part 2: engine on a simulated session (rover 1 Hz, reference 30 s, GPS + Galileo): end-to-end epochs/s,
 //           the solve step alone, the two WLS implementations, and peak memory for 1 h and 24 h, each job
 //           in a fresh child process (bench/engine-run.mjs).
@@ -11,14 +12,15 @@
 //           bench/floor-solve.mjs): CPU time (user + system) and wall time, medians of --runs runs.
 // A script, not a test. Options: --part1 ... --part5 (only one part), --hours-long N (default 24),
 // --throughput-hours N (length of the simulated session timed end to end; default 24, a full day),
-// --carrier-hours N (default 24), --no-carrier, --runs N (whole-process runs per figure, default 5).
+// --carrier-hours N (default 24), --no-carrier, --runs N (whole-process runs per figure, default 5),
+// --reader-processes N (default 3).
 import { fork } from 'node:child_process';
 import { resolve } from 'node:path';
 import os from 'node:os';
 import { loadCore, ROOT } from './load-core.mjs';
-import { benchParse, SOLVE_SYSTEMS } from './parse-throughput.mjs';
+import { SOLVE_SYSTEMS } from './parse-throughput.mjs';
 import { benchWholeProcess } from './whole-process.mjs';
-import { fmt, printTable } from './stats.mjs';
+import { fmt, median, printTable } from './stats.mjs';
 import { YOUNG_SEMI_SPACE_MIB } from '../packages/cli/bin/heap-growth.js';
 
 // Engine jobs run with the young-generation bound the command starts with (packages/cli/bin/refdelta.js).
@@ -33,6 +35,8 @@ const longHours = longIdx >= 0 ? Number(args[longIdx + 1]) : 24;
 const tpIdx = args.indexOf('--throughput-hours');
 const throughputHours = tpIdx >= 0 ? Number(args[tpIdx + 1]) : 24;
 const dataDir = resolve(ROOT, '..', 'shared', 'data');
+const procIdx = args.indexOf('--reader-processes');
+const readerProcesses = procIdx >= 0 ? Number(args[procIdx + 1]) : 3;
 const verdicts = [];
 const verdict = (what, value, target, pass) => verdicts.push([what, value, target, pass === null ? 'n/a' : pass ? 'PASS' : 'FAIL']);
 const t0 = performance.now();
@@ -42,8 +46,9 @@ console.log('Figures are medians of repeated runs after one warm-up; other proce
 
 if (only === 0 || only === 1) {
   console.log('== Part 1: observation reader throughput (plain RINEX text held in memory, 64 KiB string chunks) ==');
-  const core = await loadCore();
-  const results = await benchParse(core, dataDir);
+  const perProcess = [];
+  for (let i = 0; i < readerProcesses; i++) perProcess.push(await parseInFreshProcess());
+  const results = combineParseRuns(perProcess);
   const rows = [['file', 'MB', 'lines', 'parser MB/s', 'best run MB/s', 'split MB/s', 'indexOf MB/s', 'bare scan used', 'parser/bare']];
   for (const r of results) {
     if (r.skipped) { console.log(`${r.name}: skipped (${r.skipped})`); continue; }
@@ -70,7 +75,51 @@ if (only === 0 || only === 1) {
       console.log(`reader from the .crx bytes (decoding included, as the command line): ${fmt(c.readerCpuMs)} ms CPU; floor on the same ${fmt(r.decode.crxMB, 1)} MB ${fmt(c.floorCpuMs)} ms: ${fmt(100 * c.cpuRatio, 1)} % (info)`);
     }
   }
-  console.log('bare scan: the faster of split and an indexOf loop that makes every line a string (each is measured).\n');
+  console.log('bare scan: the faster of split and an indexOf loop that makes every line a string (each is measured).');
+  console.log(`Each figure above is the median over ${readerProcesses} fresh processes of each process's median (V8's optimisation decisions differ between processes). Reader from bytes, CPU ms per process:`);
+  for (const r of results) if (!r.skipped) console.log(`  ${r.name.split(' ')[0]}: ${r.perProcessCpuMs.map((v) => fmt(v)).join(', ')} (floor ${r.perProcessFloorCpuMs.map((v) => fmt(v)).join(', ')})`);
+  console.log('');
+}
+
+/** Part 1 in a fresh process (bench/parse-run.mjs), started as the command starts its engine. */
+function parseInFreshProcess() {
+  return new Promise((resolveRun, reject) => {
+    const child = fork(resolve(ROOT, 'bench/parse-run.mjs'), [dataDir], { execArgv: ENGINE_NODE_FLAGS, stdio: ['ignore', 'inherit', 'inherit', 'ipc'] });
+    let result = null;
+    child.on('message', (m) => { result = m; });
+    child.on('error', reject);
+    child.on('exit', (code) => (result !== null ? resolveRun(result) : reject(new Error(`bench/parse-run.mjs exited ${code} without a result`))));
+  });
+}
+
+/**
+ * One part-1 result per file from the results of several processes: every timed figure is the median
+ * of the processes' medians (each ratio recomputed from those); the reader's and the floor's CPU per
+ * process are kept to show the spread.
+ */
+function combineParseRuns(perProcess) {
+  return perProcess[0].map((first, i) => {
+    if (first.skipped) return first;
+    const runsOf = perProcess.map((p) => p[i]);
+    const med = (pick) => median(runsOf.map(pick));
+    const fromBytes = {
+      parserMBs: med((r) => r.fromBytes.parserMBs), bareMBs: med((r) => r.fromBytes.bareMBs),
+      parserCpuMs: med((r) => r.fromBytes.parserCpuMs), bareCpuMs: med((r) => r.fromBytes.bareCpuMs), jsPassCpuMs: med((r) => r.fromBytes.jsPassCpuMs),
+      defaultSystemsCpuMs: med((r) => r.fromBytes.defaultSystemsCpuMs), gpsCpuMs: med((r) => r.fromBytes.gpsCpuMs),
+    };
+    const parserMBs = med((r) => r.parserMBs), splitMBs = med((r) => r.splitMBs), scanMBs = med((r) => r.scanMBs);
+    const bare = splitMBs >= scanMBs ? { how: "text.split('\\n').length", mbs: splitMBs } : { how: 'indexOf loop + slice per line', mbs: scanMBs };
+    const decode = first.decode ? {
+      ...first.decode, decodeMBs: median(runsOf.map((r) => r.decode.decodeMBs)),
+      fromCrx: { readerCpuMs: med((r) => r.decode.fromCrx.readerCpuMs), floorCpuMs: med((r) => r.decode.fromCrx.floorCpuMs), cpuRatio: med((r) => r.decode.fromCrx.floorCpuMs) / med((r) => r.decode.fromCrx.readerCpuMs) },
+    } : undefined;
+    return {
+      ...first, parserMBs, parserBestMBs: Math.max(...runsOf.map((r) => r.parserBestMBs)), splitMBs, scanMBs, bare, ratio: parserMBs / bare.mbs,
+      fromBytes: { ...fromBytes, ratio: fromBytes.parserMBs / fromBytes.bareMBs, cpuRatio: fromBytes.bareCpuMs / fromBytes.parserCpuMs },
+      ...(decode ? { decode } : {}),
+      perProcessCpuMs: runsOf.map((r) => r.fromBytes.parserCpuMs), perProcessFloorCpuMs: runsOf.map((r) => r.fromBytes.bareCpuMs),
+    };
+  });
 }
 
 /** Runs one engine job in a fresh process and returns what it sends back. */
