@@ -4,7 +4,8 @@ import { createHash } from 'node:crypto';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { OutputSet, fileChunks, sha256File, writeFileAtomic } from '../packages/cli/src/node-io.js';
+import { gzipSync } from 'node:zlib';
+import { OutputSet, fileChunks, obsHeaderOf, openObs, sha256File, writeFileAtomic } from '../packages/cli/src/node-io.js';
 import { requireOverlap } from '../packages/cli/src/input-checks.js';
 import { secondsFromCalendar } from '../packages/core/src/time/index.js';
 
@@ -145,5 +146,45 @@ describe('time overlap', () => {
   it('disjoint spans are refused with one sentence naming both', () => {
     expect(() => requireOverlap({ path: 'rover', span: { firstGpsS: t(12, 37), lastGpsS: t(12, 58) } },
       [{ path: 'ref', span: { firstGpsS: t(14, 0), lastGpsS: t(14, 59) } }])).toThrow(/do not overlap in time: rover rover runs 2018-10-04 12:3.*ref/);
+  });
+});
+
+describe('observation files are closed when their reading is given up (Linux: open descriptors counted in /proc/self/fd)', () => {
+  const fdDir = '/proc/self/fd';
+  const canCount = existsSync(fdDir);
+  const openFds = () => readdirSync(fdDir).length;
+  const demo = (f: string) => join(__dirname, '..', 'fixtures', 'demo', f);
+  /** Open descriptors left after `times` calls of `use` (a stream left open keeps one each). */
+  const leftOpen = async (use: () => Promise<void>, times = 6) => {
+    const before = openFds();
+    for (let i = 0; i < times; i++) await use();
+    await new Promise((r) => setTimeout(r, 50)); // closing is asynchronous
+    return openFds() - before;
+  };
+
+  it.skipIf(!canCount)('a header read alone, a loop left by break, a gzip file, a file that fails in its header or is not text: none keeps its file open', async () => {
+    const d = dir();
+    const gz = join(d, 'rover.obs.gz');
+    writeFileSync(gz, gzipSync(readFileSync(demo('rover-1s.obs'))));
+    const headerOnly = join(d, 'header-only.obs');
+    writeFileSync(headerOnly, readFileSync(demo('rover-1s.obs'), 'latin1').split('\n').slice(0, 5).join('\n') + '\n');
+    const binary = join(d, 'binary.obs');
+    writeFileSync(binary, Buffer.from([0x89, 0x50, 0x4e, 0x47, 0, 0, 0, 1]));
+    const firstEpochs = async (p: string) => {
+      const s = await openObs(p, () => {});
+      let n = 0;
+      for await (const e of s.epochs) if (e && ++n >= 3) break;
+    };
+    const failing = (p: string) => async () => { await openObs(p, () => {}).then(async (s) => { for await (const e of s.epochs) void e; }, () => undefined); };
+    expect(await leftOpen(async () => { await obsHeaderOf(demo('rover-1s.obs')); })).toBe(0);
+    expect(await leftOpen(() => firstEpochs(demo('rover-1s.obs')))).toBe(0);
+    expect(await leftOpen(async () => { await obsHeaderOf(gz); })).toBe(0);
+    expect(await leftOpen(() => firstEpochs(gz))).toBe(0);
+    expect(await leftOpen(failing(headerOnly))).toBe(0);
+    expect(await leftOpen(failing(binary))).toBe(0);
+    // the check itself: a stream opened and never read nor closed keeps its file open
+    const kept: unknown[] = [];
+    expect(await leftOpen(async () => { kept.push(await openObs(demo('rover-1s.obs'), () => {})); }, 3)).toBe(3);
+    for (const s of kept as { close?: () => Promise<void> }[]) await s.close?.();
   });
 });

@@ -11,7 +11,7 @@ import { makeFolder } from './output-folder.js';
 import { commitWithJournal, registerTemporary, releaseTemporary, temporaryName } from './output-commit.js';
 import {
   InputError, mergeNav, openText, readNav, readObsStream,
-  type GnssSystem, type NavData, type ObsStream, type WarningSink,
+  type GnssSystem, type NavData, type ObsHeader, type ObsStream, type WarningSink,
 } from '@refdelta/core';
 
 /**
@@ -75,7 +75,7 @@ function sharedDigestFor(path: string, version: { sizeBytes: number; mtimeMs: nu
  * SHA-256. Readings started before that add to one digest (SharedDigest): a reading may be left
  * unfinished, as by a header probe, and cannot be waited for.
  */
-export async function* fileChunks(path: string, chunkBytes = 1 << 16): AsyncIterable<Uint8Array> {
+export async function* fileChunks(path: string, chunkBytes = 1 << 16): AsyncGenerator<Uint8Array> {
   const version = digestsRead.has(path) ? null : await fileVersion(path);
   const digest = version ? sharedDigestFor(path, version) : null;
   let offset = 0;
@@ -124,8 +124,14 @@ export function latin1Text(bytes: Uint8Array): string {
 /** Opens a file through the decompression stage (gzip, Unix compress, compact RINEX detected by content). */
 export async function openTextFile(path: string, onWarning: WarningSink): Promise<OpenedText> {
   await requireFile(path);
-  const opened = await openText(path, fileChunks(path), { onWarning, decodeLatin1: latin1Text });
-  return { layers: layerNames(opened.layers), text: opened.text };
+  const chunks = fileChunks(path);
+  try {
+    const opened = await openText(path, chunks, { onWarning, decodeLatin1: latin1Text });
+    return { layers: layerNames(opened.layers), text: opened.text };
+  } catch (err) {
+    await chunks.return(undefined); // closes the file now, not at the process's exit
+    throw err;
+  }
 }
 
 export type OpenedObs = ObsStream & { readonly layers: readonly string[] };
@@ -137,7 +143,14 @@ export type OpenedObs = ObsStream & { readonly layers: readonly string[] };
 export async function openObs(path: string, onWarning: WarningSink, systems?: readonly GnssSystem[]): Promise<OpenedObs> {
   const t = await openTextFile(path, onWarning);
   const stream = await readObsStream(path, t.text, systems ? { onWarning, systems } : { onWarning });
-  return { file: stream.file, header: stream.header, epochs: stream.epochs, layers: t.layers };
+  return { file: stream.file, header: stream.header, epochs: stream.epochs, layers: t.layers, ...(stream.close ? { close: stream.close } : {}) };
+}
+
+/** The header of an observation file, the file closed once it is read. */
+export async function obsHeaderOf(path: string, onWarning: WarningSink = () => {}): Promise<ObsHeader> {
+  const s = await openObs(path, onWarning);
+  await s.close?.();
+  return s.header;
 }
 
 export interface OpenedNav {

@@ -13,7 +13,7 @@ import { noEpochSentence } from '../input-sanity.js';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
 import { InputError, ProcessingError, ephemerisTimeGpsS, csvtText, metadataFileName, tableMetadata, type Warning } from '@refdelta/core';
-import { OutputSet, openNav, openObs } from '../node-io.js';
+import { OutputSet, obsHeaderOf, openNav } from '../node-io.js';
 import { NAV_WINDOW_S, obsTimeSpan, utcSecondText, type TimeSpan } from '../input-checks.js';
 import { looksLikeObservationName, rinexKindOfFile, type RinexKind } from '../rinex-kind.js';
 import { parseReferenceChoice } from '../reference-choice.js';
@@ -114,9 +114,9 @@ async function referenceCandidates(files: readonly Candidate[]): Promise<Referen
   for (const f of files) {
     if (f.kind !== 'observation') continue;
     try {
-      const o = await openObs(f.path, () => {});
-      const span = await obsTimeSpan(f.path, o.header);
-      if (span) out.push({ path: f.path, span, marker: o.header.markerName.trim() });
+      const header = await obsHeaderOf(f.path);
+      const span = await obsTimeSpan(f.path, header);
+      if (span) out.push({ path: f.path, span, marker: header.markerName.trim() });
     } catch {
       // an unreadable reference candidate is not picked; the session that needed it says so
     }
@@ -222,8 +222,8 @@ export async function runBatchSession(job: BatchSessionJob, ctx: BatchSessionCon
   try {
     if (ctx.refDir || ctx.navDir) {
       const probeWarnings: Warning[] = [];
-      const probe = await openObs(file, (w) => probeWarnings.push(w));
-      const span = await obsTimeSpan(file, probe.header, (w) => probeWarnings.push(w));
+      const header = await obsHeaderOf(file, (w) => probeWarnings.push(w));
+      const span = await obsTimeSpan(file, header, (w) => probeWarnings.push(w));
       if (!span) throw new InputError(file, 0, noEpochSentence(file, probeWarnings));
       if (ctx.refDir) references = pickReferences(ctx.refCandidates, span, ctx.maxCorrectionAgeS, ctx.refDir);
       if (ctx.navDir) navs = pickNav(ctx.navCandidates, span, ctx.navDir);

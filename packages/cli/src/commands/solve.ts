@@ -9,7 +9,7 @@ import {
   type EcefM, type EpochSolution, type FrameEpoch, type GnssSystem, type InputFileRecord, type ObsHeader, type OutputFileRecord,
   type PointReference, type SessionOptions, type SessionSummary, type Warning,
 } from '@refdelta/core';
-import { AtomicFile, OutputSet, openNav, openObs, requireFile, sha256File, type OpenedObs } from '../node-io.js';
+import { AtomicFile, OutputSet, openNav, openObs as openObsOfFile, requireFile, sha256File, type OpenedObs } from '../node-io.js';
 import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence, requireObservationTypes } from '../input-sanity.js';
 import { obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeSpan } from '../input-checks.js';
@@ -181,6 +181,21 @@ async function writeEpochs(
 
 /** Steps 1-4 of a solve run: checks, reference coordinate, the run, the per-epoch outputs staged in an OutputSet. */
 export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks = {}): Promise<StagedSolve> {
+  // Every observation stream the run opens is closed when it ends, however it ends: the probes read
+  // only headers, and a run that fails leaves its streams unread (a batch runs many sessions in one process).
+  const opened: OpenedObs[] = [];
+  try {
+    return await stageSolveWith(a, rep, hooks, async (path, onWarning, systems) => {
+      const s = await openObsOfFile(path, onWarning, systems);
+      opened.push(s);
+      return s;
+    });
+  } finally {
+    await Promise.all(opened.map((s) => s.close?.()));
+  }
+}
+
+async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, openObs: typeof openObsOfFile): Promise<StagedSolve> {
   // 1. The command line, before any file is touched.
   // Without --reference the run is single-receiver (standalone): no reference coordinate is asked for.
   const singleReceiver = !a.reference?.length;

@@ -28,16 +28,34 @@ export class PeekableBytes {
     return concatBytes(this.buffered, Math.min(n, this.bufferedBytes));
   }
 
-  /** The whole stream, from the first byte. */
+  /**
+   * The whole stream, from the first byte. A consumer that stops early (return(), or a for-await left
+   * by break or an error) stops the source too, so that a file behind it is closed now.
+   */
   async *chunks(): AsyncIterable<Uint8Array> {
-    while (this.buffered.length > 0) yield this.buffered.shift() as Uint8Array;
-    this.bufferedBytes = 0;
-    if (this.ended) return;
-    for (;;) {
-      const r = await this.it.next();
-      if (r.done) return;
-      yield r.value;
+    try {
+      while (this.buffered.length > 0) yield this.buffered.shift() as Uint8Array;
+      this.bufferedBytes = 0;
+      while (!this.ended) {
+        const r = await this.it.next();
+        if (r.done) this.ended = true;
+        else yield r.value;
+      }
+    } finally {
+      if (!this.ended) {
+        this.ended = true;
+        await this.it.return?.();
+      }
     }
+  }
+
+  /** Stops the source without reading it (a stream given up before its chunks were asked for). */
+  async close(): Promise<void> {
+    if (this.ended) return;
+    this.ended = true;
+    this.buffered.length = 0;
+    this.bufferedBytes = 0;
+    await this.it.return?.();
   }
 }
 

@@ -119,4 +119,11 @@ export interface ObsStream {
   readonly file: string;
   readonly header: ObsHeader;
   readonly epochs: AsyncIterable<ObsEpoch>;
+  /**
+   * Gives the reading up: the input is let go (a file behind it closed now) and epochs not yet handed
+   * out never are. A stream read to its end, or left by break, lets its input go by itself; a stream
+   * whose epochs are never read (a header probe) needs this. Optional: a stream holding nothing to let
+   * go may leave it out.
+   */
+  readonly close?: () => Promise<void>;
 }

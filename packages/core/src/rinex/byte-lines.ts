@@ -301,7 +301,11 @@ export class ByteLineCursor {
     this.seam = 0;
     this.lineStart = 0;
     this.lineEnd = 0;
+    // The source is stopped too, so that a file behind it is closed now rather than at the process's
+    // exit (a reading given up early: a header probe, a loop left by break).
+    const source = this.it;
     this.it = ENDED_SOURCE;
+    source.return?.()?.catch(() => {});
   }
 }
 

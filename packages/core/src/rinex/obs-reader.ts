@@ -57,6 +57,26 @@ export async function readObsStream(file: string, text: AsyncIterable<string>, o
   const records = claimObservationRecords(text);
   const bytes = records === null ? claimTextBytes(text) : null;
   const cur = bytes !== null ? new ByteLineCursor(bytes.chunks, file, bytes.decode, true) : new ByteLineCursor(text, file);
+  let header: ObsHeader;
+  try {
+    header = await readHeader(file, cur, warn);
+  } catch (err) {
+    cur.release(); // the input is let go: nothing more will be read from it
+    throw err;
+  }
+  const parser = new EpochParser(file, header, cur, warn, records, opts?.systems ?? null);
+  const epochs = parser.epochs();
+  const close = async (): Promise<void> => {
+    // Ends the epoch loop where it stands (its finally lets the input go); one never started ends at
+    // once without running, so the input is let go here too.
+    await epochs.return(undefined);
+    cur.release();
+  };
+  return { file, header, epochs, close };
+}
+
+/** The header records up to END OF HEADER (or to the first epoch record of a header without it). */
+async function readHeader(file: string, cur: ByteLineCursor, warn: WarningSink): Promise<ObsHeader> {
   let first = await cur.next();
   if (first === null) throw new FormatError(file, 0, `${file} is empty, not a RINEX observation file`);
   if (first.charCodeAt(0) === 0xfeff) first = first.slice(1);
@@ -75,9 +95,7 @@ export async function readObsStream(file: string, text: AsyncIterable<string>, o
     }
     hb.line(line, cur.lineNumber);
   }
-  const header = hb.build(cur.lineNumber);
-  const parser = new EpochParser(file, header, cur, warn, records, opts?.systems ?? null);
-  return { file, header, epochs: parser.epochs() };
+  return hb.build(cur.lineNumber);
 }
 
 /** All epochs of a stream in an array (tests and small files; large files should iterate). */
