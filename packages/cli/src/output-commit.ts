@@ -163,6 +163,9 @@ function installSignalHandlers(): void {
   if (installed) return;
   installed = true;
   const handler = (code: number) => () => {
+    // Said only when outputs were being written (a process that is stopped between runs, such as a
+    // test worker at its end, has nothing to say).
+    const cleaning = activeJournals.size > 0 || liveTemporaries.size > 0;
     for (const path of [...activeJournals]) {
       try {
         finishJournal(path, JSON.parse(readFileSync(path, 'utf8')) as Journal);
@@ -172,7 +175,7 @@ function installSignalHandlers(): void {
     }
     for (const t of liveTemporaries) rmSync(t, { force: true });
     liveTemporaries.clear();
-    process.stderr.write(`refdelta: interrupted; temporary files removed, earlier outputs left as they were\n`);
+    if (cleaning) process.stderr.write(`refdelta: interrupted; temporary files removed, earlier outputs left as they were\n`);
     process.exit(code);
   };
   process.on('SIGINT', handler(130));
