@@ -6,9 +6,9 @@
  * tie baseline and its precision go into summary.json, and the tie's precision is added to the reference
  * coordinate's own uncertainty.
  */
-import type { EcefM, EnuM, NavData, ReferenceSigma, SessionOptions } from '@refdelta/core';
+import type { EcefM, EnuM, NavData, ReferenceSigma, SessionOptions, WarningSink } from '@refdelta/core';
 import { chooseEpochs, carrierPointFloor, ecefDeltaToEnu, ecefToGeodetic, sigmaRescaleFactor, solveSession, summarisePoint } from '@refdelta/core';
-import { openObs, type OpenedObs } from './node-io.js';
+import { openObs as openObsOfFile, type OpenedObs } from './node-io.js';
 import { parseCarrierChoice, runCarrierSession } from './carrier-run.js';
 import type { ResolvedReference } from './reference-choice.js';
 import type { Reporter } from './reporter.js';
@@ -31,6 +31,8 @@ export interface BaseTie {
 export async function tieBaseToCors(
   baseFiles: readonly string[], corsFiles: readonly string[], nav: NavData, cors: ResolvedReference, session: Omit<SessionOptions, 'reference' | 'roverAntenna'>,
   carrierArgs: Record<string, unknown>, rep: Reporter,
+  /** Opens the observation files (the caller's, which closes them when its run ends). */
+  openObs: (path: string, onWarning: WarningSink) => Promise<OpenedObs> = openObsOfFile,
 ): Promise<BaseTie> {
   if (baseFiles.length !== 1) throw new UsageError(`--tie-to needs exactly one reference (base) file to tie, got ${baseFiles.length}`);
   const base = await openObs(baseFiles[0], () => {});

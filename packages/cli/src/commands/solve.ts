@@ -295,7 +295,7 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   let tie: BaseTie | null = null;
   if (tieFiles.length) {
     // A base on an unknown point: tied to the CORS first, then the reference of the rover run (base-tie.ts).
-    tie = await tieBaseToCors(referencePaths, tieFiles, nav, ref, base, a as unknown as Record<string, unknown>, rep);
+    tie = await tieBaseToCors(referencePaths, tieFiles, nav, ref, base, a as unknown as Record<string, unknown>, rep, openObs);
     rep.info(tiedReference(tie, ref, referencePaths[0]!).note);
     ref = tiedReference(tie, ref, referencePaths[0]!);
     referenceSigma = { horizontalM: Math.hypot(referenceSigma.horizontalM, tie.sigma.horizontalM), verticalM: Math.hypot(referenceSigma.verticalM, tie.sigma.verticalM), source: `${referenceSigma.source}, with the tie to the CORS` };
