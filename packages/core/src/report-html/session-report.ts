@@ -67,6 +67,7 @@ function summaryLines(d: SessionReportData, kinds: readonly (readonly [string, n
   lines.push(['Points', d.points.length ? `${d.points.length}, ${failed ? `${failed} exceeding their tolerance` : 'all within tolerance'}` : 'none in this output']);
   if (d.points.some((p) => Number.isFinite(p.eastingM))) lines.push(['Grid coordinates', d.gridCrsText || 'grid CRS not stated']);
   if (d.points.length) lines.push(['Heights', d.heightsText || 'ellipsoidal']);
+  if (d.points.length && d.heightsCaution) lines.push(['Height caution', d.heightsCaution, 'alert']);
   lines.push(['Control check', d.check
     ? `${d.check.pairs.length} mark(s) compared: ${checkFailed ? `${checkFailed} FAILED the tolerance` : 'all within the tolerance'}` +
       (d.check.pairs.some((p) => p.differenceTest) ? `; difference test: ${checkRejected ? `${checkRejected} rejected (larger than the precision and the mark's accuracy explain)` : 'all accepted'}` : '')
