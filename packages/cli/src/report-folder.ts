@@ -434,9 +434,12 @@ export async function readSessionReportData(src: ReportSources, title: string): 
   } else if (!checkOnly) missing.push('No epochs.csv: no track, occupation scatter or time series.');
   const residuals = src.residuals ? await readResiduals(src.residuals) : null;
   if (!residuals && !checkOnly) missing.push('No residuals.csv: no sky plot or residual chart.');
+  // Without a reference coordinate, east/north are about the first epoch's position, else the first point's.
+  const planOrigin = o === null ? undefined : origin(summary) === null ? 'the first epoch' : undefined;
   let pointsPath = src.points;
   if (!pointsPath && checkDoc && typeof checkDoc.points_file === 'string' && existsSync(checkDoc.points_file)) pointsPath = checkDoc.points_file;
   const pr: PointsRead = pointsPath ? await readPoints(pointsPath, o) : { points: [], note: null, frames: [], pointReferences: [] };
+  const planAbout = planOrigin ?? (pr.note && pr.points.length ? `the point ${pr.points[0].name}` : undefined);
   const points = pr.points;
   if (pr.note) missing.push(checkOnly ? `A control check's outputs only (no run in this folder): the plan view is drawn about the first point (${points[0]?.name ?? ''}), without the rover's track.` : pr.note);
   const s = asObj(summary);
@@ -460,6 +463,7 @@ export async function readSessionReportData(src: ReportSources, title: string): 
     ...(pointsFrame && pointsFrame !== frameText ? { pointsFrameText: pointsFrame } : {}),
     gridCrsText: statements.grid, gridDatumNote: statements.gridDatum, heightsText: statements.heights, heightsCaution: statements.caution,
     incompleteInput: incompleteInputText(s),
+    ...(planAbout ? { planOrigin: planAbout } : {}),
     pointReference: text(opts.position_refers_to) || pr.pointReferences.join('; '),
     referenceText: [text(ref.source ?? ref.note), referencePositionText(asObj(ref.position), ref)].filter(Boolean).join('; '),
     firstUtc: text(span.first_utc), lastUtc: text(span.last_utc),

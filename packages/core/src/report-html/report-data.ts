@@ -159,6 +159,8 @@ export interface SessionReportData {
   readonly heightsText?: string;
   /** The geoid model's caution (EGM96 is not a national height datum), when it gives one. */
   readonly heightsCaution?: string;
+  /** What the plan view's east/north are about when the folder gives no reference coordinate (e.g. 'the point P1'). */
+  readonly planOrigin?: string;
   /** Why the run's input was incomplete (observations lost while reading), '' or absent when complete. */
   readonly incompleteInput?: string;
   /** More summary lines (scatter of the positions, systems used, rejected epochs...), label and value. */

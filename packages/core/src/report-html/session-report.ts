@@ -88,7 +88,7 @@ export function buildSessionReportHtml(d: SessionReportData): string {
   if (d.missing.length) s.push(`<ul class="plain missing">${d.missing.map((m) => `<li>${esc(m)}</li>`).join('')}</ul>`);
 
   s.push('<h2>Plan view</h2>');
-  s.push(d.epochs || d.points.length ? planChart(d.epochs, d.points, d.check) : chartMissing('plan', 'Plan view', 'No epochs and no points in this output.'));
+  s.push(d.epochs || d.points.length ? planChart(d.epochs, d.points, d.check, d.planOrigin) : chartMissing('plan', 'Plan view', 'No epochs and no points in this output.'));
   if (d.points.length) {
     s.push('<h2>Points</h2>' + pointsCoordinatesHtml(d) + pointsTable(d.points));
     s.push('<p class="chart-note">sd: per-epoch scatter (1 sigma); sigma of mean: precision of the averaged coordinate, with time-correlated epochs not counted as independent; 95 % radius of the epochs: circle holding 95 % of the per-epoch scatter; the point\'s own 95 % radius (when points.csv states it) comes from the sigma of the mean, relative to the reference and, with the reference coordinate\'s own uncertainty, in the frame. Precision is not accuracy: compare with control.</p>');
