@@ -48,7 +48,7 @@ export interface HeightsStatement {
 }
 
 export function heightsStatement(frame: FrameEpoch, geoid?: GeoidModel): HeightsStatement {
-  const ellipsoidal = `ellipsoidal (height_m, above the ellipsoid of ${frame.name})`;
+  const ellipsoidal = `ellipsoidal (height_m, above the ellipsoid of ${frame.name.toLowerCase() === 'unstated' ? "the points' frame, which is not stated" : frame.name})`;
   const orthometric = geoid ? `orthometric (orthometric_height_m = height_m - N) above ${geoid.heightReference} (${geoid.name})` : null;
   const caution = geoid && /egm96/i.test(geoid.name + geoid.heightReference) ? EGM96_NOT_A_DATUM_NOTE : null;
   return { label: orthometric ? `${ellipsoidal}; ${orthometric}` : `${ellipsoidal} only (no geoid model given)`, ellipsoidal, orthometric, caution };
