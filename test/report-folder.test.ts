@@ -54,6 +54,28 @@ describe('report data read by column name', () => {
     expect(d.missing.join(' ')).toMatch(/No epochs.csv/);
   });
 
+  it("an older points folder (whole-session spread in summary.json): the scatter shown is each point's epochs about its own mean, from epochs.csv", async () => {
+    const dir = tempDir('rd-report-old-points-');
+    // Two occupations 200 m apart (east), each epoch 1 cm east or west of its point, a walk between them.
+    const rows = ['gps_week,gps_tow_s,solution,ecef_x_m,ecef_y_m,ecef_z_m,point'];
+    for (let t = 0; t < 20; t++) rows.push(`2000,${t},fixed,${A},${t % 2 ? 0.01 : -0.01},0,A`);
+    for (let t = 20; t < 30; t++) rows.push(`2000,${t},fixed,${A},${20 * (t - 20)},0,`);
+    for (let t = 30; t < 50; t++) rows.push(`2000,${t},fixed,${A},${200 + (t % 2 ? 0.01 : -0.01)},0,B`);
+    writeFileSync(join(dir, 'epochs.csv'), rows.join('\n') + '\n');
+    writeFileSync(join(dir, 'points.csv'), [
+      'name,start_gps_week,start_gps_tow_s,end_gps_week,end_gps_tow_s,ecef_x_m,ecef_y_m,ecef_z_m',
+      `A,2000,0,2000,19,${A},0,0`, `B,2000,30,2000,49,${A},200,0`,
+    ].join('\n') + '\n');
+    writeFileSync(join(dir, 'summary.json'), JSON.stringify({
+      reference: { position: { x_m: A, y_m: 0, z_m: 0 } }, frame: { name: 'WGS84', epoch_text: '2024.37' },
+      statistics: { over: 'fixed and float epochs', mean_ecef: { x_m: A, y_m: 100, z_m: 0 }, horizontal_median_m: 100, horizontal_95_m: 190, vertical_median_m: 0, vertical_95_m: 0 },
+    }));
+    const d = await readSessionReportData(sourcesInFolder(dir), 't');
+    const fact = d.facts!.find(([k]) => /Scatter|Spread/.test(k))!;
+    expect(fact[0]).toBe("Scatter about each point's mean");
+    expect(fact[1]).toMatch(/^horizontal median 0\.010 m, 95 % 0\.010 m; .*the 40 epochs within the occupations of 2 points/);
+  });
+
   it('a folder with none of the outputs: exit 1 and one sentence naming it', () => {
     requireBuiltCli();
     const dir = tempDir('rd-report-empty-');

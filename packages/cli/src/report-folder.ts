@@ -8,7 +8,7 @@ import { createInterface } from 'node:readline';
 import { readFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import {
-  ecefToEnu, gridCrsWords, InputError, leapSecondsAtUtc, splitCsvLine, SECONDS_PER_WEEK,
+  ecefToEnu, gridCrsWords, horizontalVerticalStats, InputError, type HorizontalVerticalStats, leapSecondsAtUtc, splitCsvLine, SECONDS_PER_WEEK,
   type EcefM, type EpochSeries, type ReportControlCheck, type ReportInput, type ReportPoint, type ResidualSeries, type SessionReportData, type SkySeries,
 } from '@refdelta/core';
 
@@ -349,22 +349,56 @@ async function checkFrameText(doc: J, checkPath: string): Promise<string> {
  * a precision). A whole-session figure is about one overall mean: the precision of a still antenna, the
  * extent of the movement of one that moved (a session with several points, older points runs).
  */
-function scatterFact(st: J, points: number): [string, string] | null {
+function scatterFact(st: J, points: number, fromEpochs: PooledScatter | null): [string, string] | null {
   if (typeof st.horizontal_median_m !== 'number') return null;
   const m = (k: string) => (typeof st[k] === 'number' ? `${(st[k] as number).toFixed(3)} m` : 'not stated');
   const figures = `horizontal median ${m('horizontal_median_m')}, 95 % ${m('horizontal_95_m')}; vertical median ${m('vertical_median_m')}, 95 % ${m('vertical_95_m')}`;
   const over = text(st.over ?? 'epochs');
   if (st.mean_ecef === null && /own point/.test(over)) return ["Scatter about each point's mean", `${figures} (${over}; precision, not accuracy)`];
+  if (points > 1 && fromEpochs) {
+    const f = (v: number) => `${v.toFixed(3)} m`;
+    return ["Scatter about each point's mean", `horizontal median ${f(fromEpochs.horizontalMedianM)}, 95 % ${f(fromEpochs.horizontal95M)}; vertical median ${f(fromEpochs.verticalMedianM)}, 95 % ${f(fromEpochs.vertical95M)} ` +
+      `(from epochs.csv: the ${fromEpochs.count} epochs within the occupations of ${fromEpochs.points} points, each about its own point's mean; precision, not accuracy)`];
+  }
   if (points > 1) return ['Spread of all epochs (moving)', `${figures} (${over}, about one mean of the whole session: the rover moved between ${points} points, so this is the extent of its movement, neither an error nor a precision; each point's scatter is in the Points table)`];
   return ['Spread of the epoch positions', `${figures} (${over}, about their overall mean: the precision, not accuracy, when the antenna stayed still; when it moved, the extent of its movement, not an error)`];
 }
 
+type PooledScatter = HorizontalVerticalStats & { readonly points: number };
+
+/** Occupations are matched to epochs by time, as the points stage does (points-summary.ts: 0.01 s). */
+const OCCUPATION_SLACK_S = 0.01;
+
+/**
+ * The epochs within each point's occupation about that point's mean, pooled over the points (local
+ * east/north/up at the reference: over a few hundred metres the frames' rotation is negligible);
+ * null when no point has an epoch. For folders whose summary.json gives only the whole session's spread.
+ */
+export function pooledScatterFromEpochs(ep: EpochSeries, points: readonly ReportPoint[]): PooledScatter | null {
+  const diffs: { e: number; n: number; u: number }[] = [];
+  let used = 0;
+  for (const p of points) {
+    if (!Number.isFinite(p.startGpsS) || !Number.isFinite(p.endGpsS)) continue;
+    const inside: number[] = [];
+    for (let i = 0; i < ep.timeGpsS.length; i++) {
+      const t = ep.timeGpsS[i];
+      if (t >= p.startGpsS - OCCUPATION_SLACK_S && t <= p.endGpsS + OCCUPATION_SLACK_S && Number.isFinite(ep.eastM[i]) && Number.isFinite(ep.northM[i]) && Number.isFinite(ep.upM[i])) inside.push(i);
+    }
+    if (inside.length === 0) continue;
+    used++;
+    const mean = (a: ArrayLike<number>) => inside.reduce((acc, i) => acc + a[i], 0) / inside.length;
+    const me = mean(ep.eastM), mn = mean(ep.northM), mu = mean(ep.upM);
+    for (const i of inside) diffs.push({ e: ep.eastM[i] - me, n: ep.northM[i] - mn, u: ep.upM[i] - mu });
+  }
+  return used ? { ...horizontalVerticalStats(diffs), points: used } : null;
+}
+
 /** Summary lines from summary.json: systems, the scatter of the epoch positions, rejected epochs. */
-function summaryFacts(s: J, points: number): [string, string][] {
+function summaryFacts(s: J, points: number, fromEpochs: PooledScatter | null): [string, string][] {
   const out: [string, string][] = [];
   const systems = asArr(s.systems_used).map(text);
   if (systems.length) out.push(['Systems used', systems.join(', ')]);
-  const scatter = scatterFact(asObj(s.statistics), points);
+  const scatter = scatterFact(asObj(s.statistics), points, fromEpochs);
   if (scatter) out.push(scatter);
   const rej = asArr(s.rejected_epochs).map((r0) => asObj(r0)).filter((r) => typeof r.count === 'number');
   if (rej.length) out.push(['Epochs without a solution', rej.map((r) => `${text(r.count)} ${text(r.reason)}`).join('; ')]);
@@ -468,7 +502,7 @@ export async function readSessionReportData(src: ReportSources, title: string): 
     referenceText: [text(ref.source ?? ref.note), referencePositionText(asObj(ref.position), ref)].filter(Boolean).join('; '),
     firstUtc: text(span.first_utc), lastUtc: text(span.last_utc),
     epochsByKind: Object.entries(asObj(counts.by_kind)).filter(([, v]) => typeof v === 'number' && v > 0).map(([k, v]) => [k, v as number] as const),
-    facts: summaryFacts(s, points.length),
+    facts: summaryFacts(s, points.length, epochs && points.length > 1 ? pooledScatterFromEpochs(epochs, points) : null),
     epochs, residuals, points,
     referenceSky: src.sky ? await readSky(src.sky) : null,
     check: checkDoc && src.check ? readCheck(checkDoc, checkFrame) : null,
