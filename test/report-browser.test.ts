@@ -145,6 +145,10 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
     expect(got.rejectedReasons).toEqual(expect.arrayContaining(['below elevation mask', 'rejected by data snooping']));
     expect(got.cautions).toMatch(/mapping-grade/);
     expect(got.cautions).toMatch(/licensed surveyors/);
+    // --projection utm at 8.78 E: UTM zone 32N on WGS 84, EPSG:32632, stated beside the points as the browser shows them.
+    const coords = await page.page.evaluate(() => document.querySelector('.coords')?.textContent ?? '');
+    expect(coords).toContain('WGS 84 / UTM zone 32N (EPSG:32632)');
+    expect(coords).toContain('WGS84 epoch 2024.3672');
     await screenshot(page, 'report-demo.png');
   });
 
@@ -159,6 +163,12 @@ describe.skipIf(!HAS_CHROMIUM)('HTML report of the demo scenario in chromium (si
       expect(got.points.length).toBe(4); // fixtures/demo/README: MILLSTONE, FERRYPOST, ELMCORNER, WELLHEAD
       expect(got.controls).toBe(3);
       expect(got.track).toBe(0);
+      const heading = await o.page.evaluate(() => document.querySelector('h1')?.textContent ?? '');
+      expect(heading).toMatch(/^Control check report: /);
+      const summary = await o.page.evaluate(() => document.querySelector('dl.facts')?.textContent ?? '');
+      expect(summary).toContain('WGS84 epoch 2024.3672'); // fixtures/demo/control-marks.csv: the marks' frame and epoch
+      expect(summary).not.toMatch(/\? to \?|not stated/);
+      await screenshot(o, 'report-demo-check.png');
     } finally {
       await o.close();
     }

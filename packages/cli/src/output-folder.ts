@@ -100,6 +100,31 @@ export function inputsInsideWarning(dir: string, inside: readonly string[], opti
 }
 
 /**
+ * Why files cannot be made in the existing folder `dir` (a system error code such as 'EACCES' or
+ * 'EROFS', '' when the error has no code), null when they can: access(), then a probe file (a read-only mount passes access() for root).
+ */
+export async function folderWriteError(dir: string): Promise<string | null> {
+  try {
+    await access(dir, FS.W_OK | FS.X_OK);
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code ?? '';
+  }
+  // Unique per thread too: batch workers share the process id and may probe the same folder in one millisecond.
+  const probe = join(dir, `.refdelta-probe.${process.pid}.${Date.now().toString(36)}.${Math.random().toString(36).slice(2, 10)}.tmp`);
+  registerTemporary(probe);
+  try {
+    const fh = await open(probe, 'wx');
+    await fh.close();
+    return null;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code ?? '';
+  } finally {
+    await rm(probe, { force: true }).catch(() => {});
+    releaseTemporary(probe);
+  }
+}
+
+/**
  * Checks (and makes) the output folder; finishes or removes what an interrupted earlier run left there.
  * An output that would replace an input is refused; inputs merely inside the folder are returned.
  */
@@ -126,24 +151,8 @@ export async function prepareOutputFolder(c: OutputFolderCheck): Promise<OutputF
       if (up === dirname(up)) break;
     }
   }
-  try {
-    await access(there, FS.W_OK | FS.X_OK);
-  } catch (e) {
-    fail((e as NodeJS.ErrnoException).code, dir, `the output folder ${dir} is not writable`);
-  }
-  // Writable in fact (a read-only mount passes access() for root): a probe file.
-  // Unique per thread too: batch workers share the process id and may probe the same folder in one millisecond.
-  const probe = join(there, `.refdelta-probe.${process.pid}.${Date.now().toString(36)}.${Math.random().toString(36).slice(2, 10)}.tmp`);
-  registerTemporary(probe);
-  try {
-    const fh = await open(probe, 'wx');
-    await fh.close();
-  } catch (e) {
-    fail((e as NodeJS.ErrnoException).code, dir, `the output folder ${dir} is not writable`);
-  } finally {
-    await rm(probe, { force: true }).catch(() => {});
-    releaseTemporary(probe);
-  }
+  const notWritable = await folderWriteError(there);
+  if (notWritable !== null) fail(notWritable, dir, `the output folder ${dir} is not writable`);
   if (st) recoverOutputFolder(dir);
   const outs = new Map(c.outputNames.map((n) => [realOrSelf(join(dir, n)), n]));
   for (const input of c.inputs) {

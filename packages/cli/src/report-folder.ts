@@ -8,7 +8,7 @@ import { createInterface } from 'node:readline';
 import { readFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import {
-  ecefToEnu, InputError, leapSecondsAtUtc, splitCsvLine, SECONDS_PER_WEEK,
+  ecefToEnu, gridCrsWords, horizontalVerticalStats, InputError, type HorizontalVerticalStats, leapSecondsAtUtc, splitCsvLine, SECONDS_PER_WEEK,
   type EcefM, type EpochSeries, type ReportControlCheck, type ReportInput, type ReportPoint, type ResidualSeries, type SessionReportData, type SkySeries,
 } from '@refdelta/core';
 
@@ -206,7 +206,16 @@ async function readSky(path: string): Promise<SkySeries> {
   return { ...s, satellites: [...satIndex.keys()] };
 }
 
-async function readPoints(path: string, origin0: EcefM | null): Promise<{ points: ReportPoint[]; note: string | null }> {
+interface PointsRead {
+  readonly points: ReportPoint[];
+  readonly note: string | null;
+  /** Distinct 'frame epoch e' of the rows (frame and frame_epoch columns). */
+  readonly frames: readonly string[];
+  /** Distinct point_reference words of the rows. */
+  readonly pointReferences: readonly string[];
+}
+
+async function readPoints(path: string, origin0: EcefM | null): Promise<PointsRead> {
   const t = await readCsvTable(path);
   const c = (...names: string[]) => col(t, ...names);
   const k = {
@@ -215,7 +224,9 @@ async function readPoints(path: string, origin0: EcefM | null): Promise<{ points
     easting: c('easting_m'), northing: c('northing_m'), ortho: c('orthometric_height_m'), x: c('ecef_x_m'), y: c('ecef_y_m'), z: c('ecef_z_m'),
     sdE: c('sd_east_m'), sdN: c('sd_north_m'), sdU: c('sd_up_m'), smE: c('sigma_mean_east_m'), smN: c('sigma_mean_north_m'), smU: c('sigma_mean_up_m'),
     tol: c('tolerance', 'status'), kinds: c('solution_kinds', 'solutions'), r95rel: c('radius95_relative_m'), r95: c('radius95_m'),
+    frame: c('frame'), frameEpoch: c('frame_epoch'), pointRef: c('point_reference'),
   };
+  const frames = new Set<string>(), pointReferences = new Set<string>();
   let o = origin0;
   let note: string | null = null;
   const points = t.lines.map((line) => {
@@ -223,6 +234,8 @@ async function readPoints(path: string, origin0: EcefM | null): Promise<{ points
     const p = { x: numAt(r, k.x), y: numAt(r, k.y), z: numAt(r, k.z) };
     if (!o && Number.isFinite(p.x)) { o = p; note = `No reference coordinate in this folder: east/north are drawn about the first point (${strAt(r, k.name)}).`; }
     const enu = o && Number.isFinite(p.x) ? ecefToEnu(p, o) : { e: NaN, n: NaN, u: NaN };
+    if (strAt(r, k.frame)) frames.add(`${strAt(r, k.frame)} epoch ${strAt(r, k.frameEpoch) || 'not stated'}`);
+    if (strAt(r, k.pointRef)) pointReferences.add(strAt(r, k.pointRef));
     return {
       name: strAt(r, k.name), epochs: numAt(r, k.epochs), durationS: numAt(r, k.dur), startUtc: strAt(r, k.start),
       startGpsS: k.sw >= 0 ? numAt(r, k.sw) * SECONDS_PER_WEEK + numAt(r, k.stow) : isoToGpsS(strAt(r, k.start)),
@@ -234,7 +247,7 @@ async function readPoints(path: string, origin0: EcefM | null): Promise<{ points
       tolerance: strAt(r, k.tol), solutionKinds: strAt(r, k.kinds), radius95RelativeM: numAt(r, k.r95rel), radius95M: numAt(r, k.r95),
     };
   });
-  return { points, note };
+  return { points, note, frames: [...frames], pointReferences: [...pointReferences] };
 }
 
 async function readJson(path: string): Promise<Record<string, unknown>> {
@@ -251,51 +264,200 @@ const asObj = (v: unknown): J => (v && typeof v === 'object' && !Array.isArray(v
 const asArr = (v: unknown): unknown[] => (Array.isArray(v) ? v : []);
 const text = (v: unknown): string => (v === null || v === undefined ? '' : typeof v === 'object' ? JSON.stringify(v) : String(v));
 
-/** Nested options as flat "a.b" lines. */
-export function flatten(o: unknown, prefix = ''): [string, string][] {
-  if (o && typeof o === 'object' && !Array.isArray(o)) return Object.entries(o as J).flatMap(([k, v]) => flatten(v, prefix ? `${prefix}.${k}` : k));
-  return [[prefix.replace(/_/g, ' '), Array.isArray(o) ? o.map(text).join(', ') : text(o)]];
+/** An option's key in words: underscores as spaces, a unit suffix in parentheses ('tolerance_h_m' -> 'tolerance h (m)'). */
+function optionLabel(key: string): string {
+  return key.replace(/_(m|deg|s)$/, (_, u: string) => ` (${u === 'deg' ? '°' : u})`).replace(/_(m|deg|s)\./g, (_, u: string) => ` (${u === 'deg' ? '°' : u}).`).replace(/_/g, ' ');
 }
 
-function readCheck(doc: J): ReportControlCheck {
-  const nssda = asObj(doc.nssda);
+/** Nested options as flat "a.b" lines; null (an option not given) is 'none'. */
+export function flatten(o: unknown, prefix = ''): [string, string][] {
+  if (o && typeof o === 'object' && !Array.isArray(o)) return Object.entries(o as J).flatMap(([k, v]) => flatten(v, prefix ? `${prefix}.${k}` : k));
+  return [[optionLabel(prefix), o === null ? 'none' : Array.isArray(o) ? o.map(text).join(', ') : text(o)]];
+}
+
+/** Human labels of control-check.json's NSSDA figures (FGDC-STD-007.3-1998 section 3.2.2, appendix 3-A); metres unless said. */
+const NSSDA_LABELS: Readonly<Record<string, string>> = {
+  standard: 'Standard',
+  check_points: 'Check points',
+  rmse_east_m: 'RMSE east',
+  rmse_north_m: 'RMSE north',
+  rmse_horizontal_m: 'RMSE horizontal (radial)',
+  rmse_vertical_m: 'RMSE vertical',
+  rmse_ratio_min_max: 'RMSE ratio, smaller / larger of east and north',
+  horizontal_accuracy_95_m: 'Horizontal accuracy at 95 %',
+  horizontal_method: 'Horizontal accuracy computed as',
+  horizontal_approximation_2_4477_m: '2.4477 × mean of RMSE east and north (appendix 3-A, for information)',
+  vertical_accuracy_95_m: 'Vertical accuracy at 95 % (1.9600 × RMSE vertical)',
+};
+
+const NSSDA_METHODS: Readonly<Record<string, string>> = {
+  'circular-1.7308': '1.7308 × RMSE horizontal (section 3.2.2: RMSE east and north about equal)',
+  'bivariate-normal-exact': 'the exact 95 % radius of a bivariate normal error (RMSE ratio below 0.6: the circular formula does not apply)',
+  'approximation-2.4477': '2.4477 × mean of RMSE east and north (appendix 3-A)',
+};
+
+/** NSSDA figures as label/value lines: known keys in words with their unit, others with their key's words. */
+export function nssdaLines(nssda: J): [string, string][] {
+  return Object.entries(nssda).filter(([k, v]) => k !== 'warnings' && (typeof v !== 'object' || v === null)).map(([k, v]) => {
+    const label = NSSDA_LABELS[k] ?? k.replace(/_m$/, '').replace(/_/g, ' ');
+    const value = k === 'horizontal_method' ? NSSDA_METHODS[text(v)] ?? text(v)
+      : typeof v === 'number' && k.endsWith('_m') ? `${v.toFixed(4)} m` : text(v);
+    return [label, value];
+  });
+}
+
+const finiteOr = (v: unknown): number => (typeof v === 'number' ? v : NaN);
+
+function readCheck(doc: J, frameText: string): ReportControlCheck {
+  const test = asObj(doc.difference_test);
   return {
     toleranceHM: Number(doc.tolerance_h_m), toleranceVM: Number(doc.tolerance_v_m),
+    criticalHorizontal: finiteOr(test.critical_h), criticalVertical: finiteOr(test.critical_v),
+    frameText, pointsFile: text(doc.points_file), marksFile: text(doc.marks_file), createdUtc: text(doc.created_utc), radiusM: finiteOr(doc.radius_m),
     pairs: asArr(doc.pairs).map((p0) => {
       const p = asObj(p0);
-      return { point: text(p.point), mark: text(p.mark), matchedBy: text(p.matched_by), dEastM: Number(p.d_east_m), dNorthM: Number(p.d_north_m), dUpM: Number(p.d_up_m), horizontalM: Number(p.horizontal_m), pass: p.pass === true };
+      return {
+        point: text(p.point), mark: text(p.mark), matchedBy: text(p.matched_by), dEastM: Number(p.d_east_m), dNorthM: Number(p.d_north_m), dUpM: Number(p.d_up_m), horizontalM: Number(p.horizontal_m), pass: p.pass === true,
+        ...('difference_test' in p ? { differenceTest: text(p.difference_test), chi2H: finiteOr(p.chi2_h), chi2V: finiteOr(p.chi2_v) } : {}),
+      };
     }),
     unmatchedPoints: asArr(doc.unmatched_points).map(text), unmatchedMarks: asArr(doc.unmatched_marks).map(text),
-    nssda: Object.entries(nssda).filter(([k, v]) => k !== 'warnings' && (typeof v !== 'object' || v === null)).map(([k, v]) => [k.replace(/_/g, ' '), text(v)] as const),
+    nssda: nssdaLines(asObj(doc.nssda)),
     warnings: asArr(doc.warnings).map((w) => text(asObj(w).message ?? w)),
   };
 }
 
+/**
+ * The frame and epoch of a check's comparison: control-check.json's pairs (frame, frame_epoch), else
+ * control-check.csv's columns beside it; '' when neither states them. Several are listed.
+ */
+async function checkFrameText(doc: J, checkPath: string): Promise<string> {
+  const pairs = asArr(doc.pairs).map(asObj);
+  let frames = pairs.filter((p) => p.frame).map((p) => `${text(p.frame)} epoch ${p.frame_epoch === undefined || p.frame_epoch === null ? '' : text(p.frame_epoch)}`);
+  const csv = join(dirname(checkPath), 'control-check.csv');
+  if (frames.some((f) => f.endsWith(' epoch ')) && existsSync(csv)) {
+    const t = await readCsvTable(csv);
+    const f = col(t, 'frame'), e = col(t, 'frame_epoch');
+    const fromCsv = t.lines.map(cells).filter((c) => strAt(c, f)).map((c) => `${strAt(c, f)} epoch ${strAt(c, e)}`);
+    if (fromCsv.length) frames = fromCsv;
+  }
+  return [...new Set(frames.map((f) => (f.endsWith(' epoch ') ? `${f}not stated` : f)))].join('; ');
+}
+
+/**
+ * The scatter line of summary.json's statistics. A points run's is about each point's own mean (pooled:
+ * a precision). A whole-session figure is about one overall mean: the precision of a still antenna, the
+ * extent of the movement of one that moved (a session with several points, older points runs).
+ */
+function scatterFact(st: J, points: number, fromEpochs: PooledScatter | null): [string, string] | null {
+  if (typeof st.horizontal_median_m !== 'number') return null;
+  const m = (k: string) => (typeof st[k] === 'number' ? `${(st[k] as number).toFixed(3)} m` : 'not stated');
+  const figures = `horizontal median ${m('horizontal_median_m')}, 95 % ${m('horizontal_95_m')}; vertical median ${m('vertical_median_m')}, 95 % ${m('vertical_95_m')}`;
+  const over = text(st.over ?? 'epochs');
+  if (st.mean_ecef === null && /own point/.test(over)) return ["Scatter about each point's mean", `${figures} (${over}; precision, not accuracy)`];
+  if (points > 1 && fromEpochs) {
+    const f = (v: number) => `${v.toFixed(3)} m`;
+    return ["Scatter about each point's mean", `horizontal median ${f(fromEpochs.horizontalMedianM)}, 95 % ${f(fromEpochs.horizontal95M)}; vertical median ${f(fromEpochs.verticalMedianM)}, 95 % ${f(fromEpochs.vertical95M)} ` +
+      `(from epochs.csv: the ${fromEpochs.count} epochs within the occupations of ${fromEpochs.points} points, each about its own point's mean; precision, not accuracy)`];
+  }
+  if (points > 1) return ['Spread of all epochs (moving)', `${figures} (${over}, about one mean of the whole session: the rover moved between ${points} points, so this is the extent of its movement, neither an error nor a precision; each point's scatter is in the Points table)`];
+  return ['Spread of the epoch positions', `${figures} (${over}, about their overall mean: the precision, not accuracy, when the antenna stayed still; when it moved, the extent of its movement, not an error)`];
+}
+
+type PooledScatter = HorizontalVerticalStats & { readonly points: number };
+
+/** Occupations are matched to epochs by time, as the points stage does (points-summary.ts: 0.01 s). */
+const OCCUPATION_SLACK_S = 0.01;
+
+/**
+ * The epochs within each point's occupation about that point's mean, pooled over the points (local
+ * east/north/up at the reference: over a few hundred metres the frames' rotation is negligible);
+ * null when no point has an epoch. For folders whose summary.json gives only the whole session's spread.
+ */
+export function pooledScatterFromEpochs(ep: EpochSeries, points: readonly ReportPoint[]): PooledScatter | null {
+  const diffs: { e: number; n: number; u: number }[] = [];
+  let used = 0;
+  for (const p of points) {
+    if (!Number.isFinite(p.startGpsS) || !Number.isFinite(p.endGpsS)) continue;
+    const inside: number[] = [];
+    for (let i = 0; i < ep.timeGpsS.length; i++) {
+      const t = ep.timeGpsS[i];
+      if (t >= p.startGpsS - OCCUPATION_SLACK_S && t <= p.endGpsS + OCCUPATION_SLACK_S && Number.isFinite(ep.eastM[i]) && Number.isFinite(ep.northM[i]) && Number.isFinite(ep.upM[i])) inside.push(i);
+    }
+    if (inside.length === 0) continue;
+    used++;
+    const mean = (a: ArrayLike<number>) => inside.reduce((acc, i) => acc + a[i], 0) / inside.length;
+    const me = mean(ep.eastM), mn = mean(ep.northM), mu = mean(ep.upM);
+    for (const i of inside) diffs.push({ e: ep.eastM[i] - me, n: ep.northM[i] - mn, u: ep.upM[i] - mu });
+  }
+  return used ? { ...horizontalVerticalStats(diffs), points: used } : null;
+}
+
 /** Summary lines from summary.json: systems, the scatter of the epoch positions, rejected epochs. */
-function summaryFacts(s: J): [string, string][] {
+function summaryFacts(s: J, points: number, fromEpochs: PooledScatter | null): [string, string][] {
   const out: [string, string][] = [];
   const systems = asArr(s.systems_used).map(text);
   if (systems.length) out.push(['Systems used', systems.join(', ')]);
-  const st = asObj(s.statistics);
-  const m = (k: string) => (typeof st[k] === 'number' ? `${(st[k] as number).toFixed(3)} m` : '?');
-  if (typeof st.horizontal_median_m === 'number') {
-    out.push(['Scatter of the positions', `horizontal median ${m('horizontal_median_m')}, 95 % ${m('horizontal_95_m')}; vertical median ${m('vertical_median_m')}, 95 % ${m('vertical_95_m')} (${text(st.over ?? 'epochs')}, about their mean: precision, not accuracy)`]);
-  }
+  const scatter = scatterFact(asObj(s.statistics), points, fromEpochs);
+  if (scatter) out.push(scatter);
   const rej = asArr(s.rejected_epochs).map((r0) => asObj(r0)).filter((r) => typeof r.count === 'number');
   if (rej.length) out.push(['Epochs without a solution', rej.map((r) => `${text(r.count)} ${text(r.reason)}`).join('; ')]);
   return out;
 }
 
-function referencePositionText(p: J): string {
-  return typeof p.x_m === 'number' ? `ECEF ${[p.x_m, p.y_m, p.z_m].map((v) => Number(v).toFixed(4)).join(', ')} m` : '';
+/** The reference coordinate with its frame and epoch (every coordinate on the page carries them). */
+function referencePositionText(p: J, ref: J): string {
+  if (typeof p.x_m !== 'number') return '';
+  const frame = ref.frame ? ` (${text(ref.frame)} epoch ${ref.epoch === null || ref.epoch === undefined ? 'not stated' : text(ref.epoch)})` : '';
+  return `ECEF ${[p.x_m, p.y_m, p.z_m].map((v) => Number(v).toFixed(4)).join(', ')} m${frame}`;
+}
+
+/** The grid CRS and heights of the points: summary.json's statements, else points.csv.meta.json's. */
+async function coordinateStatements(s: J, pointsPath: string | undefined): Promise<{ grid: string; gridDatum: string; heights: string; caution: string }> {
+  const g = asObj(s.grid_crs), h = asObj(s.heights);
+  if (s.heights !== undefined) {
+    return { grid: text(g.label), gridDatum: text(g.datum), heights: text(h.label), caution: text(h.caution) };
+  }
+  const metaPath = pointsPath ? `${pointsPath}.meta.json` : undefined;
+  if (!metaPath || !existsSync(metaPath)) return { grid: '', gridDatum: '', heights: '', caution: '' };
+  const meta = await readJson(metaPath).catch(() => ({} as J));
+  const p = asObj(meta.projection);
+  const grid = typeof p.name === 'string' && typeof p.definition === 'string'
+    ? gridCrsWords({ epsg: typeof p.epsg === 'number' ? p.epsg : null, name: p.name, definition: p.definition }) : '';
+  const caution = asArr(meta.notes).map(text).find((n) => /not a national vertical datum/.test(n)) ?? '';
+  return { grid, gridDatum: text(p.datum), heights: text(meta.heights), caution };
+}
+
+/** One line for a run whose input was incomplete (summary.json's completeness), '' when complete. */
+function incompleteInputText(s: J): string {
+  const c = asObj(s.completeness);
+  return c.input_complete === false ? text(c.input_problem) || 'observations were lost while reading the inputs' : '';
+}
+
+/** The inputs and options of a check's page (control-check.json names the files, not their hashes). */
+function checkInputsAndOptions(doc: J): { inputs: ReportInput[]; options: [string, string][] } {
+  const inputs: ReportInput[] = [
+    ...(doc.points_file ? [{ kind: 'points', path: text(doc.points_file), sha256: '', bytes: null }] : []),
+    ...(doc.marks_file ? [{ kind: 'control', path: text(doc.marks_file), sha256: '', bytes: null }] : []),
+  ];
+  const test = asObj(doc.difference_test);
+  const options: [string, string][] = [
+    ...(typeof doc.radius_m === 'number' ? [['matching radius (m)', text(doc.radius_m)] as [string, string]] : []),
+    ['tolerance horizontal (m)', text(doc.tolerance_h_m)], ['tolerance vertical (m)', text(doc.tolerance_v_m)],
+    ...(typeof test.level === 'number' ? [['difference test level', `${(100 * test.level).toFixed(0)} %`] as [string, string]] : []),
+    ...asArr(doc.transformations).map((t) => ['transformation', text(t)] as [string, string]),
+  ];
+  return { inputs, options };
 }
 
 /** Everything a session report shows, from the files that exist. */
 export async function readSessionReportData(src: ReportSources, title: string): Promise<SessionReportData> {
   const missing: string[] = [];
   const summary = typeof src.summary === 'string' ? await readJson(src.summary) : src.summary ?? null;
-  if (!summary) missing.push('No summary.json: inputs, options, frame and warnings are not shown.');
   const checkDoc = src.check ? await readJson(src.check) : null;
+  // A control check's outputs alone (no run in the folder): a page for what it is, without the run's placeholders.
+  const checkOnly = !summary && !src.epochs && !src.residuals && !src.points && checkDoc !== null;
+  if (!summary && !checkOnly) missing.push('No summary.json: inputs, options, frame and warnings are not shown.');
   let o = origin(summary);
   let epochs: EpochSeries | null = null;
   if (src.epochs) {
@@ -303,38 +465,51 @@ export async function readSessionReportData(src: ReportSources, title: string): 
     epochs = r.series;
     o = r.origin;
     if (r.note) missing.push(r.note);
-  } else missing.push('No epochs.csv: no track, occupation scatter or time series.');
+  } else if (!checkOnly) missing.push('No epochs.csv: no track, occupation scatter or time series.');
   const residuals = src.residuals ? await readResiduals(src.residuals) : null;
-  if (!residuals) missing.push('No residuals.csv: no sky plot or residual chart.');
+  if (!residuals && !checkOnly) missing.push('No residuals.csv: no sky plot or residual chart.');
+  // Without a reference coordinate, east/north are about the first epoch's position, else the first point's.
+  const planOrigin = o === null ? undefined : origin(summary) === null ? 'the first epoch' : undefined;
   let pointsPath = src.points;
   if (!pointsPath && checkDoc && typeof checkDoc.points_file === 'string' && existsSync(checkDoc.points_file)) pointsPath = checkDoc.points_file;
-  const pr = pointsPath ? await readPoints(pointsPath, o) : { points: [], note: null };
+  const pr: PointsRead = pointsPath ? await readPoints(pointsPath, o) : { points: [], note: null, frames: [], pointReferences: [] };
+  const planAbout = planOrigin ?? (pr.note && pr.points.length ? `the point ${pr.points[0].name}` : undefined);
   const points = pr.points;
-  if (pr.note) missing.push(pr.note);
+  if (pr.note) missing.push(checkOnly ? `A control check's outputs only (no run in this folder): the plan view is drawn about the first point (${points[0]?.name ?? ''}), without the rover's track.` : pr.note);
   const s = asObj(summary);
   const frame = asObj(s.frame), opts = asObj(s.options), ref = asObj(s.reference), span = asObj(s.time_span), counts = asObj(s.counts), sw = asObj(s.software), warn = asObj(s.warnings);
   const inputs: ReportInput[] = asArr(s.inputs).map((i0) => {
     const i = asObj(i0);
     return { kind: text(i.kind), path: text(i.path), sha256: text(i.sha256), bytes: typeof i.bytes === 'number' ? i.bytes : null };
   });
-  const frameText = frame.name ? `${text(frame.name)} epoch ${text(frame.epoch_text ?? frame.epoch)}` : '';
+  const checkFrame = checkDoc && src.check ? await checkFrameText(checkDoc, src.check) : '';
+  const pointsFrame = pr.frames.join('; ');
+  const frameText = frame.name ? `${text(frame.name)} epoch ${text(frame.epoch_text ?? frame.epoch)}` : checkOnly ? checkFrame || pointsFrame : '';
+  const statements = points.length ? await coordinateStatements(s, pointsPath) : { grid: '', gridDatum: '', heights: '', caution: '' };
+  const checkPage = checkOnly && checkDoc ? checkInputsAndOptions(checkDoc) : null;
+  const checkWarnings = checkDoc ? asArr(checkDoc.warnings).map((w) => text(asObj(w).message ?? w)) : [];
   return {
+    kind: checkOnly ? 'control-check' : 'session',
     title,
     software: sw.name ? `${text(sw.name)} ${text(sw.version)}` : 'refdelta',
-    createdUtc: text(s.created_utc) || new Date().toISOString(),
+    createdUtc: text(s.created_utc) || (checkOnly ? text(checkDoc?.created_utc) : '') || new Date().toISOString(),
     frameText,
-    pointReference: text(opts.position_refers_to),
-    referenceText: [text(ref.source ?? ref.note), referencePositionText(asObj(ref.position))].filter(Boolean).join('; '),
+    ...(pointsFrame && pointsFrame !== frameText ? { pointsFrameText: pointsFrame } : {}),
+    gridCrsText: statements.grid, gridDatumNote: statements.gridDatum, heightsText: statements.heights, heightsCaution: statements.caution,
+    incompleteInput: incompleteInputText(s),
+    ...(planAbout ? { planOrigin: planAbout } : {}),
+    pointReference: text(opts.position_refers_to) || pr.pointReferences.join('; '),
+    referenceText: [text(ref.source ?? ref.note), referencePositionText(asObj(ref.position), ref)].filter(Boolean).join('; '),
     firstUtc: text(span.first_utc), lastUtc: text(span.last_utc),
     epochsByKind: Object.entries(asObj(counts.by_kind)).filter(([, v]) => typeof v === 'number' && v > 0).map(([k, v]) => [k, v as number] as const),
-    facts: summaryFacts(s),
+    facts: summaryFacts(s, points.length, epochs && points.length > 1 ? pooledScatterFromEpochs(epochs, points) : null),
     epochs, residuals, points,
     referenceSky: src.sky ? await readSky(src.sky) : null,
-    check: checkDoc ? readCheck(checkDoc) : null,
-    inputs,
-    options: flatten(opts),
-    warningsTotal: typeof warn.total === 'number' ? warn.total : asArr(s.warnings).length,
-    warnings: asArr(warn.first ?? s.warnings).map((w0) => {
+    check: checkDoc && src.check ? readCheck(checkDoc, checkFrame) : null,
+    inputs: checkPage ? checkPage.inputs : inputs,
+    options: checkPage ? checkPage.options : flatten(opts),
+    warningsTotal: checkPage ? checkWarnings.length : typeof warn.total === 'number' ? warn.total : asArr(s.warnings).length,
+    warnings: checkPage ? checkWarnings : asArr(warn.first ?? s.warnings).map((w0) => {
       const w = asObj(w0);
       const where = w.file ? `${basename(text(w.file))}${w.line ? `, line ${text(w.line)}` : ''}: ` : '';
       return `${where}${text(w.message ?? w0)}`;

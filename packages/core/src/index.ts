@@ -9,7 +9,7 @@ export { GRS80, WGS84, azimuthElevation, degToRad, ecefDeltaToEnu, ecefToEnu, ec
 export { EphemerisStore, FREQ_L1_HZ, FREQ_L2_HZ, GALILEO_CONSTANTS, GPS_CONSTANTS, PZ90, keplerStateInto, satelliteClock, satelliteState } from './orbit/index.js';
 export { elevationVarianceM2, qualityControlLoop, solvePositionFix, solveWeightedLeastSquares, solveWeightedLeastSquaresSmall } from './solve/index.js';
 export { KNOWN_FRAME_NAMES, crsOfFrame, isKnownFrameName, looksLikeTransformationName, normaliseFrameName, parseHelmertJson, shippedTransformation } from './frames/index.js';
-export { CAUTIONS, CHECK_OUTPUT_FORMATS, POINTS_OUTPUT_FORMATS, SOLVE_OUTPUT_FORMATS, SUMMARY_FILE_NAME, crsStatement, csvtText, defaultOutputKinds, fixed, frameEpochText, horizontalVerticalStats, metadataFileName, outputKinds, pointReferenceWords, positionScatter, PositionSeries, seriesScatter, summaryJson, tableMetadata } from './report/index.js';
+export { CAUTIONS, CHECK_OUTPUT_FORMATS, POINTS_OUTPUT_FORMATS, SOLVE_OUTPUT_FORMATS, SUMMARY_FILE_NAME, crsStatement, csvtText, defaultOutputKinds, fixed, frameEpochText, horizontalVerticalStats, metadataFileName, outputKinds, pointReferenceWords, positionScatter, PositionSeries, scatterJson, seriesScatter, summaryJson, tableMetadata } from './report/index.js';
 export { ephemerisTimeGpsS, inspectNav, inspectObs, navInspectionText, obsInspectionText } from './inspect/index.js';
 export { mergeNav, readNav, readObsStream, writeNavRinex3, writeObsRinex3 } from './rinex/index.js';
 export { klobucharDelayM, slantTroposphere } from './atmosphere/index.js';
@@ -25,6 +25,7 @@ export { DEFAULT_STATIC_DETECTION, splitOccupations } from './points/occupations
 export { nssdaAccuracy } from './accuracy/index.js';
 export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, carrierPointFloor, chooseEpochs, summariseOccupations } from './report/points-summary.js';
 export { gridCrsOf } from './report/grid-crs.js';
+export { gridCrsWords, heightsStatement, pointsRunScatter, withPointsRun } from './report/points-run-summary.js';
 export { EGM96_NOT_A_DATUM_NOTE, pointRow, pointsColumns, pointsGeoJson, pointsMetadata } from './report/points-table.js';
 export { parsePointsCsv } from './report/points-csv.js';
 export { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, checkAgainstControl } from './report/control-check.js';
@@ -59,6 +60,7 @@ export type * from './accuracy/index.js';
 export type * from './velocity/index.js';
 export type * from './report/points-summary.js';
 export type * from './report/points-table.js';
+export type * from './report/points-run-summary.js';
 export type * from './report/grid-crs.js';
 export type * from './report/points-csv.js';
 export type * from './report/control-check.js';

@@ -14,6 +14,7 @@ import {
   crsOfFrame, csvtText, gridCrsOf, type GridCrs, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
   type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad, sigmaRescaleFactor,
+  pointsRunScatter, scatterJson, withPointsRun,
 } from '@refdelta/core';
 import { requireFile } from '../node-io.js';
 import { epsgLookup, epsgWkt } from '../epsg-lookup.js';
@@ -246,7 +247,9 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
         lonLatH: outcome.points.map((p) => [radToDeg(p.summary.meanGeodetic.lonRad), radToDeg(p.summary.meanGeodetic.latRad), p.summary.meanGeodetic.heightM] as const),
       },
     };
-    const outputs = await commitStagedSolve(st, rep);
+    // summary.json states the points stage's options, grid CRS and heights, and the scatter about each point's mean.
+    const scatter = scatterJson(pointsRunScatter(c.epochs, outcome.points));
+    const outputs = await commitStagedSolve({ ...st, summaryDoc: (outs) => withPointsRun(st.summaryDoc(outs), cfg, table, scatter) }, rep);
 
     if (geoid && /egm96/i.test(geoid.name)) rep.info(`note: ${EGM96_NOT_A_DATUM_NOTE}`);
     for (const p of outcome.points) {

@@ -5,9 +5,10 @@
  */
 import { existsSync } from 'node:fs';
 import { readFile } from 'node:fs/promises';
-import { join, relative, resolve } from 'node:path';
-import { buildBatchIndexHtml, buildSessionReportHtml, CAUTIONS, InputError, type BatchIndexEntry } from '@refdelta/core';
+import { dirname, join, relative, resolve } from 'node:path';
+import { buildBatchIndexHtml, buildSessionReportHtml, CAUTIONS, InputError, ProcessingError, type BatchIndexEntry } from '@refdelta/core';
 import { writeFileAtomic } from '../node-io.js';
+import { folderWriteError } from '../output-folder.js';
 import { folderTitle, readSessionReportData, sourcesInFolder, type ReportSources } from '../report-folder.js';
 import type { Reporter } from '../reporter.js';
 import { EXIT_OK } from '../exit-codes.js';
@@ -41,8 +42,38 @@ export function batchIndexHtml(outDir: string, title: string, sessions: readonly
   return buildBatchIndexHtml({ title, software: `${SOFTWARE.name} ${SOFTWARE.version}`, createdUtc: new Date().toISOString(), sessions: entries, cautions: CAUTIONS });
 }
 
+/**
+ * One sentence for a folder report.html cannot be written in (a system error code): the folder and what
+ * to do, never a temporary file's name. report writes beside the outputs it reads, so the way out is the
+ * folder's permissions or a writable copy of it.
+ */
+export function reportFolderSentence(code: string, dir: string): string {
+  switch (code) {
+    case 'EROFS': return `the folder ${dir} is on a read-only file system, so ${REPORT_FILE_NAME} cannot be written beside its outputs: copy the folder somewhere writable and run refdelta report on the copy`;
+    case 'ENOSPC': case 'EDQUOT': return `no space left to write ${REPORT_FILE_NAME} in the folder ${dir}: free some space and run refdelta report again`;
+    default: return `no permission to write ${REPORT_FILE_NAME} in the folder ${dir}: change the folder's permissions, or copy the folder somewhere writable and run refdelta report on the copy`;
+  }
+}
+
+/** Every folder a page goes into must take a new file, checked before any page is written (output-folder.ts's probe). */
+async function requireWritableFolders(dirs: readonly string[]): Promise<void> {
+  for (const d of new Set(dirs)) {
+    const code = await folderWriteError(d);
+    if (code !== null) throw new ProcessingError(reportFolderSentence(code, d));
+  }
+}
+
+const FOLDER_WRITE_CODES = new Set(['EACCES', 'EPERM', 'EROFS', 'ENOSPC', 'EDQUOT']);
+
 async function writeReport(path: string, html: string, rep: Reporter): Promise<void> {
-  const w = await writeFileAtomic(path, [html]);
+  let w;
+  try {
+    w = await writeFileAtomic(path, [html]);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code !== undefined && FOLDER_WRITE_CODES.has(code)) throw new ProcessingError(reportFolderSentence(code, dirname(path)));
+    throw e;
+  }
   rep.event('output', { kind: 'report', path: w.path, bytes: w.bytes, sha256: w.sha256 });
   rep.info(`report: ${w.path} (${(w.bytes / 1024).toFixed(0)} KiB)`);
 }
@@ -66,6 +97,7 @@ export async function runReport(dirArg: string, rep: Reporter): Promise<number> 
       // The folder as written, else beside the batch summary (a batch folder that was moved).
       out: typeof s0.out === 'string' ? (existsSync(s0.out) ? s0.out : existsSync(join(dir, String(s0.name))) ? join(dir, String(s0.name)) : null) : null,
     }));
+    await requireWritableFolders([dir, ...sessions.flatMap((s) => (s.out ? [s.out] : []))]);
     const written = new Set<string>();
     for (const s of sessions) {
       if (!s.out) continue;
@@ -78,6 +110,7 @@ export async function runReport(dirArg: string, rep: Reporter): Promise<number> 
     if (!src.epochs && !src.residuals && !src.points && !src.summary && !src.check) {
       throw new InputError(dirArg, 0, `${dirArg} holds none of the outputs a report is built from (epochs.csv, residuals.csv, points.csv, summary.json, control-check.json, batch-summary.json)`);
     }
+    await requireWritableFolders([dir]);
     await writeReport(join(dir, REPORT_FILE_NAME), await sessionReportHtml(src, folderTitle(dir)), rep);
   }
   rep.event('done', { exit_code: EXIT_OK });

@@ -15,7 +15,9 @@ export const ELLIPSE_95_SCALE = Math.sqrt(-2 * Math.log(0.05));
 // A square panel (equal scale on both axes) with the scale bar above it.
 const M = 54, TOP = 30, SIDE = 520, W = M + SIDE + 12, H = TOP + SIDE + 46;
 
-export function planChart(ep: EpochSeries | null, points: readonly ReportPoint[], check: ReportControlCheck | null): string {
+/** `origin`: what east/north are about when not the reference coordinate (e.g. 'the point P1'). */
+export function planChart(ep: EpochSeries | null, points: readonly ReportPoint[], check: ReportControlCheck | null, origin?: string): string {
+  const about = origin || 'the reference';
   const n = ep?.timeGpsS.length ?? 0;
   const stride = decimationStride(n, PLAN_MAX_EPOCHS);
   const idx = ep ? decimatedIndices(n, stride, (i) => Number.isFinite(ep.eastM[i]) && Number.isFinite(ep.northM[i])) : [];
@@ -44,8 +46,8 @@ export function planChart(ep: EpochSeries | null, points: readonly ReportPoint[]
   parts.push(`<rect class="panel" x="${M}" y="${TOP}" width="${SIDE}" height="${SIDE}"/>`);
   parts.push(`<g class="axis">${ticksE.map((t) => `<line class="grid" x1="${px(x(t))}" x2="${px(x(t))}" y1="${TOP}" y2="${TOP + SIDE}"/><text x="${px(x(t))}" y="${TOP + SIDE + 16}" text-anchor="middle">${t.toFixed(dec)}</text>`).join('')}` +
     `${ticksN.map((t) => `<line class="grid" y1="${px(y(t))}" y2="${px(y(t))}" x1="${M}" x2="${M + SIDE}"/><text x="${M - 4}" y="${px(y(t) + 4)}" text-anchor="end">${t.toFixed(dec)}</text>`).join('')}` +
-    `<text class="axis-label" x="${px((M + W) / 2)}" y="${H - 6}" text-anchor="middle">East of the reference (m)</text>` +
-    `<text class="axis-label" transform="translate(14 ${px(H / 2)}) rotate(-90)" text-anchor="middle">North of the reference (m)</text></g>`);
+    `<text class="axis-label" x="${px((M + W) / 2)}" y="${H - 6}" text-anchor="middle">East of ${esc(about)} (m)</text>` +
+    `<text class="axis-label" transform="translate(14 ${px(H / 2)}) rotate(-90)" text-anchor="middle">North of ${esc(about)} (m)</text></g>`);
   if (idx.length) {
     parts.push(`<polyline class="track" fill="none" stroke="${OKABE_ITO.skyBlue}" stroke-width="1.2" stroke-linejoin="round" points="${idx.map((i) => `${px(x(ep!.eastM[i]))},${px(y(ep!.northM[i]))}`).join(' ')}"/>`);
   }
@@ -76,7 +78,7 @@ export function planChart(ep: EpochSeries | null, points: readonly ReportPoint[]
   return chartFigure({
     chart: 'plan', title: 'Track, points and control marks', widthPx: W, heightPx: H, body: parts.join(''),
     caption: [
-      'Local east/north at the reference coordinate, equal scale on both axes.',
+      origin ? `Local east/north about ${origin} (no reference coordinate in this folder), equal scale on both axes.` : 'Local east/north at the reference coordinate, equal scale on both axes.',
       'Ellipses: 95 % (2.4477 sigma) from sigma_mean east/north, axes along east and north (points.csv gives no east-north correlation); at this scale they may be too small to see: the occupation charts below show each point\'s scatter.',
       ep ? `Track of the epoch positions. ${decimationNote(idx.length, n, stride, 'epochs')}.` : 'No epochs.csv: no track.',
     ],

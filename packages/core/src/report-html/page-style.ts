@@ -12,7 +12,14 @@ h3{font-size:16px;margin:18px 0 6px}
 .cautions ul{margin:4px 0 0 18px;padding:0}
 .facts{display:grid;grid-template-columns:max-content 1fr;gap:2px 14px;margin:8px 0}
 .facts dt{font-weight:bold}
-.facts dd{margin:0}
+.facts dd{margin:0;overflow-wrap:anywhere}
+.facts .alert{color:var(--fail);font-weight:bold}
+.coords{border-left:4px solid var(--rule);padding:2px 0 2px 10px;margin:8px 0}
+.coords .facts{margin:2px 0}
+.table-box{max-width:100%;overflow-x:auto}
+.stat{font-size:12px;color:var(--muted);white-space:nowrap}
+table.sessions{width:100%}
+table.sessions td.t{overflow-wrap:anywhere}
 table{border-collapse:collapse;margin:6px 0 10px;font-size:13.5px;font-variant-numeric:tabular-nums}
 th,td{border-bottom:1px solid var(--rule);padding:3px 8px;text-align:right;vertical-align:top}
 th{border-bottom:2px solid var(--ink);text-align:right}
@@ -46,6 +53,7 @@ footer{margin-top:30px;color:var(--muted);font-size:12.5px;border-top:1px solid 
   h2{break-after:avoid;page-break-after:avoid}
   table,tr{break-inside:avoid;page-break-inside:avoid}
   table{font-size:8.5pt}
+  .table-box{overflow:visible}
   th,td{padding:2px 4px}
   td.hash{font-size:7pt}
   .facts{font-size:10pt}

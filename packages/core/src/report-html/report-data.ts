@@ -92,11 +92,31 @@ export interface ReportCheckPair {
   readonly dUpM: number;
   readonly horizontalM: number;
   readonly pass: boolean;
+  /**
+   * The chi-square test of the difference against the point's precision and the mark's accuracy:
+   * 'accepted', 'rejected-horizontal', 'rejected-vertical', 'rejected-horizontal-and-vertical', '' when
+   * not tested (absent in older files).
+   */
+  readonly differenceTest?: string;
+  /** Its test statistics (NaN when not tested). */
+  readonly chi2H?: number;
+  readonly chi2V?: number;
 }
 
 export interface ReportControlCheck {
   readonly toleranceHM: number;
   readonly toleranceVM: number;
+  /** Critical values of the difference test (chi-square at 95 %, 2 and 1 degrees of freedom); NaN when not stated. */
+  readonly criticalHorizontal?: number;
+  readonly criticalVertical?: number;
+  /** Frame and epoch of the comparison (the marks'), e.g. 'WGS84 epoch 2018.76'; '' when not stated. */
+  readonly frameText?: string;
+  /** The files compared and when. */
+  readonly pointsFile?: string;
+  readonly marksFile?: string;
+  readonly createdUtc?: string;
+  /** Matching radius (m), NaN when not stated. */
+  readonly radiusM?: number;
   readonly pairs: readonly ReportCheckPair[];
   readonly unmatchedPoints: readonly string[];
   readonly unmatchedMarks: readonly string[];
@@ -113,6 +133,8 @@ export interface ReportInput {
 }
 
 export interface SessionReportData {
+  /** What the folder holds: a run's outputs (the default), or a control check's alone. */
+  readonly kind?: 'session' | 'control-check';
   /** Session name (file or folder name). */
   readonly title: string;
   readonly software: string;
@@ -127,6 +149,20 @@ export interface SessionReportData {
   readonly lastUtc: string;
   /** Epoch counts by solution kind (all epochs, before any decimation). */
   readonly epochsByKind: readonly (readonly [string, number])[];
+  /** The frame and epoch of the points (points.csv rows) when not the run's, e.g. for a check's page. */
+  readonly pointsFrameText?: string;
+  /** The CRS of the points' easting/northing in words ('WGS 84 / UTM zone 32N (EPSG:32632)', 'custom: ...'); '' or absent when none. */
+  readonly gridCrsText?: string;
+  /** How that grid's datum relates to the points' frame (one sentence). */
+  readonly gridDatumNote?: string;
+  /** The points' heights in words (ellipsoidal; orthometric above which geoid model). */
+  readonly heightsText?: string;
+  /** The geoid model's caution (EGM96 is not a national height datum), when it gives one. */
+  readonly heightsCaution?: string;
+  /** What the plan view's east/north are about when the folder gives no reference coordinate (e.g. 'the point P1'). */
+  readonly planOrigin?: string;
+  /** Why the run's input was incomplete (observations lost while reading), '' or absent when complete. */
+  readonly incompleteInput?: string;
   /** More summary lines (scatter of the positions, systems used, rejected epochs...), label and value. */
   readonly facts?: readonly (readonly [string, string])[];
   readonly epochs: EpochSeries | null;

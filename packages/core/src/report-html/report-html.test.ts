@@ -87,6 +87,64 @@ describe('report-html builders', () => {
   });
 });
 
+describe('report page: what a reader must see stated', () => {
+  const check = {
+    toleranceHM: 1, toleranceVM: 2, criticalHorizontal: 5.991, criticalVertical: 3.841, frameText: 'WGS84 epoch 2018.76', pointsFile: '/p/points.csv', marksFile: '/p/marks.csv',
+    pairs: [
+      { point: 'P1', mark: 'P1', matchedBy: 'name', dEastM: 0.001, dNorthM: 0.001, dUpM: 0.008, horizontalM: 0.001, pass: true, differenceTest: 'accepted', chi2H: 0.01, chi2V: 0.11 },
+      { point: 'WELLHEAD', mark: 'WELLHEAD', matchedBy: 'name', dEastM: 0.2, dNorthM: 0.1, dUpM: 0.01, horizontalM: 0.224, pass: true, differenceTest: 'rejected-horizontal', chi2H: 6.97, chi2V: 0.2 },
+    ],
+    unmatchedPoints: [], unmatchedMarks: [], nssda: [['Horizontal accuracy at 95 %', '0.0034 m']] as [string, string][], warnings: [],
+  };
+
+  it('the control check table has the difference test beside the tolerance: a mark within tolerance whose difference is rejected says both', () => {
+    const html = buildSessionReportHtml({ ...syntheticSessionReportData(60, 4), check });
+    expect(html).toContain('<th>difference test (95 %)</th>'.replace('<th>', '<th class="t">'));
+    const row = /<tr><td class="t">WELLHEAD<\/td>.*?<\/tr>/.exec(html)![0];
+    expect(row).toContain('<span class="badge pass">pass</span>');
+    expect(row).toContain('<span class="badge fail">rejected-horizontal</span>');
+    expect(row).toMatch(/χ²<sub>h<\/sub> 6\.97/);
+    expect(html).toMatch(/difference test: 1 rejected/);
+  });
+
+  it("a control check's outputs alone: titled for what they are, the check's frame and epoch, no placeholder for the run's missing figures", () => {
+    const d = syntheticSessionReportData(60, 4);
+    const html = buildSessionReportHtml({
+      ...d, kind: 'control-check', epochs: null, residuals: null, epochsByKind: [], firstUtc: '', lastUtc: '', referenceText: '', frameText: 'WGS84 epoch 2018.76', facts: [], check,
+    });
+    expect(html).toContain('<h1>Control check report: ');
+    expect(html).toContain('<dt>Frame and epoch</dt><dd>WGS84 epoch 2018.76</dd>');
+    expect(html).not.toMatch(/\? to \?|Rover epochs|<dt>Observed|Time series|Sky plot/);
+    expect(html).toContain('<dd>/p/marks.csv</dd>');
+  });
+
+  it('the grid CRS and heights beside the points; an incomplete input in the Summary', () => {
+    const d = syntheticSessionReportData(60, 4);
+    const html = buildSessionReportHtml({
+      ...d, points: d.points.map((p) => ({ ...p, eastingM: 483413.361, northingM: 5219757.238, orthometricHeightM: 360.787 })),
+      gridCrsText: 'WGS 84 / UTM zone 32N (EPSG:32632)', heightsText: 'ellipsoidal; orthometric above EGM96 geoid', heightsCaution: 'EGM96 is a global geoid model, not a national vertical datum',
+      incompleteInput: 'observations were lost while reading: r.obs:4491: epoch skipped',
+    });
+    const points = html.slice(html.indexOf('<h2>Points</h2>'), html.indexOf('<table', html.indexOf('<h2>Points</h2>')));
+    expect(points).toContain('<dt>Easting, northing</dt><dd>WGS 84 / UTM zone 32N (EPSG:32632)</dd>');
+    expect(points).toContain('EGM96 geoid');
+    expect(points).toContain('not a national vertical datum');
+    const summary = html.slice(html.indexOf('<h2>Summary</h2>'), html.indexOf('<h2>Plan view</h2>'));
+    expect(summary).toContain('<dt class="alert">Input</dt><dd class="alert">INCOMPLETE: observations were lost while reading: r.obs:4491: epoch skipped</dd>');
+    expect(summary).toContain('EPSG:32632');
+  });
+
+  it('the batch index table is in a box of its own that scrolls, and long names and reasons may wrap', () => {
+    const html = buildBatchIndexHtml({
+      title: 'b', software: 'refdelta', createdUtc: '', cautions: [],
+      sessions: [{ session: 'hubu00DEU_R_20230931500_01H_30S_MO', status: 'failed', reason: 'x'.repeat(300), epochs: 0, solvedEpochs: 0, points: 0, reportHref: null }],
+    });
+    expect(html).toContain('<div class="table-box"><table class="sessions">');
+    expect(html).toMatch(/\.table-box\{max-width:100%;overflow-x:auto\}/);
+    expect(html).toMatch(/table\.sessions td\.t\{overflow-wrap:anywhere\}/);
+  });
+});
+
 describe('residual chart with carrier-phase and code residuals', () => {
   it('draws phase in millimetres and code in metres on panels of their own (self-consistency)', async () => {
     const { residualChart } = await import('./chart-residuals.js');

@@ -1,16 +1,17 @@
 /** HTML tables and lists of the report. */
 import { scatterRadius95M } from './chart-occupation.js';
-import type { ReportControlCheck, ReportInput, ReportPoint } from './report-data.js';
+import type { ReportCheckPair, ReportControlCheck, ReportInput, ReportPoint } from './report-data.js';
 import { esc, num } from './svg-kit.js';
 
 export function badge(word: string): string {
-  const cls = word === 'ok' || word === 'pass' ? 'pass' : word === 'failed' || word === 'fail' || word.startsWith('exceeds') ? 'fail' : 'other';
+  const cls = word === 'ok' || word === 'pass' || word === 'accepted' ? 'pass' : word === 'failed' || word === 'fail' || word.startsWith('exceeds') || word.startsWith('rejected') ? 'fail' : 'other';
   return `<span class="badge ${cls}">${esc(word)}</span>`;
 }
 
 export function table(head: readonly string[], rows: readonly (readonly string[])[], textColumns: readonly number[] = [0]): string {
   const cell = (c: string, i: number, tag: string) => `<${tag}${textColumns.includes(i) ? ' class="t"' : ''}>${c}</${tag}>`;
-  return `<table><thead><tr>${head.map((h, i) => cell(esc(h), i, 'th')).join('')}</tr></thead><tbody>${rows.map((r) => `<tr>${r.map((c, i) => cell(c, i, 'td')).join('')}</tr>`).join('')}</tbody></table>`;
+  // In a box of its own: a table wider than the page scrolls inside it, not the page.
+  return `<div class="table-box"><table><thead><tr>${head.map((h, i) => cell(esc(h), i, 'th')).join('')}</tr></thead><tbody>${rows.map((r) => `<tr>${r.map((c, i) => cell(c, i, 'td')).join('')}</tr>`).join('')}</tbody></table></div>`;
 }
 
 /** Two tables: the coordinates, then precision and the tolerance result. */
@@ -34,13 +35,33 @@ export function pointsTable(points: readonly ReportPoint[]): string {
   return coords + precision;
 }
 
+/** The difference test's cell: its word as a badge with the test statistics ('' when not tested). */
+function differenceTestCell(p: ReportCheckPair): string {
+  const word = p.differenceTest ?? '';
+  if (word === '') return '<span class="missing">not tested</span>';
+  const stats = [
+    ...(Number.isFinite(p.chi2H ?? NaN) ? [`χ²<sub>h</sub> ${num(p.chi2H!, 2)}`] : []),
+    ...(Number.isFinite(p.chi2V ?? NaN) ? [`χ²<sub>v</sub> ${num(p.chi2V!, 2)}`] : []),
+  ];
+  return `${badge(word)}${stats.length ? ` <span class="stat">${stats.join(', ')}</span>` : ''}`;
+}
+
 export function checkTables(c: ReportControlCheck): string {
-  const rows = c.pairs.map((p) => [esc(p.point), esc(p.mark), esc(p.matchedBy), num(p.dEastM, 3), num(p.dNorthM, 3), num(p.dUpM, 3), num(p.horizontalM, 3), badge(p.pass ? 'pass' : 'fail')]);
-  return `<p>Computed point minus published mark, east/north/up at the mark. Pass: horizontal ≤ ${num(c.toleranceHM, 2)} m and |up| ≤ ${num(c.toleranceVM, 2)} m.</p>` +
-    table(['point', 'mark', 'matched by', 'dE (m)', 'dN (m)', 'dU (m)', 'horizontal (m)', 'result'], rows, [0, 1, 2]) +
+  const tested = c.pairs.some((p) => p.differenceTest !== undefined);
+  const rows = c.pairs.map((p) => [
+    esc(p.point), esc(p.mark), esc(p.matchedBy), num(p.dEastM, 3), num(p.dNorthM, 3), num(p.dUpM, 3), num(p.horizontalM, 3), badge(p.pass ? 'pass' : 'fail'),
+    ...(tested ? [differenceTestCell(p)] : []),
+  ]);
+  const critical = Number.isFinite(c.criticalHorizontal ?? NaN) && Number.isFinite(c.criticalVertical ?? NaN)
+    ? ` (χ² against ${num(c.criticalHorizontal!, 3)} horizontally, 2 degrees of freedom, and ${num(c.criticalVertical!, 3)} vertically, 1 degree of freedom)` : '';
+  return `<p>Computed point minus published mark, east/north/up at the mark${c.frameText ? `, in ${esc(c.frameText)} (the marks' frame and epoch)` : ''}. ` +
+    `Tolerance: pass when horizontal ≤ ${num(c.toleranceHM, 2)} m and |up| ≤ ${num(c.toleranceVM, 2)} m.` +
+    (tested ? ` Difference test at 95 %${critical}: is the difference larger than the point's precision and the mark's accuracy explain? ` +
+      '"rejected" means it is, even within the tolerance: check the mark\'s published coordinate and the occupation. It does not change pass/fail.' : '') + '</p>' +
+    table(['point', 'mark', 'matched by', 'dE (m)', 'dN (m)', 'dU (m)', 'horizontal (m)', 'tolerance', ...(tested ? ['difference test (95 %)'] : [])], rows, [0, 1, 2, ...(tested ? [8] : [])]) +
     (c.unmatchedPoints.length ? `<p>Points without a mark: ${c.unmatchedPoints.map(esc).join(', ')}.</p>` : '') +
     (c.unmatchedMarks.length ? `<p>Marks without a point: ${c.unmatchedMarks.map(esc).join(', ')}.</p>` : '') +
-    (c.nssda.length ? `<h3>NSSDA (FGDC-STD-007.3-1998)</h3>${factsHtml(c.nssda)}` : '') +
+    (c.nssda.length ? `<h3>NSSDA (FGDC-STD-007.3-1998)</h3>${table(['figure', 'value'], c.nssda.map(([k, v]) => [esc(k), esc(v)]), [0, 1])}` : '') +
     (c.warnings.length ? `<ul class="plain">${c.warnings.map((w) => `<li>${esc(w)}</li>`).join('')}</ul>` : '');
 }
 
@@ -50,6 +71,7 @@ export function inputsTable(inputs: readonly ReportInput[]): string {
     .replace(/<td><span class="hash-text">/g, '<td class="hash"><span class="hash-text">');
 }
 
-export function factsHtml(lines: readonly (readonly [string, string])[]): string {
-  return `<dl class="facts">${lines.map(([k, v]) => `<dt>${esc(k)}</dt><dd>${esc(v)}</dd>`).join('')}</dl>`;
+/** Label/value lines; a third element is a class for the line ('alert' draws it as a warning). */
+export function factsHtml(lines: readonly (readonly [string, string, string?])[]): string {
+  return `<dl class="facts">${lines.map(([k, v, cls]) => `<dt${cls ? ` class="${esc(cls)}"` : ''}>${esc(k)}</dt><dd${cls ? ` class="${esc(cls)}"` : ''}>${esc(v)}</dd>`).join('')}</dl>`;
 }

@@ -66,7 +66,7 @@ export function controlCheckJson(r: ControlCheckResult, extras: { readonly point
     all_pass: r.allPass,
     pairs: r.pairs.map((p) => ({
       session: p.session || null,
-      point: p.pointName, mark: p.markName, matched_by: p.by, match_distance_m: jsonNumber(p.matchDistanceM, 3), frame: p.comparison.frame,
+      point: p.pointName, mark: p.markName, matched_by: p.by, match_distance_m: jsonNumber(p.matchDistanceM, 3), frame: p.comparison.frame, frame_epoch: jsonNumber(p.markPosition.frame.epochYear, 4),
       d_east_m: jsonNumber(p.comparison.dE, 4), d_north_m: jsonNumber(p.comparison.dN, 4), d_up_m: jsonNumber(p.comparison.dU, 4),
       horizontal_m: jsonNumber(p.comparison.horizontalM, 4), three_d_m: jsonNumber(p.comparison.threeDM, 4), pass: p.comparison.pass,
       sigma_d_east_m: jsonNumber(p.test.sigmaEastM, 4), sigma_d_north_m: jsonNumber(p.test.sigmaNorthM, 4), sigma_d_up_m: jsonNumber(p.test.sigmaUpM, 4),

@@ -8,7 +8,7 @@ export {
 export { RESIDUAL_COLUMNS, residualRows, residualRowsOf } from './residual-rows.js';
 export { geojson, epochFeature, geojsonNote, isWgs84Label, type GeoJsonOptions, type PointFeature, type RefdeltaFeatureCollection } from './geojson.js';
 export {
-  summaryJson, CAUTIONS,
+  summaryJson, scatterJson, CAUTIONS, SOLVE_SCATTER_ABOUT,
   type InputKind, type InputFileRecord, type OutputFileRecord, type LabelledScatter, type SummaryExtras,
 } from './summary-json.js';
 export {
@@ -24,3 +24,4 @@ export * from './output-kinds.js';
 export { GeoPackageWriter, csvtText, gpkgPointBlob, gpkgFieldType, initGeoPackage, type SqliteDatabase, type GpkgLayer, type GpkgSrs } from './geopackage.js';
 export { kmlPlacemark, kmlStart, kmlEnd, kmlFrameNote, xmlText } from './kml.js';
 export { pointsDxf, DXF_POINTS_LAYER, DXF_NAMES_LAYER, type DxfPoint } from './dxf.js';
+export { gridCrsWords, heightsStatement, pooledPointScatter, pointsRunScatter, withPointsRun, type HeightsStatement, type PointsRunOptions } from './points-run-summary.js';

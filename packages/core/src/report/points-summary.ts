@@ -130,7 +130,8 @@ export interface PointsOutcome {
 
 import { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M } from './tolerances.js';
 export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M };
-const TAG_TOLERANCE_S = 0.01;
+/** An epoch belongs to an occupation when its tag is within this of the occupation's first and last epoch (s). */
+export const OCCUPATION_TAG_TOLERANCE_S = 0.01;
 
 /** The ARP above a ground-mark position, given the vertical height used. */
 function markToArpAlongNormal(mark: EcefM, heightM: number): EcefM {
@@ -153,7 +154,7 @@ export function summariseOccupations(epochs: readonly PointEpoch[], occupations:
   const points: PointResult[] = [];
   const empty: Occupation[] = [];
   for (const occ of occupations) {
-    const inside = epochs.filter((e) => e.tagGpsS >= occ.startGpsS - TAG_TOLERANCE_S && e.tagGpsS <= occ.endGpsS + TAG_TOLERANCE_S);
+    const inside = epochs.filter((e) => e.tagGpsS >= occ.startGpsS - OCCUPATION_TAG_TOLERANCE_S && e.tagGpsS <= occ.endGpsS + OCCUPATION_TAG_TOLERANCE_S);
     const { chosen, basis } = chooseEpochs(inside, minEpochs);
     if (chosen.length === 0) { empty.push(occ); continue; }
     let heightM = NaN;

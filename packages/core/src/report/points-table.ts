@@ -22,8 +22,11 @@ import { geojsonNote } from './geojson.js';
 import type { PointResult } from './points-summary.js';
 import type { GridCrs } from './grid-crs.js';
 
+/** How the outputs name the CRS of the grid coordinates. */
+export interface GridLabel { readonly epsg: number | null; readonly name: string; readonly definition: string; readonly datum?: string }
+
 /** What the outputs say the grid coordinates are: the grid CRS when known, else the projection as asked. */
-function gridLabel(o: Pick<PointsTableOptions, 'projection' | 'grid'>): { readonly epsg: number | null; readonly name: string; readonly definition: string; readonly datum?: string } | undefined {
+export function gridLabel(o: Pick<PointsTableOptions, 'projection' | 'grid'>): GridLabel | undefined {
   if (!o.projection) return undefined;
   // Outside the projection's own datum only its parameters are meant: the definition carries no datum.
   const definition = o.grid && o.grid.datum !== 'same' && o.grid.datum !== 'as-given' ? withoutDatumShift(o.projection.projString) : o.projection.projString;

@@ -34,8 +34,16 @@ export interface OutputFileRecord {
 export interface LabelledScatter {
   /** e.g. 'differential and smoothed epochs' */
   readonly over: string;
+  /** What the scatter is about, in words; SOLVE_SCATTER_ABOUT when not given. */
+  readonly about?: string;
   readonly stats: ScatterStats;
 }
+
+/**
+ * The scatter of a solve run: every epoch about the session's one mean. Only a still antenna makes it a
+ * precision; for an antenna that moved it measures the movement.
+ */
+export const SOLVE_SCATTER_ABOUT = 'scatter of the epoch positions about their overall mean: the precision (not accuracy) when the antenna stayed still; when it moved, the extent of its movement, not an error';
 
 export interface SummaryExtras {
   readonly scatter?: LabelledScatter;
@@ -61,11 +69,11 @@ function ecefJson(p: EcefM | null): { x_m: number | null; y_m: number | null; z_
   return p ? { x_m: jsonNumber(p.x, 4), y_m: jsonNumber(p.y, 4), z_m: jsonNumber(p.z, 4) } : null;
 }
 
-function scatterJson(s: LabelledScatter): Record<string, unknown> {
+export function scatterJson(s: LabelledScatter): Record<string, unknown> {
   const t = s.stats;
   return {
     over: s.over,
-    about: 'scatter of the epoch positions about their mean (precision, not accuracy)',
+    about: s.about ?? SOLVE_SCATTER_ABOUT,
     epochs: t.count,
     mean_ecef: ecefJson(t.meanEcef),
     horizontal_median_m: jsonNumber(t.horizontalMedianM, 4),
