@@ -106,8 +106,8 @@ describeShared('refdelta points on the real static run', () => {
     const r = runCli(['check', '--points', join(out, 'points.csv'), '--marks', marks, '--out', o3]);
     expect(r.status, r.stderr).toBe(0);
     const c = parseCsv(readFileSync(join(o3, 'control-check.csv'), 'utf8'));
-    // the point is named S1, the mark ROVER-TRUTH: matched by proximity within the default 5 m
-    expect(c.rows.map((x) => [x.point, x.mark, x.matched_by, x.pass])).toEqual([['S1', 'ROVER-TRUTH', 'proximity', 'pass']]);
+    // the point is named rover-S1 (the rover file's name, then the span's number), the mark ROVER-TRUTH: matched by proximity within the default 5 m
+    expect(c.rows.map((x) => [x.point, x.mark, x.matched_by, x.pass])).toEqual([['rover-S1', 'ROVER-TRUTH', 'proximity', 'pass']]);
     const j = JSON.parse(readFileSync(join(o3, 'control-check.json'), 'utf8'));
     expect(j.nssda.check_points).toBe(1);
     // FGDC-STD-007.3-1998 3.2.1: at least 20 check points

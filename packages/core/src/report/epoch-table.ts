@@ -39,8 +39,8 @@ export function frameEpochCell(epochYear: number): string {
 }
 
 /** One row aligned with epochTableColumns(systems); frame cells are empty when the epoch has no position. */
-export function epochTableRow(s: EpochSolution, systems: readonly GnssSystem[]): string[] {
-  const r = epochRow(s, systems);
+export function epochTableRow(s: EpochSolution, systems: readonly GnssSystem[], pointName: string = s.pointName): string[] {
+  const r = epochRow(s, systems, pointName);
   const f = s.position && s.kind !== 'none' ? s.position.frame : null;
   r.splice(FRAME_CELLS_AT, 0, f ? f.name : '', f ? frameEpochCell(f.epochYear) : '');
   r.push(...carrierCells(s));

@@ -22,7 +22,7 @@ import type { EcefM, EnuM, FrameEpoch } from '../gnss/index.js';
 import type { PointReference, SolutionKind } from '../session/index.js';
 import { ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import {
-  reduceToMark, summarisePoint, verticalHeightToArpM,
+  reduceToMark, summarisePoint, verticalHeightToArpM, WINDOW_TAG_TOLERANCE_S,
   type AntennaGeometry, type HeightKind, type Occupation, type PointSummary, type ReferenceSigma,
 } from '../points/index.js';
 
@@ -130,7 +130,8 @@ export interface PointsOutcome {
 
 import { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M } from './tolerances.js';
 export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M };
-const TAG_TOLERANCE_S = 0.01;
+/** The epochs of a window: the same tolerance as the epochs' point names (points/window-names.ts). */
+const TAG_TOLERANCE_S = WINDOW_TAG_TOLERANCE_S;
 
 /** The ARP above a ground-mark position, given the vertical height used. */
 function markToArpAlongNormal(mark: EcefM, heightM: number): EcefM {

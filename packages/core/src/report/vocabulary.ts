@@ -16,7 +16,7 @@ export const VOCABULARY: Readonly<Record<string, VocabularyEntry>> = {
   gps_tow_s: { unit: 's', meaning: 'GPS time of week of the epoch: estimated GPS time, not the receiver tag' },
   utc_time: { unit: null, meaning: 'UTC time of the epoch, ISO 8601' },
   epoch_tag_tow_s: { unit: 's', meaning: "the receiver's own time tag of the epoch, GPS time of week" },
-  point: { unit: null, meaning: 'name of the logged point the row belongs to (epochs: the occupation in force; check: the computed point)' },
+  point: { unit: null, meaning: "name of the logged point the row belongs to (check: the computed point; epochs: with points --windows, the window holding the epoch, empty outside every window, the names of overlapping windows joined by ' + '; else the rover file's MARKER NAME, replaced at each 'new occupation' event flag by the marker name it gives and empty after a 'start moving' flag; static spans found from the Doppler speed are named in points.csv only)" },
   name: { unit: null, meaning: 'name of a point or mark' },
   session: { unit: null, meaning: 'the batch session (rover file name without extensions) a row comes from' },
   solution: { unit: null, meaning: 'how the position was computed: differential | smoothed | standalone | fixed | float | none (fixed, float: carrier phase)' },
