@@ -20,7 +20,8 @@ import { radToDeg } from '../geodesy/index.js';
 import { gpsToUtcS, isoFromSeconds } from '../time/index.js';
 import { kmlEnd, kmlPlacemark, kmlStart } from './kml.js';
 import { GeoPackageWriter, csvtText, gpkgFieldType, type GpkgSrs, type SqliteDatabase } from './geopackage.js';
-import { pointsDxf } from './dxf.js';
+import { DXF_NAMES_LAYER, DXF_POINTS_LAYER, pointsDxf } from './dxf.js';
+import { frameWords } from './point-reference.js';
 import type { PointResult } from './points-summary.js';
 import type { PointsTableOptions } from './points-table.js';
 import type { WindowPointNames } from '../points/index.js';
@@ -320,9 +321,22 @@ const POINTS_DXF: PointsOutputFormat = {
     return pointsDxf(ctx.rows.map((r) => ({
       name: at(r, 'name'), eastingM: Number(at(r, 'easting_m')), northingM: Number(at(r, 'northing_m')),
       heightM: Number(at(r, 'orthometric_height_m') !== '' ? at(r, 'orthometric_height_m') : at(r, 'height_m')),
-    })));
+    })), dxfComments(ctx.table));
   },
 };
+
+/** The DXF's comment lines: what x, y and z are (DXF has no place for a CRS). */
+function dxfComments(t: PointsTableOptions): string[] {
+  const grid = t.grid ? t.grid.name : t.projection ? t.projection.name : 'no projection';
+  return [
+    'refdelta points: POINT entities on layer ' + DXF_POINTS_LAYER + ', their names as MTEXT on ' + DXF_NAMES_LAYER,
+    `x = easting, y = northing in metres: ${grid} (its WKT in points.prj)`,
+    t.geoid
+      ? `z = orthometric height in metres above ${t.geoid.heightReference} (${t.geoid.name}): ellipsoidal height minus the geoid undulation`
+      : 'z = ellipsoidal height in metres (GRS80 / WGS 84 ellipsoid), not a height above sea level',
+    `positions in the frame ${frameWords(t.frame)}, projected without a datum shift`,
+  ];
+}
 
 /** Per-point outputs besides points.csv, points.geojson (always written by `points`) and the GeoPackage layer. */
 export const POINTS_OUTPUT_FORMATS: readonly PointsOutputFormat[] = [POINTS_KML, POINTS_DXF];
