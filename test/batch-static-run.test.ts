@@ -37,6 +37,8 @@ describeShared('refdelta batch on the real static run', () => {
   it('one point per receiver; the base-to-rover vector agrees with the truth within 1 m horizontally', () => {
     const t = parseCsv(readFileSync(join(out, 'batch-points.csv'), 'utf8')).rows;
     expect(t.map((r) => r.session)).toEqual(['base', 'rover']);
+    // Both points are static spans found from the Doppler speed: named after their session, never S1 twice.
+    expect(t.map((r) => `${r.name}:${r.source}`)).toEqual(['base-S1:doppler', 'rover-S1:doppler']);
     const truth = parseCsv(readFileSync(dataPath(`${D}/static-run/rover-truth.csv`), 'utf8')).rows.filter((r) => r.fix_quality === '4');
     expect(truth.length).toBeGreaterThan(100);
     const tm = [0, 0, 0];

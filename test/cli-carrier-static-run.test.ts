@@ -32,9 +32,9 @@ describeShared('refdelta solve with carrier phase on the real static run', () =>
     expect(run.stdout + run.stderr).toMatch(/carrier phase: \d+ epochs fixed .* forward pass alone/);
   });
 
-  it('epochs.csv: ratio and fixed_ambiguities are the last columns; fixed rows within centimetres of the truth', () => {
+  it('epochs.csv: ratio, fixed_ambiguities and ambiguities_held are the last columns; fixed rows within centimetres of the truth', () => {
     const ep = parseCsv(readFileSync(join(out, 'epochs.csv'), 'utf8'));
-    expect(ep.header.slice(-2)).toEqual(['ratio', 'fixed_ambiguities']);
+    expect(ep.header.slice(-3)).toEqual(['ratio', 'fixed_ambiguities', 'ambiguities_held']);
     const truth = parseCsv(readFileSync(dataPath(`${D}/static-run/rover-truth.csv`), 'utf8')).rows.filter((r) => r.fix_quality === '4');
     const byTow = new Map(truth.map((r) => [Math.round(Number(r.gps_tow_s)), r]));
     const h: number[] = [];
@@ -51,6 +51,17 @@ describeShared('refdelta solve with carrier phase on the real static run', () =>
     }
     expect(fixed / ep.rows.length).toBeGreaterThanOrEqual(0.95);
     expect(nearestRank(h, 0.95)).toBeLessThanOrEqual(0.03);
+  });
+
+  it('epochs.csv: filtering on ratio >= 3 (the default threshold) keeps every fixed epoch; held fixes are 10000 and flagged', () => {
+    const rows = parseCsv(readFileSync(join(out, 'epochs.csv'), 'utf8')).rows;
+    const fixed = rows.filter((r) => r.solution === 'fixed');
+    expect(fixed.filter((r) => r.ratio !== '' && Number(r.ratio) >= 3).length).toBe(fixed.length);
+    const held = rows.filter((r) => r.ambiguities_held === '1');
+    // Most epochs after the first fix rest on the held ambiguities (fix-and-hold).
+    expect(held.length).toBeGreaterThan(fixed.length / 2);
+    expect(held.every((r) => r.ratio === '10000.00')).toBe(true);
+    expect(rows.every((r) => r.ambiguities_held === '0' || r.ambiguities_held === '1')).toBe(true);
   });
 
   it('epochs.csv: every solved carrier row has the filter\'s innovation test (variance_factor, chi_square, chi_square_critical)', () => {

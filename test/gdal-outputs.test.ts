@@ -150,6 +150,27 @@ describe.skipIf(!HAVE_GDAL)('outputs read with GDAL, projected coordinates again
     }
   });
 
+  it('DXF: point names outside ASCII (in and outside Windows-1252) read back by GDAL as given, with no --config option', () => {
+    const o = tempDir('rd-gdal-dxf-names-');
+    const names = ['Ráth Éile', 'Zürich', 'Łódź', 'a\\b {c} ^d'];
+    const times = ['09:33:00', '09:37:00', '09:40:20', '09:44:20', '09:48:09', '09:51:09', '09:53:24', '09:56:24'];
+    const win = join(o, 'windows.csv');
+    writeFileSync(win, 'name,start,end\n' + names.map((n, i) => `"${n}",2024-05-14T${times[2 * i]} GPST,2024-05-14T${times[2 * i + 1]} GPST`).join('\n') + '\n');
+    const r = runCli(['points', ...RUN, '--smooth', '100', '--windows', win, '--projection', 'utm', '--outputs', 'dxf', '--out', join(o, 'out')]);
+    expect(r.status, r.stderr).toBe(0);
+    const file = join(o, 'out', 'points.dxf');
+    // The file is ASCII (the same bytes as UTF-8 or Windows-1252), its other characters escaped as \U+XXXX.
+    expect([...readFileSync(file)].every((b) => b < 0x80)).toBe(true);
+    const l = readLayer(file, undefined, [], "Layer = 'REFDELTA_NAMES'");
+    expect(l.features.map((f) => f.properties.Text)).toEqual(names);
+    // The comment lines (group code 999) say what x, y and z are; GDAL skips them.
+    const text = readFileSync(file, 'utf8');
+    expect(text).toMatch(/^999\nrefdelta points/);
+    expect(text).toMatch(/999\nx = easting, y = northing in metres: WGS 84 \/ UTM zone 32N \(EPSG:32632\)/);
+    expect(text).toMatch(/999\nz = ellipsoidal height in metres/);
+    expect(text).toMatch(/\$DWGCODEPAGE\n3\nANSI_1252\n/);
+  });
+
   it('points.prj as GDAL reads it: the EPSG CRS when the datum is the points\' frame, else the grid on the points\' datum or an unknown one, never the code asked for', () => {
     const info = (dir: string) => tool('ogrinfo', ['-so', ...CSV_EN.flatMap((o) => ['-oo', o]), join(dir, 'points.csv'), 'points']);
     expect(layerEpsg(join(out, 'points.csv'), 'points', CSV_EN)).toBe(32632);

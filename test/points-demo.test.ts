@@ -5,7 +5,7 @@
  * simulator's truth (points.csv: true marks; occupations.csv: true occupation times). Simulated data:
  * this checks self-consistency of the simulator and the engine, not the real world.
  */
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { fixturePath } from './support/shared.js';
@@ -94,6 +94,26 @@ describe.skipIf(!HAVE)('refdelta points on the demo scenario', () => {
     expect(rows.map((x) => [x.name, x.source])).toEqual(NAMES.map((n) => [n, 'windows']));
     for (const [i, x] of rows.entries()) expect(x.antenna_height_m).toBe(Number(truthWindows()[i].h).toFixed(4));
     for (const e of horizontalErrors(text).values()) { expect(e.h).toBeLessThan(1.0); expect(Math.abs(e.u)).toBeLessThan(1.5); }
+  });
+
+  it('with --windows the epochs carry the name of the window holding them (a point renamed), and each point counts exactly those epochs', () => {
+    const o = tempDir('rd-points-demo-win-names-');
+    const win = join(o, 'windows.csv');
+    writeFileSync(win, readFileSync(DEMO('occupations.csv'), 'utf8').replace(/^MILLSTONE,/m, 'W-ONE,'));
+    const args = RUN.slice(0, RUN.indexOf('--outputs'));
+    const r = runCli(['points', ...args, '--smooth', '100', '--windows', win, '--outputs', 'epochs,geojson,summary', '--out', join(o, 'out')]);
+    expect(r.status, r.stderr).toBe(0);
+    const epochs = parseCsv(readFileSync(join(o, 'out', 'epochs.csv'), 'utf8')).rows;
+    const points = parseCsv(readFileSync(join(o, 'out', 'points.csv'), 'utf8')).rows;
+    expect(points.map((p) => p.name)).toEqual(['W-ONE', ...NAMES.slice(1)]);
+    expect(new Set(epochs.map((e) => e.point))).toEqual(new Set(['', 'W-ONE', ...NAMES.slice(1)]));
+    for (const p of points) expect(epochs.filter((e) => e.point === p.name && e.solution !== 'none').length, p.name).toBe(Number(p.epochs));
+    // Outside every window (the walks) the column is empty, never the rover's marker name.
+    expect(epochs.some((e) => e.point === 'MILLSTONE')).toBe(false);
+    const gj = JSON.parse(readFileSync(join(o, 'out', 'positions.geojson'), 'utf8'));
+    expect(gj.features.filter((f: { properties: { point: string } }) => f.properties.point === 'W-ONE').length).toBe(Number(points[0]!.epochs));
+    const meta = JSON.parse(readFileSync(join(o, 'out', 'epochs.csv.meta.json'), 'utf8'));
+    expect(meta.notes.join('\n')).toContain(`point: the name of the occupation window of the windows file ${win}`);
   });
 
   it('a geographic CRS is refused as --projection, with one sentence, before any run', () => {

@@ -86,12 +86,16 @@ describeShared('refdelta points on the real static run', () => {
     const win = join(o2, 'windows.csv');
     writeFileSync(win, 'name,start,end,antenna_height_m,height_kind\nPOLE,2018-10-04 12:40:00 GPST,2018-10-04 12:44:59.5 GPST,1.5,vertical\n');
     // Code processing: every epoch of the window counts (with carrier phase a point takes its fixed epochs only).
-    const r = runCli(['points', ...RUN, '--carrier-phase', 'off', '--windows', win, '--outputs', 'summary', '--out', o2]);
+    const r = runCli(['points', ...RUN, '--carrier-phase', 'off', '--windows', win, '--outputs', 'epochs,summary', '--out', o2]);
     expect(r.status, r.stderr).toBe(0);
     const p = parseCsv(readFileSync(join(o2, 'points.csv'), 'utf8')).rows;
     expect(p.map((x) => [x.name, x.source])).toEqual([['POLE', 'windows']]);
     // 1 s rover epochs tagged at .991 s (receiver time): 12:40:00.991 .. 12:44:59.991 -> 300 (data README)
     expect(Number(p[0].epochs)).toBe(300);
+    // epochs.csv names those 300 epochs by the window, not by the rover's marker name; the others belong to no point.
+    const ep = parseCsv(readFileSync(join(o2, 'epochs.csv'), 'utf8')).rows;
+    expect(ep.filter((e) => e.point === 'POLE').length).toBe(300);
+    expect(ep.filter((e) => e.point !== 'POLE').every((e) => e.point === '')).toBe(true);
     expect(p[0].antenna_height_m).toBe('1.5000');
     const whole = parseCsv(readFileSync(join(out, 'points.csv'), 'utf8')).rows[0];
     // self-consistency: 1.5 m lower than the (antenna height 0) whole-run mean, to the scatter of a 5 min sub-mean
@@ -106,8 +110,8 @@ describeShared('refdelta points on the real static run', () => {
     const r = runCli(['check', '--points', join(out, 'points.csv'), '--marks', marks, '--out', o3]);
     expect(r.status, r.stderr).toBe(0);
     const c = parseCsv(readFileSync(join(o3, 'control-check.csv'), 'utf8'));
-    // the point is named S1, the mark ROVER-TRUTH: matched by proximity within the default 5 m
-    expect(c.rows.map((x) => [x.point, x.mark, x.matched_by, x.pass])).toEqual([['S1', 'ROVER-TRUTH', 'proximity', 'pass']]);
+    // the point is named rover-S1 (the rover file's name, then the span's number), the mark ROVER-TRUTH: matched by proximity within the default 5 m
+    expect(c.rows.map((x) => [x.point, x.mark, x.matched_by, x.pass])).toEqual([['rover-S1', 'ROVER-TRUTH', 'proximity', 'pass']]);
     const j = JSON.parse(readFileSync(join(o3, 'control-check.json'), 'utf8'));
     expect(j.nssda.check_points).toBe(1);
     // FGDC-STD-007.3-1998 3.2.1: at least 20 check points

@@ -22,6 +22,7 @@ export { CHI2_1_95, CHI2_2_95, DEFAULT_MATCH_RADIUS_M, differenceTestWord, parse
 export { parseOccupationCsv } from './points/occupation-csv.js';
 export { summarisePoint } from './points/summarise-point.js';
 export { DEFAULT_STATIC_DETECTION, splitOccupations } from './points/occupations.js';
+export { OVERLAPPING_WINDOWS_JOINER, WindowPointNames } from './points/window-names.js';
 export { nssdaAccuracy } from './accuracy/index.js';
 export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, carrierPointFloor, chooseEpochs, summariseOccupations } from './report/points-summary.js';
 export { gridCrsOf } from './report/grid-crs.js';

@@ -6,14 +6,14 @@
  * and geoid heights; points.csv and points.geojson written atomically into --out.
  */
 import { readFile } from 'node:fs/promises';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import { csvText } from '../csv-text.js';
 import {
   DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE,
   InputError, loadEgm96, looksLikeIsg, looksLikeTiff, makeProjection, parseGeoTiffGeoid, parseIsgGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
   crsOfFrame, csvtText, gridCrsOf, type GridCrs, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
-  type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad, sigmaRescaleFactor,
+  type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad, sigmaRescaleFactor, WindowPointNames,
   pointsRunScatter, scatterJson, withPointsRun,
 } from '@refdelta/core';
 import { requireFile } from '../node-io.js';
@@ -59,6 +59,16 @@ function collect(c: Collected, s: EpochSolution): void {
     ...(s.occupationEvent ? { event: { kind: s.occupationEvent, ...(s.occupationEvent === 'new-occupation' ? { markerName: s.pointName } : {}) } } : {}),
     speedMS: s.speedMS,
   });
+}
+
+/**
+ * The session a run's detected points are named after: in a batch its session (the folder its outputs go
+ * to is named so), else the rover file's name without compression and observation extensions, made as a
+ * batch names its session folders.
+ */
+function sessionNameOf(rover: string, outDir: string, command: string): string {
+  if (command === 'batch-session') return basename(outDir);
+  return basename(rover).replace(/\.(gz|z)$/i, '').replace(/\.(obs|rnx|crx|\d\d[od])$/i, '').replace(/[^A-Za-z0-9._-]/g, '_');
 }
 
 /** One sentence, before the run, when a user geoid grid does not cover the reference point. */
@@ -159,6 +169,8 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
       if (g && cfg.geoidSpec) requireGeoidCovers(g, cfg.geoidSpec, ecefToGeodetic(refEcef));
     },
     extraInputs: [...(cfg.windowsFile ? [cfg.windowsFile] : []), ...(cfg.geoidSpec && cfg.geoidSpec.toLowerCase() !== 'egm96' ? [cfg.geoidSpec] : [])],
+    // With windows, the per-epoch outputs name each epoch by the window holding it (not the rover's marker name).
+    ...(cfg.windows ? { pointNames: new WindowPointNames(cfg.windows, `the windows file ${cfg.windowsFile}`) } : {}),
   });
   const failed = (failure: string): PointsSessionOutcome => ({
     outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure, points: [], columns: [], rows: [], outputs: [],
@@ -177,7 +189,10 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
       const withSpeed = marks.filter((m) => Number.isFinite(m.speedMS)).length;
       rep.info(`static detection on the Doppler speed of ${withSpeed} of ${marks.length} epochs (a point starts below ${DEFAULT_STATIC_DETECTION.enterBelowMS} m/s and ends above ${DEFAULT_STATIC_DETECTION.leaveAboveMS} m/s)`);
     }
-    const occupations = splitOccupations({ epochs: marks, ...(cfg.windows ? { windows: cfg.windows } : {}), initialMarkerName: st.roverHeader.markerName }, { onWarning: rep.warn });
+    const occupations = splitOccupations({
+      epochs: marks, ...(cfg.windows ? { windows: cfg.windows } : {}), initialMarkerName: st.roverHeader.markerName,
+      detectedNamePrefix: `${sessionNameOf(a.rover, st.outDir, command)}-`,
+    }, { onWarning: rep.warn });
     if (occupations.length === 0) {
       const why = cfg.windows ? 'no window holds an epoch' : hasEvents ? 'the event flags mark no occupation' : 'no static span was found in the Doppler speed (or the rover file has no Doppler)';
       await st.set.abort();

@@ -16,7 +16,7 @@ import { obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeS
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
 import { referenceSigmaOf } from '../reference-sigma.js';
 import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie.js';
-import type { ReferenceSigma } from '@refdelta/core';
+import type { ReferenceSigma, WindowPointNames } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
 import { checkReferencePosition } from '../reference-position.js';
 import { completenessJson, dataLost, roverEndsEarly, unsolvedEpochs, type DataLost, type Unsolved } from '../run-completeness.js';
@@ -124,6 +124,8 @@ export interface SolveHooks {
   readonly extraInputs?: readonly string[];
   /** Checks of the caller's own inputs at the reference point, made once it is known and before the run. */
   readonly beforeRun?: (referenceEcef: EcefM) => Promise<void>;
+  /** The per-epoch outputs' point names from occupation windows (points --windows). */
+  readonly pointNames?: WindowPointNames;
 }
 
 /**
@@ -347,6 +349,7 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   const outputCtx: SolveOutputContext = {
     frame, pointReference, systems: clockSystems, notes: [`reference coordinate: ${ref.note}`], standaloneRows: options.standaloneFallback && !singleReceiver, csv: csvText,
     wkt: (code) => epsgWkt(code), ...(kinds.includes('gpkg') ? { openDatabase: await sqliteFactory() } : {}),
+    ...(hooks.pointNames ? { pointNames: hooks.pointNames } : {}),
   };
   const positions = new PositionSeries();
   const standalone = new PositionSeries();

@@ -5,3 +5,4 @@ export * from './antenna-height.js';
 export * from './occupation-csv.js';
 export * from './occupations.js';
 export * from './summarise-point.js';
+export * from './window-names.js';

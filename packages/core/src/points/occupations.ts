@@ -30,6 +30,11 @@ export interface SplitInput {
   readonly windows?: readonly OccupationWindow[];
   /** MARKER NAME of the file header, names the occupation before the first event. */
   readonly initialMarkerName?: string;
+  /**
+   * Put before the names of static spans found from the Doppler speed (S1, S2...), so that spans of
+   * different sessions do not share a name (e.g. 'ptA-' gives ptA-S1). Names from windows and events stay as given.
+   */
+  readonly detectedNamePrefix?: string;
 }
 
 export interface Occupation {
@@ -70,7 +75,7 @@ export function splitOccupations(input: SplitInput, opts: { detection?: Partial<
     return out;
   }
   if (epochs.some((e) => e.event)) return fromEvents(input);
-  return fromDoppler(epochs, { ...DEFAULT_STATIC_DETECTION, ...opts.detection });
+  return fromDoppler(epochs, { ...DEFAULT_STATIC_DETECTION, ...opts.detection }, input.detectedNamePrefix ?? '');
 }
 
 function fromEvents(input: SplitInput): Occupation[] {
@@ -103,7 +108,7 @@ function fromEvents(input: SplitInput): Occupation[] {
   return out;
 }
 
-function fromDoppler(epochs: readonly EpochMark[], d: StaticDetection): Occupation[] {
+function fromDoppler(epochs: readonly EpochMark[], d: StaticDetection, namePrefix: string): Occupation[] {
   const spans: Array<{ start: number; end: number }> = [];
   let open: { start: number; end: number } | undefined;
   let prevT = -Infinity;
@@ -130,5 +135,5 @@ function fromDoppler(epochs: readonly EpochMark[], d: StaticDetection): Occupati
   }
   return merged
     .filter((s) => s.end - s.start >= d.minDurationS)
-    .map((s, i) => ({ name: `S${i + 1}`, startGpsS: s.start, endGpsS: s.end, source: 'doppler' as const }));
+    .map((s, i) => ({ name: `${namePrefix}S${i + 1}`, startGpsS: s.start, endGpsS: s.end, source: 'doppler' as const }));
 }

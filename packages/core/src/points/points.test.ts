@@ -10,6 +10,8 @@ import {
   splitOccupations,
   summarisePoint,
   verticalHeightToArpM,
+  OVERLAPPING_WINDOWS_JOINER,
+  WindowPointNames,
   type EpochMark,
 } from './index.js';
 
@@ -152,6 +154,37 @@ describe('splitOccupations', () => {
       { name: 'S1', startGpsS: t0, endGpsS: t0 + 79, source: 'doppler' },
       { name: 'S2', startGpsS: t0 + 160, endGpsS: t0 + 199, source: 'doppler' },
     ]);
+    // A session's prefix keeps the spans of different sessions apart; windows and events keep their names.
+    expect(splitOccupations({ epochs, detectedNamePrefix: 'ptA-' }).map((o) => o.name)).toEqual(['ptA-S1', 'ptA-S2']);
+    const windows = [{ name: 'P1', startGpsS: t0, endGpsS: t0 + 50 }];
+    expect(splitOccupations({ epochs, windows, detectedNamePrefix: 'ptA-' }).map((o) => o.name)).toEqual(['P1']);
+    const flagged: EpochMark[] = [{ tGpsS: t0, event: { kind: 'new-occupation', markerName: 'Beacon 1' } }, { tGpsS: t0 + 1 }];
+    expect(splitOccupations({ epochs: flagged, detectedNamePrefix: 'ptA-' }).map((o) => o.name)).toEqual(['Beacon 1']);
+  });
+});
+
+describe('point names of epochs from windows', () => {
+  const t0 = 1_222_000_000;
+  const windows = [
+    { name: 'P2', startGpsS: t0 + 100, endGpsS: t0 + 200 },
+    { name: 'P1', startGpsS: t0, endGpsS: t0 + 60 },
+    { name: 'P3', startGpsS: t0 + 180, endGpsS: t0 + 240 },
+  ];
+  const names = new WindowPointNames(windows, 'w.csv');
+  it('the window holding the instant, start and end included within 0.01 s; empty between windows', () => {
+    expect(names.nameAt(t0 - 0.02)).toBe('');
+    expect(names.nameAt(t0 - 0.009)).toBe('P1');
+    expect(names.nameAt(t0 + 60.009)).toBe('P1');
+    expect(names.nameAt(t0 + 80)).toBe('');
+    expect(names.nameAt(t0 + 100)).toBe('P2');
+    expect(names.nameAt(t0 + 240)).toBe('P3');
+    expect(names.nameAt(t0 + 241)).toBe('');
+  });
+  it('an instant inside overlapping windows carries both names, earlier start first', () => {
+    expect(names.nameAt(t0 + 190)).toBe(`P2${OVERLAPPING_WINDOWS_JOINER}P3`);
+  });
+  it('the metadata note names the windows file', () => {
+    expect(names.note()).toMatch(/^point: the name of the occupation window of w\.csv holding the epoch/);
   });
 });
 

@@ -56,11 +56,15 @@ function pushFixedCells(row: string[], decimals: readonly number[]): void {
   for (let i = 0; i < decimals.length; i++) row.push(fixed(cellValues[i], decimals[i]!));
 }
 
-/** One epoch as CSV cells aligned with epochColumns(systems). */
-export function epochRow(s: EpochSolution, systems: readonly GnssSystem[]): string[] {
+/**
+ * One epoch as CSV cells aligned with epochColumns(systems). `pointName` is the point column: the
+ * session's own name of the occupation (marker name and event flags) unless the caller names the epochs
+ * otherwise (occupation windows, points/window-names.ts).
+ */
+export function epochRow(s: EpochSolution, systems: readonly GnssSystem[], pointName: string = s.pointName): string[] {
   const t = weekTowFromGpsS(s.timeGpsS);
   const tag = weekTowFromGpsS(s.tagGpsS);
-  const row: string[] = [String(t.week), fixed(t.towS, 3), isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'), fixed(tag.towS, 3), s.pointName, s.kind];
+  const row: string[] = [String(t.week), fixed(t.towS, 3), isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'), fixed(tag.towS, 3), pointName, s.kind];
   // A missing value (null, undefined) is NaN here: fixed() writes the same empty cell for both.
   const v = cellValues;
   const g = s.geodetic;

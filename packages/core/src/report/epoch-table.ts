@@ -14,10 +14,18 @@ const BEFORE = 'latitude_deg';
 /** Where the frame cells go: before latitude_deg, which comes before any clock column. */
 const FRAME_CELLS_AT = epochColumns([]).indexOf(BEFORE);
 
-/** Carrier-phase columns, last: the ratio test statistic and the number of fixed ambiguities (empty for code rows). */
-const CARRIER_COLUMNS = ['ratio', 'fixed_ambiguities'];
+/**
+ * Carrier-phase columns, last: the ratio test statistic, the number of fixed ambiguities and whether the
+ * fix rests on ambiguities held from earlier epochs (empty for code rows).
+ */
+const CARRIER_COLUMNS = ['ratio', 'fixed_ambiguities', 'ambiguities_held'];
 
-/** Ratios above this are written as this value (a number, so the column stays numeric in a GIS). */
+/**
+ * Ratios above this are written as this value (a number, so the column stays numeric in a GIS). An epoch
+ * whose fixed ambiguities were all held from earlier epochs ran no integer search that could give a
+ * ratio (its ratio is infinite, float-filter.ts fixAroundHeld): it is written as this value too, so
+ * that filtering on ratio >= the threshold keeps every fixed epoch; ambiguities_held tells the two apart.
+ */
 export const RATIO_CAP = 10000;
 
 export function epochTableColumns(systems: readonly GnssSystem[]): string[] {
@@ -28,8 +36,11 @@ export function epochTableColumns(systems: readonly GnssSystem[]): string[] {
 
 function carrierCells(s: EpochSolution): string[] {
   const c = s as EpochSolution & { ratio?: number; fixedAmbiguities?: number };
-  if (c.fixedAmbiguities === undefined) return ['', ''];
-  return [Number.isFinite(c.ratio) ? Math.min(c.ratio!, RATIO_CAP).toFixed(2) : '', String(c.fixedAmbiguities)];
+  if (c.fixedAmbiguities === undefined) return ['', '', ''];
+  const ratio = c.ratio ?? NaN;
+  // NaN: no search ran and nothing was held (a float epoch with too few ambiguities), an empty cell.
+  const ratioCell = Number.isNaN(ratio) ? '' : Math.min(ratio, RATIO_CAP).toFixed(2);
+  return [ratioCell, String(c.fixedAmbiguities), ratio === Infinity ? '1' : '0'];
 }
 
 /** A frame epoch as a CSV cell: the decimal year as a number, '' when not stated. */
@@ -39,8 +50,8 @@ export function frameEpochCell(epochYear: number): string {
 }
 
 /** One row aligned with epochTableColumns(systems); frame cells are empty when the epoch has no position. */
-export function epochTableRow(s: EpochSolution, systems: readonly GnssSystem[]): string[] {
-  const r = epochRow(s, systems);
+export function epochTableRow(s: EpochSolution, systems: readonly GnssSystem[], pointName: string = s.pointName): string[] {
+  const r = epochRow(s, systems, pointName);
   const f = s.position && s.kind !== 'none' ? s.position.frame : null;
   r.splice(FRAME_CELLS_AT, 0, f ? f.name : '', f ? frameEpochCell(f.epochYear) : '');
   r.push(...carrierCells(s));

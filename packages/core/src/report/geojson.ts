@@ -56,7 +56,7 @@ export function geojsonNote(frame: FrameEpoch): string {
 }
 
 /** One epoch as a Point feature, or null when it has no position. */
-export function epochFeature(s: EpochSolution, frame: FrameEpoch): PointFeature | null {
+export function epochFeature(s: EpochSolution, frame: FrameEpoch, pointName: string = s.pointName): PointFeature | null {
   const g = s.geodetic;
   if (!g || s.kind === 'none') return null;
   return {
@@ -71,7 +71,7 @@ export function epochFeature(s: EpochSolution, frame: FrameEpoch): PointFeature 
       gps_week: weekTowFromGpsS(s.timeGpsS).week,
       gps_tow_s: jsonNumber(weekTowFromGpsS(s.timeGpsS).towS, 3),
       utc_time: isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'),
-      point: s.pointName,
+      point: pointName,
       solution: s.kind,
       frame: frame.name,
       frame_epoch: jsonNumber(frame.epochYear, 4),

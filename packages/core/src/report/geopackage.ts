@@ -158,7 +158,7 @@ export class GeoPackageWriter {
 
 /** SQLite type of one of our columns, from its name (vocabulary.ts: units as suffixes). */
 export function gpkgFieldType(column: string): GpkgFieldType {
-  if (/^(gps_week|start_gps_week|end_gps_week|epochs|satellites_used|fixed_ambiguities)$/.test(column)) return 'INTEGER';
+  if (/^(gps_week|start_gps_week|end_gps_week|epochs|satellites_used|fixed_ambiguities|ambiguities_held)$/.test(column)) return 'INTEGER';
   if (/(_m|_deg|_s|_m_s|_m2)$/.test(column) || /^(pdop|hdop|vdop|variance_factor|chi_square|chi_square_critical|chi2_h|chi2_v|w_test|n_eff|mean_pdop|frame_epoch|ratio)$/.test(column)) return 'REAL';
   return 'TEXT';
 }

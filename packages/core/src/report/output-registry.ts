@@ -20,9 +20,11 @@ import { radToDeg } from '../geodesy/index.js';
 import { gpsToUtcS, isoFromSeconds } from '../time/index.js';
 import { kmlEnd, kmlPlacemark, kmlStart } from './kml.js';
 import { GeoPackageWriter, csvtText, gpkgFieldType, type GpkgSrs, type SqliteDatabase } from './geopackage.js';
-import { pointsDxf } from './dxf.js';
+import { DXF_NAMES_LAYER, DXF_POINTS_LAYER, pointsDxf } from './dxf.js';
+import { frameWords } from './point-reference.js';
 import type { PointResult } from './points-summary.js';
 import type { PointsTableOptions } from './points-table.js';
+import type { WindowPointNames } from '../points/index.js';
 
 export type OutputChunk = string | Uint8Array;
 
@@ -43,6 +45,13 @@ export interface SolveOutputContext {
   readonly wkt: (epsg: number) => string | null;
   /** A new empty SQLite database (GeoPackage output); absent when the caller has none. */
   readonly openDatabase?: () => SqliteDatabase;
+  /** The epochs' point names from occupation windows; absent: the session's own (marker name, event flags). */
+  readonly pointNames?: WindowPointNames;
+}
+
+/** The point column of an epoch: the window holding it when windows name the points, else the session's name. */
+function pointNameOf(s: EpochSolution, ctx: SolveOutputContext): string {
+  return ctx.pointNames ? ctx.pointNames.nameAt(s.tagGpsS) : s.pointName;
 }
 
 /** What a run adds after its epochs, for formats that hold more than the epochs (GeoPackage). */
@@ -106,7 +115,7 @@ function geographicPrj(kind: string, fileName: string, ctx: SolveOutputContext):
 class EpochsCsvWriter implements EpochOutputWriter {
   constructor(private readonly ctx: SolveOutputContext) {}
   start(): OutputChunk { return this.ctx.csv([epochTableColumns(this.ctx.systems)]); }
-  epoch(s: EpochSolution): OutputChunk { return this.ctx.csv([epochTableRow(s, this.ctx.systems)]); }
+  epoch(s: EpochSolution): OutputChunk { return this.ctx.csv([epochTableRow(s, this.ctx.systems, pointNameOf(s, this.ctx))]); }
   end(): OutputChunk { return ''; }
 }
 
@@ -136,7 +145,7 @@ class GeojsonWriter implements EpochOutputWriter {
   }
   epoch(s: EpochSolution): OutputChunk {
     // Each feature carries its own row's frame (standalone rows: the broadcast orbits' frame).
-    const f = epochFeature(s, s.position?.frame ?? UNSTATED_FRAME);
+    const f = epochFeature(s, s.position?.frame ?? UNSTATED_FRAME, pointNameOf(s, this.ctx));
     return f ? (this.features++ ? ',\n' : '') + JSON.stringify(f) : '';
   }
   end(): OutputChunk { return '\n]}\n'; }
@@ -148,7 +157,7 @@ class KmlWriter implements EpochOutputWriter {
   start(): OutputChunk { return kmlStart('refdelta epoch positions', this.ctx.frame); }
   epoch(s: EpochSolution): OutputChunk {
     if (!s.geodetic || s.kind === 'none') return '';
-    const f = epochFeature(s, s.position?.frame ?? this.ctx.frame);
+    const f = epochFeature(s, s.position?.frame ?? this.ctx.frame, pointNameOf(s, this.ctx));
     if (!f) return '';
     return kmlPlacemark(isoFromSeconds(gpsToUtcS(s.timeGpsS), 'Z'), radToDeg(s.geodetic.lonRad), radToDeg(s.geodetic.latRad), s.geodetic.heightM,
       { ...f.properties, height_m: jsonNumber(s.geodetic.heightM, 4) });
@@ -174,6 +183,7 @@ const EPOCHS: SolveOutputFormat = {
         'gps_week/gps_tow_s are estimated GPS time; epoch_tag_tow_s is the receiver\'s tag',
         'each row states the frame and epoch of its own position (frame, frame_epoch columns)',
         ...(ctx.standaloneRows ? [standaloneFrameNote()] : []),
+        ...(ctx.pointNames ? [ctx.pointNames.note()] : []),
         ...ctx.notes,
       ],
     }))];
@@ -246,7 +256,7 @@ const GPKG: SolveOutputFormat = {
         const g = s.geodetic;
         // Standalone rows are in another frame: their geometry is left empty rather than mislabelled (their columns hold the values).
         const sameFrame = s.kind !== 'standalone';
-        gp.addRow('epochs', g && s.kind !== 'none' && sameFrame ? [radToDeg(g.lonRad), radToDeg(g.latRad), g.heightM] : null, epochTableRow(s, ctx.systems));
+        gp.addRow('epochs', g && s.kind !== 'none' && sameFrame ? [radToDeg(g.lonRad), radToDeg(g.latRad), g.heightM] : null, epochTableRow(s, ctx.systems, pointNameOf(s, ctx)));
         for (const r of residualRowsOf(s)) gp.addRow('residuals', null, r);
         return '';
       },
@@ -311,9 +321,22 @@ const POINTS_DXF: PointsOutputFormat = {
     return pointsDxf(ctx.rows.map((r) => ({
       name: at(r, 'name'), eastingM: Number(at(r, 'easting_m')), northingM: Number(at(r, 'northing_m')),
       heightM: Number(at(r, 'orthometric_height_m') !== '' ? at(r, 'orthometric_height_m') : at(r, 'height_m')),
-    })));
+    })), dxfComments(ctx.table));
   },
 };
+
+/** The DXF's comment lines: what x, y and z are (DXF has no place for a CRS). */
+function dxfComments(t: PointsTableOptions): string[] {
+  const grid = t.grid ? t.grid.name : t.projection ? t.projection.name : 'no projection';
+  return [
+    'refdelta points: POINT entities on layer ' + DXF_POINTS_LAYER + ', their names as MTEXT on ' + DXF_NAMES_LAYER,
+    `x = easting, y = northing in metres: ${grid} (its WKT in points.prj)`,
+    t.geoid
+      ? `z = orthometric height in metres above ${t.geoid.heightReference} (${t.geoid.name}): ellipsoidal height minus the geoid undulation`
+      : 'z = ellipsoidal height in metres (GRS80 / WGS 84 ellipsoid), not a height above sea level',
+    `positions in the frame ${frameWords(t.frame)}, projected without a datum shift`,
+  ];
+}
 
 /** Per-point outputs besides points.csv, points.geojson (always written by `points`) and the GeoPackage layer. */
 export const POINTS_OUTPUT_FORMATS: readonly PointsOutputFormat[] = [POINTS_KML, POINTS_DXF];

@@ -22,7 +22,7 @@ import type { EcefM, EnuM, FrameEpoch } from '../gnss/index.js';
 import type { PointReference, SolutionKind } from '../session/index.js';
 import { ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import {
-  reduceToMark, summarisePoint, verticalHeightToArpM,
+  reduceToMark, summarisePoint, verticalHeightToArpM, WINDOW_TAG_TOLERANCE_S,
   type AntennaGeometry, type HeightKind, type Occupation, type PointSummary, type ReferenceSigma,
 } from '../points/index.js';
 
@@ -130,8 +130,11 @@ export interface PointsOutcome {
 
 import { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M } from './tolerances.js';
 export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M };
-/** An epoch belongs to an occupation when its tag is within this of the occupation's first and last epoch (s). */
-export const OCCUPATION_TAG_TOLERANCE_S = 0.01;
+/**
+ * An epoch belongs to an occupation when its tag is within this of the occupation's first and last
+ * epoch (s): the tolerance the epochs' point names use too (points/window-names.ts).
+ */
+export const OCCUPATION_TAG_TOLERANCE_S = WINDOW_TAG_TOLERANCE_S;
 
 /** The ARP above a ground-mark position, given the vertical height used. */
 function markToArpAlongNormal(mark: EcefM, heightM: number): EcefM {
