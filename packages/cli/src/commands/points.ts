@@ -11,7 +11,7 @@ import { csvText } from '../csv-text.js';
 import {
   DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE,
   InputError, loadEgm96, looksLikeIsg, looksLikeTiff, makeProjection, parseGeoTiffGeoid, parseIsgGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
-  crsOfFrame, csvtText, gridCrsOf, type GridCrs, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
+  crsOfFrame, csvtText, gridAreaWarning, gridCrsOf, type GridCrs, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
   type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad, sigmaRescaleFactor,
 } from '@refdelta/core';
@@ -203,6 +203,8 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
       projection = makeProjection(cfg.projectionSpec, { latDeg: radToDeg(g.latRad), lonDeg: radToDeg(g.lonRad) }, epsgLookup, frame.name);
       grid = gridCrsOf(projection, frame, (code) => epsgWkt(code));
       if (grid.warning) rep.warn({ code: grid.datum === 'unstated' ? 'projection-datum-unstated' : 'projection-datum', message: grid.warning });
+      const outside = gridAreaWarning(projection, outcome.points.map((p) => ({ name: p.name, latDeg: radToDeg(p.summary.meanGeodetic.latRad), lonDeg: radToDeg(p.summary.meanGeodetic.lonRad) })));
+      if (outside) rep.warn({ code: 'projection-area', message: outside });
     }
     // A PROJ string's own datum shift is not applied either.
     if (projection && grid?.datum === 'as-given' && /\+(towgs84=(?!0,0,0(,0,0,0,0)?\b)|nadgrids=)/.test(projection.projString)) {
