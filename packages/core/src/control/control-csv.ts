@@ -25,7 +25,7 @@ import type { FramedEcef } from '../gnss/index.js';
 import { InputError, type WarningSink } from '../errors.js';
 import { degToRad, geodeticToEcef, GRS80, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { normaliseFrameName } from '../frames/index.js';
-import { makeProjection, type EpsgLookup, type Projection } from '../projection/index.js';
+import { makeProjection, marksGridDatumSentence, projectionDatumRelation, type EpsgLookup, type Projection } from '../projection/index.js';
 import { csvRecords } from '../csv/index.js';
 
 export interface ControlMark {
@@ -52,6 +52,8 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
   let headerLine = 0;
   const marks: ControlMark[] = [];
   const projections = new Map<string, Projection>();
+  // One warning per projection and frame whose datums differ (projection-datum.ts), at its first row.
+  const datumWarned = new Set<string>();
   for (const { lineNo, fields: f } of csvRecords(text)) {
     if (!header) {
       header = f.map((h) => h.toLowerCase());
@@ -107,6 +109,11 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
         }
         if (proj.units !== 'm') throw new InputError(file, lineNo, `column projection: expected a projection in metres, '${spec}' is geographic`);
         projections.set(spec, proj);
+      }
+      const warnKey = `${spec}\u0000${frameName}`;
+      if (!datumWarned.has(warnKey) && projectionDatumRelation(proj, frameName) === 'differs') {
+        datumWarned.add(warnKey);
+        onWarning?.({ file, line: lineNo, code: 'marks-projection-datum', message: `marks in ${spec} with frame ${frameName} (from ${name} on): ${marksGridDatumSentence(proj, frameName)}` });
       }
       const ll = proj.inverse(num('easting_m', 'an easting in metres'), num('northing_m', 'a northing in metres'));
       const h = num('h_m', 'an ellipsoidal height in metres (-1000..10000)', -1000, 10000);
