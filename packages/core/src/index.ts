@@ -14,7 +14,7 @@ export { ephemerisTimeGpsS, inspectNav, inspectObs, navInspectionText, obsInspec
 export { mergeNav, readNav, readObsStream, writeNavRinex3, writeObsRinex3 } from './rinex/index.js';
 export { klobucharDelayM, slantTroposphere } from './atmosphere/index.js';
 export { loadEgm96, looksLikeIsg, looksLikeTiff, parseGeoTiffGeoid, parseIsgGrid } from './geoid/index.js';
-export { gridAreaWarning, makeProjection, resolveProjectionSpec } from './projection/index.js';
+export { gridAreaWarning, makeProjection, resolveProjectionSpec, utmEpsgOfFrame, utmZoneFor } from './projection/index.js';
 export { broadcastOrbitFrame, solveStandaloneEpoch, solveStandaloneSession } from './standalone/index.js';
 export { openText } from './compress/index.js';
 export { DEFAULT_OPTIONS, sigmaRescaleFactor, solveSession, withDefaults } from './session/index.js';

@@ -140,7 +140,14 @@ export interface PointsSessionOutcome {
   readonly columns: readonly string[];
   readonly rows: readonly (readonly string[])[];
   readonly outputs: readonly OutputFileRecord[];
+  /** What points.csv.meta.json says of easting/northing (null without --projection), for a batch's combined table. */
+  readonly projectionStatement: ProjectionStatement | null;
+  /** The WKT of points.prj (null when none is written). */
+  readonly prjWkt: string | null;
 }
+
+/** The metadata's statement of the grid coordinates' CRS (table-metadata.ts `projection`). */
+export interface ProjectionStatement { readonly epsg: number | null; readonly name: string; readonly definition: string; readonly datum?: string }
 
 /**
  * One `points` run: the solve run staged, occupations, per-point means, then the solve outputs, points.csv,
@@ -160,7 +167,7 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     extraInputs: [...(cfg.windowsFile ? [cfg.windowsFile] : []), ...(cfg.geoidSpec && cfg.geoidSpec.toLowerCase() !== 'egm96' ? [cfg.geoidSpec] : [])],
   });
   const failed = (failure: string): PointsSessionOutcome => ({
-    outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure, points: [], columns: [], rows: [], outputs: [],
+    outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure, points: [], columns: [], rows: [], outputs: [], projectionStatement: null, prjWkt: null,
   });
   try {
     reportSolveCounts(st, rep);
@@ -228,7 +235,8 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     }
     await st.set.add('points', join(st.outDir, POINTS_FILE_NAMES.csv), [csvText([columns, ...rows])]);
     await st.set.add('points-csvt', join(st.outDir, 'points.csvt'), [csvtText(columns)]);
-    await st.set.add('points-metadata', join(st.outDir, metadataFileName(POINTS_FILE_NAMES.csv)), [JSON.stringify(pointsMetadata(table), null, 2) + '\n']);
+    const metadata = pointsMetadata(table);
+    await st.set.add('points-metadata', join(st.outDir, metadataFileName(POINTS_FILE_NAMES.csv)), [JSON.stringify(metadata, null, 2) + '\n']);
     // The .prj states the CRS the grid coordinates are in (grid-crs.ts) with a projection, else the frame's
     // geographic CRS; none for an unstated frame without a projection (never WGS 84 by default).
     const frameCrs = crsOfFrame(frame.name);
@@ -257,7 +265,9 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
         `sigma mean E/N/U ${p.summary.sigmaMeanEastM.toFixed(3)}/${p.summary.sigmaMeanNorthM.toFixed(3)}/${p.summary.sigmaMeanUpM.toFixed(3)} m, ${p.tolerance}`);
     }
     rep.info(`${outcome.points.length} point(s); outputs in ${st.outDir}: ${outputNames(outputs)}`);
-    return { outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure: null, points: outcome.points, columns, rows, outputs };
+    const statement = (metadata as { projection?: ProjectionStatement & { applied?: string } }).projection;
+    const projectionStatement = statement ? { epsg: statement.epsg, name: statement.name, definition: statement.definition, ...(statement.datum !== undefined ? { datum: statement.datum } : {}) } : null;
+    return { outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure: null, points: outcome.points, columns, rows, outputs, projectionStatement, prjWkt: prj };
   } catch (e) {
     await st.set.abort();
     throw e;
