@@ -59,6 +59,10 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
       header = f.map((h) => h.toLowerCase());
       headerLine = lineNo;
       const unknown = header.filter((h) => !KNOWN.includes(h));
+      // A spreadsheet saved where the decimal separator is a comma writes ';' between fields: the header is then one field.
+      if (header.length === 1 && header[0]!.split(';').length > 2) {
+        throw new InputError(file, lineNo, `the header has its columns separated by ';' ('${header[0]!.slice(0, 60)}'): save the file with ',' between columns and '.' as the decimal point`);
+      }
       if (!header.includes('name')) throw new InputError(file, lineNo, `expected a header row with a 'name' column (columns: ${KNOWN.join(', ')})`);
       if (unknown.length > 0) throw new InputError(file, lineNo, `unknown column(s) ${unknown.join(', ')}: expected some of ${KNOWN.join(', ')}`);
       const has = (...c: string[]) => c.every((x) => header!.includes(x));

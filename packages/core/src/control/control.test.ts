@@ -136,6 +136,13 @@ describe('marks files: one row per name, grid datums stated', () => {
   });
 });
 
+describe('a marks file with ; between columns', () => {
+  it('says so, and what to save instead', () => {
+    const t = 'name;easting_m;northing_m;h_m;projection;frame;epoch\nP1;496144,8099;5903472,9357;67,7553;EPSG:32629;WGS84;2018,76\n';
+    expect(() => parseMarksFile('semi.csv', t)).toThrow(/^semi\.csv:1: the header has its columns separated by ';' \('name;easting_m;northing_m;h_m;projection;frame;epoch'\): save the file with ',' between columns and '\.' as the decimal point$/);
+  });
+});
+
 describe('a match by name kilometres away', () => {
   it('is said once, naming the pairs and what to check; 1 km and below is not', () => {
     const pair = (pointName: string, horizontalM: number, by: 'name' | 'proximity' = 'name') => ({ pointName, markName: pointName, by, horizontalM });
