@@ -36,7 +36,14 @@ export interface ControlMark {
   /** Where it was read from. */
   readonly file: string;
   readonly line: number;
+  /** The coordinate values as the file gives them, when geodetic or grid (far-match.ts tries other readings of them). */
+  readonly given?: GivenCoordinate;
 }
+
+/** A mark's coordinate values as written: latitude/longitude, or easting/northing with the projection named. */
+export type GivenCoordinate =
+  | { readonly kind: 'geodetic'; readonly latDeg: number; readonly lonDeg: number; readonly heightM: number }
+  | { readonly kind: 'grid'; readonly projection: string; readonly eastingM: number; readonly northingM: number; readonly heightM: number };
 
 export { splitCsvLine } from '../csv/index.js';
 
@@ -93,6 +100,7 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
     const ell = ellipsoidForFrame(frameName);
     const filled = (...c: string[]) => c.every((x) => get(x) !== '');
     let ecef;
+    let given: GivenCoordinate | undefined;
     if (filled('x_m', 'y_m', 'z_m')) {
       ecef = { x: num('x_m', 'an ECEF X in metres'), y: num('y_m', 'an ECEF Y in metres'), z: num('z_m', 'an ECEF Z in metres') };
       const r = Math.hypot(ecef.x, ecef.y, ecef.z);
@@ -102,6 +110,7 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
       const lon = num('lon_deg', 'a longitude in degrees (-180..360)', -180, 360);
       const h = num('h_m', 'an ellipsoidal height in metres (-1000..10000)', -1000, 10000);
       ecef = geodeticToEcef({ latRad: degToRad(lat), lonRad: degToRad(lon), heightM: h }, ell);
+      given = { kind: 'geodetic', latDeg: lat, lonDeg: lon, heightM: h };
     } else if (filled('easting_m', 'northing_m', 'h_m', 'projection')) {
       const spec = get('projection');
       let proj = projections.get(spec);
@@ -119,8 +128,10 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
         datumWarned.add(warnKey);
         onWarning?.({ file, line: lineNo, code: 'marks-projection-datum', message: `marks in ${spec} with frame ${frameName} (from ${name} on): ${marksGridDatumSentence(proj, frameName)}` });
       }
-      const ll = proj.inverse(num('easting_m', 'an easting in metres'), num('northing_m', 'a northing in metres'));
+      const eastingM = num('easting_m', 'an easting in metres'), northingM = num('northing_m', 'a northing in metres');
+      const ll = proj.inverse(eastingM, northingM);
       const h = num('h_m', 'an ellipsoidal height in metres (-1000..10000)', -1000, 10000);
+      given = { kind: 'grid', projection: spec, eastingM, northingM, heightM: h };
       if (!Number.isFinite(ll.latDeg) || !Number.isFinite(ll.lonDeg)) throw new InputError(file, lineNo, `columns easting_m,northing_m: expected a point inside the projection ${proj.name}`);
       ecef = geodeticToEcef({ latRad: degToRad(ll.latDeg), lonRad: degToRad(ll.lonDeg), heightM: h }, ell);
     } else {
@@ -135,6 +146,7 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
       ...(av !== undefined ? { accuracyVerticalM: av } : {}),
       file,
       line: lineNo,
+      ...(given ? { given } : {}),
     });
   }
   if (!header) throw new InputError(file, 0, 'expected a header row and at least one control mark: the file is empty');

@@ -5,7 +5,9 @@ import { describe, expect, it } from 'vitest';
 import { InputError, ProcessingError, type Warning } from '../errors.js';
 import { distanceM, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import { DEFAULT_HELMERT_SETS } from '../frames/index.js';
-import { CHI2_1_95, CHI2_2_95, compareToMark, differenceTestWord, FAR_NAME_MATCH_M, farNameMatchSentence, matchPointsToMarks, parseControlCsv, parseMarksFile, testDifference } from './index.js';
+import { makeProjection } from '../projection/index.js';
+import { geodeticToEcef, WGS84 } from '../geodesy/index.js';
+import { CHI2_1_95, CHI2_2_95, closerReading, compareToMark, differenceTestWord, FAR_NAME_MATCH_M, farNameMatchSentence, matchPointsToMarks, parseControlCsv, parseMarksFile, testDifference } from './index.js';
 
 const FIXTURE = resolve(__dirname, '../../../../fixtures/geo/control-marks.csv');
 const text = readFileSync(FIXTURE, 'utf8');
@@ -148,8 +150,22 @@ describe('a match by name kilometres away', () => {
     const pair = (pointName: string, horizontalM: number, by: 'name' | 'proximity' = 'name') => ({ pointName, markName: pointName, by, horizontalM });
     expect(farNameMatchSentence([pair('P1', 999), pair('P2', 4.2, 'proximity')], 'm.csv')).toBeNull();
     const s = farNameMatchSentence([pair('P1', 4630645.1), pair('P2', 1500)], 'm.csv')!;
-    expect(s).toMatch(/^2 point\(s\) matched by name lie more than 1 km from their mark \(P1 is 4631 km from mark P1, P2 is 1\.50 km from mark P2\)/);
-    expect(s).toMatch(/Check the CRS of m\.csv: its projection code, UTM zone and hemisphere, and the order of its coordinates/);
+    expect(s).toMatch(/^2 point\(s\) matched by name lie more than 1 km from their mark: P1 is 4631 km from mark P1; P2 is 1\.50 km from mark P2\. That is far more/);
+    expect(s).toMatch(/check the CRS of m\.csv: its projection code, UTM zone and hemisphere, and the order of its coordinates/);
     expect(FAR_NAME_MATCH_M).toBe(1000);
+  });
+  it('names the reading of the mark\'s values that puts it at the point: another UTM zone, swapped axes (self-consistency: values made by our own projection)', () => {
+    const [lat, lon, h] = [47.1311, 8.7813, 408.5];
+    const point = geodeticToEcef({ latRad: (lat * Math.PI) / 180, lonRad: (lon * Math.PI) / 180, heightM: h }, WGS84);
+    const z32 = makeProjection('EPSG:32632').forward(lat, lon);
+    const text = `name,lat_deg,lon_deg,easting_m,northing_m,h_m,projection,frame,epoch\n` +
+      `A,,,${z32.eastingM},${z32.northingM},${h},EPSG:32629,WGS84,2024.37\nB,,,${z32.northingM},${z32.eastingM},${h},EPSG:32632,WGS84,2024.37\nC,${lon},${lat},,,${h},,WGS84,2024.37\n`;
+    const [a, b, c] = parseMarksFile('m.csv', text);
+    expect(closerReading(a!, point)).toMatchObject({ words: 'as WGS 84 / UTM zone 32N (EPSG:32632)' });
+    expect(closerReading(a!, point)!.horizontalM).toBeLessThan(1e-3);
+    expect(closerReading(b!, point)).toMatchObject({ words: 'with easting and northing swapped (EPSG:32632)' });
+    expect(closerReading(c!, point)).toMatchObject({ words: 'with latitude and longitude swapped' });
+    const s = farNameMatchSentence([{ pointName: 'P', markName: 'A', by: 'name', horizontalM: 1846e3, closer: closerReading(a!, point) }], 'm.csv')!;
+    expect(s).toMatch(/: P is 1846 km from mark A \(its values read as WGS 84 \/ UTM zone 32N \(EPSG:32632\) put it 0\.000 m from the point\)\. That is/);
   });
 });
