@@ -48,7 +48,7 @@ describe.skipIf(!HAVE)('refdelta check with marks in grid coordinates (demo poin
     const o = tempDir('rd-check-grid-ok-');
     const r = runCli(['check', '--points', pts, '--marks', marksFile('m.csv', utm.map(([n, e, no, h]) => `${n},${e},${no},${h},EPSG:32632,WGS84,2024.3672`)), '--out', o]);
     expect(r.status, r.stderr).toBe(0);
-    expect(r.stderr).not.toMatch(/datum other than|more than 1 km/);
+    expect(r.stderr).not.toMatch(/datum other than|more than 1 km|usable area/);
     for (const x of parseCsv(readFileSync(join(o, 'control-check.csv'), 'utf8')).rows) expect(Math.hypot(Number(x.d_east_m), Number(x.d_north_m))).toBeLessThan(1e-3);
   });
 
@@ -58,10 +58,12 @@ describe.skipIf(!HAVE)('refdelta check with marks in grid coordinates (demo poin
     const r = runCli(['check', '--points', pts, '--marks', f, '--out', o]);
     expect(r.status).toBe(3);
     expect(r.stderr).toMatch(/warning: .*bad\.csv:2: marks in EPSG:2056 with frame WGS84 \(from MILLSTONE on\): CH1903\+ \/ LV95 \(EPSG:2056\) is on a datum other than the marks' stated frame WGS84 \(CH1903\+\): easting\/northing are turned into latitude\/longitude as they are, without a datum shift/);
+    // Read as LV95 they land far outside Switzerland (EPSG dataset area of use of EPSG:2056: 45.82 N to 47.81 N, 5.96 E to 10.49 E).
+    expect(r.stderr).toMatch(/warning: .*bad\.csv:2: 4 of 4 mark\(s\) given in CH1903\+ \/ LV95 \(EPSG:2056\) fall outside its usable area: MILLSTONE .*outside its area of use in the EPSG dataset, 45\.8200 N to 47\.8100 N, 5\.9600 E to 10\.4900 E.*check the projection column/);
     // The values are PROJ's UTM zone 32N ones: read so, each mark is within 1 mm of its point.
     expect(r.stderr).toMatch(/warning: .*bad\.csv: 4 point\(s\) matched by name lie more than 1 km from their mark: MILLSTONE is \d+ km from mark MILLSTONE \(its values read as WGS 84 \/ UTM zone 32N \(EPSG:32632\) put it 0\.00[01] m from the point\); .*\. That is far more than a measurement, frame or datum difference explains: check the CRS of .*bad\.csv: its projection code, UTM zone and hemisphere, and the order of its coordinates/);
     const j = JSON.parse(readFileSync(join(o, 'control-check.json'), 'utf8'));
-    expect(j.warnings.map((w: { code: string }) => w.code)).toEqual(expect.arrayContaining(['marks-projection-datum', 'marks-far-from-points']));
+    expect(j.warnings.map((w: { code: string }) => w.code)).toEqual(expect.arrayContaining(['marks-projection-datum', 'marks-outside-grid-area', 'marks-far-from-points']));
   });
 
   it('a mark name given twice: one sentence naming the file, both lines and the name, exit 1 as other marks-file errors', () => {

@@ -25,7 +25,7 @@ import type { FramedEcef } from '../gnss/index.js';
 import { InputError, type WarningSink } from '../errors.js';
 import { degToRad, geodeticToEcef, GRS80, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { normaliseFrameName } from '../frames/index.js';
-import { makeProjection, marksGridDatumSentence, projectionDatumRelation, type EpsgLookup, type Projection } from '../projection/index.js';
+import { gridAreaWarning, makeProjection, marksGridDatumSentence, projectionDatumRelation, type AreaPoint, type EpsgLookup, type Projection } from '../projection/index.js';
 import { csvRecords } from '../csv/index.js';
 
 export interface ControlMark {
@@ -61,6 +61,8 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
   const projections = new Map<string, Projection>();
   // One warning per projection and frame whose datums differ (projection-datum.ts), at its first row.
   const datumWarned = new Set<string>();
+  // Grid marks by projection, to say which fall outside its usable area (grid-area.ts).
+  const gridMarks = new Map<string, { line: number; points: AreaPoint[] }>();
   for (const { lineNo, fields: f } of csvRecords(text)) {
     if (!header) {
       header = f.map((h) => h.toLowerCase());
@@ -134,6 +136,9 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
       given = { kind: 'grid', projection: spec, eastingM, northingM, heightM: h };
       if (!Number.isFinite(ll.latDeg) || !Number.isFinite(ll.lonDeg)) throw new InputError(file, lineNo, `columns easting_m,northing_m: expected a point inside the projection ${proj.name}`);
       ecef = geodeticToEcef({ latRad: degToRad(ll.latDeg), lonRad: degToRad(ll.lonDeg), heightM: h }, ell);
+      const inGrid = gridMarks.get(spec) ?? { line: lineNo, points: [] };
+      gridMarks.set(spec, inGrid);
+      inGrid.points.push({ name, latDeg: ll.latDeg, lonDeg: ll.lonDeg });
     } else {
       throw new InputError(file, lineNo, 'expected a complete coordinate: lat_deg,lon_deg,h_m or x_m,y_m,z_m or easting_m,northing_m,h_m,projection');
     }
@@ -150,5 +155,9 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
     });
   }
   if (!header) throw new InputError(file, 0, 'expected a header row and at least one control mark: the file is empty');
+  for (const [spec, g] of gridMarks) {
+    const outside = gridAreaWarning(projections.get(spec)!, g.points, 'marks');
+    if (outside) onWarning?.({ file, line: g.line, code: 'marks-outside-grid-area', message: outside });
+  }
   return marks;
 }

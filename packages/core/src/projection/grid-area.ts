@@ -106,11 +106,11 @@ function transverseMercatorScale(p: Projection, latDeg: number, lonDeg: number):
 }
 
 /**
- * One warning sentence for the points outside the grid's usable area (outsideGridArea), null when every
- * point is inside: the points named (the first five of each reason) with the reason and, for a Transverse
+ * One warning sentence for the points (or marks given in the grid) outside the grid's usable area
+ * (outsideGridArea), null when every one is inside: the points named (the first five of each reason) with the reason and, for a Transverse
  * Mercator, the largest point scale factor among them.
  */
-export function gridAreaWarning(p: Projection, points: readonly AreaPoint[]): string | null {
+export function gridAreaWarning(p: Projection, points: readonly AreaPoint[], what: 'points' | 'marks' = 'points'): string | null {
   const groups = new Map<string, { names: string[]; zones: Set<number>; maxK: number | null }>();
   let count = 0;
   for (const q of points) {
@@ -131,6 +131,10 @@ export function gridAreaWarning(p: Projection, points: readonly AreaPoint[]): st
     const scale = g.maxK !== null ? `; point scale factor up to ${g.maxK.toFixed(6)} (scale error ${Math.round((g.maxK - 1) * 1e6)} ppm)` : '';
     return `${names}: ${reason}${zones}${scale}`;
   });
+  if (what === 'marks') {
+    return `${count} of ${points.length} mark(s) given in ${p.name} fall outside its usable area: ${parts.join('; ')}. ` +
+      'Their easting/northing are most likely in another grid: check the projection column';
+  }
   return `${count} of ${points.length} point(s) lie outside the usable area of ${p.name}: ${parts.join('; ')}. Their easting/northing are what that projection gives there, ` +
     'not coordinates of that grid as anyone uses it: choose the grid of the area (--projection utm takes the zone of the first point)';
 }
