@@ -52,6 +52,13 @@ it('combinedCrs: one grid gives the .prj and the statement; several give a grid_
   expect(two.statement).toBeNull();
   expect(two.warning).toMatch(/^batch-points\.csv holds easting\/northing in 2 different grids, named per row in its grid_crs column \(unknown datum \/ UTM zone 32N: swiss; unknown datum \/ UTM zone 29N: irish\)/);
   expect(two.warning).toMatch(/run again with --projection EPSG:32629 \(the zone of 2 of the 3 points\)/);
+  // One zone, two frames (WGS 84 and ETRS89 sessions): the frames are what differ.
+  const frames = combinedCrs([
+    { session: 'w', statement: { epsg: 32629, name: 'WGS 84 / UTM zone 29N (EPSG:32629)', definition: '' }, prjWkt: 'W', places: [{ latDeg: 53.28, lonDeg: -9.06, frame: 'WGS84' }] },
+    { session: 'e', statement: { epsg: 25829, name: 'ETRS89 / UTM zone 29N (EPSG:25829)', definition: '' }, prjWkt: 'E', places: [{ latDeg: 53.28, lonDeg: -9.06, frame: 'ETRS89' }] },
+  ], 'utm');
+  expect(frames.warning).toMatch(/\(WGS 84 \/ UTM zone 29N \(EPSG:32629\): w; ETRS89 \/ UTM zone 29N \(EPSG:25829\): e\).*The sessions are in different frames \(frame column\)/);
+  expect([...frames.gridCrsOf.values()]).toEqual(['EPSG:32629', 'EPSG:25829']);
   // Without a projection: no grid_crs, the .prj when every session's is the same.
   expect(combinedCrs([{ session: 'a', statement: null, prjWkt: 'G', places: [] }], undefined)).toMatchObject({ hasGrid: false, prjWkt: 'G', warning: null });
 });

@@ -283,23 +283,28 @@ export function combinedCrs(sessions: readonly SessionCoordinates[], projectionO
   };
 }
 
-/** How to get one grid: with 'utm', the zone holding most rows (in the EPSG UTM CRS of their frame); otherwise the frames differ. */
+/**
+ * How to get one grid: with 'utm' over several zones, the zone holding most rows (in the EPSG UTM CRS of
+ * their frame); otherwise (one zone, or a fixed projection) the grids differ because the frames do.
+ */
 function oneGridHint(sessions: readonly SessionCoordinates[], projectionOption: string | undefined): string {
-  if (projectionOption?.trim().toLowerCase() !== 'utm') {
-    return 'The sessions are in different frames (frame column), and the grid follows each frame: bring the reference coordinates into one frame for one grid';
-  }
   const counts = new Map<string, number>();
+  const zones = new Set<string>();
   for (const s of sessions) {
     for (const p of s.places) {
       let code: number;
       try {
         const z = utmZoneFor(p.latDeg, p.lonDeg);
+        zones.add(`${z.zone}${z.south ? 'S' : 'N'}`);
         code = utmEpsgOfFrame(p.frame, z.zone, z.south) ?? (z.south ? 32700 : 32600) + z.zone;
       } catch {
         continue;
       }
       counts.set(`EPSG:${code}`, (counts.get(`EPSG:${code}`) ?? 0) + 1);
     }
+  }
+  if (projectionOption?.trim().toLowerCase() !== 'utm' || zones.size <= 1) {
+    return 'The sessions are in different frames (frame column), and the grid follows each frame: bring the reference coordinates into one frame for one grid';
   }
   const best = [...counts].sort((a, b) => b[1] - a[1])[0];
   return `--projection utm takes each session's zone from its first point; for one grid, run again with --projection ${best ? best[0] : 'EPSG:<code>'}` +
