@@ -49,7 +49,9 @@ describe('refdelta batch on a folder of demo sessions', () => {
   });
 
   it('each ok session has its own complete output set; the failed one has none', () => {
-    expect(readdirSync(out).sort()).toEqual(['batch-points.csv', 'batch-points.csv.meta.json', 'batch-points.csvt', 'batch-summary.json', 'walk-a', 'walk-b']);
+    expect(readdirSync(out).sort()).toEqual(['batch-points.csv', 'batch-points.csv.meta.json', 'batch-points.csvt', 'batch-points.prj', 'batch-summary.json', 'walk-a', 'walk-b']);
+    // Both sessions' points.prj are the same (their frame's geographic CRS): the batch table states it too.
+    expect(readFileSync(join(out, 'batch-points.prj'), 'utf8')).toBe(readFileSync(join(out, 'walk-a', 'points.prj'), 'utf8'));
     for (const s of ['walk-a', 'walk-b']) {
       expect(readdirSync(join(out, s)).sort()).toEqual(['epochs.csv', 'epochs.csv.meta.json', 'epochs.csvt', 'epochs.prj', 'points.csv', 'points.csv.meta.json', 'points.csvt', 'points.geojson', 'points.prj', 'summary.json']);
       const sum = JSON.parse(readFileSync(join(out, s, 'summary.json'), 'utf8'));

@@ -61,16 +61,20 @@ describe.skipIf(!HAVE_GDAL)('outputs read with GDAL, projected coordinates again
     const r = runCli(['points', ...RUN, ...ALL_OUTPUTS, '--smooth', '100', '--projection', 'utm', '--geoid', 'egm96', '--out', out]);
     expect(r.status, r.stderr).toBe(0);
     expect(r.stderr).not.toMatch(/projection-datum|on a datum other than/);
+    expect(r.stderr).not.toMatch(/usable area/);
     // National grids on other datums: the Swiss LV95 (EPSG:2056, CH1903+ on Bessel 1841) and the Irish ITM
     // (EPSG:2157, IRENET95 on GRS80): projected as given, with a warning, and labelled as what they are.
     out2 = tempDir('rd-gdal2-');
     const r2 = runCli(['points', ...RUN, '--outputs', 'summary', '--projection', 'EPSG:2056', '--out', out2]);
     expect(r2.status, r2.stderr).toBe(0);
     expect(r2.stderr).toMatch(/CH1903\+ \/ LV95 \(EPSG:2056\) is on a datum other than the points' frame WGS84/);
+    expect(r2.stderr).not.toMatch(/usable area/); // Switzerland is EPSG:2056's area of use (EPSG dataset)
     out3 = tempDir('rd-gdal3-');
     const r3 = runCli(['points', ...RUN, '--outputs', 'summary', '--projection', 'EPSG:2157', '--out', out3]);
     expect(r3.status, r3.stderr).toBe(0);
     expect(r3.stderr).toMatch(/IRENET95 \/ Irish Transverse Mercator \(EPSG:2157\) is on a datum other than the points' frame WGS84/);
+    // The demo is in Switzerland, far outside Ireland (EPSG dataset area of use of EPSG:2157: 51.39 N to 55.43 N, 10.56 W to 5.34 W).
+    expect(r3.stderr).toMatch(/warning: 4 of 4 point\(s\) lie outside the usable area of IRENET95 \/ Irish Transverse Mercator \(EPSG:2157\): MILLSTONE .*outside its area of use in the EPSG dataset, 51\.3900 N to 55\.4300 N, 10\.5600 W to 5\.3400 W/);
     // The reference coordinate from the file header: its frame is unstated.
     out4 = tempDir('rd-gdal4-');
     const r4 = runCli(['points', '--rover', DEMO('rover-1s.obs'), '--reference', DEMO('KFRD-reference-5s.obs'), '--nav', DEMO('broadcast-mixed.nav'), '--ref-coord', 'header', '--outputs', 'summary', '--projection', 'utm', '--out', out4]);
@@ -207,6 +211,24 @@ describe.skipIf(!HAVE_GDAL)('outputs read with GDAL, projected coordinates again
       const [e, n] = tool('cs2cs', ['-f', '%.6f', base, prj], `${row.longitude_deg} ${row.latitude_deg}\n`).trim().split(/\s+/).map(Number);
       expect(Math.abs(Number(row.easting_m) - e!), `${dir} easting`).toBeLessThan(1e-3);
       expect(Math.abs(Number(row.northing_m) - n!), `${dir} northing`).toBeLessThan(1e-3);
+    }
+  });
+
+  it('--projection refusals in plain words, exit 2 (kinds as PROJ\'s projinfo names them: VERTCRS, GEODCRS, COMPOUNDCRS)', () => {
+    const o = tempDir('rd-gdal-refuse-');
+    const kind = (code: string) => /^(\w+)\[/m.exec(tool('projinfo', [code, '-o', 'WKT2_2019', '-q']))?.[1];
+    for (const [spec, kindWord, sentence] of [
+      ['EPSG:5773', 'VERTCRS', /EPSG:5773 \(EGM96 height\) is a vertical CRS \(heights only\), not a map grid: give a projected CRS/],
+      ['EPSG:4978', 'GEODCRS', /EPSG:4978 \(WGS 84\) is a geocentric CRS \(Earth-centred X, Y, Z\), not a map grid/],
+      ['EPSG:7405', 'COMPOUNDCRS', /EPSG:7405 .* is a compound CRS .*: give its projected part, EPSG:27700/],
+      ['+proj=foo', null, /--projection \+proj=foo: the PROJ string names a projection proj4 does not know \('\+proj=foo'\)/],
+      ['2157', null, /--projection 2157: unknown projection '2157': did you mean EPSG:2157\?/],
+    ] as const) {
+      if (kindWord) expect(kind(spec)).toBe(kindWord);
+      const r = runCli(['points', ...RUN, '--projection', spec, '--out', o]);
+      expect(r.status, `${spec}: ${r.stderr}`).toBe(2);
+      expect(r.stderr).toMatch(sentence);
+      expect(r.stderr).not.toMatch(/internal error|geographic 2-D|vertcrs|gcencrs/);
     }
   });
 

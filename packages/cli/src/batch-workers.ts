@@ -125,7 +125,7 @@ function runOnWorker(worker: Worker, job: BatchSessionJob, heapMiB: number): Pro
         index: job.index, stdout: '', stderr: '', failedWorker: true,
         result: {
           record: { name: job.name, file: job.file, status: 'failed', reason, roverEpochs: null, solvedEpochs: null, points: 0, out: null, referenceFiles: [], navFiles: [] },
-          columns: [], rows: [], problem: `session ${job.name} failed and was skipped: ${reason}`,
+          columns: [], rows: [], problem: `session ${job.name} failed and was skipped: ${reason}`, projectionStatement: null, prjWkt: null,
         },
       });
     };

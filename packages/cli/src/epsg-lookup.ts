@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
-import type { EpsgDefinition, EpsgLookup } from '@refdelta/core';
+import type { AreaOfUse, EpsgDefinition, EpsgLookup } from '@refdelta/core';
 
 const cache = new Map<number, EpsgDefinition | undefined>();
 let folder: string | undefined;
@@ -16,13 +16,23 @@ function definitionsFolder(): string {
   return folder;
 }
 
+/** One code's file in epsg-index: `bbox` is the area of use as [north, west, south, east] degrees, `area` its words. */
+interface EpsgIndexEntry { code: string; name: string; kind: string; proj4: string | null; wkt: string | null; bbox?: unknown; area?: unknown }
+
+function areaOfUseOf(j: EpsgIndexEntry): AreaOfUse | null {
+  const b = j.bbox;
+  if (!Array.isArray(b) || b.length !== 4 || !b.every((v) => typeof v === 'number' && Number.isFinite(v))) return null;
+  const [northDeg, westDeg, southDeg, eastDeg] = b as number[];
+  return { northDeg: northDeg!, westDeg: westDeg!, southDeg: southDeg!, eastDeg: eastDeg!, description: typeof j.area === 'string' ? j.area : '' };
+}
+
 export const epsgLookup: EpsgLookup = (code) => {
   if (!Number.isInteger(code) || code <= 0) return undefined;
   if (cache.has(code)) return cache.get(code);
   let d: EpsgDefinition | undefined;
   try {
-    const j = JSON.parse(readFileSync(join(definitionsFolder(), `${code}.json`), 'utf8')) as { code: string; name: string; kind: string; proj4: string | null; wkt: string | null };
-    d = { code, name: j.name, kind: j.kind, proj4: j.proj4 ?? '', wkt: j.wkt };
+    const j = JSON.parse(readFileSync(join(definitionsFolder(), `${code}.json`), 'utf8')) as EpsgIndexEntry;
+    d = { code, name: j.name, kind: j.kind, proj4: j.proj4 ?? '', wkt: j.wkt, areaOfUse: areaOfUseOf(j) };
   } catch {
     d = undefined;
   }

@@ -12,7 +12,7 @@ import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence } from '../input-sanity.js';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
-import { InputError, ProcessingError, ephemerisTimeGpsS, csvtText, metadataFileName, tableMetadata, type Warning } from '@refdelta/core';
+import { InputError, ProcessingError, ephemerisTimeGpsS, csvtText, metadataFileName, tableMetadata, utmEpsgOfFrame, utmZoneFor, type Warning } from '@refdelta/core';
 import { OutputSet, obsHeaderOf, openNav } from '../node-io.js';
 import { NAV_WINDOW_S, obsTimeSpan, utcSecondText, type TimeSpan } from '../input-checks.js';
 import { looksLikeObservationName, rinexKindOfFile, type RinexKind } from '../rinex-kind.js';
@@ -24,7 +24,7 @@ import { Reporter } from '../reporter.js';
 import { EXIT_BATCH_PARTIAL, EXIT_OK, EXIT_PROCESSING } from '../exit-codes.js';
 import { UsageError } from '../usage-error.js';
 import { SOFTWARE } from '../software.js';
-import { parsePointsConfig, runPointsSession, type PointsArgs, type PointsConfig } from './points.js';
+import { parsePointsConfig, runPointsSession, type PointsArgs, type PointsConfig, type ProjectionStatement } from './points.js';
 import { parseJobs, runBatchSessions } from '../batch-workers.js';
 import { dataLost } from '../run-completeness.js';
 
@@ -39,6 +39,8 @@ export interface BatchArgs extends Omit<PointsArgs, 'rover' | 'reference' | 'nav
 }
 
 export const BATCH_FILE_NAMES = { summary: 'batch-summary.json', points: 'batch-points.csv' } as const;
+/** The CRS of batch-points.csv when every session's points.prj is the same (combinedCrs). */
+const BATCH_PRJ_FILE_NAME = 'batch-points.prj';
 
 /** One session's line in the table and the summary. */
 export interface SessionRecord {
@@ -210,6 +212,103 @@ export interface BatchSessionResult {
   readonly rows: readonly { readonly session: string; readonly cells: Record<string, string> }[];
   /** 'session NAME failed and was skipped: ...' for a failed session, else null. */
   readonly problem: string | null;
+  /** The session's statement of its easting/northing CRS and its points.prj (null: none). */
+  readonly projectionStatement: ProjectionStatement | null;
+  readonly prjWkt: string | null;
+}
+
+/** One session's share of batch-points.csv and the CRS of its coordinates. */
+export interface SessionCoordinates {
+  readonly session: string;
+  readonly statement: ProjectionStatement | null;
+  readonly prjWkt: string | null;
+  /** Latitude, longitude (degrees) and frame of its rows, for the zone that would hold them all. */
+  readonly places: readonly { readonly latDeg: number; readonly lonDeg: number; readonly frame: string }[];
+}
+
+/** What batch-points.csv states of its coordinates' CRS. */
+export interface CombinedCrs {
+  /** The grid_crs value of each session (empty without a projection); the column is written whenever a projection was given. */
+  readonly gridCrsOf: ReadonlyMap<string, string>;
+  readonly hasGrid: boolean;
+  /** The one grid statement every row shares, else null. */
+  readonly statement: ProjectionStatement | null;
+  /** batch-points.prj: the .prj every session wrote, when they all wrote the same one. */
+  readonly prjWkt: string | null;
+  readonly notes: readonly string[];
+  /** A warning sentence when the rows' easting/northing are in more than one CRS. */
+  readonly warning: string | null;
+}
+
+/** 'EPSG:32629' for grid coordinates in an EPSG CRS, else the name the session's metadata gives ('unknown datum / UTM zone 29N'). */
+function gridCrsValue(st: ProjectionStatement): string {
+  return st.epsg !== null ? `EPSG:${st.epsg}` : st.name;
+}
+
+/**
+ * The CRS of batch-points.csv. With --projection utm, sessions far apart fall in different zones (each
+ * takes the zone of its first point), and rows of different grids in the same easting/northing columns
+ * would be read as one grid by anyone: so a grid_crs column names each row's CRS (always, so the table's
+ * columns do not depend on where the sessions were), the .prj is written only when every session's is
+ * the same, and rows in several grids get a warning naming the sessions of each and the one projection
+ * that would hold them all.
+ */
+export function combinedCrs(sessions: readonly SessionCoordinates[], projectionOption: string | undefined): CombinedCrs {
+  const gridCrsOf = new Map<string, string>();
+  const bySpace = new Map<string, { statement: ProjectionStatement; sessions: string[] }>();
+  for (const s of sessions) {
+    if (!s.statement) continue;
+    const v = gridCrsValue(s.statement);
+    gridCrsOf.set(s.session, v);
+    const g = bySpace.get(v) ?? { statement: s.statement, sessions: [] };
+    bySpace.set(v, g);
+    g.sessions.push(s.session);
+  }
+  const prjs = new Set(sessions.map((s) => s.prjWkt));
+  const prjWkt = prjs.size === 1 ? [...prjs][0] ?? null : null;
+  const hasGrid = bySpace.size > 0;
+  if (bySpace.size <= 1) {
+    const one = [...bySpace.values()][0];
+    return {
+      gridCrsOf, hasGrid, statement: one?.statement ?? null, prjWkt, warning: null,
+      notes: one ? [`easting/northing of every row are in ${one.statement.name} (grid_crs ${gridCrsValue(one.statement)})${prjWkt ? '; batch-points.prj states it' : ''}`] : [],
+    };
+  }
+  const groups = [...bySpace.values()].map((g) => `${g.statement.name}: ${g.sessions.join(', ')}`);
+  const warning = `batch-points.csv holds easting/northing in ${bySpace.size} different grids, named per row in its grid_crs column (${groups.join('; ')}): ` +
+    `rows of different grids cannot be mapped or compared together, and no batch-points.prj is written. ${oneGridHint(sessions, projectionOption)}`;
+  return {
+    gridCrsOf, hasGrid, statement: null, prjWkt: null, warning,
+    notes: [`easting/northing are in ${bySpace.size} different CRSs: the grid_crs column gives each row's (no batch-points.prj; each session's points.prj states its own)`],
+  };
+}
+
+/**
+ * How to get one grid: with 'utm' over several zones, the zone holding most rows (in the EPSG UTM CRS of
+ * their frame); otherwise (one zone, or a fixed projection) the grids differ because the frames do.
+ */
+function oneGridHint(sessions: readonly SessionCoordinates[], projectionOption: string | undefined): string {
+  const counts = new Map<string, number>();
+  const zones = new Set<string>();
+  for (const s of sessions) {
+    for (const p of s.places) {
+      let code: number;
+      try {
+        const z = utmZoneFor(p.latDeg, p.lonDeg);
+        zones.add(`${z.zone}${z.south ? 'S' : 'N'}`);
+        code = utmEpsgOfFrame(p.frame, z.zone, z.south) ?? (z.south ? 32700 : 32600) + z.zone;
+      } catch {
+        continue;
+      }
+      counts.set(`EPSG:${code}`, (counts.get(`EPSG:${code}`) ?? 0) + 1);
+    }
+  }
+  if (projectionOption?.trim().toLowerCase() !== 'utm' || zones.size <= 1) {
+    return 'The sessions are in different frames (frame column), and the grid follows each frame: bring the reference coordinates into one frame for one grid';
+  }
+  const best = [...counts].sort((a, b) => b[1] - a[1])[0];
+  return `--projection utm takes each session's zone from its first point; for one grid, run again with --projection ${best ? best[0] : 'EPSG:<code>'}` +
+    `${best ? ` (the zone of ${best[1]} of the ${[...counts.values()].reduce((a, b) => a + b, 0)} points)` : ''}, and points outside that zone are then warned of`;
 }
 
 /** One points run of a batch; a failure becomes a failed record (a UsageError is thrown: it would fail every session). */
@@ -238,7 +337,7 @@ export async function runBatchSession(job: BatchSessionJob, ctx: BatchSessionCon
     srep.event('session', { status, file, epochs: r.roverEpochs, solved_epochs: r.solvedEpochs, points: r.points.length, out: r.outDir, ...(lost ? { reason: lost.sentence } : {}) });
     return {
       record: { name, file, status, reason: lost ? lost.sentence : null, roverEpochs: r.roverEpochs, solvedEpochs: r.solvedEpochs, points: r.points.length, out: r.outDir, referenceFiles: references, navFiles: navs },
-      columns: r.columns, rows, problem: null,
+      columns: r.columns, rows, problem: null, projectionStatement: r.projectionStatement, prjWkt: r.prjWkt,
     };
   } catch (e) {
     // The same wrong command line would fail every session: stop with exit 2.
@@ -248,7 +347,7 @@ export async function runBatchSession(job: BatchSessionJob, ctx: BatchSessionCon
     srep.event('session', { status: 'failed', file, reason });
     return {
       record: { name, file, status: 'failed', reason, roverEpochs: null, solvedEpochs: null, points: 0, out: null, referenceFiles: references, navFiles: navs },
-      columns: [], rows: [], problem: `session ${name} failed and was skipped: ${reason}`,
+      columns: [], rows: [], problem: `session ${name} failed and was skipped: ${reason}`, projectionStatement: null, prjWkt: null,
     };
   }
 }
@@ -300,23 +399,30 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
   }
   const folder = await prepareOutputFolder({
     dir: outDir, inputs: [...sessionFiles, ...refFiles, ...navFiles],
-    outputNames: [...Object.values(BATCH_FILE_NAMES), ...names.flatMap((n) => ['epochs.csv', 'residuals.csv', 'positions.geojson', 'summary.json', 'points.csv', 'points.geojson'].map((f) => join(n, f)))],
+    outputNames: [...Object.values(BATCH_FILE_NAMES), BATCH_PRJ_FILE_NAME, ...names.flatMap((n) => ['epochs.csv', 'residuals.csv', 'positions.geojson', 'summary.json', 'points.csv', 'points.geojson'].map((f) => join(n, f)))],
     estimatedBytes: 0,
   });
   const beside = inputsInsideWarning(outDir, folder.inputsInside);
   if (beside) rep.warn(beside);
   // The batch index describes the session folders of one run: it goes before the first of them changes,
   // and the new one is committed at the end.
-  for (const f of [...Object.values(BATCH_FILE_NAMES), REPORT_FILE_NAME]) await rm(join(outDir, f), { force: true });
+  for (const f of [...Object.values(BATCH_FILE_NAMES), BATCH_PRJ_FILE_NAME, REPORT_FILE_NAME]) await rm(join(outDir, f), { force: true });
   const records: SessionRecord[] = [];
   const batchRows: { session: string; cells: Record<string, string> }[] = [];
   let columns: string[] | null = null;
+  const coordinates: SessionCoordinates[] = [];
   const context: BatchSessionContext = { args: a, refDir, navDir, refCandidates, navCandidates: navCands, maxCorrectionAgeS: base.maxCorrectionAgeS };
   const jobs = sessionFiles.map((file, index) => ({ index, name: names[index], file }));
   await runBatchSessions(jobs, context, cfg, rep, parseJobs(a.jobs), (r) => {
     records.push(r.record);
     if (r.record.status !== 'failed') columns ??= [...r.columns];
     batchRows.push(...r.rows);
+    if (r.record.status !== 'failed' && r.rows.length > 0) {
+      coordinates.push({
+        session: r.record.name, statement: r.projectionStatement, prjWkt: r.prjWkt,
+        places: r.rows.map((x) => ({ latDeg: Number(x.cells.latitude_deg), lonDeg: Number(x.cells.longitude_deg), frame: x.cells.frame ?? '' })),
+      });
+    }
     if (r.problem) rep.problem(r.problem);
   });
 
@@ -330,19 +436,27 @@ export async function runBatch(a: BatchArgs, rep: Reporter): Promise<number> {
     rep.event('done', { exit_code: EXIT_PROCESSING });
     return EXIT_PROCESSING;
   }
-  const cols = ['session', ...(columns ?? [])];
-  const pointsCsv = csvText([cols, ...batchRows.map((r) => [r.session, ...cols.slice(1).map((c) => r.cells[c] ?? '')])]);
+  const crs = combinedCrs(coordinates, a.projection === undefined ? undefined : String(a.projection));
+  if (crs.warning) rep.warn({ code: 'batch-grids-differ', message: crs.warning });
+  const sessionColumns = columns ?? [];
+  // grid_crs follows northing_m: the CRS beside the coordinates it names.
+  const cols = ['session', ...(crs.hasGrid ? sessionColumns.flatMap((c) => (c === 'northing_m' ? [c, 'grid_crs'] : [c])) : sessionColumns)];
+  const cell = (r: { session: string; cells: Record<string, string> }, c: string) => (c === 'grid_crs' ? crs.gridCrsOf.get(r.session) ?? '' : r.cells[c] ?? '');
+  const pointsCsv = csvText([cols, ...batchRows.map((r) => [r.session, ...cols.slice(1).map((c) => cell(r, c))])]);
   const set = new OutputSet();
   const pointsPath = join(outDir, BATCH_FILE_NAMES.points);
   const pointsFile = await set.add('batch-points', pointsPath, [pointsCsv]);
   const meta = tableMetadata({
     file: BATCH_FILE_NAMES.points, title: 'refdelta batch points: every point of every session of the batch, one row each', columns: cols, frame: null,
+    ...(crs.statement ? { projection: crs.statement } : {}),
     notes: [
       `sessions from ${sessionsDir}; frame and frame_epoch are given per row (each session's own reference frame)`,
-      "easting/northing and orthometric heights, when present, follow each session's own projection and geoid: see OUT/<session>/points.csv.meta.json",
+      ...crs.notes,
+      "orthometric heights, when present, follow each session's geoid, and each session's own points.csv.meta.json says more: see OUT/<session>/points.csv.meta.json",
     ],
   });
   await set.add('batch-points-csvt', join(outDir, 'batch-points.csvt'), [csvtText(cols)]);
+  if (crs.prjWkt) await set.add('batch-points-prj', join(outDir, BATCH_PRJ_FILE_NAME), [crs.prjWkt + '\n']);
   await set.add('batch-points-metadata', join(outDir, metadataFileName(BATCH_FILE_NAMES.points)), [JSON.stringify(meta, null, 2) + '\n']);
   const summaryPath = join(outDir, BATCH_FILE_NAMES.summary);
   try {

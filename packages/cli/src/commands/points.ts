@@ -11,7 +11,7 @@ import { csvText } from '../csv-text.js';
 import {
   DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, DEFAULT_STATIC_DETECTION, EGM96_NOT_A_DATUM_NOTE,
   InputError, loadEgm96, looksLikeIsg, looksLikeTiff, makeProjection, parseGeoTiffGeoid, parseIsgGrid, parseOccupationCsv, pointRow, pointsColumns, pointsGeoJson,
-  crsOfFrame, csvtText, gridCrsOf, type GridCrs, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
+  crsOfFrame, csvtText, gridAreaWarning, gridCrsOf, type GridCrs, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
   type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad, sigmaRescaleFactor, WindowPointNames,
   pointsRunScatter, scatterJson, withPointsRun,
@@ -151,7 +151,14 @@ export interface PointsSessionOutcome {
   readonly columns: readonly string[];
   readonly rows: readonly (readonly string[])[];
   readonly outputs: readonly OutputFileRecord[];
+  /** What points.csv.meta.json says of easting/northing (null without --projection), for a batch's combined table. */
+  readonly projectionStatement: ProjectionStatement | null;
+  /** The WKT of points.prj (null when none is written). */
+  readonly prjWkt: string | null;
 }
+
+/** The metadata's statement of the grid coordinates' CRS (table-metadata.ts `projection`). */
+export interface ProjectionStatement { readonly epsg: number | null; readonly name: string; readonly definition: string; readonly datum?: string }
 
 /**
  * One `points` run: the solve run staged, occupations, per-point means, then the solve outputs, points.csv,
@@ -173,7 +180,7 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     ...(cfg.windows ? { pointNames: new WindowPointNames(cfg.windows, `the windows file ${cfg.windowsFile}`) } : {}),
   });
   const failed = (failure: string): PointsSessionOutcome => ({
-    outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure, points: [], columns: [], rows: [], outputs: [],
+    outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure, points: [], columns: [], rows: [], outputs: [], projectionStatement: null, prjWkt: null,
   });
   try {
     reportSolveCounts(st, rep);
@@ -219,6 +226,8 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
       projection = makeProjection(cfg.projectionSpec, { latDeg: radToDeg(g.latRad), lonDeg: radToDeg(g.lonRad) }, epsgLookup, frame.name);
       grid = gridCrsOf(projection, frame, (code) => epsgWkt(code));
       if (grid.warning) rep.warn({ code: grid.datum === 'unstated' ? 'projection-datum-unstated' : 'projection-datum', message: grid.warning });
+      const outside = gridAreaWarning(projection, outcome.points.map((p) => ({ name: p.name, latDeg: radToDeg(p.summary.meanGeodetic.latRad), lonDeg: radToDeg(p.summary.meanGeodetic.lonRad) })));
+      if (outside) rep.warn({ code: 'projection-area', message: outside });
     }
     // A PROJ string's own datum shift is not applied either.
     if (projection && grid?.datum === 'as-given' && /\+(towgs84=(?!0,0,0(,0,0,0,0)?\b)|nadgrids=)/.test(projection.projString)) {
@@ -242,7 +251,8 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     }
     await st.set.add('points', join(st.outDir, POINTS_FILE_NAMES.csv), [csvText([columns, ...rows])]);
     await st.set.add('points-csvt', join(st.outDir, 'points.csvt'), [csvtText(columns)]);
-    await st.set.add('points-metadata', join(st.outDir, metadataFileName(POINTS_FILE_NAMES.csv)), [JSON.stringify(pointsMetadata(table), null, 2) + '\n']);
+    const metadata = pointsMetadata(table);
+    await st.set.add('points-metadata', join(st.outDir, metadataFileName(POINTS_FILE_NAMES.csv)), [JSON.stringify(metadata, null, 2) + '\n']);
     // The .prj states the CRS the grid coordinates are in (grid-crs.ts) with a projection, else the frame's
     // geographic CRS; none for an unstated frame without a projection (never WGS 84 by default).
     const frameCrs = crsOfFrame(frame.name);
@@ -273,7 +283,9 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
         `sigma mean E/N/U ${p.summary.sigmaMeanEastM.toFixed(3)}/${p.summary.sigmaMeanNorthM.toFixed(3)}/${p.summary.sigmaMeanUpM.toFixed(3)} m, ${p.tolerance}`);
     }
     rep.info(`${outcome.points.length} point(s); outputs in ${st.outDir}: ${outputNames(outputs)}`);
-    return { outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure: null, points: outcome.points, columns, rows, outputs };
+    const statement = (metadata as { projection?: ProjectionStatement & { applied?: string } }).projection;
+    const projectionStatement = statement ? { epsg: statement.epsg, name: statement.name, definition: statement.definition, ...(statement.datum !== undefined ? { datum: statement.datum } : {}) } : null;
+    return { outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure: null, points: outcome.points, columns, rows, outputs, projectionStatement, prjWkt: prj };
   } catch (e) {
     await st.set.abort();
     throw e;

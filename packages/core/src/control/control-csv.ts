@@ -25,7 +25,7 @@ import type { FramedEcef } from '../gnss/index.js';
 import { InputError, type WarningSink } from '../errors.js';
 import { degToRad, geodeticToEcef, GRS80, WGS84, type Ellipsoid } from '../geodesy/index.js';
 import { normaliseFrameName } from '../frames/index.js';
-import { makeProjection, type EpsgLookup, type Projection } from '../projection/index.js';
+import { gridAreaWarning, makeProjection, marksGridDatumSentence, projectionDatumRelation, type AreaPoint, type EpsgLookup, type Projection } from '../projection/index.js';
 import { csvRecords } from '../csv/index.js';
 
 export interface ControlMark {
@@ -36,7 +36,14 @@ export interface ControlMark {
   /** Where it was read from. */
   readonly file: string;
   readonly line: number;
+  /** The coordinate values as the file gives them, when geodetic or grid (far-match.ts tries other readings of them). */
+  readonly given?: GivenCoordinate;
 }
+
+/** A mark's coordinate values as written: latitude/longitude, or easting/northing with the projection named. */
+export type GivenCoordinate =
+  | { readonly kind: 'geodetic'; readonly latDeg: number; readonly lonDeg: number; readonly heightM: number }
+  | { readonly kind: 'grid'; readonly projection: string; readonly eastingM: number; readonly northingM: number; readonly heightM: number };
 
 export { splitCsvLine } from '../csv/index.js';
 
@@ -52,11 +59,19 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
   let headerLine = 0;
   const marks: ControlMark[] = [];
   const projections = new Map<string, Projection>();
+  // One warning per projection and frame whose datums differ (projection-datum.ts), at its first row.
+  const datumWarned = new Set<string>();
+  // Grid marks by projection, to say which fall outside its usable area (grid-area.ts).
+  const gridMarks = new Map<string, { line: number; points: AreaPoint[] }>();
   for (const { lineNo, fields: f } of csvRecords(text)) {
     if (!header) {
       header = f.map((h) => h.toLowerCase());
       headerLine = lineNo;
       const unknown = header.filter((h) => !KNOWN.includes(h));
+      // A spreadsheet saved where the decimal separator is a comma writes ';' between fields: the header is then one field.
+      if (header.length === 1 && header[0]!.split(';').length > 2) {
+        throw new InputError(file, lineNo, `the header has its columns separated by ';' ('${header[0]!.slice(0, 60)}'): save the file with ',' between columns and '.' as the decimal point`);
+      }
       if (!header.includes('name')) throw new InputError(file, lineNo, `expected a header row with a 'name' column (columns: ${KNOWN.join(', ')})`);
       if (unknown.length > 0) throw new InputError(file, lineNo, `unknown column(s) ${unknown.join(', ')}: expected some of ${KNOWN.join(', ')}`);
       const has = (...c: string[]) => c.every((x) => header!.includes(x));
@@ -87,6 +102,7 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
     const ell = ellipsoidForFrame(frameName);
     const filled = (...c: string[]) => c.every((x) => get(x) !== '');
     let ecef;
+    let given: GivenCoordinate | undefined;
     if (filled('x_m', 'y_m', 'z_m')) {
       ecef = { x: num('x_m', 'an ECEF X in metres'), y: num('y_m', 'an ECEF Y in metres'), z: num('z_m', 'an ECEF Z in metres') };
       const r = Math.hypot(ecef.x, ecef.y, ecef.z);
@@ -96,6 +112,7 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
       const lon = num('lon_deg', 'a longitude in degrees (-180..360)', -180, 360);
       const h = num('h_m', 'an ellipsoidal height in metres (-1000..10000)', -1000, 10000);
       ecef = geodeticToEcef({ latRad: degToRad(lat), lonRad: degToRad(lon), heightM: h }, ell);
+      given = { kind: 'geodetic', latDeg: lat, lonDeg: lon, heightM: h };
     } else if (filled('easting_m', 'northing_m', 'h_m', 'projection')) {
       const spec = get('projection');
       let proj = projections.get(spec);
@@ -108,10 +125,20 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
         if (proj.units !== 'm') throw new InputError(file, lineNo, `column projection: expected a projection in metres, '${spec}' is geographic`);
         projections.set(spec, proj);
       }
-      const ll = proj.inverse(num('easting_m', 'an easting in metres'), num('northing_m', 'a northing in metres'));
+      const warnKey = `${spec}\u0000${frameName}`;
+      if (!datumWarned.has(warnKey) && projectionDatumRelation(proj, frameName) === 'differs') {
+        datumWarned.add(warnKey);
+        onWarning?.({ file, line: lineNo, code: 'marks-projection-datum', message: `marks in ${spec} with frame ${frameName} (from ${name} on): ${marksGridDatumSentence(proj, frameName)}` });
+      }
+      const eastingM = num('easting_m', 'an easting in metres'), northingM = num('northing_m', 'a northing in metres');
+      const ll = proj.inverse(eastingM, northingM);
       const h = num('h_m', 'an ellipsoidal height in metres (-1000..10000)', -1000, 10000);
+      given = { kind: 'grid', projection: spec, eastingM, northingM, heightM: h };
       if (!Number.isFinite(ll.latDeg) || !Number.isFinite(ll.lonDeg)) throw new InputError(file, lineNo, `columns easting_m,northing_m: expected a point inside the projection ${proj.name}`);
       ecef = geodeticToEcef({ latRad: degToRad(ll.latDeg), lonRad: degToRad(ll.lonDeg), heightM: h }, ell);
+      const inGrid = gridMarks.get(spec) ?? { line: lineNo, points: [] };
+      gridMarks.set(spec, inGrid);
+      inGrid.points.push({ name, latDeg: ll.latDeg, lonDeg: ll.lonDeg });
     } else {
       throw new InputError(file, lineNo, 'expected a complete coordinate: lat_deg,lon_deg,h_m or x_m,y_m,z_m or easting_m,northing_m,h_m,projection');
     }
@@ -124,8 +151,13 @@ export function parseControlCsv(file: string, text: string, onWarning?: WarningS
       ...(av !== undefined ? { accuracyVerticalM: av } : {}),
       file,
       line: lineNo,
+      ...(given ? { given } : {}),
     });
   }
   if (!header) throw new InputError(file, 0, 'expected a header row and at least one control mark: the file is empty');
+  for (const [spec, g] of gridMarks) {
+    const outside = gridAreaWarning(projections.get(spec)!, g.points, 'marks');
+    if (outside) onWarning?.({ file, line: g.line, code: 'marks-outside-grid-area', message: outside });
+  }
   return marks;
 }

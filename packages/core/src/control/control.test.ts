@@ -5,7 +5,9 @@ import { describe, expect, it } from 'vitest';
 import { InputError, ProcessingError, type Warning } from '../errors.js';
 import { distanceM, ecefToGeodetic, enuToEcefDelta } from '../geodesy/index.js';
 import { DEFAULT_HELMERT_SETS } from '../frames/index.js';
-import { CHI2_1_95, CHI2_2_95, compareToMark, differenceTestWord, matchPointsToMarks, parseControlCsv, testDifference } from './index.js';
+import { makeProjection } from '../projection/index.js';
+import { geodeticToEcef, WGS84 } from '../geodesy/index.js';
+import { CHI2_1_95, CHI2_2_95, closerReading, compareToMark, differenceTestWord, FAR_NAME_MATCH_M, farNameMatchSentence, matchPointsToMarks, parseControlCsv, parseMarksFile, testDifference } from './index.js';
 
 const FIXTURE = resolve(__dirname, '../../../../fixtures/geo/control-marks.csv');
 const text = readFileSync(FIXTURE, 'utf8');
@@ -28,7 +30,8 @@ describe('parseControlCsv', () => {
     expect(marks[2]!.position.frame.name).toBe('ETRF2000');
     expect(marks[3]!.position.frame.name).toBe('unstated');
     expect(Number.isNaN(marks[3]!.position.frame.epochYear)).toBe(true);
-    expect(warnings.map((w) => [w.code, w.line])).toEqual([['control-epoch-missing', 7]]);
+    // Line 6: EPSG:25829 is on ETRS89, the row's frame ETRF2000 (the rule of report/grid-crs.ts for points); line 7: no epoch.
+    expect(warnings.map((w) => [w.code, w.line])).toEqual([['marks-projection-datum', 6], ['control-epoch-missing', 7]]);
   });
   it('names file, line and column for bad rows', () => {
     const hdr = 'name,lat_deg,lon_deg,h_m,frame,epoch\n';
@@ -115,5 +118,54 @@ describe('difference test against the combined uncertainty', () => {
     expect(differenceTestWord(none)).toBe('');
     const v = testDifference({ dE: 0.01, dN: 0, dU: 0.5 }, { sigmaMeanEastM: 0.1, sigmaMeanNorthM: 0.1, sigmaMeanUpM: 0.1 }, { accuracyHorizontalM: 0.1, accuracyVerticalM: 0.1 });
     expect(differenceTestWord(v)).toBe('rejected-vertical');
+  });
+});
+
+describe('marks files: one row per name, grid datums stated', () => {
+  const head = 'name,easting_m,northing_m,h_m,projection,frame,epoch';
+  it('a name given twice (also in another case) is an InputError naming the file, both lines and the name', () => {
+    const t = `${head}\nP1,496144.81,5903472.94,67.76,EPSG:32629,WGS84,2018.76\nP2,496150.00,5903472.94,67.76,EPSG:32629,WGS84,2018.76\np1 ,496144.31,5903472.94,67.76,EPSG:32629,WGS84,2018.76\n`;
+    expect(() => parseMarksFile('dup.csv', t)).toThrow(InputError);
+    expect(() => parseMarksFile('dup.csv', t)).toThrow(/^dup\.csv:4: the mark names 'P1' and 'p1' are one name \(names are compared without case\), on lines 2 and 4: marks are matched by name/);
+    expect(() => parseMarksFile('dup.csv', t.replace('p1 ', 'P1'))).toThrow(/^dup\.csv:4: the mark name 'P1' is given twice, on lines 2 and 4: /);
+  });
+  it('a grid on another datum than the stated frame: one warning per projection and frame, in the words of the points check', () => {
+    const warnings: Warning[] = [];
+    const t = `${head}\nA,496144.81,5903472.94,67.76,EPSG:25829,WGS84,2018.76\nB,496150.00,5903472.94,67.76,EPSG:25829,WGS84,2018.76\nC,496150.00,5903482.94,67.76,EPSG:25829,ETRS89,2018.76\nD,496150.00,5903492.94,67.76,EPSG:32629,WGS84,2018.76\n`;
+    parseMarksFile('m.csv', t, (w) => warnings.push(w));
+    expect(warnings.map((w) => [w.code, w.line])).toEqual([['marks-projection-datum', 2]]);
+    expect(warnings[0]!.message).toMatch(/^marks in EPSG:25829 with frame WGS84 \(from A on\): ETRS89 \/ UTM zone 29N \(EPSG:25829\) is on a datum other than the marks' stated frame WGS84 \(ETRS89\): .*without a datum shift.*frames differ by up to about a metre, datums by more/);
+  });
+});
+
+describe('a marks file with ; between columns', () => {
+  it('says so, and what to save instead', () => {
+    const t = 'name;easting_m;northing_m;h_m;projection;frame;epoch\nP1;496144,8099;5903472,9357;67,7553;EPSG:32629;WGS84;2018,76\n';
+    expect(() => parseMarksFile('semi.csv', t)).toThrow(/^semi\.csv:1: the header has its columns separated by ';' \('name;easting_m;northing_m;h_m;projection;frame;epoch'\): save the file with ',' between columns and '\.' as the decimal point$/);
+  });
+});
+
+describe('a match by name kilometres away', () => {
+  it('is said once, naming the pairs and what to check; 1 km and below is not', () => {
+    const pair = (pointName: string, horizontalM: number, by: 'name' | 'proximity' = 'name') => ({ pointName, markName: pointName, by, horizontalM });
+    expect(farNameMatchSentence([pair('P1', 999), pair('P2', 4.2, 'proximity')], 'm.csv')).toBeNull();
+    const s = farNameMatchSentence([pair('P1', 4630645.1), pair('P2', 1500)], 'm.csv')!;
+    expect(s).toMatch(/^2 point\(s\) matched by name lie more than 1 km from their mark: P1 is 4631 km from mark P1; P2 is 1\.50 km from mark P2\. That is far more/);
+    expect(s).toMatch(/check the CRS of m\.csv: its projection code, UTM zone and hemisphere, and the order of its coordinates/);
+    expect(FAR_NAME_MATCH_M).toBe(1000);
+  });
+  it('names the reading of the mark\'s values that puts it at the point: another UTM zone, swapped axes (self-consistency: values made by our own projection)', () => {
+    const [lat, lon, h] = [47.1311, 8.7813, 408.5];
+    const point = geodeticToEcef({ latRad: (lat * Math.PI) / 180, lonRad: (lon * Math.PI) / 180, heightM: h }, WGS84);
+    const z32 = makeProjection('EPSG:32632').forward(lat, lon);
+    const text = `name,lat_deg,lon_deg,easting_m,northing_m,h_m,projection,frame,epoch\n` +
+      `A,,,${z32.eastingM},${z32.northingM},${h},EPSG:32629,WGS84,2024.37\nB,,,${z32.northingM},${z32.eastingM},${h},EPSG:32632,WGS84,2024.37\nC,${lon},${lat},,,${h},,WGS84,2024.37\n`;
+    const [a, b, c] = parseMarksFile('m.csv', text);
+    expect(closerReading(a!, point)).toMatchObject({ words: 'as WGS 84 / UTM zone 32N (EPSG:32632)' });
+    expect(closerReading(a!, point)!.horizontalM).toBeLessThan(1e-3);
+    expect(closerReading(b!, point)).toMatchObject({ words: 'with easting and northing swapped (EPSG:32632)' });
+    expect(closerReading(c!, point)).toMatchObject({ words: 'with latitude and longitude swapped' });
+    const s = farNameMatchSentence([{ pointName: 'P', markName: 'A', by: 'name', horizontalM: 1846e3, closer: closerReading(a!, point) }], 'm.csv')!;
+    expect(s).toMatch(/: P is 1846 km from mark A \(its values read as WGS 84 \/ UTM zone 32N \(EPSG:32632\) put it 0\.000 m from the point\)\. That is/);
   });
 });

@@ -5,3 +5,4 @@ export * from './compare-to-mark.js';
 export * from './match-every-point.js';
 export * from './marks-file.js';
 export * from './difference-test.js';
+export * from './far-match.js';

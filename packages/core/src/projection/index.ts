@@ -4,3 +4,5 @@ export * from './projection-spec.js';
 export * from './projection.js';
 export * from './grid-factors.js';
 export * from './wkt1.js';
+export * from './projection-datum.js';
+export * from './grid-area.js';

@@ -7,7 +7,7 @@
  * noise, measured in the tests).
  */
 import proj4 from 'proj4';
-import { resolveProjectionSpec, type EpsgLookup, type NearPoint } from './projection-spec.js';
+import { resolveProjectionSpec, type AreaOfUse, type EpsgLookup, type NearPoint } from './projection-spec.js';
 
 export interface ProjectedM {
   readonly eastingM: number;
@@ -25,6 +25,8 @@ export interface Projection {
   readonly baseGeographicEpsg: number | null;
   /** True when only the parameters are meant, not the datum (projection-spec.ts, 'utm'). */
   readonly parametersOnly: boolean;
+  /** The EPSG CRS's area of use, when known (grid-area.ts). */
+  readonly areaOfUse: AreaOfUse | null;
   forward(latDeg: number, lonDeg: number): ProjectedM;
   inverse(eastingM: number, northingM: number): { latDeg: number; lonDeg: number };
   /** Semi-major axis and first eccentricity squared of the projection's ellipsoid. */
@@ -79,6 +81,7 @@ export function makeProjection(spec: string, near?: NearPoint, lookup?: EpsgLook
     units: r.units,
     baseGeographicEpsg: r.baseGeographicEpsg,
     parametersOnly: r.parametersOnly,
+    areaOfUse: r.areaOfUse,
     ellipsoid: { aM, e2 },
     forward(latDeg, lonDeg) {
       const [x, y] = conv.forward([lonDeg, latDeg]);

@@ -24,6 +24,12 @@ function elementSpan(wkt: string, keyword: string, from = 0): readonly [number, 
   return null;
 }
 
+/** The first element `keyword[...]` of a WKT (e.g. the PROJCS of a COMPD_CS), or null. */
+export function firstElement(wkt: string, keyword: string): string | null {
+  const s = elementSpan(wkt, keyword);
+  return s ? wkt.slice(s[0], s[1]) : null;
+}
+
 /** The GEOGCS[...] element of a PROJCS (or the GEOGCS itself), or null. */
 export function geogcsOf(wkt: string): string | null {
   const s = elementSpan(wkt, 'GEOGCS');

@@ -17,8 +17,10 @@
  * A projection given as a PROJ string is stated as given (no WKT, no .prj).
  */
 import type { FrameEpoch } from '../gnss/index.js';
-import { crsOfFrame, frameOfGeographicEpsg, normaliseFrameName } from '../frames/index.js';
-import { geogcsOf, projcsOnGeogcs, spheroidOf, unknownDatumGeogcs, type Projection } from '../projection/index.js';
+import { crsOfFrame } from '../frames/index.js';
+import {
+  geogcsOf, NO_DATUM_SHIFT_WORDS, projcsOnGeogcs, projectionDatumName, projectionDatumRelation, spheroidOf, unknownDatumGeogcs, type Projection,
+} from '../projection/index.js';
 
 export interface GridCrs {
   /** EPSG code of the grid coordinates' CRS, null when they are in no EPSG CRS. */
@@ -40,12 +42,6 @@ function parametersName(p: Projection): string {
   return p.name.replace(/\s*\(EPSG:\d+\)\s*$/, '').replace(/^[^/]*\/\s*/, '');
 }
 
-/** The projection's datum as a name: its base geographic CRS's (from the WKT), else its EPSG code. */
-function datumName(p: Projection): string {
-  const g = p.wkt ? /GEOGCS\["([^"]*)"/.exec(p.wkt)?.[1] : undefined;
-  return g ?? (p.baseGeographicEpsg !== null ? frameOfGeographicEpsg(p.baseGeographicEpsg)?.epsgName ?? `EPSG:${p.baseGeographicEpsg}` : 'its own datum');
-}
-
 /** Ellipsoids agreeing within 1 mm in both axes (GRS80 and WGS 84: 0.1 mm in b). */
 function sameEllipsoid(a: string, b: string): boolean {
   const x = spheroidOf(a), y = spheroidOf(b);
@@ -60,7 +56,8 @@ function sameEllipsoid(a: string, b: string): boolean {
  */
 export function gridCrsOf(projection: Projection, frame: FrameEpoch, wkt: (epsg: number) => string | null): GridCrs {
   const params = parametersName(projection);
-  if (projection.epsg === null && !projection.parametersOnly) {
+  const relation = projectionDatumRelation(projection, frame.name);
+  if (relation === 'as-given') {
     return {
       epsg: null, name: projection.name, wkt: null, datum: 'as-given',
       datumNote: `a PROJ string, applied to latitude/longitude in ${frame.name} as they are (its datum is not checked)`, warning: null,
@@ -69,7 +66,7 @@ export function gridCrsOf(projection: Projection, frame: FrameEpoch, wkt: (epsg:
   const framed = crsOfFrame(frame.name);
   const spheroid = projection.wkt ? spheroidOf(projection.wkt) : null;
   const unknownWkt = (name: string) => (projection.wkt && spheroid ? projcsOnGeogcs(projection.wkt, unknownDatumGeogcs(spheroid), name) : null);
-  if (!framed) {
+  if (relation === 'unstated' || !framed) {
     const name = `unknown datum / ${params}`;
     return {
       epsg: null, name, wkt: unknownWkt(name), datum: 'unstated',
@@ -77,8 +74,7 @@ export function gridCrsOf(projection: Projection, frame: FrameEpoch, wkt: (epsg:
       warning: `the points' frame is not stated ('${frame.name}'): easting/northing are ${params} grid coordinates on an unknown datum, not ${projection.parametersOnly ? `WGS 84 / ${params}` : projection.name}; their .prj says so (a GIS must not assume any datum)`,
     };
   }
-  const projFrame = projection.baseGeographicEpsg !== null ? frameOfGeographicEpsg(projection.baseGeographicEpsg) : null;
-  if (!projection.parametersOnly && projFrame && normaliseFrameName(projFrame.frame) === normaliseFrameName(framed.frame)) {
+  if (relation === 'same') {
     return {
       epsg: projection.epsg, name: projection.name, wkt: projection.wkt, datum: 'same',
       datumNote: `the projection's datum is the points' frame (${framed.epsgName})`, warning: null,
@@ -86,7 +82,7 @@ export function gridCrsOf(projection: Projection, frame: FrameEpoch, wkt: (epsg:
   }
   const frameGeog = wkt(framed.geographic2d);
   const onFrame = frameGeog && projection.wkt && sameEllipsoid(frameGeog, projection.wkt) ? geogcsOf(frameGeog) : null;
-  if (projection.parametersOnly) {
+  if (relation === 'frame-parameters') {
     const name = onFrame ? `${framed.epsgName} / ${params}` : `unknown datum / ${params}`;
     return {
       epsg: null, name, wkt: onFrame && projection.wkt ? projcsOnGeogcs(projection.wkt, onFrame, name) : unknownWkt(name), datum: 'frame-parameters',
@@ -94,12 +90,12 @@ export function gridCrsOf(projection: Projection, frame: FrameEpoch, wkt: (epsg:
     };
   }
   const name = onFrame ? `${framed.epsgName} / ${params} parameters (not EPSG:${projection.epsg})` : `unknown datum / ${params} parameters (not EPSG:${projection.epsg})`;
-  const theirs = datumName(projection);
+  const theirs = projectionDatumName(projection);
   return {
     epsg: null, name, wkt: onFrame && projection.wkt ? projcsOnGeogcs(projection.wkt, onFrame, name) : unknownWkt(name), datum: 'differs',
     datumNote: `${projection.name} is on ${theirs}, the points are in ${frame.name}: its parameters are applied to ${frame.name} latitude/longitude without a datum shift`,
     warning: `${projection.name} is on a datum other than the points' frame ${frame.name} (${theirs}): latitude/longitude are projected as they are, without a datum shift, ` +
-      `so easting/northing are not ${projection.name} coordinates (frames differ by up to about a metre, datums by more); they are labelled ${name}. ` +
+      `so easting/northing are not ${projection.name} coordinates (${NO_DATUM_SHIFT_WORDS}); they are labelled ${name}. ` +
       `Transform the points into ${theirs} first for true grid coordinates`,
   };
 }

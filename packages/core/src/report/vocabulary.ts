@@ -32,6 +32,7 @@ export const VOCABULARY: Readonly<Record<string, VocabularyEntry>> = {
   ecef_z_m: { unit: 'm', meaning: 'Earth-centred Earth-fixed Z in the frame' },
   easting_m: { unit: 'm', meaning: 'grid easting in the projection stated in the metadata (empty without --projection)' },
   northing_m: { unit: 'm', meaning: 'grid northing in the projection stated in the metadata (empty without --projection)' },
+  grid_crs: { unit: null, meaning: "the CRS of the row's easting/northing: 'EPSG:n' when they are in an EPSG CRS, else its name as the session's metadata gives it (batch tables; empty without --projection)" },
   orthometric_height_m: { unit: 'm', meaning: 'height above the geoid stated in the metadata, height_m - N (empty without --geoid)' },
   baseline_east_m: { unit: 'm', meaning: 'rover minus reference, east component in the local frame at the reference' },
   baseline_north_m: { unit: 'm', meaning: 'rover minus reference, north component' },

@@ -1,0 +1,92 @@
+import { execFileSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { gridAreaWarning, gridFactors, makeProjection, outsideGridArea, resolveProjectionSpec, TM_LIMIT_A_DEG, type EpsgLookup } from './index.js';
+
+// The outside reference: the EPSG dataset as shipped in the npm package epsg-index (name, kind, PROJ
+// string, WKT and area of use per code).
+const epsgDir = join(dirname(createRequire(import.meta.url).resolve('epsg-index/package.json')), 's');
+const lookup: EpsgLookup = (code) => {
+  try {
+    const j = JSON.parse(readFileSync(join(epsgDir, `${code}.json`), 'utf8')) as { name: string; kind: string; proj4: string | null; wkt: string | null; bbox: number[]; area: string };
+    const [northDeg, westDeg, southDeg, eastDeg] = j.bbox;
+    return { code, name: j.name, kind: j.kind, proj4: j.proj4 ?? '', wkt: j.wkt, areaOfUse: { northDeg: northDeg!, westDeg: westDeg!, southDeg: southDeg!, eastDeg: eastDeg!, description: j.area } };
+  } catch {
+    return undefined;
+  }
+};
+const proj = (spec: string) => makeProjection(spec, undefined, lookup);
+
+/** PROJ's own point scale ('proj -V': "Parallel scale (k)"), or null without the PROJ command-line tools. */
+function projScale(projString: string, latDeg: number, lonDeg: number): number | null {
+  try {
+    const out = execFileSync('proj', ['-V', ...projString.split(' ')], { input: `${lonDeg} ${latDeg}\n`, encoding: 'utf8' });
+    return Number(/Parallel scale \(k\)\s*:\s*([0-9.]+)/.exec(out)?.[1]);
+  } catch {
+    return null;
+  }
+}
+
+const SWISS = { latDeg: 47.131109820, lonDeg: 8.781292543 }; // the demo's first point (zone 32)
+const GALWAY = { latDeg: 53.28, lonDeg: -9.06 }; // the static run (zone 29)
+
+describe('points outside the usable area of a grid', () => {
+  it('UTM: the zone band widened by 0.5 deg (common practice), with the Norway exception; the point scale as PROJ gives it', () => {
+    const z29 = proj('EPSG:32629');
+    expect(outsideGridArea(z29, GALWAY.latDeg, GALWAY.lonDeg)).toBeNull();
+    expect(outsideGridArea(z29, 53, -12.4)).toBeNull(); // 0.4 deg west of the band
+    expect(outsideGridArea(z29, 53, -12.6)).toMatchObject({ reason: "outside zone 29's band 12 W to 6 W widened by 0.5 deg", ownZone: 28 });
+    expect(outsideGridArea(proj('EPSG:32632'), 60, 4)).toBeNull(); // Bergen area: zone 32V reaches 3 E (DMA TM 8358.2)
+    expect(outsideGridArea(proj('EPSG:32729'), GALWAY.latDeg, GALWAY.lonDeg)?.reason).toMatch(/^in the northern hemisphere/);
+    const w = gridAreaWarning(z29, [{ name: 'MILLSTONE', ...SWISS }, { name: 'HOME', ...GALWAY }])!;
+    expect(w).toMatch(/^1 of 2 point\(s\) lie outside the usable area of WGS 84 \/ UTM zone 29N \(EPSG:32629\): MILLSTONE \(47\.1311 N, 8\.7813 E\): outside zone 29's band 12 W to 6 W widened by 0\.5 deg; their own zone: 32; point scale factor up to 1\.021962/);
+    // PROJ 9 'proj -V +proj=utm +zone=29 +ellps=WGS84' at this point: Parallel scale (k) 1.02196233 (easting 1846610.40 m).
+    const k = projScale('+proj=utm +zone=29 +ellps=WGS84', SWISS.latDeg, SWISS.lonDeg);
+    if (k !== null) expect(gridFactors(z29, SWISS.latDeg, SWISS.lonDeg).pointScale).toBeCloseTo(k, 7);
+    expect(z29.forward(SWISS.latDeg, SWISS.lonDeg).eastingM).toBeCloseTo(1846610.40, 1);
+  });
+
+  it('an EPSG CRS: its area of use as the EPSG dataset publishes it (EPSG:27700 stops at 9 W, Galway is at 9.06 W)', () => {
+    const bng = proj('EPSG:27700');
+    expect(outsideGridArea(bng, 51.5, -0.12)).toBeNull();
+    expect(outsideGridArea(bng, GALWAY.latDeg, GALWAY.lonDeg)?.reason).toMatch(/^outside its area of use in the EPSG dataset, 49\.7500 N to 61\.0100 N, 9\.0000 W to 2\.0100 E \(United Kingdom/);
+    expect(bng.forward(GALWAY.latDeg, GALWAY.lonDeg).eastingM).toBeLessThan(0); // what the user saw: a negative easting
+    expect(outsideGridArea(proj('EPSG:2157'), GALWAY.latDeg, GALWAY.lonDeg)).toBeNull();
+    expect(outsideGridArea(proj('EPSG:2056'), SWISS.latDeg, SWISS.lonDeg)).toBeNull();
+  });
+
+  it('a Transverse Mercator PROJ string: the point scale k against k0 (1 + A^2 / 2) at A = 3.5 deg (Snyder 1987 eq. 8-11, leading term)', () => {
+    const tm = makeProjection('+proj=tmerc +lat_0=0 +lon_0=-8 +k=0.99982 +x_0=600000 +y_0=0 +ellps=GRS80 +units=m');
+    const limit = 0.99982 * (1 + (TM_LIMIT_A_DEG * Math.PI / 180) ** 2 / 2);
+    expect(limit).toBeCloseTo(1.001685, 6);
+    expect(outsideGridArea(tm, GALWAY.latDeg, GALWAY.lonDeg)).toBeNull();
+    // 5.5 deg of longitude at 53 N is A = 3.3 deg: inside; 6.5 deg is A = 3.9 deg: outside.
+    expect(outsideGridArea(tm, 53, -13.5)).toBeNull();
+    expect(outsideGridArea(tm, 53, -14.5)?.reason).toMatch(/point scale factor exceeds 1\.001685/);
+    const k = projScale('+proj=tmerc +lat_0=0 +lon_0=-8 +k=0.99982 +x_0=600000 +y_0=0 +ellps=GRS80', 53, -14.5);
+    if (k !== null) {
+      expect(gridFactors(tm, 53, -14.5).pointScale).toBeCloseTo(k, 7);
+      expect(k).toBeGreaterThan(limit);
+    }
+    // No published area and not a TM: not judged.
+    expect(outsideGridArea(makeProjection('+proj=lcc +lat_1=45 +lat_2=50 +lon_0=0 +ellps=GRS80 +units=m'), SWISS.latDeg, SWISS.lonDeg)).toBeNull();
+  });
+});
+
+describe('projections refused in plain words', () => {
+  it('vertical, geocentric, 3-D and compound CRSs say what they are (kinds from the EPSG dataset; projinfo prints VERTCRS, GEODCRS, COMPOUNDCRS for them)', () => {
+    expect(() => resolveProjectionSpec('EPSG:5773', undefined, lookup)).toThrow(/^EPSG:5773 \(EGM96 height\) is a vertical CRS \(heights only\), not a map grid: give a projected CRS/);
+    expect(() => resolveProjectionSpec('EPSG:4978', undefined, lookup)).toThrow(/^EPSG:4978 \(WGS 84\) is a geocentric CRS \(Earth-centred X, Y, Z\), not a map grid/);
+    expect(() => resolveProjectionSpec('EPSG:4979', undefined, lookup)).toThrow(/geographic 3-D CRS/);
+    expect(() => resolveProjectionSpec('EPSG:7405', undefined, lookup)).toThrow(/^EPSG:7405 \(OSGB36 \/ British National Grid \+ ODN height\) is a compound CRS .*: give its projected part, EPSG:27700$/);
+    for (const c of ['EPSG:5773', 'EPSG:4978']) expect(() => resolveProjectionSpec(c, undefined, lookup)).not.toThrow(/geographic 2-D/);
+  });
+  it('a PROJ string proj4 cannot use, and a bare EPSG number', () => {
+    expect(() => resolveProjectionSpec('+proj=foo')).toThrow(/^the PROJ string names a projection proj4 does not know \('\+proj=foo'\): give an EPSG code/);
+    expect(() => resolveProjectionSpec('+proj=tmerc +lon_0=-2 +ellps=airy +nadgrids=OSTN15_NTv2_OSGBtoETRS.gsb')).not.toThrow();
+    expect(() => resolveProjectionSpec('2157', undefined, lookup)).toThrow(/^unknown projection '2157': did you mean EPSG:2157\?$/);
+    expect(() => resolveProjectionSpec('epsg 2157', undefined, lookup)).toThrow(/did you mean EPSG:2157\?/);
+  });
+});
