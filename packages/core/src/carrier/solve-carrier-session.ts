@@ -56,7 +56,7 @@ import { codeFixPosition, type CodeRow } from './code-fix.js';
 import { furtherBandGroup } from './further-bands.js';
 import { GeometryFreeMonitor } from './geometry-free.js';
 import { ionosphereFactor, ionosphereWeighting } from './ionosphere-weighting.js';
-import { findTimeDifferencedSlips, type TimeDifferencedPhase } from './time-differenced-slips.js';
+import { findTimeDifferencedSlips, SLIP_MIN_CYCLES, SLIP_MIN_CYCLES_REFERENCE_SWITCH, type TimeDifferencedPhase } from './time-differenced-slips.js';
 import { keepShape } from './kept-shapes.js';
 
 export interface CarrierInputs {
@@ -248,7 +248,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     }
 
     // Forward and backward passes, then their combination.
-    notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)`);
+    notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)${reader.halfCycleSlips ? `, ${reader.halfCycleSlips} of them by an odd number of half cycles (arcs then left float until a further half-cycle jump or a new arc)` : ''}`);
     // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
     const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
     if (ionosphere) notes.push(`${reader.geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
@@ -385,6 +385,8 @@ class RoverReader {
   maxBaselineM = 0;
   geometryFreeSlips = 0;
   timeDifferencedSlips = 0;
+  /** Of those, the jumps by an odd number of half cycles (restartTimeDifferencedSlips). */
+  halfCycleSlips = 0;
   epochsWithReference = 0;
 
   private readonly maskRad: number;
@@ -411,7 +413,7 @@ class RoverReader {
    * Single-difference arc per record entry (signal table index): a new one whenever either receiver's arc
    * changes, or the geometry-free test across bands finds a slip on the satellite (its count in `gfSlips`).
    */
-  private readonly sdArcs = new Map<number, { r: number; b: number; g: number; id: number }>();
+  private readonly sdArcs = new Map<number, { r: number; b: number; g: number; id: number; half: boolean }>();
   private readonly gfSlips = new Map<SatId, number>();
   /** Per satellite with further bands, the arcs of every band at both receivers at its last epoch. */
   private readonly receiverArcs = new Map<SatId, number[]>();
@@ -419,6 +421,11 @@ class RoverReader {
   private nextArc = 1;
   /** The last record with satellites (the time-differenced slip test's previous epoch). */
   private previousRecord = -1;
+  /** Times of the reference epochs the current record's and the previous record's values come from (AlignedReference). */
+  private refFromGpsS = NaN;
+  private refToGpsS = NaN;
+  private previousRefFromGpsS = NaN;
+  private previousRefToGpsS = NaN;
   private firstEvent: 'start-moving' | 'new-occupation' | null = null;
   private firstMovingRecord = 0;
 
@@ -549,13 +556,17 @@ class RoverReader {
     }
   }
 
-  /** The single-difference arc of a record entry for the receivers' arcs and the satellite's geometry-free slips (sdArcs). */
+  /**
+   * The single-difference arc of a record entry for the receivers' arcs and the satellite's geometry-free
+   * slips (sdArcs). A new one starts with an integer ambiguity (`half` false): a receiver that may be half a
+   * cycle off says so with its half-cycle bit.
+   */
   private sdArcOf(entry: number, rArc: number, bArc: number, sat: SatId): number {
     const g = this.gfSlips.get(sat) ?? 0;
     const prev = this.sdArcs.get(entry);
     if (prev && prev.r === rArc && prev.b === bArc && prev.g === g) return prev.id;
     const id = this.nextArc++;
-    this.sdArcs.set(entry, { r: rArc, b: bArc, g, id });
+    this.sdArcs.set(entry, { r: rArc, b: bArc, g, id, half: false });
     return id;
   }
 
@@ -586,6 +597,7 @@ class RoverReader {
     if (fix) this.x0 = fix;
     const x0 = this.x0;
     const k = rec.beginEpoch(t, e.tagGpsS, x0, isStatic, al.ageS, context);
+    this.refFromGpsS = al.fromGpsS; this.refToGpsS = al.toGpsS;
     const refArp = this.refArp;
     this.maxBaselineM = Math.max(this.maxBaselineM, Math.hypot(x0.x - refArp.x, x0.y - refArp.y, x0.z - refArp.z));
     this.testGeometryFree(t, both, arcs, roverFurther);
@@ -656,7 +668,7 @@ class RoverReader {
       const withPhase = rArc > 0 && ra.arc > 0 && Number.isFinite(ra.phaseM);
       const entry = this.indexOf(s.sat, s.wavelengthM, s.code, null);
       const arc = withPhase ? this.sdArcOf(entry, rArc, ra.arc, s.sat) : 0;
-      const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle;
+      const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle || this.halfCycleOff(entry, arc);
       const el = Math.min(ae.elevationRad, ra.elevationRad);
       rec.addSatellite(k, entry, arc,
         withPhase ? s.phaseCycles * s.wavelengthM + roverTracker.codeClockStepsM - model - ra.phaseM : NaN,
@@ -670,12 +682,19 @@ class RoverReader {
         const mArc = b?.arcs.get(s.sat) ?? 0;
         const mPhase = mArc > 0 && rm.arc > 0 && Number.isFinite(rm.phaseM);
         const mEntry = this.furtherIndexOf(entry, s, m, rm.code);
-        rec.addSatellite(k, mEntry, mPhase ? this.sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0,
+        const mSdArc = mPhase ? this.sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0;
+        rec.addSatellite(k, mEntry, mSdArc,
           mPhase ? m.phaseCycles * m.wavelengthM + roverTracker.codeClockStepsM - model - rm.phaseM : NaN,
           Number.isFinite(m.codeM) ? m.codeM - model - rm.codeM : NaN,
-          dx / rho, dy / rho, dz / rho, el, !((b?.halfCycle(s.sat) ?? false) || rm.halfCycle));
+          dx / rho, dy / rho, dz / rho, el, !((b?.halfCycle(s.sat) ?? false) || rm.halfCycle || this.halfCycleOff(mEntry, mSdArc)));
       }
     }
+  }
+
+  /** Whether the single-difference arc `arc` of a record entry is half a cycle off (restartTimeDifferencedSlips). */
+  private halfCycleOff(entry: number, arc: number): boolean {
+    const s = this.sdArcs.get(entry);
+    return arc > 0 && s !== undefined && s.id === arc && s.half;
   }
 
   /** The rover's Doppler velocity at epoch k (a moving epoch), when it can be found. */
@@ -690,6 +709,10 @@ class RoverReader {
   /**
    * The time-differenced test (time-differenced-slips.ts) of an epoch's phase single differences against the
    * previous epoch's of the same arcs: a slipped one starts a new arc, with every band of its satellite.
+   * A jump by an odd number of half cycles (the estimate rounded to the nearest half cycle) turns the
+   * slipped signal's ambiguity half-integer, or back: its arcs are not fixed while it is half a cycle off,
+   * as those of a receiver's half-cycle bit (arc-tracker.ts). A half-integer ambiguity fixed to an integer
+   * would put its double differences 0.5 cycle (9.5 cm on L1) off and the fixed position with them.
    */
   private restartTimeDifferencedSlips(k: number): void {
     const rec = this.rec, satellites = this.satellites;
@@ -697,7 +720,11 @@ class RoverReader {
     const e = rec.indexOf(k);
     if (rec.satCount[e] === 0) return;
     this.previousRecord = k;
+    const prevFrom = this.previousRefFromGpsS, prevTo = this.previousRefToGpsS, from = this.refFromGpsS, to = this.refToGpsS;
+    this.previousRefFromGpsS = from; this.previousRefToGpsS = to;
     if (p < 0) return;
+    // Values from a common reference epoch: the reference's errors change smoothly between the two epochs.
+    const sharedReference = from === prevFrom || from === prevTo || to === prevFrom || to === prevTo;
     // The previous epoch with satellites is still in the chunk being recorded (EpochRecords.beginEpoch).
     const q = rec.indexOf(p);
     if (!(rec.timeGpsS[e] - rec.timeGpsS[q] <= 30)) return;
@@ -719,15 +746,24 @@ class RoverReader {
         varianceM2: 2 * singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]), wavelengthM: info.wavelengthM,
       });
     }
-    for (const o of findTimeDifferencedSlips(obs)) {
+    const jumpsM: number[] = [];
+    const slipped = findTimeDifferencedSlips(obs, jumpsM, sharedReference ? SLIP_MIN_CYCLES : SLIP_MIN_CYCLES_REFERENCE_SWITCH);
+    for (let n = 0; n < slipped.length; n++) {
       this.timeDifferencedSlips++;
-      const sat = satellites[rec.sat[js[o]]].id;
+      const tested = rec.sat[js[slipped[n]]];
+      const halfCycles = Math.round(2 * jumpsM[n] / satellites[tested].wavelengthM);
+      const oddHalf = halfCycles % 2 !== 0;
+      if (oddHalf) this.halfCycleSlips++;
+      const sat = satellites[tested].id;
       for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
         if (rec.arc[j] <= 0 || satellites[rec.sat[j]].id !== sat) continue;
         const id = this.nextArc++;
         rec.arc[j] = id;
         const s = this.sdArcs.get(rec.sat[j]);
-        if (s) s.id = id;
+        if (!s) continue;
+        s.id = id;
+        if (oddHalf && rec.sat[j] === tested) s.half = !s.half;
+        if (s.half) rec.fixable[j] = 0;
       }
     }
   }
