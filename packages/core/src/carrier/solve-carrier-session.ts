@@ -426,6 +426,9 @@ class RoverReader {
   private refToGpsS = NaN;
   private previousRefFromGpsS = NaN;
   private previousRefToGpsS = NaN;
+  /** The reference's phase values (m, reduced: reference-phase.ts) of the current and the previous record's entries, by signal table entry. */
+  private refPhaseM = new Map<number, number>();
+  private previousRefPhaseM = new Map<number, number>();
   private firstEvent: 'start-moving' | 'new-occupation' | null = null;
   private firstMovingRecord = 0;
 
@@ -656,8 +659,9 @@ class RoverReader {
 
   /** The record entries of epoch k: per common satellite its primary band and its further bands, at the linearisation point x0. */
   private addEntries(k: number, both: readonly CommonSat[], arcs: ReadonlyMap<SatId, number>, roverFurther: ReadonlyMap<string, BandArcs>, x0: EcefM, doy: number): void {
-    const rec = this.rec, roverTracker = this.roverTracker;
+    const rec = this.rec, roverTracker = this.roverTracker, refPhaseM = this.refPhaseM;
     const g0 = ecefToGeodetic(x0);
+    refPhaseM.clear();
     for (const { s, ra } of both) {
       const dx = s.posM.x - x0.x, dy = s.posM.y - x0.y, dz = s.posM.z - x0.z;
       const rho = Math.sqrt(dx * dx + dy * dy + dz * dz);
@@ -668,6 +672,7 @@ class RoverReader {
       const withPhase = rArc > 0 && ra.arc > 0 && Number.isFinite(ra.phaseM);
       const entry = this.indexOf(s.sat, s.wavelengthM, s.code, null);
       const arc = withPhase ? this.sdArcOf(entry, rArc, ra.arc, s.sat) : 0;
+      if (withPhase) refPhaseM.set(entry, ra.phaseM);
       const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle || this.halfCycleOff(entry, arc);
       const el = Math.min(ae.elevationRad, ra.elevationRad);
       rec.addSatellite(k, entry, arc,
@@ -683,6 +688,7 @@ class RoverReader {
         const mPhase = mArc > 0 && rm.arc > 0 && Number.isFinite(rm.phaseM);
         const mEntry = this.furtherIndexOf(entry, s, m, rm.code);
         const mSdArc = mPhase ? this.sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0;
+        if (mPhase) refPhaseM.set(mEntry, rm.phaseM);
         rec.addSatellite(k, mEntry, mSdArc,
           mPhase ? m.phaseCycles * m.wavelengthM + roverTracker.codeClockStepsM - model - rm.phaseM : NaN,
           Number.isFinite(m.codeM) ? m.codeM - model - rm.codeM : NaN,
@@ -713,21 +719,54 @@ class RoverReader {
    * slipped signal's ambiguity half-integer, or back: its arcs are not fixed while it is half a cycle off,
    * as those of a receiver's half-cycle bit (arc-tracker.ts). A half-integer ambiguity fixed to an integer
    * would put its double differences 0.5 cycle (9.5 cm on L1) off and the fixed position with them.
+   *
+   * Where the two epochs' reference values come from different reference epochs, one of them held across a
+   * gap in its logging (reference-phase.ts), their difference holds the change over the gap of the errors a reference
+   * epoch carries (orbits, satellite clocks, atmosphere: 0.25 to 0.35 cycle on the real static run at such
+   * switches after gaps of 14 to 24 s, on GLONASS most), which the test's noise model does not hold. The
+   * rover's own phase (the single differences with the reference's values added back: the same model
+   * without the reference, one receiver's noise) carries instead the change of those errors over the rover's
+   * interval: where that is the shorter time (a rover logging every second), it is tested first, with the
+   * quarter-cycle floor; then the single differences left, for the reference's slips over its gap, with a
+   * floor of half a cycle (SLIP_MIN_CYCLES_REFERENCE_SWITCH). (The rover's phase alone over a rover gap of
+   * 24 s, against a reference interpolated, showed jumps of 0.4 to 0.7 cycle on GLONASS: the same errors.)
    */
   private restartTimeDifferencedSlips(k: number): void {
-    const rec = this.rec, satellites = this.satellites;
+    const rec = this.rec;
     const p = this.previousRecord;
     const e = rec.indexOf(k);
     if (rec.satCount[e] === 0) return;
     this.previousRecord = k;
     const prevFrom = this.previousRefFromGpsS, prevTo = this.previousRefToGpsS, from = this.refFromGpsS, to = this.refToGpsS;
     this.previousRefFromGpsS = from; this.previousRefToGpsS = to;
+    const refNow = this.refPhaseM, refBefore = this.previousRefPhaseM;
+    this.previousRefPhaseM = refNow; this.refPhaseM = refBefore;
     if (p < 0) return;
-    // Values from a common reference epoch: the reference's errors change smoothly between the two epochs.
-    const sharedReference = from === prevFrom || from === prevTo || to === prevFrom || to === prevTo;
     // The previous epoch with satellites is still in the chunk being recorded (EpochRecords.beginEpoch).
     const q = rec.indexOf(p);
     if (!(rec.timeGpsS[e] - rec.timeGpsS[q] <= 30)) return;
+    // Values interpolated at both epochs (one line through the reference's epochs, which runs on across
+    // them) or from a common reference epoch: the reference's errors change smoothly between the two epochs.
+    const interpolatedBoth = from !== to && prevFrom !== prevTo;
+    const sharedReference = interpolatedBoth || from === prevFrom || from === prevTo || to === prevFrom || to === prevTo;
+    if (sharedReference) { this.restartSlipped(e, q, null, SLIP_MIN_CYCLES); return; }
+    // Time over which the satellites' orbit and clock errors change unmodelled: the rover's interval for its
+    // phase alone; for the single differences, the change of the reference's offset from the rover's time
+    // (0 where interpolated, the age where held).
+    const offset = (t: number, a: number, b: number) => (a === b ? t - a : 0);
+    const roverSpanS = rec.timeGpsS[e] - rec.timeGpsS[q];
+    const differenceSpanS = Math.abs(offset(rec.timeGpsS[e], from, to) - offset(rec.timeGpsS[q], prevFrom, prevTo));
+    if (roverSpanS < differenceSpanS) this.restartSlipped(e, q, { now: refNow, before: refBefore }, SLIP_MIN_CYCLES);
+    this.restartSlipped(e, q, null, SLIP_MIN_CYCLES_REFERENCE_SWITCH);
+  }
+
+  /**
+   * One run of the time-differenced test between records e and q (restartTimeDifferencedSlips), on the
+   * single differences, or with `roverAlone` on the rover's phase (the reference's values of both epochs
+   * added back), with the floor `minCycles`; restarts the arcs of the slipped signals' satellites.
+   */
+  private restartSlipped(e: number, q: number, roverAlone: { now: ReadonlyMap<number, number>; before: ReadonlyMap<number, number> } | null, minCycles: number): void {
+    const rec = this.rec, satellites = this.satellites;
     const before = new Map<number, number>();
     for (let i = rec.satStart[q]; i < rec.satStart[q] + rec.satCount[q]; i++) if (rec.arc[i] > 0) before.set(rec.sat[i], i);
     // The previous epoch's single difference carried to this epoch's linearisation point:
@@ -738,21 +777,25 @@ class RoverReader {
     for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
       const i = before.get(rec.sat[j]);
       if (i === undefined || rec.arc[j] <= 0 || rec.arc[i] !== rec.arc[j] || rec.elevationRad[j] < this.maskRad || !Number.isFinite(rec.phaseM[j]) || !Number.isFinite(rec.phaseM[i])) continue;
+      // The reference's change between its epochs used, added back (rover alone): sd = rover - z.
+      const referenceChangeM = roverAlone ? (roverAlone.now.get(rec.sat[j]) ?? NaN) - (roverAlone.before.get(rec.sat[j]) ?? NaN) : 0;
+      if (!Number.isFinite(referenceChangeM)) continue;
       const info = satellites[rec.sat[j]];
       const carriedM = rec.phaseM[i] + rec.los[3 * i] * ddx + rec.los[3 * i + 1] * ddy + rec.los[3 * i + 2] * ddz;
+      // Two epochs of the single difference (two receivers), or of the rover alone.
+      const epochsOfReceivers = roverAlone ? 1 : 2;
       js.push(j);
       obs.push({
-        changeM: rec.phaseM[j] - carriedM, ux: rec.los[3 * j], uy: rec.los[3 * j + 1], uz: rec.los[3 * j + 2], group: info.group,
-        varianceM2: 2 * singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]), wavelengthM: info.wavelengthM,
+        changeM: rec.phaseM[j] - carriedM + referenceChangeM, ux: rec.los[3 * j], uy: rec.los[3 * j + 1], uz: rec.los[3 * j + 2], group: info.group,
+        varianceM2: epochsOfReceivers * singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]), wavelengthM: info.wavelengthM,
       });
     }
     const jumpsM: number[] = [];
-    const slipped = findTimeDifferencedSlips(obs, jumpsM, sharedReference ? SLIP_MIN_CYCLES : SLIP_MIN_CYCLES_REFERENCE_SWITCH);
+    const slipped = findTimeDifferencedSlips(obs, jumpsM, minCycles);
     for (let n = 0; n < slipped.length; n++) {
       this.timeDifferencedSlips++;
       const tested = rec.sat[js[slipped[n]]];
-      const halfCycles = Math.round(2 * jumpsM[n] / satellites[tested].wavelengthM);
-      const oddHalf = halfCycles % 2 !== 0;
+      const oddHalf = Math.round(2 * jumpsM[n] / satellites[tested].wavelengthM) % 2 !== 0;
       if (oddHalf) this.halfCycleSlips++;
       const sat = satellites[tested].id;
       for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {

@@ -26,10 +26,8 @@
  *    up, 0.1 cycle low down: a half-cycle slip is then found whatever the noise's sign, where a floor of
  *    half a cycle missed about every other one.
  * Where the reference's values of the two epochs come from different reference epochs held across a gap
- * in its logging (reference-phase.ts: the nearest epoch, switched half way through the gap), their
- * difference holds the change over the gap of the errors the reference epoch carries (orbits, satellite
- * clocks, atmosphere), which this noise model does not hold: on the real static run, jumps of 0.25 to 0.35
- * cycle at such switches (gaps of 14 to 24 s), on no other epoch. There the floor stays at half a cycle.
+ * in its logging, the caller tests the rover's phase alone with this floor, and the single differences
+ * with a floor of half a cycle (solve-carrier-session.ts, restartTimeDifferencedSlips).
  * The estimated jumps are given too: an odd number of half cycles leaves the new arc's ambiguity
  * half-integer (the caller does not fix it).
  * At least two degrees of freedom must remain for a test (one can detect but not point at the outlier).
@@ -54,7 +52,10 @@ export interface TimeDifferencedPhase {
 export const SLIP_W_CRITICAL = normalQuantile(1 - 0.5e-5);
 /** The smallest jump declared a slip (cycles): half way to the smallest slip, half a cycle (file comment). */
 export const SLIP_MIN_CYCLES = 0.25;
-/** The same where the reference epochs held differ between the two epochs (file comment). */
+/**
+ * The floor of the single differences where the reference epochs held differ between the two epochs: the
+ * change of the errors the reference carries over its logging gap is not in the noise model (file comment).
+ */
 export const SLIP_MIN_CYCLES_REFERENCE_SWITCH = 0.5;
 
 /**
