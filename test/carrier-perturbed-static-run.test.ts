@@ -99,6 +99,27 @@ interface Case {
   readonly perturb: (rover: ObsText, base: ObsText) => string;
 }
 
+/** Slips at one epoch on `perEpoch` satellites at once (a canopy), unflagged, at `count` random epochs. */
+function slipsTogether(o: ObsText, seed: number, count: number, perEpoch: number): string {
+  const r = rng(seed);
+  const drawn: string[] = [];
+  for (const t of times(r, count, 30, spanS(o) - 30)) {
+    const sats = new Set<string>();
+    for (let tries = 0; sats.size < perEpoch && tries < 50; tries++) {
+      const sat = satelliteAt(o, t, r);
+      if (sat) sats.add(sat);
+    }
+    const sizes: string[] = [];
+    for (const sat of sats) {
+      const cycles = SLIP_SIZES[Math.floor(r() * SLIP_SIZES.length)];
+      applySlip(o, { sat, tS: t, cycles, lli: 0 });
+      sizes.push(`${sat}:${cycles}`);
+    }
+    drawn.push(`@${t.toFixed(0)} ${sizes.join(' ')}`);
+  }
+  return `${drawn.length} epochs with ${perEpoch} satellites slipping at once (${drawn.slice(0, 2).join('; ')} ...)`;
+}
+
 /** Satellite outages of 5 to 60 s at random times, half of them with an unflagged slip on the return. */
 function outages(o: ObsText, seed: number, count: number): string {
   const r = rng(seed);
@@ -174,6 +195,7 @@ function multipath(o: ObsText, seed: number, count: number): string {
 const CASES: readonly Case[] = [
   { name: 'unperturbed', minFixedShare: 0.9, perturb: () => 'nothing changed' },
   { name: 'rover: unflagged slips (1, a few, 1000 cycles; LLI 0), 4 a minute', minFixedShare: 0.9, perturb: (r) => slips(r, 101, 4, 0) },
+  { name: 'rover: 4 satellites slipping at once (unflagged), 10 times', minFixedShare: 0.9, perturb: (r) => slipsTogether(r, 111, 10, 4) },
   { name: 'rover: the same slips with the loss-of-lock bit', minFixedShare: 0.9, perturb: (r) => slips(r, 101, 4, 1) },
   { name: 'rover: satellites lost for 5 to 60 s, half of them back with a slip', minFixedShare: 0.9, perturb: (r) => outages(r, 202, 20) },
   { name: 'rover: every satellite lost for 3 to 10 s (a bridge), twice', minFixedShare: 0.9, perturb: (r) => `${bridge(r, 707, 400)}; ${bridge(r, 708, 900)}` },
