@@ -248,7 +248,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     }
 
     // Forward and backward passes, then their combination.
-    notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)${reader.halfCycleSlips ? `, ${reader.halfCycleSlips} of them by an odd number of half cycles (arcs then left float until a further half-cycle jump or a new arc)` : ''}`);
+    notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)${reader.halfCycleSlips ? `, ${reader.halfCycleSlips} of them by an odd number of half cycles (arcs then left float until a further half-cycle jump or a new arc)` : ''}${reader.unexplainedEpochs ? `; ${reader.unexplainedEpochs} epochs whose changes the test could not explain (global test at 1e-5: every arc tested restarted)` : ''}`);
     // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
     const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
     if (ionosphere) notes.push(`${reader.geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
@@ -387,6 +387,8 @@ class RoverReader {
   timeDifferencedSlips = 0;
   /** Of those, the jumps by an odd number of half cycles (restartTimeDifferencedSlips). */
   halfCycleSlips = 0;
+  /** Epochs whose time differences the test left unexplained: every arc tested restarted (restartSlipped). */
+  unexplainedEpochs = 0;
   epochsWithReference = 0;
 
   private readonly maskRad: number;
@@ -791,23 +793,42 @@ class RoverReader {
       });
     }
     const jumpsM: number[] = [];
-    const slipped = findTimeDifferencedSlips(obs, jumpsM, minCycles);
+    const verdict = { unexplained: false };
+    const slipped = findTimeDifferencedSlips(obs, jumpsM, minCycles, verdict);
     for (let n = 0; n < slipped.length; n++) {
       this.timeDifferencedSlips++;
       const tested = rec.sat[js[slipped[n]]];
       const oddHalf = Math.round(2 * jumpsM[n] / satellites[tested].wavelengthM) % 2 !== 0;
       if (oddHalf) this.halfCycleSlips++;
-      const sat = satellites[tested].id;
-      for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
-        if (rec.arc[j] <= 0 || satellites[rec.sat[j]].id !== sat) continue;
-        const id = this.nextArc++;
-        rec.arc[j] = id;
-        const s = this.sdArcs.get(rec.sat[j]);
-        if (!s) continue;
-        s.id = id;
-        if (oddHalf && rec.sat[j] === tested) s.half = !s.half;
-        if (s.half) rec.fixable[j] = 0;
+      this.restartSatellite(e, satellites[tested].id, oddHalf ? tested : -1);
+    }
+    // Left unexplained (time-differenced-slips.ts: several slips at once can hide one another), where the
+    // noise model holds: no arc tested can be vouched for.
+    if (verdict.unexplained && minCycles === SLIP_MIN_CYCLES) {
+      this.unexplainedEpochs++;
+      const restarted = new Set<SatId>();
+      for (const j of js) {
+        const sat = satellites[rec.sat[j]].id;
+        if (rec.arc[j] > 0 && !restarted.has(sat)) { restarted.add(sat); this.restartSatellite(e, sat, -1); }
       }
+    }
+  }
+
+  /**
+   * New arcs for every band of a satellite at record e; `halfEntry`: the signal table entry whose jump was
+   * an odd number of half cycles (its half-cycle state turns over), -1 for none.
+   */
+  private restartSatellite(e: number, sat: SatId, halfEntry: number): void {
+    const rec = this.rec, satellites = this.satellites;
+    for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
+      if (rec.arc[j] <= 0 || satellites[rec.sat[j]].id !== sat) continue;
+      const id = this.nextArc++;
+      rec.arc[j] = id;
+      const s = this.sdArcs.get(rec.sat[j]);
+      if (!s) continue;
+      s.id = id;
+      if (rec.sat[j] === halfEntry) s.half = !s.half;
+      if (s.half) rec.fixable[j] = 0;
     }
   }
 }

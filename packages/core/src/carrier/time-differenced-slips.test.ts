@@ -47,6 +47,14 @@ describe('time-differenced slip test (self-consistency on constructed time diffe
     expect(findTimeDifferencedSlips(epoch({ 2: 0.4 * L1 }, [], true), [], SLIP_MIN_CYCLES_REFERENCE_SWITCH)).toEqual([]);
   });
 
+  it('what the w-tests cannot point at fails the global test: jumps under the floor on three satellites; none: passes', () => {
+    const verdict = { unexplained: false };
+    expect(findTimeDifferencedSlips(epoch({ 1: 0.2 * L1, 4: -0.2 * L1, 9: 0.2 * L1 }, [], true), [], undefined, verdict)).toEqual([]);
+    expect(verdict.unexplained).toBe(true);
+    expect(findTimeDifferencedSlips(epoch({}, [0.004, -0.003, 0.002, -0.005, 0.001, 0.003, -0.002, 0.004]), [], undefined, verdict)).toEqual([]);
+    expect(verdict.unexplained).toBe(false);
+  });
+
   it('too few observations for two degrees of freedom: nothing tested', () => {
     expect(findTimeDifferencedSlips(epoch({ 0: L1 }).slice(0, 5))).toEqual([]);
   });
