@@ -72,4 +72,17 @@ describe('phase arcs', () => {
     // The 54 s gap is met by all three satellites.
     expect(a.causes).toMatchObject({ lli: 1, halfCycle: 2, blank: 1, gap: 3 });
   });
+
+  it('a satellite absent from some of the receiver\'s epochs starts a new arc on its return; a gap of every satellite does not', () => {
+    const a = new ArcTracker(30);
+    const first = a.update(0, epoch(0));
+    a.update(1, epoch(1).filter((s) => s.sat !== 'G02'));
+    a.update(2, epoch(2).filter((s) => s.sat !== 'G02'));
+    const back = a.update(3, epoch(3));
+    expect(back.get('G02')).not.toBe(first.get('G02'));
+    expect(back.get('G01')).toBe(first.get('G01'));
+    // No epoch at 4 to 9 s at all (a logging gap, or a bridge): the arcs go on.
+    expect(a.update(10, epoch(10)).get('G01')).toBe(first.get('G01'));
+    expect(a.causes).toMatchObject({ absent: 1, gap: 0, doppler: 0 });
+  });
 });

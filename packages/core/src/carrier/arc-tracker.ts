@@ -5,6 +5,11 @@
  *    resolved, the half-cycle ambiguity of its phase);
  *  - blank phase (tracking lost);
  *  - a gap in the satellite's epochs longer than `maxGapS`;
+ *  - the satellite's return after it was absent from one or more of the receiver's epochs (the receiver
+ *    recorded other satellites but not this one, so it did not track it: its phase has no more continuity
+ *    than a blank one, and a tracking loop that reacquires a signal starts its cycle count anew, flagged or
+ *    not). Gaps of the whole receiver (every satellite missing, as in irregular logging or under a bridge)
+ *    are no such sign: the Doppler test and the time-differenced test (time-differenced-slips.ts) span them;
  *  - time-differenced phase against the Doppler: the phase change between epochs predicted by the mean
  *    Doppler (trapezoid rule; RINEX: Doppler positive for approaching satellites, phase grows with
  *    range), in metres, less the median over the epoch's satellites (so a receiver clock step common to
@@ -52,9 +57,11 @@ export class ArcTracker {
   private readonly state = new Map<SatId, ArcState>();
   private nextArc = 1;
   /** Count of arcs started by each cause, for the summary. */
-  readonly causes = { lli: 0, halfCycle: 0, blank: 0, gap: 0, doppler: 0, codeMinusPhase: 0 };
+  readonly causes = { lli: 0, halfCycle: 0, blank: 0, gap: 0, absent: 0, doppler: 0, codeMinusPhase: 0 };
   /** Sum of the code clock steps not followed by the phase (m; see the file comment). */
   codeClockStepsM = 0;
+  /** Time of the previous epoch given to update (NaN before the first). */
+  private previousEpochGpsS = NaN;
 
   constructor(private readonly maxGapS: number) {
     keepShape(this);
@@ -100,6 +107,7 @@ export class ArcTracker {
         if ((s.lli & 1) !== 0) { slip = true; this.causes.lli++; }
         else if (half !== prev.halfCycle) { slip = true; this.causes.halfCycle++; }
         else if (!(dt > 0) || dt > this.maxGapS) { slip = true; this.causes.gap++; }
+        else if (prev.tGpsS < this.previousEpochGpsS) { slip = true; this.causes.absent++; }
         else {
           const r = dopplerResidual.get(s.sat);
           if (r !== undefined && dopplerResidual.size >= 2 && Math.abs(r - common) > (1 + 0.2 * dt) * s.wavelengthM) { slip = true; this.causes.doppler++; }
@@ -113,7 +121,8 @@ export class ArcTracker {
       this.state.set(s.sat, { arc, tGpsS, phaseCycles: s.phaseCycles, codeM: s.codeM, dopplerHz: s.dopplerHz, wavelengthM: s.wavelengthM, halfCycle: half });
       out.set(s.sat, arc);
     }
-    // Satellites not in this epoch keep their state: the gap test decides on their return.
+    // Satellites not in this epoch keep their state: the gap and absence tests decide on their return.
+    this.previousEpochGpsS = tGpsS;
     return out;
   }
 

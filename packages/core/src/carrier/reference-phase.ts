@@ -70,6 +70,9 @@ export interface AlignedReference {
   /** Largest distance in time to a reference epoch used (s). */
   readonly ageS: number;
   readonly interpolated: boolean;
+  /** Times of the reference epochs used: the bracketing pair, or the nearest epoch twice. */
+  readonly fromGpsS: number;
+  readonly toGpsS: number;
 }
 
 /** z values of one prepared reference epoch (see the file comment). */
@@ -168,7 +171,7 @@ export class ReferencePhaseBuffer {
           elevationRad: a.elevationRad + w * (b.elevationRad - a.elevationRad), eph: a.eph, more,
         });
       }
-      return { sats, ageS: Math.max(tGpsS - e0.timeGpsS, e1.timeGpsS - tGpsS), interpolated: true };
+      return { sats, ageS: Math.max(tGpsS - e0.timeGpsS, e1.timeGpsS - tGpsS), interpolated: true, fromGpsS: e0.timeGpsS, toGpsS: e1.timeGpsS };
     }
     const d0 = e0 ? tGpsS - e0.timeGpsS : Infinity;
     const d1 = e1 ? e1.timeGpsS - tGpsS : Infinity;
@@ -176,6 +179,6 @@ export class ReferencePhaseBuffer {
     const age = Math.min(d0, d1);
     if (!near || age > this.maxAgeS) return null;
     for (const [sat, a] of near.sats) sats.set(sat, a);
-    return { sats, ageS: age, interpolated: false };
+    return { sats, ageS: age, interpolated: false, fromGpsS: near.timeGpsS, toGpsS: near.timeGpsS };
   }
 }

@@ -56,7 +56,7 @@ import { codeFixPosition, type CodeRow } from './code-fix.js';
 import { furtherBandGroup } from './further-bands.js';
 import { GeometryFreeMonitor } from './geometry-free.js';
 import { ionosphereFactor, ionosphereWeighting } from './ionosphere-weighting.js';
-import { findTimeDifferencedSlips, type TimeDifferencedPhase } from './time-differenced-slips.js';
+import { findTimeDifferencedSlips, SLIP_MIN_CYCLES, SLIP_MIN_CYCLES_REFERENCE_SWITCH, type TimeDifferencedPhase } from './time-differenced-slips.js';
 import { keepShape } from './kept-shapes.js';
 
 export interface CarrierInputs {
@@ -248,7 +248,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
     }
 
     // Forward and backward passes, then their combination.
-    notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)`);
+    notes.push(`${reader.timeDifferencedSlips} slips found by the time-differenced phase test (single differences of consecutive epochs against a fitted change of position and clocks)${reader.halfCycleSlips ? `, ${reader.halfCycleSlips} of them by an odd number of half cycles (arcs then left float until a further half-cycle jump or a new arc)` : ''}${reader.unexplainedEpochs ? `; ${reader.unexplainedEpochs} epochs whose changes the test could not explain (global test at 1e-5: every arc tested restarted)` : ''}`);
     // Further bands: the differential ionosphere is estimated, weighted by the baseline (ionosphere-weighting.ts).
     const ionosphere = satellites.some((x) => !x.primary) ? ionosphereWeighting(maxBaselineM) : null;
     if (ionosphere) notes.push(`${reader.geometryFreeSlips} slips found by the geometry-free test on the single differences (further bands)`);
@@ -385,6 +385,10 @@ class RoverReader {
   maxBaselineM = 0;
   geometryFreeSlips = 0;
   timeDifferencedSlips = 0;
+  /** Of those, the jumps by an odd number of half cycles (restartTimeDifferencedSlips). */
+  halfCycleSlips = 0;
+  /** Epochs whose time differences the test left unexplained: every arc tested restarted (restartSlipped). */
+  unexplainedEpochs = 0;
   epochsWithReference = 0;
 
   private readonly maskRad: number;
@@ -411,7 +415,7 @@ class RoverReader {
    * Single-difference arc per record entry (signal table index): a new one whenever either receiver's arc
    * changes, or the geometry-free test across bands finds a slip on the satellite (its count in `gfSlips`).
    */
-  private readonly sdArcs = new Map<number, { r: number; b: number; g: number; id: number }>();
+  private readonly sdArcs = new Map<number, { r: number; b: number; g: number; id: number; half: boolean }>();
   private readonly gfSlips = new Map<SatId, number>();
   /** Per satellite with further bands, the arcs of every band at both receivers at its last epoch. */
   private readonly receiverArcs = new Map<SatId, number[]>();
@@ -419,6 +423,14 @@ class RoverReader {
   private nextArc = 1;
   /** The last record with satellites (the time-differenced slip test's previous epoch). */
   private previousRecord = -1;
+  /** Times of the reference epochs the current record's and the previous record's values come from (AlignedReference). */
+  private refFromGpsS = NaN;
+  private refToGpsS = NaN;
+  private previousRefFromGpsS = NaN;
+  private previousRefToGpsS = NaN;
+  /** The reference's phase values (m, reduced: reference-phase.ts) of the current and the previous record's entries, by signal table entry. */
+  private refPhaseM = new Map<number, number>();
+  private previousRefPhaseM = new Map<number, number>();
   private firstEvent: 'start-moving' | 'new-occupation' | null = null;
   private firstMovingRecord = 0;
 
@@ -549,13 +561,17 @@ class RoverReader {
     }
   }
 
-  /** The single-difference arc of a record entry for the receivers' arcs and the satellite's geometry-free slips (sdArcs). */
+  /**
+   * The single-difference arc of a record entry for the receivers' arcs and the satellite's geometry-free
+   * slips (sdArcs). A new one starts with an integer ambiguity (`half` false): a receiver that may be half a
+   * cycle off says so with its half-cycle bit.
+   */
   private sdArcOf(entry: number, rArc: number, bArc: number, sat: SatId): number {
     const g = this.gfSlips.get(sat) ?? 0;
     const prev = this.sdArcs.get(entry);
     if (prev && prev.r === rArc && prev.b === bArc && prev.g === g) return prev.id;
     const id = this.nextArc++;
-    this.sdArcs.set(entry, { r: rArc, b: bArc, g, id });
+    this.sdArcs.set(entry, { r: rArc, b: bArc, g, id, half: false });
     return id;
   }
 
@@ -586,6 +602,7 @@ class RoverReader {
     if (fix) this.x0 = fix;
     const x0 = this.x0;
     const k = rec.beginEpoch(t, e.tagGpsS, x0, isStatic, al.ageS, context);
+    this.refFromGpsS = al.fromGpsS; this.refToGpsS = al.toGpsS;
     const refArp = this.refArp;
     this.maxBaselineM = Math.max(this.maxBaselineM, Math.hypot(x0.x - refArp.x, x0.y - refArp.y, x0.z - refArp.z));
     this.testGeometryFree(t, both, arcs, roverFurther);
@@ -644,8 +661,9 @@ class RoverReader {
 
   /** The record entries of epoch k: per common satellite its primary band and its further bands, at the linearisation point x0. */
   private addEntries(k: number, both: readonly CommonSat[], arcs: ReadonlyMap<SatId, number>, roverFurther: ReadonlyMap<string, BandArcs>, x0: EcefM, doy: number): void {
-    const rec = this.rec, roverTracker = this.roverTracker;
+    const rec = this.rec, roverTracker = this.roverTracker, refPhaseM = this.refPhaseM;
     const g0 = ecefToGeodetic(x0);
+    refPhaseM.clear();
     for (const { s, ra } of both) {
       const dx = s.posM.x - x0.x, dy = s.posM.y - x0.y, dz = s.posM.z - x0.z;
       const rho = Math.sqrt(dx * dx + dy * dy + dz * dz);
@@ -656,7 +674,8 @@ class RoverReader {
       const withPhase = rArc > 0 && ra.arc > 0 && Number.isFinite(ra.phaseM);
       const entry = this.indexOf(s.sat, s.wavelengthM, s.code, null);
       const arc = withPhase ? this.sdArcOf(entry, rArc, ra.arc, s.sat) : 0;
-      const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle;
+      if (withPhase) refPhaseM.set(entry, ra.phaseM);
+      const half = roverTracker.halfCycleUnresolved(s.sat) || ra.halfCycle || this.halfCycleOff(entry, arc);
       const el = Math.min(ae.elevationRad, ra.elevationRad);
       rec.addSatellite(k, entry, arc,
         withPhase ? s.phaseCycles * s.wavelengthM + roverTracker.codeClockStepsM - model - ra.phaseM : NaN,
@@ -670,12 +689,20 @@ class RoverReader {
         const mArc = b?.arcs.get(s.sat) ?? 0;
         const mPhase = mArc > 0 && rm.arc > 0 && Number.isFinite(rm.phaseM);
         const mEntry = this.furtherIndexOf(entry, s, m, rm.code);
-        rec.addSatellite(k, mEntry, mPhase ? this.sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0,
+        const mSdArc = mPhase ? this.sdArcOf(mEntry, mArc, rm.arc, s.sat) : 0;
+        if (mPhase) refPhaseM.set(mEntry, rm.phaseM);
+        rec.addSatellite(k, mEntry, mSdArc,
           mPhase ? m.phaseCycles * m.wavelengthM + roverTracker.codeClockStepsM - model - rm.phaseM : NaN,
           Number.isFinite(m.codeM) ? m.codeM - model - rm.codeM : NaN,
-          dx / rho, dy / rho, dz / rho, el, !((b?.halfCycle(s.sat) ?? false) || rm.halfCycle));
+          dx / rho, dy / rho, dz / rho, el, !((b?.halfCycle(s.sat) ?? false) || rm.halfCycle || this.halfCycleOff(mEntry, mSdArc)));
       }
     }
+  }
+
+  /** Whether the single-difference arc `arc` of a record entry is half a cycle off (restartTimeDifferencedSlips). */
+  private halfCycleOff(entry: number, arc: number): boolean {
+    const s = this.sdArcs.get(entry);
+    return arc > 0 && s !== undefined && s.id === arc && s.half;
   }
 
   /** The rover's Doppler velocity at epoch k (a moving epoch), when it can be found. */
@@ -690,17 +717,58 @@ class RoverReader {
   /**
    * The time-differenced test (time-differenced-slips.ts) of an epoch's phase single differences against the
    * previous epoch's of the same arcs: a slipped one starts a new arc, with every band of its satellite.
+   * A jump by an odd number of half cycles (the estimate rounded to the nearest half cycle) turns the
+   * slipped signal's ambiguity half-integer, or back: its arcs are not fixed while it is half a cycle off,
+   * as those of a receiver's half-cycle bit (arc-tracker.ts). A half-integer ambiguity fixed to an integer
+   * would put its double differences 0.5 cycle (9.5 cm on L1) off and the fixed position with them.
+   *
+   * Where the two epochs' reference values come from different reference epochs, one of them held across a
+   * gap in its logging (reference-phase.ts), their difference holds the change over the gap of the errors a reference
+   * epoch carries (orbits, satellite clocks, atmosphere: 0.25 to 0.35 cycle on the real static run at such
+   * switches after gaps of 14 to 24 s, on GLONASS most), which the test's noise model does not hold. The
+   * rover's own phase (the single differences with the reference's values added back: the same model
+   * without the reference, one receiver's noise) carries instead the change of those errors over the rover's
+   * interval: where that is the shorter time (a rover logging every second), it is tested first, with the
+   * quarter-cycle floor; then the single differences left, for the reference's slips over its gap, with a
+   * floor of half a cycle (SLIP_MIN_CYCLES_REFERENCE_SWITCH). (The rover's phase alone over a rover gap of
+   * 24 s, against a reference interpolated, showed jumps of 0.4 to 0.7 cycle on GLONASS: the same errors.)
    */
   private restartTimeDifferencedSlips(k: number): void {
-    const rec = this.rec, satellites = this.satellites;
+    const rec = this.rec;
     const p = this.previousRecord;
     const e = rec.indexOf(k);
     if (rec.satCount[e] === 0) return;
     this.previousRecord = k;
+    const prevFrom = this.previousRefFromGpsS, prevTo = this.previousRefToGpsS, from = this.refFromGpsS, to = this.refToGpsS;
+    this.previousRefFromGpsS = from; this.previousRefToGpsS = to;
+    const refNow = this.refPhaseM, refBefore = this.previousRefPhaseM;
+    this.previousRefPhaseM = refNow; this.refPhaseM = refBefore;
     if (p < 0) return;
     // The previous epoch with satellites is still in the chunk being recorded (EpochRecords.beginEpoch).
     const q = rec.indexOf(p);
     if (!(rec.timeGpsS[e] - rec.timeGpsS[q] <= 30)) return;
+    // Values interpolated at both epochs (one line through the reference's epochs, which runs on across
+    // them) or from a common reference epoch: the reference's errors change smoothly between the two epochs.
+    const interpolatedBoth = from !== to && prevFrom !== prevTo;
+    const sharedReference = interpolatedBoth || from === prevFrom || from === prevTo || to === prevFrom || to === prevTo;
+    if (sharedReference) { this.restartSlipped(e, q, null, SLIP_MIN_CYCLES); return; }
+    // Time over which the satellites' orbit and clock errors change unmodelled: the rover's interval for its
+    // phase alone; for the single differences, the change of the reference's offset from the rover's time
+    // (0 where interpolated, the age where held).
+    const offset = (t: number, a: number, b: number) => (a === b ? t - a : 0);
+    const roverSpanS = rec.timeGpsS[e] - rec.timeGpsS[q];
+    const differenceSpanS = Math.abs(offset(rec.timeGpsS[e], from, to) - offset(rec.timeGpsS[q], prevFrom, prevTo));
+    if (roverSpanS < differenceSpanS) this.restartSlipped(e, q, { now: refNow, before: refBefore }, SLIP_MIN_CYCLES);
+    this.restartSlipped(e, q, null, SLIP_MIN_CYCLES_REFERENCE_SWITCH);
+  }
+
+  /**
+   * One run of the time-differenced test between records e and q (restartTimeDifferencedSlips), on the
+   * single differences, or with `roverAlone` on the rover's phase (the reference's values of both epochs
+   * added back), with the floor `minCycles`; restarts the arcs of the slipped signals' satellites.
+   */
+  private restartSlipped(e: number, q: number, roverAlone: { now: ReadonlyMap<number, number>; before: ReadonlyMap<number, number> } | null, minCycles: number): void {
+    const rec = this.rec, satellites = this.satellites;
     const before = new Map<number, number>();
     for (let i = rec.satStart[q]; i < rec.satStart[q] + rec.satCount[q]; i++) if (rec.arc[i] > 0) before.set(rec.sat[i], i);
     // The previous epoch's single difference carried to this epoch's linearisation point:
@@ -711,24 +779,56 @@ class RoverReader {
     for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
       const i = before.get(rec.sat[j]);
       if (i === undefined || rec.arc[j] <= 0 || rec.arc[i] !== rec.arc[j] || rec.elevationRad[j] < this.maskRad || !Number.isFinite(rec.phaseM[j]) || !Number.isFinite(rec.phaseM[i])) continue;
+      // The reference's change between its epochs used, added back (rover alone): sd = rover - z.
+      const referenceChangeM = roverAlone ? (roverAlone.now.get(rec.sat[j]) ?? NaN) - (roverAlone.before.get(rec.sat[j]) ?? NaN) : 0;
+      if (!Number.isFinite(referenceChangeM)) continue;
       const info = satellites[rec.sat[j]];
       const carriedM = rec.phaseM[i] + rec.los[3 * i] * ddx + rec.los[3 * i + 1] * ddy + rec.los[3 * i + 2] * ddz;
+      // Two epochs of the single difference (two receivers), or of the rover alone.
+      const epochsOfReceivers = roverAlone ? 1 : 2;
       js.push(j);
       obs.push({
-        changeM: rec.phaseM[j] - carriedM, ux: rec.los[3 * j], uy: rec.los[3 * j + 1], uz: rec.los[3 * j + 2], group: info.group,
-        varianceM2: 2 * singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]), wavelengthM: info.wavelengthM,
+        changeM: rec.phaseM[j] - carriedM + referenceChangeM, ux: rec.los[3 * j], uy: rec.los[3 * j + 1], uz: rec.los[3 * j + 2], group: info.group,
+        varianceM2: epochsOfReceivers * singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]), wavelengthM: info.wavelengthM,
       });
     }
-    for (const o of findTimeDifferencedSlips(obs)) {
+    const jumpsM: number[] = [];
+    const verdict = { unexplained: false };
+    const slipped = findTimeDifferencedSlips(obs, jumpsM, minCycles, verdict);
+    for (let n = 0; n < slipped.length; n++) {
       this.timeDifferencedSlips++;
-      const sat = satellites[rec.sat[js[o]]].id;
-      for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
-        if (rec.arc[j] <= 0 || satellites[rec.sat[j]].id !== sat) continue;
-        const id = this.nextArc++;
-        rec.arc[j] = id;
-        const s = this.sdArcs.get(rec.sat[j]);
-        if (s) s.id = id;
+      const tested = rec.sat[js[slipped[n]]];
+      const oddHalf = Math.round(2 * jumpsM[n] / satellites[tested].wavelengthM) % 2 !== 0;
+      if (oddHalf) this.halfCycleSlips++;
+      this.restartSatellite(e, satellites[tested].id, oddHalf ? tested : -1);
+    }
+    // Left unexplained (time-differenced-slips.ts: several slips at once can hide one another), where the
+    // noise model holds: no arc tested can be vouched for.
+    if (verdict.unexplained && minCycles === SLIP_MIN_CYCLES) {
+      this.unexplainedEpochs++;
+      const restarted = new Set<SatId>();
+      for (const j of js) {
+        const sat = satellites[rec.sat[j]].id;
+        if (rec.arc[j] > 0 && !restarted.has(sat)) { restarted.add(sat); this.restartSatellite(e, sat, -1); }
       }
+    }
+  }
+
+  /**
+   * New arcs for every band of a satellite at record e; `halfEntry`: the signal table entry whose jump was
+   * an odd number of half cycles (its half-cycle state turns over), -1 for none.
+   */
+  private restartSatellite(e: number, sat: SatId, halfEntry: number): void {
+    const rec = this.rec, satellites = this.satellites;
+    for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
+      if (rec.arc[j] <= 0 || satellites[rec.sat[j]].id !== sat) continue;
+      const id = this.nextArc++;
+      rec.arc[j] = id;
+      const s = this.sdArcs.get(rec.sat[j]);
+      if (!s) continue;
+      s.id = id;
+      if (rec.sat[j] === halfEntry) s.half = !s.half;
+      if (s.half) rec.fixable[j] = 0;
     }
   }
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { findTimeDifferencedSlips, SLIP_W_CRITICAL, type TimeDifferencedPhase } from './time-differenced-slips.js';
+import { findTimeDifferencedSlips, SLIP_MIN_CYCLES_REFERENCE_SWITCH, SLIP_W_CRITICAL, type TimeDifferencedPhase } from './time-differenced-slips.js';
 
 const L1 = 299_792_458 / 1_575_420_000;
 
@@ -35,8 +35,24 @@ describe('time-differenced slip test (self-consistency on constructed time diffe
     expect(findTimeDifferencedSlips(epoch({ 1: -L1, 10: 2 * L1 }, [], true)).sort()).toEqual([1, 10]);
   });
 
-  it('a jump under half a cycle is not called a slip, even when significant', () => {
-    expect(findTimeDifferencedSlips(epoch({ 2: 0.3 * L1 }))).toEqual([]);
+  it('a jump under a quarter of a cycle (nearer none than half a cycle) is not called a slip, even when significant', () => {
+    expect(findTimeDifferencedSlips(epoch({ 2: 0.2 * L1 }))).toEqual([]);
+  });
+
+  it('half a cycle: found, with its estimated jump; across a switch of the reference epochs held, under half a cycle is not a slip', () => {
+    const jumps: number[] = [];
+    expect(findTimeDifferencedSlips(epoch({ 4: -0.5 * L1 }, [0.004, -0.003, 0.002, -0.005, 0.001, 0.003, -0.002, 0.004]), jumps)).toEqual([4]);
+    expect(Math.round(2 * jumps[0] / L1)).toBe(-1);
+    expect(findTimeDifferencedSlips(epoch({ 2: 0.4 * L1 }, [], true))).toEqual([2]);
+    expect(findTimeDifferencedSlips(epoch({ 2: 0.4 * L1 }, [], true), [], SLIP_MIN_CYCLES_REFERENCE_SWITCH)).toEqual([]);
+  });
+
+  it('what the w-tests cannot point at fails the global test: jumps under the floor on three satellites; none: passes', () => {
+    const verdict = { unexplained: false };
+    expect(findTimeDifferencedSlips(epoch({ 1: 0.2 * L1, 4: -0.2 * L1, 9: 0.2 * L1 }, [], true), [], undefined, verdict)).toEqual([]);
+    expect(verdict.unexplained).toBe(true);
+    expect(findTimeDifferencedSlips(epoch({}, [0.004, -0.003, 0.002, -0.005, 0.001, 0.003, -0.002, 0.004]), [], undefined, verdict)).toEqual([]);
+    expect(verdict.unexplained).toBe(false);
   });
 
   it('too few observations for two degrees of freedom: nothing tested', () => {

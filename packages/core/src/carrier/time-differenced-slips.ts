@@ -18,12 +18,27 @@
  * An observation is declared slipped when both
  *  - |w| > 4.42: a two-sided false-alarm rate of 1e-5 per test under that noise model (Baarda's alpha0 of
  *    0.001 would give some 800 false alarms in a day of 1 Hz data with ten satellites); and
- *  - the estimated jump e_i / r_i (r_i the redundancy number) is at least half a cycle: slips are whole
- *    cycles, or half cycles before the half-cycle ambiguity is resolved; a smaller jump is noise the model
- *    did not foresee (multipath, an interpolated reference phase), not a slip.
+ *  - the estimated jump e_i / r_i (r_i the redundancy number; Baarda's estimate of the bias) is at least a
+ *    quarter of a cycle: slips are whole cycles, or half cycles (a phase-locked loop that locks half a cycle
+ *    off, the receiver flagging it or not), so the jump is rounded to the nearest half cycle, and one
+ *    nearer zero than half a cycle is noise the model did not foresee (multipath, an interpolated reference
+ *    phase), not a slip. The jump's standard deviation (sigma_i / sqrt(r_i)) is some 0.05 cycle on L1 high
+ *    up, 0.1 cycle low down: a half-cycle slip is then found whatever the noise's sign, where a floor of
+ *    half a cycle missed about every other one.
+ * Where the reference's values of the two epochs come from different reference epochs held across a gap
+ * in its logging, the caller tests the rover's phase alone with this floor, and the single differences
+ * with a floor of half a cycle (solve-carrier-session.ts, restartTimeDifferencedSlips).
+ * The estimated jumps are given too: an odd number of half cycles leaves the new arc's ambiguity
+ * half-integer (the caller does not fix it).
+ * When no further observation can be pointed at, what is left is put to the global test (the sum of the
+ * squared residuals over their variances against chi-square at SLIP_GLOBAL_ALPHA, the w-test's rate: the
+ * detection step of Baarda's detection-identification-adaptation, Teunissen 2000, Testing theory, Delft
+ * University Press): several slips at one epoch (a canopy over the antenna) can hide one another from the
+ * w-tests, whose one-outlier model then points at unslipped satellites, and a failing global test says so
+ * (`verdict.unexplained`: the caller can vouch for none of the arcs tested).
  * At least two degrees of freedom must remain for a test (one can detect but not point at the outlier).
  */
-import { normalQuantile } from '../solve/distributions.js';
+import { chiSquareQuantile, normalQuantile } from '../solve/distributions.js';
 
 export interface TimeDifferencedPhase {
   /** Phase single difference at this epoch minus the previous one, both reduced by the model (m). */
@@ -41,14 +56,31 @@ export interface TimeDifferencedPhase {
 
 /** Two-sided critical value of the w-test at a false-alarm rate of 1e-5 per test (file comment). */
 export const SLIP_W_CRITICAL = normalQuantile(1 - 0.5e-5);
-/** The smallest jump declared a slip (cycles; file comment). */
-export const SLIP_MIN_CYCLES = 0.5;
+/** False-alarm rate of the global test of what is left (file comment): the w-test's, per epoch. */
+export const SLIP_GLOBAL_ALPHA = 1e-5;
+const globalCritical: number[] = [];
+
+/** chi-square quantile at 1 - SLIP_GLOBAL_ALPHA for `dof` degrees of freedom, kept per dof. */
+function globalCriticalValue(dof: number): number {
+  return globalCritical[dof] ??= chiSquareQuantile(1 - SLIP_GLOBAL_ALPHA, dof);
+}
+
+/** The smallest jump declared a slip (cycles): half way to the smallest slip, half a cycle (file comment). */
+export const SLIP_MIN_CYCLES = 0.25;
+/**
+ * The floor of the single differences where the reference epochs held differ between the two epochs: the
+ * change of the errors the reference carries over its logging gap is not in the noise model (file comment).
+ */
+export const SLIP_MIN_CYCLES_REFERENCE_SWITCH = 0.5;
 
 /**
  * Indices (into `obs`) of the time-differenced single differences that jumped (file comment), in the order
- * they were found. Fewer than 3 + groups + 2 observations: none can be tested.
+ * they were found; when `jumpsM` is given, the estimated jump of each (m, e_i / r_i at the fit that found
+ * it) is pushed to it in the same order; `minCycles`: the floor of a jump (SLIP_MIN_CYCLES, or
+ * SLIP_MIN_CYCLES_REFERENCE_SWITCH); `verdict`: told whether the global test of what is left failed (file
+ * comment). Fewer than 3 + groups + 2 observations: none can be tested.
  */
-export function findTimeDifferencedSlips(obs: readonly TimeDifferencedPhase[]): number[] {
+export function findTimeDifferencedSlips(obs: readonly TimeDifferencedPhase[], jumpsM?: number[], minCycles = SLIP_MIN_CYCLES, verdict?: { unexplained: boolean }): number[] {
   // Plain loops and arrays built by push (not map or forEach): one array shape at each use for the
   // optimised code of this function, called every epoch.
   const active: number[] = [];
@@ -83,7 +115,7 @@ export function findTimeDifferencedSlips(obs: readonly TimeDifferencedPhase[]): 
     const x = new Float64Array(nu);
     for (let p = 0; p < nu; p++) for (let q = 0; q < nu; q++) x[p] += inv[p * nu + q] * b[q];
     // Residuals, their variances Q_e = Q_y - A N^-1 A', the w-test and the estimated jump.
-    let worst = -1, worstW = 0;
+    let worst = -1, worstW = 0, worstJumpM = 0, weightedSquaresSum = 0;
     for (let r = 0; r < active.length; r++) {
       const a = rows[r], o = obs[active[r]];
       let fit = 0, qa = 0;
@@ -93,14 +125,19 @@ export function findTimeDifferencedSlips(obs: readonly TimeDifferencedPhase[]): 
         for (let q = 0; q < nu; q++) qa += a[p] * inv[p * nu + q] * a[q];
       }
       const e = o.changeM - fit;
+      weightedSquaresSum += (e * e) / o.varianceM2;
       const qe = o.varianceM2 - qa;
       const redundancy = qe / o.varianceM2;
       if (!(redundancy > 0.01)) continue;
       const w = Math.abs(e) / Math.sqrt(qe);
-      if (w > SLIP_W_CRITICAL && Math.abs(e / redundancy) >= SLIP_MIN_CYCLES * o.wavelengthM && w > worstW) { worst = r; worstW = w; }
+      if (w > SLIP_W_CRITICAL && Math.abs(e / redundancy) >= minCycles * o.wavelengthM && w > worstW) { worst = r; worstW = w; worstJumpM = e / redundancy; }
     }
-    if (worst < 0) return slipped;
+    if (worst < 0) {
+      if (verdict) verdict.unexplained = weightedSquaresSum > globalCriticalValue(active.length - nu);
+      return slipped;
+    }
     slipped.push(active[worst]);
+    if (jumpsM) jumpsM.push(worstJumpM);
     active.splice(worst, 1);
   }
 }
