@@ -9,7 +9,9 @@
  *    distance, let GLONASS-only fixes 1 m off through while the other pass's float put them at chi-square
  *    20 to 90 on the real static run);
  *  - otherwise float: the two float solutions weighted by their covariances (the combination of a
- *    forward and a backward filter, Fraser & Potter 1969, shares only the epoch's own measurements);
+ *    forward and a backward filter, Fraser & Potter 1969, shares only the epoch's own measurements),
+ *    with the spread of the two in the covariance when they contradict each other (addSpread), and no
+ *    ratio when a pass's fix was not taken;
  *  - one pass only: that pass's solution.
  * An epoch's residuals (EpochResult.residualM) and innovation test (chiSquare, dof) come from the pass whose
  * solution it carries: forward when
@@ -100,25 +102,50 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
   }
   if (kf !== kb) {
     const [fx, fl] = kf === 2 ? [f, bFloat] : [bFixed, fFloat];
-    if (consistentWithFloat(fx, fl)) {
+    if (consistent(fx, fl)) {
       if (kf !== 2) { set(2, b.position, b.covariance, 0, 0); r.fixedAmbiguities[i] = b.fixedAmbiguities; }
       return kf === 2 ? 1 : 2;
     }
   }
   // Float: covariance-weighted mean of the two float solutions (no fixed ambiguity).
   r.fixedAmbiguities[i] = 0;
+  // A pass's fix was not taken: its ratio no longer describes the epoch (a ratio >= the threshold, or
+  // the held fix's 10000, on a float row would pass a filter on the ratio).
+  if (kf === 2 || kb === 2) r.ratio[i] = NaN;
   const m = weightedMean(fFloat, bFloat);
   if (!m) { set(1, r.floatPosition, r.floatCovariance, 3 * i, 6 * i); return from; }
+  // Both passes fixed, a few centimetres each, and disagreed: one fix is wrong, and which one the floats
+  // cannot tell (a pass holding its integers is as sure of its float as of its fix, while the other's
+  // may have just started): the two fixes' spread. Otherwise the floats' own when they contradict.
+  if (kf === 2 && kb === 2) addSpread(m.c, f, bFixed);
+  else if (!consistent(fFloat, bFloat)) addSpread(m.c, fFloat, bFloat);
   set(1, m.x, m.c, 0, 0);
   return from;
 }
 
 /**
- * Whether a fixed position is consistent with the other pass's float one: the squared Mahalanobis distance
- * of their difference with the sum of their covariances within chi-square(3 dof) at FIX_FLOAT_ALPHA. The
- * two passes share the epoch's own measurements only, so the sum is close to the difference's covariance.
+ * Two passes' float solutions that contradict each other (their difference fails the chi-square test
+ * with the sum of their covariances, as `consistent`): each pass holding ambiguities that the
+ * other contradicts (both fixed, disagreeing: a float filter conditioned on held integers is as sure as
+ * the fix) would give their mean millimetre sigmas for a position metres off. The mean's covariance
+ * then takes the spread of the two: one of two equally likely candidates x +- D/2 has covariance
+ * D D' / 4 about their mean (the variance of a two-point distribution; common practice for inconsistent
+ * estimates, cf. scaling a weighted mean's uncertainty by its external consistency, Birge 1932).
  */
-function consistentWithFloat(fx: Solution, fl: Solution): boolean {
+function addSpread(c: number[], a: Solution, b: Solution): void {
+  const d = [a.position[3 * a.i] - b.position[3 * b.i], a.position[3 * a.i + 1] - b.position[3 * b.i + 1], a.position[3 * a.i + 2] - b.position[3 * b.i + 2]];
+  // Symmetric 3x3 stored as [xx xy xz yy yz zz].
+  c[0] += 0.25 * d[0] * d[0]; c[1] += 0.25 * d[0] * d[1]; c[2] += 0.25 * d[0] * d[2];
+  c[3] += 0.25 * d[1] * d[1]; c[4] += 0.25 * d[1] * d[2]; c[5] += 0.25 * d[2] * d[2];
+}
+
+/**
+ * Whether two solutions are consistent (a pass's fixed position with the other pass's float one, or the
+ * two passes' float ones): the squared Mahalanobis distance of their difference with the sum of their
+ * covariances within chi-square(3 dof) at FIX_FLOAT_ALPHA. The two passes share the epoch's own
+ * measurements only, so the sum is close to the difference's covariance.
+ */
+function consistent(fx: Solution, fl: Solution): boolean {
   const o = 6 * fx.i, p = 6 * fl.i;
   const w = inv3([fx.covariance[o] + fl.covariance[p], fx.covariance[o + 1] + fl.covariance[p + 1], fx.covariance[o + 2] + fl.covariance[p + 2],
     fx.covariance[o + 3] + fl.covariance[p + 3], fx.covariance[o + 4] + fl.covariance[p + 4], fx.covariance[o + 5] + fl.covariance[p + 5]], 0);
