@@ -85,4 +85,18 @@ describe('phase arcs', () => {
     expect(a.update(10, epoch(10)).get('G01')).toBe(first.get('G01'));
     expect(a.causes).toMatchObject({ absent: 1, gap: 0, doppler: 0 });
   });
+
+  it('a satellite the file still lists but the solution left out for a while (blank code, no ephemeris) keeps its arc; one the file stopped listing does not', () => {
+    const a = new ArcTracker(30);
+    const all = epoch(0).map((s) => s.sat);
+    const first = a.update(0, epoch(0), all);
+    // G02 listed at 1 and 2 s (its code blank: not among the satellites solved), back at 3 s
+    a.update(1, epoch(1).filter((s) => s.sat !== 'G02'), all);
+    a.update(2, epoch(2).filter((s) => s.sat !== 'G02'), all);
+    expect(a.update(3, epoch(3), all).get('G02')).toBe(first.get('G02'));
+    // G02 not listed at 4 s: absent, a new arc at 5 s
+    a.update(4, epoch(4).filter((s) => s.sat !== 'G02'), all.filter((s) => s !== 'G02'));
+    expect(a.update(5, epoch(5), all).get('G02')).not.toBe(first.get('G02'));
+    expect(a.causes).toMatchObject({ absent: 1, doppler: 0, codeMinusPhase: 0 });
+  });
 });

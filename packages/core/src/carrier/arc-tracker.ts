@@ -8,8 +8,11 @@
  *  - the satellite's return after it was absent from one or more of the receiver's epochs (the receiver
  *    recorded other satellites but not this one, so it did not track it: its phase has no more continuity
  *    than a blank one, and a tracking loop that reacquires a signal starts its cycle count anew, flagged or
- *    not). Gaps of the whole receiver (every satellite missing, as in irregular logging or under a bridge)
- *    are no such sign: the Doppler test and the time-differenced test (time-differenced-slips.ts) span them;
+ *    not). Absent means not listed in the file's epoch at all: a satellite listed but left out of the
+ *    solution for a while (blank code, no ephemeris) was tracked, and its return is judged by the tests
+ *    below (update's `listed`). Gaps of the whole receiver (every satellite missing, as in irregular
+ *    logging or under a bridge) are no such sign: the Doppler test and the time-differenced test
+ *    (time-differenced-slips.ts) span them;
  *  - time-differenced phase against the Doppler: the phase change between epochs predicted by the mean
  *    Doppler (trapezoid rule; RINEX: Doppler positive for approaching satellites, phase grows with
  *    range), in metres, less the median over the epoch's satellites (so a receiver clock step common to
@@ -62,6 +65,9 @@ export class ArcTracker {
   codeClockStepsM = 0;
   /** Time of the previous epoch given to update (NaN before the first). */
   private previousEpochGpsS = NaN;
+  /** Per satellite, the last epoch whose file listed it, and the first of its current run of listed epochs. */
+  private readonly lastListedGpsS = new Map<SatId, number>();
+  private readonly listedSinceGpsS = new Map<SatId, number>();
 
   constructor(private readonly maxGapS: number) {
     keepShape(this);
@@ -69,10 +75,13 @@ export class ArcTracker {
 
   /**
    * Arc number per satellite for one epoch (0 for a satellite without usable phase). `tGpsS` is the
-   * epoch's estimated GPS time.
+   * epoch's estimated GPS time; `listed`, the satellites the file's epoch lists (of the systems read),
+   * also those left out of `sats` (blank code, no ephemeris); when null, those of `sats`.
    */
-  update(tGpsS: number, sats: readonly ArcInput[]): Map<SatId, number> {
+  update(tGpsS: number, sats: readonly ArcInput[], listed: readonly SatId[] | null = null): Map<SatId, number> {
     const out = new Map<SatId, number>();
+    if (listed === null) for (const s of sats) this.noteListed(s.sat, tGpsS);
+    else for (const sat of listed) this.noteListed(sat, tGpsS);
     // Doppler test residuals (m) for the common-mode removal.
     const dopplerResidual = new Map<SatId, number>();
     for (const s of sats) {
@@ -107,7 +116,7 @@ export class ArcTracker {
         if ((s.lli & 1) !== 0) { slip = true; this.causes.lli++; }
         else if (half !== prev.halfCycle) { slip = true; this.causes.halfCycle++; }
         else if (!(dt > 0) || dt > this.maxGapS) { slip = true; this.causes.gap++; }
-        else if (prev.tGpsS < this.previousEpochGpsS) { slip = true; this.causes.absent++; }
+        else if (this.listedSinceGpsS.get(s.sat)! > prev.tGpsS) { slip = true; this.causes.absent++; }
         else {
           const r = dopplerResidual.get(s.sat);
           if (r !== undefined && dopplerResidual.size >= 2 && Math.abs(r - common) > (1 + 0.2 * dt) * s.wavelengthM) { slip = true; this.causes.doppler++; }
@@ -124,6 +133,13 @@ export class ArcTracker {
     // Satellites not in this epoch keep their state: the gap and absence tests decide on their return.
     this.previousEpochGpsS = tGpsS;
     return out;
+  }
+
+  /** Records that the epoch at tGpsS lists `sat`: a run of listed epochs starts where the previous epoch did not list it. */
+  private noteListed(sat: SatId, tGpsS: number): void {
+    const last = this.lastListedGpsS.get(sat);
+    if (last === undefined || last < this.previousEpochGpsS) this.listedSinceGpsS.set(sat, tGpsS);
+    this.lastListedGpsS.set(sat, tGpsS);
   }
 
   /** Whether the satellite's current arc still carries an unresolved half cycle (not to be fixed). */

@@ -47,6 +47,8 @@ export interface ReceiverEpoch {
   /** Receiver clock offset times c (m) from the code at the given position. */
   readonly clockM: number;
   readonly sats: ReceiverSat[];
+  /** Every satellite the file's epoch lists, of the systems read (also those not in `sats`: no signal, no ephemeris). */
+  readonly listed: SatId[];
 }
 
 export interface ReceiverContext {
@@ -163,9 +165,11 @@ function receiverClockM(sats: readonly ReceiverSat[], tagGpsS: number, atM: Ecef
  */
 export function prepareReceiverEpoch(e: ObsEpoch, ctx: ReceiverContext, atM: EcefM, clockGuessM: number): ReceiverEpoch {
   const sats: ReceiverSat[] = [];
+  const listed: SatId[] = [];
   for (const s of e.sats) {
     const system = satSystem(s.sat);
     if (!ctx.systems.includes(system)) continue;
+    listed.push(s.sat);
     const sig = chooseSignal(system, s);
     if (sig === null) continue;
     const code = sig.code;
@@ -197,5 +201,5 @@ export function prepareReceiverEpoch(e: ObsEpoch, ctx: ReceiverContext, atM: Ece
   // A clock far from the guess (first epoch, a millisecond step): redo the Earth rotation with it.
   if (Number.isFinite(clockM) && Math.abs(clockM - guess) > 30) clockM = receiverClockM(sats, e.tagGpsS, atM, clockM);
   const timeGpsS = e.tagGpsS - (Number.isFinite(clockM) ? clockM / SPEED_OF_LIGHT_MS : 0);
-  return { tagGpsS: e.tagGpsS, timeGpsS, clockM, sats };
+  return { tagGpsS: e.tagGpsS, timeGpsS, clockM, sats, listed };
 }

@@ -536,7 +536,7 @@ class RoverReader {
       let tr = trackers.get(band);
       if (!tr) trackers.set(band, (tr = new ArcTracker(30)));
       const t = tr;
-      out.set(band, { arcs: t.update(ep.timeGpsS, list), halfCycle: (sat) => t.halfCycleUnresolved(sat) });
+      out.set(band, { arcs: t.update(ep.timeGpsS, list, ep.listed), halfCycle: (sat) => t.halfCycleUnresolved(sat) });
     }
     return out;
   }
@@ -556,7 +556,7 @@ class RoverReader {
       refSeen.positioned++;
       this.refClockM = ep.clockM;
       if (this.refCal) applyAntenna(ep, this.refArp, this.refGeo, this.refCal);
-      const arcs = refTracker.update(ep.timeGpsS, ep.sats);
+      const arcs = refTracker.update(ep.timeGpsS, ep.sats, ep.listed);
       refBuffer.add(reduceReferenceEpoch(ep, this.refArp, this.refGeo, arcs, (sat) => refTracker.halfCycleUnresolved(sat), refTracker.codeClockStepsM, this.furtherArcs(this.refBandTrackers, ep)));
     }
   }
@@ -589,7 +589,7 @@ class RoverReader {
     roverSeen.positioned++;
     const t = ep.timeGpsS;
     if (this.roverCal) applyAntenna(ep, this.x0, ecefToGeodetic(this.x0), this.roverCal);
-    const arcs = roverTracker.update(t, ep.sats);
+    const arcs = roverTracker.update(t, ep.sats, ep.listed);
     const roverFurther = this.furtherArcs(this.roverBandTrackers, ep);
     await this.pullReference(t, feed);
     this.refBuffer.prune(t);
