@@ -61,6 +61,9 @@ describeShared('refdelta solve with carrier phase on the real static run', () =>
     // Most epochs after the first fix rest on the held ambiguities (fix-and-hold).
     expect(held.length).toBeGreaterThan(fixed.length / 2);
     expect(held.every((r) => r.ratio === '10000.00')).toBe(true);
+    // Held ambiguities describe fixed epochs only, and no float epoch passes a filter on the ratio.
+    expect(held.every((r) => r.solution === 'fixed')).toBe(true);
+    expect(rows.filter((r) => r.solution === 'float' && r.ratio !== '' && Number(r.ratio) >= 3)).toEqual([]);
     expect(rows.every((r) => r.ambiguities_held === '0' || r.ambiguities_held === '1')).toBe(true);
   });
 

@@ -37,10 +37,13 @@ export function epochTableColumns(systems: readonly GnssSystem[]): string[] {
 function carrierCells(s: EpochSolution): string[] {
   const c = s as EpochSolution & { ratio?: number; fixedAmbiguities?: number };
   if (c.fixedAmbiguities === undefined) return ['', '', ''];
-  const ratio = c.ratio ?? NaN;
+  // Held ambiguities describe a fixed epoch only: a float one whose pass held them but could not apply
+  // the fix (or whose fix was not taken) has no ratio to show.
+  const held = c.ratio === Infinity && s.kind === 'fixed';
+  const ratio = c.ratio === Infinity && !held ? NaN : c.ratio ?? NaN;
   // NaN: no search ran and nothing was held (a float epoch with too few ambiguities), an empty cell.
   const ratioCell = Number.isNaN(ratio) ? '' : Math.min(ratio, RATIO_CAP).toFixed(2);
-  return [ratioCell, String(c.fixedAmbiguities), ratio === Infinity ? '1' : '0'];
+  return [ratioCell, String(c.fixedAmbiguities), held ? '1' : '0'];
 }
 
 /** A frame epoch as a CSV cell: the decimal year as a number, '' when not stated. */
