@@ -1,5 +1,5 @@
 /** The Node adapter: atomic writes, hashes, overlap rule. */
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, readlinkSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -152,18 +152,23 @@ describe('time overlap', () => {
 describe('observation files are closed when their reading is given up (Linux: open descriptors counted in /proc/self/fd)', () => {
   const fdDir = '/proc/self/fd';
   const canCount = existsSync(fdDir);
-  const openFds = () => readdirSync(fdDir).length;
   const demo = (f: string) => join(__dirname, '..', 'fixtures', 'demo', f);
-  /** Open descriptors left after `times` calls of `use` (a stream left open keeps one each). */
-  const leftOpen = async (use: () => Promise<void>, times = 6) => {
-    const before = openFds();
+  /** Descriptors open on files under `dir` (other descriptors of the test process come and go). */
+  const openIn = (dir: string) => readdirSync(fdDir).filter((fd) => { try { return readlinkSync(join(fdDir, fd)).startsWith(dir); } catch { return false; } }).length;
+  /**
+   * Descriptors on files under `dir` left after `times` calls of `use` (a stream left open keeps one
+   * each). Closing is asynchronous: waits until they are gone, at most 2 s.
+   */
+  const leftOpen = async (dir: string, use: () => Promise<void>, times = 6) => {
     for (let i = 0; i < times; i++) await use();
-    await new Promise((r) => setTimeout(r, 50)); // closing is asynchronous
-    return openFds() - before;
+    for (let waitedMs = 0; openIn(dir) > 0 && waitedMs < 2000; waitedMs += 20) await new Promise((r) => setTimeout(r, 20));
+    return openIn(dir);
   };
 
   it.skipIf(!canCount)('a header read alone, a loop left by break, a gzip file, a file that fails in its header or is not text: none keeps its file open', async () => {
     const d = dir();
+    const rover = join(d, 'rover.obs');
+    writeFileSync(rover, readFileSync(demo('rover-1s.obs')));
     const gz = join(d, 'rover.obs.gz');
     writeFileSync(gz, gzipSync(readFileSync(demo('rover-1s.obs'))));
     const headerOnly = join(d, 'header-only.obs');
@@ -176,15 +181,15 @@ describe('observation files are closed when their reading is given up (Linux: op
       for await (const e of s.epochs) if (e && ++n >= 3) break;
     };
     const failing = (p: string) => async () => { await openObs(p, () => {}).then(async (s) => { for await (const e of s.epochs) void e; }, () => undefined); };
-    expect(await leftOpen(async () => { await obsHeaderOf(demo('rover-1s.obs')); })).toBe(0);
-    expect(await leftOpen(() => firstEpochs(demo('rover-1s.obs')))).toBe(0);
-    expect(await leftOpen(async () => { await obsHeaderOf(gz); })).toBe(0);
-    expect(await leftOpen(() => firstEpochs(gz))).toBe(0);
-    expect(await leftOpen(failing(headerOnly))).toBe(0);
-    expect(await leftOpen(failing(binary))).toBe(0);
+    expect(await leftOpen(d, async () => { await obsHeaderOf(rover); })).toBe(0);
+    expect(await leftOpen(d, () => firstEpochs(rover))).toBe(0);
+    expect(await leftOpen(d, async () => { await obsHeaderOf(gz); })).toBe(0);
+    expect(await leftOpen(d, () => firstEpochs(gz))).toBe(0);
+    expect(await leftOpen(d, failing(headerOnly))).toBe(0);
+    expect(await leftOpen(d, failing(binary))).toBe(0);
     // the check itself: a stream opened and never read nor closed keeps its file open
     const kept: unknown[] = [];
-    expect(await leftOpen(async () => { kept.push(await openObs(demo('rover-1s.obs'), () => {})); }, 3)).toBe(3);
+    expect(await leftOpen(d, async () => { kept.push(await openObs(rover, () => {})); }, 3)).toBe(3);
     for (const s of kept as { close?: () => Promise<void> }[]) await s.close?.();
   });
 });

@@ -193,7 +193,8 @@ export async function stageSolve(a: SolveArgs, rep: Reporter, hooks: SolveHooks 
       return s;
     });
   } finally {
-    await Promise.all(opened.map((s) => s.close?.()));
+    // allSettled: a file that fails to close must not hide the run's own error.
+    await Promise.allSettled(opened.map((s) => s.close?.()));
   }
 }
 
