@@ -38,7 +38,8 @@
  * (`verdict.unexplained`: the caller can vouch for none of the arcs tested).
  * At least two degrees of freedom must remain for a test (one can detect but not point at the outlier).
  */
-import { chiSquareQuantile, normalQuantile } from '../solve/distributions.js';
+import { normalQuantile } from '../solve/distributions.js';
+import { globalTest } from '../solve/tests.js';
 
 export interface TimeDifferencedPhase {
   /** Phase single difference at this epoch minus the previous one, both reduced by the model (m). */
@@ -56,14 +57,13 @@ export interface TimeDifferencedPhase {
 
 /** Two-sided critical value of the w-test at a false-alarm rate of 1e-5 per test (file comment). */
 export const SLIP_W_CRITICAL = normalQuantile(1 - 0.5e-5);
-/** False-alarm rate of the global test of what is left (file comment): the w-test's, per epoch. */
+/**
+ * False-alarm rate of the global test of what is left (file comment): the w-test's, per epoch. Not the
+ * B-method's coupled level (solve/b-method.ts), which for 5 to 15 degrees of freedom is 30 to 550 times
+ * larger (3e-4 to 5.5e-3): a failing global test here restarts every arc tested, so its false alarms are held to the
+ * rate of the w-tests' (about one a day at 1 Hz) rather than matched to their power.
+ */
 export const SLIP_GLOBAL_ALPHA = 1e-5;
-const globalCritical: number[] = [];
-
-/** chi-square quantile at 1 - SLIP_GLOBAL_ALPHA for `dof` degrees of freedom, kept per dof. */
-function globalCriticalValue(dof: number): number {
-  return globalCritical[dof] ??= chiSquareQuantile(1 - SLIP_GLOBAL_ALPHA, dof);
-}
 
 /** The smallest jump declared a slip (cycles): half way to the smallest slip, half a cycle (file comment). */
 export const SLIP_MIN_CYCLES = 0.25;
@@ -133,7 +133,7 @@ export function findTimeDifferencedSlips(obs: readonly TimeDifferencedPhase[], j
       if (w > SLIP_W_CRITICAL && Math.abs(e / redundancy) >= minCycles * o.wavelengthM && w > worstW) { worst = r; worstW = w; worstJumpM = e / redundancy; }
     }
     if (worst < 0) {
-      if (verdict) verdict.unexplained = weightedSquaresSum > globalCriticalValue(active.length - nu);
+      if (verdict) verdict.unexplained = !globalTest(weightedSquaresSum, active.length - nu, SLIP_GLOBAL_ALPHA).passed;
       return slipped;
     }
     slipped.push(active[worst]);
