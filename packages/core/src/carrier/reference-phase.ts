@@ -10,7 +10,8 @@
  *    weight for every satellite of the rover epoch (so the reference clock, interpolated alike for all,
  *    cancels between satellites), when the pair is at most 2 nominal intervals apart and the satellite has
  *    the same arc at both (never across a slip or a gap in the reference's logging);
- *  - otherwise from the nearest single epoch within `maxAgeS`, again common to all satellites.
+ *  - otherwise from the nearest single epoch within `maxAgeS`, again common to all satellites, across a gap
+ *    in the reference's logging; before its first epoch and after its last, within one logging interval.
  * Between satellites (double differences) the reference clock cancels exactly either way; the error left
  * is the change over the interval of the orbit, satellite-clock and atmospheric errors: millimetres for a
  * few seconds.
@@ -178,6 +179,12 @@ export class ReferencePhaseBuffer {
     const near = d0 <= d1 ? e0 : e1;
     const age = Math.min(d0, d1);
     if (!near || age > this.maxAgeS) return null;
+    // Held values bridge a gap in the reference's logging (an epoch on each side). Before its first epoch
+    // or after its last (the caller reads the reference until an epoch beyond the rover's time or its
+    // end: no later epoch means the data ended) there is no gap to bridge: a rover epoch there is not
+    // given values older than one logging interval. A pass starting there would begin its ambiguities on
+    // the oldest values carried, whose change over the age the phase variance does not hold.
+    if ((e0 === null || e1 === null) && age > this.nominalS + 1e-3) return null;
     for (const [sat, a] of near.sats) sats.set(sat, a);
     return { sats, ageS: age, interpolated: false, fromGpsS: near.timeGpsS, toGpsS: near.timeGpsS };
   }

@@ -594,7 +594,13 @@ class RoverReader {
     await this.pullReference(t, feed);
     this.refBuffer.prune(t);
     const al = this.refBuffer.align(t, ep.sats.some((s) => s.more.length > 0));
-    if (!al) { rec.beginEpoch(t, e.tagGpsS, this.x0, isStatic, NaN, context); return `no reference epoch within ${this.maxReferenceAgeS} s`; }
+    if (!al) {
+      rec.beginEpoch(t, e.tagGpsS, this.x0, isStatic, NaN, context);
+      // Past the reference's last epoch (its files read to the end) or before its first: said so (reference-phase.ts).
+      if (this.refDone && t > this.refBuffer.latestTimeGpsS) return 'after the reference\'s last epoch';
+      if (!(t >= this.refSeen.firstGpsS)) return 'before the reference\'s first epoch';
+      return `no reference epoch within ${this.maxReferenceAgeS} s`;
+    }
     this.epochsWithReference++;
     const both = commonSatellites(ep, al);
     const doy = dayOfYear(t);
