@@ -10,8 +10,8 @@
  *    20 to 90 on the real static run);
  *  - otherwise float: the two float solutions weighted by their covariances (the combination of a
  *    forward and a backward filter, Fraser & Potter 1969, shares only the epoch's own measurements),
- *    with the spread of the two in the covariance when they contradict each other (addSpread), and no
- *    ratio when a pass's fix was not taken;
+ *    their covariance scaled when they contradict each other (scaleByConsistency), the two fixes' spread
+ *    in it when both passes fixed and disagree (addSpread), and no ratio when a pass's fix was not taken;
  *  - one pass only: that pass's solution.
  * An epoch's residuals (EpochResult.residualM) and innovation test (chiSquare, dof) come from the pass whose
  * solution it carries: forward when
@@ -118,19 +118,17 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
   // cannot tell (a pass holding its integers is as sure of its float as of its fix, while the other's
   // may have just started): the two fixes' spread. Otherwise the floats' own when they contradict.
   if (kf === 2 && kb === 2) addSpread(m.c, f, bFixed);
-  else if (!consistent(fFloat, bFloat)) addSpread(m.c, fFloat, bFloat);
+  else scaleByConsistency(m.c, fFloat, bFloat);
   set(1, m.x, m.c, 0, 0);
   return from;
 }
 
 /**
- * Two passes' float solutions that contradict each other (their difference fails the chi-square test
- * with the sum of their covariances, as `consistent`): each pass holding ambiguities that the
- * other contradicts (both fixed, disagreeing: a float filter conditioned on held integers is as sure as
- * the fix) would give their mean millimetre sigmas for a position metres off. The mean's covariance
- * then takes the spread of the two: one of two equally likely candidates x +- D/2 has covariance
- * D D' / 4 about their mean (the variance of a two-point distribution; common practice for inconsistent
- * estimates, cf. scaling a weighted mean's uncertainty by its external consistency, Birge 1932).
+ * Both passes fixed and disagreeing: each pass's float filter, conditioned on the integers it holds, is
+ * as sure as its fix, so the mean of the floats would carry millimetre sigmas for a position metres off.
+ * Which fix is wrong the data at hand cannot tell: the mean's covariance takes the spread of the two
+ * fixes, one of two equally likely candidates x +- D/2 having covariance D D' / 4 about their mean (the
+ * variance of a two-point distribution).
  */
 function addSpread(c: number[], a: Solution, b: Solution): void {
   const d = [a.position[3 * a.i] - b.position[3 * b.i], a.position[3 * a.i + 1] - b.position[3 * b.i + 1], a.position[3 * a.i + 2] - b.position[3 * b.i + 2]];
@@ -140,19 +138,37 @@ function addSpread(c: number[], a: Solution, b: Solution): void {
 }
 
 /**
+ * Two float solutions that contradict each other (a pass just started, its float not yet converged and
+ * over-confident, against one that has held its integers for a while): the weighted mean's covariance is
+ * scaled by their external consistency, T / 3 with T = D' (C_a + C_b)^-1 D, when above 1 (Birge 1932,
+ * Phys. Rev. 40, 207: the ratio of the external to the internal error of a weighted mean; the scale
+ * factor of inconsistent measurements, common practice). The mean stays where the weights put it.
+ */
+function scaleByConsistency(c: number[], a: Solution, b: Solution): void {
+  const t = mahalanobis2(a, b);
+  if (!(t > 3)) return;
+  for (let k = 0; k < 6; k++) c[k] *= t / 3;
+}
+
+/** D' (C_a + C_b)^-1 D for the difference D of two solutions (Infinity when the sum is singular). */
+function mahalanobis2(fx: Solution, fl: Solution): number {
+  const o = 6 * fx.i, p = 6 * fl.i;
+  const w = inv3([fx.covariance[o] + fl.covariance[p], fx.covariance[o + 1] + fl.covariance[p + 1], fx.covariance[o + 2] + fl.covariance[p + 2],
+    fx.covariance[o + 3] + fl.covariance[p + 3], fx.covariance[o + 4] + fl.covariance[p + 4], fx.covariance[o + 5] + fl.covariance[p + 5]], 0);
+  if (!w) return Infinity;
+  const d = [fx.position[3 * fx.i] - fl.position[3 * fl.i], fx.position[3 * fx.i + 1] - fl.position[3 * fl.i + 1], fx.position[3 * fx.i + 2] - fl.position[3 * fl.i + 2]];
+  const wd = mulSym(w, d);
+  return d[0] * wd[0] + d[1] * wd[1] + d[2] * wd[2];
+}
+
+/**
  * Whether two solutions are consistent (a pass's fixed position with the other pass's float one, or the
  * two passes' float ones): the squared Mahalanobis distance of their difference with the sum of their
  * covariances within chi-square(3 dof) at FIX_FLOAT_ALPHA. The two passes share the epoch's own
  * measurements only, so the sum is close to the difference's covariance.
  */
 function consistent(fx: Solution, fl: Solution): boolean {
-  const o = 6 * fx.i, p = 6 * fl.i;
-  const w = inv3([fx.covariance[o] + fl.covariance[p], fx.covariance[o + 1] + fl.covariance[p + 1], fx.covariance[o + 2] + fl.covariance[p + 2],
-    fx.covariance[o + 3] + fl.covariance[p + 3], fx.covariance[o + 4] + fl.covariance[p + 4], fx.covariance[o + 5] + fl.covariance[p + 5]], 0);
-  if (!w) return false;
-  const d = [fx.position[3 * fx.i] - fl.position[3 * fl.i], fx.position[3 * fx.i + 1] - fl.position[3 * fl.i + 1], fx.position[3 * fx.i + 2] - fl.position[3 * fl.i + 2]];
-  const wd = mulSym(w, d);
-  return d[0] * wd[0] + d[1] * wd[1] + d[2] * wd[2] <= FIX_FLOAT_CRITICAL;
+  return mahalanobis2(fx, fl) <= FIX_FLOAT_CRITICAL;
 }
 
 /**
