@@ -12,7 +12,7 @@ import {
 import { AtomicFile, OutputSet, openNav, openObs as openObsOfFile, requireFile, sha256File, type OpenedObs } from '../node-io.js';
 import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence, requireObservationTypes } from '../input-sanity.js';
-import { obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeSpan } from '../input-checks.js';
+import { BASE_CORS_ROLES, obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
 import { referenceSigmaOf } from '../reference-sigma.js';
 import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie.js';
@@ -254,6 +254,15 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
       throw new InputError(referencePaths[0]!, 0, noEpochSentence(`the reference file${referencePaths.length > 1 ? 's' : ''} ${referencePaths.join(', ')}`, refProbeWarnings, referencePaths.length > 1));
     }
     requireOverlap({ path: a.rover, span: roverSpan }, refSpans);
+  }
+  if (tieFiles.length && refSpans.length) {
+    // The base is tied to the CORS over their common time: the CORS files must overlap the base's file.
+    const corsSpans: { path: string; span: TimeSpan }[] = [];
+    for (const p of tieFiles) {
+      const sp = await obsTimeSpan(p, (await openObs(p, () => {})).header);
+      if (sp) corsSpans.push({ path: p, span: sp });
+    }
+    if (corsSpans.length) requireOverlap({ path: refSpans[0]!.path, span: refSpans[0]!.span }, corsSpans, BASE_CORS_ROLES);
   }
 
   rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: referencePaths, nav: a.nav, out: outDir, mode: singleReceiver ? 'standalone' : 'differential' });
