@@ -19,6 +19,7 @@ import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie
 import type { ReferenceSigma, WindowPointNames } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
 import { checkReferencePosition } from '../reference-position.js';
+import { distinctReferencePaths, requireOneStation } from '../reference-station.js';
 import { completenessJson, dataLost, roverEndsEarly, unsolvedEpochs, type DataLost, type Unsolved } from '../run-completeness.js';
 import {
   OUTPUT_FILE_NAMES, parseAntennaHeights, parseOutputs, parseSessionOptions, withHeight,
@@ -213,7 +214,9 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   const heights = parseAntennaHeights(a);
   const kinds = parseOutputs(a.outputs);
   if (kinds.includes('dxf') && (hooks.command ?? 'solve') === 'solve') throw new UsageError('--outputs dxf holds per-point grid coordinates: use refdelta points with --projection');
-  const referencePaths: readonly string[] = a.reference ?? [];
+  // A file given twice is read once (its epochs would be taken once anyway); the warnings wait for the run's start.
+  const repeatWarnings: Warning[] = [];
+  const referencePaths: readonly string[] = await distinctReferencePaths(a.reference ?? [], (w) => repeatWarnings.push(w));
   if (!a.nav?.length) throw new UsageError('give at least one navigation file with --nav FILE');
   const outDir = resolve(a.out);
 
@@ -238,6 +241,7 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   const refProbes: OpenedObs[] = [];
   const refProbeWarnings: Warning[] = [];
   for (const p of referencePaths) refProbes.push(await openObs(p, (w) => refProbeWarnings.push(w)));
+  requireOneStation(refProbes.map((s, i) => ({ path: referencePaths[i]!, header: s.header })));
   const roverSpan = await obsTimeSpan(a.rover, roverProbe.header, (w) => roverProbeWarnings.push(w));
   // A data problem, not a usage one: exit 1 with one sentence.
   if (!roverSpan) throw new InputError(a.rover, 0, noEpochSentence(a.rover, roverProbeWarnings));
@@ -266,6 +270,7 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   }
 
   rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: referencePaths, nav: a.nav, out: outDir, mode: singleReceiver ? 'standalone' : 'differential' });
+  for (const w of repeatWarnings) rep.warn(w);
   const beside = inputsInsideWarning(outDir, folder.inputsInside);
   if (beside) rep.warn(beside);
   const { nav, layers: navLayers } = await openNav(a.nav, rep.warn);
