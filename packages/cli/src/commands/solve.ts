@@ -20,7 +20,8 @@ import type { ReferenceSigma, WindowPointNames } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
 import { checkReferencePosition } from '../reference-position.js';
 import { distinctReferencePaths, requireOneStation } from '../reference-station.js';
-import { completenessJson, dataLost, roverEndsEarly, unsolvedEpochs, type DataLost, type Unsolved } from '../run-completeness.js';
+import { completenessJson, dataLost, referenceCompleteness, roverEndsEarly, unsolvedEpochs, type DataLost, type Unsolved } from '../run-completeness.js';
+import { EpochsRead, notingEpochs } from '../epochs-read.js';
 import {
   OUTPUT_FILE_NAMES, parseAntennaHeights, parseOutputs, parseSessionOptions, withHeight,
   type OutputKind, type SolveOptionArgs,
@@ -332,8 +333,10 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   // 4. The run. Streams are opened afresh (the probes only read headers). Only the values of the
   // constellations asked for are read: the session gives the others' satellites a reason and no more.
   const rover = await openObs(a.rover, rep.warn, base.systems);
+  // What the run reads of each reference file is noted (epochs-read.ts): its completeness is judged from that.
+  const referenceReads = referencePaths.map(() => new EpochsRead());
   const references: OpenedObs[] = [];
-  for (const p of referencePaths) references.push(await openObs(p, rep.warn, base.systems));
+  for (let i = 0; i < referencePaths.length; i++) references.push(notingEpochs(await openObs(referencePaths[i]!, rep.warn, base.systems), referenceReads[i]!));
   const options: SessionOptions = {
     ...base,
     reference: singleReceiver
@@ -345,7 +348,7 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   // readers' warnings were given by the first.
   const reopen = async () => {
     const again: OpenedObs[] = [];
-    for (const p of referencePaths) again.push(await openObs(p, () => {}, base.systems));
+    for (let i = 0; i < referencePaths.length; i++) again.push(notingEpochs(await openObs(referencePaths[i]!, () => {}, base.systems), referenceReads[i]!));
     return { rover: await openObs(a.rover, () => {}, base.systems), references: again };
   };
   const carrier = singleReceiver ? null : parseCarrierChoice(a, hooks.command ?? 'solve', rover.header, references[0]!.header, options);
@@ -381,7 +384,8 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   const summary = run.summary();
   const endsEarly = roverEndsEarly(a.rover, rover.header.lastObsGpsS, rover.header.intervalS, summary.lastGpsS);
   if (endsEarly) rep.warn(endsEarly);
-  const unsolved = unsolvedEpochs(summary, roverSpan, singleReceiver ? null : refSpans.map((r) => r.span));
+  const referenceSpans = referenceCompleteness(referencePaths, references.map((r) => r.header), refSpans, referenceReads, options.maxCorrectionAgeS, rep.warn);
+  const unsolved = unsolvedEpochs(summary, roverSpan, singleReceiver ? null : referenceSpans);
   if (unsolved.large && summary.epochsByKind.none < summary.epochsRover) rep.warn({ file: a.rover, line: 0, code: 'many-epochs-unsolved', message: unsolved.sentence });
   const lost = dataLost(rep.warnings, rep.warningTally);
   try {
