@@ -58,4 +58,15 @@ describeShared('a base tied to a CORS in the same run (real static run)', () => 
     expect(s.inputs.some((i: { kind: string }) => i.kind === 'tie-station')).toBe(true);
     expect(s.reference.sigma_horizontal_m).toBeGreaterThanOrEqual(tie.sigma_horizontal_m);
   });
+
+  it('a CORS hour not overlapping the base is named as the CORS, the base as the base', () => {
+    // glw1277n is 13:00-13:59 GPS time; the base recorded 12:37-12:58 (data README).
+    const cors = dataPath(`${D}/reference/glw1277n.18o`);
+    const r = runCli(['solve', '--rover', dataPath(`${D}/static-run/rover.obs`), '--reference', dataPath(`${D}/static-run/base.obs`),
+      '--tie-to', cors, ...NAV, ...CORS_XYZ, '--at-antenna', '--out', tempDir('rd-tie-apart-')]);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toContain(`base ${dataPath(`${D}/static-run/base.obs`)} runs 2018-10-04 12:36:58 UTC`);
+    expect(r.stderr).toContain(`CORS ${cors} (2018-10-04 12:59:42 UTC`);
+    expect(r.stderr).not.toMatch(/ rover |reference observations/);
+  });
 });

@@ -65,6 +65,50 @@ describeShared('rover epochs without a solution are counted and explained (real 
   });
 });
 
+describeShared('a reference file cut off before its header\'s TIME OF LAST OBS (real static run)', () => {
+  // base.obs cut at its epoch nearest 12:48 (header kept, as a file cut in transfer): 'a' ends there, 'b' is
+  // the header and the epochs after it (the next file of the session).
+  let a = '', b = '';
+  beforeAll(() => {
+    requireBuiltCli();
+    const lines = readFileSync(dataPath(`${SR}/base.obs`), 'latin1').split('\n');
+    const end = lines.findIndex((l) => l.includes('END OF HEADER'));
+    const cut = lines.findIndex((l) => l.startsWith('> 2018 10 04 12 48'));
+    expect(cut).toBeGreaterThan(end);
+    const dir = tempDir('rd-refcut-');
+    a = join(dir, 'base-a.obs');
+    b = join(dir, 'base-b.obs');
+    writeFileSync(a, lines.slice(0, cut).join('\n') + '\n', 'latin1');
+    writeFileSync(b, [...lines.slice(0, end + 1), ...lines.slice(cut)].join('\n'), 'latin1');
+  });
+
+  it('alone: the reference gets the cut-off warning, the figures use its epochs read and the sentence asks for the rest', () => {
+    requireBuiltCli();
+    const out = tempDir('rd-refcut-a-');
+    const r = runCli(['solve', '--rover', dataPath(`${SR}/rover.obs`), '--reference', a, ...NAV, '--ref-coord', 'header', ...FAST, '--out', out]);
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stderr).toMatch(/base-a\.obs: the reference file's epochs end at 2018-10-04 12:47:\d\d UTC, 1\d\.\d min before its header's TIME OF LAST OBS \(2018-10-04 12:58:22 UTC\): the file looks cut off/);
+    expect(r.stderr).toContain('the reference epochs end before the rover\'s: give the reference file(s) covering the rest (e.g. the next hourly file)');
+    const s = summary(out);
+    expect(s.warnings.by_code['reference-ends-early']).toBe(1);
+    expect(s.completeness.input_complete).toBe(false);
+    // The rover runs 12:38:09-12:58:13 GPS: epochs to 12:48 are about half of it.
+    expect(s.completeness.reference_covers_percent).toBeGreaterThan(40);
+    expect(s.completeness.reference_covers_percent).toBeLessThan(60);
+    expect(s.completeness.unsolved_percent).toBeGreaterThan(35);
+  });
+
+  it('with the rest given as a second file: no warning, the input complete, the rover covered', () => {
+    requireBuiltCli();
+    const out = tempDir('rd-refcut-ab-');
+    const r = runCli(['solve', '--rover', dataPath(`${SR}/rover.obs`), '--reference', a, b, ...NAV, '--ref-coord', 'header', ...FAST, '--out', out]);
+    expect(r.status, r.stderr).toBe(0);
+    const s = summary(out);
+    expect(s.warnings.by_code['reference-ends-early']).toBeUndefined();
+    expect(s.completeness).toMatchObject({ input_complete: true, reference_covers_percent: 100 });
+  });
+});
+
 describeShared('a truncated session in a batch (real static run)', () => {
   let sessions = '', out = '', stdout = '';
   beforeAll(() => {

@@ -8,8 +8,9 @@ import { describe, expect, it } from 'vitest';
 import type { SessionSummary } from '@refdelta/core';
 import { batchOrder, buildBatchIndexHtml } from '../packages/core/src/report-html/batch-index.js';
 import {
-  coveredShare, dataLost, roverEndsEarly, unsolvedEpochs, UNSOLVED_WARNING_SHARE,
+  coveredShare, dataLost, fileEndsEarly, joinedSpans, referenceCompleteness, referenceSpanRead, roverEndsEarly, unsolvedEpochs, UNSOLVED_WARNING_SHARE,
 } from '../packages/cli/src/run-completeness.js';
+import type { ObsHeader, Warning } from '@refdelta/core';
 import { inputsInsideFolder, inputsInsideWarning } from '../packages/cli/src/output-folder.js';
 import { distanceWords, usableHeaderPosition } from '../packages/cli/src/reference-position.js';
 import { tempDir } from './cli-support.js';
@@ -33,6 +34,41 @@ describe('roverEndsEarly', () => {
     const w = roverEndsEarly('r.obs', 1000, 1, 400);
     expect(w?.code).toBe('rover-ends-early');
     expect(w?.message).toMatch(/10\.0 min before its header's TIME OF LAST OBS.*cut off/);
+  });
+});
+
+describe('a reference file that ends early', () => {
+  const header = (lastObsGpsS: number) => ({ lastObsGpsS, intervalS: 5 }) as unknown as ObsHeader;
+
+  it('gets the rover\'s warning with its role named', () => {
+    const w = fileEndsEarly('reference', 'ref.obs', 3600, 5, 2700);
+    expect(w?.code).toBe('reference-ends-early');
+    expect(w?.message).toMatch(/^the reference file's epochs end at .*, 15\.0 min before its header's TIME OF LAST OBS .*: the file looks cut off/);
+    expect(fileEndsEarly('reference', 'ref.obs', 3600, 5, 3595)).toBeNull();
+    expect(roverEndsEarly('r.obs', 1000, 1, 400)?.message).toMatch(/^the rover file's epochs end/);
+  });
+
+  it('its span is the epochs read: to the last when read to its end, else at least to the header\'s end', () => {
+    const h = { firstGpsS: 0, lastGpsS: 3600 };
+    expect(referenceSpanRead(h, { firstGpsS: 10, lastGpsS: 2700, toEnd: true })).toEqual({ firstGpsS: 10, lastGpsS: 2700 });
+    expect(referenceSpanRead(h, { firstGpsS: 0, lastGpsS: 1500, toEnd: false })).toEqual({ firstGpsS: 0, lastGpsS: 3600 });
+    expect(referenceSpanRead(h, { firstGpsS: NaN, lastGpsS: NaN, toEnd: false })).toEqual(h);
+    expect(referenceSpanRead(h, { firstGpsS: NaN, lastGpsS: NaN, toEnd: true })).toBeNull();
+  });
+
+  it('no warning when the next file holds what it misses; joined spans across a gap within the age limit', () => {
+    const warnings: Warning[] = [];
+    const spans = referenceCompleteness(['a', 'b'], [header(3595), header(3595)],
+      [{ path: 'a', span: { firstGpsS: 0, lastGpsS: 3595 } }, { path: 'b', span: { firstGpsS: 0, lastGpsS: 3595 } }],
+      [{ firstGpsS: 0, lastGpsS: 2695, toEnd: true }, { firstGpsS: 2700, lastGpsS: 3595, toEnd: true }], 30, (w) => warnings.push(w));
+    expect(warnings).toEqual([]);
+    expect(spans).toEqual([{ firstGpsS: 0, lastGpsS: 3595 }]);
+    referenceCompleteness(['a'], [header(3595)], [{ path: 'a', span: { firstGpsS: 0, lastGpsS: 3595 } }],
+      [{ firstGpsS: 0, lastGpsS: 2695, toEnd: true }], 30, (w) => warnings.push(w));
+    expect(warnings.map((w) => w.code)).toEqual(['reference-ends-early']);
+    expect(joinedSpans([{ firstGpsS: 100, lastGpsS: 200 }, { firstGpsS: 0, lastGpsS: 50 }, { firstGpsS: 60, lastGpsS: 90 }], 30))
+      .toEqual([{ firstGpsS: 0, lastGpsS: 200 }]);
+    expect(joinedSpans([{ firstGpsS: 0, lastGpsS: 50 }, { firstGpsS: 100, lastGpsS: 200 }], 30)).toHaveLength(2);
   });
 });
 
@@ -60,6 +96,9 @@ describe('unsolvedEpochs', () => {
     expect(u.large).toBe(true);
     expect(u.referenceCoverage).toBeCloseTo(0.35);
     expect(u.sentence).toMatch(/^65 of 100 rover epochs \(65\.0 %\) have no solution, all because of "no reference epoch within 30 s"; the reference covers only 35 % of the rover's span/);
+    expect(u.sentence).toMatch(/the reference epochs begin after the rover's: give the reference file\(s\) covering the start \(e\.g\. the previous hourly file\)$/);
+    expect(unsolvedEpochs(summary(65, 100), { firstGpsS: 0, lastGpsS: 100 }, [{ firstGpsS: 0, lastGpsS: 35 }]).sentence)
+      .toMatch(/the reference epochs end before the rover's: give the reference file\(s\) covering the rest \(e\.g\. the next hourly file\)$/);
   });
 
   it('says nothing when every epoch is solved; a small share is not large', () => {

@@ -6,8 +6,8 @@
  * tie baseline and its precision go into summary.json, and the tie's precision is added to the reference
  * coordinate's own uncertainty.
  */
-import type { EcefM, EnuM, NavData, ReferenceSigma, SessionOptions, WarningSink } from '@refdelta/core';
-import { chooseEpochs, carrierPointFloor, ecefDeltaToEnu, ecefToGeodetic, sigmaRescaleFactor, solveSession, summarisePoint } from '@refdelta/core';
+import type { EcefM, EnuM, EpochSolution, NavData, ReferenceSigma, SessionOptions, WarningSink } from '@refdelta/core';
+import { ProcessingError, chooseEpochs, carrierPointFloor, ecefDeltaToEnu, ecefToGeodetic, sigmaRescaleFactor, solveSession, summarisePoint } from '@refdelta/core';
 import { openObs as openObsOfFile, type OpenedObs } from './node-io.js';
 import { parseCarrierChoice, runCarrierSession } from './carrier-run.js';
 import type { ResolvedReference } from './reference-choice.js';
@@ -51,7 +51,22 @@ export async function tieBaseToCors(
     return { rover: await openObs(baseFiles[0], () => {}), references: again };
   };
   const inputs = { rover: base, references: stations, nav, onWarning: rep.warn };
-  const run = choice.on ? await runCarrierSession(inputs, options, choice) : await solveSession({ ...inputs, reopen }, options);
+  try {
+    return await tieFromRun(choice.on ? await runCarrierSession(inputs, options, choice) : await solveSession({ ...inputs, reopen }, options), baseFiles[0], corsFiles, cors);
+  } catch (e) {
+    throw e instanceof ProcessingError ? new ProcessingError(`${tieWords(baseFiles[0], corsFiles)}: ${e.message}`) : e;
+  }
+}
+
+/**
+ * Names the roles of an error of the tie's run: the engine calls its two receivers rover and reference,
+ * which in the tie are the base and the CORS.
+ */
+export function tieWords(baseFile: string, corsFiles: readonly string[]): string {
+  return `tying the base ${baseFile} to the CORS ${corsFiles.join(', ')} (in what follows the base is the rover and the CORS the reference)`;
+}
+
+async function tieFromRun(run: { epochs: AsyncIterable<EpochSolution> }, baseFile: string, corsFiles: readonly string[], cors: ResolvedReference): Promise<BaseTie> {
   const epochs: { kind: Parameters<typeof chooseEpochs>[0][number]['kind']; ecef: EcefM; tGpsS: number; baselineM?: number; sigmaEnuM?: EnuM; varianceFactor?: number }[] = [];
   let all = 0;
   for await (const s of run.epochs) {
@@ -65,7 +80,7 @@ export async function tieBaseToCors(
     });
   }
   const { chosen, basis } = chooseEpochs(epochs, 10);
-  if (chosen.length === 0 || basis === 'standalone') throw new UsageError(`the base ${baseFiles[0]} could not be tied to ${corsFiles.join(', ')}: no differential epoch`);
+  if (chosen.length === 0 || basis === 'standalone') throw new UsageError(`the base ${baseFile} could not be tied to ${corsFiles.join(', ')}: no differential epoch`);
   const carrier = basis === 'fixed' || basis === 'fixed+float';
   // Float ambiguity errors last through their arcs: a fixed+float tie keeps its float epochs' formal sigma (as points do).
   const p = summarisePoint(chosen, { ...(carrier ? { sigmaFloor: carrierPointFloor(chosen) } : {}), ...(basis === 'fixed+float' ? { formalErrorsPersist: true } : {}) });

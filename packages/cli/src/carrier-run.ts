@@ -3,14 +3,13 @@
  * kinds 'fixed' and 'float' (or 'none'), with the ratio and the number of fixed ambiguities, and the
  * summary gives the fix shares of each pass.
  */
-import { readFile } from 'node:fs/promises';
 import {
-  readAntex, solveCarrierSession, withCarrierDefaults,
+  findAntenna, readAntex, solveCarrierSession, withCarrierDefaults,
   type AntexData, type CarrierDynamics, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary, type EpochSolution,
-  type GnssSystem, type NavData, type ObsHeader, type ObsStream, type SessionOptions, type SessionSummary, type SolutionKind, type WarningSink,
+  type GnssSystem, type NavData, type ObsHeader, type ObsStream, type SessionOptions, type SessionSummary, type SolutionKind, type Warning, type WarningSink,
 } from '@refdelta/core';
 import { parseChoice, parseNumber } from './parse-values.js';
-import { requireFile } from './node-io.js';
+import { openTextFile } from './node-io.js';
 import { FileRecordStore } from './record-file.js';
 import { UsageError } from './usage-error.js';
 import type { CarrierArgs } from './carrier-option-definitions.js';
@@ -61,9 +60,10 @@ export async function runCarrierSession(
 ): Promise<CarrierSessionRun> {
   let antennas: AntexData | undefined;
   if (choice.antennasPath) {
-    await requireFile(choice.antennasPath);
-    antennas = readAntex(choice.antennasPath, await readFile(choice.antennasPath, 'latin1'));
+    antennas = await readAntexFile(choice.antennasPath, inputs.onWarning);
   }
+  const words = antennas ? new AntennaWarningWords(choice.antennasPath!, antennas, [inputs.rover.header.antennaType, inputs.references[0]!.header.antennaType]) : null;
+  if (words) inputs = { ...inputs, onWarning: words.warnTo(inputs.onWarning) };
   // The records wait for the backward pass in a temporary file, not in memory (record-file.ts).
   const recordStore = new FileRecordStore();
   let run: Awaited<ReturnType<typeof solveCarrierSession>>;
@@ -88,13 +88,57 @@ export async function runCarrierSession(
         satelliteRejections: [],
         epochRejections: [...tally.reasons].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
         systemsUsed: [...tally.systems],
-        notes: [...c.notes, carrierSharesSentence(c)],
+        notes: [...(words ? c.notes.map((n) => words.sentence(n)) : c.notes), carrierSharesSentence(c)],
         firstGpsS: tally.firstGpsS, lastGpsS: tally.lastGpsS,
         // The carrier engine estimates no code offsets; it reads the inputs once (forward and backward passes run on its records).
         codeOffsets: [], passes: 1,
       };
     },
   };
+}
+
+/**
+ * An ANTEX file read like the observation files: plain, gzip or Unix compress (openTextFile detects the
+ * compression from the content).
+ */
+export async function readAntexFile(path: string, onWarning: WarningSink): Promise<AntexData> {
+  const t = await openTextFile(path, onWarning);
+  const parts: string[] = [];
+  for await (const chunk of t.text) parts.push(chunk);
+  return readAntex(path, parts.join(''));
+}
+
+/**
+ * The engine's antenna sentences for a run given an ANTEX file: the file name the warning already carries
+ * is not repeated in its message, and the advice to give --antennas becomes which antenna that file lacks.
+ */
+export class AntennaWarningWords {
+  /** Antenna types of the run's headers that the ANTEX file does not hold. */
+  readonly missing: readonly string[];
+
+  constructor(readonly antexPath: string, antex: AntexData, headerTypes: readonly string[]) {
+    this.missing = [...new Set(headerTypes.map((t) => t.trim()))].filter((t) => findAntenna(antex, t) === null).map((t) => t || 'unknown');
+  }
+
+  sentence(message: string): string {
+    message = message.replace('is not in the antenna calibrations given', `is not in ${this.antexPath}`);
+    const advice = '; give --antennas with an ANTEX file';
+    if (!message.endsWith(advice)) return message;
+    const which = this.missing.map((t) => `'${t}'`).join(' and ');
+    return `${message.slice(0, -advice.length)}; ${this.missing.length > 1 ? 'the antennas' : 'the antenna'} ${which} ${this.missing.length > 1 ? 'are' : 'is'} not in ${this.antexPath}`;
+  }
+
+  /** The warning with its file name said once and the advice replaced. */
+  warning(w: Warning): Warning {
+    if (w.code !== 'antenna-not-calibrated' && w.code !== 'antenna-types-differ') return w;
+    const prefix = w.file ? `${w.file}: ` : '';
+    const message = prefix && w.message.startsWith(prefix) ? w.message.slice(prefix.length) : w.message;
+    return { ...w, message: this.sentence(message) };
+  }
+
+  warnTo(sink: WarningSink): WarningSink {
+    return (w) => sink(this.warning(w));
+  }
 }
 
 /** What the code summary needs from a carrier run's epochs, counted as they pass. */

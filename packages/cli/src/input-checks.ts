@@ -50,16 +50,34 @@ export function utcSecondText(gpsS: number): string {
   return `${isoFromSeconds(gpsToUtcS(gpsS), '').replace('T', ' ').slice(0, 19)} UTC`;
 }
 
+/** What the two sides of an overlap check are called in its sentence. */
+export interface OverlapRoles {
+  /** The file whose span must be covered, e.g. 'rover'. */
+  readonly rover: string;
+  /** The files that must cover it, e.g. 'reference'. */
+  readonly reference: string;
+  /** What to do about it, appended to the sentence (may be empty). */
+  readonly advice: string;
+}
+
+export const ROVER_REFERENCE_ROLES: OverlapRoles = { rover: 'rover', reference: 'reference', advice: '' };
+
+/** A base tied to a CORS (--tie-to): the base's file is the one covered, the CORS files cover it. */
+export const BASE_CORS_ROLES: OverlapRoles = {
+  rover: 'base', reference: 'CORS',
+  advice: ': the base is tied to the CORS over their common time; give the CORS file(s) of the base\'s session with --tie-to',
+};
+
 /**
  * The reference files together must overlap the rover's span (spans in continuous GPS seconds, so a
  * session across midnight is fine).
  */
-export function requireOverlap(rover: { path: string; span: TimeSpan }, references: readonly { path: string; span: TimeSpan }[]): void {
+export function requireOverlap(rover: { path: string; span: TimeSpan }, references: readonly { path: string; span: TimeSpan }[], roles: OverlapRoles = ROVER_REFERENCE_ROLES): void {
   const r = rover.span;
   const overlapping = references.filter((x) => x.span.firstGpsS <= r.lastGpsS && x.span.lastGpsS >= r.firstGpsS);
   if (overlapping.length === 0) {
     const refs = references.map((x) => `${x.path} (${utcSecondText(x.span.firstGpsS)} to ${utcSecondText(x.span.lastGpsS)})`).join(', ');
-    throw new ProcessingError(`the files do not overlap in time: rover ${rover.path} runs ${utcSecondText(r.firstGpsS)} to ${utcSecondText(r.lastGpsS)}, reference ${refs}`);
+    throw new ProcessingError(`the files do not overlap in time: ${roles.rover} ${rover.path} runs ${utcSecondText(r.firstGpsS)} to ${utcSecondText(r.lastGpsS)}, ${roles.reference} ${refs}${roles.advice}`);
   }
 }
 

@@ -31,7 +31,7 @@ export { EGM96_NOT_A_DATUM_NOTE, pointRow, pointsColumns, pointsGeoJson, pointsM
 export { parsePointsCsv } from './report/points-csv.js';
 export { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, checkAgainstControl } from './report/control-check.js';
 export { CONTROL_CHECK_COLUMNS, controlCheckJson, controlCheckNotes, controlCheckRows } from './report/control-report.js';
-export { DEFAULT_CARRIER_OPTIONS, MemoryRecordStore, readAntex, solveCarrierSession, withCarrierDefaults } from './carrier/index.js';
+export { DEFAULT_CARRIER_OPTIONS, MemoryRecordStore, findAntenna, readAntex, solveCarrierSession, withCarrierDefaults } from './carrier/index.js';
 export { SKY_CSV_COLUMNS, buildBatchIndexHtml, buildSessionReportHtml, satelliteDirections, syntheticSessionReportData } from './report-html/index.js';
 export { inertRows } from './csv/inert-cell.js';
 export type * from './gnss/index.js';

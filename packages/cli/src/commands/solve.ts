@@ -12,14 +12,16 @@ import {
 import { AtomicFile, OutputSet, openNav, openObs as openObsOfFile, requireFile, sha256File, type OpenedObs } from '../node-io.js';
 import { inputsInsideWarning, prepareOutputFolder } from '../output-folder.js';
 import { noEpochSentence, requireObservationTypes } from '../input-sanity.js';
-import { obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeSpan } from '../input-checks.js';
+import { BASE_CORS_ROLES, obsTimeSpan, requireNavigation, requireOverlap, systemsSeen, type TimeSpan } from '../input-checks.js';
 import { parseReferenceChoice, referenceFromHeader, type ReferenceArgs, type ResolvedReference } from '../reference-choice.js';
 import { referenceSigmaOf } from '../reference-sigma.js';
 import { tieBaseToCors, tiedReference, tieJson, type BaseTie } from '../base-tie.js';
 import type { ReferenceSigma, WindowPointNames } from '@refdelta/core';
 import { referenceFromMark } from '../reference-mark.js';
 import { checkReferencePosition } from '../reference-position.js';
-import { completenessJson, dataLost, roverEndsEarly, unsolvedEpochs, type DataLost, type Unsolved } from '../run-completeness.js';
+import { distinctReferencePaths, requireOneStation } from '../reference-station.js';
+import { completenessJson, dataLost, referenceCompleteness, roverEndsEarly, unsolvedEpochs, type DataLost, type Unsolved } from '../run-completeness.js';
+import { EpochsRead, notingEpochs } from '../epochs-read.js';
 import {
   OUTPUT_FILE_NAMES, parseAntennaHeights, parseOutputs, parseSessionOptions, withHeight,
   type OutputKind, type SolveOptionArgs,
@@ -214,7 +216,9 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   const heights = parseAntennaHeights(a);
   const kinds = parseOutputs(a.outputs);
   if (kinds.includes('dxf') && (hooks.command ?? 'solve') === 'solve') throw new UsageError('--outputs dxf holds per-point grid coordinates: use refdelta points with --projection');
-  const referencePaths: readonly string[] = a.reference ?? [];
+  // A file given twice is read once (its epochs would be taken once anyway); the warnings wait for the run's start.
+  const repeatWarnings: Warning[] = [];
+  const referencePaths: readonly string[] = await distinctReferencePaths(a.reference ?? [], (w) => repeatWarnings.push(w));
   if (!a.nav?.length) throw new UsageError('give at least one navigation file with --nav FILE');
   const outDir = resolve(a.out);
 
@@ -239,6 +243,7 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   const refProbes: OpenedObs[] = [];
   const refProbeWarnings: Warning[] = [];
   for (const p of referencePaths) refProbes.push(await openObs(p, (w) => refProbeWarnings.push(w)));
+  requireOneStation(refProbes.map((s, i) => ({ path: referencePaths[i]!, header: s.header })));
   const roverSpan = await obsTimeSpan(a.rover, roverProbe.header, (w) => roverProbeWarnings.push(w));
   // A data problem, not a usage one: exit 1 with one sentence.
   if (!roverSpan) throw new InputError(a.rover, 0, noEpochSentence(a.rover, roverProbeWarnings));
@@ -256,8 +261,18 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
     }
     requireOverlap({ path: a.rover, span: roverSpan }, refSpans);
   }
+  if (tieFiles.length && refSpans.length) {
+    // The base is tied to the CORS over their common time: the CORS files must overlap the base's file.
+    const corsSpans: { path: string; span: TimeSpan }[] = [];
+    for (const p of tieFiles) {
+      const sp = await obsTimeSpan(p, (await openObs(p, () => {})).header);
+      if (sp) corsSpans.push({ path: p, span: sp });
+    }
+    if (corsSpans.length) requireOverlap({ path: refSpans[0]!.path, span: refSpans[0]!.span }, corsSpans, BASE_CORS_ROLES);
+  }
 
   rep.event('start', { command: hooks.command ?? 'solve', rover: a.rover, references: referencePaths, nav: a.nav, out: outDir, mode: singleReceiver ? 'standalone' : 'differential' });
+  for (const w of repeatWarnings) rep.warn(w);
   const beside = inputsInsideWarning(outDir, folder.inputsInside);
   if (beside) rep.warn(beside);
   const { nav, layers: navLayers } = await openNav(a.nav, rep.warn);
@@ -319,8 +334,10 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   // 4. The run. Streams are opened afresh (the probes only read headers). Only the values of the
   // constellations asked for are read: the session gives the others' satellites a reason and no more.
   const rover = await openObs(a.rover, rep.warn, base.systems);
+  // What the run reads of each reference file is noted (epochs-read.ts): its completeness is judged from that.
+  const referenceReads = referencePaths.map(() => new EpochsRead());
   const references: OpenedObs[] = [];
-  for (const p of referencePaths) references.push(await openObs(p, rep.warn, base.systems));
+  for (let i = 0; i < referencePaths.length; i++) references.push(notingEpochs(await openObs(referencePaths[i]!, rep.warn, base.systems), referenceReads[i]!));
   const options: SessionOptions = {
     ...base,
     reference: singleReceiver
@@ -332,7 +349,7 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   // readers' warnings were given by the first.
   const reopen = async () => {
     const again: OpenedObs[] = [];
-    for (const p of referencePaths) again.push(await openObs(p, () => {}, base.systems));
+    for (let i = 0; i < referencePaths.length; i++) again.push(notingEpochs(await openObs(referencePaths[i]!, () => {}, base.systems), referenceReads[i]!));
     return { rover: await openObs(a.rover, () => {}, base.systems), references: again };
   };
   const carrier = singleReceiver ? null : parseCarrierChoice(a, hooks.command ?? 'solve', rover.header, references[0]!.header, options);
@@ -368,7 +385,8 @@ async function stageSolveWith(a: SolveArgs, rep: Reporter, hooks: SolveHooks, op
   const summary = run.summary();
   const endsEarly = roverEndsEarly(a.rover, rover.header.lastObsGpsS, rover.header.intervalS, summary.lastGpsS);
   if (endsEarly) rep.warn(endsEarly);
-  const unsolved = unsolvedEpochs(summary, roverSpan, singleReceiver ? null : refSpans.map((r) => r.span));
+  const referenceSpans = referenceCompleteness(referencePaths, references.map((r) => r.header), refSpans, referenceReads, options.maxCorrectionAgeS, rep.warn);
+  const unsolved = unsolvedEpochs(summary, roverSpan, singleReceiver ? null : referenceSpans);
   if (unsolved.large && summary.epochsByKind.none < summary.epochsRover) rep.warn({ file: a.rover, line: 0, code: 'many-epochs-unsolved', message: unsolved.sentence });
   const lost = dataLost(rep.warnings, rep.warningTally);
   try {
