@@ -26,7 +26,7 @@ export { OVERLAPPING_WINDOWS_JOINER, WindowPointNames } from './points/window-na
 export { nssdaAccuracy } from './accuracy/index.js';
 export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, carrierPointFloor, chooseEpochs, summariseOccupations } from './report/points-summary.js';
 export { gridCrsOf } from './report/grid-crs.js';
-export { gridCrsWords, heightsStatement, pointsRunScatter, withPointsRun } from './report/points-run-summary.js';
+export { gridCrsWords, heightsStatement, pooledPointScatter, POOLED_POINT_SCATTER_KIND, pointsRunScatter, withPointsRun } from './report/points-run-summary.js';
 export { EGM96_NOT_A_DATUM_NOTE, pointRow, pointsColumns, pointsGeoJson, pointsMetadata } from './report/points-table.js';
 export { parsePointsCsv } from './report/points-csv.js';
 export { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, checkAgainstControl } from './report/control-check.js';
