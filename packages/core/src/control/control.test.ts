@@ -129,6 +129,17 @@ describe('marks files: one row per name, grid datums stated', () => {
     expect(() => parseMarksFile('dup.csv', t)).toThrow(/^dup\.csv:4: the mark names 'P1' and 'p1' are one name \(names are compared without case\), on lines 2 and 4: marks are matched by name/);
     expect(() => parseMarksFile('dup.csv', t.replace('p1 ', 'P1'))).toThrow(/^dup\.csv:4: the mark name 'P1' is given twice, on lines 2 and 4: /);
   });
+  it("a batch's points table given as marks, one mark occupied in two sessions: one sentence naming the file, both lines with their sessions, the name and what to do", () => {
+    const t = 'session,name,ecef_x_m,ecef_y_m,ecef_z_m,frame,frame_epoch\nday1,P1,3774089.2,-601661.6,5089321.2,WGS84,2018.76\n'
+      + 'day1,P2,3774099.2,-601661.6,5089321.2,WGS84,2018.76\nday2,P1,3774089.3,-601661.6,5089321.2,WGS84,2018.76\n';
+    let message = '';
+    try { parseMarksFile('batch-points.csv', t); } catch (e) { message = (e as Error).message; }
+    expect(message).toBe("batch-points.csv:4: the point 'P1' is in this points table twice, on line 2 (session day1) and line 4 (session day2), and marks are matched by name: "
+      + "keep one row of 'P1' for the mark and delete the other, or give the other its own name, such as 'day2/P1'");
+    expect(message).not.toMatch(/[.!?;]\s/);
+    // Without a session column (a points.csv with a point occupied twice): the same advice, the lines alone.
+    expect(() => parseMarksFile('points.csv', t.replace(/^session,/, '').replace(/\nday\d,/g, '\n'))).toThrow(/^points\.csv:4: the point 'P1' is in this points table twice, on line 2 and line 4, .*such as 'P1-2'$/);
+  });
   it('a grid on another datum than the stated frame: one warning per projection and frame, in the words of the points check', () => {
     const warnings: Warning[] = [];
     const t = `${head}\nA,496144.81,5903472.94,67.76,EPSG:25829,WGS84,2018.76\nB,496150.00,5903472.94,67.76,EPSG:25829,WGS84,2018.76\nC,496150.00,5903482.94,67.76,EPSG:25829,ETRS89,2018.76\nD,496150.00,5903492.94,67.76,EPSG:32629,WGS84,2018.76\n`;
