@@ -86,6 +86,19 @@ describe('points outside the usable area of a grid', () => {
     expect(outsideGridArea(bng, 51.5, -0.12)).toBeNull();
     expect(outsideGridArea(bng, GALWAY.latDeg, GALWAY.lonDeg)?.reason).toMatch(/^outside its area of use in the EPSG dataset, 49\.7500 N to 61\.0100 N, 9\.0000 W to 2\.0100 E \(United Kingdom/);
     expect(bng.forward(GALWAY.latDeg, GALWAY.lonDeg).eastingM).toBeLessThan(0); // what the user saw: a negative easting
+    // One sentence, the dataset's area description ('...Scotland). Isle of Man onshore.') included.
+    const w = gridAreaWarning(bng, [{ name: 'HOME', ...GALWAY }])!;
+    expect(w).toMatch(/^1 of 1 point\(s\) lie outside the usable area of OSGB36 \/ British National Grid \(EPSG:27700\): HOME .*Scotland\); Isle of Man onshore\); point scale factor up to 1\.002318 .*; their easting\/northing are what that projection gives there, .*, so choose the grid of the area/);
+    expect(w).not.toMatch(/[.!?]\s/);
+    // A geographic CRS with an area of use (GDA94, EPSG:4283: Australia) holds latitude/longitude, not easting/northing.
+    const gda94 = proj('EPSG:4283');
+    expect(gda94.units).toBe('deg');
+    for (const what of ['points', 'marks'] as const) {
+      const g = gridAreaWarning(gda94, [{ name: 'HOME', ...GALWAY }], what)!;
+      expect(g).toMatch(/GDA94 \(EPSG:4283\)/);
+      expect(g).toMatch(what === 'points' ? /lie outside the area of use of .*that CRS is not meant for them there, so choose the CRS of the area$/ : /fall outside its area of use: .*their latitude\/longitude are most likely in another CRS, so check the projection column$/);
+      expect(g).not.toMatch(/easting|northing|grid|[.!?]\s/);
+    }
     expect(outsideGridArea(proj('EPSG:2157'), GALWAY.latDeg, GALWAY.lonDeg)).toBeNull();
     expect(outsideGridArea(proj('EPSG:2056'), SWISS.latDeg, SWISS.lonDeg)).toBeNull();
   });

@@ -97,7 +97,7 @@ export function outsideGridArea(p: Projection, latDeg: number, lonDeg: number): 
   if (p.areaOfUse) {
     if (isInside(p.areaOfUse, latDeg, lonDeg)) return null;
     const a = p.areaOfUse;
-    return { reason: `outside its area of use in the EPSG dataset, ${lat(a.southDeg)} to ${lat(a.northDeg)}, ${lon(a.westDeg)} to ${lon(a.eastDeg)}${a.description ? ` (${a.description.replace(/\.\s*$/, '')})` : ''}` };
+    return { reason: `outside its area of use in the EPSG dataset, ${lat(a.southDeg)} to ${lat(a.northDeg)}, ${lon(a.westDeg)} to ${lon(a.eastDeg)}${a.description ? ` (${a.description.replace(/\.\s*$/, '').replace(/\.\s+/g, '; ')})` : ''}` };
   }
   const tm = transverseMercator(p.projString);
   if (tm && p.units === 'm') {
@@ -148,10 +148,16 @@ export function gridAreaWarning(p: Projection, points: readonly AreaPoint[], wha
     const scale = g.maxK !== null ? `; point scale factor up to ${g.maxK.toFixed(6)} (scale error ${Math.round((g.maxK - 1) * 1e6)} ppm)` : '';
     return `${names}: ${reason}${zones}${scale}`;
   });
+  // A geographic CRS (units 'deg') holds longitude/latitude, not a grid's easting/northing.
+  const geographic = p.units === 'deg';
+  const values = geographic ? 'latitude/longitude' : 'easting/northing';
+  const list = parts.join('; ');
   if (what === 'marks') {
-    return `${count} of ${points.length} mark(s) given in ${p.name} fall outside its usable area: ${parts.join('; ')}. ` +
-      'Their easting/northing are most likely in another grid: check the projection column';
+    return `${count} of ${points.length} mark(s) given in ${p.name} fall outside its ${geographic ? 'area of use' : 'usable area'}: ${list}; their ${values} are most likely in another ${geographic ? 'CRS' : 'grid'}, so check the projection column`;
   }
-  return `${count} of ${points.length} point(s) lie outside the usable area of ${p.name}: ${parts.join('; ')}. Their easting/northing are what that projection gives there, ` +
-    'not coordinates of that grid as anyone uses it: choose the grid of the area (--projection utm takes the zone of the first point)';
+  if (geographic) {
+    return `${count} of ${points.length} point(s) lie outside the area of use of ${p.name}: ${list}; that CRS is not meant for them there, so choose the CRS of the area`;
+  }
+  return `${count} of ${points.length} point(s) lie outside the usable area of ${p.name}: ${list}; their easting/northing are what that projection gives there, ` +
+    'not coordinates of that grid as anyone uses it, so choose the grid of the area (--projection utm takes the zone of the first point)';
 }
