@@ -38,7 +38,11 @@ export function gridCrsWords(g: Pick<GridLabel, 'epsg' | 'name' | 'definition'>)
 
 /** The heights of the points in words, and the geoid model's caution when it has one. */
 export interface HeightsStatement {
-  /** e.g. 'ellipsoidal (height_m, WGS84 epoch 2024.3672); orthometric (orthometric_height_m) above EGM96 geoid (EGM96 ...)'. */
+  /**
+   * The frame's name, not its epoch: e.g. 'ellipsoidal (height_m, above the ellipsoid of WGS84); orthometric
+   * (orthometric_height_m = height_m - N) above EGM96 geoid (EGM96 (NGA 15-minute grid, bilinear))', or
+   * 'ellipsoidal (height_m, above the ellipsoid of WGS84) only (no geoid model given)'.
+   */
   readonly label: string;
   readonly ellipsoidal: string;
   /** null without a geoid. */
