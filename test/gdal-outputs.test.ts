@@ -154,9 +154,10 @@ describe.skipIf(!HAVE_GDAL)('outputs read with GDAL, projected coordinates again
     }
   });
 
-  it('DXF: point names outside ASCII (in and outside Windows-1252) read back by GDAL as given, with no --config option', () => {
+  it('DXF: point names outside ASCII (in and outside Windows-1252) and with %% codes read back by GDAL as given, with no --config option', () => {
     const o = tempDir('rd-gdal-dxf-names-');
-    const names = ['Ráth Éile', 'Zürich', 'Łódź', 'a\\b {c} ^d'];
+    // The last with the DXF special-character codes %%d, %%c, %%p, which GDAL otherwise shows as °, ⌀, ±.
+    const names = ['Ráth Éile', 'Zürich', 'Łódź', 'a\\b {c} ^d 10%%d %%c%%%p 5%'];
     const times = ['09:33:00', '09:37:00', '09:40:20', '09:44:20', '09:48:09', '09:51:09', '09:53:24', '09:56:24'];
     const win = join(o, 'windows.csv');
     writeFileSync(win, 'name,start,end\n' + names.map((n, i) => `"${n}",2024-05-14T${times[2 * i]} GPST,2024-05-14T${times[2 * i + 1]} GPST`).join('\n') + '\n');

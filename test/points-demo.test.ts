@@ -116,6 +116,31 @@ describe.skipIf(!HAVE)('refdelta points on the demo scenario', () => {
     expect(meta.notes.join('\n')).toContain(`point: the name of the occupation window of the windows file ${win}`);
   });
 
+  it('overlapping windows: a warning naming both (file, lines, times as written) and the overlap, kept in summary.json; touching ones are not', () => {
+    const o = tempDir('rd-points-demo-win-overlap-');
+    const win = join(o, 'windows.csv');
+    // FERRYPOST (line 6) made to start at 09:36:30, 30 s before MILLSTONE (line 5) ends.
+    writeFileSync(win, readFileSync(DEMO('occupations.csv'), 'utf8').replace('FERRYPOST,2024-05-14T09:40:20.000 GPST', 'FERRYPOST,2024-05-14T09:36:30.000 GPST'));
+    const r = runCli(['points', ...RUN, '--windows', win, '--out', join(o, 'out')]);
+    expect(r.status, r.stderr).toBe(0);
+    const lines = r.stderr.split('\n').filter((l) => /overlap from/.test(l));
+    expect(lines).toEqual([`warning: ${win}:6: the windows MILLSTONE (line 5, 2024-05-14T09:33:00.000 GPST to 2024-05-14T09:37:00.000 GPST) and `
+      + 'FERRYPOST (line 6, 2024-05-14T09:36:30.000 GPST to 2024-05-14T09:44:20.000 GPST) overlap from 2024-05-14T09:36:30.000 GPST to 2024-05-14T09:37:00.000 GPST (30 s), '
+      + 'so the epochs of that time are counted in both points: end the first window before the second starts']);
+    const s = JSON.parse(readFileSync(join(o, 'out', 'summary.json'), 'utf8'));
+    expect(s.warnings.by_code['windows-overlap']).toBe(1);
+    // Touching windows (FERRYPOST starting when MILLSTONE ends) share one instant only: no warning.
+    writeFileSync(win, readFileSync(DEMO('occupations.csv'), 'utf8').replace('FERRYPOST,2024-05-14T09:40:20.000 GPST', 'FERRYPOST,2024-05-14T09:37:00.000 GPST'));
+    const t = runCli(['points', ...RUN, '--windows', win, '--out', join(o, 'out2')]);
+    expect(t.status, t.stderr).toBe(0);
+    expect(t.stderr).not.toMatch(/overlap from/);
+  });
+
+  it('points --help: the times of --windows are UTC unless marked GPST, as the windows reader takes them', () => {
+    const h = runCli(['points', '--help']).stdout.replace(/\s+/g, ' ');
+    expect(h).toContain('times YYYY-MM-DDThh:mm:ss[.sss] (T or a space), in UTC unless followed by GPST (GPS time, no leap seconds); a UTC time may end in Z, UTC or an offset +hh:mm or -hh:mm (the colon optional)');
+  });
+
   it('a geographic CRS is refused as --projection, with one sentence, before any run', () => {
     for (const spec of ['EPSG:4326', '+proj=longlat +ellps=GRS80 +no_defs']) {
       const o = tempDir('rd-points-demo-geog-');

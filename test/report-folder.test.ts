@@ -56,11 +56,15 @@ describe('report data read by column name', () => {
 
   it("an older points folder (whole-session spread in summary.json): the scatter shown is each point's epochs about its own mean, from epochs.csv", async () => {
     const dir = tempDir('rd-report-old-points-');
-    // Two occupations 200 m apart (east), each epoch 1 cm east or west of its point, a walk between them.
+    // Two occupations 200 m apart (east), each fixed epoch 1 cm east or west of its point, a walk between them.
+    // Each occupation also has 5 float epochs 0.5 m north: a point with 20 fixed of 25 carrier epochs is
+    // averaged from its fixed epochs alone (chooseEpochs), and so is the scatter.
     const rows = ['gps_week,gps_tow_s,solution,ecef_x_m,ecef_y_m,ecef_z_m,point'];
     for (let t = 0; t < 20; t++) rows.push(`2000,${t},fixed,${A},${t % 2 ? 0.01 : -0.01},0,A`);
+    for (let t = 0; t < 5; t++) rows.push(`2000,${t + 0.5},float,${A},0,0.5,A`);
     for (let t = 20; t < 30; t++) rows.push(`2000,${t},fixed,${A},${20 * (t - 20)},0,`);
     for (let t = 30; t < 50; t++) rows.push(`2000,${t},fixed,${A},${200 + (t % 2 ? 0.01 : -0.01)},0,B`);
+    for (let t = 30; t < 35; t++) rows.push(`2000,${t + 0.5},float,${A},200,0.5,B`);
     writeFileSync(join(dir, 'epochs.csv'), rows.join('\n') + '\n');
     writeFileSync(join(dir, 'points.csv'), [
       'name,start_gps_week,start_gps_tow_s,end_gps_week,end_gps_tow_s,ecef_x_m,ecef_y_m,ecef_z_m',
@@ -73,7 +77,7 @@ describe('report data read by column name', () => {
     const d = await readSessionReportData(sourcesInFolder(dir), 't');
     const fact = d.facts!.find(([k]) => /Scatter|Spread/.test(k))!;
     expect(fact[0]).toBe("Scatter about each point's mean");
-    expect(fact[1]).toMatch(/^horizontal median 0\.010 m, 95 % 0\.010 m; .*the 40 epochs within the occupations of 2 points/);
+    expect(fact[1]).toMatch(/^horizontal median 0\.010 m, 95 % 0\.010 m; .*the 40 epochs the 2 points are averaged from/);
   });
 
   it('a folder with none of the outputs: exit 1 and one sentence naming it', () => {
@@ -122,6 +126,7 @@ describe('report of the demo points run with --projection utm --geoid egm96, the
     // fixtures/demo/README: four points 4/4/3/3 min long; MILLSTONE to FERRYPOST alone is about 230 m (points.csv easting/northing).
     expect(points.length).toBe(4);
     expect(s.statistics.over).toMatch(/4 point\(s\), each about its own point's mean/);
+    expect(s.statistics.kind).toBe('each-point-mean');
     expect(s.statistics.mean_ecef).toBeNull();
     expect(s.statistics.epochs).toBe(points.reduce((a, p) => a + Number(p.epochs), 0));
     // No more than the points' own per-epoch scatter (points.csv sd_*), far below the ~100 m of the walk.
@@ -130,6 +135,23 @@ describe('report of the demo points run with --projection utm --geoid egm96, the
     const text = pageText(readFileSync(join(out, 'report.html'), 'utf8'));
     expect(text).toContain("Scatter about each point's mean");
     expect(text).not.toContain('Scatter of the positions');
+  });
+
+  it("the same folder with an older summary.json (whole-session spread): the page shows the figures summary.json states for this run, from epochs.csv", async () => {
+    const s = JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8'));
+    const older = tempDir('rd-report-demo-older-');
+    for (const f of ['epochs.csv', 'points.csv']) writeFileSync(join(older, f), readFileSync(join(out, f)));
+    writeFileSync(join(older, 'summary.json'), JSON.stringify({
+      ...s, statistics: { over: 'differential and smoothed epochs', mean_ecef: { x_m: 4296336, y_m: 663672, z_m: 4651993 }, horizontal_median_m: 50, horizontal_95_m: 120, vertical_median_m: 1, vertical_95_m: 2 },
+    }));
+    const d = await readSessionReportData(sourcesInFolder(older), 't');
+    const fact = d.facts!.find(([k]) => /Scatter|Spread/.test(k))!;
+    expect(fact[0]).toBe("Scatter about each point's mean");
+    // epochs.csv holds positions to 0.1 mm: the figures agree with summary.json's to the millimetre shown.
+    const shown = [...fact[1].matchAll(/(\d+\.\d{3}) m/g)].map((m) => Number(m[1]));
+    const stated = [s.statistics.horizontal_median_m, s.statistics.horizontal_95_m, s.statistics.vertical_median_m, s.statistics.vertical_95_m];
+    shown.forEach((v, i) => expect(Math.abs(v - stated[i])).toBeLessThanOrEqual(0.0011));
+    expect(fact[1]).toContain(`the ${s.statistics.epochs} epochs the 4 points are averaged from`);
   });
 
   it("report on the control check's folder alone: a control check page, the frame and epoch from the check, labelled NSSDA figures, no placeholder", () => {

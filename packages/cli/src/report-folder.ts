@@ -8,7 +8,7 @@ import { createInterface } from 'node:readline';
 import { readFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import {
-  ecefToEnu, gridCrsWords, horizontalVerticalStats, InputError, type HorizontalVerticalStats, leapSecondsAtUtc, splitCsvLine, SECONDS_PER_WEEK,
+  ecefToEnu, gridCrsWords, InputError, leapSecondsAtUtc, pooledPointScatter, POOLED_POINT_SCATTER_KIND, splitCsvLine, SECONDS_PER_WEEK,
   type EcefM, type EpochSeries, type ReportControlCheck, type ReportInput, type ReportPoint, type ResidualSeries, type SessionReportData, type SkySeries,
 } from '@refdelta/core';
 
@@ -112,14 +112,27 @@ function origin(summary: Record<string, unknown> | null): EcefM | null {
   return r && Number.isFinite(r.x_m) ? { x: r.x_m, y: r.y_m, z: r.z_m } : null;
 }
 
-async function readEpochs(path: string, ref: EcefM | null): Promise<{ series: EpochSeries; origin: EcefM | null; note: string | null }> {
+/** An epoch of epochs.csv as the points stage took it: its tag, solution kind and position. */
+type TaggedEpoch = Parameters<typeof pooledPointScatter>[0][number];
+
+const SOLUTION_KINDS: ReadonlySet<string> = new Set(['differential', 'smoothed', 'fixed', 'float', 'standalone']);
+
+/** GPS seconds of a row's epoch tag (gps_week + epoch_tag_tow_s), else its time. */
+function tagReader(t: CsvTable, time: (c: readonly string[]) => number): (c: readonly string[]) => number {
+  const w = col(t, 'gps_week', 'week'), tag = col(t, 'epoch_tag_tow_s');
+  return w >= 0 && tag >= 0 ? (c) => numAt(c, w) * SECONDS_PER_WEEK + numAt(c, tag) : time;
+}
+
+async function readEpochs(path: string, ref: EcefM | null): Promise<{ series: EpochSeries; tagged: TaggedEpoch[]; origin: EcefM | null; note: string | null }> {
   const { table: t, rows } = await streamCsvTable(path);
   const time = timeReader(t);
+  const tagOf = tagReader(t, time);
   const [x, y, z] = [col(t, 'ecef_x_m', 'x_m'), col(t, 'ecef_y_m', 'y_m'), col(t, 'ecef_z_m', 'z_m')];
   const [be, bn, bu] = [col(t, 'baseline_east_m', 'east_m'), col(t, 'baseline_north_m', 'north_m'), col(t, 'baseline_up_m', 'up_m')];
   const kindCol = col(t, 'solution', 'solution_kind', 'kind'), pointCol = col(t, 'point', 'point_name', 'occupation');
   const satCol = col(t, 'satellites_used', 'satellites', 'sats_used', 'num_satellites'), pdopCol = col(t, 'pdop');
   const s = { timeGpsS: [] as number[], eastM: [] as number[], northM: [] as number[], upM: [] as number[], satellitesUsed: [] as number[], pdop: [] as number[], kind: [] as string[], point: [] as string[] };
+  const tagged: TaggedEpoch[] = [];
   let o = ref;
   let note: string | null = null;
   let i = 0;
@@ -136,13 +149,15 @@ async function readEpochs(path: string, ref: EcefM | null): Promise<{ series: Ep
       if (!o) { o = p; note = 'No reference coordinate in summary.json: east/north/up are drawn about the first epoch\'s position.'; }
       const enu = ecefToEnu(p, o);
       s.eastM[i] = enu.e; s.northM[i] = enu.n; s.upM[i] = enu.u;
+      const tagGpsS = tagOf(c);
+      if (SOLUTION_KINDS.has(s.kind[i]) && Number.isFinite(tagGpsS)) tagged.push({ tagGpsS, kind: s.kind[i] as TaggedEpoch['kind'], ecef: p });
     } else {
       s.eastM[i] = numAt(c, be); s.northM[i] = numAt(c, bn); s.upM[i] = numAt(c, bu);
     }
     if (!Number.isFinite(s.timeGpsS[i])) s.timeGpsS[i] = i;
     i++;
   }
-  return { series: s, origin: o, note };
+  return { series: s, tagged, origin: o, note };
 }
 
 /** Reasons are grouped by their words: figures in parentheses or after '=' are left out. */
@@ -354,43 +369,28 @@ function scatterFact(st: J, points: number, fromEpochs: PooledScatter | null): [
   const m = (k: string) => (typeof st[k] === 'number' ? `${(st[k] as number).toFixed(3)} m` : 'not stated');
   const figures = `horizontal median ${m('horizontal_median_m')}, 95 % ${m('horizontal_95_m')}; vertical median ${m('vertical_median_m')}, 95 % ${m('vertical_95_m')}`;
   const over = text(st.over ?? 'epochs');
-  if (st.mean_ecef === null && /own point/.test(over)) return ["Scatter about each point's mean", `${figures} (${over}; precision, not accuracy)`];
+  // mean_ecef null with figures: a pooled scatter written before statistics.kind was.
+  if (st.kind === POOLED_POINT_SCATTER_KIND || st.mean_ecef === null) return ["Scatter about each point's mean", `${figures} (${over}; precision, not accuracy)`];
   if (points > 1 && fromEpochs) {
     const f = (v: number) => `${v.toFixed(3)} m`;
     return ["Scatter about each point's mean", `horizontal median ${f(fromEpochs.horizontalMedianM)}, 95 % ${f(fromEpochs.horizontal95M)}; vertical median ${f(fromEpochs.verticalMedianM)}, 95 % ${f(fromEpochs.vertical95M)} ` +
-      `(from epochs.csv: the ${fromEpochs.count} epochs within the occupations of ${fromEpochs.points} points, each about its own point's mean; precision, not accuracy)`];
+      `(from epochs.csv: the ${fromEpochs.count} epochs the ${fromEpochs.points} points are averaged from, each about its own point's mean; precision, not accuracy)`];
   }
   if (points > 1) return ['Spread of all epochs (moving)', `${figures} (${over}, about one mean of the whole session: the rover moved between ${points} points, so this is the extent of its movement, neither an error nor a precision; each point's scatter is in the Points table)`];
   return ['Spread of the epoch positions', `${figures} (${over}, about their overall mean: the precision, not accuracy, when the antenna stayed still; when it moved, the extent of its movement, not an error)`];
 }
 
-type PooledScatter = HorizontalVerticalStats & { readonly points: number };
-
-/** Occupations are matched to epochs by time, as the points stage does (points-summary.ts: 0.01 s). */
-const OCCUPATION_SLACK_S = 0.01;
+type PooledScatter = ReturnType<typeof pooledPointScatter>;
 
 /**
- * The epochs within each point's occupation about that point's mean, pooled over the points (local
- * east/north/up at the reference: over a few hundred metres the frames' rotation is negligible);
- * null when no point has an epoch. For folders whose summary.json gives only the whole session's spread.
+ * The points run's pooled scatter (the core's pooledPointScatter: each point's chosen epochs about their
+ * mean) from epochs.csv and points.csv, for folders whose summary.json gives only the whole session's
+ * spread; null when no point has an epoch. epochs.csv's positions are rounded to 0.1 mm.
  */
-export function pooledScatterFromEpochs(ep: EpochSeries, points: readonly ReportPoint[]): PooledScatter | null {
-  const diffs: { e: number; n: number; u: number }[] = [];
-  let used = 0;
-  for (const p of points) {
-    if (!Number.isFinite(p.startGpsS) || !Number.isFinite(p.endGpsS)) continue;
-    const inside: number[] = [];
-    for (let i = 0; i < ep.timeGpsS.length; i++) {
-      const t = ep.timeGpsS[i];
-      if (t >= p.startGpsS - OCCUPATION_SLACK_S && t <= p.endGpsS + OCCUPATION_SLACK_S && Number.isFinite(ep.eastM[i]) && Number.isFinite(ep.northM[i]) && Number.isFinite(ep.upM[i])) inside.push(i);
-    }
-    if (inside.length === 0) continue;
-    used++;
-    const mean = (a: ArrayLike<number>) => inside.reduce((acc, i) => acc + a[i], 0) / inside.length;
-    const me = mean(ep.eastM), mn = mean(ep.northM), mu = mean(ep.upM);
-    for (const i of inside) diffs.push({ e: ep.eastM[i] - me, n: ep.northM[i] - mn, u: ep.upM[i] - mu });
-  }
-  return used ? { ...horizontalVerticalStats(diffs), points: used } : null;
+export function pooledScatterFromEpochs(tagged: readonly TaggedEpoch[], points: readonly ReportPoint[]): PooledScatter | null {
+  const occupations = points.filter((p) => Number.isFinite(p.startGpsS) && Number.isFinite(p.endGpsS));
+  const stats = pooledPointScatter(tagged, occupations);
+  return stats.points > 0 ? stats : null;
 }
 
 /** Summary lines from summary.json: systems, the scatter of the epoch positions, rejected epochs. */
@@ -460,9 +460,11 @@ export async function readSessionReportData(src: ReportSources, title: string): 
   if (!summary && !checkOnly) missing.push('No summary.json: inputs, options, frame and warnings are not shown.');
   let o = origin(summary);
   let epochs: EpochSeries | null = null;
+  let tagged: TaggedEpoch[] = [];
   if (src.epochs) {
     const r = await readEpochs(src.epochs, o);
     epochs = r.series;
+    tagged = r.tagged;
     o = r.origin;
     if (r.note) missing.push(r.note);
   } else if (!checkOnly) missing.push('No epochs.csv: no track, occupation scatter or time series.');
@@ -502,7 +504,7 @@ export async function readSessionReportData(src: ReportSources, title: string): 
     referenceText: [text(ref.source ?? ref.note), referencePositionText(asObj(ref.position), ref)].filter(Boolean).join('; '),
     firstUtc: text(span.first_utc), lastUtc: text(span.last_utc),
     epochsByKind: Object.entries(asObj(counts.by_kind)).filter(([, v]) => typeof v === 'number' && v > 0).map(([k, v]) => [k, v as number] as const),
-    facts: summaryFacts(s, points.length, epochs && points.length > 1 ? pooledScatterFromEpochs(epochs, points) : null),
+    facts: summaryFacts(s, points.length, tagged.length && points.length > 1 ? pooledScatterFromEpochs(tagged, points) : null),
     epochs, residuals, points,
     referenceSky: src.sky ? await readSky(src.sky) : null,
     check: checkDoc && src.check ? readCheck(checkDoc, checkFrame) : null,

@@ -62,7 +62,8 @@ export function solveArgsFrom(a: Record<string, unknown>): SolveArgs {
 
 /** The options `points` adds to a solve run (also taken by `batch`). */
 export function definePointsOptions<T>(c: Argv<T>): Argv<T> {
-  return c.option('windows', { type: 'string', describe: 'occupation CSV: name,start,end[,antenna_height_m,height_kind] (takes precedence over event flags and Doppler)', group: 'Points:' })
+  return c.option('windows', { type: 'string', describe: 'occupation CSV: name,start,end[,antenna_height_m,height_kind] (takes precedence over event flags and Doppler); times YYYY-MM-DDThh:mm:ss[.sss] (T or a space), ' +
+      "in UTC unless followed by GPST (GPS time, no leap seconds); a UTC time may end in Z, UTC or an offset +hh:mm or -hh:mm (the colon optional)", group: 'Points:' })
     .option('tolerance-h', { type: 'number', default: DEFAULT_POINT_TOLERANCE_H_M, describe: 'flag points whose horizontal scatter exceeds this (m)', group: 'Points:' })
     .option('tolerance-v', { type: 'number', default: DEFAULT_POINT_TOLERANCE_V_M, describe: 'flag points whose vertical scatter exceeds this (m)', group: 'Points:' })
     .option('projection', { type: 'string', describe: "grid coordinates: EPSG:xxxx of a projected CRS, a '+proj=...' string, or utm (zone of the first point, in the points' frame); labelled by the points' frame", group: 'Points:' })

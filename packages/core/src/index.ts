@@ -18,7 +18,7 @@ export { gridAreaWarning, makeProjection, resolveProjectionSpec, utmEpsgOfFrame,
 export { broadcastOrbitFrame, solveStandaloneEpoch, solveStandaloneSession } from './standalone/index.js';
 export { openText } from './compress/index.js';
 export { DEFAULT_OPTIONS, sigmaRescaleFactor, solveSession, withDefaults } from './session/index.js';
-export { CHI2_1_95, CHI2_2_95, DEFAULT_MATCH_RADIUS_M, closerReading, differenceTestWord, FAR_NAME_MATCH_M, farNameMatchSentence, parseControlCsv, parseMarksFile, splitCsvLine, testDifference } from './control/index.js';
+export { CHI2_1_95, CHI2_2_95, DEFAULT_MATCH_RADIUS_M, closerReading, differenceTestWord, FAR_NAME_MATCH_M, farNameMatches, farNameMatchSentence, parseControlCsv, parseMarksFile, splitCsvLine, testDifference } from './control/index.js';
 export { parseOccupationCsv } from './points/occupation-csv.js';
 export { summarisePoint } from './points/summarise-point.js';
 export { DEFAULT_STATIC_DETECTION, splitOccupations } from './points/occupations.js';
@@ -26,7 +26,7 @@ export { OVERLAPPING_WINDOWS_JOINER, WindowPointNames } from './points/window-na
 export { nssdaAccuracy } from './accuracy/index.js';
 export { DEFAULT_POINT_TOLERANCE_H_M, DEFAULT_POINT_TOLERANCE_V_M, carrierPointFloor, chooseEpochs, summariseOccupations } from './report/points-summary.js';
 export { gridCrsOf } from './report/grid-crs.js';
-export { gridCrsWords, heightsStatement, pointsRunScatter, withPointsRun } from './report/points-run-summary.js';
+export { gridCrsWords, heightsStatement, pooledPointScatter, POOLED_POINT_SCATTER_KIND, pointsRunScatter, withPointsRun } from './report/points-run-summary.js';
 export { EGM96_NOT_A_DATUM_NOTE, pointRow, pointsColumns, pointsGeoJson, pointsMetadata } from './report/points-table.js';
 export { parsePointsCsv } from './report/points-csv.js';
 export { DEFAULT_CHECK_TOLERANCE_H_M, DEFAULT_CHECK_TOLERANCE_V_M, checkAgainstControl } from './report/control-check.js';

@@ -7,7 +7,7 @@ import { readFile } from 'node:fs/promises';
 import { basename, join, resolve } from 'node:path';
 import { csvText } from '../csv-text.js';
 import {
-  CHECK_OUTPUT_FORMATS, CONTROL_CHECK_COLUMNS, closerReading, differenceTestWord, FAR_NAME_MATCH_M, farNameMatchSentence, checkAgainstControl, csvtText, controlCheckJson, controlCheckNotes, controlCheckRows, fixed, metadataFileName, tableMetadata,
+  CHECK_OUTPUT_FORMATS, CONTROL_CHECK_COLUMNS, closerReading, differenceTestWord, FAR_NAME_MATCH_M, farNameMatches, farNameMatchSentence, checkAgainstControl, csvtText, controlCheckJson, controlCheckNotes, controlCheckRows, fixed, metadataFileName, tableMetadata,
   looksLikeTransformationName, parseMarksFile, parseHelmertJson, parsePointsCsv, shippedTransformation, type DifferenceTest, type HelmertParams,
 } from '@refdelta/core';
 import { OutputSet, requireFile } from '../node-io.js';
@@ -94,12 +94,13 @@ export async function runCheck(a: CheckArgs, rep: Reporter): Promise<number> {
   });
   // A match by name kilometres away is a CRS mistake in the marks file, not a survey result: said once, before the outputs record the warnings.
   const markNamed = new Map(marks.map((m) => [m.name, m]));
-  const far = farNameMatchSentence(r.pairs.map((p) => {
+  const named = r.pairs.map((p) => {
     const mark = markNamed.get(p.markName);
     const closer = p.by === 'name' && p.comparison.horizontalM > FAR_NAME_MATCH_M && mark ? closerReading(mark, p.pointPosition.ecef, epsgLookup) : null;
-    return { session: p.session, pointName: p.pointName, markName: p.markName, by: p.by, horizontalM: p.comparison.horizontalM, closer };
-  }), marksFile);
-  if (far) rep.warn({ file: marksFile, line: 0, code: 'marks-far-from-points', message: far });
+    return { session: p.session, pointName: p.pointName, markName: p.markName, ...(mark ? { markLine: mark.line } : {}), by: p.by, horizontalM: p.comparison.horizontalM, closer };
+  });
+  const far = farNameMatchSentence(named, marksFile);
+  if (far) rep.warn({ file: marksFile, line: farNameMatches(named)[0]?.markLine ?? 0, code: 'marks-far-from-points', message: far });
 
   const outDir = resolve(String(a.out));
   const csvPath = join(outDir, CHECK_FILE_NAMES.csv), jsonPath = join(outDir, CHECK_FILE_NAMES.json);

@@ -14,7 +14,7 @@ import {
   crsOfFrame, csvtText, gridAreaWarning, gridCrsOf, type GridCrs, metadataFileName, pointsMetadata, POINTS_OUTPUT_FORMATS, radToDeg, resolveProjectionSpec, splitOccupations, summariseOccupations,
   type EpochMark, type EpochSolution, type FrameEpoch, type GeoidModel, type OccupationWindow, type OutputFileRecord, type PointEpoch,
   type PointReference, type PointResult, type Projection, ProcessingError, ecefToGeodetic, type GeodeticRad, sigmaRescaleFactor, WindowPointNames,
-  pointsRunScatter, scatterJson, withPointsRun,
+  pointsRunScatter, scatterJson, type Warning, withPointsRun,
 } from '@refdelta/core';
 import { requireFile } from '../node-io.js';
 import { epsgLookup, epsgWkt } from '../epsg-lookup.js';
@@ -102,6 +102,8 @@ export interface PointsConfig {
   readonly slant?: SlantGeometry;
   readonly windowsFile?: string;
   readonly windows?: readonly OccupationWindow[];
+  /** Warnings of the windows file (overlapping windows), said by each run that uses it. */
+  readonly windowsWarnings?: readonly Warning[];
   /** The geoid model, loaded on first use and kept. */
   readonly geoid: () => Promise<GeoidModel | undefined>;
 }
@@ -124,10 +126,11 @@ export async function parsePointsConfig(a: PointsArgs): Promise<PointsConfig> {
   }
   let windows: OccupationWindow[] | undefined;
   let windowsFile: string | undefined;
+  const windowsWarnings: Warning[] = [];
   if (a.windows !== undefined) {
     windowsFile = String(a.windows);
     await requireFile(windowsFile);
-    windows = parseOccupationCsv(windowsFile, await readFile(windowsFile, 'utf8'));
+    windows = parseOccupationCsv(windowsFile, await readFile(windowsFile, 'utf8'), (w) => windowsWarnings.push(w));
     if (windows.length === 0) throw new UsageError(`--windows ${windowsFile} holds no occupation window`);
     if (windows.some((w) => w.heightKind === 'slant') && slant === undefined) throw new UsageError(`--windows ${windowsFile} has slant heights: give --antenna-radius M (and --slant-offset M when the ARP is not at the height of the measuring point)`);
   }
@@ -135,7 +138,7 @@ export async function parsePointsConfig(a: PointsArgs): Promise<PointsConfig> {
   return {
     toleranceHM, toleranceVM, slant,
     ...(projectionSpec !== undefined ? { projectionSpec } : {}), ...(geoidSpec !== undefined ? { geoidSpec } : {}),
-    ...(windows ? { windows, windowsFile } : {}),
+    ...(windows ? { windows, windowsFile, windowsWarnings } : {}),
     geoid: () => (geoidSpec === undefined ? Promise.resolve(undefined) : (geoid ??= loadGeoid(geoidSpec))),
   };
 }
@@ -183,6 +186,7 @@ export async function runPointsSession(a: PointsArgs, cfg: PointsConfig, rep: Re
     outDir: st.outDir, roverEpochs: st.summary.epochsRover, solvedEpochs: st.solvedEpochs, failure, points: [], columns: [], rows: [], outputs: [], projectionStatement: null, prjWkt: null,
   });
   try {
+    for (const w of cfg.windowsWarnings ?? []) rep.warn(w);
     reportSolveCounts(st, rep);
     if (st.failure) {
       await st.set.abort();

@@ -19,6 +19,8 @@ export interface NamedPair {
   readonly session?: string | null;
   readonly pointName: string;
   readonly markName: string;
+  /** The mark's line in the marks file, when known. */
+  readonly markLine?: number;
   readonly by: 'name' | 'proximity';
   readonly horizontalM: number;
   /** Another reading of the mark's values that puts it near the point (closerReading), when one does. */
@@ -78,13 +80,20 @@ export function closerReading(mark: ControlMark, point: EcefM, lookup?: EpsgLook
   return best;
 }
 
+/** The pairs matched by name more than FAR_NAME_MATCH_M apart. */
+export function farNameMatches<P extends NamedPair>(pairs: readonly P[]): P[] {
+  return pairs.filter((p) => p.by === 'name' && p.horizontalM > FAR_NAME_MATCH_M);
+}
+
 /** One warning sentence for the pairs matched by name more than FAR_NAME_MATCH_M apart, or null. */
 export function farNameMatchSentence(pairs: readonly NamedPair[], marksFile: string): string | null {
-  const far = pairs.filter((p) => p.by === 'name' && p.horizontalM > FAR_NAME_MATCH_M);
+  const far = farNameMatches(pairs);
   if (far.length === 0) return null;
   const listed = far.slice(0, 5).map((p) => `${p.session ? `${p.session}/` : ''}${p.pointName} is ${(p.horizontalM / 1000).toFixed(p.horizontalM < 1e5 ? 2 : 0)} km from mark ${p.markName}` +
+    (p.markLine !== undefined ? ` on line ${p.markLine}` : '') +
     (p.closer ? ` (its values read ${p.closer.words} put it ${p.closer.horizontalM < 10 ? p.closer.horizontalM.toFixed(3) : p.closer.horizontalM.toFixed(0)} m from the point)` : ''));
-  return `${far.length} point(s) matched by name lie more than ${FAR_NAME_MATCH_M / 1000} km from their mark: ${listed.join('; ')}${far.length > 5 ? '; ...' : ''}. That is ` +
-    `far more than a measurement, frame or datum difference explains: check the CRS of ${marksFile}: its projection code, UTM zone and hemisphere, ` +
-    'and the order of its coordinates (easting before northing, latitude before longitude); or the names pair different places';
+  return `${far.length} point(s) matched by name lie more than ${FAR_NAME_MATCH_M / 1000} km from their mark, ` +
+    `far more than a measurement, frame or datum difference explains: ${listed.join('; ')}${far.length > 5 ? '; ...' : ''}; ` +
+    `check the CRS of ${marksFile} (its projection code, UTM zone and hemisphere, and the order of its coordinates: easting before northing, latitude before longitude) ` +
+    'or whether the names pair different places';
 }

@@ -10,8 +10,11 @@
  *   'Z', 'UTC' or '+hh:mm'/'-hh:mm' offset; or GPS time with a 'GPST' suffix (no leap seconds
  *   applied). UTC is converted to GPS time with the leap-second table (time/gps-time.ts).
  * - Empty lines and lines starting with '#' are skipped. Errors name the file, line and column.
+ * - Two windows that overlap (one starts before the other ends) are a warning naming both: the epochs
+ *   between are counted in both points (window-names.ts), which a rover standing on one point cannot be.
+ *   Windows that only touch (one ends when the next starts) are not.
  */
-import { InputError } from '../errors.js';
+import { InputError, type WarningSink } from '../errors.js';
 import { secondsFromCalendar, utcToGpsS } from '../time/index.js';
 import type { HeightKind } from './antenna-height.js';
 import { csvRecords } from '../csv/index.js';
@@ -44,8 +47,36 @@ export function parseIsoTimeGpsS(text: string): number | undefined {
   return utcToGpsS(cal - offsetS);
 }
 
-export function parseOccupationCsv(file: string, text: string): OccupationWindow[] {
+/** A window as read, with its line and its times as written, for the overlap warning. */
+interface ReadWindow {
+  readonly window: OccupationWindow;
+  readonly line: number;
+  readonly startText: string;
+  readonly endText: string;
+}
+
+/** One warning per pair of overlapping windows, at the later-starting one's line. */
+function warnOverlaps(file: string, read: readonly ReadWindow[], onWarning: WarningSink): void {
+  const sorted = [...read].sort((a, b) => a.window.startGpsS - b.window.startGpsS || a.line - b.line);
+  sorted.forEach((a, i) => {
+    for (const b of sorted.slice(i + 1)) {
+      if (b.window.startGpsS >= a.window.endGpsS) break;
+      const endsFirst = a.window.endGpsS <= b.window.endGpsS ? a : b;
+      const seconds = endsFirst.window.endGpsS - b.window.startGpsS;
+      const what = (r: ReadWindow) => `${r.window.name} (line ${r.line}, ${r.startText.trim()} to ${r.endText.trim()})`;
+      onWarning({
+        file, line: b.line, code: 'windows-overlap',
+        message: `the windows ${what(a)} and ${what(b)} overlap from ${b.startText.trim()} to ${endsFirst.endText.trim()} (${seconds.toFixed(seconds % 1 ? 1 : 0)} s), ` +
+          'so the epochs of that time are counted in both points: end the first window before the second starts',
+      });
+    }
+  });
+}
+
+/** The windows of the file; `onWarning` is told of windows that overlap (see above). */
+export function parseOccupationCsv(file: string, text: string, onWarning?: WarningSink): OccupationWindow[] {
   const out: OccupationWindow[] = [];
+  const read: ReadWindow[] = [];
   let sawData = false;
   for (const { lineNo, fields: f } of csvRecords(text)) {
     if (!sawData && f[0]!.toLowerCase() === 'name') {
@@ -76,7 +107,10 @@ export function parseOccupationCsv(file: string, text: string): OccupationWindow
       if (k !== 'vertical' && k !== 'slant') throw new InputError(file, lineNo, `column height_kind: expected 'vertical' or 'slant', found '${kindText}'`);
       heightKind = k;
     }
-    out.push({ name, startGpsS, endGpsS, ...(antennaHeightM !== undefined ? { antennaHeightM, heightKind: heightKind ?? 'vertical' } : {}) });
+    const window: OccupationWindow = { name, startGpsS, endGpsS, ...(antennaHeightM !== undefined ? { antennaHeightM, heightKind: heightKind ?? 'vertical' } : {}) };
+    out.push(window);
+    read.push({ window, line: lineNo, startText, endText });
   }
+  if (onWarning) warnOverlaps(file, read, onWarning);
   return out;
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../errors.js';
+import { InputError, type Warning } from '../errors.js';
 import { degToRad, ecefToGeodetic, enuToEcefDelta, geodeticToEcef } from '../geodesy/index.js';
 import { gpsSFromWeekTow } from '../time/index.js';
 import { batchMeansStandardError, effectiveSampleSize, standardDeviation } from '../solve/index.js';
@@ -107,6 +107,21 @@ describe('occupation windows CSV', () => {
     expect(w[0]!.antennaHeightM).toBe(1.5);
     expect(w[1]!.heightKind).toBe('slant');
     expect(w[2]!.antennaHeightM).toBeUndefined();
+  });
+  it('overlapping windows: one warning per pair, at the later one\'s line, naming both with their lines and times as written, and the overlap', () => {
+    const warnings: Warning[] = [];
+    const text = 'name,start,end\nP1,2018-10-04T12:39:00Z,2018-10-04T12:45:00Z\nP2,2018-10-04T12:44:00Z,2018-10-04T12:48:00Z\nP3,2018-10-04 12:48:18 GPST,2018-10-04 12:50:18 GPST\n';
+    expect(parseOccupationCsv('win.csv', text, (w) => warnings.push(w))).toHaveLength(3);
+    // P3 starts at 12:48:18 GPST = 12:48:00 UTC (GPS - UTC = 18 s in 2018), when P2 ends: touching, not overlapping.
+    expect(warnings).toEqual([{
+      file: 'win.csv', line: 3, code: 'windows-overlap',
+      message: 'the windows P1 (line 2, 2018-10-04T12:39:00Z to 2018-10-04T12:45:00Z) and P2 (line 3, 2018-10-04T12:44:00Z to 2018-10-04T12:48:00Z) overlap from 2018-10-04T12:44:00Z to 2018-10-04T12:45:00Z (60 s), '
+        + 'so the epochs of that time are counted in both points: end the first window before the second starts',
+    }]);
+    // A window inside another: the overlap is the inner one.
+    const inner: Warning[] = [];
+    parseOccupationCsv('win.csv', 'A,2018-10-04T12:00:00Z,2018-10-04T13:00:00Z\nB,2018-10-04T12:10:00Z,2018-10-04T12:20:00Z\n', (w) => inner.push(w));
+    expect(inner.map((w) => [w.line, /overlap from 2018-10-04T12:10:00Z to 2018-10-04T12:20:00Z \(600 s\)/.test(w.message)])).toEqual([[2, true]]);
   });
   it('names file, line and column on errors', () => {
     expect(() => parseOccupationCsv('win.csv', csv.replace('12:45:00Z', '12:45Z'))).toThrow(InputError);

@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { gridAreaWarning, gridFactors, makeProjection, outsideGridArea, resolveProjectionSpec, TM_LIMIT_A_DEG, type EpsgLookup } from './index.js';
+import { gridAreaWarning, gridFactors, makeProjection, outsideGridArea, resolveProjectionSpec, TM_LIMIT_A_DEG, utmZoneBands, utmZoneFor, type EpsgLookup } from './index.js';
 
 // The outside reference: the EPSG dataset as shipped in the npm package epsg-index (name, kind, PROJ
 // string, WKT and area of use per code).
@@ -48,11 +48,57 @@ describe('points outside the usable area of a grid', () => {
     expect(z29.forward(SWISS.latDeg, SWISS.lonDeg).eastingM).toBeCloseTo(1846610.40, 1);
   });
 
+  it('UTM exceptions (DMA TM 8358.2, from memory: 32V 3-12 E for 56-64 N; 31X 0-9 E, 33X 9-21 E, 35X 21-33 E, 37X 33-42 E for 72-84 N): their bands widened by the same 0.5 deg', () => {
+    const z = (n: number) => proj(`EPSG:${32600 + n}`);
+    const norway = '(the Norway exception, DMA TM 8358.2) widened by 0.5 deg';
+    // Zone 31 stops at 3 E between 56 N and 64 N: 4 E at 60 N is 32V's.
+    expect(outsideGridArea(z(31), 60, 3.4)).toBeNull();
+    expect(outsideGridArea(z(31), 60, 3.6)).toEqual({ reason: `outside zone 31's band 0 E to 3 E from 56 N to 64 N ${norway}`, ownZone: 32 });
+    expect(outsideGridArea(z(31), 60, 4)).toMatchObject({ ownZone: 32 });
+    // Zone 32 reaches 3 E there, so 0.5 deg west of it too; at 64.6 N, past the exception's 64 N and its margin, it is the 6 E band again.
+    expect(outsideGridArea(z(32), 60, 2.6)).toBeNull();
+    expect(outsideGridArea(z(32), 60, 2.4)).toEqual({ reason: `outside zone 32's band 3 E to 12 E from 56 N to 64 N ${norway}`, ownZone: 31 });
+    expect(outsideGridArea(z(32), 64.4, 4)).toBeNull();
+    expect(outsideGridArea(z(32), 64.6, 4)).toEqual({ reason: "outside zone 32's band 6 E to 12 E widened by 0.5 deg", ownZone: 31 });
+    // Svalbard: each of 31X, 33X, 35X, 37X at both edges, 0.4 deg inside the margin and 0.1 deg beyond it.
+    const svalbard = '(the Svalbard exception, DMA TM 8358.2) widened by 0.5 deg';
+    for (const [zone, west, east] of [[31, 0, 9], [33, 9, 21], [35, 21, 33], [37, 33, 42]] as const) {
+      expect(outsideGridArea(z(zone), 78, west - 0.4)).toBeNull();
+      expect(outsideGridArea(z(zone), 78, east + 0.4)).toBeNull();
+      for (const lonDeg of [west - 0.6, east + 0.6]) {
+        expect(outsideGridArea(z(zone), 78, lonDeg)).toEqual({ reason: `outside zone ${zone}'s band ${west} E to ${east} E from 72 N to 84 N ${svalbard}`, ownZone: utmZoneFor(78, lonDeg).zone });
+      }
+    }
+    // 32X, 34X, 36X are not used; 32 still reaches 0.5 deg north of 72 N.
+    expect(outsideGridArea(z(32), 78, 9)?.reason).toBe('outside zone 32, which is not used from 72 N to 84 N (the Svalbard exception, DMA TM 8358.2), widened by 0.5 deg');
+    expect(outsideGridArea(z(32), 72.4, 9)).toBeNull();
+    // The bands are the zones utmZoneFor assigns: on a 0.5-deg grid each point is in a band of its own zone only.
+    for (let latDeg = 50.25; latDeg < 84; latDeg += 0.5) {
+      for (let lonDeg = -5.25; lonDeg < 48; lonDeg += 0.5) {
+        const inside = [29, 30, 31, 32, 33, 34, 35, 36, 37, 38].filter((n) => utmZoneBands(n).some((b) => latDeg >= b.southDeg && latDeg < b.northDeg && lonDeg >= b.westDeg && lonDeg < b.eastDeg));
+        expect(inside).toEqual([utmZoneFor(latDeg, lonDeg).zone]);
+      }
+    }
+  });
+
   it('an EPSG CRS: its area of use as the EPSG dataset publishes it (EPSG:27700 stops at 9 W, Galway is at 9.06 W)', () => {
     const bng = proj('EPSG:27700');
     expect(outsideGridArea(bng, 51.5, -0.12)).toBeNull();
     expect(outsideGridArea(bng, GALWAY.latDeg, GALWAY.lonDeg)?.reason).toMatch(/^outside its area of use in the EPSG dataset, 49\.7500 N to 61\.0100 N, 9\.0000 W to 2\.0100 E \(United Kingdom/);
     expect(bng.forward(GALWAY.latDeg, GALWAY.lonDeg).eastingM).toBeLessThan(0); // what the user saw: a negative easting
+    // One sentence, the dataset's area description ('...Scotland). Isle of Man onshore.') included.
+    const w = gridAreaWarning(bng, [{ name: 'HOME', ...GALWAY }])!;
+    expect(w).toMatch(/^1 of 1 point\(s\) lie outside the usable area of OSGB36 \/ British National Grid \(EPSG:27700\): HOME .*Scotland\); Isle of Man onshore\); point scale factor up to 1\.002318 .*; their easting\/northing are what that projection gives there, .*, so choose the grid of the area/);
+    expect(w).not.toMatch(/[.!?]\s/);
+    // A geographic CRS with an area of use (GDA94, EPSG:4283: Australia) holds latitude/longitude, not easting/northing.
+    const gda94 = proj('EPSG:4283');
+    expect(gda94.units).toBe('deg');
+    for (const what of ['points', 'marks'] as const) {
+      const g = gridAreaWarning(gda94, [{ name: 'HOME', ...GALWAY }], what)!;
+      expect(g).toMatch(/GDA94 \(EPSG:4283\)/);
+      expect(g).toMatch(what === 'points' ? /lie outside the area of use of .*that CRS is not meant for them there, so choose the CRS of the area$/ : /fall outside its area of use: .*their latitude\/longitude are most likely in another CRS, so check the projection column$/);
+      expect(g).not.toMatch(/easting|northing|grid|[.!?]\s/);
+    }
     expect(outsideGridArea(proj('EPSG:2157'), GALWAY.latDeg, GALWAY.lonDeg)).toBeNull();
     expect(outsideGridArea(proj('EPSG:2056'), SWISS.latDeg, SWISS.lonDeg)).toBeNull();
   });

@@ -4,10 +4,12 @@
  * point in UTM zone 29 has easting 1,846 km; an Irish point in the British National Grid a negative
  * easting). The tests, by what is published about each grid:
  *
- * - UTM (+proj=utm, whatever its source): the zone's 6-degree longitude band (DMA TM 8358.2, with the
- *   Norway and Svalbard exceptions, utm-zone.ts) and its hemisphere, each widened by 0.5 degree: work
- *   a little past a zone edge in the neighbouring zone's grid is common practice (about 40 km at 45 N;
- *   the margin is our choice within that practice, from memory, not a published limit).
+ * - UTM (+proj=utm, whatever its source): the zone's 6-degree longitude band, or where the Norway and
+ *   Svalbard exceptions apply the zone's band there (DMA TM 8358.2; utm-zone.ts, utmZoneBands: 32V is
+ *   3 E..12 E, 31V 0..3 E, 31X 0..9 E, 33X 9..21 E...), and its hemisphere, each widened by 0.5 degree
+ *   (an exception band in latitude too): work a little past a zone edge in the neighbouring zone's grid
+ *   is common practice (about 40 km at 45 N; the margin is our choice within that practice, from
+ *   memory, not a published limit).
  * - A CRS from the EPSG dataset with an area of use (its bounding box, as the dataset publishes it):
  *   outside that box. The box is already the extent of the area (offshore parts included), so no
  *   margin is added.
@@ -22,7 +24,7 @@
 import { gridFactors } from './grid-factors.js';
 import type { Projection } from './projection.js';
 import type { AreaOfUse } from './projection-spec.js';
-import { utmCentralMeridianDeg, utmZoneFor } from './utm-zone.js';
+import { utmZoneBands, utmZoneFor, type UtmZoneBand } from './utm-zone.js';
 
 /** The widening of a UTM zone's band and hemisphere (degrees): common practice, see above. */
 export const UTM_ZONE_MARGIN_DEG = 0.5;
@@ -53,6 +55,21 @@ function utmParameters(projString: string): { zone: number; south: boolean } | n
   return z ? { zone: Number(z[1]), south: /\+south\b/.test(projString) } : null;
 }
 
+/** True when the point is within `marginDeg` of the band (latitude and longitude). */
+function nearBand(b: UtmZoneBand, latDeg: number, lonDeg: number, marginDeg: number): boolean {
+  if (latDeg < b.southDeg - marginDeg || latDeg > b.northDeg + marginDeg) return false;
+  return Math.abs(lonDiffDeg(lonDeg, (b.westDeg + b.eastDeg) / 2)) <= (b.eastDeg - b.westDeg) / 2 + marginDeg;
+}
+
+/** Why a point is outside a UTM zone's widened band: the zone's band at the point's latitude, in words. */
+function outsideUtmBandReason(zone: number, bands: readonly UtmZoneBand[], latDeg: number): string {
+  const widened = `widened by ${UTM_ZONE_MARGIN_DEG} deg`;
+  const at = bands.find((b) => latDeg >= b.southDeg && latDeg < b.northDeg) ?? bands.find((b) => latDeg >= b.southDeg && latDeg <= b.northDeg);
+  if (!at) return `outside zone ${zone}, which is not used from 72 N to 84 N (the Svalbard exception, DMA TM 8358.2), ${widened}`;
+  const latitudes = at.exception ? ` from ${at.southDeg} N to ${at.northDeg} N (the ${at.exception} exception, DMA TM 8358.2)` : '';
+  return `outside zone ${zone}'s band ${deg(at.westDeg)} to ${deg(at.eastDeg)}${latitudes} ${widened}`;
+}
+
 function isInside(area: AreaOfUse, latDeg: number, lonDeg: number): boolean {
   if (latDeg > area.northDeg || latDeg < area.southDeg) return false;
   const l = lonDiffDeg(lonDeg, 0);
@@ -68,19 +85,19 @@ function isInside(area: AreaOfUse, latDeg: number, lonDeg: number): boolean {
 export function outsideGridArea(p: Projection, latDeg: number, lonDeg: number): { readonly reason: string; readonly ownZone?: number } | null {
   const utm = utmParameters(p.projString);
   if (utm) {
-    const cm = utmCentralMeridianDeg(utm.zone);
     if (utm.south ? latDeg > UTM_ZONE_MARGIN_DEG : latDeg < -UTM_ZONE_MARGIN_DEG) {
       return { reason: `in the ${utm.south ? 'northern' : 'southern'} hemisphere (the grid is zone ${utm.zone}${utm.south ? 'S' : 'N'}, widened by ${UTM_ZONE_MARGIN_DEG} deg)` };
     }
     let own: number;
     try { own = utmZoneFor(latDeg, lonDeg).zone; } catch { return { reason: 'beyond the latitudes of UTM (80 S to 84 N)' }; }
-    if (own === utm.zone || Math.abs(lonDiffDeg(lonDeg, cm)) <= 3 + UTM_ZONE_MARGIN_DEG) return null;
-    return { reason: `outside zone ${utm.zone}'s band ${deg(cm - 3)} to ${deg(cm + 3)} widened by ${UTM_ZONE_MARGIN_DEG} deg`, ownZone: own };
+    const bands = utmZoneBands(utm.zone);
+    if (own === utm.zone || bands.some((b) => nearBand(b, latDeg, lonDeg, UTM_ZONE_MARGIN_DEG))) return null;
+    return { reason: outsideUtmBandReason(utm.zone, bands, latDeg), ownZone: own };
   }
   if (p.areaOfUse) {
     if (isInside(p.areaOfUse, latDeg, lonDeg)) return null;
     const a = p.areaOfUse;
-    return { reason: `outside its area of use in the EPSG dataset, ${lat(a.southDeg)} to ${lat(a.northDeg)}, ${lon(a.westDeg)} to ${lon(a.eastDeg)}${a.description ? ` (${a.description.replace(/\.\s*$/, '')})` : ''}` };
+    return { reason: `outside its area of use in the EPSG dataset, ${lat(a.southDeg)} to ${lat(a.northDeg)}, ${lon(a.westDeg)} to ${lon(a.eastDeg)}${a.description ? ` (${a.description.replace(/\.\s*$/, '').replace(/\.\s+/g, '; ')})` : ''}` };
   }
   const tm = transverseMercator(p.projString);
   if (tm && p.units === 'm') {
@@ -131,10 +148,16 @@ export function gridAreaWarning(p: Projection, points: readonly AreaPoint[], wha
     const scale = g.maxK !== null ? `; point scale factor up to ${g.maxK.toFixed(6)} (scale error ${Math.round((g.maxK - 1) * 1e6)} ppm)` : '';
     return `${names}: ${reason}${zones}${scale}`;
   });
+  // A geographic CRS (units 'deg') holds longitude/latitude, not a grid's easting/northing.
+  const geographic = p.units === 'deg';
+  const values = geographic ? 'latitude/longitude' : 'easting/northing';
+  const list = parts.join('; ');
   if (what === 'marks') {
-    return `${count} of ${points.length} mark(s) given in ${p.name} fall outside its usable area: ${parts.join('; ')}. ` +
-      'Their easting/northing are most likely in another grid: check the projection column';
+    return `${count} of ${points.length} mark(s) given in ${p.name} fall outside its ${geographic ? 'area of use' : 'usable area'}: ${list}; their ${values} are most likely in another ${geographic ? 'CRS' : 'grid'}, so check the projection column`;
   }
-  return `${count} of ${points.length} point(s) lie outside the usable area of ${p.name}: ${parts.join('; ')}. Their easting/northing are what that projection gives there, ` +
-    'not coordinates of that grid as anyone uses it: choose the grid of the area (--projection utm takes the zone of the first point)';
+  if (geographic) {
+    return `${count} of ${points.length} point(s) lie outside the area of use of ${p.name}: ${list}; that CRS is not meant for them there, so choose the CRS of the area`;
+  }
+  return `${count} of ${points.length} point(s) lie outside the usable area of ${p.name}: ${list}; their easting/northing are what that projection gives there, ` +
+    'not coordinates of that grid as anyone uses it, so choose the grid of the area (--projection utm takes the zone of the first point)';
 }

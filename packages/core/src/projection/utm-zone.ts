@@ -36,3 +36,38 @@ export function utmZoneFor(latDeg: number, lonDeg: number): UtmZone {
 export function utmCentralMeridianDeg(zone: number): number {
   return -183 + 6 * zone;
 }
+
+/** A part of a UTM zone: its longitudes between two latitudes (degrees; west < east, both in -180..180). */
+export interface UtmZoneBand {
+  readonly southDeg: number;
+  readonly northDeg: number;
+  readonly westDeg: number;
+  readonly eastDeg: number;
+  /** The exception this part is, when it is one. */
+  readonly exception?: 'Norway' | 'Svalbard';
+}
+
+/** Latitudes of the exceptions (DMA TM 8358.2): Norway 56 N..64 N, Svalbard 72 N..84 N. */
+const NORWAY = { southDeg: 56, northDeg: 64 };
+const SVALBARD = { southDeg: 72, northDeg: 84 };
+/** Longitudes of the exception zones there (DMA TM 8358.2): 31V, 32V; 31X, 33X, 35X, 37X (none for 32X, 34X, 36X). */
+const NORWAY_BANDS: Readonly<Record<number, readonly [number, number]>> = { 31: [0, 3], 32: [3, 12] };
+const SVALBARD_BANDS: Readonly<Record<number, readonly [number, number] | null>> = { 31: [0, 9], 32: null, 33: [9, 21], 34: null, 35: [21, 33], 36: null, 37: [33, 42] };
+
+/**
+ * The parts of a UTM zone, from 80 S to 84 N, as utmZoneFor assigns points to it: the 6-degree band
+ * cm - 3..cm + 3, cut at the Norway and Svalbard exceptions, with the exception band between their latitudes.
+ */
+export function utmZoneBands(zone: number): UtmZoneBand[] {
+  const cm = utmCentralMeridianDeg(zone);
+  const nominal: readonly [number, number] = [cm - 3, cm + 3];
+  const norway = NORWAY_BANDS[zone], svalbard = zone in SVALBARD_BANDS ? SVALBARD_BANDS[zone] : nominal;
+  const band = (southDeg: number, northDeg: number, [westDeg, eastDeg]: readonly [number, number], exception?: UtmZoneBand['exception']): UtmZoneBand =>
+    ({ southDeg, northDeg, westDeg, eastDeg, ...(exception ? { exception } : {}) });
+  return [
+    band(-80, NORWAY.southDeg, nominal),
+    norway ? band(NORWAY.southDeg, NORWAY.northDeg, norway, 'Norway') : band(NORWAY.southDeg, NORWAY.northDeg, nominal),
+    band(NORWAY.northDeg, SVALBARD.southDeg, nominal),
+    ...(svalbard === nominal ? [band(SVALBARD.southDeg, SVALBARD.northDeg, nominal)] : svalbard ? [band(SVALBARD.southDeg, SVALBARD.northDeg, svalbard, 'Svalbard')] : []),
+  ];
+}

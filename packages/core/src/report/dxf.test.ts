@@ -13,6 +13,10 @@ describe('DXF point names as ASCII MTEXT values', () => {
     expect(dxfMtextValue('one\ntwo\u0085')).toBe('one two ');
     expect(dxfMtextValue('\u{1F600}')).toBe('\\U+FFFD');
   });
+  it("two percent signs (the %%d, %%c, %%p codes): the second and each one after as \\U+0025, a lone one as it is", () => {
+    expect(dxfMtextValue('10%%d')).toBe('10%\\U+0025d');
+    expect(dxfMtextValue('%%%c 50%')).toBe('%\\U+0025\\U+0025c 50%');
+  });
   it('cut at a whole character to fit one group 1 line (250 characters)', () => {
     const v = dxfMtextValue('é'.repeat(100));
     expect(v.length).toBeLessThanOrEqual(250);

@@ -12,6 +12,12 @@
  * DXF Unicode escape \U+XXXX (AutoCAD DXF Reference, "Group Codes in Numerical Order" and the MTEXT
  * format codes), and $DWGCODEPAGE ANSI_1252 stated. The names are MTEXT, not TEXT: GDAL 3.6 translates
  * \U+XXXX in MTEXT and leaves it as it is in TEXT (checked with ogrinfo 3.6.2).
+ *
+ * Two percent signs start a special-character code in DXF text (%%d degree, %%c diameter, %%p plus/minus:
+ * AutoCAD DXF Reference, MTEXT and TEXT control codes, from memory), and GDAL 3.6 turns them into those
+ * characters in MTEXT too, but does not read the '%%%' of TEXT as a percent sign (ogrinfo 3.6.2 shows
+ * '%%%q' as it is). A percent sign that follows another is therefore written \U+0025, so the file never
+ * holds two in a row and a name such as '10%%d' is shown as written.
  */
 import { DxfWriter, MTextAttachmentPoint, point3d, Units } from '@tarikjabiri/dxf';
 
@@ -52,8 +58,10 @@ function mtextCharacter(codePoint: number): string {
  */
 export function dxfMtextValue(name: string): string {
   let out = '';
+  let previous = '';
   for (const ch of name) {
-    const piece = mtextCharacter(ch.codePointAt(0)!);
+    const piece = ch === '%' && previous === '%' ? '\\U+0025' : mtextCharacter(ch.codePointAt(0)!);
+    previous = ch;
     if (out.length + piece.length > MTEXT_GROUP1_MAX_CHARS) break;
     out += piece;
   }

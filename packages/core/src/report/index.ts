@@ -24,4 +24,4 @@ export * from './output-kinds.js';
 export { GeoPackageWriter, csvtText, gpkgPointBlob, gpkgFieldType, initGeoPackage, type SqliteDatabase, type GpkgLayer, type GpkgSrs } from './geopackage.js';
 export { kmlPlacemark, kmlStart, kmlEnd, kmlFrameNote, xmlText } from './kml.js';
 export { pointsDxf, dxfMtextValue, DXF_POINTS_LAYER, DXF_NAMES_LAYER, type DxfPoint } from './dxf.js';
-export { gridCrsWords, heightsStatement, pooledPointScatter, pointsRunScatter, withPointsRun, type HeightsStatement, type PointsRunOptions } from './points-run-summary.js';
+export { gridCrsWords, heightsStatement, pooledPointScatter, POOLED_POINT_SCATTER_KIND, pointsRunScatter, withPointsRun, type HeightsStatement, type PointsRunOptions } from './points-run-summary.js';

@@ -61,6 +61,9 @@ describe('grid CRS and heights in words', () => {
     expect(none.label).toMatch(/^ellipsoidal .* only/);
     const egm = heightsStatement(frame, { name: 'EGM96 (NGA 15-minute grid, bilinear)', heightReference: 'EGM96 geoid', undulationM: () => 47 });
     expect(egm.label).toMatch(/orthometric .* above EGM96 geoid/);
+    // The label's examples as documented: the frame's name without its epoch.
+    expect(none.label).toBe('ellipsoidal (height_m, above the ellipsoid of WGS84) only (no geoid model given)');
+    expect(egm.label).toBe('ellipsoidal (height_m, above the ellipsoid of WGS84); orthometric (orthometric_height_m = height_m - N) above EGM96 geoid (EGM96 (NGA 15-minute grid, bilinear))');
     expect(egm.caution).toBe(EGM96_NOT_A_DATUM_NOTE);
     // A national model read from a grid file states its own height datum: no EGM96 caution.
     expect(heightsStatement(frame, { name: 'OSGM15 (ISG grid)', heightReference: 'Malin Head', undulationM: () => 57 }).caution).toBeNull();

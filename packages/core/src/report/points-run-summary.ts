@@ -38,7 +38,11 @@ export function gridCrsWords(g: Pick<GridLabel, 'epsg' | 'name' | 'definition'>)
 
 /** The heights of the points in words, and the geoid model's caution when it has one. */
 export interface HeightsStatement {
-  /** e.g. 'ellipsoidal (height_m, WGS84 epoch 2024.3672); orthometric (orthometric_height_m) above EGM96 geoid (EGM96 ...)'. */
+  /**
+   * The frame's name, not its epoch: e.g. 'ellipsoidal (height_m, above the ellipsoid of WGS84); orthometric
+   * (orthometric_height_m = height_m - N) above EGM96 geoid (EGM96 (NGA 15-minute grid, bilinear))', or
+   * 'ellipsoidal (height_m, above the ellipsoid of WGS84) only (no geoid model given)'.
+   */
   readonly label: string;
   readonly ellipsoidal: string;
   /** null without a geoid. */
@@ -56,9 +60,12 @@ export function heightsStatement(frame: FrameEpoch, geoid?: GeoidModel): Heights
 
 /**
  * Scatter of each point's epochs (those it averages) about the mean of those epochs, pooled over the
- * points. mean_ecef is null: there is no one mean. NaN figures when no point has an epoch.
+ * points. mean_ecef is null: there is no one mean. NaN figures when no point has an epoch. Needs of an
+ * epoch its tag, kind and position only, so a report can compute it again from epochs.csv.
  */
-export function pooledPointScatter(epochs: readonly PointEpoch[], points: readonly PointResult[], minEpochs = 10): ScatterStats & { readonly points: number } {
+export function pooledPointScatter(
+  epochs: readonly Pick<PointEpoch, 'tagGpsS' | 'kind' | 'ecef'>[], points: readonly Pick<PointResult, 'startGpsS' | 'endGpsS'>[], minEpochs = 10,
+): ScatterStats & { readonly points: number } {
   const diffs = [];
   let used = 0;
   for (const p of points) {
@@ -72,10 +79,14 @@ export function pooledPointScatter(epochs: readonly PointEpoch[], points: readon
   return { ...horizontalVerticalStats(diffs), meanEcef: null, points: used };
 }
 
+/** summary.json's statistics.kind of the pooled scatter about each point's own mean. */
+export const POOLED_POINT_SCATTER_KIND = 'each-point-mean';
+
 /** The labelled scatter of a points run for summary.json's `statistics`. */
 export function pointsRunScatter(epochs: readonly PointEpoch[], points: readonly PointResult[]): LabelledScatter {
   const stats = pooledPointScatter(epochs, points);
   return {
+    kind: POOLED_POINT_SCATTER_KIND,
     over: `the epochs of ${stats.points} point(s), each about its own point's mean (epochs between points left out)`,
     about: "scatter of each point's epochs about that point's mean, pooled over the points (precision, not accuracy)",
     stats,

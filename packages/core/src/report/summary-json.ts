@@ -32,6 +32,11 @@ export interface OutputFileRecord {
 
 /** What the statistics were computed on and the figures. */
 export interface LabelledScatter {
+  /**
+   * What the scatter is about, for programs: 'each-point-mean' (a points run: each epoch about its own
+   * point's mean); absent for a scatter about one overall mean (mean_ecef).
+   */
+  readonly kind?: string;
   /** e.g. 'differential and smoothed epochs' */
   readonly over: string;
   /** What the scatter is about, in words; SOLVE_SCATTER_ABOUT when not given. */
@@ -72,6 +77,7 @@ function ecefJson(p: EcefM | null): { x_m: number | null; y_m: number | null; z_
 export function scatterJson(s: LabelledScatter): Record<string, unknown> {
   const t = s.stats;
   return {
+    ...(s.kind ? { kind: s.kind } : {}),
     over: s.over,
     about: s.about ?? SOLVE_SCATTER_ABOUT,
     epochs: t.count,
