@@ -629,7 +629,8 @@ class PassRunner {
     if (disturbed) this.disturbedEpochs++;
     out.satellitesUsed = used;
     if (used < 4 + this.usedSys.size) {
-      out.cause = CAUSE_TOO_FEW_SATELLITES; out.causeA = used; out.causeB = 4 + this.usedSys.size;
+      // Needed: as the test above, with one constellation at least when none was used (the words say 'need 5', not 4).
+      out.cause = CAUSE_TOO_FEW_SATELLITES; out.causeA = used; out.causeB = 4 + Math.max(1, this.usedSys.size);
       this.remember(k, e);
       return;
     }

@@ -1097,6 +1097,7 @@ class SolutionWriter {
     const sats = [];
     // Look angles and DOPs from the recorded lines of sight (ENU at the reference: a short baseline).
     const used: number[] = [], clockIndex: number[] = [], systemsSeen: GnssSystem[] = [];
+    let belowMask = 0;
     for (let j = j0; j < j1; j++) {
       const ux = rec.los[3 * j], uy = rec.los[3 * j + 1], uz = rec.los[3 * j + 2];
       const e = -Math.sin(gRef.lonRad) * ux + Math.cos(gRef.lonRad) * uy;
@@ -1114,8 +1115,7 @@ class SolutionWriter {
       const withPhase = Number.isFinite(rec.phaseM[j]);
       const residualM = results.residualM[j];
       const variance = withPhase ? singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]) : this.codeScale * singleDifferenceVarianceM2(this.codeAM, this.codeBM, rec.elevationRad[j]);
-      if (rec.elevationRad[j] < maskRad) this.belowMaskCount++;
-      else if (kind === 'none') this.unsolvedCount++;
+      if (rec.elevationRad[j] < maskRad) belowMask++;
       sats.push({
         sat: info.id, signal: withPhase ? info.phaseCode : info.code, elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: az,
         residualM, weight: 1 / variance, wTest: NaN, used: rec.elevationRad[j] >= maskRad && kind !== 'none',
@@ -1125,6 +1125,9 @@ class SolutionWriter {
     // One object literal per epoch, no spread of a shared part: V8 copies a spread object through a slow
     // path that allocates in the old generation, which made the heap of a long session grow several-fold.
     const solved = kind !== 'none';
+    // The satellites left out (rejections()): below the mask, and the others of an epoch without solution.
+    this.belowMaskCount += belowMask;
+    if (!solved) this.unsolvedCount += j1 - j0 - belowMask;
     const arp = { x: results.position[3 * i], y: results.position[3 * i + 1], z: results.position[3 * i + 2] };
     const pos = solved && this.reduceToMark ? arpToMark(arp, c.antenna) : arp;
     const refPoint = this.reduceToMark ? this.refMark : this.refArp;
