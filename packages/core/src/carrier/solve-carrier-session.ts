@@ -115,7 +115,8 @@ export interface CarrierSummary {
   readonly notes: readonly string[];
   /**
    * Satellites left out of the epochs' solutions, per reason (as the satellites' reasons in the epochs, without
-   * their numbers), one count per satellite and epoch: as the code engine's summary. Counted as the epochs
+   * their numbers), one count per satellite and band of an epoch (a row of residuals.csv): as the code
+   * engine's summary, which has one band per satellite. Counted as the epochs
    * are yielded: complete once they all have been.
    */
   readonly satelliteRejections: readonly { readonly reason: string; readonly count: number }[];
