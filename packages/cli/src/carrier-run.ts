@@ -4,7 +4,7 @@
  * summary gives the fix shares of each pass.
  */
 import {
-  findAntenna, readAntex, solveCarrierSession, withCarrierDefaults,
+  findAntenna, readAntex, ReasonCounter, solveCarrierSession, withCarrierDefaults,
   type AntexData, type CarrierDynamics, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary, type EpochSolution,
   type GnssSystem, type NavData, type ObsHeader, type ObsStream, type SessionOptions, type SessionSummary, type SolutionKind, type Warning, type WarningSink,
 } from '@refdelta/core';
@@ -85,8 +85,9 @@ export async function runCarrierSession(
         // The carrier kinds alongside the code ones (the union of kinds is widened here for the outputs).
         epochsByKind: { differential: 0, smoothed: 0, standalone: 0, none: tally.none, fixed: c.combined.fixed, float: c.combined.float },
         epochsWithoutCorrections: 0,
-        satelliteRejections: [],
-        epochRejections: [...tally.reasons].map(([reason, count]) => ({ reason, count })).sort((a, b) => b.count - a.count),
+        // As the code engine's: reasons without their numbers, one count per satellite and epoch (or per epoch).
+        satelliteRejections: c.satelliteRejections,
+        epochRejections: tally.reasons.list(),
         systemsUsed: [...tally.systems],
         notes: [...(words ? c.notes.map((n) => words.sentence(n)) : c.notes), carrierSharesSentence(c)],
         firstGpsS: tally.firstGpsS, lastGpsS: tally.lastGpsS,
@@ -147,14 +148,15 @@ class CarrierEpochTally {
   none = 0;
   firstGpsS = NaN;
   lastGpsS = NaN;
-  readonly reasons = new Map<string, number>();
+  /** Why epochs have no solution, counted without the numbers in brackets (as the code engine's). */
+  readonly reasons = new ReasonCounter();
   readonly systems = new Set<GnssSystem>();
 
   add(s: CarrierEpochSolution): void {
     this.epochs++;
     if (Number.isNaN(this.firstGpsS)) this.firstGpsS = s.tagGpsS;
     this.lastGpsS = s.tagGpsS;
-    if (s.kind === 'none') { this.none++; this.reasons.set(s.reason, (this.reasons.get(s.reason) ?? 0) + 1); }
+    if (s.kind === 'none') { this.none++; this.reasons.add(s.reason); }
     for (const x of s.satellites) if (x.used) this.systems.add(x.sat[0] as GnssSystem);
   }
 }

@@ -17,7 +17,7 @@ export { loadEgm96, looksLikeIsg, looksLikeTiff, parseGeoTiffGeoid, parseIsgGrid
 export { gridAreaWarning, makeProjection, resolveProjectionSpec, utmEpsgOfFrame, utmZoneFor } from './projection/index.js';
 export { broadcastOrbitFrame, solveStandaloneEpoch, solveStandaloneSession } from './standalone/index.js';
 export { openText } from './compress/index.js';
-export { DEFAULT_OPTIONS, sigmaRescaleFactor, solveSession, withDefaults } from './session/index.js';
+export { DEFAULT_OPTIONS, ReasonCounter, sigmaRescaleFactor, solveSession, withDefaults } from './session/index.js';
 export { CHI2_1_95, CHI2_2_95, DEFAULT_MATCH_RADIUS_M, closerReading, differenceTestWord, FAR_NAME_MATCH_M, farNameMatches, farNameMatchSentence, parseControlCsv, parseMarksFile, splitCsvLine, testDifference } from './control/index.js';
 export { parseOccupationCsv } from './points/occupation-csv.js';
 export { summarisePoint } from './points/summarise-point.js';

@@ -62,6 +62,7 @@ interface Solution {
 export function combineEpoch(r: PassResults, i: number, entry: number, entries: number, b: EpochResult, agreementM: number): void {
   const from = combine(r, i, b, agreementM);
   r.backwardKind[i] = b.kind;
+  r.backwardCause[i] = b.cause; r.backwardCauseA[i] = b.causeA; r.backwardCauseB[i] = b.causeB;
   if (from === 2) { r.residualM.set(b.residualM.subarray(0, entries), entry); r.chiSquare[i] = b.chiSquare; r.dof[i] = b.dof; }
   else if (from === 0) { r.residualM.fill(NaN, entry, entry + entries); r.chiSquare[i] = NaN; r.dof[i] = 0; }
 }

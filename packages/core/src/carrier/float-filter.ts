@@ -43,6 +43,9 @@ import type { EpochRecords } from './epoch-records.js';
 import type { GnssSystem, SatId } from '../gnss/index.js';
 import { ionosphereObliquity, type IonosphereWeighting } from './ionosphere-weighting.js';
 import { keepShape } from './kept-shapes.js';
+import {
+  CAUSE_CONDITIONING_FAILED, CAUSE_DISTURBED, CAUSE_NONE, CAUSE_RATIO, CAUSE_SEARCH_FAILED, CAUSE_SUCCESS_RATE, CAUSE_TOO_FEW_AMBIGUITIES, CAUSE_TOO_FEW_SATELLITES,
+} from './float-causes.js';
 
 /** One entry of the signal table: a satellite's signal on one band (the primary band, or a further one). */
 export interface SatelliteInfo {
@@ -75,6 +78,10 @@ export class EpochResult {
   ratio = NaN;
   fixedAmbiguities = 0;
   satellitesUsed = 0;
+  /** Why the epoch is float or unsolved (float-causes.ts: CAUSE_*), with its two numbers (NaN when unused). */
+  cause = CAUSE_NONE;
+  causeA = NaN;
+  causeB = NaN;
   /** The epoch's solution: fixed when kind is 2, else float. */
   readonly position = new Float64Array(3);
   /** Position covariance xx, xy, xz, yy, yz, zz (m^2). */
@@ -107,6 +114,7 @@ export class EpochResult {
   /** Clears the result for an epoch of `entries` record entries. */
   start(entries: number): void {
     this.kind = 0; this.ratio = NaN; this.fixedAmbiguities = 0; this.satellitesUsed = 0; this.chiSquare = NaN; this.dof = 0;
+    this.cause = CAUSE_NONE; this.causeA = NaN; this.causeB = NaN;
     this.position.fill(NaN); this.covariance.fill(NaN); this.floatPosition.fill(NaN); this.floatCovariance.fill(NaN);
     if (this.residualM.length < entries) this.residualM = new Float32Array(2 * entries);
     this.residualM.fill(NaN, 0, entries);
@@ -459,6 +467,9 @@ class PassRunner {
   private readonly usedSys = new Set<GnssSystem>();
   private codeOutliers = 0;
   private disturbedEpochs = 0;
+  /** The current epoch's arcs started or ended, and the larger of the arcs before and after (arcTurnover). */
+  private turnover = 0;
+  private turnoverOf = 0;
   /** The previous epoch's index (-1 before the first), time, static flag and velocity (its chunk may be gone). */
   private prev = -1;
   private prevTimeS = NaN;
@@ -617,7 +628,12 @@ class PassRunner {
     const disturbed = this.arcTurnover(j0, j1);
     if (disturbed) this.disturbedEpochs++;
     out.satellitesUsed = used;
-    if (used < 4 + this.usedSys.size) { this.remember(k, e); return; }
+    if (used < 4 + this.usedSys.size) {
+      // Needed: as the test above, with one constellation at least when none was used (the words say 'need 5', not 4).
+      out.cause = CAUSE_TOO_FEW_SATELLITES; out.causeA = used; out.causeB = 4 + Math.max(1, this.usedSys.size);
+      this.remember(k, e);
+      return;
+    }
     // Float solution.
     const c = st.cap;
     out.kind = 1;
@@ -629,6 +645,7 @@ class PassRunner {
     out.floatPosition.set(out.position);
     out.floatCovariance.set(out.covariance);
     if (!disturbed) this.fixEpoch(k, e);
+    else { out.cause = CAUSE_DISTURBED; out.causeA = this.turnover; out.causeB = this.turnoverOf; }
     // Fixed: at the state conditioned on the integers (fixEpoch, before they were held); float: the filter's.
     this.writeResiduals(e, out.kind === 2 ? this.conditioned : st.x);
     this.remember(k, e);
@@ -823,6 +840,8 @@ class PassRunner {
     for (const a of arcsNow) if (!arcsBefore.has(a)) turnover++;
     for (const a of arcsBefore) if (!arcsNow.has(a)) turnover++;
     const turned = arcsBefore.size > 0 && turnover > 0.5 * Math.max(arcsBefore.size, arcsNow.size);
+    this.turnover = turnover;
+    this.turnoverOf = Math.max(arcsBefore.size, arcsNow.size);
     this.arcsBefore = arcsNow;
     this.arcsNow = arcsBefore;
     return turned;
@@ -852,7 +871,7 @@ class PassRunner {
     const st = this.st, out = this.out;
     const dd = this.doubleDifferences(e);
     const m = dd.length;
-    if (m < this.minFixedAmbiguities) return;
+    if (m < this.minFixedAmbiguities) { out.cause = CAUSE_TOO_FEW_AMBIGUITIES; out.causeA = m; out.causeB = this.minFixedAmbiguities; return; }
     const x = st.x;
     // Scratch arrays of the pass, grown as needed (larger than needed: every reader indexes with m or ns).
     if (this.fixA.length < m) {
@@ -877,7 +896,12 @@ class PassRunner {
     const fixOptions = this.fixOptions;
     const fix = fixAroundHeld(a, q, m, order, fixOptions) ?? fixPartially(a, q, m, order, fixOptions);
     out.ratio = fix.ratio;
-    if (!('integers' in fix)) return;
+    if (!('integers' in fix)) {
+      // fixPartially gives the best ratio of the subsets tried: one at or above the threshold was refused for its success rate.
+      out.cause = Number.isNaN(fix.ratio) ? CAUSE_SEARCH_FAILED : fix.ratio >= fixOptions.ratioThreshold ? CAUSE_SUCCESS_RATE : CAUSE_RATIO;
+      out.causeA = fix.ratio;
+      return;
+    }
     this.conditionOnFixed(k, dd, m, fix.indices, fix.integers);
   }
 
@@ -898,7 +922,7 @@ class PassRunner {
     for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) qxa[r][u] = st.cov(r, dd[sub[u]].i) - st.cov(r, dd[sub[u]].p);
     for (let r = 0; r < 3; r++) for (let u = 0; u < ns; u++) fixRhs[r][u] = qxa[r][u];
     const rhs = [d, fixRhs[0], fixRhs[1], fixRhs[2]];
-    if (!choleskySolve(qs, ns, rhs)) return;
+    if (!choleskySolve(qs, ns, rhs)) { out.cause = CAUSE_CONDITIONING_FAILED; return; }
     for (let r = 0; r < 3; r++) {
       let s = 0;
       for (let u = 0; u < ns; u++) s += qxa[r][u] * rhs[0][u];

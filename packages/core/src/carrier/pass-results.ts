@@ -9,16 +9,18 @@
  * forward results, then the combined ones), in a temporary file with the command line's store.
  *
  * Columns of a chunk of n epochs and m satellite entries: position, covariance (xx, xy, xz, yy, yz, zz),
- * floatPosition, floatCovariance (f64); ratio, chiSquare, residualM (f32, per entry, indexed like the
- * records' per-satellite arrays: EpochRecords.satStart[e] + i); fixedAmbiguities, satellitesUsed, dof (u16);
- * kind, forwardKind, backwardKind (u8: 0 none, 1 float, 2 fixed). 161 n + 4 m bytes.
+ * floatPosition, floatCovariance (f64); ratio, chiSquare, the causes' numbers of each pass (forwardCauseA,
+ * forwardCauseB, backwardCauseA, backwardCauseB), residualM (f32, per entry, indexed like the records'
+ * per-satellite arrays: EpochRecords.satStart[e] + i); fixedAmbiguities, satellitesUsed, dof (u16); kind,
+ * forwardKind, backwardKind (u8: 0 none, 1 float, 2 fixed), forwardCause, backwardCause (u8: float-causes.ts).
+ * 179 n + 4 m bytes.
  */
 import type { EpochRecords, RecordStore } from './epoch-records.js';
 import type { EpochResult } from './float-filter.js';
 import { keepShape } from './kept-shapes.js';
 
 /** Bytes of a chunk's columns for n epochs and m entries (widest first, so each view is aligned). */
-const chunkBytes = (n: number, m: number): number => 144 * n + 8 * n + 4 * m + 6 * n + 3 * n;
+const chunkBytes = (n: number, m: number): number => 144 * n + 8 * n + 16 * n + 4 * m + 6 * n + 3 * n + 2 * n;
 
 /** The stage whose columns are current: what a change of chunk stores and loads. */
 type Stage = 'forward' | 'combine' | 'read';
@@ -38,6 +40,13 @@ export class PassResults {
   kind = new Uint8Array(0);
   forwardKind = new Uint8Array(0);
   backwardKind = new Uint8Array(0);
+  /** Why each pass left the epoch float or unsolved (float-causes.ts), with the cause's two numbers. */
+  forwardCause = new Uint8Array(0);
+  backwardCause = new Uint8Array(0);
+  forwardCauseA = new Float32Array(0);
+  forwardCauseB = new Float32Array(0);
+  backwardCauseA = new Float32Array(0);
+  backwardCauseB = new Float32Array(0);
 
   /** Per chunk: its block of forward results, of combined results (-1 until stored). */
   private readonly forwardBlock: number[] = [];
@@ -74,6 +83,8 @@ export class PassResults {
         this.position.fill(NaN); this.covariance.fill(NaN); this.floatPosition.fill(NaN); this.floatCovariance.fill(NaN);
         this.ratio.fill(NaN); this.chiSquare.fill(NaN); this.residualM.fill(NaN); this.fixedAmbiguities.fill(0); this.satellitesUsed.fill(0); this.dof.fill(0);
         this.kind.fill(0); this.forwardKind.fill(0); this.backwardKind.fill(0);
+        this.forwardCause.fill(0); this.backwardCause.fill(0);
+        this.forwardCauseA.fill(NaN); this.forwardCauseB.fill(NaN); this.backwardCauseA.fill(NaN); this.backwardCauseB.fill(NaN);
       }
       this.current = c;
       this.stage = stage;
@@ -96,6 +107,9 @@ export class PassResults {
     this.satellitesUsed[i] = r.satellitesUsed;
     this.chiSquare[i] = r.chiSquare;
     this.dof[i] = r.dof;
+    this.forwardCause[i] = r.cause;
+    this.forwardCauseA[i] = r.causeA;
+    this.forwardCauseB[i] = r.causeB;
     const e = this.rec.indexOf(k);
     this.residualM.set(r.residualM.subarray(0, this.rec.satCount[e]), this.rec.satStart[e]);
   }
@@ -128,6 +142,10 @@ export class PassResults {
     this.floatCovariance = next((p) => new Float64Array(b, p, 6 * n), 48 * n);
     this.ratio = next((p) => new Float32Array(b, p, n), 4 * n);
     this.chiSquare = next((p) => new Float32Array(b, p, n), 4 * n);
+    this.forwardCauseA = next((p) => new Float32Array(b, p, n), 4 * n);
+    this.forwardCauseB = next((p) => new Float32Array(b, p, n), 4 * n);
+    this.backwardCauseA = next((p) => new Float32Array(b, p, n), 4 * n);
+    this.backwardCauseB = next((p) => new Float32Array(b, p, n), 4 * n);
     this.residualM = next((p) => new Float32Array(b, p, m), 4 * m);
     this.fixedAmbiguities = next((p) => new Uint16Array(b, p, n), 2 * n);
     this.satellitesUsed = next((p) => new Uint16Array(b, p, n), 2 * n);
@@ -135,5 +153,7 @@ export class PassResults {
     this.kind = next((p) => new Uint8Array(b, p, n), n);
     this.forwardKind = next((p) => new Uint8Array(b, p, n), n);
     this.backwardKind = next((p) => new Uint8Array(b, p, n), n);
+    this.forwardCause = next((p) => new Uint8Array(b, p, n), n);
+    this.backwardCause = next((p) => new Uint8Array(b, p, n), n);
   }
 }

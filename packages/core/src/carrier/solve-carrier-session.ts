@@ -58,6 +58,7 @@ import { GeometryFreeMonitor } from './geometry-free.js';
 import { ionosphereFactor, ionosphereWeighting } from './ionosphere-weighting.js';
 import { findTimeDifferencedSlips, SLIP_MIN_CYCLES, SLIP_MIN_CYCLES_REFERENCE_SWITCH, type TimeDifferencedPhase } from './time-differenced-slips.js';
 import { keepShape } from './kept-shapes.js';
+import { CAUSE_DISTURBED, CAUSE_TOO_FEW_SATELLITES, combinedFloatReason, tooFewSatellitesReason, type CauseLimits } from './float-causes.js';
 
 export interface CarrierInputs {
   readonly rover: ObsStream;
@@ -112,6 +113,13 @@ export interface CarrierSummary {
   /** Median antenna-to-antenna distance of the solved epochs (m). */
   readonly baselineLengthM: number;
   readonly notes: readonly string[];
+  /**
+   * Satellites left out of the epochs' solutions, per reason (as the satellites' reasons in the epochs, without
+   * their numbers), one count per satellite and band of an epoch (a row of residuals.csv): as the code
+   * engine's summary, which has one band per satellite. Counted as the epochs
+   * are yielded: complete once they all have been.
+   */
+  readonly satelliteRejections: readonly { readonly reason: string; readonly count: number }[];
   /** Memory of the prepared records (bytes). */
   readonly recordBytes: number;
 }
@@ -127,6 +135,8 @@ export interface CarrierRun {
 }
 
 const DEG = Math.PI / 180;
+/** A satellite's reason below the elevation mask (its elevation follows in brackets), and its count's in the summary. */
+const BELOW_MASK = 'below elevation mask';
 const KIND: readonly CarrierSolutionKind[] = ['none', 'float', 'fixed'];
 
 function isKnownType(t: string): boolean {
@@ -267,7 +277,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
       { direction: -1, onFix: onFix('backward'), consumer: backward },
     ]);
     results.finish();
-    notes.push(`filter: ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out, ${fwd.disturbedEpochs + bwd.disturbedEpochs} epochs left float because more than half of their arcs started or ended (both passes)`);
+    notes.push(`filter: ${fwd.codeOutliers + bwd.codeOutliers} code outliers left out (the two passes counted together); tracking disturbed (more than half of the arcs started or ended since the pass's previous epoch: no fix tried) at ${fwd.disturbedEpochs} epochs of the forward pass and ${bwd.disturbedEpochs} of the backward pass; ${backward.disturbedFloat} epochs of the result are float where a pass was disturbed`);
 
     const writer = new SolutionWriter({
       rec, results, satellites, contexts: reader.contexts, reasons: reader.reasons,
@@ -296,7 +306,7 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
         frame, referencePosition: { ecef: refMark, frame }, referencePositionSource: refSource,
         epochsRover: rec.count, forward: forwardShares.plain(), backward: backwardShares.plain(), combined: combinedShares.plain(),
         fixableSystems: [...fixable], signals: [...new Set(satellites.map((x) => `${x.system} ${x.phaseCode}`))], slips: { rover: allCauses(roverTracker, roverBandTrackers), reference: allCauses(refTracker, refBandTrackers) },
-        baselineLengthM, notes, recordBytes,
+        baselineLengthM, notes, satelliteRejections: writer.rejections(), recordBytes,
       }),
     };
   } catch (e) {
@@ -907,6 +917,8 @@ class ForwardConsumer implements EpochConsumer {
 class BackwardConsumer implements EpochConsumer {
   readonly shares = new Shares();
   readonly combinedShares = new Shares();
+  /** Epochs float in the combination where a pass found its tracking disturbed (float-causes.ts CAUSE_DISTURBED). */
+  disturbedFloat = 0;
   private lengths: Float64Array;
   private solvedCount = 0;
 
@@ -922,6 +934,7 @@ class BackwardConsumer implements EpochConsumer {
     const e = rec.indexOf(k);
     combineEpoch(results, i, rec.satStart[e], rec.satCount[e], r, this.agreementM);
     this.combinedShares.count(results.kind[i]);
+    if (results.kind[i] === 1 && (results.forwardCause[i] === CAUSE_DISTURBED || results.backwardCause[i] === CAUSE_DISTURBED)) this.disturbedFloat++;
     if (results.kind[i] !== 0) this.lengths[this.solvedCount++] = Math.hypot(results.position[3 * i] - refArp.x, results.position[3 * i + 1] - refArp.y, results.position[3 * i + 2] - refArp.z);
   }
 
@@ -980,6 +993,11 @@ class SolutionWriter {
   private readonly bMethod: boolean;
   /** Critical values of the epochs' test by degrees of freedom (NaN: not computed yet). */
   private critical = new Float64Array(0);
+  /** The options the words of the float causes quote (float-causes.ts). */
+  private readonly limits: CauseLimits;
+  /** Satellites left out of the epochs written so far, per reason (rejections()). */
+  private belowMaskCount = 0;
+  private unsolvedCount = 0;
 
   constructor(s: WriterSetup) {
     this.rec = s.rec;
@@ -1000,6 +1018,7 @@ class SolutionWriter {
     this.alphaGlobal = s.quality.alphaGlobal;
     this.alphaLocal = s.quality.alphaLocal;
     this.bMethod = s.quality.testLevels === 'b-method';
+    this.limits = { ratioThreshold: s.carrier.ratioThreshold, minSuccessRate: s.carrier.minSuccessRate };
     keepShape(this);
   }
 
@@ -1032,6 +1051,47 @@ class SolutionWriter {
     return c;
   }
 
+  /** Why the combined result i is float (float-causes.ts), from the two passes' kinds and causes. */
+  private floatReason(i: number): string {
+    const r = this.results;
+    return combinedFloatReason([r.forwardKind[i], r.backwardKind[i]], [r.forwardCause[i], r.backwardCause[i]],
+      [r.forwardCauseA[i], r.backwardCauseA[i]], [r.forwardCauseB[i], r.backwardCauseB[i]], this.limits);
+  }
+
+  /**
+   * Why record e (result i), which had satellites, has no solution: the satellites used by the better pass
+   * against those needed, and the satellites common to both receivers above the horizon (primary band),
+   * of them below the elevation mask.
+   */
+  private unsolvedReason(i: number, e: number): string {
+    const r = this.results, rec = this.rec;
+    const f = r.forwardCause[i] === CAUSE_TOO_FEW_SATELLITES ? r.forwardCauseA[i] : -1;
+    const b = r.backwardCause[i] === CAUSE_TOO_FEW_SATELLITES ? r.backwardCauseA[i] : -1;
+    if (f < 0 && b < 0) return 'too few satellites for a solution';
+    const forward = f >= b;
+    let common = 0, belowMask = 0;
+    for (let j = rec.satStart[e]; j < rec.satStart[e] + rec.satCount[e]; j++) {
+      if (!this.satellites[rec.sat[j]].primary) continue;
+      common++;
+      if (rec.elevationRad[j] < this.maskRad) belowMask++;
+    }
+    return tooFewSatellitesReason({
+      used: forward ? f : b, needed: forward ? r.forwardCauseB[i] : r.backwardCauseB[i], common, belowMask, maskDeg: this.maskRad / DEG,
+    });
+  }
+
+  /**
+   * Satellites left out of the epochs written so far, per reason, most frequent first: below the elevation
+   * mask (the satellites' reason without its number), or in an epoch without solution ('no solution', as
+   * the code engine's satellites of an epoch it could not solve).
+   */
+  rejections(): { reason: string; count: number }[] {
+    const out: { reason: string; count: number }[] = [];
+    if (this.belowMaskCount > 0) out.push({ reason: BELOW_MASK, count: this.belowMaskCount });
+    if (this.unsolvedCount > 0) out.push({ reason: 'no solution', count: this.unsolvedCount });
+    return out.sort((a, b) => b.count - a.count);
+  }
+
   /** The solution of record k (read from the combined results). */
   solutionAt(k: number): CarrierEpochSolution {
     const rec = this.rec, results = this.results, satellites = this.satellites, maskRad = this.maskRad, gRef = this.gRef;
@@ -1044,6 +1104,7 @@ class SolutionWriter {
     const sats = [];
     // Look angles and DOPs from the recorded lines of sight (ENU at the reference: a short baseline).
     const used: number[] = [], clockIndex: number[] = [], systemsSeen: GnssSystem[] = [];
+    let belowMask = 0;
     for (let j = j0; j < j1; j++) {
       const ux = rec.los[3 * j], uy = rec.los[3 * j + 1], uz = rec.los[3 * j + 2];
       const e = -Math.sin(gRef.lonRad) * ux + Math.cos(gRef.lonRad) * uy;
@@ -1061,15 +1122,19 @@ class SolutionWriter {
       const withPhase = Number.isFinite(rec.phaseM[j]);
       const residualM = results.residualM[j];
       const variance = withPhase ? singleDifferenceVarianceM2(this.phaseAM, this.phaseBM, rec.elevationRad[j]) : this.codeScale * singleDifferenceVarianceM2(this.codeAM, this.codeBM, rec.elevationRad[j]);
+      if (rec.elevationRad[j] < maskRad) belowMask++;
       sats.push({
         sat: info.id, signal: withPhase ? info.phaseCode : info.code, elevationDeg: rec.elevationRad[j] / DEG, azimuthDeg: az,
         residualM, weight: 1 / variance, wTest: NaN, used: rec.elevationRad[j] >= maskRad && kind !== 'none',
-        reason: rec.elevationRad[j] < maskRad ? `below elevation mask (${(rec.elevationRad[j] / DEG).toFixed(1)} deg)` : withPhase ? '' : 'no phase at both receivers (code only)',
+        reason: rec.elevationRad[j] < maskRad ? `${BELOW_MASK} (${(rec.elevationRad[j] / DEG).toFixed(1)} deg)` : withPhase ? '' : 'no phase at both receivers (code only)',
       });
     }
     // One object literal per epoch, no spread of a shared part: V8 copies a spread object through a slow
     // path that allocates in the old generation, which made the heap of a long session grow several-fold.
     const solved = kind !== 'none';
+    // The satellites left out (rejections()): below the mask, and the others of an epoch without solution.
+    this.belowMaskCount += belowMask;
+    if (!solved) this.unsolvedCount += j1 - j0 - belowMask;
     const arp = { x: results.position[3 * i], y: results.position[3 * i + 1], z: results.position[3 * i + 2] };
     const pos = solved && this.reduceToMark ? arpToMark(arp, c.antenna) : arp;
     const refPoint = this.reduceToMark ? this.refMark : this.refArp;
@@ -1084,7 +1149,7 @@ class SolutionWriter {
       forwardKind: KIND[results.forwardKind[i]], backwardKind: KIND[results.backwardKind[i]],
       ratio: results.ratio[i] > 0 ? results.ratio[i] : NaN, fixedAmbiguities: results.fixedAmbiguities[i],
       kind,
-      reason: !solved ? this.reasons[rec.reason[e]] || 'too few satellites for a solution' : kind === 'float' && results.forwardKind[i] === 2 && results.backwardKind[i] === 2 ? 'forward and backward fixes disagree' : '',
+      reason: !solved ? this.reasons[rec.reason[e]] || this.unsolvedReason(i, e) : kind === 'float' ? this.floatReason(i) : '',
       position: solved ? { ecef: pos, frame: this.frame } : null, geodetic: g,
       baselineEcef, baselineEnu: baselineEcef ? ecefDeltaToEnu(baselineEcef, gRef.latRad, gRef.lonRad) : null,
       satellitesUsed: solved ? results.satellitesUsed[i] : 0, sigmaEnuM: g ? enuSigma(cv, g.latRad, g.lonRad) : null, sigma3dM: solved ? Math.sqrt(cv[0] + cv[3] + cv[5]) : NaN,
