@@ -10,8 +10,9 @@
  *    20 to 90 on the real static run);
  *  - otherwise float: the two float solutions weighted by their covariances (the combination of a
  *    forward and a backward filter, Fraser & Potter 1969, shares only the epoch's own measurements),
- *    their covariance scaled when they contradict each other (scaleByConsistency), the two fixes' spread
- *    in it when both passes fixed and disagree (addSpread), and no ratio when a pass's fix was not taken;
+ *    or, when they contradict each other or both passes fixed and disagree, the covariance of the two
+ *    candidates (floats, or fixes) about that mean (candidatesCovariance); no ratio when a pass's fix
+ *    was not taken;
  *  - one pass only: that pass's solution.
  * An epoch's residuals (EpochResult.residualM) and innovation test (chiSquare, dof) come from the pass whose
  * solution it carries: forward when
@@ -113,42 +114,43 @@ function combine(r: PassResults, i: number, b: EpochResult, agreementM: number):
   // A pass's fix was not taken: its ratio no longer describes the epoch (a ratio >= the threshold, or
   // the held fix's 10000, on a float row would pass a filter on the ratio).
   if (kf === 2 || kb === 2) r.ratio[i] = NaN;
+  // Both passes fixed and disagree, or their floats contradict each other: one of the two is wrong and
+  // the data at hand cannot tell which (a pass holding its integers is as sure of its float as of its
+  // fix; one that has just started is over-confident): the covariance is that of the two candidates.
+  const bothFixed = kf === 2 && kb === 2;
+  const contradict = bothFixed || !consistent(fFloat, bFloat);
   const m = weightedMean(fFloat, bFloat);
-  if (!m) { set(1, r.floatPosition, r.floatCovariance, 3 * i, 6 * i); return from; }
-  // Both passes fixed, a few centimetres each, and disagreed: one fix is wrong, and which one the floats
-  // cannot tell (a pass holding its integers is as sure of its float as of its fix, while the other's
-  // may have just started): the two fixes' spread. Otherwise the floats' own when they contradict.
-  if (kf === 2 && kb === 2) addSpread(m.c, f, bFixed);
-  else scaleByConsistency(m.c, fFloat, bFloat);
-  set(1, m.x, m.c, 0, 0);
+  let x: number[], c: number[];
+  if (m) { x = m.x; c = m.c; } else {
+    // A singular covariance: the pass whose float covariance inverts (the forward's when neither does).
+    const s = inv3(fFloat.covariance, 6 * i) === null && inv3(bFloat.covariance, 0) !== null ? bFloat : fFloat;
+    x = [s.position[3 * s.i], s.position[3 * s.i + 1], s.position[3 * s.i + 2]];
+    c = [s.covariance[6 * s.i], s.covariance[6 * s.i + 1], s.covariance[6 * s.i + 2], s.covariance[6 * s.i + 3], s.covariance[6 * s.i + 4], s.covariance[6 * s.i + 5]];
+  }
+  if (contradict) c = candidatesCovariance(bothFixed ? f : fFloat, bothFixed ? bFixed : bFloat, x);
+  set(1, x, c, 0, 0);
   return from;
 }
 
 /**
- * Both passes fixed and disagreeing: each pass's float filter, conditioned on the integers it holds, is
- * as sure as its fix, so the mean of the floats would carry millimetre sigmas for a position metres off.
- * Which fix is wrong the data at hand cannot tell: the mean's covariance takes the spread of the two
- * fixes, one of two equally likely candidates x +- D/2 having covariance D D' / 4 about their mean (the
- * variance of a two-point distribution).
+ * The covariance about x of two equally likely candidates a and b (one of them wrong): the moment-matched
+ * covariance of their mixture, 1/2 [C_a + (x_a - x)(x_a - x)'] + 1/2 [C_b + (x_b - x)(x_b - x)'] (the
+ * mixture's second moment about x, as the combination step of an interacting multiple model estimator;
+ * Bar-Shalom, Li & Kirubarajan 2001, Estimation with Applications to Tracking and Navigation, ch. 11,
+ * from memory). Two fixes 3 m apart give about 2 m about either; a position sure
+ * to millimetres that the other candidate contradicts by metres is no longer given millimetres.
  */
-function addSpread(c: number[], a: Solution, b: Solution): void {
-  const d = [a.position[3 * a.i] - b.position[3 * b.i], a.position[3 * a.i + 1] - b.position[3 * b.i + 1], a.position[3 * a.i + 2] - b.position[3 * b.i + 2]];
-  // Symmetric 3x3 stored as [xx xy xz yy yz zz].
-  c[0] += 0.25 * d[0] * d[0]; c[1] += 0.25 * d[0] * d[1]; c[2] += 0.25 * d[0] * d[2];
-  c[3] += 0.25 * d[1] * d[1]; c[4] += 0.25 * d[1] * d[2]; c[5] += 0.25 * d[2] * d[2];
-}
-
-/**
- * Two float solutions that contradict each other (a pass just started, its float not yet converged and
- * over-confident, against one that has held its integers for a while): the weighted mean's covariance is
- * scaled by their external consistency, T / 3 with T = D' (C_a + C_b)^-1 D, when above 1 (Birge 1932,
- * Phys. Rev. 40, 207: the ratio of the external to the internal error of a weighted mean; the scale
- * factor of inconsistent measurements, common practice). The mean stays where the weights put it.
- */
-function scaleByConsistency(c: number[], a: Solution, b: Solution): void {
-  const t = mahalanobis2(a, b);
-  if (!(t > 3)) return;
-  for (let k = 0; k < 6; k++) c[k] *= t / 3;
+function candidatesCovariance(a: Solution, b: Solution, x: readonly number[]): number[] {
+  const c = [0, 0, 0, 0, 0, 0];
+  for (const s of [a, b]) {
+    const d = [s.position[3 * s.i] - x[0], s.position[3 * s.i + 1] - x[1], s.position[3 * s.i + 2] - x[2]];
+    const o = 6 * s.i;
+    // Symmetric 3x3 stored as [xx xy xz yy yz zz].
+    c[0] += 0.5 * (s.covariance[o] + d[0] * d[0]); c[1] += 0.5 * (s.covariance[o + 1] + d[0] * d[1]);
+    c[2] += 0.5 * (s.covariance[o + 2] + d[0] * d[2]); c[3] += 0.5 * (s.covariance[o + 3] + d[1] * d[1]);
+    c[4] += 0.5 * (s.covariance[o + 4] + d[1] * d[2]); c[5] += 0.5 * (s.covariance[o + 5] + d[2] * d[2]);
+  }
+  return c;
 }
 
 /** D' (C_a + C_b)^-1 D for the difference D of two solutions (Infinity when the sum is singular). */
