@@ -6,8 +6,13 @@ import { describe, expect, it } from 'vitest';
 import { readAntex } from '@refdelta/core';
 import { readFileSync } from 'node:fs';
 import { gunzipSync } from 'node:zlib';
-import { AntennaWarningWords, readAntexFile } from '../packages/cli/src/carrier-run.js';
+import { readAntexFile } from '../packages/cli/src/carrier-run.js';
 import { dataPath, describeShared } from './support/shared.js';
+import { requireBuiltCli, runCli, tempDir } from './cli-support.js';
+
+const SR = 'cors-and-rover-2018-277/static-run';
+const NAV = ['cors-and-rover-2018-277/reference/glw1277m.18n', 'cors-and-rover-2018-277/reference/glw1277m.18g'].map(dataPath);
+const ANTEX = dataPath('antex/igs20-small.atx');
 
 describeShared('readAntexFile', () => {
   it('reads a gzip ANTEX file as its text unpacked by node:zlib reads', async () => {
@@ -25,23 +30,21 @@ describeShared('readAntexFile', () => {
   });
 });
 
-describe('AntennaWarningWords', () => {
-  const antex = { file: 'cal.atx', antennas: new Map() };
-  const words = new AntennaWarningWords('cal.atx', antex, ['PATCH ANTENNA', 'LEIAR10         NONE']);
-
-  it('says the file name once and names the ANTEX file', () => {
-    const w = words.warning({ file: 'r.obs', code: 'antenna-not-calibrated', message: "r.obs: antenna type 'PATCH ANTENNA' is not in the antenna calibrations given: its phase-centre offset and variation are not applied" });
-    expect(w.message).toBe("antenna type 'PATCH ANTENNA' is not in cal.atx: its phase-centre offset and variation are not applied");
-    expect(w.file).toBe('r.obs');
-  });
-
-  it('replaces the advice to give --antennas with the antennas the file lacks', () => {
-    const w = words.warning({ file: 'r.obs', code: 'antenna-types-differ', message: "the antennas differ (rover 'PATCH ANTENNA', reference 'LEIAR10         NONE') and no calibration is applied to both: x; give --antennas with an ANTEX file" });
-    expect(w.message).toBe("the antennas differ (rover 'PATCH ANTENNA', reference 'LEIAR10         NONE') and no calibration is applied to both: x; the antennas 'PATCH ANTENNA' and 'LEIAR10         NONE' are not in cal.atx");
-  });
-
-  it('leaves other warnings alone', () => {
-    const w = { file: 'r.obs', code: 'bad-epoch-skipped', message: 'r.obs: x' };
-    expect(words.warning(w)).toBe(w);
+describeShared('the antenna warnings of a run given an ANTEX file (real static run; igs20-small.atx holds neither receiver\'s antenna)', () => {
+  it('the observation file is named once (as the warning\'s file), the ANTEX file and the antennas it lacks are named, no advice to give --antennas', () => {
+    requireBuiltCli();
+    const out = tempDir('rd-antex-words-');
+    const r = runCli(['solve', '--rover', dataPath(`${SR}/rover.obs`), '--reference', dataPath(`${SR}/base.obs`), '--nav', ...NAV,
+      '--ref-coord', '3774089.2120,-601661.6157,5089321.2474', '--ref-frame', 'WGS84', '--ref-epoch', '2018.76', '--antennas', ANTEX, '--outputs', 'summary', '--out', out]);
+    expect(r.status, r.stderr).toBe(0);
+    const lines = r.stderr.split('\n').filter((l) => l.includes('is not in'));
+    expect(lines.length).toBeGreaterThan(0);
+    for (const l of lines) {
+      const file = l.match(/^warning: (\S+?): /)?.[1];
+      expect(file, l).toBeDefined();
+      expect(l.split(file!).length - 1, l).toBe(1);
+      expect(l).toContain(`is not in ${ANTEX}`);
+      expect(l).not.toContain('give --antennas');
+    }
   });
 });

@@ -4,9 +4,9 @@
  * summary gives the fix shares of each pass.
  */
 import {
-  findAntenna, readAntex, ReasonCounter, solveCarrierSession, withCarrierDefaults,
+  readAntex, ReasonCounter, solveCarrierSession, withCarrierDefaults,
   type AntexData, type CarrierDynamics, type CarrierEpochSolution, type CarrierOptions, type CarrierSummary, type EpochSolution,
-  type GnssSystem, type NavData, type ObsHeader, type ObsStream, type SessionOptions, type SessionSummary, type SolutionKind, type Warning, type WarningSink,
+  type GnssSystem, type NavData, type ObsHeader, type ObsStream, type SessionOptions, type SessionSummary, type SolutionKind, type WarningSink,
 } from '@refdelta/core';
 import { parseChoice, parseNumber } from './parse-values.js';
 import { openTextFile } from './node-io.js';
@@ -62,8 +62,6 @@ export async function runCarrierSession(
   if (choice.antennasPath) {
     antennas = await readAntexFile(choice.antennasPath, inputs.onWarning);
   }
-  const words = antennas ? new AntennaWarningWords(choice.antennasPath!, antennas, [inputs.rover.header.antennaType, inputs.references[0]!.header.antennaType]) : null;
-  if (words) inputs = { ...inputs, onWarning: words.warnTo(inputs.onWarning) };
   // The records wait for the backward pass in a temporary file, not in memory (record-file.ts).
   const recordStore = new FileRecordStore();
   let run: Awaited<ReturnType<typeof solveCarrierSession>>;
@@ -89,7 +87,7 @@ export async function runCarrierSession(
         satelliteRejections: c.satelliteRejections,
         epochRejections: tally.reasons.list(),
         systemsUsed: [...tally.systems],
-        notes: [...(words ? c.notes.map((n) => words.sentence(n)) : c.notes), carrierSharesSentence(c)],
+        notes: [...c.notes, carrierSharesSentence(c)],
         firstGpsS: tally.firstGpsS, lastGpsS: tally.lastGpsS,
         // The carrier engine estimates no code offsets; it reads the inputs once (forward and backward passes run on its records).
         codeOffsets: [], passes: 1,
@@ -107,39 +105,6 @@ export async function readAntexFile(path: string, onWarning: WarningSink): Promi
   const parts: string[] = [];
   for await (const chunk of t.text) parts.push(chunk);
   return readAntex(path, parts.join(''));
-}
-
-/**
- * The engine's antenna sentences for a run given an ANTEX file: the file name the warning already carries
- * is not repeated in its message, and the advice to give --antennas becomes which antenna that file lacks.
- */
-export class AntennaWarningWords {
-  /** Antenna types of the run's headers that the ANTEX file does not hold. */
-  readonly missing: readonly string[];
-
-  constructor(readonly antexPath: string, antex: AntexData, headerTypes: readonly string[]) {
-    this.missing = [...new Set(headerTypes.map((t) => t.trim()))].filter((t) => findAntenna(antex, t) === null).map((t) => t || 'unknown');
-  }
-
-  sentence(message: string): string {
-    message = message.replace('is not in the antenna calibrations given', `is not in ${this.antexPath}`);
-    const advice = '; give --antennas with an ANTEX file';
-    if (!message.endsWith(advice)) return message;
-    const which = this.missing.map((t) => `'${t}'`).join(' and ');
-    return `${message.slice(0, -advice.length)}; ${this.missing.length > 1 ? 'the antennas' : 'the antenna'} ${which} ${this.missing.length > 1 ? 'are' : 'is'} not in ${this.antexPath}`;
-  }
-
-  /** The warning with its file name said once and the advice replaced. */
-  warning(w: Warning): Warning {
-    if (w.code !== 'antenna-not-calibrated' && w.code !== 'antenna-types-differ') return w;
-    const prefix = w.file ? `${w.file}: ` : '';
-    const message = prefix && w.message.startsWith(prefix) ? w.message.slice(prefix.length) : w.message;
-    return { ...w, message: this.sentence(message) };
-  }
-
-  warnTo(sink: WarningSink): WarningSink {
-    return (w) => sink(this.warning(w));
-  }
 }
 
 /** What the code summary needs from a carrier run's epochs, counted as they pass. */

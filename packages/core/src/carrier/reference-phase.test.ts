@@ -38,6 +38,22 @@ describe('reference phase carried to the rover time', () => {
     expect(buf.align(70)).toBeNull();
   });
 
+  it('after the last epoch (the data ended) and before the first: within one logging interval only (1 s here), not across 30 s', () => {
+    expect(buf.align(26.8)).not.toBeNull();
+    expect(buf.align(28)).toBeNull();
+    const late = new ReferencePhaseBuffer(30, 5);
+    late.add(ep(100, { G01: 1 }));
+    expect(late.align(96)).not.toBeNull();
+    expect(late.align(90)).toBeNull();
+  });
+
+  it('before the first epoch with no logging interval known (no INTERVAL in the header, one epoch read): nothing carried to an earlier time', () => {
+    const first = new ReferencePhaseBuffer(30, null);
+    first.add(ep(100, { G01: 1 }));
+    expect(first.align(80)).toBeNull();
+    expect(first.align(100)).not.toBeNull();
+  });
+
   it('a satellite whose arc changed between the bracketing epochs gets code but no phase', () => {
     const b2 = new ReferencePhaseBuffer(30, 1);
     b2.add(ep(0, { G01: 1 }));

@@ -184,7 +184,8 @@ export class ReferencePhaseBuffer {
     // end: no later epoch means the data ended) there is no gap to bridge: a rover epoch there is not
     // given values older than one logging interval. A pass starting there would begin its ambiguities on
     // the oldest values carried, whose change over the age the phase variance does not hold.
-    if ((e0 === null || e1 === null) && age > this.nominalS + 1e-3) return null;
+    // (A logging interval not known yet, no INTERVAL in the header and one epoch read: none.)
+    if ((e0 === null || e1 === null) && age > (Number.isFinite(this.nominalS) ? this.nominalS : 0) + 1e-3) return null;
     for (const [sat, a] of near.sats) sats.set(sat, a);
     return { sats, ageS: age, interpolated: false, fromGpsS: near.timeGpsS, toGpsS: near.timeGpsS };
   }

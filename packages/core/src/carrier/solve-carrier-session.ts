@@ -206,14 +206,19 @@ export async function solveCarrierSession(open: CarrierInputFactory, options: Se
   if (antex) {
     for (const [t, c, f] of [[roverAntType, roverCal, rover.file], [refAntType, refCal, inputs.references[0].file]] as const) {
       if (!c) {
-        const msg = `${f}: antenna type '${t || 'unknown'}' is not in the antenna calibrations given: its phase-centre offset and variation are not applied`;
-        notes.push(msg);
+        // The warning names its observation file; the note has no file of its own.
+        const msg = `antenna type '${t || 'unknown'}' is not in ${antex.file}: its phase-centre offset and variation are not applied`;
+        notes.push(`${f}: ${msg}`);
         warn({ file: f, code: 'antenna-not-calibrated', message: msg });
       }
     }
   }
   if (roverAntType !== refAntType && (!roverCal || !refCal)) {
-    const msg = `the antennas differ (rover '${roverAntType || 'unknown'}', reference '${refAntType || 'unknown'}') and no calibration is applied to both: their phase-centre difference (millimetres to centimetres, mostly in height) stays in the results; give --antennas with an ANTEX file`;
+    const lacking = [...new Set([roverCal ? null : roverAntType || 'unknown', refCal ? null : refAntType || 'unknown'].filter((x) => x !== null))];
+    const advice = antex
+      ? `${lacking.length > 1 ? 'the antennas' : 'the antenna'} ${lacking.map((x) => `'${x}'`).join(' and ')} ${lacking.length > 1 ? 'are' : 'is'} not in ${antex.file}`
+      : 'give --antennas with an ANTEX file';
+    const msg = `the antennas differ (rover '${roverAntType || 'unknown'}', reference '${refAntType || 'unknown'}') and no calibration is applied to both: their phase-centre difference (millimetres to centimetres, mostly in height) stays in the results; ${advice}`;
     notes.push(msg);
     warn({ file: rover.file, code: 'antenna-types-differ', message: msg });
   }
@@ -546,7 +551,7 @@ class RoverReader {
       let tr = trackers.get(band);
       if (!tr) trackers.set(band, (tr = new ArcTracker(30)));
       const t = tr;
-      out.set(band, { arcs: t.update(ep.timeGpsS, list, ep.listed), halfCycle: (sat) => t.halfCycleUnresolved(sat) });
+      out.set(band, { arcs: t.update(ep.timeGpsS, list, null), halfCycle: (sat) => t.halfCycleUnresolved(sat) });
     }
     return out;
   }
@@ -607,7 +612,7 @@ class RoverReader {
     if (!al) {
       rec.beginEpoch(t, e.tagGpsS, this.x0, isStatic, NaN, context);
       // Past the reference's last epoch (its files read to the end) or before its first: said so (reference-phase.ts).
-      if (this.refDone && t > this.refBuffer.latestTimeGpsS) return 'after the reference\'s last epoch';
+      if (this.refDone && t > this.refSeen.lastGpsS) return 'after the reference\'s last epoch';
       if (!(t >= this.refSeen.firstGpsS)) return 'before the reference\'s first epoch';
       return `no reference epoch within ${this.maxReferenceAgeS} s`;
     }
