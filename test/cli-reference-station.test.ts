@@ -46,6 +46,16 @@ describe('stationDifference: header positions', () => {
   });
 });
 
+describe('stationDifference: marker names', () => {
+  it('one station by its four-character id whatever the case or the RINEX 3 nine-character form (RINEX 3.04 4.1); two ids, two stations', async () => {
+    const h = await obsHeaderOf(KFRD);
+    const named = (markerName: string) => ({ path: markerName, header: { ...h, markerName } });
+    expect(stationDifference(named('GLW1'), named('glw1'))).toBeNull();
+    expect(stationDifference(named('GLW1'), named('GLW100USA'))).toBeNull();
+    expect(stationDifference(named('GLW1'), named('KFRD'))).toBe("MARKER NAME 'GLW1' and 'KFRD'");
+  });
+});
+
 describe('distinctReferencePaths', () => {
   it('keeps a file given twice (by two paths) once, with a warning', async () => {
     const dir = tempDir('rd-refs-');

@@ -47,7 +47,9 @@ export async function distinctReferencePaths(paths: readonly string[], warn: (w:
 /** What makes two reference files two stations' files, in words; null when they may be one station's. */
 export function stationDifference(a: ReferenceFile, b: ReferenceFile): string | null {
   const nameA = a.header.markerName.trim(), nameB = b.header.markerName.trim();
-  if (nameA && nameB && nameA !== nameB) return `MARKER NAME '${nameA}' and '${nameB}'`;
+  // Compared by the four-character station id, without case: RINEX 2 files name a station 'GLW1' or
+  // 'glw1', RINEX 3 ones 'GLW100USA' (the 9-character id begins with the 4-character one; RINEX 3.04 4.1).
+  if (nameA && nameB && nameA.slice(0, 4).toUpperCase() !== nameB.slice(0, 4).toUpperCase()) return `MARKER NAME '${nameA}' and '${nameB}'`;
   const pa = usableHeaderPosition(a.header.approxPosition), pb = usableHeaderPosition(b.header.approxPosition);
   if (pa && pb) {
     const m = Math.hypot(pa.x - pb.x, pa.y - pb.y, pa.z - pb.z);
