@@ -61,7 +61,7 @@ export const VOCABULARY: Readonly<Record<string, VocabularyEntry>> = {
   ratio: { unit: null, meaning: "ratio test statistic of the epoch's integer ambiguity search, the larger of the forward and backward passes (carrier-phase rows; 10000 when the fix rests only on ambiguities held from earlier epochs, see ambiguities_held; larger values written as 10000; empty when no search ran)" },
   fixed_ambiguities: { unit: null, meaning: 'number of integer ambiguities fixed in the epoch (carrier-phase rows)' },
   ambiguities_held: { unit: null, meaning: 'carrier-phase rows: 1 when, in the forward or the backward pass, the fix rests only on ambiguities held from earlier epochs (no further integer passed the ratio test in the epoch; ratio then written as 10000), else 0' },
-  reason: { unit: null, meaning: 'why an epoch or satellite was not used, in words (empty when used)' },
+  reason: { unit: null, meaning: 'why an epoch or satellite was not used, or why a carrier-phase epoch is float, in words (empty when used, and on fixed epochs)' },
   satellite: { unit: null, meaning: 'satellite: RINEX system letter and number (G05, E11...)' },
   signal: { unit: null, meaning: 'RINEX observation code of the observation whose residual the row gives: the pseudorange (C1C...), or on carrier-phase rows the phase (L1C, L2W...) when it was used' },
   elevation_deg: { unit: 'deg', meaning: 'elevation of the satellite at the rover' },
