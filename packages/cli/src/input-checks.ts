@@ -4,6 +4,7 @@ import {
   type GnssSystem, type NavData, type ObsHeader, type ObsStream, type WarningSink,
 } from '@refdelta/core';
 import { openObs } from './node-io.js';
+import { EpochsRead } from './epochs-read.js';
 
 export interface TimeSpan {
   readonly firstGpsS: number;
@@ -17,14 +18,9 @@ export async function obsTimeSpan(path: string, header: ObsHeader, onWarning: Wa
     return { firstGpsS: header.firstObsGpsS, lastGpsS: header.lastObsGpsS };
   }
   const s = await openObs(path, onWarning);
-  let first = NaN;
-  let last = NaN;
-  for await (const ep of s.epochs) {
-    if (ep.flag > 1 || !Number.isFinite(ep.tagGpsS)) continue;
-    if (!Number.isFinite(first)) first = ep.tagGpsS;
-    last = ep.tagGpsS;
-  }
-  return Number.isFinite(first) ? { firstGpsS: first, lastGpsS: last } : null;
+  const read = new EpochsRead();
+  for await (const ep of s.epochs) read.note(ep);
+  return Number.isFinite(read.firstGpsS) ? { firstGpsS: read.firstGpsS, lastGpsS: read.lastGpsS } : null;
 }
 
 /**
